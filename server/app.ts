@@ -1,0 +1,138 @@
+import crypto from 'node:crypto';
+import fs from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import express, { type NextFunction, type Request, type Response } from 'express';
+import session from 'express-session';
+import helmet from 'helmet';
+import { pinoHttp } from 'pino-http';
+import { CSRF_HEADER, CSRF_VALUE } from '../shared/constants/errors';
+import type { AppDeps, FeatureDeps } from './deps';
+import { Forbidden } from './http/errors';
+import { apiNotFound, errorHandler } from './http/error-handler';
+import { secureRouter, type DeclaredRoute, type SecureRouter } from './http/routes';
+import { SqliteSessionStore } from './http/session-store';
+import type { AuthedRequest } from './http/types';
+import { authRoutes, SESSION_COOKIE } from './features/auth/auth.router';
+import { findUserById, toUser } from './features/auth/auth.repo';
+import { adminRoutes } from './features/admin/admin.router';
+
+const here = path.dirname(fileURLToPath(import.meta.url));
+const CLIENT_DIR = path.resolve(here, '../dist/client');
+const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
+const REQUEST_ID = /^[A-Za-z0-9._-]{1,64}$/;
+
+/**
+ * Builds the Express app from its dependencies. Features are composed here and nowhere else:
+ * each contributes a secureRouter mounted under /api.
+ */
+export function createApp(deps: AppDeps) {
+  const sessions = new SqliteSessionStore(deps.database.sqlite);
+  const feature: FeatureDeps = {
+    config: deps.config,
+    database: deps.database,
+    mailer: deps.mailer,
+    logger: deps.logger,
+    now: deps.now ?? (() => new Date()),
+    sessions,
+    bcryptCost: deps.bcryptCost ?? 12,
+  };
+
+  const app = express();
+  app.disable('x-powered-by');
+  const secureCookie = deps.config.appUrl.startsWith('https://');
+  if (secureCookie) app.set('trust proxy', 1);
+
+  app.use(
+    pinoHttp({
+      logger: deps.logger,
+      genReqId: (req, res) => {
+        const incoming = req.headers['x-request-id'];
+        const id = typeof incoming === 'string' && REQUEST_ID.test(incoming) ? incoming : crypto.randomUUID();
+        res.setHeader('X-Request-Id', id);
+        return id;
+      },
+      autoLogging: { ignore: (req) => !req.url?.startsWith('/api') },
+    }),
+  );
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: { 'img-src': ["'self'", 'data:', 'blob:'], 'upgrade-insecure-requests': secureCookie ? [] : null },
+      },
+      // Over plain http on localhost, HSTS would only confuse the browser.
+      strictTransportSecurity: secureCookie,
+    }),
+  );
+  app.use('/api', express.json({ limit: '100kb' }));
+  app.use(
+    '/api',
+    session({
+      name: SESSION_COOKIE,
+      secret: deps.config.sessionSecret ?? crypto.randomBytes(32).toString('hex'),
+      store: sessions,
+      resave: false,
+      saveUninitialized: false,
+      rolling: false,
+      cookie: { httpOnly: true, sameSite: 'lax', secure: secureCookie, maxAge: 7 * 24 * 3600 * 1000, path: '/' },
+    }),
+  );
+
+  // Who is asking: the session names a user id; a user who was disabled or deleted loses the session.
+  app.use('/api', (req: Request, _res: Response, next: NextFunction) => {
+    const areq = req as AuthedRequest;
+    areq.user = null;
+    const userId = req.session?.userId;
+    if (userId === undefined) return next();
+    const row = findUserById(deps.database.db, userId);
+    if (!row || row.disabled) {
+      req.session.destroy(() => next());
+      return;
+    }
+    areq.user = toUser(row);
+    next();
+  });
+
+  // CSRF: cookies are SameSite=Lax, and every write must carry a custom header that a cross-site form
+  // cannot send (and a cross-site script cannot send without a CORS preflight we never grant).
+  app.use('/api', (req: Request, _res: Response, next: NextFunction) => {
+    if (SAFE_METHODS.has(req.method)) return next();
+    if (req.get(CSRF_HEADER) !== CSRF_VALUE) return next(new Forbidden(`Missing the ${CSRF_HEADER} header on a write request`));
+    const origin = req.get('origin');
+    if (origin && new URL(origin).host !== req.get('host')) return next(new Forbidden('Cross-origin write refused'));
+    next();
+  });
+
+  const health = secureRouter();
+  health.get('/health', { access: 'public' }, () => ({ ok: true }));
+
+  const mounted: SecureRouter[] = [
+    health,
+    authRoutes(feature, deps.loginRateLimit ?? { windowMs: 15 * 60_000, limit: 10 }),
+    adminRoutes(feature),
+  ];
+  const declared: DeclaredRoute[] = [];
+  for (const r of mounted) {
+    app.use('/api', r.router);
+    declared.push(...r.declared.map((d) => ({ ...d, path: `/api${d.path}` })));
+  }
+  app.use('/api', apiNotFound);
+
+  if (deps.config.production && fs.existsSync(path.join(CLIENT_DIR, 'index.html'))) {
+    app.use(express.static(CLIENT_DIR, { index: false, maxAge: '1h' }));
+    // Single-page fallback: every non-API path gets the client, whose router decides what to show.
+    app.get('/{*splat}', (_req, res) => res.sendFile(path.join(CLIENT_DIR, 'index.html')));
+  }
+
+  app.use(errorHandler);
+
+  return {
+    app,
+    sessions,
+    declaredRoutes: declared,
+    close() {
+      sessions.close();
+    },
+  };
+}
+export type LumenbookApp = ReturnType<typeof createApp>;

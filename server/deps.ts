@@ -1,0 +1,25 @@
+import type { Logger } from 'pino';
+import type { Database_ } from './db/client';
+import type { Config } from './env';
+import type { SqliteSessionStore } from './http/session-store';
+import type { Mailer } from './mail/mailer';
+
+/** What createApp is built from; tests pass the same things built on a temp directory. */
+export interface AppDeps {
+  config: Config;
+  database: Database_;
+  mailer: Mailer;
+  logger: Logger;
+  /** bcrypt cost; tests lower it so they stay fast, production uses the default. */
+  bcryptCost?: number;
+  /** Sign-in attempts allowed per client per window. */
+  loginRateLimit?: { windowMs: number; limit: number };
+  /** A clock the tests can move (token expiry). */
+  now?: () => Date;
+}
+
+/** Deps as the features see them, with the session store the app created. */
+export interface FeatureDeps extends Required<Pick<AppDeps, 'config' | 'database' | 'mailer' | 'logger' | 'now'>> {
+  sessions: SqliteSessionStore;
+  bcryptCost: number;
+}

@@ -1,0 +1,73 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import { count, desc } from 'drizzle-orm';
+import type { FeatureDeps } from '../../deps';
+import { writeAudit } from '../../db/audit';
+import { outbox, settings } from '../../db/schema/admin';
+import type { ListQuery } from '../../../shared/schemas/common';
+import {
+  DEFAULT_SHOP_SETTINGS,
+  shopSettingsSchema,
+  type OutboxMessage,
+  type ShopSettings,
+  type UpdateShopSettingsInput,
+} from '../../../shared/schemas/admin';
+import type { User } from '../../../shared/schemas/auth';
+
+export function createAdminService(deps: FeatureDeps) {
+  const { db, sqlite } = deps.database;
+
+  function listOutbox(q: ListQuery): { items: OutboxMessage[]; page: number; pageSize: number; total: number } {
+    const rows = db
+      .select()
+      .from(outbox)
+      .orderBy(desc(outbox.id))
+      .limit(q.pageSize)
+      .offset((q.page - 1) * q.pageSize)
+      .all();
+    const total = db.select({ n: count() }).from(outbox).get()?.n ?? 0;
+    return {
+      items: rows.map((r) => ({ id: r.id, createdAt: r.createdAt, from: r.fromAddress, to: r.toAddress, subject: r.subject, text: r.textBody })),
+      page: q.page,
+      pageSize: q.pageSize,
+      total,
+    };
+  }
+
+  /** An online backup through SQLite's backup API: consistent even while the app keeps writing. */
+  async function backup(actor: User): Promise<{ file: string; bytes: number }> {
+    const dir = path.join(deps.config.dataDir, 'backups');
+    fs.mkdirSync(dir, { recursive: true });
+    const name = `lumenbook-${deps.now().toISOString().replace(/[:.]/g, '-')}.db`;
+    const file = path.join(dir, name);
+    await sqlite.backup(file);
+    writeAudit(db, { actorId: actor.id, action: 'backup', entity: 'database', entityId: name });
+    return { file: path.relative(deps.config.dataDir, file), bytes: fs.statSync(file).size };
+  }
+
+  function getSettings(): ShopSettings {
+    const rows = db.select().from(settings).all();
+    const stored = Object.fromEntries(rows.map((r) => [r.key, r.value]));
+    // Stored keys overlay the defaults; a key that no longer validates falls back to its default.
+    const merged = { ...DEFAULT_SHOP_SETTINGS, ...stored };
+    const parsed = shopSettingsSchema.safeParse(merged);
+    return parsed.success ? parsed.data : DEFAULT_SHOP_SETTINGS;
+  }
+
+  function updateSettings(actor: User, input: UpdateShopSettingsInput): ShopSettings {
+    const before = getSettings();
+    db.transaction((tx) => {
+      for (const [key, value] of Object.entries(input)) {
+        if (value === undefined) continue;
+        tx.insert(settings)
+          .values({ key, value, createdBy: actor.id })
+          .onConflictDoUpdate({ target: settings.key, set: { value } })
+          .run();
+      }
+      writeAudit(tx, { actorId: actor.id, action: 'update', entity: 'settings', entityId: null, before, after: { ...before, ...input } });
+    });
+    return getSettings();
+  }
+
+  return { listOutbox, backup, getSettings, updateSettings };
+}

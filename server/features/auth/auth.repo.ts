@@ -1,0 +1,44 @@
+import { and, eq, gt, isNull } from 'drizzle-orm';
+import type { Db } from '../../db/client';
+import { authTokens, users, AUTH_TOKEN_KINDS } from '../../db/schema/auth';
+import type { User } from '../../../shared/schemas/auth';
+
+export type UserRow = typeof users.$inferSelect;
+export type TokenKind = (typeof AUTH_TOKEN_KINDS)[number];
+
+export function toUser(row: UserRow): User {
+  return { id: row.id, email: row.email, name: row.name, role: row.role, unitSystem: row.unitSystem, disabled: row.disabled };
+}
+
+export function findUserByEmail(db: Db, email: string): UserRow | undefined {
+  return db.select().from(users).where(eq(users.email, email)).get();
+}
+
+export function findUserById(db: Db, id: number): UserRow | undefined {
+  return db.select().from(users).where(eq(users.id, id)).get();
+}
+
+export function insertToken(db: Db, values: { userId: number; kind: TokenKind; tokenHash: string; expiresAt: string; createdBy: number | null }) {
+  db.insert(authTokens).values(values).run();
+}
+
+/** A token that is of this kind, not used and not expired at `nowIso`. */
+export function findLiveToken(db: Db, tokenHash: string, kind: TokenKind, nowIso: string) {
+  return db
+    .select()
+    .from(authTokens)
+    .where(and(eq(authTokens.tokenHash, tokenHash), eq(authTokens.kind, kind), isNull(authTokens.usedAt), gt(authTokens.expiresAt, nowIso)))
+    .get();
+}
+
+export function markTokenUsed(db: Db, id: number, nowIso: string) {
+  db.update(authTokens).set({ usedAt: nowIso }).where(eq(authTokens.id, id)).run();
+}
+
+/** Earlier unused tokens of the same kind stop working when a new one is issued. */
+export function retireTokens(db: Db, userId: number, kind: TokenKind, nowIso: string) {
+  db.update(authTokens)
+    .set({ usedAt: nowIso })
+    .where(and(eq(authTokens.userId, userId), eq(authTokens.kind, kind), isNull(authTokens.usedAt)))
+    .run();
+}

@@ -1,0 +1,162 @@
+import bcrypt from 'bcryptjs';
+import { asc, count, desc, eq, sql } from 'drizzle-orm';
+import type { FeatureDeps } from '../../deps';
+import { writeAudit } from '../../db/audit';
+import { authTokens, users } from '../../db/schema/auth';
+import { Conflict, NotFound, Unauthenticated, ValidationFailed } from '../../http/errors';
+import type { User } from '../../../shared/schemas/auth';
+import type { AdminUser, InviteUserInput, UpdateUserInput } from '../../../shared/schemas/admin';
+import type { ListQuery } from '../../../shared/schemas/common';
+import { findLiveToken, findUserByEmail, findUserById, insertToken, markTokenUsed, retireTokens, toUser } from './auth.repo';
+import { hashToken, newToken } from './tokens';
+
+const INVITATION_HOURS = 72;
+const RESET_HOURS = 1;
+// Compared against when the e-mail is unknown, so a wrong e-mail costs as long as a wrong password.
+const DUMMY_HASH = bcrypt.hashSync('not-a-real-password-at-all', 10);
+
+export function createAuthService(deps: FeatureDeps) {
+  const { db } = deps.database;
+  const iso = () => deps.now().toISOString();
+  const later = (hours: number) => new Date(deps.now().getTime() + hours * 3600_000).toISOString();
+
+  async function verifyLogin(email: string, password: string): Promise<User> {
+    const row = findUserByEmail(db, email);
+    const ok = await bcrypt.compare(password, row?.passwordHash ?? DUMMY_HASH);
+    // One answer for unknown e-mail, wrong password and disabled account: nothing to enumerate.
+    if (!row || !row.passwordHash || !ok || row.disabled) throw new Unauthenticated('E-mail or password is not right');
+    return toUser(row);
+  }
+
+  async function requestPasswordReset(email: string): Promise<void> {
+    const row = findUserByEmail(db, email);
+    if (!row || row.disabled || !row.passwordHash) return;
+    const { token, hash } = newToken();
+    db.transaction((tx) => {
+      retireTokens(tx, row.id, 'password-reset', iso());
+      insertToken(tx, { userId: row.id, kind: 'password-reset', tokenHash: hash, expiresAt: later(RESET_HOURS), createdBy: null });
+    });
+    const link = `${deps.config.appUrl}/reset-password?token=${token}`;
+    await deps.mailer.send({
+      to: row.email,
+      subject: 'Reset your Lumenbook password',
+      text: `Someone asked to reset the Lumenbook password for ${row.email}.\n\nTo choose a new password, open this link within ${RESET_HOURS} hour:\n${link}\n\nIf it was not you, ignore this message; your password stays as it is.`,
+    });
+  }
+
+  async function confirmPasswordReset(token: string, password: string): Promise<void> {
+    const found = findLiveToken(db, hashToken(token), 'password-reset', iso());
+    if (!found) throw new ValidationFailed('This reset link is not valid any more; ask for a new one', { token: ['Link expired or already used'] });
+    const hashPw = await bcrypt.hash(password, deps.bcryptCost);
+    db.transaction((tx) => {
+      markTokenUsed(tx, found.id, iso());
+      tx.update(users).set({ passwordHash: hashPw }).where(eq(users.id, found.userId)).run();
+      writeAudit(tx, { actorId: found.userId, action: 'password-reset', entity: 'user', entityId: found.userId });
+    });
+    // Whoever held the old password loses their sessions.
+    deps.sessions.destroyUserSessions(found.userId);
+  }
+
+  async function acceptInvitation(token: string, password: string, name: string): Promise<User> {
+    const found = findLiveToken(db, hashToken(token), 'invitation', iso());
+    if (!found) throw new ValidationFailed('This invitation link is not valid any more; ask the admin for a new one', { token: ['Link expired or already used'] });
+    const hashPw = await bcrypt.hash(password, deps.bcryptCost);
+    const row = db.transaction((tx) => {
+      markTokenUsed(tx, found.id, iso());
+      tx.update(users).set({ passwordHash: hashPw, name }).where(eq(users.id, found.userId)).run();
+      writeAudit(tx, { actorId: found.userId, action: 'invitation-accepted', entity: 'user', entityId: found.userId });
+      return findUserById(tx, found.userId);
+    });
+    if (!row || row.disabled) throw new Unauthenticated('This account is disabled');
+    return toUser(row);
+  }
+
+  function updatePreferences(userId: number, input: { unitSystem?: User['unitSystem']; name?: string }): User {
+    db.update(users).set(input).where(eq(users.id, userId)).run();
+    const row = findUserById(db, userId);
+    if (!row) throw new NotFound('User');
+    return toUser(row);
+  }
+
+  function listUsers(q: ListQuery): { items: AdminUser[]; page: number; pageSize: number; total: number } {
+    const sortable = { name: users.name, email: users.email, role: users.role, createdAt: users.createdAt } as const;
+    const key = (q.sort?.replace(/^-/, '') ?? 'name') as keyof typeof sortable;
+    const column = sortable[key];
+    if (!column) throw new ValidationFailed('Unknown sort field', { sort: [`Sort by one of ${Object.keys(sortable).join(', ')}`] });
+    const rows = db
+      .select()
+      .from(users)
+      .orderBy(q.sort?.startsWith('-') ? desc(column) : asc(column), asc(users.id))
+      .limit(q.pageSize)
+      .offset((q.page - 1) * q.pageSize)
+      .all();
+    const total = db.select({ n: count() }).from(users).get()?.n ?? 0;
+    return {
+      items: rows.map((r) => ({ ...toUser(r), createdAt: r.createdAt, invitationPending: r.passwordHash === null })),
+      page: q.page,
+      pageSize: q.pageSize,
+      total,
+    };
+  }
+
+  async function invite(actor: User, input: InviteUserInput): Promise<AdminUser> {
+    const existing = findUserByEmail(db, input.email);
+    if (existing && existing.passwordHash) throw new Conflict('A user with this e-mail already exists', { email: ['Already a user'] });
+    const { token, hash } = newToken();
+    const row = db.transaction((tx) => {
+      let userId: number;
+      if (existing) {
+        // Re-inviting someone who never accepted: refresh name and role, retire the old link.
+        tx.update(users).set({ name: input.name, role: input.role }).where(eq(users.id, existing.id)).run();
+        retireTokens(tx, existing.id, 'invitation', iso());
+        userId = existing.id;
+      } else {
+        userId = tx
+          .insert(users)
+          .values({ email: input.email, name: input.name, role: input.role, createdBy: actor.id })
+          .returning({ id: users.id })
+          .get().id;
+      }
+      insertToken(tx, { userId, kind: 'invitation', tokenHash: hash, expiresAt: later(INVITATION_HOURS), createdBy: actor.id });
+      writeAudit(tx, { actorId: actor.id, action: 'invite', entity: 'user', entityId: userId, after: { email: input.email, role: input.role } });
+      return findUserById(tx, userId)!;
+    });
+    const link = `${deps.config.appUrl}/accept-invitation?token=${token}`;
+    await deps.mailer.send({
+      to: input.email,
+      subject: 'You are invited to Lumenbook',
+      text: `${actor.name} invited you to the shop's Lumenbook as ${input.role}.\n\nTo choose your password and sign in, open this link within ${INVITATION_HOURS} hours (it works once):\n${link}\n`,
+    });
+    return { ...toUser(row), createdAt: row.createdAt, invitationPending: true };
+  }
+
+  function updateUser(actor: User, id: number, input: UpdateUserInput): AdminUser {
+    const before = findUserById(db, id);
+    if (!before) throw new NotFound('User');
+    if (id === actor.id && (input.disabled === true || (input.role && input.role !== 'admin'))) {
+      throw new Conflict('You cannot disable yourself or take away your own admin role', { [input.disabled ? 'disabled' : 'role']: ['Not on your own account'] });
+    }
+    const row = db.transaction((tx) => {
+      tx.update(users).set(input).where(eq(users.id, id)).run();
+      const after = findUserById(tx, id)!;
+      writeAudit(tx, {
+        actorId: actor.id,
+        action: 'update',
+        entity: 'user',
+        entityId: id,
+        before: { role: before.role, disabled: before.disabled },
+        after: { role: after.role, disabled: after.disabled },
+      });
+      return after;
+    });
+    if (row.disabled) deps.sessions.destroyUserSessions(id);
+    return { ...toUser(row), createdAt: row.createdAt, invitationPending: row.passwordHash === null };
+  }
+
+  function pendingTokenCount(): number {
+    return db.select({ n: count() }).from(authTokens).where(sql`${authTokens.usedAt} IS NULL`).get()?.n ?? 0;
+  }
+
+  return { verifyLogin, requestPasswordReset, confirmPasswordReset, acceptInvitation, updatePreferences, listUsers, invite, updateUser, pendingTokenCount };
+}
+export type AuthService = ReturnType<typeof createAuthService>;

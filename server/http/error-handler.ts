@@ -1,0 +1,47 @@
+import type { ErrorRequestHandler, RequestHandler } from 'express';
+import { STATUS_OF, type ErrorCode } from '../../shared/constants/errors';
+import type { ErrorEnvelope } from '../../shared/schemas/common';
+import { AppError } from './errors';
+import type { AuthedRequest } from './types';
+
+function envelope(code: ErrorCode, message: string, requestId: unknown, fieldErrors?: Record<string, string[]>): ErrorEnvelope {
+  return { error: { code, message, ...(fieldErrors ? { fieldErrors } : {}), requestId: requestId ? String(requestId) : undefined } };
+}
+
+/** Unknown /api paths answer the envelope, never the SPA's HTML. */
+export const apiNotFound: RequestHandler = (req, res) => {
+  res.status(404).json(envelope('not_found', `No API route ${req.method} ${req.path}`, (req as AuthedRequest).id));
+};
+
+/**
+ * The one error middleware. Known errors keep their message; body-parser's errors get plain words;
+ * everything else is a 500 whose stack goes to the log only.
+ */
+export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
+  const requestId = (req as AuthedRequest).id;
+  if (res.headersSent) return;
+  if (err instanceof AppError) {
+    res.status(STATUS_OF[err.code]).json(envelope(err.code, err.message, requestId, err.fieldErrors));
+    return;
+  }
+  const type = (err as { type?: string }).type;
+  if (type === 'entity.too.large') {
+    res.status(413).json(envelope('payload_too_large', 'The request body is too large', requestId));
+    return;
+  }
+  if (type === 'entity.parse.failed') {
+    res.status(400).json(envelope('validation_failed', 'The request body is not valid JSON', requestId, { _: ['Malformed JSON'] }));
+    return;
+  }
+  if (type === 'encoding.unsupported' || type === 'charset.unsupported') {
+    res.status(400).json(envelope('validation_failed', 'Unsupported body encoding', requestId));
+    return;
+  }
+  const code = (err as { code?: string }).code;
+  if (code === 'LIMIT_FILE_SIZE') {
+    res.status(413).json(envelope('payload_too_large', 'The uploaded file is too large', requestId, { file: ['File too large'] }));
+    return;
+  }
+  req.log?.error({ err }, 'unhandled error');
+  res.status(500).json(envelope('internal', 'Something went wrong on the server; the request id identifies it in the log', requestId));
+};

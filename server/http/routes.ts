@@ -1,0 +1,112 @@
+import { Router, type NextFunction, type Request, type Response } from 'express';
+import type { z } from 'zod';
+import { roleAtLeast, type Role } from '../../shared/constants/roles';
+import type { User } from '../../shared/schemas/auth';
+import { Forbidden, Unauthenticated, ValidationFailed } from './errors';
+import type { AuthedRequest } from './types';
+import { zodFieldErrors } from './zod-errors';
+
+/**
+ * Every API route is declared through `secureRouter`, whose methods demand an access rule. The rule's
+ * middleware is always the first handler of the route and is tagged, so a test can walk the mounted
+ * app and prove that no route exists without one (deny by default).
+ *
+ *   'public'  — anyone, signed in or not (sign-in, password reset, health)
+ *   a Role    — a signed-in, enabled user of at least that role (ROLES order)
+ */
+export type AccessRule = 'public' | Role;
+
+export const ACCESS_TAG = Symbol.for('lumenbook.access');
+
+type Schemas = { body?: z.ZodType; query?: z.ZodType; params?: z.ZodType };
+type Parsed<S extends Schemas, K extends keyof Schemas> = S[K] extends z.ZodType ? z.output<S[K]> : undefined;
+
+export interface RouteContext<S extends Schemas, U> {
+  body: Parsed<S, 'body'>;
+  query: Parsed<S, 'query'>;
+  params: Parsed<S, 'params'>;
+  user: U;
+  req: AuthedRequest;
+  res: Response;
+}
+
+type UserFor<R extends AccessRule> = R extends 'public' ? User | null : User;
+
+export interface RouteOptions<R extends AccessRule, S extends Schemas> {
+  access: R;
+  schemas?: S;
+  /** HTTP status for a successful answer (default 200). */
+  status?: number;
+}
+
+/** A handler returns the JSON body, or undefined after answering through `res` itself. */
+type Handler<R extends AccessRule, S extends Schemas> = (ctx: RouteContext<S, UserFor<R>>) => unknown;
+
+export interface DeclaredRoute {
+  method: string;
+  path: string;
+  access: AccessRule;
+}
+
+export function accessMiddleware(rule: AccessRule) {
+  const mw = (req: AuthedRequest, _res: Response, next: NextFunction) => {
+    if (rule === 'public') return next();
+    if (!req.user) return next(new Unauthenticated());
+    if (!roleAtLeast(req.user.role, rule)) return next(new Forbidden(`This needs the ${rule} role or higher`));
+    next();
+  };
+  Object.defineProperty(mw, ACCESS_TAG, { value: rule });
+  return mw;
+}
+
+function parsePart(schema: z.ZodType | undefined, value: unknown, part: string): unknown {
+  if (!schema) return undefined;
+  const result = schema.safeParse(value ?? {});
+  if (!result.success) {
+    throw new ValidationFailed(`Invalid ${part}: ${result.error.issues[0]?.message ?? 'check the fields'}`, zodFieldErrors(result.error));
+  }
+  return result.data;
+}
+
+export function secureRouter() {
+  const router = Router();
+  const declared: DeclaredRoute[] = [];
+
+  function add(method: 'get' | 'post' | 'patch' | 'put' | 'delete') {
+    return <R extends AccessRule, S extends Schemas = Record<never, never>>(
+      path: string,
+      options: RouteOptions<R, S>,
+      handler: Handler<R, S>,
+    ) => {
+      declared.push({ method: method.toUpperCase(), path, access: options.access });
+      const run = async (req: Request, res: Response) => {
+        const areq = req as AuthedRequest;
+        const s = options.schemas ?? ({} as S);
+        const ctx = {
+          body: parsePart(s.body, req.body, 'body'),
+          query: parsePart(s.query, req.query, 'query'),
+          params: parsePart(s.params, req.params, 'path'),
+          user: areq.user ?? null,
+          req: areq,
+          res,
+        } as RouteContext<S, UserFor<R>>;
+        const result = await handler(ctx);
+        if (res.headersSent) return;
+        if (result === undefined) res.status(options.status ?? 204).end();
+        else res.status(options.status ?? 200).json(result);
+      };
+      router[method](path, accessMiddleware(options.access), run);
+    };
+  }
+
+  return {
+    router,
+    declared,
+    get: add('get'),
+    post: add('post'),
+    patch: add('patch'),
+    put: add('put'),
+    delete: add('delete'),
+  };
+}
+export type SecureRouter = ReturnType<typeof secureRouter>;

@@ -1,0 +1,67 @@
+import crypto from 'node:crypto';
+import fs from 'node:fs';
+import path from 'node:path';
+import { pino } from 'pino';
+import { createApp } from './app';
+import { openDatabase } from './db/client';
+import { DEMO_PASSWORD, DEMO_USERS, seedDemo } from './db/seed';
+import { loadConfig } from './env';
+import { createMailer } from './mail/mailer';
+
+/** A session secret that survives restarts without anyone having to set one: kept in DATA_DIR. */
+function sessionSecret(dataDir: string, fromEnv: string | undefined): string {
+  if (fromEnv) return fromEnv;
+  const file = path.join(dataDir, 'session-secret');
+  if (fs.existsSync(file)) return fs.readFileSync(file, 'utf8').trim();
+  const secret = crypto.randomBytes(32).toString('hex');
+  fs.writeFileSync(file, secret, { mode: 0o600 });
+  return secret;
+}
+
+async function main() {
+  const config = loadConfig();
+  const logger = pino({ level: config.logLevel });
+  fs.mkdirSync(config.dataDir, { recursive: true });
+  config.sessionSecret = sessionSecret(config.dataDir, config.sessionSecret);
+
+  const database = openDatabase(path.join(config.dataDir, 'lumenbook.db'));
+  const seeded = config.demoData && seedDemo(database);
+  const mailer = await createMailer(config, database.db, logger);
+  const lumenbook = createApp({ config, database, mailer, logger });
+
+  const server = lumenbook.app.listen(config.port, config.host, (err?: Error) => {
+    // Express 5 reports listen errors (EADDRINUSE…) here rather than throwing.
+    if (err) {
+      logger.fatal({ err }, `cannot listen on port ${config.port}`);
+      process.exit(1);
+    }
+    logger.info(`Lumenbook is serving at ${config.appUrl}`);
+    if (seeded) logger.info('Demo data written on first start.');
+    if (config.demoData) {
+      logger.info(`Demo sign-in: ${DEMO_USERS.map((u) => u.email).join(' | ')} — password: ${DEMO_PASSWORD}`);
+    }
+  });
+
+  let closing = false;
+  const shutdown = (signal: string) => {
+    if (closing) return;
+    closing = true;
+    logger.info({ signal }, 'shutting down');
+    server.close(() => {
+      lumenbook.close();
+      void mailer.close().finally(() => {
+        database.close();
+        process.exit(0);
+      });
+    });
+    server.closeAllConnections();
+    setTimeout(() => process.exit(1), 10_000).unref();
+  };
+  process.on('SIGINT', () => shutdown('SIGINT'));
+  process.on('SIGTERM', () => shutdown('SIGTERM'));
+}
+
+main().catch((err: unknown) => {
+  console.error(err);
+  process.exit(1);
+});

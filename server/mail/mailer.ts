@@ -1,0 +1,78 @@
+import { simpleParser } from 'mailparser';
+import nodemailer, { type Transporter } from 'nodemailer';
+import { SMTPServer } from 'smtp-server';
+import type { Logger } from 'pino';
+import type { Config } from '../env';
+import type { Db } from '../db/client';
+import { outbox } from '../db/schema/admin';
+
+export interface Mailer {
+  send(message: { to: string; subject: string; text: string }): Promise<void>;
+  close(): Promise<void>;
+  /** Where the fake SMTP server listens, when it is the one in use. */
+  fakeSmtpPort: number | null;
+}
+
+/**
+ * Mail goes through nodemailer over real SMTP. Without SMTP settings (the default everywhere but a
+ * configured production) we start an in-process SMTP server on 127.0.0.1 that files every message in
+ * the `outbox` table, so invitations and resets work on a fresh clone and nothing leaves the machine.
+ */
+export async function createMailer(config: Pick<Config, 'smtp' | 'mailFrom'>, db: Db, logger: Logger): Promise<Mailer> {
+  let fake: SMTPServer | null = null;
+  let transport: Transporter;
+  let fakeSmtpPort: number | null = null;
+
+  if (config.smtp) {
+    transport = nodemailer.createTransport({
+      host: config.smtp.host,
+      port: config.smtp.port,
+      secure: config.smtp.secure,
+      auth: config.smtp.user ? { user: config.smtp.user, pass: config.smtp.pass ?? '' } : undefined,
+    });
+  } else {
+    fake = new SMTPServer({
+      authOptional: true,
+      disabledCommands: ['STARTTLS', 'AUTH'],
+      logger: false,
+      onData(stream, _session, callback) {
+        simpleParser(stream)
+          .then((parsed) => {
+            const to = Array.isArray(parsed.to) ? parsed.to.map((a) => a.text).join(', ') : (parsed.to?.text ?? '');
+            db.insert(outbox)
+              .values({
+                fromAddress: parsed.from?.text ?? '',
+                toAddress: to,
+                subject: parsed.subject ?? '',
+                textBody: parsed.text ?? '',
+                raw: parsed.textAsHtml ?? parsed.text ?? '',
+              })
+              .run();
+            callback();
+          })
+          .catch((err: Error) => callback(err));
+      },
+    });
+    const server = fake;
+    fakeSmtpPort = await new Promise<number>((resolve, reject) => {
+      server.once('error', reject);
+      server.listen(0, '127.0.0.1', () => {
+        const addr = server.server.address();
+        resolve(typeof addr === 'object' && addr ? addr.port : 0);
+      });
+    });
+    transport = nodemailer.createTransport({ host: '127.0.0.1', port: fakeSmtpPort, secure: false, ignoreTLS: true });
+    logger.info({ port: fakeSmtpPort }, 'fake SMTP server files outgoing mail in the outbox');
+  }
+
+  return {
+    fakeSmtpPort,
+    async send({ to, subject, text }) {
+      await transport.sendMail({ from: config.mailFrom, to, subject, text });
+    },
+    async close() {
+      transport.close();
+      if (fake) await new Promise<void>((resolve) => fake!.close(() => resolve()));
+    },
+  };
+}

@@ -1,0 +1,42 @@
+import { z } from 'zod';
+import { ERROR_CODES } from '../constants/errors';
+
+export const errorEnvelopeSchema = z.object({
+  error: z.object({
+    code: z.enum(ERROR_CODES),
+    message: z.string(),
+    fieldErrors: z.record(z.string(), z.array(z.string())).optional(),
+    requestId: z.string().optional(),
+  }),
+});
+export type ErrorEnvelope = z.infer<typeof errorEnvelopeSchema>;
+
+/** `?page=&pageSize=&sort=` for every list. `sort` is a field name, `-field` for descending. */
+export const listQuerySchema = z.strictObject({
+  page: z.coerce.number().int().min(1).default(1),
+  pageSize: z.coerce.number().int().min(1).max(200).default(50),
+  sort: z
+    .string()
+    .max(40)
+    .regex(/^-?[a-zA-Z]+$/, 'sort is a field name, optionally prefixed with -')
+    .optional(),
+});
+export type ListQuery = z.infer<typeof listQuerySchema>;
+
+export function listResponseSchema<T extends z.ZodType>(item: T) {
+  return z.object({
+    items: z.array(item),
+    page: z.number().int(),
+    pageSize: z.number().int(),
+    total: z.number().int(),
+  });
+}
+
+export const idParamsSchema = z.strictObject({ id: z.coerce.number().int().positive() });
+
+export const emailSchema = z.email('Enter a valid e-mail address').max(254).transform((s) => s.toLowerCase());
+export const passwordSchema = z
+  .string()
+  .min(12, 'Use at least 12 characters')
+  .max(200, 'Use at most 200 characters');
+export const nameSchema = z.string().trim().min(1, 'Enter a name').max(120);
