@@ -4,7 +4,7 @@ import path from 'node:path';
 import { pino } from 'pino';
 import { createApp } from './app';
 import { openDatabase } from './db/client';
-import { DEMO_PASSWORD, DEMO_USERS, seedDemo } from './db/seed';
+import { DEMO_PASSWORD, DEMO_USERS, seedDemo, seedReference } from './seed';
 import { loadConfig } from './env';
 import { createMailer } from './mail/mailer';
 
@@ -25,7 +25,7 @@ async function main() {
   config.sessionSecret = sessionSecret(config.dataDir, config.sessionSecret);
 
   const database = openDatabase(path.join(config.dataDir, 'lumenbook.db'));
-  const seeded = config.demoData && seedDemo(database);
+  const seeded = config.demoData ? seedDemo(database) : (seedReference(database), false);
   const mailer = await createMailer(config, database.db, logger);
   const lumenbook = createApp({ config, database, mailer, logger });
 

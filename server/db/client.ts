@@ -6,8 +6,12 @@ import { drizzle, type BetterSQLite3Database } from 'drizzle-orm/better-sqlite3'
 import { migrate } from 'drizzle-orm/better-sqlite3/migrator';
 import * as authSchema from './schema/auth';
 import * as adminSchema from './schema/admin';
+import * as referenceSchema from './schema/reference';
+import * as trialsSchema from './schema/trials';
+import * as runsSchema from './schema/runs';
+import * as couponsSchema from './schema/coupons';
 
-export const schema = { ...authSchema, ...adminSchema };
+export const schema = { ...authSchema, ...adminSchema, ...referenceSchema, ...trialsSchema, ...runsSchema, ...couponsSchema };
 export type Db = BetterSQLite3Database<typeof schema>;
 
 export interface Database_ {

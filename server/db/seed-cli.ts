@@ -1,7 +1,7 @@
 import path from 'node:path';
 import { loadConfig } from '../env';
 import { openDatabase } from './client';
-import { DEMO_PASSWORD, DEMO_USERS, seedDemo } from './seed';
+import { DEMO_PASSWORD, DEMO_USERS, seedDemo } from '../seed';
 
 const config = loadConfig();
 const database = openDatabase(path.join(config.dataDir, 'lumenbook.db'));

@@ -8,7 +8,7 @@ import { CSRF_HEADER, CSRF_VALUE } from '../../shared/constants/errors';
 import { createApp, type LumenbookApp } from '../app';
 import { openDatabase, type Database_ } from '../db/client';
 import { outbox } from '../db/schema/admin';
-import { DEMO_PASSWORD, seedDemo } from '../db/seed';
+import { DEMO_PASSWORD, seedDemo } from '../seed';
 import { loadConfig, type Config } from '../env';
 import { createMailer, type Mailer } from '../mail/mailer';
 

@@ -1,0 +1,66 @@
+import { index, integer, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import { GAUGE_UNITS, RUN_STAGES } from '../../../shared/constants/records';
+import { users } from './auth';
+import { createdAt, createdBy, id } from './columns';
+import { resinLots } from './reference';
+
+/** One chamber cycle. Stage times and readings are in run_stages / run_readings. */
+export const runs = sqliteTable(
+  'runs',
+  {
+    id: id(),
+    code: text('code').notNull(),
+    chamber: text('chamber').notNull(),
+    resinLotId: integer('resin_lot_id').references(() => resinLots.id),
+    /** Shop altitude when the run was made, metres; fixes the ambient pressure for the gauge arithmetic. */
+    altitudeM: real('altitude_m').notNull(),
+    notes: text('notes'),
+    createdAt: createdAt(),
+    createdBy: createdBy().references(() => users.id),
+  },
+  (t) => [uniqueIndex('runs_code_unique').on(t.code), index('runs_lot_idx').on(t.resinLotId)],
+);
+
+export const runStages = sqliteTable(
+  'run_stages',
+  {
+    id: id(),
+    runId: integer('run_id')
+      .notNull()
+      .references(() => runs.id, { onDelete: 'cascade' }),
+    stage: text('stage', { enum: RUN_STAGES }).notNull(),
+    startedAt: text('started_at').notNull(),
+    endedAt: text('ended_at'),
+    /** Planned length, minutes, so the bench can say when the stage is due to end. */
+    plannedMinutes: integer('planned_minutes'),
+    /** Vacuum stage: when bubbling stopped. */
+    bubblingStoppedAt: text('bubbling_stopped_at'),
+    /** Cure (and drying) stage: oven set point and the separate thermometer's reading, °C. */
+    ovenSetC: real('oven_set_c'),
+    ovenMeasuredC: real('oven_measured_c'),
+    notes: text('notes'),
+    createdAt: createdAt(),
+    createdBy: createdBy().references(() => users.id),
+  },
+  (t) => [uniqueIndex('run_stages_run_stage_unique').on(t.runId, t.stage), index('run_stages_run_idx').on(t.runId)],
+);
+
+/** A vacuum gauge reading as the gauge shows it, with the absolute pressure worked out at entry. */
+export const runReadings = sqliteTable(
+  'run_readings',
+  {
+    id: id(),
+    runId: integer('run_id')
+      .notNull()
+      .references(() => runs.id, { onDelete: 'cascade' }),
+    stage: text('stage', { enum: RUN_STAGES }).notNull(),
+    at: text('at').notNull(),
+    gaugeValue: real('gauge_value').notNull(),
+    gaugeUnit: text('gauge_unit', { enum: GAUGE_UNITS }).notNull(),
+    absoluteKpa: real('absolute_kpa').notNull(),
+    percentVacuum: real('percent_vacuum').notNull(),
+    createdAt: createdAt(),
+    createdBy: createdBy().references(() => users.id),
+  },
+  (t) => [index('run_readings_run_idx').on(t.runId)],
+);

@@ -1,0 +1,66 @@
+import bcrypt from 'bcryptjs';
+import { count } from 'drizzle-orm';
+import { eq } from 'drizzle-orm';
+import type { Database_, Db } from './db/client';
+import { settings } from './db/schema/admin';
+import { users } from './db/schema/auth';
+import type { Role } from '../shared/constants/roles';
+
+/** Password of every demo account; the demo exists only for trying the app, never for a real shop. */
+export const DEMO_PASSWORD = 'lumenbook-demo';
+
+// An invented shop and invented people. Any likeness to a real shop or person is accidental.
+export const DEMO_USERS = [
+  { email: 'admin@demo.test', name: 'Wren Ashdown (owner)', role: 'admin' },
+  { email: 'reviewer@demo.test', name: 'Ilse Marrow (quality)', role: 'reviewer' },
+  { email: 'tech@demo.test', name: 'Teo Brackett (bench)', role: 'technician' },
+  { email: 'viewer@demo.test', name: 'Juno Pell (apprentice)', role: 'viewer' },
+] as const;
+
+export const DEMO_SHOP = { shopName: 'Quillfern Hollow Blank Works (demo)', altitudeM: 1600 };
+
+export function isEmpty(database: Database_): boolean {
+  return (database.db.select({ n: count() }).from(users).get()?.n ?? 0) === 0;
+}
+
+/** What a feature's demo seeder gets: the transaction, the demo users by role, and a fixed "now". */
+export interface DemoContext {
+  tx: Db;
+  userIds: Record<Role, number>;
+  now: Date;
+}
+export type DemoSeeder = (ctx: DemoContext) => void;
+
+/**
+ * Reference data every installation needs (published handbook species), written whenever it is missing,
+ * demo or not. Features register theirs here.
+ */
+const referenceSeeders: ((db: Db) => void)[] = [];
+
+/** Feature demo seeders, run in this order inside the one demo transaction. */
+const demoSeeders: DemoSeeder[] = [];
+
+export function seedReference(database: Database_): void {
+  database.db.transaction((tx) => {
+    for (const seed of referenceSeeders) seed(tx);
+  });
+}
+
+/**
+ * Writes the demo scenario into an empty database, in one transaction: all of it or none of it.
+ */
+export function seedDemo(database: Database_, options: { bcryptCost?: number; now?: Date } = {}): boolean {
+  seedReference(database);
+  if (!isEmpty(database)) return false;
+  const hash = bcrypt.hashSync(DEMO_PASSWORD, options.bcryptCost ?? 12);
+  database.db.transaction((tx) => {
+    for (const u of DEMO_USERS) tx.insert(users).values({ ...u, passwordHash: hash }).run();
+    for (const [key, value] of Object.entries(DEMO_SHOP)) tx.insert(settings).values({ key, value }).run();
+    const userIds = Object.fromEntries(
+      DEMO_USERS.map((u) => [u.role, tx.select({ id: users.id }).from(users).where(eq(users.email, u.email)).get()!.id]),
+    ) as Record<Role, number>;
+    const ctx: DemoContext = { tx, userIds, now: options.now ?? new Date() };
+    for (const seed of demoSeeders) seed(ctx);
+  });
+  return true;
+}
