@@ -35,11 +35,15 @@ async function main() {
       logger.fatal({ err }, `cannot listen on port ${config.port}`);
       process.exit(1);
     }
-    logger.info(`Lumenbook is serving at ${config.appUrl}`);
-    if (seeded) logger.info('Demo data written on first start.');
+    logger.info({ url: config.appUrl }, 'listening');
+    // A plain banner for the person who just typed `npm start`, whatever the log format.
+    const lines = [`Lumenbook is serving at ${config.appUrl}`];
+    if (seeded) lines.push('Demo data written on first start (an invented shop).');
     if (config.demoData) {
-      logger.info(`Demo sign-in: ${DEMO_USERS.map((u) => u.email).join(' | ')} — password: ${DEMO_PASSWORD}`);
+      lines.push(`Demo sign-in, password "${DEMO_PASSWORD}":`);
+      for (const u of DEMO_USERS) lines.push(`  ${u.role.padEnd(10)} ${u.email}`);
     }
+    console.log(`\n${lines.join('\n')}\n`);
   });
 
   let closing = false;

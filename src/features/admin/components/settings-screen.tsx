@@ -1,0 +1,101 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useQuery } from '@tanstack/react-query';
+import { useState } from 'react';
+import { useForm } from 'react-hook-form';
+import { shopSettingsSchema, type ShopSettings } from '../../../../shared/schemas/admin';
+import { Field, FormError } from '../../../components/ui/field';
+import { ErrorNote, Loading, Page } from '../../../components/ui/page';
+import { applyServerErrors } from '../../../lib/form-errors';
+import { settingsQuery, useBackup, useUpdateSettings } from '../api/admin-queries';
+
+const FIELDS = ['shopName', 'altitudeM', 'dryingMinIntervalHours', 'dryingMaxChangePct', 'lotShelfLifeDays'] as const;
+
+export function SettingsScreen() {
+  const settings = useQuery(settingsQuery());
+  return (
+    <Page title="Shop settings">
+      {settings.isPending ? <Loading /> : settings.isError ? <ErrorNote error={settings.error} /> : <SettingsForm initial={settings.data} />}
+      <BackupPanel />
+    </Page>
+  );
+}
+
+function SettingsForm({ initial }: { initial: ShopSettings }) {
+  const update = useUpdateSettings();
+  const [saved, setSaved] = useState(false);
+  const form = useForm<ShopSettings>({ resolver: zodResolver(shopSettingsSchema), defaultValues: initial });
+  const { errors } = form.formState;
+  const onSubmit = form.handleSubmit(async (values) => {
+    setSaved(false);
+    try {
+      await update.mutateAsync(values);
+      setSaved(true);
+    } catch (err) {
+      applyServerErrors(err, form.setError, FIELDS);
+    }
+  });
+  const num = { valueAsNumber: true } as const;
+  return (
+    <form onSubmit={onSubmit} noValidate className="sheet max-w-xl p-5" aria-label="Shop settings">
+      <FormError message={errors.root?.message} />
+      <Field label="Shop name" registration={form.register('shopName')} error={errors.shopName?.message} />
+      <Field
+        label="Shop altitude (m above sea level)"
+        type="number"
+        step="1"
+        registration={form.register('altitudeM', num)}
+        error={errors.altitudeM?.message}
+        hint="Sets the ambient pressure used to turn vacuum-gauge readings into absolute pressure (U.S. Standard Atmosphere 1976)."
+      />
+      <Field
+        label="Drying check: at least this many hours between weighings"
+        type="number"
+        step="0.5"
+        registration={form.register('dryingMinIntervalHours', num)}
+        error={errors.dryingMinIntervalHours?.message}
+      />
+      <Field
+        label="Drying check: constant when the change is below (%)"
+        type="number"
+        step="0.01"
+        registration={form.register('dryingMaxChangePct', num)}
+        error={errors.dryingMaxChangePct?.message}
+      />
+      <Field
+        label="Activated resin keeps (days)"
+        type="number"
+        step="1"
+        registration={form.register('lotShelfLifeDays', num)}
+        error={errors.lotShelfLifeDays?.message}
+        hint="Used when a resin has no shelf life of its own; about a year stored cool is common practice."
+      />
+      <button type="submit" className="btn-primary" disabled={form.formState.isSubmitting}>
+        Save settings
+      </button>
+      {saved && (
+        <p role="status" className="mt-2 text-sm text-moss">
+          Saved.
+        </p>
+      )}
+    </form>
+  );
+}
+
+function BackupPanel() {
+  const backup = useBackup();
+  return (
+    <section className="sheet mt-6 max-w-xl p-5" aria-labelledby="backup-heading">
+      <h2 id="backup-heading">Backup</h2>
+      <p className="my-2 text-sm text-ink-soft">An online copy of the database, taken while the app keeps running, saved under the data folder.</p>
+      <button type="button" className="btn-quiet" onClick={() => backup.mutate()} disabled={backup.isPending}>
+        Make a backup now
+      </button>
+      {backup.data && (
+        <p role="status" className="mt-2 text-sm text-moss">
+          Saved {backup.data.file} ({Math.round(backup.data.bytes / 1024)} KiB).
+        </p>
+      )}
+      {backup.isError && <ErrorNote error={backup.error} />}
+    </section>
+  );
+}

@@ -1,0 +1,115 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useState } from 'react';
+import { useForm } from 'react-hook-form';
+import { Link, useNavigate, useSearchParams } from 'react-router-dom';
+import {
+  invitationAcceptSchema,
+  passwordResetConfirmSchema,
+  passwordResetRequestSchema,
+  type InvitationAcceptInput,
+  type PasswordResetConfirmInput,
+  type PasswordResetRequestInput,
+} from '../../../../shared/schemas/auth';
+import { Field, FormError } from '../../../components/ui/field';
+import { applyServerErrors } from '../../../lib/form-errors';
+import { useAcceptInvitation, useConfirmPasswordReset, useRequestPasswordReset } from '../api/use-auth-mutations';
+import { AuthFrame } from './auth-frame';
+
+export function ForgotPasswordScreen() {
+  const request = useRequestPasswordReset();
+  const [sent, setSent] = useState(false);
+  const form = useForm<PasswordResetRequestInput>({ resolver: zodResolver(passwordResetRequestSchema), defaultValues: { email: '' } });
+  const onSubmit = form.handleSubmit(async (values) => {
+    try {
+      await request.mutateAsync(values);
+      setSent(true);
+    } catch (err) {
+      applyServerErrors(err, form.setError, ['email']);
+    }
+  });
+  return (
+    <AuthFrame title="Reset your password">
+      {sent ? (
+        <p role="status">If that address belongs to a user, a reset link is on its way. It works once, for one hour.</p>
+      ) : (
+        <form onSubmit={onSubmit} noValidate aria-label="Ask for a reset link">
+          <FormError message={form.formState.errors.root?.message} />
+          <Field label="E-mail" type="email" autoComplete="username" registration={form.register('email')} error={form.formState.errors.email?.message} />
+          <button className="btn-primary" type="submit" disabled={form.formState.isSubmitting}>
+            Send the link
+          </button>
+        </form>
+      )}
+      <p className="mt-4 text-sm">
+        <Link to="/sign-in">Back to sign-in</Link>
+      </p>
+    </AuthFrame>
+  );
+}
+
+export function ResetPasswordScreen() {
+  const [params] = useSearchParams();
+  const confirm = useConfirmPasswordReset();
+  const [done, setDone] = useState(false);
+  const form = useForm<PasswordResetConfirmInput>({
+    resolver: zodResolver(passwordResetConfirmSchema),
+    defaultValues: { token: params.get('token') ?? '', password: '' },
+  });
+  const onSubmit = form.handleSubmit(async (values) => {
+    try {
+      await confirm.mutateAsync(values);
+      setDone(true);
+    } catch (err) {
+      applyServerErrors(err, form.setError, ['password']);
+    }
+  });
+  const { errors } = form.formState;
+  return (
+    <AuthFrame title="Choose a new password">
+      {done ? (
+        <p role="status">
+          Your password is changed. <Link to="/sign-in">Sign in</Link>
+        </p>
+      ) : (
+        <form onSubmit={onSubmit} noValidate aria-label="Choose a new password">
+          <FormError message={errors.root?.message ?? errors.token?.message} />
+          <Field label="New password" type="password" autoComplete="new-password" hint="At least 12 characters; a short sentence is easy to remember." registration={form.register('password')} error={errors.password?.message} />
+          <button className="btn-primary" type="submit" disabled={form.formState.isSubmitting}>
+            Save the password
+          </button>
+        </form>
+      )}
+    </AuthFrame>
+  );
+}
+
+export function AcceptInvitationScreen() {
+  const [params] = useSearchParams();
+  const accept = useAcceptInvitation();
+  const navigate = useNavigate();
+  const form = useForm<InvitationAcceptInput>({
+    resolver: zodResolver(invitationAcceptSchema),
+    defaultValues: { token: params.get('token') ?? '', password: '', name: '' },
+  });
+  const onSubmit = form.handleSubmit(async (values) => {
+    try {
+      await accept.mutateAsync(values);
+      navigate('/', { replace: true });
+    } catch (err) {
+      applyServerErrors(err, form.setError, ['password', 'name']);
+    }
+  });
+  const { errors } = form.formState;
+  return (
+    <AuthFrame title="Join the shop's Lumenbook">
+      <form onSubmit={onSubmit} noValidate aria-label="Accept the invitation">
+        <FormError message={errors.root?.message ?? errors.token?.message} />
+        <Field label="Your name" autoComplete="name" registration={form.register('name')} error={errors.name?.message} />
+        <Field label="Password" type="password" autoComplete="new-password" hint="At least 12 characters." registration={form.register('password')} error={errors.password?.message} />
+        <button className="btn-primary" type="submit" disabled={form.formState.isSubmitting}>
+          Set the password and sign in
+        </button>
+      </form>
+    </AuthFrame>
+  );
+}
