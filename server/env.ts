@@ -21,6 +21,8 @@ const envSchema = z.object({
   SMTP_PASS: z.string().optional(),
   MAIL_FROM: z.string().default('Lumenbook <lumenbook@localhost>'),
   DEMO_DATA: z.enum(['true', 'false']).default('true'),
+  /** Sign-in attempts per client per 15 minutes. */
+  LOGIN_RATE_LIMIT: z.coerce.number().int().min(1).default(10),
 });
 
 export type Env = z.infer<typeof envSchema>;
@@ -36,6 +38,7 @@ export interface Config {
   smtp: { host: string; port: number; secure: boolean; user?: string; pass?: string } | null;
   mailFrom: string;
   demoData: boolean;
+  loginRateLimit: number;
 }
 
 export function loadConfig(source: NodeJS.ProcessEnv = process.env): Config {
@@ -58,5 +61,6 @@ export function loadConfig(source: NodeJS.ProcessEnv = process.env): Config {
       : null,
     mailFrom: env.MAIL_FROM,
     demoData: env.DEMO_DATA === 'true',
+    loginRateLimit: env.LOGIN_RATE_LIMIT,
   };
 }
