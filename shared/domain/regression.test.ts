@@ -1,0 +1,119 @@
+import MultivariateLinearRegression from 'ml-regression-multivariate-linear';
+import { linearRegression } from 'simple-statistics';
+import { describe, expect, it } from 'vitest';
+import { readNistData, readReferenceCsv } from '../../tests/reference/read-reference';
+import { fitLinear, fitMultiple } from './index';
+
+/** NIST's log relative error: the number of correct significant digits. */
+const lre = (computed: number, certified: number) =>
+  computed === certified ? Infinity : -Math.log10(Math.abs(computed - certified) / Math.abs(certified));
+
+interface Certified {
+  estimates: number[];
+  sds: number[];
+  residualSd: number;
+  r2: number;
+}
+
+function certified(dataset: string): Certified {
+  const rows = readReferenceCsv('./nist-strd/certified-values.csv').filter((r) => r.dataset === dataset);
+  const first = rows[0];
+  if (first === undefined) throw new Error(`no certified values for ${dataset}`);
+  return {
+    estimates: rows.map((r) => Number(r.estimate)),
+    sds: rows.map((r) => Number(r.std_dev_of_estimate)),
+    residualSd: Number(first.residual_std_dev),
+    r2: Number(first.r_squared),
+  };
+}
+
+describe('fitLinear on NIST StRD Norris (certified values; at least 9 significant digits required)', () => {
+  const data = readNistData('./nist-strd/Norris.dat'); // columns y, x
+  const y = data.map((r) => r[0] as number);
+  const x = data.map((r) => r[1] as number);
+  const c = certified('Norris');
+  const fit = fitLinear(x, y);
+  // [quantity, computed, certified]
+  const rows: [string, number, number][] = [
+    ['B0 (intercept)', fit.intercept, c.estimates[0] as number],
+    ['B1 (slope)', fit.slope, c.estimates[1] as number],
+    ['SD(B0)', fit.interceptSe, c.sds[0] as number],
+    ['SD(B1)', fit.slopeSe, c.sds[1] as number],
+    ['residual SD', fit.residualSd, c.residualSd],
+    ['R²', fit.r2, c.r2],
+  ];
+  it.each(rows)('%s: %d vs certified %d, LRE ≥ 9 (NIST StRD Norris)', (_q, computed, cert) => {
+    expect(lre(computed, cert)).toBeGreaterThanOrEqual(9);
+  });
+
+  it('counts the 36 observations and agrees with simple-statistics linearRegression (second library)', () => {
+    expect(fit.n).toBe(36);
+    const ss = linearRegression(x.map((xi, i) => [xi, y[i] as number]));
+    expect(lre(fit.slope, ss.m)).toBeGreaterThanOrEqual(11);
+    expect(lre(fit.intercept, ss.b)).toBeGreaterThanOrEqual(9);
+  });
+
+  it('fitMultiple with the single predictor gives the same certified values (NIST StRD Norris)', () => {
+    const m = fitMultiple(
+      x.map((xi) => [xi]),
+      y,
+    );
+    [...m.coefficients, ...m.standardErrors, m.residualSd, m.r2].forEach((v, i) => {
+      const cert = [...c.estimates, ...c.sds, c.residualSd, c.r2][i] as number;
+      expect(lre(v, cert)).toBeGreaterThanOrEqual(9);
+    });
+  });
+});
+
+describe('fitMultiple on NIST StRD Longley (certified values; at least 7 significant digits required)', () => {
+  const data = readNistData('./nist-strd/Longley.dat'); // columns y, x1 … x6
+  const y = data.map((r) => r[0] as number);
+  const rows = data.map((r) => r.slice(1));
+  const c = certified('Longley');
+  const fit = fitMultiple(rows, y);
+
+  const table: [string, number, number][] = [
+    ...c.estimates.map((e, i): [string, number, number] => [`B${i}`, fit.coefficients[i] as number, e]),
+    ...c.sds.map((s, i): [string, number, number] => [`SD(B${i})`, fit.standardErrors[i] as number, s]),
+    ['residual SD', fit.residualSd, c.residualSd],
+    ['R²', fit.r2, c.r2],
+  ];
+  it.each(table)('%s: %d vs certified %d, LRE ≥ 7 (NIST StRD Longley)', (_q, computed, cert) => {
+    expect(lre(computed, cert)).toBeGreaterThanOrEqual(7);
+  });
+
+  it('counts 16 observations and 7 coefficients', () => {
+    expect(fit.n).toBe(16);
+    expect(fit.coefficients).toHaveLength(7);
+    expect(fit.standardErrors).toHaveLength(7);
+  });
+
+  it('is why QR is used: the normal-equations library keeps fewer than 7 digits on Longley', () => {
+    const lib = new MultivariateLinearRegression(
+      rows,
+      y.map((v) => [v]),
+    );
+    // The library puts the intercept last.
+    const libIntercept = lib.weights[6]?.[0] as number;
+    expect(lre(libIntercept, c.estimates[0] as number)).toBeLessThan(7);
+  });
+});
+
+describe('fitMultiple on a small exact case', () => {
+  it('recovers y = 1 + 2·x1 − 3·x2 exactly with zero residual (by hand)', () => {
+    const rows = [
+      [0, 0],
+      [1, 0],
+      [0, 1],
+      [1, 1],
+      [2, 3],
+    ];
+    const y = rows.map(([a, b]) => 1 + 2 * (a as number) - 3 * (b as number));
+    const fit = fitMultiple(rows, y);
+    expect(fit.coefficients[0]).toBeCloseTo(1, 12);
+    expect(fit.coefficients[1]).toBeCloseTo(2, 12);
+    expect(fit.coefficients[2]).toBeCloseTo(-3, 12);
+    expect(fit.residualSd).toBeLessThan(1e-12);
+    expect(fit.r2).toBeCloseTo(1, 12);
+  });
+});
