@@ -1,0 +1,28 @@
+export { DomainError } from './errors';
+export type { DomainErrorCode } from './errors';
+export {
+  basicSpecificGravity,
+  densityAtMoisture,
+  equilibriumMoistureContent,
+  moistureContent,
+  specificGravityAtMoisture,
+} from './moisture';
+export {
+  DEFAULT_CELL_WALL_DENSITY,
+  antiSwellEfficiency,
+  cureLoss,
+  hardnessGain,
+  maxWeightPercentGain,
+  porosity,
+  resinLoading,
+  voidFill,
+  volumetricChange,
+  weightPercentGain,
+} from './resin';
+export { absolutePressureFromGauge, percentVacuum, standardPressureAtAltitude } from './vacuum';
+export { reachedConstantMass } from './drying';
+export type { ConstantMassCriteria, ConstantMassResult, MassReading } from './drying';
+export { summarize, welchTest } from './statistics';
+export type { Summary, WelchResult } from './statistics';
+export { fitLinear, fitMultiple } from './regression';
+export type { LinearFit, MultipleFit } from './regression';
