@@ -1,4 +1,5 @@
 // Test-only readers for the published reference files in this folder (Node APIs are fine here).
+// Paths are relative to this folder, e.g. './nist-strd/Norris.dat'.
 import { readFileSync } from 'node:fs';
 
 function readText(relativePath: string): string {
