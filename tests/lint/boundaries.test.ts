@@ -1,0 +1,55 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import { ESLint } from 'eslint';
+import { describe, expect, it } from 'vitest';
+
+// The dependency rules of the house are enforced by `npm run lint`; these cases prove each rule bites.
+const eslint = new ESLint({ cwd: process.cwd() });
+
+/** Lints a probe file written for a moment at `filePath` (the import rules resolve real files). */
+async function ruleIds(filePath: string, code: string): Promise<string[]> {
+  const file = path.resolve(filePath.replace(/zz-probe\.ts$/, `zz-lint-probe-${process.pid}-${Math.random().toString(36).slice(2)}.ts`));
+  fs.writeFileSync(file, code);
+  try {
+    const [result] = await eslint.lintFiles([file]);
+    return (result?.messages ?? []).map((m) => m.ruleId ?? m.message);
+  } finally {
+    fs.rmSync(file, { force: true });
+  }
+}
+
+describe('lint boundaries', () => {
+  it.each([
+    ['shared imports the server', 'shared/domain/zz-probe.ts', "import { createApp } from '../../server/app';\nexport const x = createApp;"],
+    ['shared imports the client', 'shared/zz-probe.ts', "import { api } from '../src/lib/api-client';\nexport const x = api;"],
+    ['the client imports the server', 'src/lib/zz-probe.ts', "import type { AppDeps } from '../../server/deps';\nexport type X = AppDeps;"],
+    ['the server imports the client', 'server/zz-probe.ts', "import { api } from '../src/lib/api-client';\nexport const x = api;"],
+    ['a server feature imports another', 'server/features/admin/zz-probe.ts', "import { toUser } from '../auth/auth.repo';\nexport const x = toUser;"],
+    ['a client feature imports another', 'src/features/admin/zz-probe.ts', "import { useMe } from '../auth/hooks/use-me';\nexport const x = useMe;"],
+  ])('%s → import/no-restricted-paths', async (_name, file, code) => {
+    expect(await ruleIds(file, code)).toContain('import/no-restricted-paths');
+  });
+
+  it('shared uses no Node APIs', async () => {
+    expect(await ruleIds('shared/zz-probe.ts', "import fs from 'node:fs';\nexport const x = fs;")).toContain('no-restricted-imports');
+  });
+
+  it('an import cycle fails', async () => {
+    const tag = `${process.pid}-${Math.random().toString(36).slice(2)}`;
+    const a = path.resolve(`server/zz-lint-probe-a-${tag}.ts`);
+    const b = path.resolve(`server/zz-lint-probe-b-${tag}.ts`);
+    fs.writeFileSync(a, `import { b } from './zz-lint-probe-b-${tag}';\nexport const a = () => b;\n`);
+    fs.writeFileSync(b, `import { a } from './zz-lint-probe-a-${tag}';\nexport const b = () => a;\n`);
+    try {
+      const [result] = await eslint.lintFiles([a]);
+      expect(result?.messages.map((m) => m.ruleId)).toContain('import/no-cycle');
+    } finally {
+      fs.rmSync(a, { force: true });
+      fs.rmSync(b, { force: true });
+    }
+  });
+
+  it('allowed directions pass', async () => {
+    expect(await ruleIds('server/features/auth/zz-probe.ts', "import { ROLES } from '../../../shared/constants/roles';\nexport const x = ROLES;")).toEqual([]);
+  });
+});
