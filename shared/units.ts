@@ -5,7 +5,8 @@
  * Defining constants: 1 in = 25.4 mm and 1 lb = 0.45359237 kg exactly (international yard and pound
  * agreement, 1959); 1 oz (avoirdupois) = 1/16 lb; 1 lbf = 1 lb × 9.80665 m/s² (CGPM 1901 standard
  * gravity); 1 torr = 101 325/760 Pa (CGPM 1954 standard atmosphere); conventional 1 mmHg =
- * 133.322387415 Pa and 1 inHg = 3386.389 Pa as listed in NIST SP 811 (2008) App. B.
+ * 133.322387415 Pa and 1 inHg = 3386.389 Pa as listed in NIST SP 811 (2008) App. B. The agreement and
+ * CGPM years and the SP 811 inHg factor are from memory; the numbers themselves are the standard ones.
  */
 
 export const UNIT_SYSTEMS = ['metric', 'us'] as const;
@@ -68,29 +69,36 @@ function scale<U extends string>(table: Record<U, number>, value: number, from: 
   return from === to ? value : (value * table[from]) / table[to];
 }
 
+/** Mass, exact via grams: 1 lb = 453.59237 g, 1 oz = 1/16 lb (NIST SP 811 App. B). */
 export function convertMass(value: number, from: MassUnit, to: MassUnit): number {
   return scale(GRAMS, value, from, to);
 }
 
+/** Length, exact via millimetres: 1 in = 25.4 mm (NIST SP 811 App. B). */
 export function convertLength(value: number, from: LengthUnit, to: LengthUnit): number {
   return scale(MILLIMETRES, value, from, to);
 }
 
-/** Pressures and pressure differences (gauge readings) convert alike: there is no offset. */
+/**
+ * Pressure via pascals (factors above; NIST SP 811 App. B, CGPM 1954). Pressures and pressure
+ * differences (gauge readings) convert alike: there is no offset.
+ */
 export function convertPressure(value: number, from: PressureUnit, to: PressureUnit): number {
   return scale(PASCALS, value, from, to);
 }
 
+/** Volume via cm³: 1 in³ = 2.54³ cm³ = 16.387064 cm³ exactly. */
 export function convertVolume(value: number, from: VolumeUnit, to: VolumeUnit): number {
   return scale(CUBIC_CM, value, from, to);
 }
 
-/** °F = °C × 9/5 + 32 (temperatures, not temperature differences). */
+/** °F = °C × 9/5 + 32, exact (NIST SP 811 App. B); for temperatures, not temperature differences. */
 export function convertTemperature(value: number, from: TemperatureUnit, to: TemperatureUnit): number {
   if (from === to) return value;
   return from === 'degC' ? (value * 9) / 5 + 32 : ((value - 32) * 5) / 9;
 }
 
+/** Any quantity, dispatching to the converters above; the unit types keep mass from meeting length. */
 export function convert<Q extends Quantity>(quantity: Q, value: number, from: UnitOf[Q], to: UnitOf[Q]): number {
   switch (quantity) {
     case 'mass':
@@ -176,6 +184,7 @@ export interface DisplayUnit<Q extends Quantity = Quantity> {
   decimals: number;
 }
 
+/** Unit, label and decimals a unit system shows a quantity with. */
 export function displayUnit<Q extends Quantity>(quantity: Q, system: UnitSystem): DisplayUnit<Q> {
   const unit = DISPLAY_UNITS[system][quantity] as UnitOf[Q];
   return { unit, label: UNIT_LABELS[unit], decimals: UNIT_DECIMALS[unit] };

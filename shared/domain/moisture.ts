@@ -49,8 +49,9 @@ function belowFspFraction(moisturePct: number): number {
  * Specific gravity on the volume at moisture content M (oven-dry mass / volume at M) from basic SG
  * (oven-dry mass / green volume): G_M = G_b / (1 − 0.265·a·G_b), a = (30 − M)/30.
  * Valid 0–30 % MC; at or above 30 % the volume is the green volume, so G_M = G_b.
- * Wood Handbook FPL-GTR-190 ch. 4, "Density and specific gravity" (the 0.265 factor reflects average
- * volumetric shrinkage; equation number not checked, probably 4-8 — from memory).
+ * Wood Handbook FPL-GTR-190 ch. 4, "Density and specific gravity" (equation number not checked,
+ * probably 4-8 — from memory). The 0.265 stands for an average volumetric shrinkage, so single species
+ * differ from their tabulated 12 % SG by up to about 0.03.
  */
 export function specificGravityAtMoisture(basicSg: number, moisturePct: number): number {
   requireSg(basicSg, 'basicSg');
