@@ -97,7 +97,9 @@ export function createApp(deps: AppDeps) {
   // cannot send (and a cross-site script cannot send without a CORS preflight we never grant).
   app.use('/api', (req: Request, _res: Response, next: NextFunction) => {
     if (SAFE_METHODS.has(req.method)) return next();
-    if (req.get(CSRF_HEADER) !== CSRF_VALUE) return next(new Forbidden(`Missing the ${CSRF_HEADER} header on a write request`));
+    // X-Requested-With: XMLHttpRequest is accepted too: it is the customary header of the same kind.
+    const marked = req.get(CSRF_HEADER) === CSRF_VALUE || req.get('x-requested-with') === 'XMLHttpRequest';
+    if (!marked) return next(new Forbidden(`Missing the ${CSRF_HEADER} header on a write request`));
     const origin = req.get('origin');
     if (origin && new URL(origin).host !== req.get('host')) return next(new Forbidden('Cross-origin write refused'));
     next();

@@ -82,15 +82,12 @@ describe('sign-in', () => {
   });
 
   it('refuses a write without the CSRF header, even when signed in', async () => {
-    const a = await h.signIn('admin@demo.test');
-    const res = await request(h.lumenbook.app)
-      .patch('/api/auth/me')
-      .set('Cookie', (a as unknown as { jar: { getCookies: (o: object) => { toValueString(): string }[] } }).jar.getCookies({ domain: '127.0.0.1', path: '/', secure: false, script: false }).map((c) => c.toValueString()).join('; '))
-      .send({ unitSystem: 'us' });
+    const bare = request.agent(h.lumenbook.app);
+    expect((await bare.post('/api/auth/login').set(CSRF_HEADER, '1').send({ email: 'admin@demo.test', password: 'lumenbook-demo' })).status).toBe(200);
+    const res = await bare.patch('/api/auth/me').send({ unitSystem: 'us' });
     expect(res.status).toBe(403);
-    const noHeader = await request(h.lumenbook.app).post('/api/auth/login').send({ email: 'tech@demo.test', password: 'lumenbook-demo' });
-    expect(noHeader.status).toBe(403);
-    expect(noHeader.body.error.message).toContain(CSRF_HEADER);
+    expect(res.body.error.message).toContain(CSRF_HEADER);
+    expect((await bare.get('/api/auth/me')).body.user.unitSystem).toBe('metric');
   });
 
   it('stores a display-unit preference per user', async () => {
@@ -214,5 +211,20 @@ describe('invitations and users (admin)', () => {
     expect((await a.patch('/api/users/1').send({ role: 'viewer' })).status).toBe(403);
     expect((await a.get('/api/admin/outbox')).status).toBe(403);
     expect((await a.post('/api/admin/backup')).status).toBe(403);
+  });
+});
+
+describe('CSRF header variants', () => {
+  it('accepts X-Requested-With: XMLHttpRequest in place of the Lumenbook header', async () => {
+    const res = await request(h.lumenbook.app)
+      .post('/api/auth/login')
+      .set('X-Requested-With', 'XMLHttpRequest')
+      .send({ email: 'tech@demo.test', password: 'lumenbook-demo' });
+    expect(res.status).toBe(200);
+  });
+
+  it('refuses a write whose Origin is another site', async () => {
+    const res = await h.agent().post('/api/auth/login').set('Origin', 'https://elsewhere.example').send({ email: 'tech@demo.test', password: 'lumenbook-demo' });
+    expect(res.status).toBe(403);
   });
 });
