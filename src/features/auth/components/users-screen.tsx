@@ -82,7 +82,8 @@ export function UsersScreen() {
                     <td>
                       {!self && (
                         <button type="button" className="btn-quiet" onClick={() => void change(u.id, { disabled: !u.disabled })}>
-                          {u.disabled ? `Enable ${u.name}` : `Disable ${u.name}`}
+                          {u.disabled ? 'Enable' : 'Disable'}
+                          <span className="sr-only"> {u.name}</span>
                         </button>
                       )}
                     </td>
