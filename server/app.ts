@@ -16,6 +16,8 @@ import type { AuthedRequest } from './http/types';
 import { authRoutes, SESSION_COOKIE } from './features/auth/auth.router';
 import { findUserById, toUser } from './features/auth/auth.repo';
 import { adminRoutes } from './features/admin/admin.router';
+import { referenceRoutes } from './features/reference/reference.router';
+import { trialsRoutes } from './features/trials/trials.router';
 
 const here = path.dirname(fileURLToPath(import.meta.url));
 const CLIENT_DIR = path.resolve(here, '../dist/client');
@@ -112,6 +114,8 @@ export function createApp(deps: AppDeps) {
     health,
     authRoutes(feature, deps.loginRateLimit ?? { windowMs: 15 * 60_000, limit: 10 }),
     adminRoutes(feature),
+    referenceRoutes(feature),
+    trialsRoutes(feature),
   ];
   const declared: DeclaredRoute[] = [];
   for (const r of mounted) {

@@ -5,6 +5,8 @@ import type { Database_, Db } from './db/client';
 import { settings } from './db/schema/admin';
 import { users } from './db/schema/auth';
 import type { Role } from '../shared/constants/roles';
+import { DEMO_RESINS, seedReferenceDemo, seedReferenceSpecies } from './features/reference/reference.seed';
+import { seedTrialsDemo } from './features/trials/trials.seed';
 
 /** Password of every demo account; the demo exists only for trying the app, never for a real shop. */
 export const DEMO_PASSWORD = 'lumenbook-demo';
@@ -35,10 +37,10 @@ export type DemoSeeder = (ctx: DemoContext) => void;
  * Reference data every installation needs (published handbook species), written whenever it is missing,
  * demo or not. Features register theirs here.
  */
-const referenceSeeders: ((db: Db) => void)[] = [];
+const referenceSeeders: ((db: Db) => void)[] = [seedReferenceSpecies];
 
 /** Feature demo seeders, run in this order inside the one demo transaction. */
-const demoSeeders: DemoSeeder[] = [];
+const demoSeeders: DemoSeeder[] = [seedReferenceDemo, (ctx) => seedTrialsDemo(ctx, DEMO_RESINS)];
 
 export function seedReference(database: Database_): void {
   database.db.transaction((tx) => {

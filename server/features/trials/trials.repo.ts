@@ -1,0 +1,181 @@
+import { and, asc, count, desc, eq, inArray, like, or, sql, type SQL } from 'drizzle-orm';
+import type { SQLiteColumn } from 'drizzle-orm/sqlite-core';
+import type { Db } from '../../db/client';
+import { coupons } from '../../db/schema/coupons';
+import { resins, species } from '../../db/schema/reference';
+import { trialConditions, trials } from '../../db/schema/trials';
+import type { TrialListQuery } from '../../../shared/schemas/trials';
+
+export type TrialRow = typeof trials.$inferSelect;
+export type ConditionRow = typeof trialConditions.$inferSelect;
+export type CouponRow = typeof coupons.$inferSelect;
+
+const likeEscaped = (col: SQLiteColumn, q: string) => sql`${col} like ${`%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`} escape '\\'`;
+
+function orderOf(sort: string | undefined): SQL[] {
+  const fallback = [desc(trials.createdAt), desc(trials.id)];
+  if (!sort) return fallback;
+  const cols: Record<string, SQLiteColumn> = { code: trials.code, title: trials.title, status: trials.status, createdAt: trials.createdAt };
+  const col = cols[sort.replace(/^-/, '')];
+  if (!col) return fallback;
+  return [sort.startsWith('-') ? desc(col) : asc(col), ...fallback];
+}
+
+export function listTrials(db: Db, q: TrialListQuery) {
+  const where = and(
+    q.q ? or(likeEscaped(trials.code, q.q), likeEscaped(trials.title, q.q), likeEscaped(trials.question, q.q)) : undefined,
+    q.status ? eq(trials.status, q.status) : undefined,
+  );
+  const rows = db
+    .select({
+      trial: trials,
+      // Spelled out: drizzle leaves columns unqualified inside select fields, which a correlated subquery cannot use.
+      conditionCount: sql<number>`(select count(*) from trial_conditions tc where tc.trial_id = "trials"."id")`,
+      couponCount: sql<number>`(select count(*) from coupons c where c.trial_id = "trials"."id")`,
+    })
+    .from(trials)
+    .where(where)
+    .orderBy(...orderOf(q.sort))
+    .limit(q.pageSize)
+    .offset((q.page - 1) * q.pageSize)
+    .all();
+  const total = db.select({ n: count() }).from(trials).where(where).get()?.n ?? 0;
+  return { rows, total };
+}
+
+export function findTrial(db: Db, id: number): TrialRow | undefined {
+  return db.select().from(trials).where(eq(trials.id, id)).get();
+}
+export function findTrialByCode(db: Db, code: string): TrialRow | undefined {
+  return db.select().from(trials).where(eq(trials.code, code)).get();
+}
+/** Codes of the year, e.g. every `T26-%`, for the next counter. */
+export function trialCodesLike(db: Db, prefix: string): string[] {
+  return db
+    .select({ code: trials.code })
+    .from(trials)
+    .where(like(trials.code, `${prefix}%`))
+    .all()
+    .map((r) => r.code);
+}
+export function insertTrial(db: Db, values: typeof trials.$inferInsert): TrialRow {
+  return db.insert(trials).values(values).returning().get();
+}
+export function updateTrialRow(db: Db, id: number, values: Partial<typeof trials.$inferInsert>): TrialRow {
+  return db.update(trials).set(values).where(eq(trials.id, id)).returning().get();
+}
+
+export type ConditionWithNames = ConditionRow & { speciesName: string; resinName: string; cureMinC: number; cureMaxC: number };
+
+export function conditionsOf(db: Db, trialId: number): ConditionWithNames[] {
+  return db
+    .select({ c: trialConditions, speciesName: species.commonName, resinName: resins.name, cureMinC: resins.cureMinC, cureMaxC: resins.cureMaxC })
+    .from(trialConditions)
+    .innerJoin(species, eq(species.id, trialConditions.speciesId))
+    .innerJoin(resins, eq(resins.id, trialConditions.resinId))
+    .where(eq(trialConditions.trialId, trialId))
+    .orderBy(asc(trialConditions.id))
+    .all()
+    .map((r) => ({ ...r.c, speciesName: r.speciesName, resinName: r.resinName, cureMinC: r.cureMinC, cureMaxC: r.cureMaxC }));
+}
+export function insertCondition(db: Db, values: typeof trialConditions.$inferInsert): ConditionRow {
+  return db.insert(trialConditions).values(values).returning().get();
+}
+export function updateConditionRow(db: Db, id: number, values: Partial<typeof trialConditions.$inferInsert>): void {
+  db.update(trialConditions).set(values).where(eq(trialConditions.id, id)).run();
+}
+export function deleteConditions(db: Db, ids: number[]): void {
+  if (ids.length) db.delete(trialConditions).where(inArray(trialConditions.id, ids)).run();
+}
+
+export function speciesNames(db: Db, ids: number[]): Map<number, string> {
+  if (ids.length === 0) return new Map();
+  return new Map(
+    db
+      .select({ id: species.id, name: species.commonName })
+      .from(species)
+      .where(inArray(species.id, ids))
+      .all()
+      .map((r) => [r.id, r.name]),
+  );
+}
+export function resinsById(db: Db, ids: number[]): Map<number, { name: string; cureMinC: number; cureMaxC: number }> {
+  if (ids.length === 0) return new Map();
+  return new Map(
+    db
+      .select({ id: resins.id, name: resins.name, cureMinC: resins.cureMinC, cureMaxC: resins.cureMaxC })
+      .from(resins)
+      .where(inArray(resins.id, ids))
+      .all()
+      .map((r) => [r.id, { name: r.name, cureMinC: r.cureMinC, cureMaxC: r.cureMaxC }]),
+  );
+}
+
+export function couponsOfTrial(db: Db, trialId: number): CouponRow[] {
+  return db.select().from(coupons).where(eq(coupons.trialId, trialId)).orderBy(asc(coupons.id)).all();
+}
+export function tagsWithPrefix(db: Db, prefix: string): Set<string> {
+  return new Set(
+    db
+      .select({ tag: coupons.tag })
+      .from(coupons)
+      .where(like(coupons.tag, `${prefix}%`))
+      .all()
+      .map((r) => r.tag),
+  );
+}
+export function insertCoupon(db: Db, values: typeof coupons.$inferInsert): CouponRow {
+  return db.insert(coupons).values(values).returning().get();
+}
+export function couponCountsByCondition(db: Db, conditionIds: number[]): Map<number, number> {
+  if (conditionIds.length === 0) return new Map();
+  return new Map(
+    db
+      .select({ id: coupons.conditionId, n: count() })
+      .from(coupons)
+      .where(inArray(coupons.conditionId, conditionIds))
+      .groupBy(coupons.conditionId)
+      .all()
+      .map((r) => [r.id ?? 0, r.n]),
+  );
+}
+
+const liveWeighing = (stage: 'dry' | 'cured') =>
+  sql<number>`sum(case when exists (select 1 from weighings w where w.coupon_id = "coupons"."id" and w.stage = ${stage} and w.superseded_by is null and w.deleted_at is null) then 1 else 0 end)`;
+
+/** Coupons created, dry-weighed and cured-weighed, grouped by condition (treated) or species (controls). */
+export function progressRows(db: Db, trialId: number) {
+  return db
+    .select({
+      conditionId: coupons.conditionId,
+      speciesId: coupons.speciesId,
+      role: coupons.role,
+      created: count(),
+      dryWeighed: liveWeighing('dry'),
+      curedWeighed: liveWeighing('cured'),
+    })
+    .from(coupons)
+    .where(eq(coupons.trialId, trialId))
+    .groupBy(coupons.conditionId, coupons.speciesId, coupons.role)
+    .all();
+}
+
+/** Coupons of a trial with what a label needs. */
+export function labelRows(db: Db, trialId: number) {
+  return db
+    .select({
+      id: coupons.id,
+      tag: coupons.tag,
+      role: coupons.role,
+      speciesName: species.commonName,
+      resinName: resins.name,
+      processLabel: trialConditions.processLabel,
+    })
+    .from(coupons)
+    .innerJoin(species, eq(species.id, coupons.speciesId))
+    .leftJoin(trialConditions, eq(trialConditions.id, coupons.conditionId))
+    .leftJoin(resins, eq(resins.id, trialConditions.resinId))
+    .where(eq(coupons.trialId, trialId))
+    .orderBy(asc(coupons.id))
+    .all();
+}

@@ -1,0 +1,26 @@
+import type { FeatureDeps } from '../../deps';
+import { secureRouter } from '../../http/routes';
+import { idParamsSchema } from '../../../shared/schemas/common';
+import { createTrialSchema, trialListQuerySchema, updateTrialSchema } from '../../../shared/schemas/trials';
+import { createTrialsService } from './trials.service';
+
+export function trialsRoutes(deps: FeatureDeps) {
+  const service = createTrialsService({ db: deps.database.db, now: deps.now, appUrl: deps.config.appUrl });
+  const r = secureRouter();
+
+  r.get('/trials', { access: 'viewer', schemas: { query: trialListQuerySchema } }, ({ query }) => service.listTrials(query));
+  r.post('/trials', { access: 'technician', status: 201, schemas: { body: createTrialSchema } }, ({ user, body }) => ({
+    trial: service.createTrial(user, body),
+  }));
+  r.get('/trials/:id', { access: 'viewer', schemas: { params: idParamsSchema } }, ({ params }) => ({ trial: service.getTrial(params.id) }));
+  r.patch('/trials/:id', { access: 'technician', schemas: { params: idParamsSchema, body: updateTrialSchema } }, ({ user, params, body }) => ({
+    trial: service.updateTrial(user, params.id, body),
+  }));
+  // Safe to repeat: it creates only the planned coupons that are still missing.
+  r.post('/trials/:id/coupons', { access: 'technician', schemas: { params: idParamsSchema } }, ({ user, params }) =>
+    service.createPlannedCoupons(user, params.id),
+  );
+  r.get('/trials/:id/labels', { access: 'viewer', schemas: { params: idParamsSchema } }, ({ params }) => service.labels(params.id));
+
+  return r;
+}
