@@ -262,19 +262,25 @@ describe('creating the planned coupons', () => {
 
   it('keeps the codes already on tags when a species with a clashing code joins later', async () => {
     const base = plan();
-    const t = await createTrial({ ...base, conditions: [base.conditions[0]!] });
-    await as.technician.post(`/api/trials/${t.id}/coupons`);
-    // "Maple, red" and a new shop wood "Maple, red curly" would both start from RMA.
+    // A shop wood "Red maple" (a later id than the handbook's "Maple, red") codes to RMA as well.
     const wood = await as.admin
       .post('/api/species')
       .send({ commonName: 'Red maple', botanicalName: 'Acer rubrum', measuredDensityKgM3: 520, measuredMoisturePct: 6, source: 'shop', origin: 'shop-measured' });
-    const withNew = [{ ...base.conditions[0]!, speciesId: wood.body.species.id }, base.conditions[0]!];
-    await as.technician.patch(`/api/trials/${t.id}`).send({ conditions: withNew });
+    const shopId = wood.body.species.id as number;
+    const handbookId = speciesId('Maple, red');
+    expect(handbookId).toBeLessThan(shopId);
+    const t = await createTrial({ ...base, conditions: [{ ...base.conditions[0]!, speciesId: shopId }] });
+    const first = await as.technician.post(`/api/trials/${t.id}/coupons`);
+    expect(first.body.coupons.map((c: { tag: string }) => c.tag)).toContain(`${t.code}-RMA-CP90-01`);
+
+    // The handbook maple joins: by id it would win RMA, but the shop wood's tags are already printed.
+    await as.technician.patch(`/api/trials/${t.id}`).send({ conditions: [{ ...base.conditions[0]!, speciesId: shopId }, { ...base.conditions[0]!, speciesId: handbookId }] });
     const res = await as.technician.post(`/api/trials/${t.id}/coupons`);
-    const tags = res.body.coupons.map((c: { tag: string }) => c.tag);
-    expect(tags).toContain(`${t.code}-RMA-CP90-01`);
-    expect(tags).toContain(`${t.code}-RMA2-CP90-01`);
-    expect(res.body.coupons.filter((c: { tag: string; speciesId: number }) => c.tag.includes('-RMA2-')).every((c: { speciesId: number }) => c.speciesId === wood.body.species.id)).toBe(true);
+    expect(res.status).toBe(200);
+    const bySpecies = (id: number) => res.body.coupons.filter((c: { speciesId: number }) => c.speciesId === id).map((c: { tag: string }) => c.tag);
+    expect(bySpecies(shopId).every((tag: string) => tag.includes('-RMA-'))).toBe(true);
+    expect(bySpecies(handbookId)).toEqual(expect.arrayContaining([`${t.code}-RMA2-CP90-01`, `${t.code}-RMA2-C01`]));
+    expect(bySpecies(handbookId).every((tag: string) => tag.includes('-RMA2-'))).toBe(true);
   });
 
   it('writes all the coupons or none: a failure part-way leaves no coupons', async () => {
