@@ -400,7 +400,13 @@ describe('resin lots', () => {
 
   it('lists the species that went through a lot, from the coupons of the runs that used it', async () => {
     const db = h.database.db;
-    const lot = db.select().from(resinLots).where(eq(resinLots.code, 'CP-D2601')).get()!;
+    // Fresh lots, so that demo runs seeded on the demo lots do not change the answer.
+    const make = async (code: string) =>
+      (await as.technician.post('/api/resin-lots').send({ resinId: resinIdByName('Clear Pour 90'), code, activatedAt: daysAgo(2), volumeMl: 900 })).body.lot as {
+        id: number;
+      };
+    const lot = await make('THRU-1');
+    const unused = await make('THRU-2');
     const walnut = db.select().from(species).where(eq(species.commonName, 'Walnut, black')).get()!;
     const maple = db.select().from(species).where(eq(species.commonName, 'Maple, sugar')).get()!;
     const run = db.insert(runs).values({ code: 'TEST-RUN-1', chamber: 'A', resinLotId: lot.id, altitudeM: 0 }).returning().get();
@@ -418,7 +424,7 @@ describe('resin lots', () => {
     const list = await as.viewer.get('/api/resin-lots?pageSize=200');
     const inList = list.body.items.find((l: { id: number }) => l.id === lot.id);
     expect(inList.speciesThroughLot).toEqual(['Maple, sugar', 'Walnut, black']);
-    const other = list.body.items.find((l: { code: string }) => l.code === 'EP-D2602');
+    const other = list.body.items.find((l: { id: number }) => l.id === unused.id);
     expect(other.speciesThroughLot).toEqual([]);
   });
 });
