@@ -1,0 +1,212 @@
+import type { LotStatus } from '../constants/records';
+import { DomainError, reachedConstantMass } from '../domain/index';
+import { soakMinimumEnd } from './timers';
+import { stageMinutes, type StageTimes } from './stages';
+import {
+  DEFAULT_CURE_WINDOW_C,
+  DEFAULT_SHELF_LIFE_DAYS,
+  LOT_NEAR_EXPIRY_DAYS,
+  MIN_CURE_MINUTES,
+  SOAK_TO_VACUUM_RATIO,
+  THIN_COUPON_MAX_MM,
+} from './thresholds';
+
+export const RUN_RULES = ['soak-time', 'cure-temperature', 'drying-constant-mass', 'lot-shelf-life', 'dry-weighings', 'cure-time'] as const;
+export type RunRule = (typeof RUN_RULES)[number];
+
+export const CHECK_STATUSES = ['ok', 'warn', 'fail', 'pending'] as const;
+export type CheckStatus = (typeof CHECK_STATUSES)[number];
+
+export interface RuleCheck {
+  rule: RunRule;
+  status: CheckStatus;
+  /** Plain words a technician can act on. */
+  reason: string;
+  /** Coupons the finding is about, when it is about some of them. */
+  couponIds?: number[];
+}
+
+export interface RunCheckStage extends StageTimes {
+  ovenSetC?: number | null;
+  ovenMeasuredC?: number | null;
+}
+
+export interface RunCheckInput {
+  stages: readonly RunCheckStage[];
+  resin: { name: string; cureMinC: number | null; cureMaxC: number | null; shelfLifeDays: number | null } | null;
+  lot: { code: string; activatedAt: string; status: LotStatus } | null;
+  coupons: readonly {
+    id: number;
+    tag: string;
+    /** Dry thickness, mm, when measured. */
+    thicknessMm: number | null;
+    hasDryWeighing: boolean;
+    dryingChecks: readonly { at: string; massG: number }[];
+  }[];
+  dryingRule: { minIntervalHours: number; maxChangePct: number };
+  now: Date;
+}
+
+const DAY = 86_400_000;
+
+export function formatMinutes(minutes: number): string {
+  const m = Math.round(minutes);
+  const h = Math.floor(m / 60);
+  const rest = m % 60;
+  if (h === 0) return `${rest} min`;
+  return rest === 0 ? `${h} h` : `${h} h ${rest} min`;
+}
+
+function formatC(c: number): string {
+  return `${Math.round(c * 10) / 10} °C (${Math.round(((c * 9) / 5 + 32) * 10) / 10} °F)`;
+}
+
+function listTags(tags: string[]): string {
+  return tags.length <= 5 ? tags.join(', ') : `${tags.slice(0, 5).join(', ')} and ${tags.length - 5} more`;
+}
+
+function stageOf(input: RunCheckInput, stage: RunCheckStage['stage']): RunCheckStage | undefined {
+  return input.stages.find((s) => s.stage === stage);
+}
+
+function soakTime(input: RunCheckInput): RuleCheck {
+  const rule = 'soak-time';
+  const vacuum = stageOf(input, 'vacuum');
+  const soak = stageOf(input, 'soak');
+  const vacMin = stageMinutes(vacuum);
+  if (vacMin === null) return { rule, status: 'pending', reason: 'Waiting for the vacuum stage to end; the soak should then last at least twice as long.' };
+  const needed = SOAK_TO_VACUUM_RATIO * vacMin;
+  if (!soak) return { rule, status: 'pending', reason: `The soak has not started; it should last at least ${formatMinutes(needed)} (twice the ${formatMinutes(vacMin)} vacuum).` };
+  const soakMin = stageMinutes(soak);
+  if (soakMin === null) {
+    const until = soakMinimumEnd(vacuum);
+    return {
+      rule,
+      status: 'pending',
+      reason: `Soaking; it reaches twice the ${formatMinutes(vacMin)} vacuum at ${until === null ? 'an unknown time' : new Date(until).toISOString()}.`,
+    };
+  }
+  if (soakMin < needed) {
+    return {
+      rule,
+      status: 'fail',
+      reason: `The soak lasted ${formatMinutes(soakMin)}, less than twice the ${formatMinutes(vacMin)} vacuum (${formatMinutes(needed)}). Common practice, no published source: soak at least twice as long as the vacuum.`,
+    };
+  }
+  return { rule, status: 'ok', reason: `The soak lasted ${formatMinutes(soakMin)}, at least twice the ${formatMinutes(vacMin)} vacuum.` };
+}
+
+function cureTemperature(input: RunCheckInput): RuleCheck {
+  const rule = 'cure-temperature';
+  const cure = stageOf(input, 'cure');
+  const min = input.resin?.cureMinC ?? DEFAULT_CURE_WINDOW_C.min;
+  const max = input.resin?.cureMaxC ?? DEFAULT_CURE_WINDOW_C.max;
+  const window = `${formatC(min)} to ${formatC(max)}${input.resin ? ` for ${input.resin.name}` : ' (the usual window; no resin is recorded)'}`;
+  if (!cure) return { rule, status: 'pending', reason: `The cure has not started; the oven should hold ${window}.` };
+  const measured = cure.ovenMeasuredC ?? null;
+  const set = cure.ovenSetC ?? null;
+  if (measured === null && set === null) return { rule, status: 'warn', reason: `No oven temperature is recorded for the cure; it should be ${window}.` };
+  // The separate thermometer wins: small ovens often read low against their own dial.
+  const used = measured ?? (set as number);
+  const which = measured !== null ? 'The thermometer in the oven read' : 'The oven was set to';
+  if (used < min || used > max) {
+    return { rule, status: 'fail', reason: `${which} ${formatC(used)}, outside ${window}.` };
+  }
+  if (measured === null) {
+    return {
+      rule,
+      status: 'warn',
+      reason: `The oven was set to ${formatC(used)}, inside ${window}, but no separate thermometer reading is recorded; small ovens often read low.`,
+    };
+  }
+  return { rule, status: 'ok', reason: `${which} ${formatC(used)}, inside ${window}.` };
+}
+
+function dryingConstantMass(input: RunCheckInput): RuleCheck {
+  const rule = 'drying-constant-mass';
+  const { minIntervalHours, maxChangePct } = input.dryingRule;
+  const criterion = `two drying checks at least ${minIntervalHours} h apart differing by no more than ${maxChangePct} %`;
+  if (input.coupons.length === 0) return { rule, status: 'pending', reason: 'No coupons are in this run yet.' };
+  const drying = stageOf(input, 'drying');
+  const stillDrying = (drying !== undefined && drying.endedAt === null) || input.stages.length === 0;
+  const notReached: { id: number; tag: string }[] = [];
+  let withChecks = 0;
+  for (const c of input.coupons) {
+    if (c.dryingChecks.length > 0) withChecks++;
+    let reached = false;
+    try {
+      reached = reachedConstantMass(c.dryingChecks, { minIntervalHours, maxChangePct }).reached;
+    } catch (e) {
+      if (!(e instanceof DomainError)) throw e;
+    }
+    if (!reached) notReached.push(c);
+  }
+  if (notReached.length === 0) return { rule, status: 'ok', reason: `All ${input.coupons.length} coupons reached constant mass (${criterion}).` };
+  const ids = notReached.map((c) => c.id);
+  if (withChecks === 0) {
+    return stillDrying
+      ? { rule, status: 'pending', reason: `No drying-check weighings yet; constant mass means ${criterion}.`, couponIds: ids }
+      : { rule, status: 'warn', reason: `No drying-check weighings were recorded, so the run does not show that the coupons were dry (${criterion}).`, couponIds: ids };
+  }
+  const message = `${notReached.length} of ${input.coupons.length} coupons have not shown constant mass (${criterion}): ${listTags(notReached.map((c) => c.tag))}.`;
+  return { rule, status: stillDrying ? 'pending' : 'warn', reason: stillDrying ? `Still drying. ${message}` : message, couponIds: ids };
+}
+
+function lotShelfLife(input: RunCheckInput): RuleCheck {
+  const rule = 'lot-shelf-life';
+  if (!input.lot) return { rule, status: input.stages.some((s) => s.stage !== 'drying') ? 'warn' : 'pending', reason: 'No resin lot is recorded for this run.' };
+  const shelf = input.resin?.shelfLifeDays ?? DEFAULT_SHELF_LIFE_DAYS;
+  // The lot's age when the resin went on the wood, or today while the run has not reached the resin yet.
+  const usedAt = stageOf(input, 'vacuum')?.startedAt;
+  const at = usedAt ? Date.parse(usedAt) : input.now.getTime();
+  const ageDays = Math.floor((at - Date.parse(input.lot.activatedAt)) / DAY);
+  const when = usedAt ? 'when the vacuum started' : 'today';
+  if (ageDays > shelf) {
+    return { rule, status: 'fail', reason: `Lot ${input.lot.code} was ${ageDays} days old ${when}, past its ${shelf}-day shelf life.` };
+  }
+  if (input.lot.status !== 'active') {
+    return { rule, status: 'warn', reason: `Lot ${input.lot.code} is marked ${input.lot.status}.` };
+  }
+  if (shelf - ageDays <= LOT_NEAR_EXPIRY_DAYS) {
+    return { rule, status: 'warn', reason: `Lot ${input.lot.code} was ${ageDays} days old ${when}, within ${LOT_NEAR_EXPIRY_DAYS} days of its ${shelf}-day shelf life.` };
+  }
+  return { rule, status: 'ok', reason: `Lot ${input.lot.code} was ${ageDays} days old ${when}, within its ${shelf}-day shelf life.` };
+}
+
+function dryWeighings(input: RunCheckInput): RuleCheck {
+  const rule = 'dry-weighings';
+  if (input.coupons.length === 0) return { rule, status: 'pending', reason: 'No coupons are in this run yet.' };
+  const missing = input.coupons.filter((c) => !c.hasDryWeighing);
+  if (missing.length === 0) return { rule, status: 'ok', reason: `All ${input.coupons.length} coupons have a dry weighing.` };
+  const vacuumStarted = stageOf(input, 'vacuum') !== undefined;
+  const tags = listTags(missing.map((c) => c.tag));
+  return vacuumStarted
+    ? { rule, status: 'fail', reason: `${missing.length} coupons went under vacuum without a dry weighing, so their uptake cannot be worked out: ${tags}.`, couponIds: missing.map((c) => c.id) }
+    : { rule, status: 'pending', reason: `${missing.length} coupons still need a dry weighing before the vacuum: ${tags}.`, couponIds: missing.map((c) => c.id) };
+}
+
+function cureTime(input: RunCheckInput): RuleCheck {
+  const rule = 'cure-time';
+  const cure = stageOf(input, 'cure');
+  const minutes = stageMinutes(cure);
+  const thick = input.coupons.filter((c) => c.thicknessMm !== null && c.thicknessMm > THIN_COUPON_MAX_MM);
+  const thickNote = thick.length > 0 ? ` ${thick.length} coupons are thicker than ${THIN_COUPON_MAX_MM} mm and need longer than that.` : '';
+  if (!cure) return { rule, status: 'pending', reason: `The cure has not started; thin pieces need at least ${formatMinutes(MIN_CURE_MINUTES)}.${thickNote}` };
+  if (minutes === null) return { rule, status: 'pending', reason: `Curing; thin pieces need at least ${formatMinutes(MIN_CURE_MINUTES)}.${thickNote}` };
+  if (minutes < MIN_CURE_MINUTES) {
+    return {
+      rule,
+      status: 'fail',
+      reason: `The cure lasted ${formatMinutes(minutes)}, less than the ${formatMinutes(MIN_CURE_MINUTES)} thin pieces need (common practice, no published source).${thickNote}`,
+    };
+  }
+  return { rule, status: 'ok', reason: `The cure lasted ${formatMinutes(minutes)}, at least ${formatMinutes(MIN_CURE_MINUTES)}.${thickNote}` };
+}
+
+/**
+ * The run's rule checks, each with a plain reason. The thresholds are the trade's rules of thumb
+ * (common practice, no published source) except constant mass, whose criteria the shop sets.
+ */
+export function runChecks(input: RunCheckInput): RuleCheck[] {
+  return [dryWeighings(input), dryingConstantMass(input), lotShelfLife(input), soakTime(input), cureTemperature(input), cureTime(input)];
+}

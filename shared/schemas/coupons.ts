@@ -1,0 +1,289 @@
+import { z } from 'zod';
+import { CHECK_KINDS, CHECK_STAGES, COUPON_ROLES, HARDNESS_SCALES, WEIGHING_STAGES } from '../constants/records';
+import { MC_SOURCES, SWELLING_BASES } from '../coupons/metrics';
+import { listQuerySchema, listResponseSchema } from './common';
+import { photoSchema, timestampSchema } from './runs';
+
+const idSchema = z.number().int().positive();
+
+export const couponTagSchema = z
+  .string()
+  .trim()
+  .min(1, 'Enter a tag')
+  .max(40)
+  .regex(/^[A-Za-z0-9][A-Za-z0-9 ._/-]*$/, 'Use letters, digits, spaces and . _ / -');
+const sourceBoardSchema = z.string().trim().max(120);
+const notesSchema = z.string().trim().max(2000, 'Use at most 2000 characters');
+/** Why a measurement was corrected or deleted; the audit log keeps it beside the old value. */
+export const reasonSchema = z.string().trim().min(3, 'Say why (at least 3 characters)').max(500);
+
+export const createCouponSchema = z.strictObject({
+  tag: couponTagSchema,
+  speciesId: idSchema,
+  role: z.enum(COUPON_ROLES),
+  trialId: idSchema.nullable().optional(),
+  conditionId: idSchema.nullable().optional(),
+  sourceBoard: sourceBoardSchema.nullable().optional(),
+  notes: notesSchema.nullable().optional(),
+});
+export type CreateCouponInput = z.infer<typeof createCouponSchema>;
+
+export const updateCouponSchema = z
+  .strictObject({
+    tag: couponTagSchema.optional(),
+    speciesId: idSchema.optional(),
+    role: z.enum(COUPON_ROLES).optional(),
+    sourceBoard: sourceBoardSchema.nullable().optional(),
+    notes: notesSchema.nullable().optional(),
+    /** Optional note for the audit log. */
+    reason: reasonSchema.optional(),
+  })
+  .refine((v) => Object.entries(v).some(([k, x]) => k !== 'reason' && x !== undefined), { message: 'Change at least one field' });
+export type UpdateCouponInput = z.infer<typeof updateCouponSchema>;
+
+export const couponListQuerySchema = listQuerySchema.extend({
+  runId: z.coerce.number().int().positive().optional(),
+  trialId: z.coerce.number().int().positive().optional(),
+  speciesId: z.coerce.number().int().positive().optional(),
+  conditionId: z.coerce.number().int().positive().optional(),
+  role: z.enum(COUPON_ROLES).optional(),
+});
+export type CouponListQuery = z.infer<typeof couponListQuerySchema>;
+
+// Bounds here only keep out typing accidents and absurd numbers; physically impossible values
+// (non-positive masses, cured below dry, moisture outside 0–300 %) are refused by the server with 422
+// and the reason, because they depend on the coupon's other readings.
+const massSchema = z.number().max(100_000, 'Above 100 kg is not a coupon');
+const lengthSchema = z.number().max(2000, 'Above 2000 mm is not a coupon');
+const volumeSchema = z.number().max(100_000, 'Above 100 000 cm³ is not a coupon');
+const methodSchema = z.string().trim().max(120);
+
+export const weighingInputSchema = z.strictObject({
+  stage: z.enum(WEIGHING_STAGES),
+  massG: massSchema,
+  measuredAt: timestampSchema,
+});
+export type WeighingInput = z.infer<typeof weighingInputSchema>;
+
+const dimensionCheckSchema = z
+  .strictObject({
+    kind: z.literal('dimension'),
+    stage: z.enum(CHECK_STAGES),
+    measuredAt: timestampSchema,
+    lengthMm: lengthSchema.optional(),
+    widthMm: lengthSchema.optional(),
+    thicknessMm: lengthSchema.optional(),
+    /** Volume by immersion, when callipers cannot measure the piece. */
+    volumeCm3: volumeSchema.optional(),
+    method: methodSchema.optional(),
+  })
+  .superRefine((v, ctx) => {
+    const dims = [v.lengthMm, v.widthMm, v.thicknessMm];
+    const some = dims.some((d) => d !== undefined);
+    if (v.volumeCm3 === undefined && !some) {
+      ctx.addIssue({ code: 'custom', path: ['lengthMm'], message: 'Give length, width and thickness, or a volume' });
+      return;
+    }
+    if (some) {
+      (['lengthMm', 'widthMm', 'thicknessMm'] as const).forEach((f) => {
+        if (v[f] === undefined) ctx.addIssue({ code: 'custom', path: [f], message: 'Give all three dimensions' });
+      });
+    }
+  });
+
+const hardnessCheckSchema = z.strictObject({
+  kind: z.literal('hardness'),
+  stage: z.enum(CHECK_STAGES),
+  measuredAt: timestampSchema,
+  hardnessValue: z.number().max(100_000),
+  /** Shore D, Janka (N) and Brinell HB are different tests; a value is kept on its own scale. */
+  hardnessScale: z.enum(HARDNESS_SCALES),
+  method: methodSchema.optional(),
+});
+
+const moistureCheckSchema = z.strictObject({
+  kind: z.literal('moisture'),
+  stage: z.enum(CHECK_STAGES),
+  measuredAt: timestampSchema,
+  moisturePct: z.number(),
+  method: methodSchema.optional(),
+});
+
+export const checkInputSchema = z.discriminatedUnion('kind', [dimensionCheckSchema, hardnessCheckSchema, moistureCheckSchema]);
+export type CheckInput = z.infer<typeof checkInputSchema>;
+
+export const correctWeighingSchema = z.strictObject({
+  massG: massSchema,
+  reason: reasonSchema,
+  measuredAt: timestampSchema.optional(),
+});
+export type CorrectWeighingInput = z.infer<typeof correctWeighingSchema>;
+
+/** A correction of a check: the values that change (of the check's own kind) and why. */
+export const correctCheckSchema = z
+  .strictObject({
+    lengthMm: lengthSchema.optional(),
+    widthMm: lengthSchema.optional(),
+    thicknessMm: lengthSchema.optional(),
+    volumeCm3: volumeSchema.optional(),
+    hardnessValue: z.number().max(100_000).optional(),
+    hardnessScale: z.enum(HARDNESS_SCALES).optional(),
+    moisturePct: z.number().optional(),
+    measuredAt: timestampSchema.optional(),
+    method: methodSchema.optional(),
+    reason: reasonSchema,
+  })
+  .refine((v) => Object.entries(v).some(([k, x]) => k !== 'reason' && x !== undefined), { message: 'Change at least one value' });
+export type CorrectCheckInput = z.infer<typeof correctCheckSchema>;
+
+export const deleteMeasurementSchema = z.strictObject({ reason: reasonSchema });
+export type DeleteMeasurementInput = z.infer<typeof deleteMeasurementSchema>;
+
+export const batchMeasurementsSchema = z.strictObject({
+  entries: z
+    .array(
+      z.strictObject({
+        couponId: idSchema,
+        weighings: z.array(weighingInputSchema).max(20).optional(),
+        checks: z.array(checkInputSchema).max(20).optional(),
+      }),
+    )
+    .min(1, 'Send at least one entry')
+    .max(500, 'At most 500 entries at once'),
+});
+export type BatchMeasurementsInput = z.infer<typeof batchMeasurementsSchema>;
+
+// Answers.
+
+export const weighingSchema = z.object({
+  id: z.number().int(),
+  couponId: z.number().int(),
+  stage: z.enum(WEIGHING_STAGES),
+  massG: z.number(),
+  measuredAt: z.string(),
+  importId: z.number().int().nullable(),
+  supersededBy: z.number().int().nullable(),
+  deletedAt: z.string().nullable(),
+  createdAt: z.string(),
+  createdBy: z.number().int().nullable(),
+});
+export type WeighingOut = z.infer<typeof weighingSchema>;
+
+export const checkSchema = z.object({
+  id: z.number().int(),
+  couponId: z.number().int(),
+  kind: z.enum(CHECK_KINDS),
+  stage: z.enum(CHECK_STAGES),
+  measuredAt: z.string(),
+  lengthMm: z.number().nullable(),
+  widthMm: z.number().nullable(),
+  thicknessMm: z.number().nullable(),
+  volumeCm3: z.number().nullable(),
+  hardnessValue: z.number().nullable(),
+  hardnessScale: z.enum(HARDNESS_SCALES).nullable(),
+  moisturePct: z.number().nullable(),
+  method: z.string().nullable(),
+  supersededBy: z.number().int().nullable(),
+  deletedAt: z.string().nullable(),
+  createdAt: z.string(),
+  createdBy: z.number().int().nullable(),
+});
+export type CheckOut = z.infer<typeof checkSchema>;
+
+const n = z.number().nullable();
+export const couponMetricsSchema = z.object({
+  dryMassG: n,
+  soakedMassG: n,
+  curedMassG: n,
+  wetTestMassG: n,
+  dryVolumeCm3: n,
+  curedVolumeCm3: n,
+  wetTestVolumeCm3: n,
+  thicknessMm: n,
+  mcPct: n,
+  mcSource: z.enum(MC_SOURCES).nullable(),
+  dryDensityKgM3: n,
+  drySg: n,
+  wpgPct: n,
+  wetUptakePct: n,
+  resinLoadingKgM3: n,
+  voidFillPct: n,
+  maxWpgPct: n,
+  cureLossPct: n,
+  bulkingPct: n,
+  swellingPct: n,
+  swellingBasis: z.enum(SWELLING_BASES).nullable(),
+  hardness: z.array(z.object({ stage: z.enum(CHECK_STAGES), scale: z.enum(HARDNESS_SCALES), value: z.number() })),
+  problems: z.array(z.object({ metric: z.string(), message: z.string() })),
+});
+
+export const antiSwellSchema = z.object({
+  asePct: z.number(),
+  basis: z.enum(SWELLING_BASES),
+  controlSwellingPct: z.number(),
+  controlCount: z.number().int(),
+});
+
+export const measurementWarningSchema = z.object({ field: z.string(), message: z.string() });
+export type MeasurementWarning = z.infer<typeof measurementWarningSchema>;
+
+export const couponSchema = z.object({
+  id: z.number().int(),
+  tag: z.string(),
+  trialId: z.number().int().nullable(),
+  trialCode: z.string().nullable(),
+  conditionId: z.number().int().nullable(),
+  speciesId: z.number().int(),
+  speciesName: z.string(),
+  role: z.enum(COUPON_ROLES),
+  sourceBoard: z.string().nullable(),
+  runId: z.number().int().nullable(),
+  runCode: z.string().nullable(),
+  notes: z.string().nullable(),
+  createdAt: z.string(),
+  resin: z.object({ id: z.number().int(), name: z.string(), curedDensityGcm3: z.number(), liquidDensityGcm3: z.number() }).nullable(),
+  /** Current readings only (not superseded, not deleted). */
+  weighings: z.array(weighingSchema),
+  checks: z.array(checkSchema),
+  metrics: couponMetricsSchema,
+  /** Against the controls of the same species in the same trial; null for controls. */
+  antiSwell: antiSwellSchema.nullable(),
+  /** Implausible but possible: e.g. a dry SG far from the species reference. */
+  warnings: z.array(measurementWarningSchema),
+});
+export type CouponOut = z.infer<typeof couponSchema>;
+export const couponListSchema = listResponseSchema(couponSchema);
+export const couponDetailSchema = couponSchema.extend({ photos: z.array(photoSchema) });
+export type CouponDetail = z.infer<typeof couponDetailSchema>;
+export const couponResponseSchema = z.object({ coupon: couponDetailSchema });
+
+export const weighingResponseSchema = z.object({ weighing: weighingSchema, coupon: couponSchema, warnings: z.array(measurementWarningSchema) });
+export const checkResponseSchema = z.object({ check: checkSchema, coupon: couponSchema, warnings: z.array(measurementWarningSchema) });
+
+export const batchResponseSchema = z.object({
+  written: z.object({ weighings: z.number().int(), checks: z.number().int() }),
+  coupons: z.array(couponSchema),
+  warnings: z.array(measurementWarningSchema.extend({ entry: z.number().int(), couponId: z.number().int() })),
+});
+
+export const auditEntrySchema = z.object({
+  id: z.number().int(),
+  action: z.string(),
+  entity: z.string(),
+  entityId: z.string().nullable(),
+  before: z.unknown(),
+  after: z.unknown(),
+  reason: z.string().nullable(),
+  actorId: z.number().int().nullable(),
+  actorName: z.string().nullable(),
+  createdAt: z.string(),
+});
+
+export const couponHistorySchema = z.object({
+  couponId: z.number().int(),
+  audit: z.array(auditEntrySchema),
+  /** Every reading ever entered, superseded and deleted ones included, oldest first. */
+  weighings: z.array(weighingSchema),
+  checks: z.array(checkSchema),
+});
+export type CouponHistory = z.infer<typeof couponHistorySchema>;
