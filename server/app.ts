@@ -16,6 +16,8 @@ import type { AuthedRequest } from './http/types';
 import { authRoutes, SESSION_COOKIE } from './features/auth/auth.router';
 import { findUserById, toUser } from './features/auth/auth.repo';
 import { adminRoutes } from './features/admin/admin.router';
+import { runsRoutes } from './features/runs/runs.router';
+import { couponsRoutes } from './features/coupons/coupons.router';
 import { referenceRoutes } from './features/reference/reference.router';
 import { trialsRoutes } from './features/trials/trials.router';
 
@@ -114,6 +116,8 @@ export function createApp(deps: AppDeps) {
     health,
     authRoutes(feature, deps.loginRateLimit ?? { windowMs: 15 * 60_000, limit: 10 }),
     adminRoutes(feature),
+    runsRoutes(feature),
+    couponsRoutes(feature),
     referenceRoutes(feature),
     trialsRoutes(feature),
   ];

@@ -7,6 +7,7 @@ import { users } from './db/schema/auth';
 import type { Role } from '../shared/constants/roles';
 import { DEMO_RESINS, seedReferenceDemo, seedReferenceSpecies } from './features/reference/reference.seed';
 import { seedTrialsDemo } from './features/trials/trials.seed';
+import { seedRunsDemo } from './features/runs/runs.seed';
 
 /** Password of every demo account; the demo exists only for trying the app, never for a real shop. */
 export const DEMO_PASSWORD = 'lumenbook-demo';
@@ -40,7 +41,7 @@ export type DemoSeeder = (ctx: DemoContext) => void;
 const referenceSeeders: ((db: Db) => void)[] = [seedReferenceSpecies];
 
 /** Feature demo seeders, run in this order inside the one demo transaction. */
-const demoSeeders: DemoSeeder[] = [seedReferenceDemo, (ctx) => seedTrialsDemo(ctx, DEMO_RESINS)];
+const demoSeeders: DemoSeeder[] = [seedReferenceDemo, (ctx) => seedTrialsDemo(ctx, DEMO_RESINS), seedRunsDemo];
 
 export function seedReference(database: Database_): void {
   database.db.transaction((tx) => {

@@ -1,0 +1,175 @@
+import { and, asc, eq, inArray, isNull, or, type SQL } from 'drizzle-orm';
+import type { Db } from '../../db/client';
+import { auditLog } from '../../db/schema/admin';
+import { users } from '../../db/schema/auth';
+import { checks, coupons, photos, weighings } from '../../db/schema/coupons';
+import { resinLots, resins, species } from '../../db/schema/reference';
+import { runs } from '../../db/schema/runs';
+import { trialConditions, trials } from '../../db/schema/trials';
+import type { PhotoOut } from '../../../shared/schemas/runs';
+
+export type CouponRow = typeof coupons.$inferSelect;
+export type WeighingRow = typeof weighings.$inferSelect;
+export type CheckRow = typeof checks.$inferSelect;
+export type SpeciesRow = typeof species.$inferSelect;
+export type ResinRow = typeof resins.$inferSelect;
+export type PhotoRow = typeof photos.$inferSelect;
+
+export interface CouponWithNames {
+  coupon: CouponRow;
+  speciesName: string;
+  trialCode: string | null;
+  runCode: string | null;
+}
+
+function withNames(db: Db) {
+  return db
+    .select({ coupon: coupons, speciesName: species.commonName, trialCode: trials.code, runCode: runs.code })
+    .from(coupons)
+    .innerJoin(species, eq(coupons.speciesId, species.id))
+    .leftJoin(trials, eq(coupons.trialId, trials.id))
+    .leftJoin(runs, eq(coupons.runId, runs.id));
+}
+
+export function findCoupon(db: Db, id: number): CouponWithNames | undefined {
+  return withNames(db).where(eq(coupons.id, id)).get();
+}
+
+export function findCouponByTag(db: Db, tag: string): CouponRow | undefined {
+  return db.select().from(coupons).where(eq(coupons.tag, tag)).get();
+}
+
+export function listCouponRows(db: Db, where: SQL | undefined, order: SQL[], limit: number, offset: number): CouponWithNames[] {
+  return withNames(db).where(where).orderBy(...order).limit(limit).offset(offset).all();
+}
+
+/** Control coupons of these trial × species pairs, for the anti-swell comparison. */
+export function controlsFor(db: Db, pairs: { trialId: number; speciesId: number }[]): CouponWithNames[] {
+  if (pairs.length === 0) return [];
+  const cond = or(...pairs.map((p) => and(eq(coupons.trialId, p.trialId), eq(coupons.speciesId, p.speciesId))));
+  return withNames(db).where(and(eq(coupons.role, 'control'), cond)).all();
+}
+
+const currentWeighing = and(isNull(weighings.supersededBy), isNull(weighings.deletedAt));
+const currentCheck = and(isNull(checks.supersededBy), isNull(checks.deletedAt));
+
+export function currentWeighings(db: Db, couponIds: number[]): WeighingRow[] {
+  if (couponIds.length === 0) return [];
+  return db.select().from(weighings).where(and(inArray(weighings.couponId, couponIds), currentWeighing)).orderBy(asc(weighings.measuredAt), asc(weighings.id)).all();
+}
+
+export function currentChecks(db: Db, couponIds: number[]): CheckRow[] {
+  if (couponIds.length === 0) return [];
+  return db.select().from(checks).where(and(inArray(checks.couponId, couponIds), currentCheck)).orderBy(asc(checks.measuredAt), asc(checks.id)).all();
+}
+
+export function allWeighings(db: Db, couponId: number): WeighingRow[] {
+  return db.select().from(weighings).where(eq(weighings.couponId, couponId)).orderBy(asc(weighings.id)).all();
+}
+
+export function allChecks(db: Db, couponId: number): CheckRow[] {
+  return db.select().from(checks).where(eq(checks.couponId, couponId)).orderBy(asc(checks.id)).all();
+}
+
+export function findWeighing(db: Db, id: number): WeighingRow | undefined {
+  return db.select().from(weighings).where(eq(weighings.id, id)).get();
+}
+
+export function findCheck(db: Db, id: number): CheckRow | undefined {
+  return db.select().from(checks).where(eq(checks.id, id)).get();
+}
+
+export function speciesByIds(db: Db, ids: number[]): Map<number, SpeciesRow> {
+  if (ids.length === 0) return new Map();
+  return new Map(db.select().from(species).where(inArray(species.id, ids)).all().map((s) => [s.id, s]));
+}
+
+export function findSpecies(db: Db, id: number): SpeciesRow | undefined {
+  return db.select().from(species).where(eq(species.id, id)).get();
+}
+
+export function findTrial(db: Db, id: number) {
+  return db.select().from(trials).where(eq(trials.id, id)).get();
+}
+
+export function findCondition(db: Db, id: number) {
+  return db.select().from(trialConditions).where(eq(trialConditions.id, id)).get();
+}
+
+export function findRunRow(db: Db, id: number) {
+  return db.select().from(runs).where(eq(runs.id, id)).get();
+}
+
+/**
+ * The resin each coupon went through: its run's lot's resin; before it is in a run, the resin its
+ * trial condition plans for it.
+ */
+export function resinsFor(db: Db, rows: CouponRow[]): Map<number, ResinRow> {
+  const out = new Map<number, ResinRow>();
+  const runIds = [...new Set(rows.map((r) => r.runId).filter((x): x is number => x !== null))];
+  const byRun = new Map<number, ResinRow>();
+  if (runIds.length) {
+    const rr = db
+      .select({ runId: runs.id, resin: resins })
+      .from(runs)
+      .innerJoin(resinLots, eq(runs.resinLotId, resinLots.id))
+      .innerJoin(resins, eq(resinLots.resinId, resins.id))
+      .where(inArray(runs.id, runIds))
+      .all();
+    for (const r of rr) byRun.set(r.runId, r.resin);
+  }
+  const condIds = [...new Set(rows.map((r) => r.conditionId).filter((x): x is number => x !== null))];
+  const byCond = new Map<number, ResinRow>();
+  if (condIds.length) {
+    const cr = db
+      .select({ conditionId: trialConditions.id, resin: resins })
+      .from(trialConditions)
+      .innerJoin(resins, eq(trialConditions.resinId, resins.id))
+      .where(inArray(trialConditions.id, condIds))
+      .all();
+    for (const r of cr) byCond.set(r.conditionId, r.resin);
+  }
+  for (const c of rows) {
+    const resin = (c.runId !== null ? byRun.get(c.runId) : undefined) ?? (c.conditionId !== null ? byCond.get(c.conditionId) : undefined);
+    if (resin) out.set(c.id, resin);
+  }
+  return out;
+}
+
+export function photosOf(db: Db, couponId: number): PhotoOut[] {
+  return db.select().from(photos).where(eq(photos.couponId, couponId)).orderBy(asc(photos.id)).all().map(toPhotoOut);
+}
+
+export function toPhotoOut(p: PhotoRow): PhotoOut {
+  return {
+    id: p.id,
+    couponId: p.couponId,
+    runId: p.runId,
+    kind: p.kind,
+    originalName: p.originalName,
+    mimeType: p.mimeType,
+    bytes: p.bytes,
+    caption: p.caption,
+    createdAt: p.createdAt,
+    url: `/api/photos/${p.id}`,
+  };
+}
+
+export function findPhoto(db: Db, id: number): PhotoRow | undefined {
+  return db.select().from(photos).where(eq(photos.id, id)).get();
+}
+
+/** Audit entries about a coupon, its readings and its photos, oldest first, with the actor's name. */
+export function auditFor(db: Db, couponId: number, weighingIds: number[], checkIds: number[], photoIds: number[]) {
+  const of = (entity: string, ids: number[]) => (ids.length ? and(eq(auditLog.entity, entity), inArray(auditLog.entityId, ids.map(String))) : undefined);
+  const conds = [and(eq(auditLog.entity, 'coupon'), eq(auditLog.entityId, String(couponId))), of('weighing', weighingIds), of('check', checkIds), of('photo', photoIds)].filter(
+    (c): c is SQL => c !== undefined,
+  );
+  return db
+    .select({ entry: auditLog, actorName: users.name })
+    .from(auditLog)
+    .leftJoin(users, eq(auditLog.actorId, users.id))
+    .where(or(...conds))
+    .orderBy(asc(auditLog.id))
+    .all();
+}

@@ -1,0 +1,504 @@
+import { and, asc, count, desc, eq } from 'drizzle-orm';
+import type { FeatureDeps } from '../../deps';
+import type { Db } from '../../db/client';
+import { writeAudit } from '../../db/audit';
+import { checks, coupons, weighings } from '../../db/schema/coupons';
+import { Conflict, NotFound, Unprocessable, ValidationFailed } from '../../http/errors';
+import type { User } from '../../../shared/schemas/auth';
+import type {
+  BatchMeasurementsInput,
+  CheckInput,
+  CheckOut,
+  CorrectCheckInput,
+  CorrectWeighingInput,
+  CouponDetail,
+  CouponHistory,
+  CouponListQuery,
+  CouponOut,
+  CreateCouponInput,
+  MeasurementWarning,
+  UpdateCouponInput,
+  WeighingInput,
+  WeighingOut,
+} from '../../../shared/schemas/coupons';
+import { antiSwellForList, couponMetrics, massAt, type CouponMetrics } from '../../../shared/coupons/metrics';
+import { sgPlausibility, sgWarningText } from '../../../shared/coupons/plausibility';
+import { checkProblems, weighingProblem, type MeasurementProblem } from '../../../shared/coupons/validate';
+import {
+  allChecks,
+  allWeighings,
+  auditFor,
+  controlsFor,
+  currentChecks,
+  currentWeighings,
+  findCheck,
+  findCondition,
+  findCoupon,
+  findCouponByTag,
+  findSpecies,
+  findTrial,
+  findWeighing,
+  listCouponRows,
+  photosOf,
+  resinsFor,
+  speciesByIds,
+  type CheckRow,
+  type CouponRow,
+  type CouponWithNames,
+  type ResinRow,
+  type SpeciesRow,
+  type WeighingRow,
+} from './coupons.repo';
+
+const SORTS = { id: coupons.id, tag: coupons.tag, createdAt: coupons.createdAt } as const;
+
+/** Fields each check kind may carry; anything else in a correction is refused. */
+const CHECK_FIELDS = {
+  dimension: ['lengthMm', 'widthMm', 'thicknessMm', 'volumeCm3'],
+  hardness: ['hardnessValue', 'hardnessScale'],
+  moisture: ['moisturePct'],
+} as const;
+
+export function toWeighingOut(r: WeighingRow): WeighingOut {
+  return {
+    id: r.id,
+    couponId: r.couponId,
+    stage: r.stage,
+    massG: r.massG,
+    measuredAt: r.measuredAt,
+    importId: r.importId,
+    supersededBy: r.supersededBy,
+    deletedAt: r.deletedAt,
+    createdAt: r.createdAt,
+    createdBy: r.createdBy,
+  };
+}
+
+export function toCheckOut(r: CheckRow): CheckOut {
+  return {
+    id: r.id,
+    couponId: r.couponId,
+    kind: r.kind,
+    stage: r.stage,
+    measuredAt: r.measuredAt,
+    lengthMm: r.lengthMm,
+    widthMm: r.widthMm,
+    thicknessMm: r.thicknessMm,
+    volumeCm3: r.volumeCm3,
+    hardnessValue: r.hardnessValue,
+    hardnessScale: r.hardnessScale,
+    moisturePct: r.moisturePct,
+    method: r.method,
+    supersededBy: r.supersededBy,
+    deletedAt: r.deletedAt,
+    createdAt: r.createdAt,
+    createdBy: r.createdBy,
+  };
+}
+
+function metricsOf(coupon: CouponRow, ws: WeighingRow[], cs: CheckRow[], resin: ResinRow | undefined): CouponMetrics {
+  return couponMetrics({
+    role: coupon.role,
+    weighings: ws.map((w) => ({ stage: w.stage, massG: w.massG, measuredAt: w.measuredAt })),
+    checks: cs,
+    resin: resin ? { curedDensityGcm3: resin.curedDensityGcm3 } : null,
+  });
+}
+
+/** Implausible but possible readings, which are kept and pointed out. */
+export function warningsOf(metrics: CouponMetrics, sp: SpeciesRow | undefined): MeasurementWarning[] {
+  const out: MeasurementWarning[] = [];
+  if (metrics.drySg !== null && sp) {
+    const p = sgPlausibility(metrics.drySg, sp);
+    if (p && !p.plausible) out.push({ field: 'drySg', message: sgWarningText(metrics.drySg, p) });
+  }
+  if (metrics.voidFillPct !== null && metrics.voidFillPct > 100) {
+    out.push({
+      field: 'voidFillPct',
+      message: `The void fill works out at ${metrics.voidFillPct.toFixed(0)} %, above 100 %: a resin film on the surface, a swollen piece or a weighing error`,
+    });
+  }
+  for (const p of metrics.problems) out.push({ field: p.metric, message: p.message });
+  return out;
+}
+
+function problemError(prefix: string, problems: MeasurementProblem[]): Unprocessable {
+  const fieldErrors: Record<string, string[]> = {};
+  for (const p of problems) (fieldErrors[`${prefix}${p.field}`] ??= []).push(p.message);
+  const first = problems[0] as MeasurementProblem;
+  return new Unprocessable(prefix ? `${prefix.replace(/\.$/, '')}: ${first.message}` : first.message, fieldErrors);
+}
+
+function currentMasses(ws: WeighingRow[]) {
+  const readings = ws.map((w) => ({ stage: w.stage, massG: w.massG, measuredAt: w.measuredAt }));
+  return { dry: massAt(readings, 'dry'), soaked: massAt(readings, 'soaked'), cured: massAt(readings, 'cured') };
+}
+
+export function createCouponsService(deps: FeatureDeps) {
+  const { db } = deps.database;
+
+  /** Coupon answers with computed metrics, warnings and ASE against the controls of their trial and species. */
+  function build(tx: Db, rows: CouponWithNames[]): CouponOut[] {
+    if (rows.length === 0) return [];
+    const present = new Set(rows.map((r) => r.coupon.id));
+    const pairs = new Map<string, { trialId: number; speciesId: number }>();
+    for (const r of rows) {
+      if (r.coupon.role === 'treated' && r.coupon.trialId !== null) {
+        pairs.set(`${r.coupon.trialId}|${r.coupon.speciesId}`, { trialId: r.coupon.trialId, speciesId: r.coupon.speciesId });
+      }
+    }
+    const extra = controlsFor(tx, [...pairs.values()]).filter((c) => !present.has(c.coupon.id));
+    const all = [...rows, ...extra];
+    const ids = all.map((r) => r.coupon.id);
+    const ws = currentWeighings(tx, ids);
+    const cs = currentChecks(tx, ids);
+    const resinMap = resinsFor(tx, all.map((r) => r.coupon));
+    const spMap = speciesByIds(tx, [...new Set(all.map((r) => r.coupon.speciesId))]);
+    const computed = all.map((r) => {
+      const mineW = ws.filter((w) => w.couponId === r.coupon.id);
+      const mineC = cs.filter((c) => c.couponId === r.coupon.id);
+      const resin = resinMap.get(r.coupon.id);
+      return { r, mineW, mineC, resin, metrics: metricsOf(r.coupon, mineW, mineC, resin) };
+    });
+    const ase = antiSwellForList(computed.map((c) => ({ trialId: c.r.coupon.trialId, speciesId: c.r.coupon.speciesId, role: c.r.coupon.role, metrics: c.metrics })));
+    return computed.slice(0, rows.length).map((c, i) => ({
+      id: c.r.coupon.id,
+      tag: c.r.coupon.tag,
+      trialId: c.r.coupon.trialId,
+      trialCode: c.r.trialCode,
+      conditionId: c.r.coupon.conditionId,
+      speciesId: c.r.coupon.speciesId,
+      speciesName: c.r.speciesName,
+      role: c.r.coupon.role,
+      sourceBoard: c.r.coupon.sourceBoard,
+      runId: c.r.coupon.runId,
+      runCode: c.r.runCode,
+      notes: c.r.coupon.notes,
+      createdAt: c.r.coupon.createdAt,
+      resin: c.resin ? { id: c.resin.id, name: c.resin.name, curedDensityGcm3: c.resin.curedDensityGcm3, liquidDensityGcm3: c.resin.liquidDensityGcm3 } : null,
+      weighings: c.mineW.map(toWeighingOut),
+      checks: c.mineC.map(toCheckOut),
+      metrics: c.metrics,
+      antiSwell: ase[i] ?? null,
+      warnings: warningsOf(c.metrics, spMap.get(c.r.coupon.speciesId)),
+    }));
+  }
+
+  function requireCoupon(tx: Db, id: number): CouponWithNames {
+    const c = findCoupon(tx, id);
+    if (!c) throw new NotFound('Coupon');
+    return c;
+  }
+
+  function one(tx: Db, id: number): CouponOut {
+    return build(tx, [requireCoupon(tx, id)])[0] as CouponOut;
+  }
+
+  function list(q: CouponListQuery): { items: CouponOut[]; page: number; pageSize: number; total: number } {
+    const sortKey = (q.sort ?? 'tag').replace(/^-/, '');
+    const column = SORTS[sortKey as keyof typeof SORTS];
+    if (!column) throw new ValidationFailed(`Cannot sort coupons by ${sortKey}`, { sort: [`Sort by one of ${Object.keys(SORTS).join(', ')}`] });
+    const direction = q.sort?.startsWith('-') ? desc : asc;
+    const filters = [
+      q.runId === undefined ? undefined : eq(coupons.runId, q.runId),
+      q.trialId === undefined ? undefined : eq(coupons.trialId, q.trialId),
+      q.speciesId === undefined ? undefined : eq(coupons.speciesId, q.speciesId),
+      q.conditionId === undefined ? undefined : eq(coupons.conditionId, q.conditionId),
+      q.role === undefined ? undefined : eq(coupons.role, q.role),
+    ].filter((f) => f !== undefined);
+    const where = filters.length ? and(...filters) : undefined;
+    const rows = listCouponRows(db, where, [direction(column), asc(coupons.id)], q.pageSize, (q.page - 1) * q.pageSize);
+    const total = db.select({ n: count() }).from(coupons).where(where).get()?.n ?? 0;
+    return { items: build(db, rows), page: q.page, pageSize: q.pageSize, total };
+  }
+
+  function get(id: number): CouponDetail {
+    return { ...one(db, id), photos: photosOf(db, id) };
+  }
+
+  function validateLinks(tx: Db, v: { speciesId: number; role: 'treated' | 'control'; trialId: number | null; conditionId: number | null }) {
+    if (!findSpecies(tx, v.speciesId)) throw new Unprocessable(`No species with id ${v.speciesId}`, { speciesId: [`No species with id ${v.speciesId}`] });
+    if (v.trialId !== null && !findTrial(tx, v.trialId)) throw new Unprocessable(`No trial with id ${v.trialId}`, { trialId: [`No trial with id ${v.trialId}`] });
+    if (v.conditionId !== null) {
+      if (v.role === 'control') {
+        const msg = 'A control coupon belongs to its trial and species, not to a treated condition';
+        throw new Unprocessable(msg, { conditionId: [msg] });
+      }
+      const cond = findCondition(tx, v.conditionId);
+      if (!cond) throw new Unprocessable(`No trial condition with id ${v.conditionId}`, { conditionId: [`No trial condition with id ${v.conditionId}`] });
+      if (v.trialId !== null && cond.trialId !== v.trialId) {
+        throw new Unprocessable('That condition belongs to another trial', { conditionId: ['That condition belongs to another trial'] });
+      }
+      if (cond.speciesId !== v.speciesId) {
+        throw new Unprocessable('The condition is for another species', { speciesId: ['The condition is for another species'] });
+      }
+    }
+  }
+
+  function create(actor: User, input: CreateCouponInput): CouponDetail {
+    const id = db.transaction((tx) => {
+      if (findCouponByTag(tx, input.tag)) throw new Conflict(`A coupon tagged ${input.tag} already exists`, { tag: ['This tag is taken'] });
+      let trialId = input.trialId ?? null;
+      const conditionId = input.conditionId ?? null;
+      if (trialId === null && conditionId !== null) trialId = findCondition(tx, conditionId)?.trialId ?? null;
+      validateLinks(tx, { speciesId: input.speciesId, role: input.role, trialId, conditionId });
+      const row = tx
+        .insert(coupons)
+        .values({
+          tag: input.tag,
+          speciesId: input.speciesId,
+          role: input.role,
+          trialId,
+          conditionId,
+          sourceBoard: input.sourceBoard ?? null,
+          notes: input.notes ?? null,
+          createdBy: actor.id,
+        })
+        .returning()
+        .get();
+      writeAudit(tx, { actorId: actor.id, action: 'create', entity: 'coupon', entityId: row.id, after: row });
+      return row.id;
+    });
+    return get(id);
+  }
+
+  function update(actor: User, id: number, input: UpdateCouponInput): CouponDetail {
+    db.transaction((tx) => {
+      const before = requireCoupon(tx, id).coupon;
+      if (input.tag !== undefined && input.tag !== before.tag && findCouponByTag(tx, input.tag)) {
+        throw new Conflict(`A coupon tagged ${input.tag} already exists`, { tag: ['This tag is taken'] });
+      }
+      const next = { speciesId: input.speciesId ?? before.speciesId, role: input.role ?? before.role };
+      if (next.role === 'control' && before.runId !== null) {
+        throw new Conflict('This coupon is in a run; a control goes in no run', { role: ['Remove the coupon from its run first'] });
+      }
+      validateLinks(tx, { ...next, trialId: before.trialId, conditionId: before.conditionId });
+      const set: Partial<typeof coupons.$inferInsert> = {};
+      if (input.tag !== undefined) set.tag = input.tag;
+      if (input.speciesId !== undefined) set.speciesId = input.speciesId;
+      if (input.role !== undefined) set.role = input.role;
+      if (input.sourceBoard !== undefined) set.sourceBoard = input.sourceBoard;
+      if (input.notes !== undefined) set.notes = input.notes;
+      const after = tx.update(coupons).set(set).where(eq(coupons.id, id)).returning().get();
+      writeAudit(tx, { actorId: actor.id, action: 'update', entity: 'coupon', entityId: id, before, after, reason: input.reason ?? null });
+    });
+    return get(id);
+  }
+
+  function applyWeighing(tx: Db, actor: User, coupon: CouponRow, input: WeighingInput, prefix: string): WeighingRow {
+    if (coupon.role === 'control' && (input.stage === 'soaked' || input.stage === 'cured')) {
+      throw problemError(prefix, [{ field: 'stage', message: `${coupon.tag} is a control: it is never soaked in resin or cured, so it has no ${input.stage} weighing` }]);
+    }
+    const ws = currentWeighings(tx, [coupon.id]);
+    if (input.stage !== 'drying-check') {
+      const dup = ws.find((w) => w.stage === input.stage);
+      if (dup) {
+        const msg = `${coupon.tag} already has a ${input.stage} weighing (${dup.massG} g); correct that one, with a reason, instead of adding another`;
+        throw new Conflict(prefix ? `${prefix.replace(/\.$/, '')}: ${msg}` : msg, { [`${prefix}stage`]: [msg] });
+      }
+    }
+    const problem = weighingProblem(input.stage, input.massG, currentMasses(ws));
+    if (problem) throw problemError(prefix, [problem]);
+    const row = tx.insert(weighings).values({ couponId: coupon.id, stage: input.stage, massG: input.massG, measuredAt: input.measuredAt, createdBy: actor.id }).returning().get();
+    writeAudit(tx, { actorId: actor.id, action: 'create', entity: 'weighing', entityId: row.id, after: row });
+    return row;
+  }
+
+  function applyCheck(tx: Db, actor: User, coupon: CouponRow, input: CheckInput, prefix: string): CheckRow {
+    const problems = checkProblems(input);
+    if (problems.length) throw problemError(prefix, problems);
+    if (input.kind === 'dimension') {
+      const dup = currentChecks(tx, [coupon.id]).find((c) => c.kind === 'dimension' && c.stage === input.stage);
+      if (dup) {
+        const msg = `${coupon.tag} already has ${input.stage} dimensions; correct those, with a reason, instead of adding another set`;
+        throw new Conflict(prefix ? `${prefix.replace(/\.$/, '')}: ${msg}` : msg, { [`${prefix}stage`]: [msg] });
+      }
+    }
+    const row = tx
+      .insert(checks)
+      .values({
+        couponId: coupon.id,
+        kind: input.kind,
+        stage: input.stage,
+        measuredAt: input.measuredAt,
+        lengthMm: input.kind === 'dimension' ? (input.lengthMm ?? null) : null,
+        widthMm: input.kind === 'dimension' ? (input.widthMm ?? null) : null,
+        thicknessMm: input.kind === 'dimension' ? (input.thicknessMm ?? null) : null,
+        volumeCm3: input.kind === 'dimension' ? (input.volumeCm3 ?? null) : null,
+        hardnessValue: input.kind === 'hardness' ? input.hardnessValue : null,
+        hardnessScale: input.kind === 'hardness' ? input.hardnessScale : null,
+        moisturePct: input.kind === 'moisture' ? input.moisturePct : null,
+        method: input.method ?? null,
+        createdBy: actor.id,
+      })
+      .returning()
+      .get();
+    writeAudit(tx, { actorId: actor.id, action: 'create', entity: 'check', entityId: row.id, after: row });
+    return row;
+  }
+
+  function withWarnings<T>(tx: Db, couponId: number, extra: T) {
+    const coupon = one(tx, couponId);
+    return { ...extra, coupon, warnings: coupon.warnings };
+  }
+
+  function addWeighing(actor: User, couponId: number, input: WeighingInput) {
+    return db.transaction((tx) => {
+      const c = requireCoupon(tx, couponId);
+      const row = applyWeighing(tx, actor, c.coupon, input, '');
+      return withWarnings(tx, couponId, { weighing: toWeighingOut(row) });
+    });
+  }
+
+  function addCheck(actor: User, couponId: number, input: CheckInput) {
+    return db.transaction((tx) => {
+      const c = requireCoupon(tx, couponId);
+      const row = applyCheck(tx, actor, c.coupon, input, '');
+      return withWarnings(tx, couponId, { check: toCheckOut(row) });
+    });
+  }
+
+  function requireCurrent<R extends { supersededBy: number | null; deletedAt: string | null }>(row: R | undefined, what: string): R {
+    if (!row) throw new NotFound(what);
+    if (row.deletedAt !== null) throw new Conflict(`This ${what.toLowerCase()} was deleted; it cannot be changed`);
+    if (row.supersededBy !== null) {
+      throw new Conflict(`This ${what.toLowerCase()} was already corrected; correct the current one (id ${row.supersededBy})`);
+    }
+    return row;
+  }
+
+  function correctWeighing(actor: User, id: number, input: CorrectWeighingInput) {
+    return db.transaction((tx) => {
+      const old = requireCurrent(findWeighing(tx, id), 'Weighing');
+      const others = currentWeighings(tx, [old.couponId]).filter((w) => w.id !== old.id);
+      const problem = weighingProblem(old.stage, input.massG, currentMasses(others));
+      if (problem) throw problemError('', [problem]);
+      const row = tx
+        .insert(weighings)
+        .values({ couponId: old.couponId, stage: old.stage, massG: input.massG, measuredAt: input.measuredAt ?? old.measuredAt, importId: old.importId, createdBy: actor.id })
+        .returning()
+        .get();
+      tx.update(weighings).set({ supersededBy: row.id }).where(eq(weighings.id, old.id)).run();
+      writeAudit(tx, { actorId: actor.id, action: 'correct', entity: 'weighing', entityId: old.id, before: old, after: row, reason: input.reason });
+      return withWarnings(tx, old.couponId, { weighing: toWeighingOut(row), superseded: toWeighingOut({ ...old, supersededBy: row.id }) });
+    });
+  }
+
+  function correctCheck(actor: User, id: number, input: CorrectCheckInput) {
+    return db.transaction((tx) => {
+      const old = requireCurrent(findCheck(tx, id), 'Check');
+      const allowed: readonly string[] = CHECK_FIELDS[old.kind];
+      const foreign = Object.entries(input)
+        .filter(([k, v]) => v !== undefined && !['reason', 'measuredAt', 'method'].includes(k) && !allowed.includes(k))
+        .map(([k]) => k);
+      if (foreign.length) {
+        throw new ValidationFailed(`A ${old.kind} check has no ${foreign.join(', ')}`, Object.fromEntries(foreign.map((f) => [f, [`Not a field of a ${old.kind} check`]])));
+      }
+      const next = {
+        couponId: old.couponId,
+        kind: old.kind,
+        stage: old.stage,
+        measuredAt: input.measuredAt ?? old.measuredAt,
+        lengthMm: input.lengthMm ?? old.lengthMm,
+        widthMm: input.widthMm ?? old.widthMm,
+        thicknessMm: input.thicknessMm ?? old.thicknessMm,
+        volumeCm3: input.volumeCm3 ?? old.volumeCm3,
+        hardnessValue: input.hardnessValue ?? old.hardnessValue,
+        hardnessScale: input.hardnessScale ?? old.hardnessScale,
+        moisturePct: input.moisturePct ?? old.moisturePct,
+        method: input.method ?? old.method,
+        createdBy: actor.id,
+      };
+      const problems = checkProblems(next);
+      if (problems.length) throw problemError('', problems);
+      const row = tx.insert(checks).values(next).returning().get();
+      tx.update(checks).set({ supersededBy: row.id }).where(eq(checks.id, old.id)).run();
+      writeAudit(tx, { actorId: actor.id, action: 'correct', entity: 'check', entityId: old.id, before: old, after: row, reason: input.reason });
+      return withWarnings(tx, old.couponId, { check: toCheckOut(row), superseded: toCheckOut({ ...old, supersededBy: row.id }) });
+    });
+  }
+
+  function deleteWeighing(actor: User, id: number, reason: string) {
+    return db.transaction((tx) => {
+      const old = requireCurrent(findWeighing(tx, id), 'Weighing');
+      const deletedAt = deps.now().toISOString();
+      tx.update(weighings).set({ deletedAt }).where(eq(weighings.id, id)).run();
+      writeAudit(tx, { actorId: actor.id, action: 'delete', entity: 'weighing', entityId: id, before: old, after: { ...old, deletedAt }, reason });
+      return { coupon: one(tx, old.couponId) };
+    });
+  }
+
+  function deleteCheck(actor: User, id: number, reason: string) {
+    return db.transaction((tx) => {
+      const old = requireCurrent(findCheck(tx, id), 'Check');
+      const deletedAt = deps.now().toISOString();
+      tx.update(checks).set({ deletedAt }).where(eq(checks.id, id)).run();
+      writeAudit(tx, { actorId: actor.id, action: 'delete', entity: 'check', entityId: id, before: old, after: { ...old, deletedAt }, reason });
+      return { coupon: one(tx, old.couponId) };
+    });
+  }
+
+  /** The entry grid's save: every entry or none, errors naming `entries.<i>.<list>.<j>.<field>`. */
+  function batch(actor: User, input: BatchMeasurementsInput) {
+    return db.transaction((tx) => {
+      const touched: number[] = [];
+      let nw = 0;
+      let nc = 0;
+      input.entries.forEach((e, i) => {
+        const c = findCoupon(tx, e.couponId);
+        if (!c) {
+          const msg = `No coupon with id ${e.couponId}`;
+          throw new Unprocessable(`entries.${i}: ${msg}`, { [`entries.${i}.couponId`]: [msg] });
+        }
+        (e.weighings ?? []).forEach((w, j) => {
+          applyWeighing(tx, actor, c.coupon, w, `entries.${i}.weighings.${j}.`);
+          nw++;
+        });
+        (e.checks ?? []).forEach((k, j) => {
+          applyCheck(tx, actor, c.coupon, k, `entries.${i}.checks.${j}.`);
+          nc++;
+        });
+        if (!touched.includes(c.coupon.id)) touched.push(c.coupon.id);
+      });
+      const out = build(
+        tx,
+        touched.map((id) => requireCoupon(tx, id)),
+      );
+      const warnings = input.entries.flatMap((e, i) => (out.find((c) => c.id === e.couponId)?.warnings ?? []).map((w) => ({ ...w, entry: i, couponId: e.couponId })));
+      return { written: { weighings: nw, checks: nc }, coupons: out, warnings };
+    });
+  }
+
+  function history(id: number): CouponHistory {
+    requireCoupon(db, id);
+    const ws = allWeighings(db, id);
+    const cs = allChecks(db, id);
+    const ps = photosOf(db, id);
+    const entries = auditFor(
+      db,
+      id,
+      ws.map((w) => w.id),
+      cs.map((c) => c.id),
+      ps.map((p) => p.id),
+    );
+    return {
+      couponId: id,
+      audit: entries.map(({ entry, actorName }) => ({
+        id: entry.id,
+        action: entry.action,
+        entity: entry.entity,
+        entityId: entry.entityId,
+        before: entry.before,
+        after: entry.after,
+        reason: entry.reason,
+        actorId: entry.actorId,
+        actorName,
+        createdAt: entry.createdAt,
+      })),
+      weighings: ws.map(toWeighingOut),
+      checks: cs.map(toCheckOut),
+    };
+  }
+
+  return { list, get, create, update, addWeighing, addCheck, correctWeighing, correctCheck, deleteWeighing, deleteCheck, batch, history };
+}

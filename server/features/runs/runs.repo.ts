@@ -1,0 +1,138 @@
+import { and, asc, eq, inArray, isNull } from 'drizzle-orm';
+import type { Db } from '../../db/client';
+import { settings } from '../../db/schema/admin';
+import { checks, coupons, photos, weighings } from '../../db/schema/coupons';
+import { resinLots, resins, species } from '../../db/schema/reference';
+import { runReadings, runStages, runs } from '../../db/schema/runs';
+import { DEFAULT_SHOP_SETTINGS, shopSettingsSchema, type ShopSettings } from '../../../shared/schemas/admin';
+import type { WeighingStage } from '../../../shared/constants/records';
+import type { PhotoOut } from '../../../shared/schemas/runs';
+
+export type RunRow = typeof runs.$inferSelect;
+export type StageRow = typeof runStages.$inferSelect;
+export type ReadingRow = typeof runReadings.$inferSelect;
+
+/** The shop settings merged over the defaults, read here so this feature depends on no other. */
+export function getShopSettings(db: Db): ShopSettings {
+  const stored = Object.fromEntries(db.select().from(settings).all().map((r) => [r.key, r.value]));
+  const parsed = shopSettingsSchema.safeParse({ ...DEFAULT_SHOP_SETTINGS, ...stored });
+  return parsed.success ? parsed.data : DEFAULT_SHOP_SETTINGS;
+}
+
+export function findRun(db: Db, id: number): RunRow | undefined {
+  return db.select().from(runs).where(eq(runs.id, id)).get();
+}
+
+export function findRunByCode(db: Db, code: string): RunRow | undefined {
+  return db.select().from(runs).where(eq(runs.code, code)).get();
+}
+
+export function stagesOf(db: Db, runIds: number[]): StageRow[] {
+  if (runIds.length === 0) return [];
+  return db.select().from(runStages).where(inArray(runStages.runId, runIds)).all();
+}
+
+export function readingsOf(db: Db, runId: number): ReadingRow[] {
+  return db.select().from(runReadings).where(eq(runReadings.runId, runId)).orderBy(asc(runReadings.at), asc(runReadings.id)).all();
+}
+
+export interface LotWithResin {
+  lot: typeof resinLots.$inferSelect;
+  resin: typeof resins.$inferSelect;
+}
+
+export function findLot(db: Db, lotId: number): LotWithResin | undefined {
+  const row = db.select({ lot: resinLots, resin: resins }).from(resinLots).innerJoin(resins, eq(resinLots.resinId, resins.id)).where(eq(resinLots.id, lotId)).get();
+  return row ?? undefined;
+}
+
+export function lotsByIds(db: Db, ids: number[]): Map<number, LotWithResin> {
+  if (ids.length === 0) return new Map();
+  const rows = db.select({ lot: resinLots, resin: resins }).from(resinLots).innerJoin(resins, eq(resinLots.resinId, resins.id)).where(inArray(resinLots.id, ids)).all();
+  return new Map(rows.map((r) => [r.lot.id, r]));
+}
+
+/** What the run checks and the bench need to know about each coupon of a run. */
+export interface RunCouponInfo {
+  id: number;
+  tag: string;
+  role: 'treated' | 'control';
+  runId: number;
+  speciesId: number;
+  speciesName: string;
+  stagesWeighed: WeighingStage[];
+  dryingChecks: { at: string; massG: number }[];
+  thicknessMm: number | null;
+}
+
+export function couponsOfRuns(db: Db, runIds: number[]): RunCouponInfo[] {
+  if (runIds.length === 0) return [];
+  const rows = db
+    .select({ id: coupons.id, tag: coupons.tag, role: coupons.role, runId: coupons.runId, speciesId: coupons.speciesId, speciesName: species.commonName })
+    .from(coupons)
+    .innerJoin(species, eq(coupons.speciesId, species.id))
+    .where(inArray(coupons.runId, runIds))
+    .orderBy(asc(coupons.tag))
+    .all();
+  if (rows.length === 0) return [];
+  const ids = rows.map((r) => r.id);
+  const current = (t: typeof weighings | typeof checks) => and(isNull(t.supersededBy), isNull(t.deletedAt));
+  const ws = db
+    .select({ couponId: weighings.couponId, stage: weighings.stage, massG: weighings.massG, measuredAt: weighings.measuredAt })
+    .from(weighings)
+    .where(and(inArray(weighings.couponId, ids), current(weighings)))
+    .all();
+  const dims = db
+    .select({ couponId: checks.couponId, thicknessMm: checks.thicknessMm, measuredAt: checks.measuredAt })
+    .from(checks)
+    .where(and(inArray(checks.couponId, ids), eq(checks.kind, 'dimension'), eq(checks.stage, 'dry'), current(checks)))
+    .all();
+  return rows.map((r) => {
+    const mine = ws.filter((w) => w.couponId === r.id);
+    const dim = dims.filter((d) => d.couponId === r.id && d.thicknessMm !== null).sort((a, b) => b.measuredAt.localeCompare(a.measuredAt))[0];
+    return {
+      ...r,
+      runId: r.runId as number,
+      stagesWeighed: [...new Set(mine.map((w) => w.stage))],
+      dryingChecks: mine.filter((w) => w.stage === 'drying-check').map((w) => ({ at: w.measuredAt, massG: w.massG })),
+      thicknessMm: dim?.thicknessMm ?? null,
+    };
+  });
+}
+
+export function findCouponsByIds(db: Db, ids: number[]) {
+  if (ids.length === 0) return [];
+  return db.select({ id: coupons.id, tag: coupons.tag, role: coupons.role, runId: coupons.runId }).from(coupons).where(inArray(coupons.id, ids)).all();
+}
+
+/** Current soaked or cured weighings of these coupons: they tie a coupon to the run it went through. */
+export function couponsWithTreatmentWeighings(db: Db, ids: number[]): Set<number> {
+  if (ids.length === 0) return new Set();
+  const rows = db
+    .select({ couponId: weighings.couponId })
+    .from(weighings)
+    .where(and(inArray(weighings.couponId, ids), inArray(weighings.stage, ['soaked', 'cured']), isNull(weighings.supersededBy), isNull(weighings.deletedAt)))
+    .all();
+  return new Set(rows.map((r) => r.couponId));
+}
+
+export function photosOfRun(db: Db, runId: number): PhotoOut[] {
+  return db
+    .select()
+    .from(photos)
+    .where(eq(photos.runId, runId))
+    .orderBy(asc(photos.id))
+    .all()
+    .map((p) => ({
+      id: p.id,
+      couponId: p.couponId,
+      runId: p.runId,
+      kind: p.kind,
+      originalName: p.originalName,
+      mimeType: p.mimeType,
+      bytes: p.bytes,
+      caption: p.caption,
+      createdAt: p.createdAt,
+      url: `/api/photos/${p.id}`,
+    }));
+}

@@ -1,0 +1,26 @@
+import type { FeatureDeps } from '../../deps';
+import { secureRouter } from '../../http/routes';
+import { idParamsSchema } from '../../../shared/schemas/common';
+import { benchQuerySchema, createRunSchema, recordStageSchema, runListQuerySchema, updateRunSchema } from '../../../shared/schemas/runs';
+import { createBenchService } from './bench.service';
+import { createRunsService } from './runs.service';
+
+/** Runs (chamber cycles), their stages and gauge readings, rule checks, and the bench's to-do list. */
+export function runsRoutes(deps: FeatureDeps) {
+  const service = createRunsService(deps);
+  const bench = createBenchService(deps);
+  const r = secureRouter();
+
+  r.get('/runs', { access: 'viewer', schemas: { query: runListQuerySchema } }, ({ query }) => service.list(query));
+  r.post('/runs', { access: 'technician', status: 201, schemas: { body: createRunSchema } }, ({ user, body }) => ({ run: service.create(user, body) }));
+  r.get('/runs/:id', { access: 'viewer', schemas: { params: idParamsSchema } }, ({ params }) => ({ run: service.get(params.id) }));
+  r.patch('/runs/:id', { access: 'technician', schemas: { params: idParamsSchema, body: updateRunSchema } }, ({ user, params, body }) => ({
+    run: service.update(user, params.id, body),
+  }));
+  r.post('/runs/:id/stages', { access: 'technician', schemas: { params: idParamsSchema, body: recordStageSchema } }, ({ user, params, body }) => ({
+    run: service.recordStage(user, params.id, body),
+  }));
+  r.get('/runs/:id/checks', { access: 'viewer', schemas: { params: idParamsSchema } }, ({ params }) => service.checks(params.id));
+  r.get('/bench', { access: 'viewer', schemas: { query: benchQuerySchema } }, ({ query }) => bench.bench(query));
+  return r;
+}

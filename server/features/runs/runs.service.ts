@@ -1,0 +1,386 @@
+import { and, asc, count, desc, eq, exists, isNotNull, like, notExists } from 'drizzle-orm';
+import type { FeatureDeps } from '../../deps';
+import type { Db } from '../../db/client';
+import { writeAudit } from '../../db/audit';
+import { coupons } from '../../db/schema/coupons';
+import { runReadings, runStages, runs } from '../../db/schema/runs';
+import { Conflict, NotFound, Unprocessable, ValidationFailed } from '../../http/errors';
+import { DomainError, absolutePressureFromGauge, percentVacuum, standardPressureAtAltitude } from '../../../shared/domain/index';
+import { convertPressure } from '../../../shared/units';
+import type { User } from '../../../shared/schemas/auth';
+import type {
+  CreateRunInput,
+  GaugeReadingInput,
+  RecordStageInput,
+  RunDetail,
+  RunListQuery,
+  RunStageOut,
+  RunSummary,
+  UpdateRunInput,
+} from '../../../shared/schemas/runs';
+import { RUN_STAGES, type RunStage } from '../../../shared/constants/records';
+import { runChecks, type RuleCheck } from '../../../shared/runs/checks';
+import { cautionsByStage } from '../../../shared/runs/cautions';
+import { checkStage, runProgress, startableStages, type StageTimes } from '../../../shared/runs/stages';
+import { dueItems } from '../../../shared/runs/timers';
+import {
+  couponsOfRuns,
+  couponsWithTreatmentWeighings,
+  findCouponsByIds,
+  findLot,
+  findRun,
+  findRunByCode,
+  getShopSettings,
+  lotsByIds,
+  photosOfRun,
+  readingsOf,
+  stagesOf,
+  type LotWithResin,
+  type RunCouponInfo,
+  type RunRow,
+  type StageRow,
+} from './runs.repo';
+
+const SORTS = { id: runs.id, code: runs.code, createdAt: runs.createdAt } as const;
+
+export function toStageTimes(s: StageRow): StageTimes & { ovenSetC: number | null; ovenMeasuredC: number | null } {
+  return { stage: s.stage, startedAt: s.startedAt, endedAt: s.endedAt, plannedMinutes: s.plannedMinutes, ovenSetC: s.ovenSetC, ovenMeasuredC: s.ovenMeasuredC };
+}
+
+/** Gauge vacuum as read → absolute kPa and % vacuum at the run's altitude (standard atmosphere). */
+export function convertReading(r: Pick<GaugeReadingInput, 'gaugeValue' | 'gaugeUnit'>, altitudeM: number, field: string) {
+  const gaugeKpa = convertPressure(r.gaugeValue, r.gaugeUnit, 'kPa');
+  try {
+    const absoluteKpa = absolutePressureFromGauge(gaugeKpa, altitudeM);
+    return { absoluteKpa, percentVacuum: percentVacuum(absoluteKpa, altitudeM) };
+  } catch (e) {
+    if (!(e instanceof DomainError)) throw e;
+    if (e.code === 'vacuum-exceeds-ambient') {
+      const ambient = standardPressureAtAltitude(altitudeM);
+      const message =
+        `${r.gaugeValue} ${r.gaugeUnit} (${gaugeKpa.toFixed(2)} kPa) is more vacuum than the ${ambient.toFixed(2)} kPa ambient pressure ` +
+        `at ${altitudeM} m; check the gauge unit and the run's altitude`;
+      throw new Unprocessable(`${field}: ${message}`, { [field]: [message] });
+    }
+    throw new Unprocessable(`${field}: ${e.message}`, { [field]: [e.message] });
+  }
+}
+
+export function createRunsService(deps: FeatureDeps) {
+  const { db } = deps.database;
+
+  function checksFor(run: RunRow, stages: StageRow[], lot: LotWithResin | undefined, couponInfo: RunCouponInfo[], now: Date): RuleCheck[] {
+    const s = getShopSettings(db);
+    return runChecks({
+      stages: stages.map(toStageTimes),
+      resin: lot ? { name: lot.resin.name, cureMinC: lot.resin.cureMinC, cureMaxC: lot.resin.cureMaxC, shelfLifeDays: lot.resin.shelfLifeDays } : null,
+      lot: lot ? { code: lot.lot.code, activatedAt: lot.lot.activatedAt, status: lot.lot.status } : null,
+      coupons: couponInfo.map((c) => ({ id: c.id, tag: c.tag, thicknessMm: c.thicknessMm, hasDryWeighing: c.stagesWeighed.includes('dry'), dryingChecks: c.dryingChecks })),
+      dryingRule: { minIntervalHours: s.dryingMinIntervalHours, maxChangePct: s.dryingMaxChangePct },
+      now,
+    });
+  }
+
+  function detail(run: RunRow): RunDetail {
+    const now = deps.now();
+    const stages = stagesOf(db, [run.id]);
+    const readings = readingsOf(db, run.id);
+    const lot = run.resinLotId === null ? undefined : findLot(db, run.resinLotId);
+    const couponInfo = couponsOfRuns(db, [run.id]);
+    const times = stages.map(toStageTimes);
+    const order = (st: RunStage) => RUN_STAGES.indexOf(st);
+    const stageOut: RunStageOut[] = [...stages]
+      .sort((a, b) => order(a.stage) - order(b.stage))
+      .map((s) => ({
+        stage: s.stage,
+        startedAt: s.startedAt,
+        endedAt: s.endedAt,
+        plannedMinutes: s.plannedMinutes,
+        plannedEndAt: s.plannedMinutes == null ? null : new Date(Date.parse(s.startedAt) + s.plannedMinutes * 60_000).toISOString(),
+        bubblingStoppedAt: s.bubblingStoppedAt,
+        ovenSetC: s.ovenSetC,
+        ovenMeasuredC: s.ovenMeasuredC,
+        notes: s.notes,
+        readings: readings
+          .filter((r) => r.stage === s.stage)
+          .map((r) => ({ id: r.id, stage: r.stage, at: r.at, gaugeValue: r.gaugeValue, gaugeUnit: r.gaugeUnit, absoluteKpa: r.absoluteKpa, percentVacuum: r.percentVacuum })),
+      }));
+    return {
+      id: run.id,
+      code: run.code,
+      chamber: run.chamber,
+      resinLotId: run.resinLotId,
+      lot: lot
+        ? {
+            id: lot.lot.id,
+            code: lot.lot.code,
+            activatedAt: lot.lot.activatedAt,
+            status: lot.lot.status,
+            reuseCount: lot.lot.reuseCount,
+            resin: {
+              id: lot.resin.id,
+              name: lot.resin.name,
+              liquidDensityGcm3: lot.resin.liquidDensityGcm3,
+              curedDensityGcm3: lot.resin.curedDensityGcm3,
+              cureMinC: lot.resin.cureMinC,
+              cureMaxC: lot.resin.cureMaxC,
+              shelfLifeDays: lot.resin.shelfLifeDays,
+            },
+          }
+        : null,
+      altitudeM: run.altitudeM,
+      ambientKpa: standardPressureAtAltitude(run.altitudeM),
+      notes: run.notes,
+      createdAt: run.createdAt,
+      createdBy: run.createdBy,
+      stages: stageOut,
+      progress: runProgress(times),
+      startableStages: startableStages(times, now.toISOString()),
+      coupons: couponInfo.map((c) => ({ id: c.id, tag: c.tag, role: c.role, speciesId: c.speciesId, speciesName: c.speciesName, stagesWeighed: c.stagesWeighed })),
+      checks: checksFor(run, stages, lot, couponInfo, now),
+      due: dueItems(times, now),
+      cautions: cautionsByStage(),
+      photos: photosOfRun(db, run.id),
+    };
+  }
+
+  function requireRun(tx: Db, id: number): RunRow {
+    const run = findRun(tx, id);
+    if (!run) throw new NotFound('Run');
+    return run;
+  }
+
+  function requireLot(tx: Db, lotId: number): void {
+    if (!findLot(tx, lotId)) throw new Unprocessable('No resin lot with that id', { resinLotId: [`No resin lot with id ${lotId}`] });
+  }
+
+  function nextCode(tx: Db): string {
+    const yy = String(deps.now().getUTCFullYear() % 100).padStart(2, '0');
+    const prefix = `R${yy}-`;
+    let n = (tx.select({ n: count() }).from(runs).where(like(runs.code, `${prefix}%`)).get()?.n ?? 0) + 1;
+    while (findRunByCode(tx, `${prefix}${String(n).padStart(3, '0')}`)) n++;
+    return `${prefix}${String(n).padStart(3, '0')}`;
+  }
+
+  function addCoupons(tx: Db, actor: User, run: RunRow, ids: number[], field: string): void {
+    if (ids.length === 0) return;
+    const found = findCouponsByIds(tx, ids);
+    const byId = new Map(found.map((c) => [c.id, c]));
+    const missing = ids.filter((id) => !byId.has(id));
+    if (missing.length) throw new Unprocessable(`No coupon with id ${missing.join(', ')}`, { [field]: [`No coupon with id ${missing.join(', ')}`] });
+    const controls = found.filter((c) => c.role === 'control');
+    if (controls.length) {
+      const msg = `${controls.map((c) => c.tag).join(', ')}: control coupons stay untreated and go in no run`;
+      throw new Unprocessable(msg, { [field]: [msg] });
+    }
+    const elsewhere = found.filter((c) => c.runId !== null && c.runId !== run.id);
+    if (elsewhere.length) {
+      const otherRuns = new Map(elsewhere.map((c) => [c.runId as number, findRun(tx, c.runId as number)?.code ?? String(c.runId)]));
+      const msg = elsewhere.map((c) => `${c.tag} is already in run ${otherRuns.get(c.runId as number)}`).join('; ');
+      throw new Conflict(msg, { [field]: [msg] });
+    }
+    for (const c of found) {
+      if (c.runId === run.id) continue;
+      tx.update(coupons).set({ runId: run.id }).where(eq(coupons.id, c.id)).run();
+      writeAudit(tx, { actorId: actor.id, action: 'assign-run', entity: 'coupon', entityId: c.id, before: { runId: null }, after: { runId: run.id, runCode: run.code } });
+    }
+  }
+
+  function removeCoupons(tx: Db, actor: User, run: RunRow, ids: number[]): void {
+    if (ids.length === 0) return;
+    const found = findCouponsByIds(tx, ids);
+    const notHere = ids.filter((id) => found.find((c) => c.id === id)?.runId !== run.id);
+    if (notHere.length) {
+      const msg = `Coupon ${notHere.join(', ')} is not in run ${run.code}`;
+      throw new Unprocessable(msg, { removeCouponIds: [msg] });
+    }
+    const treated = couponsWithTreatmentWeighings(tx, ids);
+    if (treated.size) {
+      const tags = found.filter((c) => treated.has(c.id)).map((c) => c.tag);
+      const msg = `${tags.join(', ')} already have soaked or cured weighings from this run; delete those first if the coupon was never in it`;
+      throw new Conflict(msg, { removeCouponIds: [msg] });
+    }
+    for (const c of found) {
+      tx.update(coupons).set({ runId: null }).where(eq(coupons.id, c.id)).run();
+      writeAudit(tx, { actorId: actor.id, action: 'remove-from-run', entity: 'coupon', entityId: c.id, before: { runId: run.id, runCode: run.code }, after: { runId: null } });
+    }
+  }
+
+  function list(q: RunListQuery): { items: RunSummary[]; page: number; pageSize: number; total: number } {
+    const sortKey = (q.sort ?? '-id').replace(/^-/, '');
+    const column = SORTS[sortKey as keyof typeof SORTS];
+    if (!column) throw new ValidationFailed(`Cannot sort runs by ${sortKey}`, { sort: [`Sort by one of ${Object.keys(SORTS).join(', ')}`] });
+    const direction = q.sort?.startsWith('-') || q.sort === undefined ? desc : asc;
+    const anyStage = exists(db.select({ one: runStages.id }).from(runStages).where(eq(runStages.runId, runs.id)));
+    const cureEnded = exists(
+      db.select({ one: runStages.id }).from(runStages).where(and(eq(runStages.runId, runs.id), eq(runStages.stage, 'cure'), isNotNull(runStages.endedAt))),
+    );
+    const cureNotEnded = notExists(
+      db.select({ one: runStages.id }).from(runStages).where(and(eq(runStages.runId, runs.id), eq(runStages.stage, 'cure'), isNotNull(runStages.endedAt))),
+    );
+    const filters = [
+      q.resinLotId === undefined ? undefined : eq(runs.resinLotId, q.resinLotId),
+      q.status === 'planned' ? notExists(db.select({ one: runStages.id }).from(runStages).where(eq(runStages.runId, runs.id))) : undefined,
+      q.status === 'in-progress' ? and(anyStage, cureNotEnded) : undefined,
+      q.status === 'finished' ? cureEnded : undefined,
+      q.status === 'open' ? cureNotEnded : undefined,
+    ].filter((f) => f !== undefined);
+    const where = filters.length ? and(...filters) : undefined;
+    const rows = db
+      .select()
+      .from(runs)
+      .where(where)
+      .orderBy(direction(column), desc(runs.id))
+      .limit(q.pageSize)
+      .offset((q.page - 1) * q.pageSize)
+      .all();
+    const total = db.select({ n: count() }).from(runs).where(where).get()?.n ?? 0;
+    const ids = rows.map((r) => r.id);
+    const allStages = stagesOf(db, ids);
+    const allCoupons = couponsOfRuns(db, ids);
+    const lots = lotsByIds(db, rows.map((r) => r.resinLotId).filter((x): x is number => x !== null));
+    const now = deps.now();
+    const items = rows.map((run): RunSummary => {
+      const stages = allStages.filter((s) => s.runId === run.id);
+      const couponInfo = allCoupons.filter((c) => c.runId === run.id);
+      const lot = run.resinLotId === null ? undefined : lots.get(run.resinLotId);
+      const times = stages.map(toStageTimes);
+      const checks = checksFor(run, stages, lot, couponInfo, now);
+      const counts = { ok: 0, warn: 0, fail: 0, pending: 0 };
+      for (const c of checks) counts[c.status]++;
+      const first = [...stages].sort((a, b) => a.startedAt.localeCompare(b.startedAt))[0];
+      return {
+        id: run.id,
+        code: run.code,
+        chamber: run.chamber,
+        resinLotId: run.resinLotId,
+        lotCode: lot?.lot.code ?? null,
+        resinName: lot?.resin.name ?? null,
+        altitudeM: run.altitudeM,
+        couponCount: couponInfo.length,
+        progress: runProgress(times),
+        startedAt: first?.startedAt ?? null,
+        nextDue: dueItems(times, now).next,
+        checkCounts: counts,
+        createdAt: run.createdAt,
+      };
+    });
+    return { items, page: q.page, pageSize: q.pageSize, total };
+  }
+
+  function get(id: number): RunDetail {
+    return detail(requireRun(db, id));
+  }
+
+  function create(actor: User, input: CreateRunInput): RunDetail {
+    const id = db.transaction((tx) => {
+      if (input.code && findRunByCode(tx, input.code)) throw new Conflict(`A run with code ${input.code} already exists`, { code: ['This code is taken'] });
+      if (input.resinLotId != null) requireLot(tx, input.resinLotId);
+      const altitudeM = input.altitudeM ?? getShopSettings(tx).altitudeM;
+      const values = {
+        code: input.code ?? nextCode(tx),
+        chamber: input.chamber,
+        resinLotId: input.resinLotId ?? null,
+        altitudeM,
+        notes: input.notes ?? null,
+        createdBy: actor.id,
+      };
+      const row = tx.insert(runs).values(values).returning().get();
+      writeAudit(tx, { actorId: actor.id, action: 'create', entity: 'run', entityId: row.id, after: row });
+      addCoupons(tx, actor, row, input.couponIds ?? [], 'couponIds');
+      return row.id;
+    });
+    return get(id);
+  }
+
+  function update(actor: User, id: number, input: UpdateRunInput): RunDetail {
+    db.transaction((tx) => {
+      const before = requireRun(tx, id);
+      if (input.code && input.code !== before.code && findRunByCode(tx, input.code)) {
+        throw new Conflict(`A run with code ${input.code} already exists`, { code: ['This code is taken'] });
+      }
+      if (input.resinLotId != null) requireLot(tx, input.resinLotId);
+      const set: Partial<typeof runs.$inferInsert> = {};
+      if (input.code !== undefined) set.code = input.code;
+      if (input.chamber !== undefined) set.chamber = input.chamber;
+      if (input.resinLotId !== undefined) set.resinLotId = input.resinLotId;
+      if (input.altitudeM !== undefined) set.altitudeM = input.altitudeM;
+      if (input.notes !== undefined) set.notes = input.notes;
+      if (Object.keys(set).length) {
+        const after = tx.update(runs).set(set).where(eq(runs.id, id)).returning().get();
+        if (input.altitudeM !== undefined && input.altitudeM !== before.altitudeM) {
+          // The absolute pressures were worked out at the old altitude; the gauge readings themselves stand.
+          for (const r of readingsOf(tx, id)) {
+            tx.update(runReadings).set(convertReading(r, input.altitudeM, 'altitudeM')).where(eq(runReadings.id, r.id)).run();
+          }
+        }
+        writeAudit(tx, { actorId: actor.id, action: 'update', entity: 'run', entityId: id, before, after });
+      }
+      const run = requireRun(tx, id);
+      removeCoupons(tx, actor, run, input.removeCouponIds ?? []);
+      addCoupons(tx, actor, run, input.addCouponIds ?? [], 'addCouponIds');
+    });
+    return get(id);
+  }
+
+  function recordStage(actor: User, id: number, input: RecordStageInput): RunDetail {
+    db.transaction((tx) => {
+      const run = requireRun(tx, id);
+      const stages = stagesOf(tx, [id]);
+      const existing = stages.find((s) => s.stage === input.stage);
+      const pick = <K extends keyof RecordStageInput & keyof StageRow>(k: K) =>
+        (input[k] !== undefined ? input[k] : (existing?.[k] ?? null)) as StageRow[K];
+      const merged = {
+        startedAt: input.startedAt,
+        endedAt: pick('endedAt'),
+        plannedMinutes: pick('plannedMinutes'),
+        bubblingStoppedAt: pick('bubblingStoppedAt'),
+        ovenSetC: pick('ovenSetC'),
+        ovenMeasuredC: pick('ovenMeasuredC'),
+        notes: pick('notes'),
+      };
+      const decision = checkStage(stages.map(toStageTimes), { stage: input.stage, startedAt: merged.startedAt, endedAt: merged.endedAt });
+      if (!decision.ok) {
+        const Err = decision.impossible ? Unprocessable : Conflict;
+        throw new Err(decision.reason, { [decision.field]: [decision.reason] });
+      }
+      if (merged.bubblingStoppedAt !== null) {
+        const t = Date.parse(merged.bubblingStoppedAt);
+        if (t < Date.parse(merged.startedAt) || (merged.endedAt !== null && t > Date.parse(merged.endedAt))) {
+          const msg = 'Bubbling stopped outside the vacuum stage’s start and end';
+          throw new Unprocessable(msg, { bubblingStoppedAt: [msg] });
+        }
+      }
+      const converted = (input.readings ?? []).map((r, i) => ({ ...r, ...convertReading(r, run.altitudeM, `readings.${i}.gaugeValue`) }));
+
+      let row: StageRow;
+      if (existing) {
+        row = tx.update(runStages).set(merged).where(eq(runStages.id, existing.id)).returning().get();
+      } else {
+        row = tx.insert(runStages).values({ ...merged, runId: id, stage: input.stage, createdBy: actor.id }).returning().get();
+      }
+      const known = readingsOf(tx, id).filter((r) => r.stage === input.stage);
+      const added = [];
+      for (const r of converted) {
+        // A resent form must not double the readings.
+        if (known.some((k) => k.at === r.at && k.gaugeValue === r.gaugeValue && k.gaugeUnit === r.gaugeUnit)) continue;
+        added.push(tx.insert(runReadings).values({ runId: id, stage: input.stage, createdBy: actor.id, ...r }).returning().get());
+      }
+      writeAudit(tx, {
+        actorId: actor.id,
+        action: existing ? 'update' : 'create',
+        entity: 'run_stage',
+        entityId: row.id,
+        before: existing ?? null,
+        after: { ...row, readingsAdded: added },
+      });
+    });
+    return get(id);
+  }
+
+  function checks(id: number): { runId: number; checks: RuleCheck[] } {
+    return { runId: id, checks: get(id).checks };
+  }
+
+  return { list, get, create, update, recordStage, checks, detail, checksFor };
+}
