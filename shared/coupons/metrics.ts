@@ -78,6 +78,14 @@ export interface CouponMetrics {
   problems: { metric: string; message: string }[];
 }
 
+/** The domain's refusals, in the words a technician at the bench would use. */
+const PLAIN_WORDS: Partial<Record<DomainError['code'], string>> = {
+  'mass-above-soaked': 'The cured mass is above the soaked mass; a blank does not gain resin in the oven, so one of the two weighings is off',
+  'mass-below-dry': 'A later mass is below the dry mass; one of the weighings is off',
+  'no-uptake': 'The soaked mass is not above the dry mass, so there is no uptake to lose in the cure',
+  'sg-out-of-range': 'The dry mass over the dry volume is outside what wood can be; check the mass and the dimensions',
+};
+
 function latest<T extends { measuredAt: string }>(rows: readonly T[]): T | undefined {
   let best: T | undefined;
   for (const r of rows) if (!best || Date.parse(r.measuredAt) >= Date.parse(best.measuredAt)) best = r;
@@ -113,7 +121,7 @@ export function couponMetrics(input: CouponMetricsInput): CouponMetrics {
       return Number.isFinite(v) ? v : null;
     } catch (e) {
       if (e instanceof DomainError) {
-        problems.push({ metric, message: e.message });
+        problems.push({ metric, message: PLAIN_WORDS[e.code] ?? e.message });
         return null;
       }
       throw e;
