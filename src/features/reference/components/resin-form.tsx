@@ -1,0 +1,136 @@
+import { useEffect, useRef } from 'react';
+import { useForm } from 'react-hook-form';
+import { createResinSchema, DEFAULT_CURE_WINDOW_C, type CreateResinInput, type Resin } from '../../../../shared/schemas/reference';
+import { Field, FormError } from '../../../components/ui/field';
+import { applyServerErrors } from '../../../lib/form-errors';
+import { useUnits } from '../../../lib/use-units';
+import { useCreateResin } from '../api/use-create-resin';
+import { useUpdateResin } from '../api/use-update-resin';
+import { convertingResolver, numberOrMissing, renameFields, TextAreaField, textOrNull } from './form-parts';
+
+/** As typed: cure temperatures in the user's temperature unit; everything else as the contract has it. */
+interface FormValues {
+  name: string;
+  kind: string;
+  liquidDensityGcm3?: number;
+  curedDensityGcm3?: number;
+  cureMin?: number;
+  cureMax?: number;
+  shelfLifeDays?: number;
+  notes?: string | null;
+}
+
+const FIELDS = ['name', 'kind', 'liquidDensityGcm3', 'curedDensityGcm3', 'cureMin', 'cureMax', 'shelfLifeDays', 'notes'] as const;
+const RENAMED = { cureMinC: 'cureMin', cureMaxC: 'cureMax' };
+
+export function ResinForm({ resin, onDone, onCancel }: { resin: Resin | null; onDone: (name: string) => void; onCancel: () => void }) {
+  const units = useUnits();
+  const create = useCreateResin();
+  const update = useUpdateResin();
+  const tempLabel = units.label('temperature');
+  // Round the shown value so a stored 93.333 °C reads back as the 200.0 °F that was typed.
+  const shown = (c: number) => Math.round(units.toDisplay(c, 'temperature') * 10) / 10;
+
+  // Cure temperatures are typed in the user's unit and checked in °C by the contract.
+  const toC = (v: number | undefined) => (v === undefined ? v : units.fromDisplay(v, 'temperature'));
+  const resolver = convertingResolver<FormValues, typeof createResinSchema>(
+    createResinSchema,
+    ({ cureMin, cureMax, ...rest }) => ({ ...rest, cureMinC: toC(cureMin), cureMaxC: toC(cureMax) }),
+    RENAMED,
+  );
+
+  const form = useForm<FormValues, unknown, CreateResinInput>({
+    resolver,
+    defaultValues: resin
+      ? {
+          name: resin.name,
+          kind: resin.kind,
+          liquidDensityGcm3: resin.liquidDensityGcm3,
+          curedDensityGcm3: resin.curedDensityGcm3,
+          cureMin: shown(resin.cureMinC),
+          cureMax: shown(resin.cureMaxC),
+          shelfLifeDays: resin.shelfLifeDays,
+          notes: resin.notes,
+        }
+      : { name: '', kind: '', cureMin: shown(DEFAULT_CURE_WINDOW_C.min), cureMax: shown(DEFAULT_CURE_WINDOW_C.max), notes: null },
+  });
+  const { errors } = form.formState;
+  const headingRef = useRef<HTMLHeadingElement>(null);
+  useEffect(() => headingRef.current?.focus(), []);
+
+  const onSubmit = form.handleSubmit(async (values) => {
+    try {
+      if (resin) await update.mutateAsync({ id: resin.id, ...values });
+      else await create.mutateAsync(values);
+      onDone(values.name);
+    } catch (err) {
+      applyServerErrors(renameFields(err, RENAMED), form.setError, FIELDS);
+    }
+  });
+
+  return (
+    <section aria-labelledby="resin-form-heading" className="sheet mb-6 max-w-3xl p-5">
+      <h3 id="resin-form-heading" ref={headingRef} tabIndex={-1} className="mb-3 text-base font-semibold">
+        {resin ? `Edit ${resin.name}` : 'Add a resin'}
+      </h3>
+      <form onSubmit={onSubmit} noValidate aria-labelledby="resin-form-heading">
+        <FormError message={errors.root?.message} />
+        <div className="grid gap-x-4 sm:grid-cols-2">
+          <Field label="Name" registration={form.register('name')} error={errors.name?.message} hint="The name the shop uses for it" />
+          <Field label="Kind" registration={form.register('kind')} error={errors.kind?.message} hint="e.g. methacrylate monomer blend" />
+          <Field
+            label="Liquid density (g/cm³)"
+            type="number"
+            step="0.01"
+            inputMode="decimal"
+            registration={form.register('liquidDensityGcm3', numberOrMissing)}
+            error={errors.liquidDensityGcm3?.message}
+          />
+          <Field
+            label="Cured density (g/cm³)"
+            type="number"
+            step="0.01"
+            inputMode="decimal"
+            registration={form.register('curedDensityGcm3', numberOrMissing)}
+            error={errors.curedDensityGcm3?.message}
+          />
+          <Field
+            label={`Lowest cure temperature (${tempLabel})`}
+            type="number"
+            step="1"
+            inputMode="decimal"
+            registration={form.register('cureMin', numberOrMissing)}
+            error={errors.cureMin?.message}
+          />
+          <Field
+            label={`Highest cure temperature (${tempLabel})`}
+            type="number"
+            step="1"
+            inputMode="decimal"
+            registration={form.register('cureMax', numberOrMissing)}
+            error={errors.cureMax?.message}
+            hint="About 93–121 °C (200–250 °F) is common practice for heat-cure resins; the resin maker's sheet governs"
+          />
+          <Field
+            label="Shelf life once activated (days)"
+            type="number"
+            step="1"
+            inputMode="numeric"
+            registration={form.register('shelfLifeDays', numberOrMissing)}
+            error={errors.shelfLifeDays?.message}
+            hint={resin ? undefined : "Leave empty to use the shop's setting"}
+          />
+        </div>
+        <TextAreaField label="Notes" registration={form.register('notes', textOrNull)} error={errors.notes?.message} />
+        <div className="flex gap-2">
+          <button type="submit" className="btn-primary" disabled={form.formState.isSubmitting}>
+            {resin ? 'Save the changes' : 'Add the resin'}
+          </button>
+          <button type="button" className="btn-quiet" onClick={onCancel}>
+            Cancel
+          </button>
+        </div>
+      </form>
+    </section>
+  );
+}

@@ -1,0 +1,180 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useEffect, useRef } from 'react';
+import { useForm, type Resolver } from 'react-hook-form';
+import type { z } from 'zod';
+import { SPECIES_ORIGINS } from '../../../../shared/constants/records';
+import { createSpeciesSchema, type CreateSpeciesInput, type Species } from '../../../../shared/schemas/reference';
+import { Field, FormError } from '../../../components/ui/field';
+import { applyServerErrors } from '../../../lib/form-errors';
+import { useCreateSpecies } from '../api/use-create-species';
+import { useUpdateSpecies } from '../api/use-update-species';
+import { numberOrNull, TextAreaField, textOrNull } from './form-parts';
+
+type FormValues = z.input<typeof createSpeciesSchema>;
+
+const FIELDS = [
+  'commonName',
+  'botanicalName',
+  'basicSg',
+  'sg12',
+  'sideHardnessN',
+  'measuredDensityKgM3',
+  'measuredMoisturePct',
+  'sgCoefficientOfVariation',
+  'source',
+  'origin',
+  'notes',
+] as const;
+
+const schemaResolver = zodResolver(createSpeciesSchema);
+// A handbook row carries no measured density; drop what may have been typed before the origin was switched.
+const resolver: Resolver<FormValues, unknown, CreateSpeciesInput> = (values, ctx, options) =>
+  schemaResolver(values.origin === 'handbook' ? { ...values, measuredDensityKgM3: null, measuredMoisturePct: null } : values, ctx, options);
+
+function defaultsOf(s: Species | null): FormValues {
+  if (!s) {
+    return {
+      commonName: '',
+      botanicalName: '',
+      basicSg: null,
+      sg12: null,
+      sideHardnessN: null,
+      measuredDensityKgM3: null,
+      measuredMoisturePct: null,
+      sgCoefficientOfVariation: null,
+      source: '',
+      origin: 'handbook',
+      notes: null,
+    };
+  }
+  const { id: _id, createdAt: _c, ...rest } = s;
+  return rest;
+}
+
+/** Adds a species, or edits one (admin). */
+export function SpeciesForm({ species, onDone, onCancel }: { species: Species | null; onDone: (name: string) => void; onCancel: () => void }) {
+  const create = useCreateSpecies();
+  const update = useUpdateSpecies();
+  const form = useForm<FormValues, unknown, CreateSpeciesInput>({ resolver, defaultValues: defaultsOf(species) });
+  const { errors } = form.formState;
+  const origin = form.watch('origin');
+  const headingRef = useRef<HTMLHeadingElement>(null);
+  useEffect(() => headingRef.current?.focus(), []);
+
+  const onSubmit = form.handleSubmit(async (values) => {
+    try {
+      if (species) await update.mutateAsync({ id: species.id, ...values });
+      else await create.mutateAsync(values);
+      onDone(values.commonName);
+    } catch (err) {
+      applyServerErrors(err, form.setError, FIELDS);
+    }
+  });
+
+  const title = species ? `Edit ${species.commonName}` : 'Add a species';
+  return (
+    <section aria-labelledby="species-form-heading" className="sheet mb-6 max-w-3xl p-5">
+      <h3 id="species-form-heading" ref={headingRef} tabIndex={-1} className="mb-3 text-base font-semibold">
+        {title}
+      </h3>
+      <form onSubmit={onSubmit} noValidate aria-labelledby="species-form-heading">
+        <FormError message={errors.root?.message} />
+        <fieldset className="mb-4">
+          <legend className="field-label">Where the values come from</legend>
+          <div className="mt-1 flex flex-wrap gap-4">
+            {SPECIES_ORIGINS.map((o) => (
+              <label key={o} className="flex items-center gap-2 text-sm">
+                <input type="radio" value={o} {...form.register('origin')} />
+                {o === 'handbook' ? 'A published handbook table' : 'Measured in this shop'}
+              </label>
+            ))}
+          </div>
+          {errors.origin?.message && (
+            <p className="mt-1 text-sm text-margin" role="alert">
+              {errors.origin.message}
+            </p>
+          )}
+        </fieldset>
+        <div className="grid gap-x-4 sm:grid-cols-2">
+          <Field label="Common name" registration={form.register('commonName')} error={errors.commonName?.message} hint='Handbook style reads well in lists, e.g. "Maple, red"' />
+          <Field label="Botanical name" registration={form.register('botanicalName')} error={errors.botanicalName?.message} />
+          <Field
+            label="Basic specific gravity"
+            type="number"
+            step="0.01"
+            inputMode="decimal"
+            registration={form.register('basicSg', numberOrNull)}
+            error={errors.basicSg?.message}
+            hint="Oven-dry mass over green volume"
+          />
+          <Field
+            label="Specific gravity at 12 % MC"
+            type="number"
+            step="0.01"
+            inputMode="decimal"
+            registration={form.register('sg12', numberOrNull)}
+            error={errors.sg12?.message}
+            hint="Oven-dry mass over volume at 12 % moisture content"
+          />
+          <Field
+            label="Side hardness at 12 % MC (N)"
+            type="number"
+            step="10"
+            inputMode="decimal"
+            registration={form.register('sideHardnessN', numberOrNull)}
+            error={errors.sideHardnessN?.message}
+            hint="In newtons, as the table gives it (ASTM D143 ball test); not converted"
+          />
+          <Field
+            label="SG coefficient of variation (fraction)"
+            type="number"
+            step="0.01"
+            inputMode="decimal"
+            registration={form.register('sgCoefficientOfVariation', numberOrNull)}
+            error={errors.sgCoefficientOfVariation?.message}
+            hint="e.g. 0.10; leave empty when the source gives none"
+          />
+          {origin === 'shop-measured' && (
+            <>
+              <Field
+                label="Measured density (kg/m³)"
+                type="number"
+                step="1"
+                inputMode="decimal"
+                registration={form.register('measuredDensityKgM3', numberOrNull)}
+                error={errors.measuredDensityKgM3?.message}
+              />
+              <Field
+                label="Moisture content at that density (%)"
+                type="number"
+                step="0.1"
+                inputMode="decimal"
+                registration={form.register('measuredMoisturePct', numberOrNull)}
+                error={errors.measuredMoisturePct?.message}
+              />
+            </>
+          )}
+        </div>
+        <Field
+          label="Source"
+          registration={form.register('source')}
+          error={errors.source?.message}
+          hint={
+            origin === 'handbook'
+              ? 'The table it comes from, e.g. "USDA Wood Handbook FPL-GTR-190 (2021), Table 5-3a"'
+              : 'Who measured it, when, and how (e.g. "shop, 3 blanks, oven-dry and caliper volume, 2025-03")'
+          }
+        />
+        <TextAreaField label="Notes" registration={form.register('notes', textOrNull)} error={errors.notes?.message} />
+        <div className="flex gap-2">
+          <button type="submit" className="btn-primary" disabled={form.formState.isSubmitting}>
+            {species ? 'Save the changes' : 'Add the species'}
+          </button>
+          <button type="button" className="btn-quiet" onClick={onCancel}>
+            Cancel
+          </button>
+        </div>
+      </form>
+    </section>
+  );
+}
