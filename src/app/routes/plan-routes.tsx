@@ -1,8 +1,16 @@
 import type { RouteObject } from 'react-router-dom';
-import { LaterRelease, Page } from '../../components/ui/page';
+import { RequireRole } from '../require-role';
+import { ReferenceScreen } from '../../features/reference/components/reference-screen';
+import { LabelSheetScreen } from '../../features/trials/components/label-sheet-screen';
+import { TrialPlanScreen } from '../../features/trials/components/trial-plan-screen';
+import { TrialScreen } from '../../features/trials/components/trial-screen';
+import { TrialsScreen } from '../../features/trials/components/trials-screen';
 
 // Reference (species, resins, lots) and trials screens.
 export const planRoutes: RouteObject[] = [
-  { path: '/trials', element: <Page title="Trials"><LaterRelease what="Plan trials with a conditions grid, controls and coupons per condition." /></Page> },
-  { path: '/reference', element: <Page title="Reference"><LaterRelease what="Species and resins with their sources; resin lots." /></Page> },
+  { path: '/trials', element: <TrialsScreen /> },
+  { path: '/trials/new', element: <RequireRole min="technician"><TrialPlanScreen /></RequireRole> },
+  { path: '/trials/:id', element: <TrialScreen /> },
+  { path: '/trials/:id/labels', element: <LabelSheetScreen /> },
+  { path: '/reference', element: <ReferenceScreen /> },
 ];
