@@ -46,3 +46,8 @@ export class Unprocessable extends AppError {
     super('unprocessable', message, fieldErrors);
   }
 }
+export class PayloadTooLarge extends AppError {
+  constructor(message: string, fieldErrors?: Record<string, string[]>) {
+    super('payload_too_large', message, fieldErrors);
+  }
+}

@@ -26,3 +26,10 @@ export { summarize, welchTest } from './statistics';
 export type { Summary, WelchResult } from './statistics';
 export { fitLinear, fitMultiple } from './regression';
 export type { LinearFit, MultipleFit } from './regression';
+export {
+  CURE_TEMPERATURE_RANGE_C,
+  CURE_TEMPERATURE_RANGE_F,
+  GAUGE_DROP_INHG_PER_1000_FT,
+  SOAK_TO_VACUUM_TIME_RATIO,
+  minimumSoakHours,
+} from './rules-of-thumb';

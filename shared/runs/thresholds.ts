@@ -3,11 +3,13 @@
  * from a handbook or a standard, and a shop may know better for its own resin.
  */
 
+import { CURE_TEMPERATURE_RANGE_C, SOAK_TO_VACUUM_TIME_RATIO } from '../domain/index';
+
 /** Soak at least this many times as long as the vacuum was held. */
-export const SOAK_TO_VACUUM_RATIO = 2;
+export const SOAK_TO_VACUUM_RATIO = SOAK_TO_VACUUM_TIME_RATIO;
 
 /** Cure window used when a resin has none of its own, °C (about 200–250 °F). */
-export const DEFAULT_CURE_WINDOW_C = { min: 93, max: 121 } as const;
+export const DEFAULT_CURE_WINDOW_C = { min: CURE_TEMPERATURE_RANGE_C[0], max: CURE_TEMPERATURE_RANGE_C[1] } as const;
 
 /** Shortest cure for thin pieces, minutes; thicker ones need longer. */
 export const MIN_CURE_MINUTES = 120;

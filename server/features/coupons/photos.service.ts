@@ -6,7 +6,7 @@ import multer from 'multer';
 import type { FeatureDeps } from '../../deps';
 import { writeAudit } from '../../db/audit';
 import { photos } from '../../db/schema/coupons';
-import { AppError, NotFound, Unprocessable, ValidationFailed } from '../../http/errors';
+import { NotFound, PayloadTooLarge, Unprocessable, ValidationFailed } from '../../http/errors';
 import type { AuthedRequest } from '../../http/types';
 import { zodFieldErrors } from '../../http/zod-errors';
 import type { User } from '../../../shared/schemas/auth';
@@ -14,12 +14,6 @@ import { photoFieldsSchema, type PhotoOut } from '../../../shared/schemas/runs';
 import { findCoupon, findPhoto, findRunRow, toPhotoOut } from './coupons.repo';
 
 export const MAX_PHOTO_BYTES = 8 * 1024 * 1024;
-
-class PayloadTooLarge extends AppError {
-  constructor(message: string, fieldErrors?: Record<string, string[]>) {
-    super('payload_too_large', message, fieldErrors);
-  }
-}
 
 export interface ImageType {
   mime: 'image/jpeg' | 'image/png' | 'image/webp';
