@@ -11,7 +11,7 @@ export default {
     extend: {
       colors: {
         paper: { DEFAULT: '#f7f1e3', deep: '#efe5cf', edge: '#ddd0b3' },
-        ink: { DEFAULT: '#24232b', soft: '#4a4854', faint: '#6b6873' },
+        ink: { DEFAULT: '#24232b', soft: '#4a4854', faint: '#5f5c67' },
         rule: '#c9bb9c',
         amber: { DEFAULT: '#e0a240', light: '#f3d9a6', ink: '#8a4f00' },
         margin: '#b5473a',
