@@ -1,0 +1,126 @@
+import { useQuery } from '@tanstack/react-query';
+import type { z } from 'zod';
+import type { auditEntrySchema, CheckOut, WeighingOut } from '../../../../shared/schemas/coupons';
+import { ErrorNote, Loading } from '../../../components/ui/page';
+import { useUnits } from '../../../lib/use-units';
+import { couponHistoryQuery } from '../api/coupons-queries';
+
+type AuditEntry = z.infer<typeof auditEntrySchema>;
+
+const when = (iso: string) => new Date(iso).toLocaleString(undefined, { year: 'numeric', month: 'short', day: 'numeric', hour: '2-digit', minute: '2-digit' });
+
+const ACTION_WORDS: Record<string, string> = {
+  create: 'entered',
+  correct: 'corrected',
+  delete: 'deleted',
+  update: 'changed',
+  'assign-run': 'put in a run',
+  'remove-from-run': 'taken out of a run',
+};
+
+function record(v: unknown): Record<string, unknown> | null {
+  return v && typeof v === 'object' ? (v as Record<string, unknown>) : null;
+}
+
+/** The measured values an audit row holds, in the user's units, for a before → after line. */
+function valuesOf(v: unknown, u: ReturnType<typeof useUnits>): string {
+  const r = record(v);
+  if (!r) return '';
+  const out: string[] = [];
+  const n = (k: string) => (typeof r[k] === 'number' ? (r[k] as number) : null);
+  if (n('massG') !== null) out.push(u.format(n('massG'), 'mass'));
+  for (const [k, label] of [
+    ['lengthMm', 'L'],
+    ['widthMm', 'W'],
+    ['thicknessMm', 'T'],
+  ] as const)
+    if (n(k) !== null) out.push(`${label} ${u.format(n(k), 'length')}`);
+  if (n('volumeCm3') !== null) out.push(u.format(n('volumeCm3'), 'volume'));
+  if (n('hardnessValue') !== null) out.push(`${n('hardnessValue')} ${String(r.hardnessScale ?? '')}`);
+  if (n('moisturePct') !== null) out.push(`${n('moisturePct')} % MC`);
+  if (typeof r.runCode === 'string') out.push(`run ${r.runCode}`);
+  return out.join(', ');
+}
+
+function Entry({ e }: { e: AuditEntry }) {
+  const u = useUnits();
+  const before = valuesOf(e.before, u);
+  const after = valuesOf(e.after, u);
+  const stage = record(e.after)?.stage ?? record(e.before)?.stage;
+  return (
+    <li className="py-2 text-sm">
+      <p>
+        <time dateTime={e.createdAt}>{when(e.createdAt)}</time> · {e.actorName ?? 'someone'} {ACTION_WORDS[e.action] ?? e.action} {e.entity === 'coupon' ? 'the coupon' : `a ${typeof stage === 'string' ? `${stage} ` : ''}${e.entity}`}
+      </p>
+      {(before || after) && (
+        <p className="text-ink-soft">
+          {before && e.action !== 'create' ? (
+            <>
+              <del>{before}</del> → {after || 'nothing'}
+            </>
+          ) : (
+            after
+          )}
+        </p>
+      )}
+      {e.reason && <p>Reason: “{e.reason}”</p>}
+    </li>
+  );
+}
+
+function Superseded({ weighings, checks, audit }: { weighings: WeighingOut[]; checks: CheckOut[]; audit: AuditEntry[] }) {
+  const u = useUnits();
+  const reason = (entity: string, id: number) => audit.filter((a) => a.entity === entity && a.entityId === String(id) && a.reason).at(-1)?.reason ?? null;
+  const old = [
+    ...weighings.filter((w) => w.supersededBy !== null || w.deletedAt !== null).map((w) => ({ key: `w${w.id}`, what: `${w.stage} weighing ${u.format(w.massG, 'mass')}`, w, reason: reason('weighing', w.id) })),
+    ...checks
+      .filter((c) => c.supersededBy !== null || c.deletedAt !== null)
+      .map((c) => ({ key: `c${c.id}`, what: `${c.stage} ${c.kind} check ${valuesOf(c, u)}`, w: c, reason: reason('check', c.id) })),
+  ];
+  if (old.length === 0) return <p className="text-sm text-ink-soft">No value has been corrected or deleted.</p>;
+  return (
+    <ul className="divide-y divide-paper-edge text-sm">
+      {old.map((o) => (
+        <li key={o.key} className="py-1">
+          <del>{o.what}</del> — {o.w.deletedAt ? `deleted ${when(o.w.deletedAt)}` : 'superseded by a correction'}
+          {o.reason ? `; reason: “${o.reason}”` : ''}
+        </li>
+      ))}
+    </ul>
+  );
+}
+
+export function CouponHistoryPanel({ couponId }: { couponId: number }) {
+  const history = useQuery(couponHistoryQuery(couponId));
+  return (
+    <section aria-labelledby="history-heading" className="sheet mt-6 p-5">
+      <h2 id="history-heading" className="mb-2">
+        History
+      </h2>
+      {history.isPending ? (
+        <Loading />
+      ) : history.isError ? (
+        <ErrorNote error={history.error} />
+      ) : (
+        <div className="grid gap-6 lg:grid-cols-2">
+          <div>
+            <h3 className="font-semibold">Replaced values</h3>
+            <Superseded weighings={history.data.weighings} checks={history.data.checks} audit={history.data.audit} />
+          </div>
+          <div>
+            <h3 className="font-semibold">Every change, oldest first</h3>
+            {history.data.audit.length === 0 ? (
+              <p className="text-sm text-ink-soft">Nothing recorded yet.</p>
+            ) : (
+              <ol className="divide-y divide-paper-edge">
+                {history.data.audit.map((e) => (
+                  <Entry key={e.id} e={e} />
+                ))}
+              </ol>
+            )}
+          </div>
+        </div>
+      )}
+    </section>
+  );
+}

@@ -1,0 +1,15 @@
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { z } from 'zod';
+import { api } from '../../../lib/api-client';
+import { photoSchema } from '../../../../shared/schemas/runs';
+import { runKeys } from './runs-queries';
+
+const photoResponseSchema = z.object({ photo: photoSchema });
+
+export function useUploadRunPhoto(runId: number) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (form: FormData) => api.post(`/runs/${runId}/photos`, form, photoResponseSchema),
+    onSuccess: () => qc.invalidateQueries({ queryKey: runKeys.detail(runId) }),
+  });
+}
