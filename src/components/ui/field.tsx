@@ -1,4 +1,4 @@
-import { useId, type InputHTMLAttributes, type ReactNode, type SelectHTMLAttributes } from 'react';
+import { useId, type InputHTMLAttributes, type ReactNode, type SelectHTMLAttributes, type TextareaHTMLAttributes } from 'react';
 import type { UseFormRegisterReturn } from 'react-hook-form';
 
 interface FieldProps extends Omit<InputHTMLAttributes<HTMLInputElement>, 'name'> {
@@ -62,6 +62,45 @@ export function SelectField({ label, registration, error, options, ...select }: 
           </option>
         ))}
       </select>
+      {error && (
+        <p id={errorId} className="mt-1 text-sm text-margin" role="alert">
+          {error}
+        </p>
+      )}
+    </div>
+  );
+}
+
+interface TextAreaFieldProps extends Omit<TextareaHTMLAttributes<HTMLTextAreaElement>, 'name'> {
+  label: string;
+  registration: UseFormRegisterReturn;
+  error?: string;
+  hint?: ReactNode;
+}
+
+export function TextAreaField({ label, registration, error, hint, ...rest }: TextAreaFieldProps) {
+  const id = useId();
+  const hintId = hint ? `${id}-hint` : undefined;
+  const errorId = error ? `${id}-error` : undefined;
+  return (
+    <div className="mb-4">
+      <label htmlFor={id} className="field-label">
+        {label}
+      </label>
+      <textarea
+        id={id}
+        rows={3}
+        className="field-input"
+        aria-invalid={error ? true : undefined}
+        aria-describedby={[hintId, errorId].filter(Boolean).join(' ') || undefined}
+        {...registration}
+        {...rest}
+      />
+      {hint && (
+        <p id={hintId} className="mt-1 text-xs text-ink-faint">
+          {hint}
+        </p>
+      )}
       {error && (
         <p id={errorId} className="mt-1 text-sm text-margin" role="alert">
           {error}

@@ -2,13 +2,13 @@ import { useQuery } from '@tanstack/react-query';
 import { useEffect, useRef } from 'react';
 import { useForm } from 'react-hook-form';
 import { createResinLotSchema, type CreateResinLotInput } from '../../../../shared/schemas/reference';
-import { Field, FormError, SelectField } from '../../../components/ui/field';
+import { Field, FormError, SelectField, TextAreaField } from '../../../components/ui/field';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { useUnits } from '../../../lib/use-units';
 import { resinListQuery } from '../api/reference-queries';
 import { useActivateLot } from '../api/use-activate-lot';
 import { CautionNote } from './caution-note';
-import { convertingResolver, numberOrMissing, renameFields, TextAreaField, textOrNull } from './form-parts';
+import { convertingResolver, numberOrMissing, renameFields, textOrNull } from '../../../lib/form-values';
 
 /** As typed: the volume in the user's volume unit. */
 interface FormValues {

@@ -5,7 +5,7 @@ import { updateResinLotSchema, type ResinLot, type UpdateResinLotInput } from '.
 import { Field, FormError, SelectField } from '../../../components/ui/field';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { useUpdateLot } from '../api/use-update-lot';
-import { convertingResolver, numberOrMissing } from './form-parts';
+import { convertingResolver, numberOrMissing } from '../../../lib/form-values';
 import { lotExpiryWord, LotExpiryMark } from './lot-expiry';
 import { LOT_STATUS_LABELS } from './labels';
 

@@ -5,7 +5,7 @@ import { ErrorNote, Loading } from '../../../components/ui/page';
 import { useRole } from '../../../lib/use-role';
 import { useUnits } from '../../../lib/use-units';
 import { lotListQuery } from '../api/reference-queries';
-import { isoDay } from './form-parts';
+import { isoDay } from '../../../lib/form-values';
 import { ActivateLotForm } from './activate-lot-form';
 import { LotChangeForm } from './lot-change-form';
 import { LotExpiryMark } from './lot-expiry';

@@ -1,12 +1,12 @@
 import { useEffect, useRef } from 'react';
 import { useForm } from 'react-hook-form';
 import { createResinSchema, DEFAULT_CURE_WINDOW_C, type CreateResinInput, type Resin } from '../../../../shared/schemas/reference';
-import { Field, FormError } from '../../../components/ui/field';
+import { Field, FormError, TextAreaField } from '../../../components/ui/field';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { useUnits } from '../../../lib/use-units';
 import { useCreateResin } from '../api/use-create-resin';
 import { useUpdateResin } from '../api/use-update-resin';
-import { convertingResolver, numberOrMissing, renameFields, TextAreaField, textOrNull } from './form-parts';
+import { convertingResolver, numberOrMissing, renameFields, textOrNull } from '../../../lib/form-values';
 
 /** As typed: cure temperatures in the user's temperature unit; everything else as the contract has it. */
 interface FormValues {

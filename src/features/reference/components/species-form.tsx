@@ -4,11 +4,11 @@ import { useForm, type Resolver } from 'react-hook-form';
 import type { z } from 'zod';
 import { SPECIES_ORIGINS } from '../../../../shared/constants/records';
 import { createSpeciesSchema, type CreateSpeciesInput, type Species } from '../../../../shared/schemas/reference';
-import { Field, FormError } from '../../../components/ui/field';
+import { Field, FormError, TextAreaField } from '../../../components/ui/field';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { useCreateSpecies } from '../api/use-create-species';
 import { useUpdateSpecies } from '../api/use-update-species';
-import { numberOrNull, TextAreaField, textOrNull } from './form-parts';
+import { numberOrNull, textOrNull } from '../../../lib/form-values';
 
 type FormValues = z.input<typeof createSpeciesSchema>;
 

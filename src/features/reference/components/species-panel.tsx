@@ -5,7 +5,7 @@ import type { Species } from '../../../../shared/schemas/reference';
 import { ErrorNote, Loading } from '../../../components/ui/page';
 import { useRole } from '../../../lib/use-role';
 import { speciesListQuery } from '../api/reference-queries';
-import { dash } from './form-parts';
+import { dash } from '../../../lib/form-values';
 import { SpeciesForm } from './species-form';
 import { ORIGIN_LABELS } from './labels';
 

@@ -5,14 +5,14 @@ import { useNavigate } from 'react-router-dom';
 import type { Resin, Species } from '../../../../shared/schemas/reference';
 import type { CreateTrialInput } from '../../../../shared/schemas/trials';
 import { planningWarnings } from '../../../../shared/trials/planning';
-import { Field, FormError } from '../../../components/ui/field';
+import { Field, FormError, TextAreaField } from '../../../components/ui/field';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
 import { ApiError } from '../../../lib/api-client';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { useUnits } from '../../../lib/use-units';
 import { planChoicesQuery } from '../api/trials-queries';
 import { useCreateTrial } from '../api/use-create-trial';
-import { numberOrNull, TextAreaField, textOrNull } from './form-parts';
+import { numberOrNull, textOrNull } from '../../../lib/form-values';
 import { buildPlan, cellKey, checkPlan, formFieldOf, type PlanValues, type ProcessRow } from './plan-values';
 import { PlanningWarnings } from './planning-warnings';
 

@@ -1,8 +1,9 @@
-import { useId, type ReactNode, type TextareaHTMLAttributes } from 'react';
-import { ApiError } from '../../../lib/api-client';
 import { zodResolver } from '@hookform/resolvers/zod';
-import type { FieldErrors, FieldValues, Resolver, ResolverOptions, UseFormRegisterReturn } from 'react-hook-form';
+import type { FieldErrors, FieldValues, Resolver, ResolverOptions } from 'react-hook-form';
 import type { z } from 'zod';
+import { ApiError } from './api-client';
+
+// Helpers between what a person types in a form box and what a contract expects.
 
 /** Number inputs: an empty box is "not given" (null), not zero and not NaN, so the contract can say which. */
 export const numberOrNull = {
@@ -14,45 +15,6 @@ export const numberOrMissing = {
 };
 /** Optional text: an empty box is null rather than "". */
 export const textOrNull = { setValueAs: (v: unknown) => (typeof v === 'string' && v.trim() === '' ? null : v) };
-
-interface TextAreaFieldProps extends Omit<TextareaHTMLAttributes<HTMLTextAreaElement>, 'name'> {
-  label: string;
-  registration: UseFormRegisterReturn;
-  error?: string;
-  hint?: ReactNode;
-}
-
-export function TextAreaField({ label, registration, error, hint, ...rest }: TextAreaFieldProps) {
-  const id = useId();
-  const hintId = hint ? `${id}-hint` : undefined;
-  const errorId = error ? `${id}-error` : undefined;
-  return (
-    <div className="mb-4">
-      <label htmlFor={id} className="field-label">
-        {label}
-      </label>
-      <textarea
-        id={id}
-        rows={3}
-        className="field-input"
-        aria-invalid={error ? true : undefined}
-        aria-describedby={[hintId, errorId].filter(Boolean).join(' ') || undefined}
-        {...registration}
-        {...rest}
-      />
-      {hint && (
-        <p id={hintId} className="mt-1 text-xs text-ink-faint">
-          {hint}
-        </p>
-      )}
-      {error && (
-        <p id={errorId} className="mt-1 text-sm text-margin" role="alert">
-          {error}
-        </p>
-      )}
-    </div>
-  );
-}
 
 /** Shows "—" for a value nobody gave. */
 export function dash(v: number | string | null | undefined): string {
