@@ -1,5 +1,6 @@
 import { useQuery } from '@tanstack/react-query';
 import type { z } from 'zod';
+import { HARDNESS_SCALES, HARDNESS_SCALE_LABELS } from '../../../../shared/constants/records';
 import type { auditEntrySchema, CheckOut, WeighingOut } from '../../../../shared/schemas/coupons';
 import { ErrorNote, Loading } from '../../../components/ui/page';
 import { useUnits } from '../../../lib/use-units';
@@ -36,7 +37,10 @@ function valuesOf(v: unknown, u: ReturnType<typeof useUnits>): string {
   ] as const)
     if (n(k) !== null) out.push(`${label} ${u.format(n(k), 'length')}`);
   if (n('volumeCm3') !== null) out.push(u.format(n('volumeCm3'), 'volume'));
-  if (n('hardnessValue') !== null) out.push(`${n('hardnessValue')} ${String(r.hardnessScale ?? '')}`);
+  if (n('hardnessValue') !== null) {
+    const scale = HARDNESS_SCALES.find((s) => s === r.hardnessScale);
+    out.push(`${n('hardnessValue')} ${scale ? HARDNESS_SCALE_LABELS[scale] : ''}`.trim());
+  }
   if (n('moisturePct') !== null) out.push(`${n('moisturePct')} % MC`);
   if (typeof r.runCode === 'string') out.push(`run ${r.runCode}`);
   return out.join(', ');
@@ -47,10 +51,12 @@ function Entry({ e }: { e: AuditEntry }) {
   const before = valuesOf(e.before, u);
   const after = valuesOf(e.after, u);
   const stage = record(e.after)?.stage ?? record(e.before)?.stage;
+  const kind = e.entity === 'check' ? (record(e.after)?.kind ?? record(e.before)?.kind) : null;
+  const what = e.entity === 'check' && typeof kind === 'string' ? `${kind} check` : e.entity;
   return (
     <li className="py-2 text-sm">
       <p>
-        <time dateTime={e.createdAt}>{when(e.createdAt)}</time> · {e.actorName ?? 'someone'} {ACTION_WORDS[e.action] ?? e.action} {e.entity === 'coupon' ? 'the coupon' : `a ${typeof stage === 'string' ? `${stage} ` : ''}${e.entity}`}
+        <time dateTime={e.createdAt}>{when(e.createdAt)}</time> · {e.actorName ?? 'someone'} {ACTION_WORDS[e.action] ?? e.action} {e.entity === 'coupon' ? 'the coupon' : `a ${typeof stage === 'string' ? `${stage} ` : ''}${what}`}
       </p>
       {(before || after) && (
         <p className="text-ink-soft">

@@ -134,12 +134,13 @@ export function CouponScreen() {
   const { can } = useRole();
   const weigh = WEIGHING_STAGES.find((s) => s === search.get('weigh'));
 
+  const loadedId = coupon.data?.id;
   useEffect(() => {
-    if (!coupon.data || !location.hash) return;
+    if (loadedId === undefined || !location.hash) return;
     const el = document.getElementById(location.hash.slice(1));
     el?.scrollIntoView({ block: 'start' });
     el?.focus({ preventScroll: true });
-  }, [coupon.data?.id, location.hash]); // eslint-disable-line react-hooks/exhaustive-deps
+  }, [loadedId, location.hash]);
 
   if (!Number.isInteger(id) || id <= 0) return <Page title="Coupon"><ErrorNote error={new Error('There is no coupon at this address.')} /></Page>;
   if (coupon.isPending) return <Page title="Coupon"><Loading /></Page>;

@@ -109,7 +109,7 @@ function RowCheck({ model }: { model: RowModel }) {
   if (lines.length === 0 && savable(model)) lines.push({ kind: 'ok', text: 'typed, not saved yet' });
   if (lines.length === 0) return <span className="text-ink-faint">—</span>;
   return (
-    <ul className="min-w-[14rem] max-w-[22rem] space-y-0.5 text-xs">
+    <ul className="w-[26rem] space-y-0.5 text-xs">
       {lines.map((l, i) => (
         <li key={i} id={l.id} className={l.kind === 'error' ? 'text-margin' : l.kind === 'warn' ? 'text-amber-ink' : 'text-ink-soft'}>
           <strong>{l.kind === 'error' ? 'Not saved' : l.kind === 'warn' ? 'Warning' : l.kind === 'wait' ? 'Waiting' : 'Typed'}:</strong> {l.kind === 'ok' ? 'not saved yet' : l.text}

@@ -5,6 +5,7 @@ import type { WeighingStage } from '../../../../shared/constants/records';
 import type { BenchItem, RunSummary } from '../../../../shared/schemas/runs';
 import { STAGE_LABELS } from '../../../../shared/runs/stages';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
+import { useRole } from '../../../lib/use-role';
 import { benchQuery, runsQuery } from '../api/runs-queries';
 import { useNow } from '../hooks/use-now';
 import { StatusWord } from './rule-checks';
@@ -102,10 +103,17 @@ function ItemList({ items, now, empty }: { items: BenchItem[]; now: Date; empty:
 }
 
 function RunsInProgress({ now }: { now: Date }) {
+  const { can } = useRole();
   const runs = useQuery({ ...runsQuery({ status: 'in-progress', sort: '-id' }), refetchInterval: 60_000 });
   if (runs.isPending) return <Loading />;
   if (runs.isError) return <ErrorNote error={runs.error} />;
-  if (runs.data.items.length === 0) return <p className="text-ink-soft">No run is in the chamber or the oven. <Link to="/runs/new">Start a run</Link>.</p>;
+  if (runs.data.items.length === 0) {
+    return (
+      <p className="text-ink-soft">
+        No run is in the chamber or the oven.{can('technician') && <> <Link to="/runs/new">Start a run</Link>.</>}
+      </p>
+    );
+  }
   return (
     <table className="data-table">
       <thead>

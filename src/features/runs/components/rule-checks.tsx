@@ -1,3 +1,4 @@
+import { dateTime } from './time-text';
 import type { z } from 'zod';
 import type { ruleCheckSchema } from '../../../../shared/schemas/runs';
 import type { CheckStatus, RunRule } from '../../../../shared/runs/checks';
@@ -25,6 +26,11 @@ export function StatusWord({ status }: { status: CheckStatus }) {
   return <span className={`inline-block min-w-[4.5rem] rounded border px-1.5 text-center text-xs font-semibold uppercase tracking-wide ${STATUS_STYLE[status]}`}>{status}</span>;
 }
 
+// The reasons carry instants as ISO text; the bench reads them as local date and time.
+function readableTimes(text: string): string {
+  return text.replace(/\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(?::\d{2}(?:\.\d+)?)?Z/g, (iso) => dateTime(iso));
+}
+
 export function RuleChecks({ checks }: { checks: readonly RuleCheck[] }) {
   return (
     <ul className="divide-y divide-paper-edge">
@@ -34,7 +40,7 @@ export function RuleChecks({ checks }: { checks: readonly RuleCheck[] }) {
             <StatusWord status={c.status} />
           </span>
           <span>
-            <span className="font-medium">{RULE_LABELS[c.rule]}.</span> <span className="text-ink-soft">{c.reason}</span>
+            <span className="font-medium">{RULE_LABELS[c.rule]}.</span> <span className="text-ink-soft">{readableTimes(c.reason)}</span>
           </span>
         </li>
       ))}

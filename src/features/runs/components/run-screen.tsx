@@ -1,5 +1,5 @@
 import { useQuery } from '@tanstack/react-query';
-import { useEffect, useState } from 'react';
+import { useEffect, useRef, useState } from 'react';
 import { Link, useLocation, useParams, useSearchParams } from 'react-router-dom';
 import { RUN_STAGES, type RunStage } from '../../../../shared/constants/records';
 import type { RunDetail, RunStageOut } from '../../../../shared/schemas/runs';
@@ -10,6 +10,7 @@ import { useUnits } from '../../../lib/use-units';
 import { runQuery } from '../api/runs-queries';
 import { useNow } from '../hooks/use-now';
 import { RunPhotos } from './run-photos';
+import { CautionNote } from './caution-note';
 import { RuleChecks } from './rule-checks';
 import { GAUGE_NOTE, StageForm } from './stage-form';
 import { DueTime, dateTime, formatSpan } from './time-text';
@@ -100,6 +101,7 @@ function StageFacts({ s, run, now }: { s: RunStageOut; run: RunDetail; now: Date
                 ))}
               </tbody>
             </table>
+            <p className="mt-1 text-xs text-ink-faint">{GAUGE_NOTE}</p>
           </dd>
         </>
       )}
@@ -111,7 +113,18 @@ function Timeline({ run, now, focusStage }: { run: RunDetail; now: Date; focusSt
   const { can } = useRole();
   const mayWrite = can('technician');
   const [opened, setOpened] = useState<RunStage | null>(focusStage && run.startableStages.includes(focusStage) ? focusStage : null);
+  const [notice, setNotice] = useState<string | null>(null);
+  const noticeRef = useRef<HTMLParagraphElement>(null);
+  const saved = (message: string) => {
+    setOpened(null);
+    setNotice(message);
+    requestAnimationFrame(() => noticeRef.current?.focus());
+  };
   return (
+    <>
+    <p ref={noticeRef} tabIndex={-1} role="status" className="mb-2 text-sm text-moss">
+      {notice}
+    </p>
     <ol className="relative space-y-4 border-l-2 border-rule pl-6">
       {RUN_STAGES.map((stage) => {
         const rec = run.stages.find((s) => s.stage === stage);
@@ -124,14 +137,12 @@ function Timeline({ run, now, focusStage }: { run: RunDetail; now: Date; focusSt
               {STAGE_LABELS[stage]} <span className="text-sm font-normal text-ink-soft">— {state}</span>
             </h3>
             {rec && <StageFacts s={rec} run={run} now={now} />}
-            {rec && rec.endedAt === null && mayWrite && <StageForm run={run} stage={stage} mode="open" existing={rec} />}
-            {rec && rec.endedAt === null && !mayWrite && (stage === 'vacuum' || stage === 'cure') && (
-              <p className="mt-2 text-sm text-ink-soft">{run.cautions[stage]?.map((c) => `Caution — ${c.title}: ${c.text}`).join(' ')}</p>
-            )}
+            {(stage === 'vacuum' || stage === 'cure') && (state === 'in progress' || startable) && <CautionNote cautions={run.cautions[stage] ?? []} />}
+            {rec && rec.endedAt === null && mayWrite && <StageForm run={run} stage={stage} mode="open" existing={rec} onSaved={saved} />}
             {!rec && startable && mayWrite && (
               <>
                 {opened === stage ? (
-                  <StageForm run={run} stage={stage} mode="start" onDone={() => setOpened(null)} />
+                  <StageForm run={run} stage={stage} mode="start" onSaved={saved} />
                 ) : (
                   <button type="button" className="btn-quiet mt-1" onClick={() => setOpened(stage)}>
                     Start {STAGE_LABELS[stage].toLowerCase()}…
@@ -144,6 +155,7 @@ function Timeline({ run, now, focusStage }: { run: RunDetail; now: Date; focusSt
         );
       })}
     </ol>
+    </>
   );
 }
 
@@ -157,14 +169,15 @@ export function RunScreen() {
   const focus = search.get('stage');
   const focusStage = RUN_STAGES.find((s) => s === focus) ?? null;
 
+  const loadedId = run.data?.id;
   useEffect(() => {
-    if (!run.data || !location.hash) return;
+    if (loadedId === undefined || !location.hash) return;
     const el = document.getElementById(location.hash.slice(1));
     if (el) {
       el.scrollIntoView({ block: 'start' });
       el.focus({ preventScroll: true });
     }
-  }, [run.data?.id, location.hash]); // eslint-disable-line react-hooks/exhaustive-deps
+  }, [loadedId, location.hash]);
 
   if (!Number.isInteger(id) || id <= 0) return <Page title="Run"><ErrorNote error={new Error('There is no run at this address.')} /></Page>;
   if (run.isPending) return <Page title="Run"><Loading /></Page>;
@@ -205,7 +218,6 @@ export function RunScreen() {
           <h2 id="timeline-heading" className="mb-3">
             Stages
           </h2>
-          <p className="mb-3 text-xs text-ink-faint">{GAUGE_NOTE}</p>
           <Timeline run={r} now={now} focusStage={focusStage} />
         </section>
         <div className="space-y-6">

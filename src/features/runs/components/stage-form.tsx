@@ -1,4 +1,3 @@
-import { useState } from 'react';
 import { useFieldArray, useForm, type UseFormRegister, type UseFormSetError } from 'react-hook-form';
 import { GAUGE_UNITS, type GaugeUnit, type RunStage } from '../../../../shared/constants/records';
 import { DomainError, absolutePressureFromGauge, percentVacuum } from '../../../../shared/domain/index';
@@ -9,7 +8,6 @@ import { FormError } from '../../../components/ui/field';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { useUnits } from '../../../lib/use-units';
 import { useRecordStage } from '../api/use-record-stage';
-import { CautionNote } from './caution-note';
 import { fromLocalInput, toLocalInput } from './time-text';
 
 interface ReadingValues {
@@ -127,10 +125,9 @@ function placeIssues(issues: readonly { path: PropertyKey[]; message: string }[]
  * Start a stage (mode "start") or add to the open one: gauge readings, oven temperatures, bubbling
  * time, and its end (mode "open"). Every value is converted to the stored units before it is sent.
  */
-export function StageForm({ run, stage, mode, existing, onDone }: { run: RunDetail; stage: RunStage; mode: 'start' | 'open'; existing?: RunStageOut; onDone?: () => void }) {
+export function StageForm({ run, stage, mode, existing, onSaved }: { run: RunDetail; stage: RunStage; mode: 'start' | 'open'; existing?: RunStageOut; onSaved: (message: string) => void }) {
   const units = useUnits();
   const record = useRecordStage(run.id);
-  const [saved, setSaved] = useState<string | null>(null);
   const defaultUnit: GaugeUnit = units.system === 'us' ? 'inHg' : 'kPa';
   const temp = (c: number | null | undefined) => (c == null ? '' : units.toDisplay(c, 'temperature').toFixed(1));
   const now = toLocalInput(new Date());
@@ -157,7 +154,6 @@ export function StageForm({ run, stage, mode, existing, onDone }: { run: RunDeta
 
   const submit = (end: boolean) =>
     form.handleSubmit(async (v) => {
-      setSaved(null);
       const bad: [FieldName, string][] = [];
       const number = (field: FieldName, s: string): number | null => {
         const n = num(s);
@@ -203,9 +199,9 @@ export function StageForm({ run, stage, mode, existing, onDone }: { run: RunDeta
       }
       try {
         await record.mutateAsync(parsed.data as RecordStageInput);
-        setSaved(mode === 'start' ? `${label} started.` : end ? `${label} ended.` : `${label} saved.`);
         form.setValue('readings', []);
-        onDone?.();
+        // The form may go away with the change (an ended stage has none), so the page says what happened.
+        onSaved(mode === 'start' ? `${label} started.` : end ? `${label} ended.` : `${label} saved.`);
       } catch (err) {
         applyServerErrors(err, (name, e) => form.setError(formField(String(name)), e), [
           'stage',
@@ -228,7 +224,6 @@ export function StageForm({ run, stage, mode, existing, onDone }: { run: RunDeta
       aria-label={mode === 'start' ? `Start ${lower}` : `Record ${lower}`}
       className="mt-3 rounded border border-rule bg-white/40 p-4"
     >
-      {(stage === 'vacuum' || stage === 'cure') && <CautionNote cautions={run.cautions[stage] ?? []} />}
       <FormError message={errors.root?.message} />
       <div className="grid gap-x-4 sm:grid-cols-2">
         {mode === 'start' ? (
@@ -368,11 +363,6 @@ export function StageForm({ run, stage, mode, existing, onDone }: { run: RunDeta
           </>
         )}
       </div>
-      {saved && (
-        <p role="status" className="mt-2 text-sm text-moss">
-          {saved}
-        </p>
-      )}
     </form>
   );
 }
