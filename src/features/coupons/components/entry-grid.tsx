@@ -76,7 +76,7 @@ function EntryCell({ model, r, c }: { model: RowModel; r: number; c: number }) {
       aria-label={`${col.label} (${units.label(col.quantity)}), coupon ${coupon.tag}${note}`}
       aria-invalid={error ? true : undefined}
       aria-describedby={error ? `${id}-reason` : undefined}
-      className={`w-[4.75rem] rounded-sm border px-1.5 py-1 text-right tabular-nums focus:outline-none focus-visible:outline-2 focus-visible:outline-amber-ink ${
+      className={`w-[4.75rem] rounded-sm border px-1.5 py-1 text-right tabular-nums focus:outline-3 focus:outline-offset-0 focus:outline-amber-ink ${
         error ? 'border-margin bg-margin/10' : readOnly ? 'border-transparent bg-paper-deep text-ink-soft' : draft ? 'border-amber-ink bg-amber-light/40' : 'border-rule bg-white/70'
       }`}
       onChange={(e) => g.setDraft(coupon.id, col.id, e.target.value)}
@@ -332,32 +332,42 @@ export function EntryGrid({ coupons, scope, caption, focus }: { coupons: CouponO
     setStatus({ text: `${parts.join('; ')}.`, bad: false });
   };
 
-  const placeErrors = (entries: [string, string][], plan: BatchPlan) => {
-    const cellErr: CellErrors = {};
-    const rowErr: Record<number, string> = {};
+  const collectErrors = (entries: [string, string][], plan: BatchPlan) => {
+    const cells: CellErrors = {};
+    const rowsErr: Record<number, string> = {};
     for (const [path, message] of entries) {
       const at = locateError(path, plan);
       if (!at) continue;
-      if (at.cells.length === 0) rowErr[at.couponId] = message;
-      for (const id of at.cells) cellErr[at.couponId] = { ...cellErr[at.couponId], [id]: message };
+      if (at.cells.length === 0) rowsErr[at.couponId] = message;
+      for (const id of at.cells) cells[at.couponId] = { ...cells[at.couponId], [id]: message };
     }
-    setErrors(cellErr);
-    setRowErrors(rowErr);
+    return { cells, rows: rowsErr };
   };
 
   const doSave = async () => {
     if (!canEdit || save.isPending) return;
     const current = rowsRef.current;
-    const blocked = current.filter((m) => m.edited && !savable(m));
-    const plan = planBatch(current, new Date().toISOString());
-    if (plan.entries.length === 0) {
-      setStatus({ text: blocked.length ? `Nothing saved: ${blocked.length} row${blocked.length === 1 ? ' has' : 's have'} problems, marked in the Check column.` : 'Nothing to save: no new values typed.', bad: blocked.length > 0 });
-      return;
+    const blocked = current.filter((m) => m.edited && !savable(m)).length;
+    let plan = planBatch(current, new Date().toISOString());
+    // Values outside the contract's bounds (e.g. 3000 mm) keep their row back; the other rows still go.
+    let parsed = batchMeasurementsSchema.safeParse({ entries: plan.entries });
+    let refused = { cells: {} as CellErrors, rows: {} as Record<number, string> };
+    let refusedRows = 0;
+    if (!parsed.success && plan.entries.length > 0) {
+      refused = collectErrors(parsed.error.issues.map((i) => [i.path.join('.'), i.message]), plan);
+      const bad = new Set(parsed.error.issues.map((i) => i.path[1]).filter((x): x is number => typeof x === 'number'));
+      refusedRows = bad.size;
+      plan = { entries: plan.entries.filter((_, i) => !bad.has(i)), cells: plan.cells.filter((_, i) => !bad.has(i)) };
+      parsed = batchMeasurementsSchema.safeParse({ entries: plan.entries });
     }
-    const parsed = batchMeasurementsSchema.safeParse({ entries: plan.entries });
-    if (!parsed.success) {
-      placeErrors(parsed.error.issues.map((i) => [i.path.join('.'), i.message]), plan);
-      setStatus({ text: 'Nothing saved: some values are out of range, marked in the Check column.', bad: true });
+    setErrors(refused.cells);
+    setRowErrors(refused.rows);
+    const held = blocked + refusedRows;
+    if (plan.entries.length === 0 || !parsed.success) {
+      setStatus({
+        text: held ? `Nothing saved: ${held} row${held === 1 ? ' has' : 's have'} problems, marked in the Check column.` : 'Nothing to save: no new values typed.',
+        bad: held > 0,
+      });
       return;
     }
     try {
@@ -369,17 +379,20 @@ export function EntryGrid({ coupons, scope, caption, focus }: { coupons: CouponO
         for (const e of plan.entries) delete next[e.couponId];
         return next;
       });
-      setErrors({});
-      setRowErrors({});
       const warned = new Set(res.warnings.map((w) => w.couponId)).size;
       const parts = [`Saved ${res.written.weighings} weighing${res.written.weighings === 1 ? '' : 's'} and ${res.written.checks} size set${res.written.checks === 1 ? '' : 's'} for ${plan.entries.length} coupon${plan.entries.length === 1 ? '' : 's'}.`];
-      if (blocked.length) parts.push(`${blocked.length} row${blocked.length === 1 ? '' : 's'} with problems not saved.`);
+      if (held) parts.push(`${held} row${held === 1 ? '' : 's'} with problems not saved.`);
       if (warned) parts.push(`${warned} coupon${warned === 1 ? ' has' : 's have'} a warning in the Check column.`);
-      setStatus({ text: parts.join(' '), bad: blocked.length > 0 });
+      setStatus({ text: parts.join(' '), bad: held > 0 });
     } catch (err) {
+      // The server writes all of a save or none of it, so nothing here was kept.
       if (err instanceof ApiError) {
-        placeErrors(Object.entries(err.fieldErrors).map(([k, v]) => [k, v[0] ?? err.message]), plan);
-        setStatus({ text: `Nothing saved: ${err.message}`, bad: true });
+        const found = collectErrors(Object.entries(err.fieldErrors).map(([k, v]) => [k, v[0] ?? err.message]), plan);
+        setErrors({ ...refused.cells, ...found.cells });
+        setRowErrors({ ...refused.rows, ...found.rows });
+        setStatus({ text: `Nothing saved: ${err.message.replace(/^entries\.\d+(\.\w+\.\d+)?(\.\w+)?:\s*/, '')}`, bad: true });
+        // Someone else saved a reading meanwhile: show it, so the conflict can be seen and corrected.
+        if (err.status === 409) void qc.invalidateQueries({ queryKey: couponKeys.grid(scope) });
       } else {
         setStatus({ text: 'Nothing saved: something went wrong; try again.', bad: true });
       }
