@@ -3,7 +3,7 @@ import type { FeatureDeps } from '../../deps';
 import type { Db } from '../../db/client';
 import { writeAudit } from '../../db/audit';
 import { checks, coupons, weighings } from '../../db/schema/coupons';
-import { Conflict, NotFound, Unprocessable, ValidationFailed } from '../../http/errors';
+import { AppError, Conflict, NotFound, Unprocessable, ValidationFailed } from '../../http/errors';
 import type { User } from '../../../shared/schemas/auth';
 import type {
   BatchMeasurementsInput,
@@ -438,28 +438,53 @@ export function createCouponsService(deps: FeatureDeps) {
     });
   }
 
-  /** The entry grid's save: every entry or none, errors naming `entries.<i>.<list>.<j>.<field>`. */
+  /**
+   * The entry grid's save: every entry or none, errors naming `entries.<i>.<list>.<j>.<field>`.
+   * Every entry is tried before giving up, so the grid can mark all its bad cells from one answer;
+   * the transaction is rolled back when any failed.
+   */
   function batch(actor: User, input: BatchMeasurementsInput) {
     return db.transaction((tx) => {
       const touched: number[] = [];
+      const failures: AppError[] = [];
       let nw = 0;
       let nc = 0;
+      const attempt = (run: () => void) => {
+        try {
+          run();
+        } catch (err) {
+          if (!(err instanceof AppError)) throw err;
+          failures.push(err);
+        }
+      };
       input.entries.forEach((e, i) => {
         const c = findCoupon(tx, e.couponId);
         if (!c) {
           const msg = `No coupon with id ${e.couponId}`;
-          throw new Unprocessable(`entries.${i}: ${msg}`, { [`entries.${i}.couponId`]: [msg] });
+          failures.push(new Unprocessable(`entries.${i}: ${msg}`, { [`entries.${i}.couponId`]: [msg] }));
+          return;
         }
-        (e.weighings ?? []).forEach((w, j) => {
-          applyWeighing(tx, actor, c.coupon, w, `entries.${i}.weighings.${j}.`);
-          nw++;
-        });
-        (e.checks ?? []).forEach((k, j) => {
-          applyCheck(tx, actor, c.coupon, k, `entries.${i}.checks.${j}.`);
-          nc++;
-        });
+        (e.weighings ?? []).forEach((w, j) =>
+          attempt(() => {
+            applyWeighing(tx, actor, c.coupon, w, `entries.${i}.weighings.${j}.`);
+            nw++;
+          }),
+        );
+        (e.checks ?? []).forEach((k, j) =>
+          attempt(() => {
+            applyCheck(tx, actor, c.coupon, k, `entries.${i}.checks.${j}.`);
+            nc++;
+          }),
+        );
         if (!touched.includes(c.coupon.id)) touched.push(c.coupon.id);
       });
+      if (failures.length > 0) {
+        const first = failures[0]!;
+        const fieldErrors: Record<string, string[]> = {};
+        for (const f of failures) for (const [k, v] of Object.entries(f.fieldErrors ?? {})) (fieldErrors[k] ??= []).push(...v);
+        const message = failures.length === 1 ? first.message : `${failures.length} readings have problems, nothing was saved; the first: ${first.message}`;
+        throw new AppError(first.code, message, fieldErrors);
+      }
       const out = build(
         tx,
         touched.map((id) => requireCoupon(tx, id)),

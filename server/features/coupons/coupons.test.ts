@@ -435,6 +435,22 @@ describe('the entry grid’s batch save', () => {
     expect(missing.status).toBe(422);
     expect(missing.body.error.fieldErrors['entries.0.couponId']).toBeTruthy();
   });
+
+  it('reports every bad reading of the batch at once, so the grid can mark all of them', async () => {
+    const ids = [await makeCoupon(), await makeCoupon(), await makeCoupon()];
+    const before = h.database.db.select({ n: count() }).from(weighings).get()!.n;
+    const res = await as.technician.post('/api/coupons/measurements').send({
+      entries: [
+        { couponId: ids[0], weighings: [{ stage: 'dry', massG: 20, measuredAt: t(0) }, { stage: 'cured', massG: 18, measuredAt: t(30) }] },
+        { couponId: ids[1], weighings: [{ stage: 'dry', massG: 20, measuredAt: t(0) }] },
+        { couponId: ids[2], weighings: [{ stage: 'dry', massG: 20, measuredAt: t(0) }, { stage: 'soaked', massG: 5, measuredAt: t(30) }] },
+      ],
+    });
+    expect(res.status).toBe(422);
+    expect(Object.keys(res.body.error.fieldErrors).sort()).toEqual(['entries.0.weighings.1.massG', 'entries.2.weighings.1.massG']);
+    expect(res.body.error.message).toMatch(/^2 readings have problems, nothing was saved/);
+    expect(h.database.db.select({ n: count() }).from(weighings).get()!.n).toBe(before);
+  });
 });
 
 describe('photos', () => {

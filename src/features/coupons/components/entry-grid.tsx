@@ -390,7 +390,7 @@ export function EntryGrid({ coupons, scope, caption, focus }: { coupons: CouponO
         const found = collectErrors(Object.entries(err.fieldErrors).map(([k, v]) => [k, v[0] ?? err.message]), plan);
         setErrors({ ...refused.cells, ...found.cells });
         setRowErrors({ ...refused.rows, ...found.rows });
-        setStatus({ text: `Nothing saved: ${err.message.replace(/^entries\.\d+(\.\w+\.\d+)?(\.\w+)?:\s*/, '')}`, bad: true });
+        setStatus({ text: `Nothing saved: ${err.message.replace(/entries\.\d+(\.\w+\.\d+)?(\.\w+)?:\s*/g, '')}`, bad: true });
         // Someone else saved a reading meanwhile: show it, so the conflict can be seen and corrected.
         if (err.status === 409) void qc.invalidateQueries({ queryKey: couponKeys.grid(scope) });
       } else {
