@@ -235,6 +235,14 @@ export const couponSchema = z.object({
   conditionId: z.number().int().nullable(),
   speciesId: z.number().int(),
   speciesName: z.string(),
+  /** The species' reference densities, so the client can flag an implausible SG while it is typed. */
+  speciesDensity: z.object({
+    basicSg: z.number().nullable(),
+    sg12: z.number().nullable(),
+    measuredDensityKgM3: z.number().nullable(),
+    measuredMoisturePct: z.number().nullable(),
+    sgCoefficientOfVariation: z.number().nullable(),
+  }),
   role: z.enum(COUPON_ROLES),
   sourceBoard: z.string().nullable(),
   runId: z.number().int().nullable(),

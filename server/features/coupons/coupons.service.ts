@@ -137,6 +137,16 @@ function currentMasses(ws: WeighingRow[]) {
 export function createCouponsService(deps: FeatureDeps) {
   const { db } = deps.database;
 
+  function speciesDensityOf(sp: SpeciesRow | undefined) {
+    return {
+      basicSg: sp?.basicSg ?? null,
+      sg12: sp?.sg12 ?? null,
+      measuredDensityKgM3: sp?.measuredDensityKgM3 ?? null,
+      measuredMoisturePct: sp?.measuredMoisturePct ?? null,
+      sgCoefficientOfVariation: sp?.sgCoefficientOfVariation ?? null,
+    };
+  }
+
   /** Coupon answers with computed metrics, warnings and ASE against the controls of their trial and species. */
   function build(tx: Db, rows: CouponWithNames[]): CouponOut[] {
     if (rows.length === 0) return [];
@@ -169,6 +179,7 @@ export function createCouponsService(deps: FeatureDeps) {
       conditionId: c.r.coupon.conditionId,
       speciesId: c.r.coupon.speciesId,
       speciesName: c.r.speciesName,
+      speciesDensity: speciesDensityOf(spMap.get(c.r.coupon.speciesId)),
       role: c.r.coupon.role,
       sourceBoard: c.r.coupon.sourceBoard,
       runId: c.r.coupon.runId,

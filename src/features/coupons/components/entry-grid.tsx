@@ -2,6 +2,7 @@ import { useQueryClient } from '@tanstack/react-query';
 import { createColumnHelper, flexRender, getCoreRowModel, useReactTable, type ColumnDef } from '@tanstack/react-table';
 import { createContext, useCallback, useContext, useEffect, useMemo, useRef, useState, type ClipboardEvent, type KeyboardEvent } from 'react';
 import { Link } from 'react-router-dom';
+import { sgPlausibility, sgWarningText } from '../../../../shared/coupons/plausibility';
 import { batchMeasurementsSchema, type CouponOut } from '../../../../shared/schemas/coupons';
 import { ApiError } from '../../../lib/api-client';
 import { useRole } from '../../../lib/use-role';
@@ -103,8 +104,14 @@ function RowCheck({ model }: { model: RowModel }) {
   const rowError = g.rowErrors[coupon.id];
   if (rowError) lines.push({ kind: 'error', text: rowError });
   for (const text of model.incomplete) lines.push({ kind: 'wait', text });
-  // Server warnings (SG far from the species, void fill above 100 %) and live contradictions between readings.
-  const warnings = new Set([...coupon.warnings.map((w) => w.message), ...model.metrics.problems.map((p) => p.message)]);
+  // The SG check runs live on what is typed (same shared rule as the server); other server warnings
+  // (void fill above 100 %) and live contradictions between readings are listed too.
+  const liveSg = model.metrics.drySg === null ? null : sgPlausibility(model.metrics.drySg, coupon.speciesDensity);
+  const warnings = new Set([
+    ...coupon.warnings.filter((w) => w.field !== 'drySg').map((w) => w.message),
+    ...(liveSg && !liveSg.plausible && model.metrics.drySg !== null ? [sgWarningText(model.metrics.drySg, liveSg)] : []),
+    ...model.metrics.problems.map((p) => p.message),
+  ]);
   for (const text of warnings) lines.push({ kind: 'warn', text });
   if (lines.length === 0 && savable(model)) lines.push({ kind: 'ok', text: 'typed, not saved yet' });
   if (lines.length === 0) return <span className="text-ink-faint">—</span>;
