@@ -5,9 +5,8 @@ import type { FeatureDeps } from '../../deps';
 import { writeAudit } from '../../db/audit';
 import { outbox, settings } from '../../db/schema/admin';
 import type { ListQuery } from '../../../shared/schemas/common';
+import { readShopSettings } from '../../db/shop-settings';
 import {
-  DEFAULT_SHOP_SETTINGS,
-  shopSettingsSchema,
   type OutboxMessage,
   type ShopSettings,
   type UpdateShopSettingsInput,
@@ -46,12 +45,7 @@ export function createAdminService(deps: FeatureDeps) {
   }
 
   function getSettings(): ShopSettings {
-    const rows = db.select().from(settings).all();
-    const stored = Object.fromEntries(rows.map((r) => [r.key, r.value]));
-    // Stored keys overlay the defaults; a key that no longer validates falls back to its default.
-    const merged = { ...DEFAULT_SHOP_SETTINGS, ...stored };
-    const parsed = shopSettingsSchema.safeParse(merged);
-    return parsed.success ? parsed.data : DEFAULT_SHOP_SETTINGS;
+    return readShopSettings(db);
   }
 
   function updateSettings(actor: User, input: UpdateShopSettingsInput): ShopSettings {

@@ -7,6 +7,7 @@ import { resinLots, resins, species } from '../../db/schema/reference';
 import { runs } from '../../db/schema/runs';
 import { trialConditions, trials } from '../../db/schema/trials';
 import type { PhotoOut } from '../../../shared/schemas/runs';
+import { toPhotoOut } from '../../db/photo-out';
 
 export type CouponRow = typeof coupons.$inferSelect;
 export type WeighingRow = typeof weighings.$inferSelect;
@@ -140,20 +141,6 @@ export function photosOf(db: Db, couponId: number): PhotoOut[] {
   return db.select().from(photos).where(eq(photos.couponId, couponId)).orderBy(asc(photos.id)).all().map(toPhotoOut);
 }
 
-export function toPhotoOut(p: PhotoRow): PhotoOut {
-  return {
-    id: p.id,
-    couponId: p.couponId,
-    runId: p.runId,
-    kind: p.kind,
-    originalName: p.originalName,
-    mimeType: p.mimeType,
-    bytes: p.bytes,
-    caption: p.caption,
-    createdAt: p.createdAt,
-    url: `/api/photos/${p.id}`,
-  };
-}
 
 export function findPhoto(db: Db, id: number): PhotoRow | undefined {
   return db.select().from(photos).where(eq(photos.id, id)).get();

@@ -11,7 +11,8 @@ import type { AuthedRequest } from '../../http/types';
 import { zodFieldErrors } from '../../http/zod-errors';
 import type { User } from '../../../shared/schemas/auth';
 import { photoFieldsSchema, type PhotoOut } from '../../../shared/schemas/runs';
-import { findCoupon, findPhoto, findRunRow, toPhotoOut } from './coupons.repo';
+import { toPhotoOut } from '../../db/photo-out';
+import { findCoupon, findPhoto, findRunRow } from './coupons.repo';
 
 export const MAX_PHOTO_BYTES = 8 * 1024 * 1024;
 

@@ -1,11 +1,10 @@
 import { and, asc, count, desc, eq, inArray, like, or, sql, type SQL } from 'drizzle-orm';
 import type { SQLiteColumn } from 'drizzle-orm/sqlite-core';
 import type { Db } from '../../db/client';
-import { settings } from '../../db/schema/admin';
 import { coupons } from '../../db/schema/coupons';
 import { resinLots, resins, species } from '../../db/schema/reference';
 import { runs } from '../../db/schema/runs';
-import { DEFAULT_SHOP_SETTINGS, shopSettingsSchema } from '../../../shared/schemas/admin';
+import { readShopSettings } from '../../db/shop-settings';
 import type { ResinListQuery, ResinLotListQuery, SpeciesListQuery } from '../../../shared/schemas/reference';
 
 export type SpeciesRow = typeof species.$inferSelect;
@@ -28,9 +27,7 @@ function orderOf(sort: string | undefined, columns: Record<string, SQLiteColumn>
 
 /** The shop's lot shelf life, from settings over the default (the same merge the settings screen uses). */
 export function shopLotShelfLifeDays(db: Db): number {
-  const row = db.select().from(settings).where(eq(settings.key, 'lotShelfLifeDays')).get();
-  const parsed = shopSettingsSchema.shape.lotShelfLifeDays.safeParse(row?.value);
-  return parsed.success ? parsed.data : DEFAULT_SHOP_SETTINGS.lotShelfLifeDays;
+  return readShopSettings(db).lotShelfLifeDays;
 }
 
 // ------------------------------------------------------------ species

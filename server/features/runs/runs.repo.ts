@@ -1,10 +1,11 @@
 import { and, asc, eq, inArray, isNull } from 'drizzle-orm';
 import type { Db } from '../../db/client';
-import { settings } from '../../db/schema/admin';
 import { checks, coupons, photos, weighings } from '../../db/schema/coupons';
 import { resinLots, resins, species } from '../../db/schema/reference';
 import { runReadings, runStages, runs } from '../../db/schema/runs';
-import { DEFAULT_SHOP_SETTINGS, shopSettingsSchema, type ShopSettings } from '../../../shared/schemas/admin';
+import type { ShopSettings } from '../../../shared/schemas/admin';
+import { readShopSettings } from '../../db/shop-settings';
+import { toPhotoOut } from '../../db/photo-out';
 import type { WeighingStage } from '../../../shared/constants/records';
 import type { PhotoOut } from '../../../shared/schemas/runs';
 
@@ -12,11 +13,9 @@ export type RunRow = typeof runs.$inferSelect;
 export type StageRow = typeof runStages.$inferSelect;
 export type ReadingRow = typeof runReadings.$inferSelect;
 
-/** The shop settings merged over the defaults, read here so this feature depends on no other. */
+/** The shop settings merged over the defaults. */
 export function getShopSettings(db: Db): ShopSettings {
-  const stored = Object.fromEntries(db.select().from(settings).all().map((r) => [r.key, r.value]));
-  const parsed = shopSettingsSchema.safeParse({ ...DEFAULT_SHOP_SETTINGS, ...stored });
-  return parsed.success ? parsed.data : DEFAULT_SHOP_SETTINGS;
+  return readShopSettings(db);
 }
 
 export function findRun(db: Db, id: number): RunRow | undefined {
@@ -123,16 +122,5 @@ export function photosOfRun(db: Db, runId: number): PhotoOut[] {
     .where(eq(photos.runId, runId))
     .orderBy(asc(photos.id))
     .all()
-    .map((p) => ({
-      id: p.id,
-      couponId: p.couponId,
-      runId: p.runId,
-      kind: p.kind,
-      originalName: p.originalName,
-      mimeType: p.mimeType,
-      bytes: p.bytes,
-      caption: p.caption,
-      createdAt: p.createdAt,
-      url: `/api/photos/${p.id}`,
-    }));
+    .map(toPhotoOut);
 }
