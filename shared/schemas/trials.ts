@@ -143,6 +143,12 @@ export const trialSummarySchema = z.object({
   controlsPerSpecies: z.number().int(),
   conditionCount: z.number().int(),
   couponCount: z.number().int(),
+  speciesCount: z.number().int(),
+  resinCount: z.number().int(),
+  /** Coupons planned in the whole trial, treated and controls. */
+  plannedCount: z.number().int(),
+  /** Coupons at their last weighing: cured for treated coupons, dry for untreated controls. */
+  doneCount: z.number().int(),
   createdAt: z.string(),
 });
 export type TrialSummary = z.infer<typeof trialSummarySchema>;

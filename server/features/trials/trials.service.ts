@@ -121,6 +121,12 @@ export function createTrialsService(deps: TrialsServiceDeps) {
       createdAt: t.createdAt,
       conditionCount: conditions.length,
       couponCount: totals.created,
+      speciesCount: new Set(conditions.map((c) => c.speciesId)).size,
+      resinCount: new Set(conditions.map((c) => c.resinId)).size,
+      plannedCount: totals.planned,
+      // A treated coupon is done once weighed after cure; a control once weighed dry (it never sees resin).
+      doneCount:
+        [...conditionProgress.values()].reduce((n, p) => n + p.curedWeighed, 0) + [...controlProgress.values()].reduce((n, p) => n + p.dryWeighed, 0),
       conditions: conditions.map((c) => ({
         id: c.id,
         speciesId: c.speciesId,
@@ -150,22 +156,32 @@ export function createTrialsService(deps: TrialsServiceDeps) {
   function listTrials(q: TrialListQuery): List<TrialSummary> {
     const { rows, total } = repo.listTrials(db, q);
     return {
-      items: rows.map(({ trial: t, conditionCount, couponCount }) => ({
-        id: t.id,
-        code: t.code,
-        title: t.title,
-        question: t.question,
-        status: t.status,
-        controlsPerSpecies: t.controlsPerSpecies,
-        conditionCount: Number(conditionCount),
-        couponCount: Number(couponCount),
-        createdAt: t.createdAt,
-      })),
+      // One page of trials, each summarised from its full record: a few small queries per row on the
+      // local database, and the list shows grid size and progress without a request per trial.
+      items: rows.map(({ trial: t }) => {
+        const full = getTrial(t.id);
+        return {
+          id: full.id,
+          code: full.code,
+          title: full.title,
+          question: full.question,
+          status: full.status,
+          controlsPerSpecies: full.controlsPerSpecies,
+          conditionCount: full.conditionCount,
+          couponCount: full.couponCount,
+          speciesCount: full.speciesCount,
+          resinCount: full.resinCount,
+          plannedCount: full.plannedCount,
+          doneCount: full.doneCount,
+          createdAt: full.createdAt,
+        };
+      }),
       page: q.page,
       pageSize: q.pageSize,
       total,
     };
   }
+
 
   function createTrial(actor: Pick<User, 'id'>, input: CreateTrialInput): Trial {
     return db.transaction((tx) => {

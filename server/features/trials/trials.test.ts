@@ -167,7 +167,8 @@ describe('planning a trial', () => {
     await createTrial(plan({ title: 'Needle in a haystack' }));
     const all = await as.viewer.get('/api/trials?pageSize=2&sort=code');
     expect(all.body).toMatchObject({ page: 1, pageSize: 2, total: 3 });
-    expect(all.body.items[0]).toMatchObject({ code: DEMO_TRIAL_CODE, conditionCount: 6, couponCount: 30, status: 'running' });
+    expect(all.body.items[0]).toMatchObject({ code: DEMO_TRIAL_CODE, conditionCount: 6, couponCount: 30, speciesCount: 3, resinCount: 2, plannedCount: 30, status: 'running' });
+    expect(all.body.items[0].doneCount).toBeGreaterThan(0);
     const found = await as.viewer.get('/api/trials?q=haystack');
     expect(found.body.items.map((t: { title: string }) => t.title)).toEqual(['Needle in a haystack']);
     const running = await as.viewer.get('/api/trials?status=running');

@@ -1,4 +1,4 @@
-import type { Progress, Trial } from '../../../../shared/schemas/trials';
+import type { Progress } from '../../../../shared/schemas/trials';
 
 /**
  * How far a condition has come, as a bar and the same numbers in words beside it, so the bar is
@@ -22,7 +22,3 @@ export function ProgressBar({ done, planned }: { done: number; planned: number }
 export const treatedDone = (p: Progress) => p.curedWeighed;
 export const controlDone = (p: Progress) => p.dryWeighed;
 
-/** Coupons of the whole trial at their last weighing. */
-export function trialDone(t: Trial): number {
-  return t.conditions.reduce((n, c) => n + treatedDone(c.progress), 0) + t.controls.reduce((n, c) => n + controlDone(c.progress), 0);
-}

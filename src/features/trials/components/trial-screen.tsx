@@ -11,7 +11,7 @@ import { useCreatePlannedCoupons } from '../api/use-create-planned-coupons';
 import { useUpdateTrial } from '../api/use-update-trial';
 import { TRIAL_STATUS_LABELS } from './labels';
 import { PlanningWarnings } from './planning-warnings';
-import { controlDone, ProgressBar, trialDone, treatedDone } from './progress-bar';
+import { controlDone, ProgressBar, treatedDone } from './progress-bar';
 
 export function TrialScreen() {
   const id = Number(useParams().id);
@@ -241,7 +241,7 @@ function ProgressTable({ trial }: { trial: Trial }) {
             )}
           </tbody>
           <tfoot>
-            {row('total', 'Whole trial', '', trial.totals, trialDone(trial))}
+            {row('total', 'Whole trial', '', trial.totals, trial.doneCount)}
           </tfoot>
         </table>
       </div>

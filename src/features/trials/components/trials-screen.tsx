@@ -1,20 +1,18 @@
-import { useQueries, useQuery } from '@tanstack/react-query';
+import { useQuery } from '@tanstack/react-query';
 import { useDeferredValue, useState } from 'react';
 import { Link } from 'react-router-dom';
 import { TRIAL_STATUSES, type TrialStatus } from '../../../../shared/constants/records';
-import type { Trial } from '../../../../shared/schemas/trials';
+import type { TrialSummary } from '../../../../shared/schemas/trials';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
 import { useRole } from '../../../lib/use-role';
-import { trialListQuery, trialQuery } from '../api/trials-queries';
+import { trialListQuery } from '../api/trials-queries';
 import { TRIAL_STATUS_LABELS } from './labels';
-import { ProgressBar, trialDone } from './progress-bar';
+import { ProgressBar } from './progress-bar';
 
 const PAGE_SIZE = 25;
 
-function gridSize(t: Trial): string {
-  const species = new Set(t.conditions.map((c) => c.speciesId)).size;
-  const resins = new Set(t.conditions.map((c) => c.resinId)).size;
-  return `${species} species × ${resins} resin${resins === 1 ? '' : 's'}`;
+function gridSize(t: TrialSummary): string {
+  return `${t.speciesCount} species × ${t.resinCount} resin${t.resinCount === 1 ? '' : 's'}`;
 }
 
 export function TrialsScreen() {
@@ -24,10 +22,6 @@ export function TrialsScreen() {
   const [page, setPage] = useState(1);
   const deferredQ = useDeferredValue(q.trim());
   const list = useQuery(trialListQuery({ q: deferredQ || undefined, status: status || undefined, page, pageSize: PAGE_SIZE }));
-  // The list answer carries counts only; the grid's species and resins and the progress come from
-  // each trial's own record (one page at a time, and cached for when the trial is opened).
-  const details = useQueries({ queries: (list.data?.items ?? []).map((t) => trialQuery(t.id)) });
-  const detailOf = new Map(details.flatMap((d) => (d.data ? [[d.data.id, d.data] as const] : [])));
   const pages = list.data ? Math.max(1, Math.ceil(list.data.total / PAGE_SIZE)) : 1;
 
   return (
@@ -102,7 +96,6 @@ export function TrialsScreen() {
               </thead>
               <tbody>
                 {list.data.items.map((t) => {
-                  const d = detailOf.get(t.id);
                   return (
                     <tr key={t.id}>
                       <th scope="row" className="border-b border-paper-edge text-left font-normal text-ink whitespace-nowrap">
@@ -111,12 +104,14 @@ export function TrialsScreen() {
                       <td>{t.title}</td>
                       <td>{TRIAL_STATUS_LABELS[t.status]}</td>
                       <td className="whitespace-nowrap">
-                        {d ? gridSize(d) : `${t.conditionCount} condition${t.conditionCount === 1 ? '' : 's'}`}
+                        {gridSize(t)}
                       </td>
                       <td className="tabular-nums">
-                        {d ? `${d.totals.created} of ${d.totals.planned}` : t.couponCount}
+                        {`${t.couponCount} of ${t.plannedCount}`}
                       </td>
-                      <td>{d ? <ProgressBar done={trialDone(d)} planned={d.totals.planned} /> : '…'}</td>
+                      <td>
+                        <ProgressBar done={t.doneCount} planned={t.plannedCount} />
+                      </td>
                     </tr>
                   );
                 })}
