@@ -262,9 +262,11 @@ export const updateResinLotSchema = z
     ...lotFields,
     /** Why the lot changed, kept in the audit log (e.g. "drained back after run R-12"). */
     reason: z.string().trim().min(1, 'Say why, or leave the reason out').max(500, 'Use at most 500 characters').optional(),
+    /** The reuse count the client saw; when it differs from the stored one, someone else counted a reuse meanwhile. */
+    expectedReuseCount: z.number().int().min(0).optional(),
   })
   .partial()
-  .refine((v) => Object.keys(v).some((k) => k !== 'reason'), { message: 'Change at least one field' });
+  .refine((v) => Object.keys(v).some((k) => k !== 'reason' && k !== 'expectedReuseCount'), { message: 'Change at least one field' });
 export type UpdateResinLotInput = z.infer<typeof updateResinLotSchema>;
 
 export const resinLotSchema = z.object({

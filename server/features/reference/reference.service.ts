@@ -237,7 +237,7 @@ export function createReferenceService(deps: Pick<FeatureDeps, 'database' | 'now
      * every change lands in the audit log with the reason given.
      */
     updateLot(actor: User, id: number, input: UpdateResinLotInput): ResinLot {
-      const { reason, ...changes } = input;
+      const { reason, expectedReuseCount, ...changes } = input;
       if (changes.activatedAt !== undefined) {
         checkActivation(changes.activatedAt);
         changes.activatedAt = normalizeActivatedAt(changes.activatedAt);
@@ -245,6 +245,10 @@ export function createReferenceService(deps: Pick<FeatureDeps, 'database' | 'now
       db.transaction((tx) => {
         const found = repo.findLot(tx, id);
         if (!found) throw new NotFound('Resin lot');
+        if (expectedReuseCount !== undefined && expectedReuseCount !== found.lot.reuseCount) {
+          const msg = `Someone changed this lot meanwhile: it now shows ${found.lot.reuseCount} reuses, not ${expectedReuseCount}; look again and retry`;
+          throw new Conflict(msg, { reuseCount: [msg] });
+        }
         if (changes.code) {
           const other = repo.findLotByCode(tx, changes.code);
           if (other && other.id !== id) throw new Conflict('A lot with that code already exists', { code: ['A lot with that code already exists'] });

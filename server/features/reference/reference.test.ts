@@ -398,6 +398,17 @@ describe('resin lots', () => {
     expect((await as.technician.patch('/api/resin-lots/99999').send({ reuseCount: 2 })).status).toBe(404);
   });
 
+  it('refuses a reuse counted on a stale view, so two people bumping one lot lose no count', async () => {
+    const resinId = resinIdByName('Clear Pour 90');
+    const lot = (await as.technician.post('/api/resin-lots').send({ resinId, code: 'RACE-1', activatedAt: daysAgo(3), volumeMl: 2000 })).body.lot;
+    const first = await as.technician.patch(`/api/resin-lots/${lot.id}`).send({ reuseCount: 1, expectedReuseCount: 0 });
+    expect(first.status).toBe(200);
+    const stale = await as.admin.patch(`/api/resin-lots/${lot.id}`).send({ reuseCount: 1, expectedReuseCount: 0 });
+    expect(stale.status).toBe(409);
+    expect(stale.body.error.fieldErrors.reuseCount[0]).toMatch(/now shows 1 reuses/);
+    expect((await as.admin.patch(`/api/resin-lots/${lot.id}`).send({ reuseCount: 2, expectedReuseCount: 1 })).body.lot.reuseCount).toBe(2);
+  });
+
   it('lists the species that went through a lot, from the coupons of the runs that used it', async () => {
     const db = h.database.db;
     // Fresh lots, so that demo runs seeded on the demo lots do not change the answer.

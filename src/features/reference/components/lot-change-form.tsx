@@ -40,7 +40,7 @@ export function LotChangeForm({
     ({ lotId, reuseCount, status, reason }) => {
       const lot = byId(lotId);
       return {
-        ...(reuseCount !== lot?.reuseCount ? { reuseCount } : {}),
+        ...(reuseCount !== lot?.reuseCount ? { reuseCount, expectedReuseCount: lot?.reuseCount } : {}),
         ...(status !== lot?.status ? { status } : {}),
         ...(reason.trim() ? { reason } : {}),
       };
