@@ -1,5 +1,5 @@
 import type { FieldErrors } from 'react-hook-form';
-import { createTrialSchema, type ConditionInput } from '../../../../shared/schemas/trials';
+import { createTrialSchema, type ConditionInput, type Trial } from '../../../../shared/schemas/trials';
 
 /** One row of process settings as typed: temperature and thickness in the user's units. */
 export interface ProcessRow {
@@ -155,4 +155,48 @@ export function checkPlan(v: PlanValues, conv: Converters) {
     setPath(errors, formFieldOf(path, built.origins), { type: issue.code, message: issue.message });
   }
   return { ok: false as const, errors: errors as FieldErrors<PlanValues>, built };
+}
+
+/**
+ * A saved trial → the plan form's values (the inverse of buildPlan), in the user's display units.
+ * Conditions that share a process label form one row of process settings; a species × resin cell that
+ * a process does not have is 0; the most common count becomes the default and cells at it stay blank.
+ */
+export function planValuesFromTrial(trial: Trial, toDisplay: { temp: (c: number) => number; length: (mm: number) => number }): PlanValues {
+  const speciesIds = [...new Set(trial.conditions.map((c) => String(c.speciesId)))];
+  const resinIds = [...new Set(trial.conditions.map((c) => String(c.resinId)))];
+  const counts = new Map<number, number>();
+  for (const c of trial.conditions) counts.set(c.couponsWanted, (counts.get(c.couponsWanted) ?? 0) + 1);
+  const usual = [...counts.entries()].sort((a, b) => b[1] - a[1] || b[0] - a[0])[0]?.[0] ?? 5;
+  const labels = [...new Set(trial.conditions.map((c) => c.processLabel))];
+  const processes: ProcessRow[] = labels.map((label) => {
+    const mine = trial.conditions.filter((c) => c.processLabel === label);
+    const first = mine[0]!;
+    const cells: Record<string, number | null> = {};
+    for (const s of speciesIds) {
+      for (const r of resinIds) {
+        const c = mine.find((x) => String(x.speciesId) === s && String(x.resinId) === r);
+        cells[cellKey(s, r)] = c === undefined ? 0 : c.couponsWanted === usual ? null : c.couponsWanted;
+      }
+    }
+    return {
+      processLabel: label,
+      vacuumMinutes: first.vacuumMinutes,
+      soakMinutes: first.soakMinutes,
+      cureTemp: first.cureTempC === null ? null : Number(toDisplay.temp(first.cureTempC).toFixed(1)),
+      cureMinutes: first.cureMinutes,
+      thickness: first.thicknessMm === null ? null : Number(toDisplay.length(first.thicknessMm).toFixed(3)),
+      cells,
+    };
+  });
+  return {
+    title: trial.title,
+    question: trial.question,
+    controlsPerSpecies: trial.controlsPerSpecies,
+    notes: trial.notes,
+    speciesIds,
+    resinIds,
+    couponsPerCondition: usual,
+    processes,
+  };
 }

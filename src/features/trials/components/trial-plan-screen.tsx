@@ -1,7 +1,7 @@
 import { useQuery } from '@tanstack/react-query';
 import { useEffect, useMemo, useState } from 'react';
 import { useFieldArray, useForm, type Resolver } from 'react-hook-form';
-import { useNavigate } from 'react-router-dom';
+import { useNavigate, useParams } from 'react-router-dom';
 import type { Resin, Species } from '../../../../shared/schemas/reference';
 import type { CreateTrialInput } from '../../../../shared/schemas/trials';
 import { planningWarnings } from '../../../../shared/trials/planning';
@@ -10,10 +10,11 @@ import { ErrorNote, Loading, Page } from '../../../components/ui/page';
 import { ApiError } from '../../../lib/api-client';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { useUnits } from '../../../lib/use-units';
-import { planChoicesQuery } from '../api/trials-queries';
+import { planChoicesQuery, trialQuery } from '../api/trials-queries';
 import { useCreateTrial } from '../api/use-create-trial';
+import { useUpdateTrial } from '../api/use-update-trial';
 import { numberOrNull, textOrNull } from '../../../lib/form-values';
-import { buildPlan, cellKey, checkPlan, formFieldOf, type PlanValues, type ProcessRow } from './plan-values';
+import { buildPlan, cellKey, checkPlan, formFieldOf, planValuesFromTrial, type PlanValues, type ProcessRow } from './plan-values';
 import { PlanningWarnings } from './planning-warnings';
 
 const emptyProcess = (): ProcessRow => ({
@@ -28,6 +29,7 @@ const emptyProcess = (): ProcessRow => ({
 
 export function TrialPlanScreen() {
   const choices = useQuery(planChoicesQuery());
+  const create = useCreateTrial();
   return (
     <Page title="Plan a trial">
       {choices.isPending ? (
@@ -35,16 +37,53 @@ export function TrialPlanScreen() {
       ) : choices.isError ? (
         <ErrorNote error={choices.error} />
       ) : (
-        <PlanForm species={choices.data.species} resins={choices.data.resins} />
+        <PlanForm species={choices.data.species} resins={choices.data.resins} save={(input) => create.mutateAsync(input)} cancelTo="/trials" />
       )}
     </Page>
   );
 }
 
-function PlanForm({ species, resins }: { species: readonly Species[]; resins: readonly Resin[] }) {
+/** The same form on a saved trial: the grid is replaced as a whole; cells that already have coupons stay (the server refuses their removal). */
+export function TrialEditPlanScreen() {
+  const id = Number(useParams().id);
+  const choices = useQuery(planChoicesQuery());
+  const trial = useQuery(trialQuery(id));
+  const update = useUpdateTrial(id);
+  const units = useUnits();
+  const pending = choices.isPending || trial.isPending;
+  const error = choices.error ?? trial.error;
+  return (
+    <Page title={trial.data ? `Edit the plan of ${trial.data.code}` : 'Edit the plan'}>
+      {pending ? (
+        <Loading />
+      ) : error || !choices.data || !trial.data ? (
+        <ErrorNote error={error} />
+      ) : trial.data.status === 'closed' ? (
+        <p>This trial is closed; change its status on the trial page before changing the plan.</p>
+      ) : (
+        <PlanForm
+          species={choices.data.species}
+          resins={choices.data.resins}
+          initial={planValuesFromTrial(trial.data, { temp: (c) => units.toDisplay(c, 'temperature'), length: (mm) => units.toDisplay(mm, 'length') })}
+          save={(input) => update.mutateAsync(input)}
+          cancelTo={`/trials/${id}`}
+        />
+      )}
+    </Page>
+  );
+}
+
+interface PlanFormProps {
+  species: readonly Species[];
+  resins: readonly Resin[];
+  initial?: PlanValues;
+  save: (input: CreateTrialInput) => Promise<{ id: number }>;
+  cancelTo: string;
+}
+
+function PlanForm({ species, resins, initial, save, cancelTo }: PlanFormProps) {
   const units = useUnits();
   const navigate = useNavigate();
-  const create = useCreateTrial();
   const conv = useMemo(
     () => ({ tempToC: (v: number) => units.fromDisplay(v, 'temperature'), lengthToMm: (v: number) => units.fromDisplay(v, 'length') }),
     [units],
@@ -55,7 +94,7 @@ function PlanForm({ species, resins }: { species: readonly Species[]; resins: re
   };
   const form = useForm<PlanValues, unknown, CreateTrialInput>({
     resolver,
-    defaultValues: {
+    defaultValues: initial ?? {
       title: '',
       question: '',
       controlsPerSpecies: 2,
@@ -99,7 +138,7 @@ function PlanForm({ species, resins }: { species: readonly Species[]; resins: re
 
   const onSubmit = form.handleSubmit(async (input) => {
     try {
-      const trial = await create.mutateAsync(input);
+      const trial = await save(input);
       navigate(`/trials/${trial.id}`);
     } catch (err) {
       // The server names contract paths; move them onto the boxes, as the form's own check does.
@@ -122,7 +161,7 @@ function PlanForm({ species, resins }: { species: readonly Species[]; resins: re
   }, [gridError, cellCount, form]);
 
   return (
-    <form onSubmit={onSubmit} noValidate aria-label="Plan a trial" className="max-w-5xl">
+    <form onSubmit={onSubmit} noValidate aria-label={initial ? 'Edit the plan' : 'Plan a trial'} className="max-w-5xl">
       <FormError message={errors.root?.message} />
       <section aria-labelledby="question-heading" className="sheet mb-6 p-5">
         <h2 id="question-heading" className="mb-3">
@@ -374,7 +413,7 @@ function PlanForm({ species, resins }: { species: readonly Species[]; resins: re
         <button type="submit" className="btn-primary" disabled={form.formState.isSubmitting}>
           Save the plan
         </button>
-        <button type="button" className="btn-quiet" onClick={() => navigate('/trials')}>
+        <button type="button" className="btn-quiet" onClick={() => navigate(cancelTo)}>
           Cancel
         </button>
       </div>

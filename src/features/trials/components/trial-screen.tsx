@@ -48,6 +48,11 @@ function TrialView({ trial }: { trial: Trial }) {
               Create the planned coupons
             </button>
           )}
+          {can('technician') && trial.status !== 'closed' && (
+            <Link to={`/trials/${trial.id}/edit`} className="btn-quiet no-underline">
+              Edit the plan
+            </Link>
+          )}
           <Link to={`/trials/${trial.id}/labels`} className="btn-quiet no-underline">
             Label sheet
           </Link>
