@@ -15,9 +15,9 @@ describe('coupon tag scheme', () => {
   });
 
   it.each([
-    ['Clear Pour 90', 'CP90'],
-    ['Ember Pour 90 (dyed)', 'EPD90'],
-    ['Glassline', 'GLA'],
+    ['Crystal Pane 90', 'CP90'],
+    ['Ember Pane 90 (dyed)', 'EPD90'],
+    ['Glassmere', 'GLA'],
   ])('resin code of %s is %s', (name, code) => {
     expect(resinCode(name)).toBe(code);
   });

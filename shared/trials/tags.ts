@@ -45,7 +45,7 @@ export function speciesCode(commonName: string): string {
   return code.toUpperCase().slice(0, 5);
 }
 
-/** "Clear Pour 90" → "CP90", "Ember Pour 90 (dyed)" → "EPD90", "Glassline" → "GLA". Numbers stay whole. */
+/** "Crystal Pane 90" → "CP90", "Ember Pane 90 (dyed)" → "EPD90", "Glassmere" → "GLA". Numbers stay whole. */
 export function resinCode(name: string): string {
   const ws = words(name);
   if (ws.length === 0) return 'RS';

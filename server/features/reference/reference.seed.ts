@@ -20,7 +20,7 @@ const DAY_MS = 24 * 3600 * 1000;
 const daysBefore = (now: Date, days: number) => new Date(now.getTime() - days * DAY_MS).toISOString().slice(0, 10);
 
 /** Demo resin names and lot codes, for the seeders of runs and coupons. */
-export const DEMO_RESINS = { clear: 'Clear Pour 90', dyed: 'Ember Pour 90 (dyed)' } as const;
+export const DEMO_RESINS = { clear: 'Crystal Pane 90', dyed: 'Ember Pane 90 (dyed)' } as const;
 export const DEMO_LOTS = {
   /** Clear, active, about six weeks old: the everyday lot. */
   clearCurrent: 'CP-D2601',

@@ -258,7 +258,7 @@ describe('resins', () => {
       expect(res.status, field).toBe(400);
       expect(res.body.error.fieldErrors[field]?.[0], field).toMatch(message);
     }
-    const dup = await as.admin.post('/api/resins').send(newResin('clear pour 90'));
+    const dup = await as.admin.post('/api/resins').send(newResin('crystal pane 90'));
     expect(dup.status).toBe(409);
   });
 
@@ -282,10 +282,10 @@ describe('resins', () => {
   });
 
   it('lists resins with a search and counts the usable lots of each', async () => {
-    const list = await as.viewer.get('/api/resins?q=pour&sort=name');
+    const list = await as.viewer.get('/api/resins?q=pane&sort=name');
     expect(list.status).toBe(200);
     expect(list.body.items.length).toBeGreaterThan(0);
-    const clear = list.body.items.find((r: { name: string }) => r.name === 'Clear Pour 90');
+    const clear = list.body.items.find((r: { name: string }) => r.name === 'Crystal Pane 90');
     // Demo: two active clear lots in date (one close to expiry), one spent.
     expect(clear.usableLots).toBe(2);
   });
@@ -345,13 +345,13 @@ describe('resin lots', () => {
 
     const spent = await as.viewer.get('/api/resin-lots?status=spent');
     expect(spent.body.items.map((l: { status: string }) => l.status)).toEqual(['spent']);
-    const byResin = await as.viewer.get(`/api/resin-lots?resinId=${resinIdByName('Ember Pour 90 (dyed)')}`);
-    expect(byResin.body.items.every((l: { resinName: string }) => l.resinName === 'Ember Pour 90 (dyed)')).toBe(true);
+    const byResin = await as.viewer.get(`/api/resin-lots?resinId=${resinIdByName('Ember Pane 90 (dyed)')}`);
+    expect(byResin.body.items.every((l: { resinName: string }) => l.resinName === 'Ember Pane 90 (dyed)')).toBe(true);
     expect((await as.viewer.get('/api/resin-lots?status=gone')).body.error.fieldErrors.status).toBeTruthy();
   });
 
   it('validates a new lot, naming the field', async () => {
-    const resinId = resinIdByName('Clear Pour 90');
+    const resinId = resinIdByName('Crystal Pane 90');
     const base = { resinId, code: 'NEW-1', activatedAt: daysAgo(1), volumeMl: 1000 };
     const cases: [Record<string, unknown>, number, string, RegExp][] = [
       [{ ...base, resinId: 99999 }, 422, 'resinId', /No resin with id 99999/],
@@ -375,7 +375,7 @@ describe('resin lots', () => {
   });
 
   it('audits a change of reuse count or status, with the reason', async () => {
-    const resinId = resinIdByName('Clear Pour 90');
+    const resinId = resinIdByName('Crystal Pane 90');
     const lot = (await as.technician.post('/api/resin-lots').send({ resinId, code: 'AUD-1', activatedAt: daysAgo(3), volumeMl: 2000 })).body.lot;
     const reuse = await as.technician.patch(`/api/resin-lots/${lot.id}`).send({ reuseCount: 1, reason: 'drained back after a run' });
     expect(reuse.status).toBe(200);
@@ -399,7 +399,7 @@ describe('resin lots', () => {
   });
 
   it('refuses a reuse counted on a stale view, so two people bumping one lot lose no count', async () => {
-    const resinId = resinIdByName('Clear Pour 90');
+    const resinId = resinIdByName('Crystal Pane 90');
     const lot = (await as.technician.post('/api/resin-lots').send({ resinId, code: 'RACE-1', activatedAt: daysAgo(3), volumeMl: 2000 })).body.lot;
     const first = await as.technician.patch(`/api/resin-lots/${lot.id}`).send({ reuseCount: 1, expectedReuseCount: 0 });
     expect(first.status).toBe(200);
@@ -413,7 +413,7 @@ describe('resin lots', () => {
     const db = h.database.db;
     // Fresh lots, so that demo runs seeded on the demo lots do not change the answer.
     const make = async (code: string) =>
-      (await as.technician.post('/api/resin-lots').send({ resinId: resinIdByName('Clear Pour 90'), code, activatedAt: daysAgo(2), volumeMl: 900 })).body.lot as {
+      (await as.technician.post('/api/resin-lots').send({ resinId: resinIdByName('Crystal Pane 90'), code, activatedAt: daysAgo(2), volumeMl: 900 })).body.lot as {
         id: number;
       };
     const lot = await make('THRU-1');

@@ -32,7 +32,7 @@ const resinId = (name: string) => h.database.db.select().from(resins).where(eq(r
 /** A 2 species × 2 resins plan with 3 coupons per cell and 2 controls per species. */
 function plan(overrides: Record<string, unknown> = {}) {
   const sp = [speciesId('Maple, red'), speciesId('Buckeye, yellow')];
-  const rs = [resinId('Clear Pour 90'), resinId('Ember Pour 90 (dyed)')];
+  const rs = [resinId('Crystal Pane 90'), resinId('Ember Pane 90 (dyed)')];
   return {
     title: 'Test plan',
     question: 'Does the dyed blend change uptake?',
@@ -155,8 +155,8 @@ describe('planning a trial', () => {
     expect(few.message).toMatch(/too few to see a difference from noise/);
     expect(few).toMatchObject({ conditionIndex: 0 });
     const missing = weak.warnings.find((w) => w.code === 'missing-cell')!;
-    expect(missing).toMatchObject({ speciesId: speciesId('Buckeye, yellow'), resinId: resinId('Ember Pour 90 (dyed)') });
-    expect(missing.message).toMatch(/Buckeye, yellow is never treated with Ember Pour 90/);
+    expect(missing).toMatchObject({ speciesId: speciesId('Buckeye, yellow'), resinId: resinId('Ember Pane 90 (dyed)') });
+    expect(missing.message).toMatch(/Buckeye, yellow is never treated with Ember Pane 90/);
     expect(weak.warnings.filter((w) => w.code === 'no-controls').map((w) => w.message).join(' ')).toMatch(/Maple, red has no untreated controls/);
 
     const hot = await createTrial({ ...base, conditions: [{ ...base.conditions[0]!, cureTempC: 130, soakMinutes: 60 }] });
@@ -344,7 +344,7 @@ describe('progress and labels', () => {
     const controlRow = trial.controls.find((c: { speciesId: number }) => c.speciesId === control.speciesId);
     expect(controlRow.progress).toEqual({ planned: 2, created: 2, dryWeighed: 1, curedWeighed: 0 });
     expect(trial.totals).toEqual({ planned: 16, created: 16, dryWeighed: 2, curedWeighed: 1 });
-    expect(trial.conditions[0].label).toBe('Maple, red · Clear Pour 90 · 4 h vacuum, overnight soak');
+    expect(trial.conditions[0].label).toBe('Maple, red · Crystal Pane 90 · 4 h vacuum, overnight soak');
   });
 
   it('answers a label sheet with one QR code per coupon, opening the coupon page', async () => {
@@ -358,7 +358,7 @@ describe('progress and labels', () => {
     expect(svgCount.every((n: number) => n === 1)).toBe(true);
     const first = res.body.labels[0];
     expect(first.url).toBe(`${h.config.appUrl}/coupons/${first.couponId}`);
-    expect(first).toMatchObject({ role: 'treated', speciesName: 'Maple, red', conditionLabel: 'Maple, red · Clear Pour 90 · 4 h vacuum, overnight soak' });
+    expect(first).toMatchObject({ role: 'treated', speciesName: 'Maple, red', conditionLabel: 'Maple, red · Crystal Pane 90 · 4 h vacuum, overnight soak' });
     const control = res.body.labels.find((l: { role: string }) => l.role === 'control');
     expect(control.conditionLabel).toMatch(/untreated control/);
     expect(new Set(res.body.labels.map((l: { tag: string }) => l.tag)).size).toBe(made.coupons.length);
