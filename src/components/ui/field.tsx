@@ -1,15 +1,26 @@
 import { useId, type InputHTMLAttributes, type ReactNode, type SelectHTMLAttributes, type TextareaHTMLAttributes } from 'react';
 import type { UseFormRegisterReturn } from 'react-hook-form';
 
-interface FieldProps extends Omit<InputHTMLAttributes<HTMLInputElement>, 'name'> {
+interface Labelled {
   label: string;
   registration: UseFormRegisterReturn;
   error?: string;
   hint?: ReactNode;
 }
 
-/** A labelled input whose error is announced and tied to it with aria-describedby. */
-export function Field({ label, registration, error, hint, ...input }: FieldProps) {
+/** The ids and ARIA attributes that tie a control to its hint and its announced error. */
+interface ControlProps {
+  id: string;
+  className: string;
+  'aria-invalid'?: true;
+  'aria-describedby'?: string;
+}
+
+/**
+ * The one shell of every form field: a label, the control, an optional hint, and the error
+ * announced with role="alert" and tied to the control by aria-describedby.
+ */
+function FieldShell({ label, error, hint, children }: Omit<Labelled, 'registration'> & { children: (control: ControlProps) => ReactNode }) {
   const id = useId();
   const hintId = hint ? `${id}-hint` : undefined;
   const errorId = error ? `${id}-error` : undefined;
@@ -18,14 +29,12 @@ export function Field({ label, registration, error, hint, ...input }: FieldProps
       <label htmlFor={id} className="field-label">
         {label}
       </label>
-      <input
-        id={id}
-        className="field-input"
-        aria-invalid={error ? true : undefined}
-        aria-describedby={[hintId, errorId].filter(Boolean).join(' ') || undefined}
-        {...registration}
-        {...input}
-      />
+      {children({
+        id,
+        className: 'field-input',
+        'aria-invalid': error ? true : undefined,
+        'aria-describedby': [hintId, errorId].filter(Boolean).join(' ') || undefined,
+      })}
       {hint && (
         <p id={hintId} className="mt-1 text-xs text-ink-faint">
           {hint}
@@ -40,73 +49,42 @@ export function Field({ label, registration, error, hint, ...input }: FieldProps
   );
 }
 
-interface SelectFieldProps extends Omit<SelectHTMLAttributes<HTMLSelectElement>, 'name'> {
-  label: string;
-  registration: UseFormRegisterReturn;
-  error?: string;
-  options: readonly { value: string; label: string }[];
-}
+type FieldProps = Labelled & Omit<InputHTMLAttributes<HTMLInputElement>, 'name'>;
 
-export function SelectField({ label, registration, error, options, ...select }: SelectFieldProps) {
-  const id = useId();
-  const errorId = error ? `${id}-error` : undefined;
+/** A labelled input. */
+export function Field({ label, registration, error, hint, ...input }: FieldProps) {
   return (
-    <div className="mb-4">
-      <label htmlFor={id} className="field-label">
-        {label}
-      </label>
-      <select id={id} className="field-input" aria-invalid={error ? true : undefined} aria-describedby={errorId} {...registration} {...select}>
-        {options.map((o) => (
-          <option key={o.value} value={o.value}>
-            {o.label}
-          </option>
-        ))}
-      </select>
-      {error && (
-        <p id={errorId} className="mt-1 text-sm text-margin" role="alert">
-          {error}
-        </p>
-      )}
-    </div>
+    <FieldShell label={label} error={error} hint={hint}>
+      {(control) => <input {...control} {...registration} {...input} />}
+    </FieldShell>
   );
 }
 
-interface TextAreaFieldProps extends Omit<TextareaHTMLAttributes<HTMLTextAreaElement>, 'name'> {
-  label: string;
-  registration: UseFormRegisterReturn;
-  error?: string;
-  hint?: ReactNode;
+type SelectFieldProps = Labelled & Omit<SelectHTMLAttributes<HTMLSelectElement>, 'name'> & { options: readonly { value: string; label: string }[] };
+
+export function SelectField({ label, registration, error, hint, options, ...select }: SelectFieldProps) {
+  return (
+    <FieldShell label={label} error={error} hint={hint}>
+      {(control) => (
+        <select {...control} {...registration} {...select}>
+          {options.map((o) => (
+            <option key={o.value} value={o.value}>
+              {o.label}
+            </option>
+          ))}
+        </select>
+      )}
+    </FieldShell>
+  );
 }
+
+type TextAreaFieldProps = Labelled & Omit<TextareaHTMLAttributes<HTMLTextAreaElement>, 'name'>;
 
 export function TextAreaField({ label, registration, error, hint, ...rest }: TextAreaFieldProps) {
-  const id = useId();
-  const hintId = hint ? `${id}-hint` : undefined;
-  const errorId = error ? `${id}-error` : undefined;
   return (
-    <div className="mb-4">
-      <label htmlFor={id} className="field-label">
-        {label}
-      </label>
-      <textarea
-        id={id}
-        rows={3}
-        className="field-input"
-        aria-invalid={error ? true : undefined}
-        aria-describedby={[hintId, errorId].filter(Boolean).join(' ') || undefined}
-        {...registration}
-        {...rest}
-      />
-      {hint && (
-        <p id={hintId} className="mt-1 text-xs text-ink-faint">
-          {hint}
-        </p>
-      )}
-      {error && (
-        <p id={errorId} className="mt-1 text-sm text-margin" role="alert">
-          {error}
-        </p>
-      )}
-    </div>
+    <FieldShell label={label} error={error} hint={hint}>
+      {(control) => <textarea rows={3} {...control} {...registration} {...rest} />}
+    </FieldShell>
   );
 }
 
