@@ -56,7 +56,7 @@ function coupon(over: Partial<AnalysisCoupon> = {}): AnalysisCoupon {
     asePct: null,
     hardnessValue: null,
     hardnessScale: null,
-    lastReadingAt: '2026-01-01T00:00:00.000Z',
+    createdAt: '2026-01-01T00:00:00.000Z',
     blankReasons: {},
     ...over,
   };

@@ -35,7 +35,7 @@ export const analysisFiltersObject = z.object({
   sourceBoard: z.string().trim().min(1).max(120).optional(),
   thicknessMinMm: thickness.optional(),
   thicknessMaxMm: thickness.optional(),
-  /** Date of the coupon's latest reading, inclusive, UTC. */
+  /** Dates the coupon was entered, inclusive, UTC. */
   from: dateText.optional(),
   to: dateText.optional(),
 });
@@ -169,8 +169,8 @@ export const analysisCouponSchema = z.object({
   asePct: nullableNum,
   hardnessValue: nullableNum,
   hardnessScale: z.enum(HARDNESS_SCALES).nullable(),
-  /** Date-time of the coupon's latest current reading. */
-  lastReadingAt: z.string().nullable(),
+  /** When the coupon was entered (the date-range filter's date). */
+  createdAt: z.string(),
   /** Why a metric is blank, as the results table records it (metric → reason). */
   blankReasons: z.record(z.string(), z.string()),
 });
