@@ -1,7 +1,7 @@
 import { createBrowserRouter, Navigate } from 'react-router-dom';
 import { AppLayout } from './layout';
 import { RequireRole } from './require-role';
-import { CompareLater, FindingsLater, ImportsLater, NotFoundScreen, WikiLater } from './routes/later';
+import { FindingsLater, ImportsLater, NotFoundScreen, WikiLater } from './routes/later';
 import { SignInScreen } from '../features/auth/components/sign-in-screen';
 import { AcceptInvitationScreen, ForgotPasswordScreen, ResetPasswordScreen } from '../features/auth/components/password-screens';
 import { UsersScreen } from '../features/auth/components/users-screen';
@@ -9,6 +9,8 @@ import { PreferencesScreen } from '../features/auth/components/preferences-scree
 import { OutboxScreen } from '../features/admin/components/outbox-screen';
 import { SettingsScreen } from '../features/admin/components/settings-screen';
 import { recordRoutes } from './routes/records';
+import { CompareScreen } from '../features/analysis/components/compare-screen';
+import { EvidenceScreen } from '../features/analysis/components/evidence-screen';
 
 /** Every screen of the app. Features provide the components; only this file composes them. */
 export const router = createBrowserRouter([
@@ -21,7 +23,8 @@ export const router = createBrowserRouter([
     children: [
       ...recordRoutes,
       { path: '/imports', element: <RequireRole min="technician"><ImportsLater /></RequireRole> },
-      { path: '/compare', element: <CompareLater /> },
+      { path: '/compare', element: <CompareScreen /> },
+      { path: '/compare/views/:id', element: <EvidenceScreen /> },
       { path: '/findings', element: <FindingsLater /> },
       { path: '/wiki', element: <WikiLater /> },
       { path: '/preferences', element: <PreferencesScreen /> },

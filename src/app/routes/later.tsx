@@ -8,13 +8,6 @@ export function ImportsLater() {
     </Page>
   );
 }
-export function CompareLater() {
-  return (
-    <Page title="Compare">
-      <LaterRelease what="Resin uptake plotted against species density and thickness, by species and resin, with fitted lines, confidence bands and two-group tests." />
-    </Page>
-  );
-}
 export function FindingsLater() {
   return (
     <Page title="Findings">
