@@ -57,6 +57,15 @@ export function createApp(deps: AppDeps) {
         return id;
       },
       autoLogging: { ignore: (req) => !req.url?.startsWith('/api') },
+      // One readable line per request: never the headers, which carry the session cookie (replayable
+      // for days), the answer's set-cookie and any authorization.
+      serializers: {
+        req: (req: { id: unknown; method: string; url: string }) => ({ id: req.id, method: req.method, url: req.url }),
+        res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
+      },
+      redact: { paths: ['req.headers.cookie', 'req.headers.authorization', 'res.headers["set-cookie"]'], remove: true },
+      customSuccessMessage: (req, res, ms) => `${req.method} ${(req as Request).originalUrl ?? req.url} ${res.statusCode} ${Math.round(ms)} ms`,
+      customErrorMessage: (req, res, err) => `${req.method} ${(req as Request).originalUrl ?? req.url} ${res.statusCode} ${err.message}`,
     }),
   );
   app.use(
