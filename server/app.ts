@@ -45,7 +45,9 @@ export function createApp(deps: AppDeps) {
   const app = express();
   app.disable('x-powered-by');
   const secureCookie = deps.config.appUrl.startsWith('https://');
-  if (secureCookie) app.set('trust proxy', 1);
+  // Only a proxy named in TRUST_PROXY is believed about the client's address and scheme; anyone else's
+  // X-Forwarded-For is ignored, so it cannot walk past the sign-in limit.
+  app.set('trust proxy', deps.config.trustProxy);
 
   app.use(
     pinoHttp({
@@ -123,7 +125,7 @@ export function createApp(deps: AppDeps) {
 
   const mounted: SecureRouter[] = [
     health,
-    authRoutes(feature, deps.loginRateLimit ?? { windowMs: 15 * 60_000, limit: 10 }),
+    authRoutes(feature, deps.loginRateLimit ?? { windowMs: 15 * 60_000, limit: deps.config.loginRateLimit, perAddress: deps.config.loginRateLimitPerAddress }),
     adminRoutes(feature),
     runsRoutes(feature),
     couponsRoutes(feature),

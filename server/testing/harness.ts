@@ -65,7 +65,7 @@ export async function startHarness(options: HarnessOptions = {}): Promise<Harnes
       logger,
       bcryptCost: 4,
       now: () => new Date(Date.now() + clock.offsetMs),
-      loginRateLimit: { windowMs: 60_000, limit: options.loginLimit ?? 1000 },
+      loginRateLimit: { windowMs: 60_000, limit: options.loginLimit ?? 1000, perAddress: (options.loginLimit ?? 1000) * 3 },
     });
   let lumenbook = build();
 

@@ -45,3 +45,57 @@ describe('who has an account cannot be told by timing', () => {
     }
   });
 });
+
+describe('sign-in limit per account and per address, kept in SQLite', () => {
+  const wrong = (a: ReturnType<Harness['agent']>, email = 'tech@demo.test') => a.post('/api/auth/login').send({ email, password: 'wrong-wrong-wrong' });
+
+  it('failures from one address hold the account shut for every other address too', async () => {
+    await h.close();
+    h = await startHarness({ loginLimit: 3, env: { TRUST_PROXY: 'loopback' } });
+    for (let i = 0; i < 3; i++) expect((await wrong(h.agent().set('X-Forwarded-For', '203.0.113.7'))).status).toBe(401);
+    const elsewhere = await h.agent().set('X-Forwarded-For', '198.51.100.9').post('/api/auth/login').send({ email: 'tech@demo.test', password: 'lumenbook-demo' });
+    expect(elsewhere.status).toBe(429);
+    expect(elsewhere.body.error.code).toBe('rate_limited');
+    // Another account from the first address is still open: the address has failures left.
+    expect((await h.agent().set('X-Forwarded-For', '203.0.113.7').post('/api/auth/login').send({ email: 'viewer@demo.test', password: 'lumenbook-demo' })).status).toBe(200);
+  });
+
+  it('correct sign-ins do not use up the allowance', async () => {
+    await h.close();
+    h = await startHarness({ loginLimit: 2 });
+    for (let i = 0; i < 6; i++) {
+      const res = await h.agent().post('/api/auth/login').send({ email: i % 2 ? 'tech@demo.test' : 'viewer@demo.test', password: 'lumenbook-demo' });
+      expect(res.status).toBe(200);
+    }
+  });
+
+  it('a forged X-Forwarded-For does not walk past the per-address limit when no proxy is configured', async () => {
+    await h.close();
+    h = await startHarness({ loginLimit: 2, env: { APP_URL: 'https://lumenbook.example' } });
+    // Different accounts each time, so only the per-address count (2 × 3 = 6) can stop them.
+    const emails = ['a', 'b', 'c', 'd', 'e', 'f'].map((x) => `${x}@demo.test`);
+    for (const [i, email] of emails.entries()) {
+      expect((await wrong(h.agent().set('X-Forwarded-For', `203.0.113.${i + 1}`), email)).status).toBe(401);
+    }
+    const seventh = await wrong(h.agent().set('X-Forwarded-For', '203.0.113.99'), 'g@demo.test');
+    expect(seventh.status).toBe(429);
+  });
+
+  it('the count survives a restart', async () => {
+    await h.close();
+    h = await startHarness({ loginLimit: 2 });
+    expect((await wrong(h.agent())).status).toBe(401);
+    expect((await wrong(h.agent())).status).toBe(401);
+    await h.restart();
+    expect((await wrong(h.agent())).status).toBe(429);
+  });
+
+  it('TRUST_PROXY takes proxy addresses only, never "true" or a hop count', async () => {
+    const { parseTrustProxy } = await import('../../env');
+    expect(parseTrustProxy('')).toBe(false);
+    expect(parseTrustProxy('127.0.0.1, 10.0.0.0/8, loopback')).toEqual(['127.0.0.1', '10.0.0.0/8', 'loopback']);
+    expect(() => parseTrustProxy('true')).toThrow(/TRUST_PROXY/);
+    expect(() => parseTrustProxy('1')).toThrow(/TRUST_PROXY/);
+    expect(() => parseTrustProxy('10.0.0.0/99')).toThrow(/TRUST_PROXY/);
+  });
+});

@@ -14,6 +14,7 @@ import {
 import { inviteUserSchema, updateUserSchema } from '../../../shared/schemas/admin';
 import { idParamsSchema, listQuerySchema } from '../../../shared/schemas/common';
 import { createAuthService } from './auth.service';
+import { createLoginThrottle, type LoginLimits } from './login-throttle';
 
 function regenerate(req: Request): Promise<void> {
   return new Promise((resolve, reject) => req.session.regenerate((err) => (err ? reject(err) : resolve())));
@@ -34,7 +35,7 @@ async function signIn(req: Request, userId: number) {
 
 export const SESSION_COOKIE = 'lumenbook.sid';
 
-export function authRoutes(deps: FeatureDeps, limits: { windowMs: number; limit: number }) {
+export function authRoutes(deps: FeatureDeps, limits: LoginLimits) {
   const service = createAuthService(deps);
   const r = secureRouter();
 
@@ -47,11 +48,21 @@ export function authRoutes(deps: FeatureDeps, limits: { windowMs: number; limit:
       identifier: name,
       handler: (_req, _res, next) => next(new AppError('rate_limited', 'Too many attempts; wait a few minutes and try again')),
     });
-  r.router.use('/auth/login', limiter('login'));
   r.router.use('/auth/password-reset', limiter('password-reset'));
 
+  const throttle = createLoginThrottle(deps, limits);
+  const address = (req: Request) => req.ip ?? req.socket.remoteAddress ?? 'unknown';
+
   r.post('/auth/login', { access: 'public', schemas: { body: loginSchema } }, async ({ body, req }) => {
-    const user = await service.verifyLogin(body.email, body.password);
+    throttle.check(body.email, address(req));
+    let user;
+    try {
+      user = await service.verifyLogin(body.email, body.password);
+    } catch (err) {
+      throttle.failed(body.email, address(req));
+      throw err;
+    }
+    throttle.succeeded(body.email);
     await signIn(req, user.id);
     deps.logger.info({ userId: user.id }, 'signed in');
     return { user };
