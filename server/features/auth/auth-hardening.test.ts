@@ -71,7 +71,7 @@ describe('sign-in limit per account and per address, kept in SQLite', () => {
 
   it('a forged X-Forwarded-For does not walk past the per-address limit when no proxy is configured', async () => {
     await h.close();
-    h = await startHarness({ loginLimit: 2, env: { APP_URL: 'https://lumenbook.example' } });
+    h = await startHarness({ loginLimit: 2 });
     // Different accounts each time, so only the per-address count (2 × 3 = 6) can stop them.
     const emails = ['a', 'b', 'c', 'd', 'e', 'f'].map((x) => `${x}@demo.test`);
     for (const [i, email] of emails.entries()) {
@@ -97,5 +97,20 @@ describe('sign-in limit per account and per address, kept in SQLite', () => {
     expect(() => parseTrustProxy('true')).toThrow(/TRUST_PROXY/);
     expect(() => parseTrustProxy('1')).toThrow(/TRUST_PROXY/);
     expect(() => parseTrustProxy('10.0.0.0/99')).toThrow(/TRUST_PROXY/);
+  });
+});
+
+describe('an https APP_URL reached over plain http', () => {
+  it('refuses the sign-in and says why, instead of signing in without a cookie', async () => {
+    await h.close();
+    h = await startHarness({ env: { APP_URL: 'https://lumenbook.example', TRUST_PROXY: 'loopback' } });
+    const plain = await h.agent().post('/api/auth/login').send({ email: 'tech@demo.test', password: 'lumenbook-demo' });
+    expect(plain.status).toBe(403);
+    expect(plain.body.error.message).toMatch(/plain http.*TRUST_PROXY/s);
+    expect(plain.headers['set-cookie']).toBeUndefined();
+    // Through the named proxy that terminated https, the Secure cookie is set.
+    const proxied = await h.agent().set('X-Forwarded-Proto', 'https').post('/api/auth/login').send({ email: 'tech@demo.test', password: 'lumenbook-demo' });
+    expect(proxied.status).toBe(200);
+    expect(String(proxied.headers['set-cookie'])).toMatch(/lumenbook\.sid=.*Secure/);
   });
 });

@@ -26,6 +26,19 @@ function destroy(req: Request): Promise<void> {
   return new Promise((resolve, reject) => req.session.destroy((err) => (err ? reject(err) : resolve())));
 }
 
+/**
+ * With an https APP_URL the session cookie is Secure, and neither express-session nor a browser keeps
+ * it on a plain-http request: the sign-in would "succeed" with no cookie. Say why instead.
+ */
+function requireSecureWhenConfigured(deps: FeatureDeps, req: Request) {
+  if (!deps.config.appUrl.startsWith('https://') || req.secure) return;
+  throw new AppError(
+    'forbidden',
+    `This server's address is ${deps.config.appUrl}, but this request came over plain http, so no browser would keep the sign-in cookie. ` +
+      'Open the https address; if a proxy in front of the server handles https, name it in TRUST_PROXY so its X-Forwarded-Proto is believed.',
+  );
+}
+
 /** Starts a fresh session for the user; a new id at sign-in defeats session fixation. */
 async function signIn(req: Request, userId: number) {
   await regenerate(req);
@@ -54,6 +67,7 @@ export function authRoutes(deps: FeatureDeps, limits: LoginLimits) {
   const address = (req: Request) => req.ip ?? req.socket.remoteAddress ?? 'unknown';
 
   r.post('/auth/login', { access: 'public', schemas: { body: loginSchema } }, async ({ body, req }) => {
+    requireSecureWhenConfigured(deps, req);
     throttle.check(body.email, address(req));
     let user;
     try {
@@ -91,6 +105,7 @@ export function authRoutes(deps: FeatureDeps, limits: LoginLimits) {
   });
 
   r.post('/auth/invitations/accept', { access: 'public', schemas: { body: invitationAcceptSchema } }, async ({ body, req }) => {
+    requireSecureWhenConfigured(deps, req);
     const user = await service.acceptInvitation(body.token, body.password, body.name);
     await signIn(req, user.id);
     return { user };
