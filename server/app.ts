@@ -26,6 +26,14 @@ const CLIENT_DIR = path.resolve(here, '../dist/client');
 const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
 const REQUEST_ID = /^[A-Za-z0-9._-]{1,64}$/;
 
+function originHost(origin: string): string | null {
+  try {
+    return new URL(origin).host || null;
+  } catch {
+    return null;
+  }
+}
+
 /**
  * Builds the Express app from its dependencies. Features are composed here and nowhere else:
  * each contributes a secureRouter mounted under /api.
@@ -116,7 +124,8 @@ export function createApp(deps: AppDeps) {
     const marked = req.get(CSRF_HEADER) === CSRF_VALUE || req.get('x-requested-with') === 'XMLHttpRequest';
     if (!marked) return next(new Forbidden(`Missing the ${CSRF_HEADER} header on a write request`));
     const origin = req.get('origin');
-    if (origin && new URL(origin).host !== req.get('host')) return next(new Forbidden('Cross-origin write refused'));
+    // `Origin: null` (sandboxed frames, some redirects) and unparsable origins are refused like foreign ones.
+    if (origin !== undefined && originHost(origin) !== req.get('host')) return next(new Forbidden('Cross-origin write refused'));
     next();
   });
 
