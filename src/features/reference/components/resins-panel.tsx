@@ -1,3 +1,4 @@
+import { Link } from 'react-router-dom';
 import { useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
 import type { Resin } from '../../../../shared/schemas/reference';
@@ -71,6 +72,9 @@ export function ResinsPanel() {
                 <tr key={r.id}>
                   <th scope="row" className="border-b border-paper-edge text-left font-normal text-ink">
                     {r.name}
+                    <Link to={`/compare?resinId=${r.id}`} className="ml-2 text-xs">
+                      results<span className="sr-only"> for {r.name} in Compare</span>
+                    </Link>
                   </th>
                   <td>{r.kind}</td>
                   <td className="tabular-nums">{r.liquidDensityGcm3}</td>

@@ -1,3 +1,4 @@
+import { Link } from 'react-router-dom';
 import { useQuery } from '@tanstack/react-query';
 import { useDeferredValue, useId, useState } from 'react';
 import { SPECIES_ORIGINS, type SpeciesOrigin } from '../../../../shared/constants/records';
@@ -105,6 +106,9 @@ export function SpeciesPanel() {
                   <tr key={s.id}>
                     <th scope="row" className="border-b border-paper-edge text-left font-normal text-ink">
                       {s.commonName}
+                      <Link to={`/compare?speciesId=${s.id}`} className="ml-2 text-xs">
+                        results<span className="sr-only"> for {s.commonName} in Compare</span>
+                      </Link>
                     </th>
                     <td>
                       <i>{s.botanicalName}</i>

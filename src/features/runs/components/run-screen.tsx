@@ -9,6 +9,7 @@ import { useRole } from '../../../lib/use-role';
 import { useUnits } from '../../../lib/use-units';
 import { runQuery } from '../api/runs-queries';
 import { useNow } from '../hooks/use-now';
+import { RunExpected } from './run-expected';
 import { RunPhotos } from './run-photos';
 import { CautionNote } from './caution-note';
 import { RuleChecks } from './rule-checks';
@@ -187,9 +188,14 @@ export function RunScreen() {
     <Page
       title={`Run ${r.code}`}
       actions={
-        <Link to={`/runs/${r.id}/coupons`} className="btn-primary no-underline">
-          Coupons grid ({r.coupons.length})
-        </Link>
+        <>
+          <Link to={`/compare?runId=${r.id}`} className="btn-quiet no-underline">
+            Results in Compare
+          </Link>
+          <Link to={`/runs/${r.id}/coupons`} className="btn-primary no-underline">
+            Coupons grid ({r.coupons.length})
+          </Link>
+        </>
       }
     >
       <dl className="mb-6 grid gap-x-6 gap-y-1 text-sm sm:grid-cols-[auto_1fr_auto_1fr]">
@@ -277,6 +283,7 @@ export function RunScreen() {
           <RunPhotos run={r} />
         </div>
       </div>
+      <RunExpected runId={r.id} />
     </Page>
   );
 }

@@ -16,6 +16,7 @@ import { useUpdateTrial } from '../api/use-update-trial';
 import { numberOrNull, textOrNull } from '../../../lib/form-values';
 import { buildPlan, cellKey, checkPlan, formFieldOf, planValuesFromTrial, type PlanValues, type ProcessRow } from './plan-values';
 import { PlanningWarnings } from './planning-warnings';
+import { SampleSizeOffer } from './sample-size-offer';
 
 const emptyProcess = (): ProcessRow => ({
   processLabel: '',
@@ -406,6 +407,8 @@ function PlanForm({ species, resins, initial, save, cancelTo }: PlanFormProps) {
           </div>
         )}
       </section>
+
+      <SampleSizeOffer species={pickedSpecies} resins={pickedResins} couponsPerCondition={values.couponsPerCondition ?? undefined} />
 
       <PlanningWarnings warnings={warnings} heading="Before you save: what this plan may not be able to answer" />
 

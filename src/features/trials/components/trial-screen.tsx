@@ -56,6 +56,9 @@ function TrialView({ trial }: { trial: Trial }) {
           <Link to={`/trials/${trial.id}/labels`} className="btn-quiet no-underline">
             Label sheet
           </Link>
+          <Link to={`/compare?trialId=${trial.id}`} className="btn-quiet no-underline">
+            Results in Compare
+          </Link>
         </>
       }
     >
