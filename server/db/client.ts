@@ -10,8 +10,10 @@ import * as referenceSchema from './schema/reference';
 import * as trialsSchema from './schema/trials';
 import * as runsSchema from './schema/runs';
 import * as couponsSchema from './schema/coupons';
+import * as findingsSchema from './schema/findings';
+import * as wikiSchema from './schema/wiki';
 
-export const schema = { ...authSchema, ...adminSchema, ...referenceSchema, ...trialsSchema, ...runsSchema, ...couponsSchema };
+export const schema = { ...authSchema, ...adminSchema, ...referenceSchema, ...trialsSchema, ...runsSchema, ...couponsSchema, ...findingsSchema, ...wikiSchema };
 export type Db = BetterSQLite3Database<typeof schema>;
 
 export interface Database_ {

@@ -32,7 +32,7 @@ export interface Harness {
  * The real app on a real SQLite file built from the committed migrations, in a temp directory, with
  * mail through the in-process fake SMTP server. Demo data is seeded with a low bcrypt cost for speed.
  */
-export async function startHarness(options: { seed?: boolean; loginLimit?: number } = {}): Promise<Harness> {
+export async function startHarness(options: { seed?: boolean; loginLimit?: number; signingLimit?: number } = {}): Promise<Harness> {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'lumenbook-test-'));
   const config = loadConfig({
     NODE_ENV: 'test',
@@ -55,6 +55,7 @@ export async function startHarness(options: { seed?: boolean; loginLimit?: numbe
       bcryptCost: 4,
       now: () => new Date(Date.now() + clock.offsetMs),
       loginRateLimit: { windowMs: 60_000, limit: options.loginLimit ?? 1000 },
+      signingRateLimit: { windowMs: 60_000, limit: options.signingLimit ?? 1000 },
     });
   let lumenbook = build();
 

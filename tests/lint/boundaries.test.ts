@@ -18,7 +18,9 @@ async function ruleIds(filePath: string, code: string): Promise<string[]> {
   }
 }
 
-describe('lint boundaries', () => {
+// ESLint's import rules walk the whole import graph on the first probe; on a busy machine that takes
+// tens of seconds, so these tests get a generous timeout rather than the default.
+describe('lint boundaries', { timeout: 180_000 }, () => {
   // [what is broken, where the probe file sits, the repo path it imports, a name exported there]
   it.each([
     ['shared imports the server', 'shared/domain/zz-probe.ts', 'server/app', 'createApp'],
