@@ -1,5 +1,6 @@
-import { and, asc, count, desc, eq, inArray, max, ne, sql, type SQL } from 'drizzle-orm';
+import { and, asc, count, desc, eq, gte, inArray, max, ne, sql, type SQL } from 'drizzle-orm';
 import type { Db } from '../../db/client';
+import { auditLog } from '../../db/schema/admin';
 import { users } from '../../db/schema/auth';
 import { findingComments, findingEvidence, findingRevisions, findings, signatures } from '../../db/schema/findings';
 import { resins, species } from '../../db/schema/reference';
@@ -171,5 +172,19 @@ export function listSavedViews(db: Db) {
   if (!savedViewsExist(db)) return [];
   return db.all<{ id: number; title: string; created_at: string; created_by: number | null }>(
     sql`select id, title, created_at, created_by from evidence order by id desc limit 200`,
+  );
+}
+
+/** A signing attempt refused for a wrong password, kept in the audit log (which is also what the limit counts). */
+export function recordRefusedSignature(db: Db, signerId: number, findingId: number, at: string) {
+  db.insert(auditLog).values({ actorId: signerId, createdBy: signerId, action: 'signature-refused', entity: 'finding', entityId: String(findingId), reason: 'wrong password', createdAt: at }).run();
+}
+export function countRefusedSignatures(db: Db, signerId: number, since: string): number {
+  return (
+    db
+      .select({ n: count() })
+      .from(auditLog)
+      .where(and(eq(auditLog.action, 'signature-refused'), eq(auditLog.actorId, signerId), gte(auditLog.createdAt, since)))
+      .get()?.n ?? 0
   );
 }

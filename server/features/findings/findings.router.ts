@@ -1,8 +1,5 @@
-import { rateLimit } from 'express-rate-limit';
 import type { FeatureDeps } from '../../deps';
-import { AppError } from '../../http/errors';
 import { secureRouter } from '../../http/routes';
-import type { AuthedRequest } from '../../http/types';
 import { idParamsSchema } from '../../../shared/schemas/common';
 import {
   approveFindingSchema,
@@ -18,25 +15,8 @@ import {
 import { createFindingsService } from './findings.service';
 
 export function findingsRoutes(deps: FeatureDeps, signingLimit: { windowMs: number; limit: number }) {
-  const service = createFindingsService(deps);
+  const service = createFindingsService(deps, signingLimit);
   const r = secureRouter();
-
-  // Failed signatures (a wrong password) are counted per signer and limited like sign-in attempts;
-  // successful ones and refusals for other reasons do not count.
-  r.router.use(
-    '/findings/:id/approve',
-    rateLimit({
-      windowMs: signingLimit.windowMs,
-      limit: signingLimit.limit,
-      standardHeaders: 'draft-8',
-      legacyHeaders: false,
-      identifier: 'signing',
-      keyGenerator: (req) => `signer:${(req as AuthedRequest).user?.id ?? 'anonymous'}`,
-      requestWasSuccessful: (_req, res) => res.locals.signatureRefused !== true,
-      skipSuccessfulRequests: true,
-      handler: (_req, _res, next) => next(new AppError('rate_limited', 'Too many failed signing attempts; wait a few minutes and try again')),
-    }),
-  );
 
   r.get('/findings', { access: 'viewer', schemas: { query: findingListQuerySchema } }, ({ query, user }) => service.list(query, user));
   r.post('/findings', { access: 'technician', status: 201, schemas: { body: createFindingSchema } }, ({ user, body }) => ({ finding: service.create(user, body) }));
@@ -63,14 +43,9 @@ export function findingsRoutes(deps: FeatureDeps, signingLimit: { windowMs: numb
   r.post('/findings/:id/reopen', { access: 'technician', schemas: { params: idParamsSchema } }, ({ user, params }) => ({ finding: service.reopen(user, params.id) }));
   r.post('/findings/:id/withdraw', { access: 'technician', schemas: { params: idParamsSchema } }, ({ user, params }) => ({ finding: service.withdraw(user, params.id) }));
   r.post('/findings/:id/revise', { access: 'technician', status: 201, schemas: { params: idParamsSchema } }, ({ user, params }) => ({ finding: service.revise(user, params.id) }));
-  r.post('/findings/:id/approve', { access: 'reviewer', schemas: { params: idParamsSchema, body: approveFindingSchema } }, async ({ user, params, body, res }) => {
-    try {
-      return { finding: await service.approve(user, params.id, body) };
-    } catch (err) {
-      if (err instanceof AppError && err.fieldErrors?.password) res.locals.signatureRefused = true;
-      throw err;
-    }
-  });
+  r.post('/findings/:id/approve', { access: 'reviewer', schemas: { params: idParamsSchema, body: approveFindingSchema } }, async ({ user, params, body }) => ({
+    finding: await service.approve(user, params.id, body),
+  }));
   r.get('/findings/:id/verify', { access: 'viewer', schemas: { params: idParamsSchema } }, ({ params }) => ({ verification: service.verify(params.id) }));
 
   return r;

@@ -50,7 +50,7 @@ export function slugify(title: string): string {
   return base || 'finding';
 }
 
-export function createFindingsService(deps: FeatureDeps) {
+export function createFindingsService(deps: FeatureDeps, signingLimit: { windowMs: number; limit: number } = { windowMs: 15 * 60_000, limit: 5 }) {
   const { db } = deps.database;
   const iso = () => deps.now().toISOString();
   const link = (path: string) => `${deps.config.appUrl}${path}`;
@@ -497,10 +497,15 @@ export function createFindingsService(deps: FeatureDeps) {
   async function approve(user: User, id: number, input: ApproveFindingInput): Promise<Finding> {
     const row = load(id);
     const next = enforce(row, user, 'approve');
+    // Failed signing attempts are counted in SQLite per signer, like failed sign-ins: they survive a restart.
+    const since = new Date(deps.now().getTime() - signingLimit.windowMs).toISOString();
+    if (repo.countRefusedSignatures(db, user.id, since) >= signingLimit.limit) {
+      throw new AppError('rate_limited', 'Too many failed signing attempts; wait a few minutes and try again');
+    }
     const account = repo.findUser(db, user.id);
     const ok = account?.passwordHash ? await bcrypt.compare(input.password, account.passwordHash) : false;
     if (!ok) {
-      db.transaction((tx) => writeAudit(tx, { actorId: user.id, action: 'signature-refused', entity: 'finding', entityId: id, reason: 'wrong password' }));
+      db.transaction((tx) => repo.recordRefusedSignature(tx, user.id, id, iso()));
       throw new AppError('forbidden', 'The password is not right; nothing was signed', { password: ['The password is not right'] });
     }
     const signedAt = iso();

@@ -230,7 +230,7 @@ describe('signatures', () => {
     expect(v.differences).toContain('finding: signature.meaning');
   });
 
-  it('rate-limits failed signing attempts like sign-in', async () => {
+  it('rate-limits failed signing attempts like sign-in, across a restart', async () => {
     const limited = await startHarness({ signingLimit: 2 });
     try {
       const tech = await limited.signIn('tech@demo.test');
@@ -240,7 +240,10 @@ describe('signatures', () => {
       const url = `/api/findings/${created.body.finding.id}/approve`;
       expect((await rev.post(url).send({ password: 'wrong-1', meaning: 'approved-for-wiki' })).status).toBe(403);
       expect((await rev.post(url).send({ password: 'wrong-2', meaning: 'approved-for-wiki' })).status).toBe(403);
-      const third = await rev.post(url).send({ password: DEMO_PASSWORD, meaning: 'approved-for-wiki' });
+      // The count is kept in SQLite, so a restart does not reset it.
+      await limited.restart();
+      const again = await limited.signIn('reviewer@demo.test');
+      const third = await again.post(url).send({ password: DEMO_PASSWORD, meaning: 'approved-for-wiki' });
       expect(third.status).toBe(429);
       expect(third.body.error.code).toBe('rate_limited');
       expect(limited.database.db.select().from(signatures).all()).toHaveLength(0);

@@ -13,7 +13,7 @@ export function wikiRoutes(deps: FeatureDeps) {
   r.get('/wiki/:slug', { access: 'viewer', schemas: { params: slugParamsSchema } }, ({ params }) => ({ page: service.get(params.slug) }));
   r.get('/wiki/:slug/export', { access: 'viewer', schemas: { params: slugParamsSchema } }, async ({ params, res }) => {
     const { fileName, data } = await service.exportArchive(params.slug);
-    res.setHeader('Content-Type', 'application/zip');
+    res.setHeader('Content-Type', 'application/gzip');
     res.setHeader('Content-Disposition', `attachment; filename="${fileName}"`);
     res.send(data);
   });

@@ -1,4 +1,7 @@
-import { ZipFile } from 'yazl';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { create as createTar } from 'tar';
 import type { FeatureDeps } from '../../deps';
 import { NotFound } from '../../http/errors';
 import { CANONICAL_FORM, SIGNATURE_ALGORITHM, SIGNATURE_MEANING_LABELS } from '../../../shared/constants/findings';
@@ -154,13 +157,14 @@ export function createWikiService(deps: FeatureDeps) {
   }
 
   /**
-   * A page for a wiki kept elsewhere: `<slug>.md` with YAML front matter (signature included), each plot
-   * as `plots/<n>-<name>.svg` linked from the Markdown, and each evidence snapshot as JSON beside it.
+   * A page for a wiki kept elsewhere, as one .tar.gz holding a folder named after the page:
+   * `<slug>.md` with YAML front matter (signature included), each plot as `plots/<n>-<name>.svg` linked
+   * from the Markdown, and each evidence snapshot as JSON. Files are written to a temporary folder,
+   * archived with node-tar (the package the backups use) and removed.
    */
   async function exportArchive(slug: string): Promise<{ fileName: string; data: Buffer }> {
     const page = get(slug);
-    const zip = new ZipFile();
-    const mtime = new Date(page.approvedAt);
+    const files = new Map<string, string>();
     const lines = [
       '---',
       `title: ${yamlString(page.title)}`,
@@ -174,7 +178,7 @@ export function createWikiService(deps: FeatureDeps) {
       `  signer: ${yamlString(page.signature.signerName)}`,
       `  meaning: ${yamlString(page.signature.meaningLabel)}`,
       `  signed: ${yamlString(page.signature.signedAt)}`,
-      `  ${page.signature.algorithm.toLowerCase().replace('-', '')}: ${page.signature.contentHash}`,
+      `  sha256: ${page.signature.contentHash}`,
       `  canonical-form: ${page.signature.canonicalForm}`,
       ...(page.supersededBy ? [`superseded-by: ${yamlString(page.supersededBy.slug)}`] : []),
       '---',
@@ -187,18 +191,30 @@ export function createWikiService(deps: FeatureDeps) {
       const base = `${e.position}-${fileSafe(e.title)}`;
       lines.push(`### ${e.title}`, '');
       if (e.svg) {
-        zip.addBuffer(Buffer.from(e.svg, 'utf8'), `plots/${base}.svg`, { mtime, compress: false });
+        files.set(`plots/${base}.svg`, e.svg);
         lines.push(`![${e.title.replace(/[[\]]/g, '')}](plots/${base}.svg)`, '');
       }
-      zip.addBuffer(Buffer.from(JSON.stringify(e.snapshot, null, 2), 'utf8'), `evidence/${base}.json`, { mtime, compress: false });
+      files.set(`evidence/${base}.json`, JSON.stringify(e.snapshot, null, 2));
       lines.push(`Numbers as frozen when attached: [evidence/${base}.json](evidence/${base}.json)`, '');
     }
     lines.push('---', '', `Signed by ${page.signature.signerName} on ${page.signature.signedAt}: ${page.signature.meaningLabel}.`, '');
-    zip.addBuffer(Buffer.from(lines.join('\n'), 'utf8'), `${page.slug}.md`, { mtime, compress: false });
-    zip.end();
-    const chunks: Buffer[] = [];
-    for await (const chunk of zip.outputStream) chunks.push(chunk as Buffer);
-    return { fileName: `${page.slug}.zip`, data: Buffer.concat(chunks) };
+    files.set(`${page.slug}.md`, lines.join('\n'));
+
+    const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'lumenbook-wiki-export-'));
+    try {
+      const mtime = new Date(page.approvedAt);
+      for (const [name, text] of files) {
+        const file = path.join(dir, page.slug, name);
+        fs.mkdirSync(path.dirname(file), { recursive: true });
+        fs.writeFileSync(file, text, 'utf8');
+        fs.utimesSync(file, mtime, mtime);
+      }
+      const chunks: Buffer[] = [];
+      for await (const chunk of createTar({ gzip: true, cwd: dir, portable: true, mtime }, [page.slug])) chunks.push(chunk as Buffer);
+      return { fileName: `${page.slug}.tar.gz`, data: Buffer.concat(chunks) };
+    } finally {
+      fs.rmSync(dir, { recursive: true, force: true });
+    }
   }
 
   return { list, index, get, exportArchive };

@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
+import { Parser } from 'tar';
 import { startHarness, type Harness } from '../../testing/harness';
 import { resins, species } from '../../db/schema/reference';
 import { DEMO_PASSWORD } from '../../seed';
@@ -120,24 +121,42 @@ describe('wiki', () => {
     expect(entry.bodyHtml).not.toContain('<a ');
   });
 
-  it('exports a page as a zip archive with the Markdown, front matter and signature', async () => {
+  it('exports a page as one .tar.gz with the Markdown, front matter and signature', async () => {
     const res = await viewer.get(`/api/wiki/${mapleSlug}/export`).buffer(true).parse((r, cb) => {
       const chunks: Buffer[] = [];
       r.on('data', (c: Buffer) => chunks.push(c));
       r.on('end', () => cb(null, Buffer.concat(chunks)));
     });
     expect(res.status).toBe(200);
-    expect(res.headers['content-type']).toBe('application/zip');
-    expect(res.headers['content-disposition']).toBe(`attachment; filename="${mapleSlug}.zip"`);
-    const zip = res.body as Buffer;
-    expect(zip.subarray(0, 4).toString('hex')).toBe('504b0304'); // local file header signature (PKWARE APPNOTE 4.3.7)
-    const text = zip.toString('utf8');
-    expect(text).toContain(`${mapleSlug}.md`);
-    expect(text).toContain('title: "Overnight soak fills spalted maple"');
-    expect(text).toContain('signer: "Ilse Marrow (quality)"');
-    expect(text).toMatch(/sha256: [0-9a-f]{64}/);
+    expect(res.headers['content-type']).toBe('application/gzip');
+    expect(res.headers['content-disposition']).toBe(`attachment; filename="${mapleSlug}.tar.gz"`);
+    const files = await untar(res.body as Buffer);
+    expect([...files.keys()]).toContain(`${mapleSlug}/${mapleSlug}.md`);
+    const md = files.get(`${mapleSlug}/${mapleSlug}.md`)!;
+    expect(md).toMatch(/^---\ntitle: "Overnight soak fills spalted maple"\n/);
+    expect(md).toContain('signer: "Ilse Marrow (quality)"');
+    expect(md).toMatch(/sha256: [0-9a-f]{64}/);
+    expect(md).toContain('The coupons soaked overnight reached a **thorough** fill');
   });
 });
+
+/** Reads a .tar.gz into a map of path → text with node-tar's parser. */
+async function untar(data: Buffer): Promise<Map<string, string>> {
+  const files = new Map<string, string>();
+  const parser = new Parser({
+    onReadEntry: (entry) => {
+      const chunks: Buffer[] = [];
+      entry.on('data', (c: Buffer) => chunks.push(c));
+      entry.on('end', () => files.set(entry.path.replace(/\/$/, ''), Buffer.concat(chunks).toString('utf8')));
+    },
+  });
+  await new Promise<void>((resolve, reject) => {
+    parser.on('end', () => resolve());
+    parser.on('error', reject);
+    parser.end(data);
+  });
+  return files;
+}
 
 describe('search helpers', () => {
   it('quotes every word and prefix-matches it', () => {
