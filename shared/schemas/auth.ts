@@ -68,11 +68,15 @@ export type InvitationAcceptInput = z.infer<typeof invitationAcceptSchema>;
  * Choosing a preset (`unitSystem`) starts every quantity afresh from it; `units` then changes single
  * quantities on top (of the new preset when both are sent, else of the user's current choice).
  */
-export const updatePreferencesSchema = z.strictObject({
-  unitSystem: z.enum(UNIT_SYSTEMS_LIST).optional(),
-  units: unitPrefsSchema.partial().optional(),
-  name: nameSchema.optional(),
-});
+export const updatePreferencesSchema = z
+  .strictObject({
+    unitSystem: z.enum(UNIT_SYSTEMS_LIST).optional(),
+    units: unitPrefsSchema.partial().optional(),
+    name: nameSchema.optional(),
+  })
+  .refine((v) => v.unitSystem !== undefined || v.units !== undefined || v.name !== undefined, {
+    message: 'Nothing to change: give a name, a unit system or units',
+  });
 export type UpdatePreferencesInput = z.infer<typeof updatePreferencesSchema>;
 
 export const acceptedResponseSchema = z.object({ accepted: z.literal(true) });
