@@ -18,8 +18,7 @@ async function ruleIds(filePath: string, code: string): Promise<string[]> {
   }
 }
 
-// ESLint's import rules walk the whole import graph on the first probe; on a busy machine that takes
-// tens of seconds, so these tests get a generous timeout rather than the default.
+// The first probe makes ESLint resolve the whole import graph: minutes on a busy 2-core machine.
 describe('lint boundaries', { timeout: 180_000 }, () => {
   // [what is broken, where the probe file sits, the repo path it imports, a name exported there]
   it.each([
