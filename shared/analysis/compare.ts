@@ -102,7 +102,8 @@ export function compareGroups(rows: readonly AnalysisCoupon[], a: GroupSpec, b: 
   const vb = values(membersB, metric, scale);
   const labelA = groupLabel(a, membersA, 'group A');
   const labelB = groupLabel(b, membersB, 'group B');
-  const overlap = va.filter((x) => vb.some((y) => y.coupon.id === x.coupon.id)).length;
+  const idsB = new Set(vb.map((y) => y.coupon.id));
+  const overlap = va.filter((x) => idsB.has(x.coupon.id)).length;
   if (overlap > 0) warnings.push(`${overlap} coupon(s) fall in both groups; pick groups that do not overlap.`);
   const xa = va.map((v) => v.value);
   const xb = vb.map((v) => v.value);

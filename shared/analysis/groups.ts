@@ -26,7 +26,7 @@ export function exclusionReasons(c: AnalysisCoupon, basis: SgBasis): string[] {
     else if (c.dryMassG !== null) reasons.push('No dry dimensions, so no measured SG');
     else if (c.wpgPct !== null) reasons.push('No dry weighing, so no measured SG');
   }
-  return [...new Set(reasons)];
+  return reasons.length > 1 ? [...new Set(reasons)] : reasons;
 }
 
 /** Group key species × resin. */

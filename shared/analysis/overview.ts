@@ -26,9 +26,8 @@ export function buildOverview(rows: readonly AnalysisCoupon[], sgBasis: SgBasis,
       controls.push(c);
       continue;
     }
-    const reasons = exclusionReasons(c, sgBasis);
-    if (reasons.length > 0) excluded.push({ id: c.id, tag: c.tag, reasons });
-    else included.push(c);
+    if (c.wpgPct !== null && sgOf(c, sgBasis) !== null) included.push(c);
+    else excluded.push({ id: c.id, tag: c.tag, reasons: exclusionReasons(c, sgBasis) });
   }
 
   const sgPts: XY[] = included.map((c) => ({ c, x: sgOf(c, sgBasis) as number, y: c.wpgPct as number }));

@@ -1,9 +1,9 @@
-import { and, asc, desc, eq, gte, inArray, isNotNull, lte, ne, or, sql, type SQL } from 'drizzle-orm';
+import { and, desc, eq, inArray, isNotNull, sql, type SQL } from 'drizzle-orm';
+import type Database from 'better-sqlite3';
 import type { Db } from '../../db/client';
 import { evidence } from '../../db/schema/analysis';
 import { users } from '../../db/schema/auth';
-import { coupons } from '../../db/schema/coupons';
-import { resins, species } from '../../db/schema/reference';
+import { species } from '../../db/schema/reference';
 import { couponResults } from '../../db/schema/results';
 import { runs } from '../../db/schema/runs';
 import type { HardnessScale } from '../../../shared/constants/records';
@@ -12,25 +12,6 @@ import { referenceOvenDrySg } from '../../../shared/coupons/plausibility';
 import type { AnalysisCoupon, AnalysisFilters } from '../../../shared/schemas/analysis';
 
 const cr = couponResults;
-
-/** The filters as SQL on the results table (and the coupon's entry date). */
-export function filterConditions(f: AnalysisFilters): SQL[] {
-  const w: SQL[] = [];
-  if (f.trialId) w.push(inArray(cr.trialId, f.trialId));
-  if (f.conditionId) w.push(inArray(cr.conditionId, f.conditionId));
-  if (f.speciesId) w.push(inArray(cr.speciesId, f.speciesId));
-  if (f.speciesOrigin) w.push(eq(species.origin, f.speciesOrigin));
-  if (f.resinId) w.push(inArray(cr.resinId, f.resinId));
-  if (f.lotId) w.push(inArray(cr.resinLotId, f.lotId));
-  if (f.runId) w.push(inArray(cr.runId, f.runId));
-  if (f.role) w.push(eq(cr.role, f.role));
-  if (f.sourceBoard) w.push(eq(cr.sourceBoard, f.sourceBoard));
-  if (f.thicknessMinMm !== undefined) w.push(gte(cr.thicknessMm, f.thicknessMinMm));
-  if (f.thicknessMaxMm !== undefined) w.push(lte(cr.thicknessMm, f.thicknessMaxMm));
-  if (f.from) w.push(gte(sql`substr(${coupons.createdAt}, 1, 10)`, f.from));
-  if (f.to) w.push(lte(sql`substr(${coupons.createdAt}, 1, 10)`, f.to));
-  return w;
-}
 
 interface SpeciesInfo {
   name: string;
@@ -49,43 +30,40 @@ function speciesInfo(db: Db): Map<number, SpeciesInfo> {
 }
 
 
-const selection = {
-  id: cr.couponId,
-  tag: cr.tag,
-  trialId: cr.trialId,
-  conditionId: cr.conditionId,
-  runId: cr.runId,
-  runCode: runs.code,
-  speciesId: cr.speciesId,
-  resinId: cr.resinId,
-  resinName: resins.name,
-  resinDensityGcm3: resins.curedDensityGcm3,
-  lotId: cr.resinLotId,
-  role: cr.role,
-  sourceBoard: cr.sourceBoard,
-  thicknessMm: cr.thicknessMm,
-  dryMassG: cr.dryMassG,
-  curedMassG: cr.curedMassG,
-  drySg: cr.drySg,
-  wpgPct: cr.wpgPct,
-  resinLoadingKgM3: cr.resinLoadingKgM3,
-  voidFillPct: cr.voidFillPct,
-  maxWpgPct: cr.maxWpgPct,
-  swellingPct: cr.swellingPct,
-  swellingBasis: cr.swellingBasis,
-  hDryShore: cr.hardnessDryShoreD,
-  hDryJanka: cr.hardnessDryJankaN,
-  hDryBrinell: cr.hardnessDryBrinellHb,
-  hCuredShore: cr.hardnessCuredShoreD,
-  hCuredJanka: cr.hardnessCuredJankaN,
-  hCuredBrinell: cr.hardnessCuredBrinellHb,
-  problemCount: cr.problemCount,
-  problems: cr.problems,
-  createdAt: coupons.createdAt,
-};
-type Selected = {
-  [K in keyof typeof selection]: (typeof selection)[K]['_']['notNull'] extends true ? (typeof selection)[K]['_']['data'] : (typeof selection)[K]['_']['data'] | null;
-};
+interface Selected {
+  id: number;
+  tag: string;
+  trialId: number | null;
+  conditionId: number | null;
+  runId: number | null;
+  runCode: string | null;
+  speciesId: number;
+  resinId: number | null;
+  resinName: string | null;
+  resinDensityGcm3: number | null;
+  lotId: number | null;
+  role: 'treated' | 'control';
+  sourceBoard: string | null;
+  thicknessMm: number | null;
+  dryMassG: number | null;
+  curedMassG: number | null;
+  drySg: number | null;
+  wpgPct: number | null;
+  resinLoadingKgM3: number | null;
+  voidFillPct: number | null;
+  maxWpgPct: number | null;
+  swellingPct: number | null;
+  swellingBasis: 'volume' | 'mass' | null;
+  hDryShore: number | null;
+  hDryJanka: number | null;
+  hDryBrinell: number | null;
+  hCuredShore: number | null;
+  hCuredJanka: number | null;
+  hCuredBrinell: number | null;
+  problemCount: number;
+  problems: { metric: string; message: string }[];
+  createdAt: string;
+}
 
 function hardnessOf(r: Selected): { value: number; scale: HardnessScale } | null {
   // Treated coupons are judged after the cure; controls are untreated, so their dry-stage reading counts.
@@ -104,27 +82,74 @@ function hardnessOf(r: Selected): { value: number; scale: HardnessScale } | null
   return null;
 }
 
-function baseQuery(db: Db) {
-  return db
-    .select(selection)
-    .from(cr)
-    .innerJoin(coupons, eq(coupons.id, cr.couponId))
-    .innerJoin(species, eq(species.id, cr.speciesId))
-    .leftJoin(resins, eq(resins.id, cr.resinId))
-    .leftJoin(runs, eq(runs.id, cr.runId));
+/** Columns read per coupon, in this order (one statement, rows as arrays: no per-row mapping layer). */
+const COLUMNS = `cr.coupon_id, cr.tag, cr.trial_id, cr.condition_id, cr.run_id, r.code, cr.species_id, cr.resin_id, rs.name, rs.cured_density_g_cm3,
+  cr.resin_lot_id, cr.role, cr.source_board, cr.thickness_mm, cr.dry_mass_g, cr.cured_mass_g, cr.dry_sg, cr.wpg_pct, cr.resin_loading_kg_m3,
+  cr.void_fill_pct, cr.max_wpg_pct, cr.swelling_pct, cr.swelling_basis, cr.hardness_dry_shore_d, cr.hardness_dry_janka_n, cr.hardness_dry_brinell_hb,
+  cr.hardness_cured_shore_d, cr.hardness_cured_janka_n, cr.hardness_cured_brinell_hb, cr.problem_count, cr.problems, c.created_at`;
+
+/** The filters as a parameterised WHERE clause on the same columns the Drizzle conditions use. */
+function rawWhere(f: AnalysisFilters): { clause: string; params: (string | number)[] } {
+  const w: string[] = [];
+  const params: (string | number)[] = [];
+  const list = (col: string, ids: number[] | undefined) => {
+    if (!ids) return;
+    w.push(`${col} in (${ids.map(() => '?').join(',')})`);
+    params.push(...ids);
+  };
+  list('cr.trial_id', f.trialId);
+  list('cr.condition_id', f.conditionId);
+  list('cr.species_id', f.speciesId);
+  list('cr.resin_id', f.resinId);
+  list('cr.resin_lot_id', f.lotId);
+  list('cr.run_id', f.runId);
+  const one = (cond: string, v: string | number | undefined) => {
+    if (v === undefined) return;
+    w.push(cond);
+    params.push(v);
+  };
+  one('sp.origin = ?', f.speciesOrigin);
+  one('cr.role = ?', f.role);
+  one('cr.source_board = ?', f.sourceBoard);
+  one('cr.thickness_mm >= ?', f.thicknessMinMm);
+  one('cr.thickness_mm <= ?', f.thicknessMaxMm);
+  one('substr(c.created_at, 1, 10) >= ?', f.from);
+  one('substr(c.created_at, 1, 10) <= ?', f.to);
+  return { clause: w.length ? `where ${w.join(' and ')}` : '', params };
 }
 
+type RawRow = [
+  number, string, number | null, number | null, number | null, string | null, number, number | null, string | null, number | null,
+  number | null, 'treated' | 'control', string | null, number | null, number | null, number | null, number | null, number | null, number | null,
+  number | null, number | null, number | null, 'volume' | 'mass' | null, number | null, number | null, number | null,
+  number | null, number | null, number | null, number, string, string,
+];
+
 /**
- * The results rows matching the filters, as the analysis sees them, in coupon id order. ASE is taken
- * against the controls of the same trial and species whatever the filters (a role filter must not
- * remove the controls a treated coupon is judged against).
+ * The results rows matching the filters, as the analysis sees them, in coupon id order: one prepared
+ * statement over coupon_results (joined to the coupon for its entry date and to the run, resin and
+ * species for names). ASE is taken against the controls of the same trial and species whatever the
+ * filters (a role filter must not remove the controls a treated coupon is judged against).
  */
-export function loadAnalysisCoupons(db: Db, f: AnalysisFilters, extra: SQL[] = []): AnalysisCoupon[] {
-  const where = [...filterConditions(f), ...extra];
-  const rows = baseQuery(db)
-    .where(where.length ? and(...where) : undefined)
-    .orderBy(asc(cr.couponId))
-    .all() as Selected[];
+export function loadAnalysisCoupons(db: Db, f: AnalysisFilters): AnalysisCoupon[] {
+  const { clause: where, params } = rawWhere(f);
+  // The Drizzle handle made by openDatabase carries its better-sqlite3 connection; raw rows skip the mapping layer.
+  const raw = (db as Db & { $client: Database.Database }).$client
+    .prepare(
+      `select ${COLUMNS} from coupon_results cr join coupons c on c.id = cr.coupon_id join species sp on sp.id = cr.species_id
+       left join resins rs on rs.id = cr.resin_id left join runs r on r.id = cr.run_id ${where} order by cr.coupon_id`,
+    )
+    .raw(true)
+    .all(...params) as RawRow[];
+  const rows: Selected[] = raw.map((x) => ({
+    id: x[0], tag: x[1], trialId: x[2], conditionId: x[3], runId: x[4], runCode: x[5], speciesId: x[6], resinId: x[7], resinName: x[8],
+    resinDensityGcm3: x[9], lotId: x[10], role: x[11], sourceBoard: x[12], thicknessMm: x[13], dryMassG: x[14], curedMassG: x[15], drySg: x[16],
+    wpgPct: x[17], resinLoadingKgM3: x[18], voidFillPct: x[19], maxWpgPct: x[20], swellingPct: x[21], swellingBasis: x[22], hDryShore: x[23],
+    hDryJanka: x[24], hDryBrinell: x[25], hCuredShore: x[26], hCuredJanka: x[27], hCuredBrinell: x[28], problemCount: x[29],
+    // The blank reasons are read only where there are some.
+    problems: x[29] > 0 ? (JSON.parse(x[30]) as Selected['problems']) : [],
+    createdAt: x[31],
+  }));
   return toAnalysisCoupons(db, rows);
 }
 
@@ -195,17 +220,10 @@ function toAnalysisCoupons(db: Db, rows: Selected[]): AnalysisCoupon[] {
 /** Treated coupons of the given species × resin pairs from runs other than `runId` (the shop's history). */
 export function loadHistory(db: Db, pairs: { speciesId: number; resinId: number }[], runId: number): AnalysisCoupon[] {
   if (pairs.length === 0) return [];
-  const rows = baseQuery(db)
-    .where(
-      and(
-        eq(cr.role, 'treated'),
-        or(ne(cr.runId, runId), sql`${cr.runId} is null`),
-        or(...pairs.map((p) => and(eq(cr.speciesId, p.speciesId), eq(cr.resinId, p.resinId)))),
-      ),
-    )
-    .orderBy(asc(cr.couponId))
-    .all() as Selected[];
-  return toAnalysisCoupons(db, rows);
+  const wanted = new Set(pairs.map((p) => `${p.speciesId}|${p.resinId}`));
+  return loadAnalysisCoupons(db, { speciesId: [...new Set(pairs.map((p) => p.speciesId))], resinId: [...new Set(pairs.map((p) => p.resinId))], role: 'treated' }).filter(
+    (c) => c.runId !== runId && wanted.has(`${c.speciesId}|${c.resinId}`),
+  );
 }
 
 export function runExists(db: Db, id: number): boolean {

@@ -4,6 +4,7 @@ import { writeAudit } from '../../db/audit';
 import { refreshResults } from '../../measurements/results';
 import { Conflict, NotFound, Unprocessable } from '../../http/errors';
 import type { User } from '../../../shared/schemas/auth';
+import type { UnitSystem } from '../../../shared/units';
 import type {
   ConditionInput,
   CreateTrialCouponsResponse,
@@ -18,11 +19,13 @@ import type {
 import { conditionLabel, planningWarnings } from '../../../shared/trials/planning';
 import { assignCodes, controlTag, parseTag, resinCode, speciesCode, treatedTag, trialCode, trialCounter } from '../../../shared/trials/tags';
 import * as repo from './trials.repo';
+import { labelAddress } from '../../../shared/trials/label-address';
+import { readShopSettings } from '../../db/shop-settings';
 
 export interface TrialsServiceDeps {
   db: Db;
   now: () => Date;
-  /** Base URL of the app; a label's QR code opens `${appUrl}/coupons/<id>`. */
+  /** Base URL of the app; a label's QR code opens `${base}/coupons/<id>`, base being the shop's label address or else this. */
   appUrl: string;
 }
 
@@ -69,7 +72,8 @@ export function createTrialsService(deps: TrialsServiceDeps) {
     return trialCode(year, highest + 1);
   }
 
-  function getTrial(id: number, tx: Db = db): Trial {
+  /** units: the reader's, for temperatures in the planning warnings. */
+  function getTrial(id: number, tx: Db = db, units?: UnitSystem): Trial {
     const t = repo.findTrial(tx, id);
     if (!t) throw new NotFound('Trial');
     const conditions = repo.conditionsOf(tx, id);
@@ -108,7 +112,7 @@ export function createTrialsService(deps: TrialsServiceDeps) {
     const resinMap = new Map(conditions.map((c) => [c.resinId, { name: c.resinName, cureMinC: c.cureMinC, cureMaxC: c.cureMaxC }]));
     const warnings = planningWarnings(
       { controlsPerSpecies: t.controlsPerSpecies, conditions },
-      { speciesName: (s) => speciesInGrid.get(s) ?? `species ${s}`, resin: (r) => resinMap.get(r) },
+      { speciesName: (s) => speciesInGrid.get(s) ?? `species ${s}`, resin: (r) => resinMap.get(r), units },
     );
 
     return {
@@ -345,7 +349,8 @@ export function createTrialsService(deps: TrialsServiceDeps) {
     const trial = repo.findTrial(db, id);
     if (!trial) throw new NotFound('Trial');
     const rows = repo.labelRows(db, id);
-    const base = deps.appUrl.replace(/\/+$/, '');
+    const address = labelAddress(readShopSettings(db).labelBaseUrl, deps.appUrl);
+    const base = address.url;
     const out = [];
     for (const r of rows) {
       const url = `${base}/coupons/${r.id}`;
@@ -364,9 +369,9 @@ export function createTrialsService(deps: TrialsServiceDeps) {
         qrSvg,
       });
     }
-    return { trial: { id: trial.id, code: trial.code, title: trial.title }, labels: out };
+    return { trial: { id: trial.id, code: trial.code, title: trial.title }, address, labels: out };
   }
 
-  return { listTrials, getTrial: (id: number) => getTrial(id), createTrial, updateTrial, createPlannedCoupons, labels };
+  return { listTrials, getTrial: (id: number, units?: UnitSystem) => getTrial(id, db, units), createTrial, updateTrial, createPlannedCoupons, labels };
 }
 export type TrialsService = ReturnType<typeof createTrialsService>;

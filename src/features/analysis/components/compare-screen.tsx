@@ -1,4 +1,5 @@
 import { useQuery } from '@tanstack/react-query';
+import { paths } from '../../../config/paths';
 import { useCallback, useMemo, useState, type ReactNode } from 'react';
 import { Link, useNavigate, useSearchParams } from 'react-router-dom';
 import { COUPON_ROLES, SPECIES_ORIGINS } from '../../../../shared/constants/records';
@@ -13,7 +14,7 @@ import {
   type SgBasis,
 } from '../../../../shared/schemas/analysis';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
-import { useRole } from '../../../lib/use-role';
+import { useRole } from '../../../lib/session';
 import { filterChoicesQuery, overviewQuery, useSaveEvidence } from '../api/analysis-queries';
 import { hardnessPlot, residualPlot, swellingPlot, wpgVsSgPlot, wpgVsThicknessPlot } from './compare-plots';
 import { GroupTable } from './group-table';
@@ -188,7 +189,7 @@ function Results({ o, filters, sgBasis }: { o: Overview; filters: AnalysisFilter
   const openCoupon = useCallback(
     (d: unknown) => {
       const id = (d as { id?: unknown }).id;
-      if (typeof id === 'number') navigate(`/coupons/${id}`);
+      if (typeof id === 'number') navigate(paths.coupon.href({ id }));
     },
     [navigate],
   );
@@ -327,7 +328,7 @@ function Outliers({ o }: { o: Overview }) {
         <ul className="list-disc pl-5">
           {o.outliers.map((x) => (
             <li key={`${x.kind}-${x.id}`}>
-              <Link to={`/coupons/${x.id}`}>{x.tag}</Link>: {x.reason}
+              <Link to={paths.coupon.href({ id: x.id })}>{x.tag}</Link>: {x.reason}
             </li>
           ))}
         </ul>
@@ -346,7 +347,7 @@ function Excluded({ o }: { o: Overview }) {
         <ul className="list-disc pl-5" data-testid="excluded-list">
           {o.excluded.slice(0, 200).map((x) => (
             <li key={x.id}>
-              <Link to={`/coupons/${x.id}`}>{x.tag}</Link>: {x.reasons.join('; ')}
+              <Link to={paths.coupon.href({ id: x.id })}>{x.tag}</Link>: {x.reasons.join('; ')}
             </li>
           ))}
           {o.excluded.length > 200 && <li>… and {o.excluded.length - 200} more</li>}
@@ -387,7 +388,7 @@ function SaveView({ filters, sgBasis, compare }: { filters: AnalysisFilters; sgB
       <div role="status" className="mt-2 text-sm">
         {save.data && (
           <>
-            Saved as view no. {save.data.evidence.id}. <Link to={`/compare/views/${save.data.evidence.id}`}>Open the saved view</Link>
+            Saved as view no. {save.data.evidence.id}. <Link to={paths.compareView.href({ id: save.data.evidence.id })}>Open the saved view</Link>
           </>
         )}
       </div>

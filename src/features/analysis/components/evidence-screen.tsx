@@ -1,4 +1,5 @@
 import { useQuery } from '@tanstack/react-query';
+import { paths } from '../../../config/paths';
 import { useCallback } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import type { EvidenceResponse } from '../../../../shared/schemas/analysis';
@@ -45,7 +46,7 @@ function EvidenceView({ data }: { data: EvidenceResponse }) {
       {newerAnswer.exists ? (
         <p role="status" className="mb-4 rounded border border-amber/60 bg-amber/10 px-3 py-2">
           <strong>A newer answer exists.</strong> Readings have changed since this view was saved; the numbers below are as saved.{' '}
-          <Link to={`/compare?${params.toString()}`}>Open the same view with today's numbers</Link>.
+          <Link to={paths.compare.href(Object.fromEntries(params))}>Open the same view with today's numbers</Link>.
         </p>
       ) : (
         <p role="status" className="mb-4 text-sm">

@@ -1,11 +1,12 @@
 import { Link } from 'react-router-dom';
+import { paths } from '../../../config/paths';
 import { useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
 import type { Resin } from '../../../../shared/schemas/reference';
 import { ErrorNote, Loading } from '../../../components/ui/page';
-import { useRole } from '../../../lib/use-role';
+import { useRole } from '../../../lib/session';
 import { useUnits } from '../../../lib/use-units';
-import { resinListQuery } from '../api/reference-queries';
+import { resinListQuery } from '../../../lib/queries/reference';
 import { ResinForm } from './resin-form';
 
 export function ResinsPanel() {
@@ -72,7 +73,7 @@ export function ResinsPanel() {
                 <tr key={r.id}>
                   <th scope="row" className="border-b border-paper-edge text-left font-normal text-ink">
                     {r.name}
-                    <Link to={`/compare?resinId=${r.id}`} className="ml-2 text-xs">
+                    <Link to={paths.compare.href({ resinId: r.id })} className="ml-2 text-xs">
                       results<span className="sr-only"> for {r.name} in Compare</span>
                     </Link>
                   </th>

@@ -1,11 +1,12 @@
 import { Link } from 'react-router-dom';
+import { paths } from '../../../config/paths';
 import { useQuery } from '@tanstack/react-query';
 import { useDeferredValue, useId, useState } from 'react';
 import { SPECIES_ORIGINS, type SpeciesOrigin } from '../../../../shared/constants/records';
 import type { Species } from '../../../../shared/schemas/reference';
 import { ErrorNote, Loading } from '../../../components/ui/page';
-import { useRole } from '../../../lib/use-role';
-import { speciesListQuery } from '../api/reference-queries';
+import { useRole } from '../../../lib/session';
+import { speciesListQuery } from '../../../lib/queries/reference';
 import { dash } from '../../../lib/form-values';
 import { SpeciesForm } from './species-form';
 import { ORIGIN_LABELS } from './labels';
@@ -106,7 +107,7 @@ export function SpeciesPanel() {
                   <tr key={s.id}>
                     <th scope="row" className="border-b border-paper-edge text-left font-normal text-ink">
                       {s.commonName}
-                      <Link to={`/compare?speciesId=${s.id}`} className="ml-2 text-xs">
+                      <Link to={paths.compare.href({ speciesId: s.id })} className="ml-2 text-xs">
                         results<span className="sr-only"> for {s.commonName} in Compare</span>
                       </Link>
                     </th>

@@ -1,4 +1,5 @@
 import { useQuery } from '@tanstack/react-query';
+import { paths } from '../../../config/paths';
 import { Link } from 'react-router-dom';
 import { runExpectedQuery } from '../api/run-expected-query';
 
@@ -14,7 +15,7 @@ export function RunExpected({ runId }: { runId: number }) {
     <section aria-labelledby="expected-heading" className="sheet mt-6 p-5">
       <div className="mb-2 flex flex-wrap items-baseline justify-between gap-2">
         <h2 id="expected-heading">Uptake against expected</h2>
-        <Link to={`/compare?runId=${runId}`}>This run in Compare</Link>
+        <Link to={paths.compare.href({ runId })}>This run in Compare</Link>
       </div>
       <p role="status" className={`mb-3 rounded border px-3 py-2 ${tone}`} data-testid="run-expected-status">
         {r.run.status === 'short' && <strong>Fell short. </strong>}
@@ -37,7 +38,7 @@ export function RunExpected({ runId }: { runId: number }) {
               {r.coupons.map((c) => (
                 <tr key={c.id}>
                   <th scope="row" className="text-left font-normal">
-                    <Link to={`/coupons/${c.id}`}>{c.tag}</Link>
+                    <Link to={paths.coupon.href({ id: c.id })}>{c.tag}</Link>
                   </th>
                   <td>
                     {c.species} · {c.resin}

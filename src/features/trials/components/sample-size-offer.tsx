@@ -2,7 +2,7 @@ import { useQueries } from '@tanstack/react-query';
 import { useState } from 'react';
 import { api, queryString } from '../../../lib/api-client';
 import { sampleSizeSchema } from '../../../../shared/schemas/analysis';
-import { trialKeys } from '../api/trials-queries';
+import { queryKeys } from '../../../lib/queries/keys';
 
 /**
  * How many coupons per condition a two-group comparison needs to find a chosen difference in WPG
@@ -26,7 +26,7 @@ export function SampleSizeOffer({
     queries: pairs.map(({ s, r }) => {
       const q = { speciesId: s.id, resinId: r.id, differencePct: d, ...(planned !== undefined ? { planned } : {}) };
       return {
-        queryKey: [...trialKeys.all, 'sample-size', q] as const,
+        queryKey: [...queryKeys.analysis.all, 'sample-size', q] as const,
         queryFn: () => api.get(`/analysis/sample-size${queryString(q)}`, sampleSizeSchema),
         enabled: valid,
         staleTime: 60_000,
