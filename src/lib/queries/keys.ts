@@ -60,6 +60,8 @@ export const queryKeys = {
   users: {
     all: ['users'] as const,
     list: (q: Partial<ListQuery>) => ['users', 'list', q] as const,
+    /** Whom an invitation link invites (read before signing in). */
+    invitation: (token: string) => ['users', 'invitation', token] as const,
   },
   outbox: {
     all: ['outbox'] as const,
