@@ -67,7 +67,11 @@ export const queryKeys = {
     all: ['outbox'] as const,
     page: (page: number) => ['outbox', page] as const,
   },
-  settings: { all: ['settings'] as const },
+  settings: {
+    all: ['settings'] as const,
+    /** The address printed labels open, worked out by the server from the settings and APP_URL. */
+    labelAddress: () => ['settings', 'label-address'] as const,
+  },
 } as const;
 
 type Root = readonly [string];
