@@ -3,6 +3,28 @@ import { useState } from 'react';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
 import { outboxQuery } from '../api/admin-queries';
 
+const URL_PATTERN = /(https?:\/\/[^\s<>"']+)/g;
+
+/**
+ * The message text with its web addresses as links, so an invitation, reset or review link can be
+ * followed from here. Everything else stays text; nothing in a message is ever inserted as HTML.
+ */
+function LinkedText({ text }: { text: string }) {
+  return (
+    <>
+      {text.split(URL_PATTERN).map((part, i) =>
+        i % 2 === 1 ? (
+          <a key={i} href={part} rel="noopener noreferrer">
+            {part}
+          </a>
+        ) : (
+          part
+        ),
+      )}
+    </>
+  );
+}
+
 /** Mail the app would have sent, as caught by the local fake SMTP server. */
 export function OutboxScreen() {
   const [page, setPage] = useState(1);
@@ -10,8 +32,8 @@ export function OutboxScreen() {
   return (
     <Page title="Outbox">
       <p className="mb-4 max-w-2xl text-sm text-ink-soft">
-        Without mail-server settings, Lumenbook keeps its e-mail here instead of sending it. Invitation and reset links can be copied from these
-        messages.
+        Without mail-server settings, Lumenbook keeps its e-mail here instead of sending it. Links in these messages can be followed from
+        here.
       </p>
       {outbox.isPending ? (
         <Loading />
@@ -29,7 +51,9 @@ export function OutboxScreen() {
                   <p className="text-xs text-ink-faint">
                     To {m.to} · from {m.from} · <time dateTime={m.createdAt}>{new Date(m.createdAt).toLocaleString()}</time>
                   </p>
-                  <pre className="mt-2 font-mono text-sm break-all whitespace-pre-wrap">{m.text}</pre>
+                  <pre className="mt-2 font-mono text-sm break-all whitespace-pre-wrap">
+                    <LinkedText text={m.text} />
+                  </pre>
                 </article>
               </li>
             ))}
