@@ -33,6 +33,8 @@ const SCREENS: { email: string; paths: string[] }[] = [
 
 for (const { email, paths } of SCREENS) {
   test(`main screens as ${email} have no serious or critical accessibility violations`, async ({ page }) => {
+    // Up to a dozen full scans in one test: generous on a busy machine.
+    test.setTimeout(300_000);
     const errors: string[] = [];
     page.on('pageerror', (e) => errors.push(e.message));
     await signIn(page, email);
