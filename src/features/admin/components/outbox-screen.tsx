@@ -1,28 +1,27 @@
 import { useQuery } from '@tanstack/react-query';
-import { useState } from 'react';
+import { useState, type ReactNode } from 'react';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
 import { outboxQuery } from '../api/admin-queries';
 
-const URL_PATTERN = /(https?:\/\/[^\s<>"']+)/g;
+// Web addresses in a message; a sentence's closing punctuation is not part of the address.
+const URL_PATTERN = /https?:\/\/[^\s<>"']+[^\s<>"'.,;:!?)\]]/g;
 
-/**
- * The message text with its web addresses as links, so an invitation, reset or review link can be
- * followed from here. Everything else stays text; nothing in a message is ever inserted as HTML.
- */
-function LinkedText({ text }: { text: string }) {
-  return (
-    <>
-      {text.split(URL_PATTERN).map((part, i) =>
-        i % 2 === 1 ? (
-          <a key={i} href={part} rel="noopener noreferrer">
-            {part}
-          </a>
-        ) : (
-          part
-        ),
-      )}
-    </>
-  );
+/** Plain mail text with its web addresses as links, so an invitation or reset link opens with one click. */
+export function Linked({ text }: { text: string }) {
+  const parts: ReactNode[] = [];
+  let last = 0;
+  for (const m of text.matchAll(URL_PATTERN)) {
+    const at = m.index ?? 0;
+    if (at > last) parts.push(text.slice(last, at));
+    parts.push(
+      <a key={at} href={m[0]}>
+        {m[0]}
+      </a>,
+    );
+    last = at + m[0].length;
+  }
+  if (last < text.length) parts.push(text.slice(last));
+  return <>{parts}</>;
 }
 
 /** Mail the app would have sent, as caught by the local fake SMTP server. */
@@ -32,8 +31,8 @@ export function OutboxScreen() {
   return (
     <Page title="Outbox">
       <p className="mb-4 max-w-2xl text-sm text-ink-soft">
-        Without mail-server settings, Lumenbook keeps its e-mail here instead of sending it. Links in these messages can be followed from
-        here.
+        Without mail-server settings, Lumenbook keeps its e-mail here instead of sending it. Invitation and reset links in these messages
+        open with a click.
       </p>
       {outbox.isPending ? (
         <Loading />
@@ -52,7 +51,7 @@ export function OutboxScreen() {
                     To {m.to} · from {m.from} · <time dateTime={m.createdAt}>{new Date(m.createdAt).toLocaleString()}</time>
                   </p>
                   <pre className="mt-2 font-mono text-sm break-all whitespace-pre-wrap">
-                    <LinkedText text={m.text} />
+                    <Linked text={m.text} />
                   </pre>
                 </article>
               </li>
