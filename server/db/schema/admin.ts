@@ -43,3 +43,9 @@ export const settings = sqliteTable('settings', {
   createdAt: createdAt(),
   createdBy: createdBy(),
 });
+
+/** One row the health check rewrites, to prove the database can still be written, not only read. */
+export const healthProbe = sqliteTable('health_probe', {
+  id: integer('id').primaryKey(),
+  checkedAt: text('checked_at').notNull(),
+});
