@@ -54,6 +54,11 @@ export default [
             { target: './shared', from: './server', message: 'shared/ is pure: it imports nothing from server/.' },
             { target: './src', from: './server', message: 'The client never imports the server, not even types.' },
             { target: './server', from: './src', message: 'The server never imports the client.' },
+            ...['lib', 'components', 'config'].map((dir) => ({
+              target: `./src/${dir}`,
+              from: ['./src/features', './src/app'],
+              message: `src/${dir} is shared by every feature, so it imports no feature and not the app.`,
+            })),
             ...featureZones('src'),
             ...featureZones('server'),
           ],

@@ -1,0 +1,3 @@
+import { ImportsScreen } from '../components/imports-screen';
+
+export const Component = ImportsScreen;
