@@ -5,7 +5,7 @@ import { pino } from 'pino';
 import { createApp } from './app';
 import { DatabaseInUse, openDatabase } from './db/client';
 import { prepareDataDir } from './db/data-dir';
-import { DEMO_PASSWORD, DEMO_USERS, seedDemo, seedReference } from './seed';
+import { DEMO_PASSWORD, DEMO_USERS, ensureResults, seedDemo, seedReference } from './seed';
 import { loadConfig } from './env';
 import { createMailer } from './mail/mailer';
 
@@ -28,6 +28,7 @@ async function main() {
   // Exclusive: a second server on the same DATA_DIR stops here with a plain message (DatabaseInUse).
   const database = openDatabase(path.join(config.dataDir, 'lumenbook.db'));
   const seeded = config.demoData ? seedDemo(database) : (seedReference(database), false);
+  if (ensureResults(database)) logger.info('coupon results computed from the readings');
   const mailer = await createMailer(config, database.db, logger);
   const lumenbook = createApp({
     config,
