@@ -111,7 +111,7 @@ describe('coupon routes: who may do what', () => {
       const w = await weigh(own, 'dry', 20, t(i), a);
       const c = await a.post(`/api/coupons/${own}/checks`).send({ kind: 'moisture', stage: 'dry', measuredAt: t(i), moisturePct: 3 });
       const created = await a.post('/api/coupons').send({ tag: `ROLE-${role}`, speciesId: mapleId, role: 'control' });
-      const patched = await a.patch(`/api/coupons/${own}`).send({ notes: `by ${role}` });
+      const patched = await a.patch(`/api/coupons/${own}`).send({ notes: `by ${role}`, version: 1 });
       const batch = await a.post('/api/coupons/measurements').send({ entries: [{ couponId: own, weighings: [{ stage: 'drying-check', massG: 21, measuredAt: t(i) }] }] });
       const photo = await a.post(`/api/coupons/${own}/photos`).attach('file', tinyPng(), 'tiny.png');
       const answers = [w, c, created, patched, batch, photo];
@@ -178,7 +178,7 @@ describe('coupons', () => {
 
   it('records a change to a coupon in the audit log', async () => {
     const id = await makeCoupon();
-    const res = await as.technician.patch(`/api/coupons/${id}`).send({ sourceBoard: 'board 2', reason: 'label read wrong' });
+    const res = await as.technician.patch(`/api/coupons/${id}`).send({ sourceBoard: 'board 2', reason: 'label read wrong', version: 1 });
     expect(res.status).toBe(200);
     const entry = h.database.db.select().from(auditLog).where(and(eq(auditLog.entity, 'coupon'), eq(auditLog.entityId, String(id)), eq(auditLog.action, 'update'))).get();
     expect(entry).toMatchObject({ reason: 'label read wrong' });
