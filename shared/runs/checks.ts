@@ -1,6 +1,6 @@
 import type { LotStatus } from '../constants/records';
 import { DomainError, inCureWindow, reachedConstantMass } from '../domain/index';
-import type { UnitSystem } from '../units';
+import type { UnitChoice } from '../units';
 import { durationSeconds, formatDuration, formatTemperature, formatTemperatureRange } from './format';
 import { soakRequirement } from './timers';
 import { stageMinutes, type StageTimes } from './stages';
@@ -47,7 +47,7 @@ export interface RunCheckInput {
   dryingRule: { minIntervalHours: number; maxChangePct: number };
   now: Date;
   /** The reader's units for temperatures in the reasons (stored values stay °C). Metric when omitted. */
-  units?: UnitSystem;
+  units?: UnitChoice;
 }
 
 const DAY = 86_400_000;
@@ -177,6 +177,15 @@ function lotShelfLife(input: RunCheckInput): RuleCheck {
   const at = usedAt ? Date.parse(usedAt) : input.now.getTime();
   const ageDays = Math.floor((at - Date.parse(input.lot.activatedAt)) / DAY);
   const when = usedAt ? 'when the vacuum started' : 'today';
+  if (ageDays < 0) {
+    // Resin cannot go on the wood before it is activated: one of the two dates is wrong.
+    const day = (ms: number) => new Date(ms).toISOString().slice(0, 10);
+    return {
+      rule,
+      status: 'fail',
+      reason: `Lot ${input.lot.code} is recorded as activated on ${day(Date.parse(input.lot.activatedAt))}, after ${usedAt ? `the vacuum started (${day(at)})` : `today (${day(at)})`}; a run cannot use resin before it is activated, so the lot's activation date or the run's times are wrong.`,
+    };
+  }
   if (ageDays > shelf) {
     return { rule, status: 'fail', reason: `Lot ${input.lot.code} was ${ageDays} days old ${when}, past its ${shelf}-day shelf life.` };
   }

@@ -75,7 +75,7 @@ const dimensionCheckSchema = z
     lengthMm: lengthSchema.optional(),
     widthMm: lengthSchema.optional(),
     thicknessMm: lengthSchema.optional(),
-    /** Volume by immersion, when callipers cannot measure the piece. */
+    /** Volume by immersion, when calipers cannot measure the piece. */
     volumeCm3: volumeSchema.optional(),
     method: methodSchema.optional(),
   })
@@ -225,8 +225,11 @@ export const couponMetricsSchema = z.object({
 });
 
 export const antiSwellSchema = z.object({
+  /** The ASE on the volume basis, the water-repellent effectiveness (WRE) on the mass basis; see measure. */
   asePct: z.number(),
   basis: z.enum(SWELLING_BASES),
+  measure: z.enum(['ase', 'wre']),
+  name: z.string(),
   controlSwellingPct: z.number(),
   controlCount: z.number().int(),
 });
