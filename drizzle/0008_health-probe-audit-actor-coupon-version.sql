@@ -1,3 +1,8 @@
+CREATE TABLE `health_probe` (
+	`id` integer PRIMARY KEY NOT NULL,
+	`checked_at` text NOT NULL
+);
+--> statement-breakpoint
 ALTER TABLE `audit_log` ADD `actor_name` text;--> statement-breakpoint
 ALTER TABLE `audit_log` ADD `actor_email` text;--> statement-breakpoint
 ALTER TABLE `coupons` ADD `version` integer DEFAULT 1 NOT NULL;--> statement-breakpoint
