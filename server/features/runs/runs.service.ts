@@ -6,7 +6,7 @@ import { refreshResults, refreshResultsOfRun } from '../../measurements/results'
 import { coupons } from '../../db/schema/coupons';
 import { runReadings, runStages, runs } from '../../db/schema/runs';
 import { Conflict, NotFound, Unprocessable, ValidationFailed } from '../../http/errors';
-import { DomainError, absolutePressureFromGauge, percentVacuum, standardPressureAtAltitude } from '../../../shared/domain/index';
+import { DomainError, WEATHER_ALLOWANCE, absolutePressureFromGauge, percentVacuum, standardPressureAtAltitude } from '../../../shared/domain/index';
 import { convertPressure, type UnitChoice } from '../../../shared/units';
 import type { User } from '../../../shared/schemas/auth';
 import type {
@@ -59,8 +59,8 @@ export function convertReading(r: Pick<GaugeReadingInput, 'gaugeValue' | 'gaugeU
     if (e.code === 'vacuum-exceeds-ambient') {
       const ambient = standardPressureAtAltitude(altitudeM);
       const message =
-        `${r.gaugeValue} ${r.gaugeUnit} (${gaugeKpa.toFixed(2)} kPa) is more vacuum than the ${ambient.toFixed(2)} kPa ambient pressure ` +
-        `at ${altitudeM} m; check the gauge unit and the run's altitude`;
+        `${r.gaugeValue} ${r.gaugeUnit} (${gaugeKpa.toFixed(2)} kPa) is more vacuum than the ${ambient.toFixed(2)} kPa standard ambient pressure ` +
+        `at ${Math.round(altitudeM)} m (${Math.round(altitudeM / 0.3048)} ft) by more than the ${WEATHER_ALLOWANCE * 100} % the weather can add; check the gauge unit and the run's altitude`;
       throw new Unprocessable(`${field}: ${message}`, { [field]: [message] });
     }
     throw new Unprocessable(`${field}: ${e.message}`, { [field]: [e.message] });
