@@ -8,6 +8,7 @@ import helmet from 'helmet';
 import { pinoHttp } from 'pino-http';
 import { CSRF_HEADER, CSRF_VALUE } from '../shared/constants/errors';
 import type { AppDeps, FeatureDeps } from './deps';
+import { probeDatabase } from './db/health';
 import { Forbidden } from './http/errors';
 import { apiNotFound, errorHandler } from './http/error-handler';
 import { secureRouter, type DeclaredRoute, type SecureRouter } from './http/routes';
@@ -133,7 +134,13 @@ export function createApp(deps: AppDeps) {
   });
 
   const health = secureRouter();
-  health.get('/health', { access: 'public' }, () => ({ ok: true }));
+  // Health is a write, not just an answer: a read-only or full database must not look healthy.
+  health.get('/health', { access: 'public' }, ({ res }) => {
+    const database = probeDatabase(deps.database, feature.now());
+    if (database === 'writable') return { ok: true, database };
+    res.status(503).json({ ok: false, database });
+    return undefined;
+  });
 
   const mounted: SecureRouter[] = [
     health,

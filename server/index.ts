@@ -3,7 +3,8 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { pino } from 'pino';
 import { createApp } from './app';
-import { openDatabase } from './db/client';
+import { DatabaseInUse, openDatabase } from './db/client';
+import { prepareDataDir } from './db/data-dir';
 import { DEMO_PASSWORD, DEMO_USERS, ensureResults, seedDemo, seedReference } from './seed';
 import { loadConfig } from './env';
 import { createMailer } from './mail/mailer';
@@ -21,9 +22,10 @@ function sessionSecret(dataDir: string, fromEnv: string | undefined): string {
 async function main() {
   const config = loadConfig();
   const logger = pino({ level: config.logLevel });
-  fs.mkdirSync(config.dataDir, { recursive: true });
+  prepareDataDir(config.dataDir);
   config.sessionSecret = sessionSecret(config.dataDir, config.sessionSecret);
 
+  // Exclusive: a second server on the same DATA_DIR stops here with a plain message (DatabaseInUse).
   const database = openDatabase(path.join(config.dataDir, 'lumenbook.db'));
   const seeded = config.demoData ? seedDemo(database) : (seedReference(database), false);
   if (ensureResults(database)) logger.info('coupon results computed from the readings');
@@ -73,6 +75,8 @@ async function main() {
 }
 
 main().catch((err: unknown) => {
-  console.error(err);
+  // Problems of the setup (data folder, a second server, a full disk) are said in one plain sentence.
+  const plain = err instanceof DatabaseInUse || (err instanceof Error && /^(DATA_DIR|The database could not|Invalid environment)/.test(err.message));
+  console.error(plain ? `Lumenbook cannot start: ${(err as Error).message}` : err);
   process.exit(1);
 });

@@ -1,6 +1,7 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { STATUS_OF, type ErrorCode } from '../../shared/constants/errors';
 import type { ErrorEnvelope } from '../../shared/schemas/common';
+import { storageProblem } from '../db/storage-errors';
 import { AppError } from './errors';
 import type { AuthedRequest } from './types';
 
@@ -40,6 +41,19 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   const code = (err as { code?: string }).code;
   if (code === 'LIMIT_FILE_SIZE') {
     res.status(413).json(envelope('payload_too_large', 'The uploaded file is too large', requestId, { file: ['File too large'] }));
+    return;
+  }
+  // A full or read-only disk is not a bug: say so plainly, with the status that names it (507, 503).
+  const storage = storageProblem(err);
+  if (storage) {
+    req.log?.error({ err }, `storage ${storage}`);
+    const message =
+      storage === 'full'
+        ? 'The disk holding the shop\'s data is full, so nothing was saved. Free some space (or ask whoever runs the server) and try again.'
+        : 'The shop\'s data folder cannot be written (read-only disk or permissions), so nothing was saved. Ask whoever runs the server.';
+    res.status(STATUS_OF[storage === 'full' ? 'storage_full' : 'storage_unavailable']).json(
+      envelope(storage === 'full' ? 'storage_full' : 'storage_unavailable', message, requestId),
+    );
     return;
   }
   req.log?.error({ err }, 'unhandled error');

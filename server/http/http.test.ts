@@ -80,7 +80,7 @@ describe('bad input gets the error envelope with the field named', () => {
   it('GET /api/health', async () => {
     const res = await request(h.lumenbook.app).get('/api/health');
     expect(res.status).toBe(200);
-    expect(res.body).toEqual({ ok: true });
+    expect(res.body).toEqual({ ok: true, database: 'writable' });
     expect(res.headers['x-request-id']).toBeTruthy();
   });
 

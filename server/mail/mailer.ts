@@ -1,3 +1,4 @@
+import crypto from 'node:crypto';
 import { simpleParser } from 'mailparser';
 import nodemailer, { type Transporter } from 'nodemailer';
 import { SMTPServer } from 'smtp-server';
@@ -5,6 +6,8 @@ import type { Logger } from 'pino';
 import type { Config } from '../env';
 import type { Db } from '../db/client';
 import { outbox } from '../db/schema/admin';
+
+const FAKE_SMTP_USER = 'lumenbook';
 
 export interface Mailer {
   send(message: { to: string; subject: string; text: string }): Promise<void>;
@@ -38,10 +41,22 @@ export async function createMailer(config: Pick<Config, 'smtp' | 'mailFrom'>, db
       auth: config.smtp.user ? { user: config.smtp.user, pass: config.smtp.pass ?? '' } : undefined,
     });
   } else {
+    // Only the app's own mail goes into the outbox: any local process can reach 127.0.0.1, so the
+    // server demands AUTH with a secret made at start and known only to this process's transport.
+    const secret = crypto.randomBytes(24).toString('base64url');
     fake = new SMTPServer({
-      authOptional: true,
-      disabledCommands: ['STARTTLS', 'AUTH'],
+      authOptional: false,
+      authMethods: ['PLAIN', 'LOGIN'],
+      // Loopback only, and the secret lives one process long: TLS would add nothing here.
+      allowInsecureAuth: true,
+      disabledCommands: ['STARTTLS'],
       logger: false,
+      onAuth(auth, _session, callback) {
+        const given = Buffer.from(`${auth.username ?? ''}:${auth.password ?? ''}`);
+        const expected = Buffer.from(`${FAKE_SMTP_USER}:${secret}`);
+        if (given.length === expected.length && crypto.timingSafeEqual(given, expected)) return callback(null, { user: FAKE_SMTP_USER });
+        callback(new Error('Authentication refused: this server takes mail from Lumenbook only'));
+      },
       onData(stream, _session, callback) {
         simpleParser(stream)
           .then((parsed) => {
@@ -68,7 +83,7 @@ export async function createMailer(config: Pick<Config, 'smtp' | 'mailFrom'>, db
         resolve(typeof addr === 'object' && addr ? addr.port : 0);
       });
     });
-    transport = nodemailer.createTransport({ host: '127.0.0.1', port: fakeSmtpPort, secure: false, ignoreTLS: true });
+    transport = nodemailer.createTransport({ host: '127.0.0.1', port: fakeSmtpPort, secure: false, ignoreTLS: true, auth: { user: FAKE_SMTP_USER, pass: secret } });
     logger.info({ port: fakeSmtpPort }, 'fake SMTP server files outgoing mail in the outbox');
   }
 

@@ -113,7 +113,9 @@ async function apply(o: Op, ids: { coupons: number[]; runs: number[]; lots: numb
       res = await tech.patch(`/api/runs/${pick(ids.runs, o.r)!}`).send({ resinLotId: pick(ids.lots, o.l)! });
       break;
     case 'coupon':
-      res = await tech.patch(`/api/coupons/${coupon}`).send(o.control ? { role: 'control' } : { speciesId: pick(ids.species, o.s)! });
+      // Edits name the version they were made on.
+      const version = (await tech.get(`/api/coupons/${coupon}`)).body.coupon.version as number;
+      res = await tech.patch(`/api/coupons/${coupon}`).send(o.control ? { role: 'control', version } : { speciesId: pick(ids.species, o.s)!, version });
       break;
   }
   // Refusals (409, 422) are part of the game; a 500 or a malformed request is a bug.

@@ -230,3 +230,43 @@ export function resultsIncomplete(tx: Db): boolean {
   const row = tx.get<{ missing: number }>(sql`select exists (select 1 from coupons c where not exists (select 1 from coupon_results r where r.coupon_id = c.id)) as missing`);
   return row.missing === 1;
 }
+
+/** Coupons whose resin is this one (through their run's lot, else their trial condition), as KEYS_SQL resolves it. */
+export function couponIdsOfResin(tx: Db, resinId: number): number[] {
+  const rows = client(tx)
+    .prepare(
+      `select c.id from coupons c
+       left join runs r on r.id = c.run_id
+       left join resin_lots rl on rl.id = r.resin_lot_id
+       left join trial_conditions tc on tc.id = c.condition_id
+       where coalesce(rl.resin_id, tc.resin_id) = ?`,
+    )
+    .all(resinId) as { id: number }[];
+  return rows.map((r) => r.id);
+}
+
+/** The metrics a change of a coupon's inputs (not of its readings) can move, compared before and after. */
+const MOVABLE = ['wpgPct', 'voidFillPct', 'maxWpgPct', 'resinLoadingKgM3', 'cureLossPct', 'bulkingPct', 'swellingPct', 'dryDensityKgM3', 'drySg', 'mcPct'] as const;
+export type MovedResult = { couponId: number; before: Record<string, unknown>; after: Record<string, unknown> };
+
+/**
+ * Runs `change` (which alters an input of the results, e.g. a resin's cured density) and recomputes
+ * the results of these coupons, answering the coupons whose stored metrics moved, with the metrics that
+ * moved before and after. Inside the caller's transaction, so the caller can still refuse (throw).
+ */
+export function refreshResultsAround(tx: Db, couponIds: readonly number[], change: () => void): MovedResult[] {
+  const ids = JSON.stringify([...new Set(couponIds)]);
+  const cols = MOVABLE.map((k) => `${getTableColumns(couponResults)[k].name} as ${k}`).join(', ');
+  const read = () => new Map((client(tx).prepare(`select coupon_id as couponId, ${cols} from coupon_results where coupon_id in ${IDS}`).all(ids) as ({ couponId: number } & Record<string, unknown>)[]).map((r) => [r.couponId, r]));
+  const before = read();
+  change();
+  refreshResults(tx, couponIds);
+  const after = read();
+  const moved: MovedResult[] = [];
+  for (const [couponId, a] of after) {
+    const b = before.get(couponId);
+    const keys = MOVABLE.filter((k) => (b?.[k] ?? null) !== (a[k] ?? null));
+    if (keys.length) moved.push({ couponId, before: Object.fromEntries(keys.map((k) => [k, b?.[k] ?? null])), after: Object.fromEntries(keys.map((k) => [k, a[k] ?? null])) });
+  }
+  return moved;
+}

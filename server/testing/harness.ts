@@ -41,10 +41,12 @@ export interface HarnessOptions {
   logLines?: string[];
   /** Extra environment (e.g. TRUST_PROXY, APP_URL) over the test defaults. */
   env?: Record<string, string>;
+  /** Use this DATA_DIR (e.g. one a backup was restored into) instead of a fresh temp folder. */
+  dataDir?: string;
 }
 
 export async function startHarness(options: HarnessOptions = {}): Promise<Harness> {
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'lumenbook-test-'));
+  const dir = options.dataDir ?? fs.mkdtempSync(path.join(os.tmpdir(), 'lumenbook-test-'));
   const config = loadConfig({
     NODE_ENV: 'test',
     DATA_DIR: dir,

@@ -9,6 +9,8 @@ export const ERROR_CODES = [
   'unprocessable', // 422
   'rate_limited', // 429
   'internal', // 500
+  'storage_unavailable', // 503: the data folder or database cannot be written
+  'storage_full', // 507: the disk holding the data is full
 ] as const;
 export type ErrorCode = (typeof ERROR_CODES)[number];
 
@@ -22,6 +24,8 @@ export const STATUS_OF: Record<ErrorCode, number> = {
   unprocessable: 422,
   rate_limited: 429,
   internal: 500,
+  storage_unavailable: 503,
+  storage_full: 507,
 };
 
 /** The header every cookie-authenticated write must carry (CSRF defence together with SameSite cookies). */

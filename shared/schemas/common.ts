@@ -35,8 +35,24 @@ export function listResponseSchema<T extends z.ZodType>(item: T) {
 export const idParamsSchema = z.strictObject({ id: z.coerce.number().int().positive() });
 
 export const emailSchema = z.email('Enter a valid e-mail address').max(254).transform((s) => s.toLowerCase());
+/** UTF-8 length of a string, counted by code point (no TextEncoder: shared code uses no platform globals). */
+export function utf8Bytes(s: string): number {
+  let n = 0;
+  for (const ch of s) {
+    const cp = ch.codePointAt(0) ?? 0;
+    n += cp < 0x80 ? 1 : cp < 0x800 ? 2 : cp < 0x10000 ? 3 : 4;
+  }
+  return n;
+}
+
+/** bcrypt uses only the first 72 bytes of a password; a longer one would be silently cut, so it is refused. */
+export const PASSWORD_MAX_BYTES = 72;
+
 export const passwordSchema = z
   .string()
   .min(12, 'Use at least 12 characters')
-  .max(200, 'Use at most 200 characters');
+  .max(200, 'Use at most 200 characters')
+  .refine((s) => utf8Bytes(s) <= PASSWORD_MAX_BYTES, {
+    message: `Use at most ${PASSWORD_MAX_BYTES} bytes (72 plain letters; accented letters and symbols count two to four)`,
+  });
 export const nameSchema = z.string().trim().min(1, 'Enter a name').max(120);

@@ -37,8 +37,10 @@ export const updateCouponSchema = z
     notes: notesSchema.nullable().optional(),
     /** Optional note for the audit log. */
     reason: reasonSchema.optional(),
+    /** The coupon's `version` as the editor saw it; a stale one is refused (409) instead of overwriting. */
+    version: z.number().int().min(1),
   })
-  .refine((v) => Object.entries(v).some(([k, x]) => k !== 'reason' && x !== undefined), { message: 'Change at least one field' });
+  .refine((v) => Object.entries(v).some(([k, x]) => k !== 'reason' && k !== 'version' && x !== undefined), { message: 'Change at least one field' });
 export type UpdateCouponInput = z.infer<typeof updateCouponSchema>;
 
 export const couponListQuerySchema = listQuerySchema.extend({
@@ -238,6 +240,8 @@ export type MeasurementWarning = z.infer<typeof measurementWarningSchema>;
 export const couponSchema = z.object({
   id: z.number().int(),
   tag: z.string(),
+  /** Send it back with an edit (PATCH); it changes with every edit. */
+  version: z.number().int(),
   trialId: z.number().int().nullable(),
   trialCode: z.string().nullable(),
   conditionId: z.number().int().nullable(),
@@ -291,7 +295,9 @@ export const auditEntrySchema = z.object({
   after: z.unknown(),
   reason: z.string().nullable(),
   actorId: z.number().int().nullable(),
+  /** The actor's name as it was when the entry was written, not as it is now; with the e-mail, which names the account. */
   actorName: z.string().nullable(),
+  actorEmail: z.string().nullable(),
   createdAt: z.string(),
 });
 

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { realIsoDate } from './dates';
 import { LOT_STATUSES, SPECIES_ORIGINS } from '../constants/records';
 import { DomainError } from '../domain/errors';
 import { basicSpecificGravity, specificGravityAtMoisture } from '../domain/moisture';
@@ -210,9 +211,13 @@ export const createResinSchema = z.strictObject(resinFields).superRefine(refineW
 export type CreateResinInput = z.infer<typeof createResinSchema>;
 
 export const updateResinSchema = z
-  .strictObject(resinFields)
+  .strictObject({
+    ...resinFields,
+    /** Why: required when the change moves measured coupons' results (a new cured density moves their void fill). */
+    reason: z.string().trim().min(3, 'Say why (at least 3 characters)').max(500).optional(),
+  })
   .partial()
-  .refine((v) => Object.keys(v).length > 0, { message: 'Change at least one field' });
+  .refine((v) => Object.keys(v).some((k) => k !== 'reason'), { message: 'Change at least one field' });
 export type UpdateResinInput = z.infer<typeof updateResinSchema>;
 
 export const resinSchema = z.object({
@@ -242,9 +247,9 @@ export type ResinListQuery = z.infer<typeof resinListQuerySchema>;
 
 // ---------------------------------------------------------------- resin lots
 
-const isoDateOrTime = z.union([z.iso.date(), z.iso.datetime({ offset: true })], {
-  error: 'Give the date as YYYY-MM-DD or an ISO timestamp',
-});
+const isoDateOrTime = z
+  .union([z.iso.date(), z.iso.datetime({ offset: true })], { error: 'Give the date as YYYY-MM-DD or an ISO timestamp' })
+  .pipe(realIsoDate('Not a real date'));
 
 const lotFields = {
   code: z

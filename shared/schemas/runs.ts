@@ -4,6 +4,7 @@ import { CHECK_STATUSES, RUN_RULES } from '../runs/checks';
 import { RUN_STATUSES } from '../runs/stages';
 import { DUE_KINDS } from '../runs/timers';
 import { listQuerySchema, listResponseSchema } from './common';
+import { realIsoDate } from './dates';
 
 const ISO_WITH_ZONE = /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2}(\.\d{1,9})?)?(Z|[+-]\d{2}:?\d{2})$/;
 
@@ -15,7 +16,7 @@ export const timestampSchema = z
   .string()
   .max(40)
   .regex(ISO_WITH_ZONE, 'Give a date and time with its zone, e.g. 2026-03-01T14:30:00Z')
-  .refine((s) => Number.isFinite(Date.parse(s)), 'Not a real date and time')
+  .pipe(realIsoDate('Not a real date and time'))
   .transform((s) => new Date(s).toISOString());
 
 const idSchema = z.number().int().positive();
@@ -55,8 +56,10 @@ export const updateRunSchema = z
     notes: notesSchema.nullable().optional(),
     addCouponIds: couponIdsSchema.optional(),
     removeCouponIds: couponIdsSchema.optional(),
+    /** Why: required when the change moves recorded results (a new altitude moves the absolute pressures). */
+    reason: z.string().trim().min(3, 'Say why (at least 3 characters)').max(500).optional(),
   })
-  .refine((v) => Object.values(v).some((x) => x !== undefined), { message: 'Change at least one field' });
+  .refine((v) => Object.entries(v).some(([k, x]) => k !== 'reason' && x !== undefined), { message: 'Change at least one field' });
 export type UpdateRunInput = z.infer<typeof updateRunSchema>;
 
 export const runListQuerySchema = listQuerySchema.extend({

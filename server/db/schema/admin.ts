@@ -8,6 +8,12 @@ export const auditLog = sqliteTable(
   {
     id: id(),
     actorId: integer('actor_id').references(() => users.id),
+    /**
+     * The actor's name and e-mail as they were when the entry was written (a trigger fills them from
+     * users on every insert, whatever code path inserts): a later rename must not rewrite the past.
+     */
+    actorName: text('actor_name'),
+    actorEmail: text('actor_email'),
     action: text('action').notNull(),
     entity: text('entity').notNull(),
     entityId: text('entity_id'),
@@ -42,4 +48,10 @@ export const settings = sqliteTable('settings', {
   value: text('value', { mode: 'json' }).notNull(),
   createdAt: createdAt(),
   createdBy: createdBy(),
+});
+
+/** One row the health check rewrites, to prove the database can still be written, not only read. */
+export const healthProbe = sqliteTable('health_probe', {
+  id: integer('id').primaryKey(),
+  checkedAt: text('checked_at').notNull(),
 });

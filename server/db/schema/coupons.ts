@@ -22,6 +22,8 @@ export const coupons = sqliteTable(
     sourceBoard: text('source_board'),
     runId: integer('run_id').references(() => runs.id),
     notes: text('notes'),
+    /** Bumped by every edit of the coupon's own fields; an edit names the version it was made on (409 when stale). */
+    version: integer('version').notNull().default(1),
     createdAt: createdAt(),
     createdBy: createdBy().references(() => users.id),
   },

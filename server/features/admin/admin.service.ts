@@ -1,8 +1,8 @@
-import fs from 'node:fs';
 import path from 'node:path';
 import { count, desc, eq } from 'drizzle-orm';
 import type { FeatureDeps } from '../../deps';
 import { writeAudit } from '../../db/audit';
+import { createBackup } from '../../db/backup';
 import { outbox, settings } from '../../db/schema/admin';
 import type { ListQuery } from '../../../shared/schemas/common';
 import { readShopSettings } from '../../db/shop-settings';
@@ -35,15 +35,11 @@ export function createAdminService(deps: FeatureDeps) {
     };
   }
 
-  /** An online backup through SQLite's backup API: consistent even while the app keeps writing. */
+  /** One archive of the database (SQLite's online backup API, consistent while the app writes) and the photos. */
   async function backup(actor: User): Promise<{ file: string; bytes: number }> {
-    const dir = path.join(deps.config.dataDir, 'backups');
-    fs.mkdirSync(dir, { recursive: true });
-    const name = `lumenbook-${deps.now().toISOString().replace(/[:.]/g, '-')}.db`;
-    const file = path.join(dir, name);
-    await sqlite.backup(file);
-    writeAudit(db, { actorId: actor.id, action: 'backup', entity: 'database', entityId: name });
-    return { file: path.relative(deps.config.dataDir, file), bytes: fs.statSync(file).size };
+    const made = await createBackup(sqlite, deps.config.dataDir, deps.now());
+    writeAudit(db, { actorId: actor.id, action: 'backup', entity: 'database', entityId: path.basename(made.file), after: { photos: made.photos } });
+    return { file: made.file, bytes: made.bytes };
   }
 
   function getSettings(): ShopSettings {

@@ -1,7 +1,11 @@
 import net from 'node:net';
 import bcrypt from 'bcryptjs';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
-import { startHarness, type Harness } from '../../testing/harness';
+import nodemailer from 'nodemailer';
+import { eq } from 'drizzle-orm';
+import { startHarness, tokenFromMail, type Harness } from '../../testing/harness';
+import { authTokens } from '../../db/schema/auth';
+import { passwordSchema } from '../../../shared/schemas/common';
 
 let h: Harness;
 beforeEach(async () => {
@@ -112,5 +116,50 @@ describe('an https APP_URL reached over plain http', () => {
     const proxied = await h.agent().set('X-Forwarded-Proto', 'https').post('/api/auth/login').send({ email: 'tech@demo.test', password: 'lumenbook-demo' });
     expect(proxied.status).toBe(200);
     expect(String(proxied.headers['set-cookie'])).toMatch(/lumenbook\.sid=.*Secure/);
+  });
+});
+
+describe('invitations, passwords and the local mail server', () => {
+  it('a disabled user cannot accept an invitation, and trying does not use up the link', async () => {
+    const admin = await h.signIn('admin@demo.test');
+    const inv = await admin.post('/api/users/invitations').send({ email: 'paused@demo.test', name: 'Paused Hand', role: 'technician' });
+    const token = tokenFromMail(h.lastMail()?.textBody);
+    expect((await admin.patch(`/api/users/${inv.body.user.id}`).send({ disabled: true })).status).toBe(200);
+    const refused = await h.agent().post('/api/auth/invitations/accept').send({ token, password: 'paused hand password', name: 'Paused Hand' });
+    expect(refused.status).toBe(401);
+    expect(refused.body.error.message).toMatch(/disabled/);
+    expect(h.database.db.select().from(authTokens).where(eq(authTokens.userId, inv.body.user.id)).get()?.usedAt).toBeNull();
+    await admin.patch(`/api/users/${inv.body.user.id}`).send({ disabled: false });
+    const accepted = await h.agent().post('/api/auth/invitations/accept').send({ token, password: 'paused hand password', name: 'Paused Hand' });
+    expect(accepted.status).toBe(200);
+  });
+
+  it('refuses a new password over 72 bytes, which bcrypt would silently cut', async () => {
+    await h.agent().post('/api/auth/password-reset').send({ email: 'tech@demo.test' });
+    await h.mailer.settled();
+    const token = tokenFromMail(h.lastMail()?.textBody);
+    const long = 'a'.repeat(72) + 'tail that bcrypt would never see';
+    const res = await h.agent().post('/api/auth/password-reset/confirm').send({ token, password: long });
+    expect(res.status).toBe(400);
+    expect(res.body.error.fieldErrors.password[0]).toMatch(/72 bytes/);
+    // 24 three-byte letters are 72 bytes: allowed; one more is not.
+    expect(passwordSchema.safeParse('€'.repeat(24)).success).toBe(true);
+    expect(passwordSchema.safeParse('€'.repeat(25)).success).toBe(false);
+    const ok = await h.agent().post('/api/auth/password-reset/confirm').send({ token, password: 'a'.repeat(72) });
+    expect(ok.status).toBe(200);
+  });
+
+  it('the local SMTP server files the app\'s own mail only', async () => {
+    const port = h.mailer.fakeSmtpPort!;
+    const stranger = nodemailer.createTransport({ host: '127.0.0.1', port, secure: false, ignoreTLS: true });
+    await expect(stranger.sendMail({ from: 'x@local.test', to: 'admin@demo.test', subject: 'Reset your Lumenbook password', text: 'token=forged-forged-forged-forged' })).rejects.toThrow();
+    const guesser = nodemailer.createTransport({ host: '127.0.0.1', port, secure: false, ignoreTLS: true, auth: { user: 'lumenbook', pass: 'guess' } });
+    await expect(guesser.sendMail({ from: 'x@local.test', to: 'admin@demo.test', subject: 'Hi', text: 'x' })).rejects.toThrow();
+    stranger.close();
+    guesser.close();
+    expect(h.lastMail()).toBeUndefined();
+    await h.agent().post('/api/auth/password-reset').send({ email: 'tech@demo.test' });
+    await h.mailer.settled();
+    expect(h.lastMail()?.toAddress).toBe('tech@demo.test');
   });
 });

@@ -74,6 +74,9 @@ export function createAuthService(deps: FeatureDeps) {
   async function acceptInvitation(token: string, password: string, name: string): Promise<User> {
     const found = findLiveToken(db, hashToken(token), 'invitation', iso());
     if (!found) throw new ValidationFailed('This invitation link is not valid any more; ask the admin for a new one', { token: ['Link expired or already used'] });
+    // A disabled account cannot take the invitation, and the link is not used up by trying: if the
+    // admin enables the account again, the same link still works.
+    if (findUserById(db, found.userId)?.disabled) throw new Unauthenticated('This account is disabled; ask the admin to enable it, then open the link again');
     const hashPw = await bcrypt.hash(password, deps.bcryptCost);
     const row = db.transaction((tx) => {
       markTokenUsed(tx, found.id, iso());

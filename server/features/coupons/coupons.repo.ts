@@ -1,4 +1,4 @@
-import { and, asc, eq, inArray, isNull, or, type SQL } from 'drizzle-orm';
+import { and, asc, eq, inArray, isNull, or, sql, type SQL } from 'drizzle-orm';
 import type { Db } from '../../db/client';
 import { auditLog } from '../../db/schema/admin';
 import { users } from '../../db/schema/auth';
@@ -146,17 +146,22 @@ export function findPhoto(db: Db, id: number): PhotoRow | undefined {
   return db.select().from(photos).where(eq(photos.id, id)).get();
 }
 
-/** Audit entries about a coupon, its readings and its photos, oldest first, with the actor's name. */
+/** Audit entries about a coupon, its readings and its photos, oldest first, with the actor's name and e-mail at the time. */
 export function auditFor(db: Db, couponId: number, weighingIds: number[], checkIds: number[], photoIds: number[]) {
   const of = (entity: string, ids: number[]) => (ids.length ? and(eq(auditLog.entity, entity), inArray(auditLog.entityId, ids.map(String))) : undefined);
   const conds = [and(eq(auditLog.entity, 'coupon'), eq(auditLog.entityId, String(couponId))), of('weighing', weighingIds), of('check', checkIds), of('photo', photoIds)].filter(
     (c): c is SQL => c !== undefined,
   );
   return db
-    .select({ entry: auditLog, actorName: users.name })
+    .select({ entry: auditLog, actorName: sql<string | null>`coalesce(${auditLog.actorName}, ${users.name})`, actorEmail: sql<string | null>`coalesce(${auditLog.actorEmail}, ${users.email})` })
     .from(auditLog)
     .leftJoin(users, eq(auditLog.actorId, users.id))
     .where(or(...conds))
     .orderBy(asc(auditLog.id))
     .all();
+}
+
+/** When the shop's first record was made: its first account (the installation). */
+export function shopFirstRecordAt(db: Db): string | null {
+  return db.select({ at: sql<string | null>`min(${users.createdAt})` }).from(users).get()?.at ?? null;
 }

@@ -25,6 +25,7 @@ import type {
 } from '../../../shared/schemas/coupons';
 import { antiSwellForList, couponMetrics, type CouponMetrics } from '../../../shared/coupons/metrics';
 import { sgPlausibility, sgWarningText } from '../../../shared/coupons/plausibility';
+import { readingDateQuestion } from '../../../shared/schemas/dates';
 import {
   allChecks,
   allWeighings,
@@ -38,6 +39,7 @@ import {
   findSpecies,
   findTrial,
   listCouponRows,
+  shopFirstRecordAt,
   photosOf,
   resinsFor,
   speciesByIds,
@@ -154,10 +156,17 @@ export function createCouponsService(deps: FeatureDeps) {
       const resin = resinMap.get(r.coupon.id);
       return { r, mineW, mineC, resin, metrics: metricsOf(r.coupon, mineW, mineC, resin) };
     });
+    const firstRecordAt = shopFirstRecordAt(tx);
+    const dateQuestions = (c: { mineW: WeighingRow[]; mineC: CheckRow[] }): MeasurementWarning[] =>
+      [...c.mineW, ...c.mineC].flatMap((r) => {
+        const q = readingDateQuestion(r.measuredAt, deps.now(), firstRecordAt);
+        return q ? [{ field: 'measuredAt', message: q }] : [];
+      });
     const ase = antiSwellForList(computed.map((c) => ({ trialId: c.r.coupon.trialId, speciesId: c.r.coupon.speciesId, role: c.r.coupon.role, metrics: c.metrics })));
     return computed.slice(0, rows.length).map((c, i) => ({
       id: c.r.coupon.id,
       tag: c.r.coupon.tag,
+      version: c.r.coupon.version,
       trialId: c.r.coupon.trialId,
       trialCode: c.r.trialCode,
       conditionId: c.r.coupon.conditionId,
@@ -175,7 +184,7 @@ export function createCouponsService(deps: FeatureDeps) {
       checks: c.mineC.map(toCheckOut),
       metrics: c.metrics,
       antiSwell: ase[i] ?? null,
-      warnings: warningsOf(c.metrics, spMap.get(c.r.coupon.speciesId)),
+      warnings: [...warningsOf(c.metrics, spMap.get(c.r.coupon.speciesId)), ...dateQuestions(c)],
     }));
   }
 
@@ -261,6 +270,11 @@ export function createCouponsService(deps: FeatureDeps) {
   function update(actor: User, id: number, input: UpdateCouponInput): CouponDetail {
     db.transaction((tx) => {
       const before = requireCoupon(tx, id).coupon;
+      // Last writer does not silently win: the edit was made on a version, and that must still be current.
+      if (input.version !== before.version) {
+        const msg = `Someone changed this coupon since you opened it (it is at version ${before.version}, your edit was made on ${input.version}); reload it and make your change again`;
+        throw new Conflict(msg, { version: [msg] });
+      }
       if (input.tag !== undefined && input.tag !== before.tag && findCouponByTag(tx, input.tag)) {
         throw new Conflict(`A coupon tagged ${input.tag} already exists`, { tag: ['This tag is taken'] });
       }
@@ -268,8 +282,17 @@ export function createCouponsService(deps: FeatureDeps) {
       if (next.role === 'control' && before.runId !== null) {
         throw new Conflict('This coupon is in a run; a control goes in no run', { role: ['Remove the coupon from its run first'] });
       }
+      if (next.role === 'control' && before.role !== 'control') {
+        // A control is never soaked or cured: with resin weighings it would show a WPG it cannot have,
+        // and be compared as untreated wood. Its readings stay as they are; the change is refused.
+        const resinStages = [...new Set(currentWeighings(tx, [id]).filter((w) => w.stage === 'soaked' || w.stage === 'cured').map((w) => w.stage))];
+        if (resinStages.length > 0) {
+          const msg = `This coupon has ${resinStages.join(' and ')} weighings, so it took up resin; a control never does. Delete those readings (with a reason) first if the coupon really was never treated`;
+          throw new Conflict(msg, { role: [msg] });
+        }
+      }
       validateLinks(tx, { ...next, trialId: before.trialId, conditionId: before.conditionId });
-      const set: Partial<typeof coupons.$inferInsert> = {};
+      const set: Partial<typeof coupons.$inferInsert> = { version: before.version + 1 };
       if (input.tag !== undefined) set.tag = input.tag;
       if (input.speciesId !== undefined) set.speciesId = input.speciesId;
       if (input.role !== undefined) set.role = input.role;
@@ -362,7 +385,7 @@ export function createCouponsService(deps: FeatureDeps) {
     );
     return {
       couponId: id,
-      audit: entries.map(({ entry, actorName }) => ({
+      audit: entries.map(({ entry, actorName, actorEmail }) => ({
         id: entry.id,
         action: entry.action,
         entity: entry.entity,
@@ -372,6 +395,7 @@ export function createCouponsService(deps: FeatureDeps) {
         reason: entry.reason,
         actorId: entry.actorId,
         actorName,
+        actorEmail,
         createdAt: entry.createdAt,
       })),
       weighings: ws.map(toWeighingOut),

@@ -3,6 +3,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import type { Response } from 'express';
 import multer from 'multer';
+import sharp from 'sharp';
 import type { FeatureDeps } from '../../deps';
 import { writeAudit } from '../../db/audit';
 import { photos } from '../../db/schema/coupons';
@@ -75,15 +76,17 @@ export function createPhotoService(deps: FeatureDeps) {
     const file = req.file;
     if (!file) throw new ValidationFailed('Attach an image in the form field "file"', { file: ['Attach a JPEG, PNG or WebP image'] });
     const type = sniffImage(file.buffer);
-    if (!type) {
+    const reencoded = type ? await reencode(file.buffer, type) : null;
+    if (!type || !reencoded) {
       const msg = `${file.originalname} is not a JPEG, PNG or WebP image (judged by its content, not its name)`;
       throw new Unprocessable(msg, { file: [msg] });
     }
-    fs.mkdirSync(dir, { recursive: true });
+    fs.mkdirSync(dir, { recursive: true, mode: 0o700 });
     const fileName = `${crypto.randomBytes(16).toString('hex')}.${type.ext}`;
     const full = path.join(dir, fileName);
-    fs.writeFileSync(full, file.buffer, { flag: 'wx' });
     try {
+      // Owner-only; on a failed write (a full disk) the partly written file is removed below.
+      await fs.promises.writeFile(full, reencoded, { flag: 'wx', mode: 0o600 });
       const row = db.transaction((tx) => {
         const r = tx
           .insert(photos)
@@ -92,10 +95,11 @@ export function createPhotoService(deps: FeatureDeps) {
             runId: 'runId' in owner ? owner.runId : null,
             kind: fields.data.kind,
             fileName,
-            originalName: file.originalname.slice(0, 200),
+            // Control characters (a NUL…) have no business in a name shown on screen.
+            originalName: file.originalname.replace(/[\u0000-\u001f\u007f]/g, '').slice(0, 200),
             mimeType: type.mime,
-            bytes: file.size,
-            sha256: crypto.createHash('sha256').update(file.buffer).digest('hex'),
+            bytes: reencoded.length,
+            sha256: crypto.createHash('sha256').update(reencoded).digest('hex'),
             caption: fields.data.caption ?? null,
             createdBy: actor.id,
           })
@@ -129,4 +133,27 @@ export function createPhotoService(deps: FeatureDeps) {
   }
 
   return { upload: upload_, serve };
+}
+
+/**
+ * Decodes the whole image with sharp (libvips) and encodes it again in the same format, so what is
+ * stored is pixels we produced: a file that only starts like an image (a PNG signature followed by
+ * HTML) does not decode and is refused, and the camera's metadata (EXIF with GPS position, maker
+ * notes, comments) is not carried over, because sharp writes none unless asked. The EXIF orientation
+ * is applied to the pixels first, so a portrait photo stays upright without it. Null when it does not
+ * decode or is not of the type its signature claims.
+ */
+async function reencode(input: Buffer, type: ImageType): Promise<Buffer | null> {
+  try {
+    const image = sharp(input, { failOn: 'error', limitInputPixels: 60_000_000 });
+    const meta = await image.metadata();
+    const format = { jpg: 'jpeg', png: 'png', webp: 'webp' }[type.ext];
+    if (meta.format !== format) return null;
+    const upright = image.rotate();
+    if (type.ext === 'jpg') return await upright.jpeg({ quality: 90 }).toBuffer();
+    if (type.ext === 'png') return await upright.png().toBuffer();
+    return await upright.webp({ quality: 90 }).toBuffer();
+  } catch {
+    return null;
+  }
 }

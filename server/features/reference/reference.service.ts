@@ -1,6 +1,7 @@
 import type { FeatureDeps } from '../../deps';
 import type { Db } from '../../db/client';
 import { writeAudit } from '../../db/audit';
+import { couponIdsOfResin, refreshResultsAround } from '../../measurements/results';
 import { Conflict, NotFound, Unprocessable, ValidationFailed } from '../../http/errors';
 import {
   lotShelfLife,
@@ -198,9 +199,31 @@ export function createReferenceService(deps: Pick<FeatureDeps, 'database' | 'now
           const other = repo.findResinByName(tx, input.name);
           if (other && other.id !== id) throw new Conflict('A resin of that name already exists', { name: ['A resin of that name already exists'] });
         }
-        const after = repo.updateResinRow(tx, id, input);
+        const { reason, ...fields } = input;
+        let after = before;
+        // A resin's densities are inputs of its coupons' results: recompute them with the change, and
+        // when measured results move, ask why and write it on every such coupon's history.
+        const moved = refreshResultsAround(tx, couponIdsOfResin(tx, id), () => {
+          after = repo.updateResinRow(tx, id, fields);
+        });
+        if (moved.length > 0 && !reason) {
+          const msg = `This change moves the results of ${moved.length} measured coupon${moved.length === 1 ? '' : 's'} (void fill, maximum uptake); say why in the reason`;
+          throw new ValidationFailed(msg, { reason: [msg] });
+        }
         const change = diff(before, after);
-        if (change) writeAudit(tx, { actorId: actor.id, action: 'update', entity: 'resin', entityId: id, ...change });
+        if (change) writeAudit(tx, { actorId: actor.id, action: 'update', entity: 'resin', entityId: id, ...change, reason: reason ?? null });
+        // What changed (the resin's fields), why (the reason) and by whom, on each coupon whose results moved.
+        for (const m of moved) {
+          writeAudit(tx, {
+            actorId: actor.id,
+            action: 'results-recomputed',
+            entity: 'coupon',
+            entityId: m.couponId,
+            before: { ...m.before, resin: { id, ...(change?.before ?? {}) } },
+            after: { ...m.after, resin: { id, name: after.name, ...(change?.after ?? {}) } },
+            reason: reason ?? null,
+          });
+        }
         return after;
       });
       return resinsOut([row])[0]!;

@@ -358,12 +358,33 @@ export function createRunsService(deps: FeatureDeps) {
       if (Object.keys(set).length) {
         const after = tx.update(runs).set(set).where(eq(runs.id, id)).returning().get();
         if (input.altitudeM !== undefined && input.altitudeM !== before.altitudeM) {
-          // The absolute pressures were worked out at the old altitude; the gauge readings themselves stand.
+          // The absolute pressures were worked out at the old altitude; the gauge readings themselves
+          // stand. Recorded results move, so the change needs a reason and goes on the run's history.
+          const moved: { id: number; before: { absoluteKpa: number; percentVacuum: number }; after: { absoluteKpa: number; percentVacuum: number } }[] = [];
           for (const r of readingsOf(tx, id)) {
-            tx.update(runReadings).set(convertReading(r, input.altitudeM, 'altitudeM')).where(eq(runReadings.id, r.id)).run();
+            const next = convertReading(r, input.altitudeM, 'altitudeM');
+            tx.update(runReadings).set(next).where(eq(runReadings.id, r.id)).run();
+            if (next.absoluteKpa !== r.absoluteKpa || next.percentVacuum !== r.percentVacuum) {
+              moved.push({ id: r.id, before: { absoluteKpa: r.absoluteKpa, percentVacuum: r.percentVacuum }, after: next });
+            }
+          }
+          if (moved.length > 0) {
+            if (!input.reason) {
+              const msg = `A new altitude moves the absolute pressure of ${moved.length} recorded gauge reading${moved.length === 1 ? '' : 's'}; say why in the reason`;
+              throw new ValidationFailed(msg, { reason: [msg] });
+            }
+            writeAudit(tx, {
+              actorId: actor.id,
+              action: 'readings-recomputed',
+              entity: 'run',
+              entityId: id,
+              before: { altitudeM: before.altitudeM, readings: moved.map((m) => ({ id: m.id, ...m.before })) },
+              after: { altitudeM: input.altitudeM, readings: moved.map((m) => ({ id: m.id, ...m.after })) },
+              reason: input.reason,
+            });
           }
         }
-        writeAudit(tx, { actorId: actor.id, action: 'update', entity: 'run', entityId: id, before, after });
+        writeAudit(tx, { actorId: actor.id, action: 'update', entity: 'run', entityId: id, before, after, reason: input.reason ?? null });
         // Another lot may mean another resin: void fill and the maximum uptake of every coupon change.
         if (input.resinLotId !== undefined && input.resinLotId !== before.resinLotId) refreshResultsOfRun(tx, id);
       }

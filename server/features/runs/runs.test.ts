@@ -310,10 +310,10 @@ describe('gauge readings at the shop altitude', () => {
   it('recomputes absolute pressures when the run’s altitude is corrected', async () => {
     const runId = await makeRun({ altitudeM: 0 });
     await stage(runId, { stage: 'vacuum', startedAt: hoursFromNow(-2), readings: [{ at: hoursFromNow(-1), gaugeValue: 20, gaugeUnit: 'inHg' }] });
-    const res = await as.technician.patch(`/api/runs/${runId}`).send({ altitudeM: 1600 });
+    const res = await as.technician.patch(`/api/runs/${runId}`).send({ altitudeM: 1600, reason: 'the run was at the shop, not at sea level' });
     expect(res.status).toBe(200);
     expect(Math.abs(res.body.run.stages[0].readings[0].absoluteKpa - (ambientKpa(1600) - 20 * KPA_PER_INHG))).toBeLessThan(0.005);
-    const bad = await as.technician.patch(`/api/runs/${runId}`).send({ altitudeM: 4500 });
+    const bad = await as.technician.patch(`/api/runs/${runId}`).send({ altitudeM: 4500, reason: 'typed wrong' });
     expect(bad.status).toBe(422); // 20 inHg is more than the whole atmosphere at 4500 m
   });
 });

@@ -69,7 +69,7 @@ function Entry({ e }: { e: AuditEntry }) {
   return (
     <li className="py-2 text-sm">
       <p>
-        <time dateTime={e.createdAt}>{when(e.createdAt)}</time> · {e.actorName ?? 'someone'} {ACTION_WORDS[e.action] ?? e.action} {e.entity === 'coupon' ? 'the coupon' : `a ${typeof stage === 'string' ? `${stage} ` : ''}${what}`}
+        <time dateTime={e.createdAt}>{when(e.createdAt)}</time> · {e.actorName ?? 'someone'}{e.actorEmail ? ` (${e.actorEmail})` : ''} {ACTION_WORDS[e.action] ?? e.action} {e.entity === 'coupon' ? 'the coupon' : `a ${typeof stage === 'string' ? `${stage} ` : ''}${what}`}
       </p>
       {(before || after) && (
         <p className="text-ink-soft">
