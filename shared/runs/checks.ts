@@ -1,5 +1,6 @@
 import type { LotStatus } from '../constants/records';
-import { DomainError, reachedConstantMass } from '../domain/index';
+import { DomainError } from '../domain/errors';
+import { reachedConstantMass } from '../domain/drying';
 import { soakMinimumEnd } from './timers';
 import { stageMinutes, type StageTimes } from './stages';
 import {

@@ -1,6 +1,7 @@
 import { useFieldArray, useForm, type UseFormRegister, type UseFormSetError } from 'react-hook-form';
 import { GAUGE_UNITS, type GaugeUnit, type RunStage } from '../../../../shared/constants/records';
-import { DomainError, absolutePressureFromGauge, percentVacuum } from '../../../../shared/domain/index';
+import { DomainError } from '../../../../shared/domain/errors';
+import { absolutePressureFromGauge, percentVacuum } from '../../../../shared/domain/vacuum';
 import { recordStageSchema, type RecordStageInput, type RunDetail, type RunStageOut } from '../../../../shared/schemas/runs';
 import { STAGE_LABELS } from '../../../../shared/runs/stages';
 import { convertPressure } from '../../../../shared/units';
