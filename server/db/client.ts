@@ -10,8 +10,9 @@ import * as referenceSchema from './schema/reference';
 import * as trialsSchema from './schema/trials';
 import * as runsSchema from './schema/runs';
 import * as couponsSchema from './schema/coupons';
+import * as resultsSchema from './schema/results';
 
-export const schema = { ...authSchema, ...adminSchema, ...referenceSchema, ...trialsSchema, ...runsSchema, ...couponsSchema };
+export const schema = { ...authSchema, ...adminSchema, ...referenceSchema, ...trialsSchema, ...runsSchema, ...couponsSchema, ...resultsSchema };
 export type Db = BetterSQLite3Database<typeof schema>;
 
 export interface Database_ {

@@ -27,6 +27,7 @@ describe('lint boundaries', { timeout: 180_000 }, () => {
     ['the client imports the server', 'src/lib/zz-probe.ts', 'server/http/errors', 'NotFound'],
     ['the server imports the client', 'server/zz-probe.ts', 'src/lib/api-client', 'api'],
     ['a server feature imports another', 'server/features/admin/zz-probe.ts', 'server/features/auth/auth.repo', 'toUser'],
+    ['the measurements module imports a feature', 'server/measurements/zz-probe.ts', 'server/features/coupons/coupons.service', 'createCouponsService'],
     ['a client feature imports another', 'src/features/admin/zz-probe.ts', 'src/features/auth/api/auth-queries', 'usersQuery'],
     ['shared client code imports a feature', 'src/lib/zz-probe.ts', 'src/features/auth/api/auth-queries', 'usersQuery'],
     ['shared client code imports the app', 'src/components/ui/zz-probe.ts', 'src/app/query-client', 'createQueryClient'],
@@ -58,5 +59,10 @@ describe('lint boundaries', { timeout: 180_000 }, () => {
   it('allowed directions pass', async () => {
     const specifier = path.relative('server/features/auth', 'shared/constants/roles');
     expect(await ruleIds('server/features/auth/zz-probe.ts', `import { ROLES } from '${specifier}';\nexport const x = ROLES;`)).toEqual([]);
+  });
+
+  it.each(['coupons', 'runs', 'trials'])('the %s feature may call the measurements module', async (f) => {
+    const specifier = path.relative(`server/features/${f}`, 'server/measurements/measurements');
+    expect(await ruleIds(`server/features/${f}/zz-probe.ts`, `import { createMeasurements } from '${specifier}';\nexport const x = createMeasurements;`)).toEqual([]);
   });
 });
