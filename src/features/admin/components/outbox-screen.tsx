@@ -2,6 +2,7 @@ import { useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
 import { outboxQuery } from '../api/admin-queries';
+import { formatDateTime } from '../../../lib/format/dates';
 
 /** Mail the app would have sent, as caught by the local fake SMTP server. */
 export function OutboxScreen() {
@@ -27,7 +28,7 @@ export function OutboxScreen() {
                 <article aria-label={m.subject}>
                   <h2 className="text-base">{m.subject}</h2>
                   <p className="text-xs text-ink-faint">
-                    To {m.to} · from {m.from} · <time dateTime={m.createdAt}>{new Date(m.createdAt).toLocaleString()}</time>
+                    To {m.to} · from {m.from} · <time dateTime={m.createdAt}>{formatDateTime(m.createdAt)}</time>
                   </p>
                   <pre className="mt-2 font-mono text-sm break-all whitespace-pre-wrap">{m.text}</pre>
                 </article>
