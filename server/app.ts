@@ -20,6 +20,8 @@ import { runsRoutes } from './features/runs/runs.router';
 import { couponsRoutes } from './features/coupons/coupons.router';
 import { referenceRoutes } from './features/reference/reference.router';
 import { trialsRoutes } from './features/trials/trials.router';
+import { findingsRoutes } from './features/findings/findings.router';
+import { wikiRoutes } from './features/wiki/wiki.router';
 
 const here = path.dirname(fileURLToPath(import.meta.url));
 const CLIENT_DIR = path.resolve(here, '../dist/client');
@@ -140,6 +142,8 @@ export function createApp(deps: AppDeps) {
     couponsRoutes(feature),
     referenceRoutes(feature),
     trialsRoutes(feature),
+    findingsRoutes(feature, deps.signingRateLimit ?? { windowMs: 15 * 60_000, limit: 5 }),
+    wikiRoutes(feature),
   ];
   const declared: DeclaredRoute[] = [];
   for (const r of mounted) {

@@ -11,8 +11,20 @@ import * as trialsSchema from './schema/trials';
 import * as runsSchema from './schema/runs';
 import * as couponsSchema from './schema/coupons';
 import * as resultsSchema from './schema/results';
+import * as findingsSchema from './schema/findings';
+import * as wikiSchema from './schema/wiki';
 
-export const schema = { ...authSchema, ...adminSchema, ...referenceSchema, ...trialsSchema, ...runsSchema, ...couponsSchema, ...resultsSchema };
+export const schema = {
+  ...authSchema,
+  ...adminSchema,
+  ...referenceSchema,
+  ...trialsSchema,
+  ...runsSchema,
+  ...couponsSchema,
+  ...resultsSchema,
+  ...findingsSchema,
+  ...wikiSchema,
+};
 export type Db = BetterSQLite3Database<typeof schema>;
 
 export interface Database_ {

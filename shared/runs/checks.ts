@@ -2,7 +2,7 @@ import type { LotStatus } from '../constants/records';
 import { DomainError } from '../domain/errors';
 import { reachedConstantMass } from '../domain/drying';
 import { inCureWindow } from '../domain/rules-of-thumb';
-import type { UnitSystem } from '../units';
+import type { UnitChoice } from '../units';
 import { durationSeconds, formatDuration, formatTemperature, formatTemperatureRange } from './format';
 import { soakRequirement } from './timers';
 import { stageMinutes, type StageTimes } from './stages';
@@ -49,7 +49,7 @@ export interface RunCheckInput {
   dryingRule: { minIntervalHours: number; maxChangePct: number };
   now: Date;
   /** The reader's units for temperatures in the reasons (stored values stay °C). Metric when omitted. */
-  units?: UnitSystem;
+  units?: UnitChoice;
 }
 
 const DAY = 86_400_000;

@@ -186,7 +186,7 @@ export function DimensionForm({ coupon, stage, title }: { coupon: CouponDetail; 
           <NumberField form={form} name="lengthMm" label="Length" quantity="length" />
           <NumberField form={form} name="widthMm" label="Width" quantity="length" />
           <NumberField form={form} name="thicknessMm" label="Thickness" quantity="length" />
-          <NumberField form={form} name="volumeCm3" label="Or volume by immersion" quantity="volume" hint="For pieces callipers cannot measure." />
+          <NumberField form={form} name="volumeCm3" label="Or volume by immersion" quantity="volume" hint="For pieces calipers cannot measure." />
           <Field label="Method (optional)" registration={form.register('method')} error={form.formState.errors.method?.message} />
           <Field label="Measured at" type="datetime-local" registration={form.register('measuredAt')} error={form.formState.errors.measuredAt?.message} />
         </div>

@@ -42,8 +42,7 @@ export function ActivateLotForm({ onDone, onCancel }: { onDone: (code: string) =
     ({ resinId, volume, ...rest }) => ({
       ...rest,
       resinId: resinId === '' ? undefined : Number(resinId),
-      // cm³ and mL are the same volume.
-      volumeMl: volume === undefined ? undefined : units.fromDisplay(volume, 'volume'),
+      volumeMl: volume === undefined ? undefined : units.fromDisplay(volume, 'liquidVolume'),
     }),
     RENAMED,
   );
@@ -90,7 +89,7 @@ export function ActivateLotForm({ onDone, onCancel }: { onDone: (code: string) =
             error={errors.activatedAt?.message}
             hint={keepsUntil ? `At ${resin?.shelfLifeDays} days' shelf life it keeps until about ${keepsUntil}, stored cool.` : undefined}
           />
-          <NumberField form={form} name="volume" label={`Volume (${units.label('volume')})`} required hint={units.system === 'metric' ? '1 cm³ is 1 mL' : undefined} />
+          <NumberField form={form} name="volume" label="Volume" quantity="liquidVolume" required />
           <Field label="Catalyst" registration={form.register('catalystNotes', textOrNull)} error={errors.catalystNotes?.message} hint="What was added, and how much" />
           <Field label="Dye" registration={form.register('dyeNotes', textOrNull)} error={errors.dyeNotes?.message} hint="Leave empty for a clear lot" />
         </div>

@@ -117,7 +117,7 @@ function ErrorText({ id, message }: { id: string; message?: string }) {
 export function StageForm({ run, stage, mode, existing, onSaved }: { run: RunDetail; stage: RunStage; mode: 'start' | 'open'; existing?: RunStageOut; onSaved: (message: string) => void }) {
   const units = useUnits();
   const record = useRecordStage(run.id);
-  const defaultUnit: GaugeUnit = units.system === 'us' ? 'inHg' : 'kPa';
+  const defaultUnit: GaugeUnit = units.unit('pressure') === 'inHg' ? 'inHg' : 'kPa';
   const temp = (c: number | null | undefined) => (c == null ? null : Number(units.toDisplay(c, 'temperature').toFixed(1)));
   const now = toLocalInput(new Date());
   // Which button was pressed decides whether the stage ends; the resolver reads it when the form is checked.
