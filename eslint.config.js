@@ -21,6 +21,25 @@ const featureZones = (side) =>
 
 const NODE_MODULES_FORBIDDEN_IN_SHARED = ['fs', 'path', 'os', 'crypto', 'http', 'https', 'child_process', 'url', 'util', 'stream', 'buffer'];
 
+/** shared/ runs in the browser and on the server: no Node or DOM-only modules in its source. */
+const SHARED_PURITY = {
+  paths: [...NODE_MODULES_FORBIDDEN_IN_SHARED, 'react', 'react-dom', 'express', 'better-sqlite3', 'drizzle-orm'].map((name) => ({
+    name,
+    message: 'shared/ imports only zod and pure libraries.',
+  })),
+  patterns: [{ group: ['node:*'], message: 'shared/ uses no Node APIs.' }],
+};
+
+/**
+ * The domain barrel re-exports the statistics code (jstat, simple-statistics, ml-matrix). The client, and
+ * the shared rules it loads, import each domain module by its own path, so sign-in and Bench stay small.
+ */
+const NO_DOMAIN_BARREL = {
+  regex: '(^|/)domain(/index)?$',
+  message: 'Import the domain module itself (shared/domain/vacuum), not the barrel, which pulls the statistics libraries into every page.',
+};
+const CLIENT_LOADED_SHARED = ['shared/runs/**/*.ts', 'shared/coupons/**/*.ts', 'shared/trials/**/*.ts', 'shared/schemas/**/*.ts', 'shared/constants/**/*.ts', 'shared/*.ts'];
+
 export default [
   { ignores: ['dist/**', 'node_modules/**', 'data/**', 'drizzle/**', 'test-results/**', 'playwright-report/**', 'coverage/**'] },
   {
@@ -77,17 +96,18 @@ export default [
     files: ['shared/**/*.ts'],
     ignores: ['shared/**/*.test.ts', 'shared/**/*.bench.ts'],
     rules: {
-      'no-restricted-imports': [
-        'error',
-        {
-          paths: [...NODE_MODULES_FORBIDDEN_IN_SHARED, 'react', 'react-dom', 'express', 'better-sqlite3', 'drizzle-orm'].map((name) => ({
-            name,
-            message: 'shared/ imports only zod and pure libraries.',
-          })),
-          patterns: [{ group: ['node:*'], message: 'shared/ uses no Node APIs.' }],
-        },
-      ],
+      'no-restricted-imports': ['error', SHARED_PURITY],
       'no-restricted-globals': ['error', 'window', 'document', 'localStorage', 'process', 'Buffer', '__dirname'],
     },
+  },
+  {
+    files: ['src/**/*.{ts,tsx}'],
+    ignores: ['**/*.test.{ts,tsx}', '**/*.bench.ts'],
+    rules: { 'no-restricted-imports': ['error', { patterns: [NO_DOMAIN_BARREL] }] },
+  },
+  {
+    files: CLIENT_LOADED_SHARED,
+    ignores: ['**/*.test.ts', '**/*.bench.ts'],
+    rules: { 'no-restricted-imports': ['error', { ...SHARED_PURITY, patterns: [...SHARED_PURITY.patterns, NO_DOMAIN_BARREL] }] },
   },
 ];

@@ -15,6 +15,11 @@ export default defineConfig({
   workers: 1,
   retries: process.env.CI ? 1 : 0,
   reporter: [['list']],
+  // `setup` signs each demo role in once (tests/e2e/auth.setup.ts); the journeys reuse those sessions.
+  projects: [
+    { name: 'setup', testMatch: /auth\.setup\.ts$/ },
+    { name: 'journeys', testMatch: /\.spec\.ts$/, dependencies: ['setup'] },
+  ],
   use: {
     baseURL: `http://localhost:${PORT}`,
     trace: 'retain-on-failure',

@@ -1,16 +1,9 @@
 import type { CheckKind, CheckStage, CouponRole, HardnessScale, WeighingStage } from '../constants/records';
-import {
-  DomainError,
-  antiSwellEfficiency,
-  cureLoss,
-  maxWeightPercentGain,
-  moistureContent,
-  resinLoading,
-  resinWeightPercentGain,
-  voidFill,
-  volumetricChange,
-  weightPercentGain,
-} from '../domain/index';
+// Module paths, not the domain barrel: the browser loads this for the entry grid, and the barrel
+// would bring the statistics libraries with it.
+import { DomainError } from '../domain/errors';
+import { moistureContent } from '../domain/moisture';
+import { antiSwellEfficiency, cureLoss, maxWeightPercentGain, resinLoading, resinWeightPercentGain, voidFill, volumetricChange, weightPercentGain } from '../domain/resin';
 
 /** A mass reading as the grid or the server holds it (current readings only: not superseded, not deleted). */
 export interface WeighingReading {

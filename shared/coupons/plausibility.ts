@@ -1,4 +1,5 @@
-import { DomainError, basicSpecificGravity, specificGravityAtMoisture } from '../domain/index';
+import { DomainError } from '../domain/errors';
+import { basicSpecificGravity, specificGravityAtMoisture } from '../domain/moisture';
 
 /**
  * Coefficient of variation of specific gravity within a species, used where the species row gives

@@ -1,5 +1,7 @@
 import type { LotStatus } from '../constants/records';
-import { DomainError, inCureWindow, reachedConstantMass } from '../domain/index';
+import { DomainError } from '../domain/errors';
+import { reachedConstantMass } from '../domain/drying';
+import { inCureWindow } from '../domain/rules-of-thumb';
 import type { UnitChoice } from '../units';
 import { durationSeconds, formatDuration, formatTemperature, formatTemperatureRange } from './format';
 import { soakRequirement } from './timers';

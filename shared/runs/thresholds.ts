@@ -3,7 +3,7 @@
  * from a handbook or a standard, and a shop may know better for its own resin.
  */
 
-import { CURE_TEMPERATURE_RANGE_C, SOAK_TO_VACUUM_TIME_RATIO } from '../domain/index';
+import { CURE_TEMPERATURE_RANGE_C, SOAK_TO_VACUUM_TIME_RATIO } from '../domain/rules-of-thumb';
 
 /** Soak at least this many times as long as the vacuum was held. */
 export const SOAK_TO_VACUUM_RATIO = SOAK_TO_VACUUM_TIME_RATIO;

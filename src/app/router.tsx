@@ -6,7 +6,6 @@ import { Loading } from '../components/ui/page';
 import { RouteError } from '../components/ui/route-error';
 import { meQuery } from '../lib/session';
 import type { ScreenModule } from '../lib/routing';
-import { AppLayout } from './layout';
 import { RequireRole } from './require-role';
 import { NotFoundScreen } from './routes/not-found';
 
@@ -57,7 +56,8 @@ export function appRoutes(qc: QueryClient): RouteObject[] {
         s(paths.resetPassword.path, () => import('../features/auth/routes/reset-password-route')),
         s(paths.acceptInvitation.path, () => import('../features/auth/routes/accept-invitation-route')),
         {
-          element: <AppLayout />,
+          // The signed-in frame is a chunk of its own too: the sign-in page does not need it.
+          lazy: async () => ({ Component: (await import('./layout')).AppLayout }),
           ErrorBoundary: RouteError,
           loader: () => qc.ensureQueryData(meQuery()),
           children: [

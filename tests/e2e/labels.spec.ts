@@ -1,27 +1,12 @@
-import AxeBuilder from '@axe-core/playwright';
-import { expect, test, type Page } from '@playwright/test';
+import { expect, seriousViolations, test } from './fixtures';
 
-const PASSWORD = 'lumenbook-demo';
+test.use({ signedInAs: 'technician' });
+
 // The demo's main trial, whose coupons the demo data creates.
 const DEMO_TRIAL = 'T26-001';
 
-async function signIn(page: Page, email: string) {
-  await page.goto('/sign-in');
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await expect(page.getByRole('navigation', { name: 'Main' })).toBeVisible();
-}
-
-async function seriousViolations(page: Page) {
-  const results = await new AxeBuilder({ page }).analyze();
-  return results.violations
-    .filter((v) => v.impact === 'serious' || v.impact === 'critical')
-    .map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).join(', ')})`);
-}
-
 test('a technician opens the demo trial and its label sheet shows one QR code per coupon', async ({ page }) => {
-  await signIn(page, 'tech@demo.test');
+  await page.goto('/');
   await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Trials', exact: true }).click();
   await page.getByRole('link', { name: DEMO_TRIAL, exact: true }).click();
   await expect(page.getByRole('heading', { level: 1 })).toContainText(DEMO_TRIAL);
@@ -52,7 +37,6 @@ test('a technician opens the demo trial and its label sheet shows one QR code pe
 });
 
 test('the trials list and the trial page have no serious or critical accessibility violations', async ({ page }) => {
-  await signIn(page, 'tech@demo.test');
   await page.goto('/trials');
   await expect(page.getByRole('link', { name: DEMO_TRIAL, exact: true })).toBeVisible();
   // Wait for the per-trial progress to arrive so the scan sees the finished table.

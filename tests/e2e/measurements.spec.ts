@@ -1,17 +1,11 @@
-import AxeBuilder from '@axe-core/playwright';
-import { expect, test, type APIRequestContext, type Page } from '@playwright/test';
+import type { APIRequestContext, Page } from '@playwright/test';
+import { expect, seriousViolations, test } from './fixtures';
 
-const PASSWORD = 'lumenbook-demo';
+test.use({ signedInAs: 'technician' });
+
 // What the browser's fetch wrapper sends with every write (CSRF defence beside the SameSite cookie).
 const WRITE_HEADERS = { 'x-lumenbook-csrf': '1' };
 
-async function signIn(page: Page, email: string) {
-  await page.goto('/sign-in');
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await expect(page.getByRole('navigation', { name: 'Main' })).toBeVisible();
-}
 
 /** Three fresh treated coupons in a new run, so the grid starts empty whatever else the demo holds. */
 async function freshRun(request: APIRequestContext): Promise<{ runId: number; tags: string[] }> {
@@ -40,7 +34,6 @@ const CURED = ['31.07', '29.62', '33.8'];
 const SIZE = ['120.2', '25.1', '20.3'];
 
 test('a technician types weights and sizes with the keyboard only, sees WPG and resin loading, saves and finds them after a reload', async ({ page }) => {
-  await signIn(page, 'tech@demo.test');
   const { runId, tags } = await freshRun(page.request);
   const [t1, t2, t3] = tags as [string, string, string];
 
@@ -99,7 +92,6 @@ test('a technician types weights and sizes with the keyboard only, sees WPG and 
 });
 
 test('a cured mass below the dry mass is refused in the row with its reason and not saved', async ({ page }) => {
-  await signIn(page, 'tech@demo.test');
   const { runId, tags } = await freshRun(page.request);
   const [t1] = tags as [string];
   await page.goto(`/runs/${runId}/coupons`);
@@ -120,13 +112,10 @@ test('a cured mass below the dry mass is refused in the row with its reason and 
 });
 
 test('the entry grid page has no serious or critical accessibility violations', async ({ page }) => {
-  await signIn(page, 'tech@demo.test');
   const { runId, tags } = await freshRun(page.request);
   await page.goto(`/runs/${runId}/coupons`);
   await cellOf(page, 'Dry mass', tags[0]!).focus();
   await page.keyboard.type('21.5');
   await expect(page.getByRole('grid')).toBeVisible();
-  const results = await new AxeBuilder({ page }).analyze();
-  const bad = results.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
-  expect(bad.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).join(', ')})`)).toEqual([]);
+  expect(await seriousViolations(page)).toEqual([]);
 });

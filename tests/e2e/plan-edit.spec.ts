@@ -1,13 +1,9 @@
-import { expect, test } from '@playwright/test';
+import { expect, test } from './fixtures';
+
+test.use({ signedInAs: 'technician' });
 
 // Planning is revised before coupons are made: the saved plan comes back into the same form.
 test('a technician reopens a saved plan, adds controls, and the trial shows the new plan', async ({ page }) => {
-  await page.goto('/sign-in');
-  await page.getByLabel('E-mail').fill('tech@demo.test');
-  await page.getByLabel('Password').fill('lumenbook-demo');
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await expect(page.getByRole('navigation', { name: 'Main' })).toBeVisible();
-
   await page.goto('/trials');
   await page.getByRole('link', { name: 'T26-002' }).click();
   await expect(page.getByRole('heading', { level: 1 })).toContainText('T26-002');

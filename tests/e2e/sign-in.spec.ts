@@ -1,15 +1,6 @@
-import AxeBuilder from '@axe-core/playwright';
-import { expect, test, type Page } from '@playwright/test';
+import { expect, seriousViolations, signIn, test } from './fixtures';
 
-const PASSWORD = 'lumenbook-demo';
 
-async function signIn(page: Page, email: string) {
-  await page.goto('/sign-in');
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await expect(page.getByRole('navigation', { name: 'Main' })).toBeVisible();
-}
 
 // What each demo role should and should not see in the main navigation.
 const ROLES = [
@@ -41,7 +32,5 @@ test('a wrong password shows the error on the form', async ({ page }) => {
 test('the sign-in page has no serious or critical accessibility violations', async ({ page }) => {
   await page.goto('/sign-in');
   await expect(page.getByRole('heading', { name: 'Sign in' })).toBeVisible();
-  const results = await new AxeBuilder({ page }).analyze();
-  const bad = results.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
-  expect(bad.map((v) => `${v.id}: ${v.help}`)).toEqual([]);
+  expect(await seriousViolations(page)).toEqual([]);
 });

@@ -1,68 +1,96 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { ESLint } from 'eslint';
-import { describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
 // The dependency rules of the house are enforced by `npm run lint`; these cases prove each rule bites.
-const eslint = new ESLint({ cwd: process.cwd() });
+// Every probe file is written first and ESLint runs ONCE over all of them: resolving the import graph is
+// the slow part (minutes on a busy 2-core machine), so it is paid once, not once per case.
 
-/** Lints a probe file written for a moment at `filePath` (the import rules resolve real files). */
-async function ruleIds(filePath: string, code: string): Promise<string[]> {
-  const file = path.resolve(filePath.replace(/zz-probe\.ts$/, `zz-lint-probe-${process.pid}-${Math.random().toString(36).slice(2)}.ts`));
-  fs.writeFileSync(file, code);
-  try {
-    const [result] = await eslint.lintFiles([file]);
-    return (result?.messages ?? []).map((m) => m.ruleId ?? m.message);
-  } finally {
-    fs.rmSync(file, { force: true });
-  }
+const tag = `${process.pid}-${Math.random().toString(36).slice(2)}`;
+
+interface Probe {
+  name: string;
+  /** Where the probe sits (the import rules resolve real files around it). */
+  file: string;
+  code: string;
+  /** The rule that must fire, or null when the probe must lint clean. */
+  rule: string | null;
 }
 
-// The first probe makes ESLint resolve the whole import graph: minutes on a busy 2-core machine.
-describe('lint boundaries', { timeout: 180_000 }, () => {
-  // [what is broken, where the probe file sits, the repo path it imports, a name exported there]
-  it.each([
-    ['shared imports the server', 'shared/domain/zz-probe.ts', 'server/app', 'createApp'],
-    ['shared imports the client', 'shared/zz-probe.ts', 'src/lib/api-client', 'api'],
-    ['the client imports the server', 'src/lib/zz-probe.ts', 'server/http/errors', 'NotFound'],
-    ['the server imports the client', 'server/zz-probe.ts', 'src/lib/api-client', 'api'],
-    ['a server feature imports another', 'server/features/admin/zz-probe.ts', 'server/features/auth/auth.repo', 'toUser'],
-    ['the measurements module imports a feature', 'server/measurements/zz-probe.ts', 'server/features/coupons/coupons.service', 'createCouponsService'],
-    ['a client feature imports another', 'src/features/admin/zz-probe.ts', 'src/features/auth/api/auth-queries', 'usersQuery'],
-    ['shared client code imports a feature', 'src/lib/zz-probe.ts', 'src/features/auth/api/auth-queries', 'usersQuery'],
-    ['shared client code imports the app', 'src/components/ui/zz-probe.ts', 'src/app/query-client', 'createQueryClient'],
-  ])('%s → import/no-restricted-paths', async (_name, file, target, name) => {
-    let specifier = path.relative(path.dirname(file), target);
-    if (!specifier.startsWith('.')) specifier = `./${specifier}`;
-    expect(await ruleIds(file, `import { ${name} } from '${specifier}';\nexport const x = ${name};`)).toContain('import/no-restricted-paths');
+/** A probe at `dir` importing `name` from the repository path `target`. */
+function importing(name: string, dir: string, target: string, exported: string, rule: string | null): Probe {
+  let specifier = path.relative(dir, target);
+  if (!specifier.startsWith('.')) specifier = `./${specifier}`;
+  return {
+    name,
+    file: `${dir}/zz-lint-probe-${tag}-${name.replace(/\W+/g, '-')}.ts`,
+    code: `import { ${exported} } from '${specifier}';\nexport const x = ${exported};\n`,
+    rule,
+  };
+}
+
+const restricted = 'import/no-restricted-paths';
+const PROBES: Probe[] = [
+  importing('shared imports the server', 'shared/domain', 'server/app', 'createApp', restricted),
+  importing('shared imports the client', 'shared', 'src/lib/api-client', 'api', restricted),
+  importing('the client imports the server', 'src/lib', 'server/http/errors', 'NotFound', restricted),
+  importing('the server imports the client', 'server', 'src/lib/api-client', 'api', restricted),
+  importing('a server feature imports another', 'server/features/admin', 'server/features/auth/auth.repo', 'toUser', restricted),
+  importing('the measurements module imports a feature', 'server/measurements', 'server/features/coupons/coupons.service', 'createCouponsService', restricted),
+  importing('a client feature imports another', 'src/features/admin', 'src/features/auth/api/auth-queries', 'usersQuery', restricted),
+  importing('shared client code imports a feature', 'src/lib', 'src/features/auth/api/auth-queries', 'usersQuery', restricted),
+  importing('shared client code imports the app', 'src/components/ui', 'src/app/query-client', 'createQueryClient', restricted),
+  importing('the client imports the domain barrel', 'src/features/runs', 'shared/domain/index', 'welchTest', 'no-restricted-imports'),
+  importing('a shared rule the client loads imports the domain barrel', 'shared/runs', 'shared/domain/index', 'welchTest', 'no-restricted-imports'),
+  {
+    name: 'shared uses no Node APIs',
+    file: `shared/zz-lint-probe-${tag}-node.ts`,
+    code: "import fs from 'node:fs';\nexport const x = fs;\n",
+    rule: 'no-restricted-imports',
+  },
+  {
+    name: 'an import cycle fails',
+    file: `server/zz-lint-probe-${tag}-a.ts`,
+    code: `import { b } from './zz-lint-probe-${tag}-b';\nexport const a = () => b;\n`,
+    rule: 'import/no-cycle',
+  },
+  importing('a server feature may import shared', 'server/features/auth', 'shared/constants/roles', 'ROLES', null),
+  importing('a client feature may read the shared queries', 'src/features/findings', 'src/lib/queries/records', 'trialListQuery', null),
+  importing('a client feature may import a domain module by its path', 'src/features/runs', 'shared/domain/vacuum', 'percentVacuum', null),
+  ...['coupons', 'runs', 'trials'].map((f) =>
+    importing(`the ${f} feature may call the measurements module`, `server/features/${f}`, 'server/measurements/measurements', 'createMeasurements', null),
+  ),
+];
+// The other half of the cycle; not itself a case.
+const HELPERS = [{ file: `server/zz-lint-probe-${tag}-b.ts`, code: `import { a } from './zz-lint-probe-${tag}-a';\nexport const b = () => a;\n` }];
+
+const found = new Map<string, string[]>();
+
+beforeAll(async () => {
+  for (const p of [...PROBES, ...HELPERS]) fs.writeFileSync(path.resolve(p.file), p.code);
+  try {
+    const results = await new ESLint({ cwd: process.cwd() }).lintFiles(PROBES.map((p) => path.resolve(p.file)));
+    for (const r of results)
+      found.set(
+        path.resolve(r.filePath),
+        r.messages.map((m) => m.ruleId ?? m.message),
+      );
+  } finally {
+    for (const p of [...PROBES, ...HELPERS]) fs.rmSync(path.resolve(p.file), { force: true });
+  }
+}, 600_000);
+
+afterAll(() => {
+  for (const p of [...PROBES, ...HELPERS]) fs.rmSync(path.resolve(p.file), { force: true });
+});
+
+describe('lint boundaries', () => {
+  it.each(PROBES.filter((p) => p.rule).map((p) => [p.name, p] as const))('%s', (_name, p) => {
+    expect(found.get(path.resolve(p.file))).toContain(p.rule);
   });
 
-  it('shared uses no Node APIs', async () => {
-    expect(await ruleIds('shared/zz-probe.ts', "import fs from 'node:fs';\nexport const x = fs;")).toContain('no-restricted-imports');
-  });
-
-  it('an import cycle fails', async () => {
-    const tag = `${process.pid}-${Math.random().toString(36).slice(2)}`;
-    const a = path.resolve(`server/zz-lint-probe-a-${tag}.ts`);
-    const b = path.resolve(`server/zz-lint-probe-b-${tag}.ts`);
-    fs.writeFileSync(a, `import { b } from './zz-lint-probe-b-${tag}';\nexport const a = () => b;\n`);
-    fs.writeFileSync(b, `import { a } from './zz-lint-probe-a-${tag}';\nexport const b = () => a;\n`);
-    try {
-      const [result] = await eslint.lintFiles([a]);
-      expect(result?.messages.map((m) => m.ruleId)).toContain('import/no-cycle');
-    } finally {
-      fs.rmSync(a, { force: true });
-      fs.rmSync(b, { force: true });
-    }
-  });
-
-  it('allowed directions pass', async () => {
-    const specifier = path.relative('server/features/auth', 'shared/constants/roles');
-    expect(await ruleIds('server/features/auth/zz-probe.ts', `import { ROLES } from '${specifier}';\nexport const x = ROLES;`)).toEqual([]);
-  });
-
-  it.each(['coupons', 'runs', 'trials'])('the %s feature may call the measurements module', async (f) => {
-    const specifier = path.relative(`server/features/${f}`, 'server/measurements/measurements');
-    expect(await ruleIds(`server/features/${f}/zz-probe.ts`, `import { createMeasurements } from '${specifier}';\nexport const x = createMeasurements;`)).toEqual([]);
+  it.each(PROBES.filter((p) => !p.rule).map((p) => [p.name, p] as const))('%s', (_name, p) => {
+    expect(found.get(path.resolve(p.file))).toEqual([]);
   });
 });

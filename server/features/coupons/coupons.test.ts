@@ -4,7 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { and, count, eq } from 'drizzle-orm';
 import { startHarness, type Harness } from '../../testing/harness';
 import { auditLog } from '../../db/schema/admin';
-import { checks, coupons, weighings } from '../../db/schema/coupons';
+import { checks, photos, weighings } from '../../db/schema/coupons';
 import { resinLots, resins, species } from '../../db/schema/reference';
 import { trials } from '../../db/schema/trials';
 
@@ -461,8 +461,11 @@ describe('photos', () => {
     const res = await as.technician.post(`/api/coupons/${id}/photos`).field('kind', 'after').field('caption', 'end grain').attach('file', png, 'my blank.png');
     expect(res.status, JSON.stringify(res.body)).toBe(201);
     expect(res.body.photo).toMatchObject({ couponId: id, kind: 'after', caption: 'end grain', mimeType: 'image/png', originalName: 'my blank.png' });
-    const stored = h.database.db.select().from(coupons).where(eq(coupons.id, id)).get();
-    expect(stored).toBeTruthy();
+    // Stored under a name of the app's making, never the uploader's, with the bytes' hash.
+    const stored = h.database.db.select().from(photos).where(eq(photos.id, res.body.photo.id)).get();
+    expect(stored?.fileName).toMatch(/^[\w-]+\.png$/);
+    expect(stored?.fileName).not.toContain('blank');
+    expect(stored?.sha256).toMatch(/^[0-9a-f]{64}$/);
     const got = await as.viewer.get(res.body.photo.url).buffer(true);
     expect(got.status).toBe(200);
     expect(got.headers['content-type']).toBe('image/png');

@@ -2,6 +2,7 @@ import { useQuery } from '@tanstack/react-query';
 import { useState, type ReactNode } from 'react';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
 import { outboxQuery } from '../api/admin-queries';
+import { formatDateTime } from '../../../lib/format/dates';
 
 // Web addresses in a message; a sentence's closing punctuation is not part of the address.
 const URL_PATTERN = /https?:\/\/[^\s<>"']+[^\s<>"'.,;:!?)\]]/g;
@@ -48,7 +49,7 @@ export function OutboxScreen() {
                 <article aria-label={m.subject}>
                   <h2 className="text-base">{m.subject}</h2>
                   <p className="text-xs text-ink-faint">
-                    To {m.to} · from {m.from} · <time dateTime={m.createdAt}>{new Date(m.createdAt).toLocaleString()}</time>
+                    To {m.to} · from {m.from} · <time dateTime={m.createdAt}>{formatDateTime(m.createdAt)}</time>
                   </p>
                   <pre className="mt-2 font-mono text-sm break-all whitespace-pre-wrap">
                     <Linked text={m.text} />

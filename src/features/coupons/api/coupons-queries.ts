@@ -1,7 +1,7 @@
 import { queryOptions } from '@tanstack/react-query';
 import { api, queryString } from '../../../lib/api-client';
 import { queryKeys } from '../../../lib/queries/keys';
-import { couponHistorySchema, couponListSchema, couponResponseSchema, type CouponOut } from '../../../../shared/schemas/coupons';
+import { couponHistorySchema, couponListSchema, couponResponseSchema } from '../../../../shared/schemas/coupons';
 
 export type GridScope = { runId: number } | { trialId: number };
 
@@ -9,18 +9,17 @@ export type GridScope = { runId: number } | { trialId: number };
 
 const GRID_PAGE = 200;
 
-/** All coupons of the scope, page by page (a run holds up to 500), ordered by tag. */
+/** All coupons of the scope (a run holds up to 500), ordered by tag: the first page says how many, the rest are fetched together. */
 export const gridCouponsQuery = (scope: GridScope) =>
   queryOptions({
     queryKey: queryKeys.coupons.grid(scope),
-    queryFn: async () => {
-      const items: CouponOut[] = [];
-      for (let page = 1; ; page++) {
-        const res = await api.get(`/coupons${queryString({ ...scope, page, pageSize: GRID_PAGE, sort: 'tag' })}`, couponListSchema);
-        items.push(...res.items);
-        if (items.length >= res.total || res.items.length === 0) break;
-      }
-      return items;
+    queryFn: async ({ signal }) => {
+      const page = (n: number) => api.get(`/coupons${queryString({ ...scope, page: n, pageSize: GRID_PAGE, sort: 'tag' })}`, couponListSchema);
+      const first = await page(1);
+      const pages = Math.ceil(first.total / GRID_PAGE);
+      const rest = await Promise.all(Array.from({ length: Math.max(0, pages - 1) }, (_, i) => page(i + 2)));
+      signal.throwIfAborted();
+      return [first, ...rest].flatMap((p) => p.items);
     },
   });
 

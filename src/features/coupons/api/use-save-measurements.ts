@@ -1,13 +1,22 @@
-import { useMutation } from '@tanstack/react-query';
+import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api } from '../../../lib/api-client';
-import { batchResponseSchema, type BatchMeasurementsInput } from '../../../../shared/schemas/coupons';
-import { useInvalidate } from '../../../lib/queries/invalidate';
+import { invalidate } from '../../../lib/queries/invalidate';
+import { queryKeys } from '../../../lib/queries/keys';
+import { batchResponseSchema, type BatchMeasurementsInput, type CouponOut } from '../../../../shared/schemas/coupons';
 
-/** The grid's save: every edited row in one request, written all together or not at all. */
+/**
+ * The grid's save: every edited row in one request, written all together or not at all. The answer carries
+ * the saved coupons, so the grids showing them are updated in place (only the changed rows) rather than
+ * refetched page by page; everything else that shows measurements is refreshed.
+ */
 export function useSaveMeasurements() {
-  const invalidate = useInvalidate();
+  const qc = useQueryClient();
   return useMutation({
     mutationFn: (input: BatchMeasurementsInput) => api.post('/coupons/measurements', input, batchResponseSchema),
-    onSuccess: () => invalidate('measurements'),
+    onSuccess: (res) => {
+      const byId = new Map(res.coupons.map((c) => [c.id, c]));
+      qc.setQueriesData<CouponOut[]>({ queryKey: [...queryKeys.coupons.all, 'grid'] }, (old) => old?.map((c) => byId.get(c.id) ?? c));
+      return invalidate(qc, ['measurements'], [[...queryKeys.coupons.all, 'grid']]);
+    },
   });
 }

@@ -1,13 +1,32 @@
-import { useId, useState, type ReactNode } from 'react';
-import { useForm, type FieldValues, type Path, type UseFormReturn } from 'react-hook-form';
-import type { z } from 'zod';
-import { CHECK_STAGES, HARDNESS_SCALES, HARDNESS_SCALE_LABELS, WEIGHING_STAGES, type CheckStage, type HardnessScale, type WeighingStage } from '../../../../shared/constants/records';
-import { checkInputSchema, correctCheckSchema, correctWeighingSchema, weighingInputSchema, type CheckOut, type CouponDetail, type WeighingOut } from '../../../../shared/schemas/coupons';
-import { FormError } from '../../../components/ui/field';
+import { useId, useMemo, useState, type ReactNode } from 'react';
+import { useForm, type DefaultValues, type FieldValues, type Resolver, type UseFormReturn } from 'react-hook-form';
+import { z } from 'zod';
+import {
+  CHECK_STAGES,
+  HARDNESS_SCALES,
+  HARDNESS_SCALE_LABELS,
+  WEIGHING_STAGES,
+  type CheckStage,
+  type HardnessScale,
+  type WeighingStage,
+} from '../../../../shared/constants/records';
+import {
+  checkInputSchema,
+  correctCheckSchema,
+  correctWeighingSchema,
+  weighingInputSchema,
+  type CheckOut,
+  type CouponDetail,
+  type WeighingOut,
+} from '../../../../shared/schemas/coupons';
+import { Field, FormError, SelectField } from '../../../components/ui/field';
+import { NumberField } from '../../../components/ui/number-field';
 import { applyServerErrors } from '../../../lib/form-errors';
+import { fromLocalInput, toLocalInput } from '../../../lib/format/dates';
+import { toBox, toSi } from '../../../lib/forms/number-input';
+import { convertingResolver } from '../../../lib/forms/resolver';
 import { useUnits } from '../../../lib/use-units';
 import { useAddCheck, useAddWeighing, useCorrectCheck, useCorrectWeighing } from '../api/use-coupon-mutations';
-import { parseTyped } from './grid-model';
 
 export const WEIGHING_STAGE_LABELS: Record<WeighingStage, string> = {
   dry: 'Dry',
@@ -18,96 +37,25 @@ export const WEIGHING_STAGE_LABELS: Record<WeighingStage, string> = {
 };
 export const CHECK_STAGE_LABELS: Record<CheckStage, string> = { dry: 'Dry', cured: 'Cured', 'wet-test': 'Water-soak test (after)' };
 
-function localNow(): string {
-  const d = new Date();
-  const pad = (n: number) => String(n).padStart(2, '0');
-  return `${d.getFullYear()}-${pad(d.getMonth() + 1)}-${pad(d.getDate())}T${pad(d.getHours())}:${pad(d.getMinutes())}`;
-}
-function isoFromLocal(v: string): string | undefined {
-  const t = new Date(v).getTime();
-  return v && Number.isFinite(t) ? new Date(t).toISOString() : undefined;
-}
-
-type Form<T extends FieldValues> = UseFormReturn<T>;
-
-/** A text input bound to a form field, labelled, with its error tied by aria-describedby. */
-function Input<T extends FieldValues>({ form, name, label, hint, type = 'text', inputMode, className }: { form: Form<T>; name: Path<T>; label: string; hint?: string; type?: string; inputMode?: 'decimal'; className?: string }) {
-  const id = useId();
-  const error = form.formState.errors[name]?.message as string | undefined;
-  const describedBy = [hint ? `${id}-hint` : '', error ? `${id}-err` : ''].filter(Boolean).join(' ') || undefined;
-  return (
-    <div className={`mb-3 ${className ?? ''}`}>
-      <label htmlFor={id} className="field-label">
-        {label}
-      </label>
-      <input id={id} type={type} inputMode={inputMode} autoComplete="off" className="field-input" aria-invalid={error ? true : undefined} aria-describedby={describedBy} {...form.register(name)} />
-      {hint && (
-        <p id={`${id}-hint`} className="mt-1 text-xs text-ink-faint">
-          {hint}
-        </p>
-      )}
-      {error && (
-        <p id={`${id}-err`} role="alert" className="mt-1 text-sm text-margin">
-          {error}
-        </p>
-      )}
-    </div>
-  );
-}
-
-function Select<T extends FieldValues>({ form, name, label, options }: { form: Form<T>; name: Path<T>; label: string; options: readonly { value: string; label: string }[] }) {
-  const id = useId();
-  const error = form.formState.errors[name]?.message as string | undefined;
-  return (
-    <div className="mb-3">
-      <label htmlFor={id} className="field-label">
-        {label}
-      </label>
-      <select id={id} className="field-input" aria-invalid={error ? true : undefined} aria-describedby={error ? `${id}-err` : undefined} {...form.register(name)}>
-        {options.map((o) => (
-          <option key={o.value} value={o.value}>
-            {o.label}
-          </option>
-        ))}
-      </select>
-      {error && (
-        <p id={`${id}-err`} role="alert" className="mt-1 text-sm text-margin">
-          {error}
-        </p>
-      )}
-    </div>
-  );
-}
+const checkStageOptions = CHECK_STAGES.map((s) => ({ value: s, label: CHECK_STAGE_LABELS[s] }));
+const optionalText = (v: string) => v.trim() || undefined;
+const instant = (v: string) => fromLocalInput(v) ?? undefined;
+const orUndefined = (v: number | null) => (v === null ? undefined : v);
 
 /**
- * The form's numbers are typed in display units; they are converted to SI, checked against the same
- * contract the server applies, and the contract's or the server's messages land on the fields.
+ * One coupon form: react-hook-form with the converting resolver (display units → SI, the shared contract,
+ * messages on the boxes), the server's field errors on the same boxes, and a short note once saved.
  */
-function useContractForm<T extends FieldValues, S extends z.ZodType>(defaults: T, schema: S, toBody: (v: T, bad: (f: Path<T>, m: string) => void) => unknown, send: (body: z.infer<S>) => Promise<unknown>) {
-  const form = useForm<T>({ defaultValues: defaults as never });
+function useCouponForm<TForm extends FieldValues, TOut>(defaults: DefaultValues<TForm>, resolver: Resolver<TForm, unknown, TOut>, fields: readonly string[]) {
+  const form = useForm<TForm, unknown, TOut>({ defaultValues: defaults, resolver });
   const [done, setDone] = useState<string | null>(null);
-  const fields = Object.keys(defaults);
-  const submit = (message: string, after?: () => void) =>
-    form.handleSubmit(async (v) => {
+  const submit = (send: (body: TOut) => Promise<unknown>, message: string, after?: (form: UseFormReturn<TForm, unknown, TOut>) => void) =>
+    form.handleSubmit(async (body) => {
       setDone(null);
-      let failed = false;
-      const body = toBody(v as T, (f, m) => {
-        failed = true;
-        form.setError(f, { message: m });
-      });
-      if (failed) return;
-      const parsed = schema.safeParse(body);
-      if (!parsed.success) {
-        for (const i of parsed.error.issues) {
-          const f = String(i.path[0] ?? '');
-          form.setError((fields.includes(f) ? f : 'root') as Path<T>, { message: i.message });
-        }
-        return;
-      }
       try {
-        await send(parsed.data);
+        await send(body);
         setDone(message);
-        after?.();
+        after?.(form);
       } catch (err) {
         applyServerErrors(err, form.setError, fields);
       }
@@ -135,40 +83,53 @@ function Frame({ title, id, children }: { title: string; id?: string; children: 
   );
 }
 
-const numberOf = (text: string, field: string, bad: (f: never, m: string) => void): number | undefined => {
-  const n = parseTyped(text);
-  if (n === null) return undefined;
-  if (Number.isNaN(n)) {
-    bad(field as never, 'Enter a number');
-    return undefined;
-  }
-  return n;
-};
+interface WeighingValues {
+  stage: WeighingStage;
+  massG: number | null;
+  measuredAt: string;
+}
 
 export function WeighingForm({ coupon, initialStage }: { coupon: CouponDetail; initialStage?: WeighingStage }) {
   const units = useUnits();
   const add = useAddWeighing(coupon.id);
   const stages = WEIGHING_STAGES.filter((s) => coupon.role === 'treated' || (s !== 'soaked' && s !== 'cured'));
-  const { form, submit, done } = useContractForm(
-    { stage: initialStage && stages.includes(initialStage) ? initialStage : 'drying-check', massG: '', measuredAt: localNow() } as { stage: WeighingStage; massG: string; measuredAt: string },
-    weighingInputSchema,
-    (v, bad) => {
-      const n = numberOf(v.massG, 'massG', bad);
-      if (n === undefined && !v.massG.trim()) bad('massG', 'Enter the mass');
-      return { stage: v.stage, massG: n === undefined ? undefined : units.fromDisplay(n, 'mass'), measuredAt: isoFromLocal(v.measuredAt) };
-    },
+  const resolver = useMemo(
+    () =>
+      convertingResolver<WeighingValues, typeof weighingInputSchema>(
+        weighingInputSchema,
+        (v) => ({ stage: v.stage, massG: orUndefined(toSi(v.massG, 'mass', units)), measuredAt: instant(v.measuredAt) }),
+        {},
+        { massG: 'Enter the mass' },
+      ),
+    [units],
+  );
+  const { form, submit, done } = useCouponForm<WeighingValues, z.output<typeof weighingInputSchema>>(
+    { stage: initialStage && stages.includes(initialStage) ? initialStage : 'drying-check', massG: null, measuredAt: toLocalInput() },
+    resolver,
+    ['stage', 'massG', 'measuredAt'],
+  );
+  const onSubmit = submit(
     (body) => add.mutateAsync(body),
+    'Weighing saved.',
+    (f) => f.reset({ ...f.getValues(), massG: null }),
   );
   return (
     <Frame title="Add a weighing" id="weighing-form">
-      <form noValidate aria-label="Add a weighing" onSubmit={(e) => void submit('Weighing saved.', () => form.reset({ ...form.getValues(), massG: '' }))(e)}>
+      <form noValidate aria-label="Add a weighing" onSubmit={(e) => void onSubmit(e)}>
         <FormError message={form.formState.errors.root?.message} />
         <div className="grid gap-x-3 sm:grid-cols-3">
-          <Select form={form} name="stage" label="Stage" options={stages.map((s) => ({ value: s, label: WEIGHING_STAGE_LABELS[s] }))} />
-          <Input form={form} name="massG" label={`Mass (${units.label('mass')})`} inputMode="decimal" />
-          <Input form={form} name="measuredAt" label="Weighed at" type="datetime-local" />
+          <SelectField
+            label="Stage"
+            registration={form.register('stage')}
+            error={form.formState.errors.stage?.message}
+            options={stages.map((s) => ({ value: s, label: WEIGHING_STAGE_LABELS[s] }))}
+          />
+          <NumberField form={form} name="massG" label="Mass" quantity="mass" />
+          <Field label="Weighed at" type="datetime-local" registration={form.register('measuredAt')} error={form.formState.errors.measuredAt?.message} />
         </div>
-        <p className="mb-2 text-xs text-ink-faint">Drying checks can be added as often as needed; the other stages take one weighing each, corrected below with a reason.</p>
+        <p className="mb-2 text-xs text-ink-faint">
+          Drying checks can be added as often as needed; the other stages take one weighing each, corrected below with a reason.
+        </p>
         <button type="submit" className="btn-primary" disabled={form.formState.isSubmitting}>
           Save the weighing
         </button>
@@ -180,54 +141,54 @@ export function WeighingForm({ coupon, initialStage }: { coupon: CouponDetail; i
 
 interface DimensionValues {
   stage: CheckStage;
-  lengthMm: string;
-  widthMm: string;
-  thicknessMm: string;
-  volumeCm3: string;
+  lengthMm: number | null;
+  widthMm: number | null;
+  thicknessMm: number | null;
+  volumeCm3: number | null;
   method: string;
   measuredAt: string;
 }
+const DIMENSION_FIELDS = ['stage', 'lengthMm', 'widthMm', 'thicknessMm', 'volumeCm3', 'method', 'measuredAt'] as const;
 
-function dimensionBody(v: DimensionValues, units: ReturnType<typeof useUnits>, bad: (f: keyof DimensionValues, m: string) => void) {
-  const len = (f: 'lengthMm' | 'widthMm' | 'thicknessMm') => {
-    const n = numberOf(v[f], f, bad as never);
-    return n === undefined ? undefined : units.fromDisplay(n, 'length');
-  };
-  const vol = numberOf(v.volumeCm3, 'volumeCm3', bad as never);
+/** The dimension check the contract takes, from boxes in the user's length and volume units. */
+function dimensionCheck(v: Omit<DimensionValues, 'method'> & { method?: string }, units: ReturnType<typeof useUnits>) {
   return {
     kind: 'dimension' as const,
     stage: v.stage,
-    measuredAt: isoFromLocal(v.measuredAt),
-    lengthMm: len('lengthMm'),
-    widthMm: len('widthMm'),
-    thicknessMm: len('thicknessMm'),
-    volumeCm3: vol === undefined ? undefined : units.fromDisplay(vol, 'volume'),
-    method: v.method.trim() || undefined,
+    measuredAt: instant(v.measuredAt),
+    lengthMm: orUndefined(toSi(v.lengthMm, 'length', units)),
+    widthMm: orUndefined(toSi(v.widthMm, 'length', units)),
+    thicknessMm: orUndefined(toSi(v.thicknessMm, 'length', units)),
+    volumeCm3: orUndefined(toSi(v.volumeCm3, 'volume', units)),
+    method: optionalText(v.method ?? ''),
   };
 }
 
 export function DimensionForm({ coupon, stage, title }: { coupon: CouponDetail; stage?: CheckStage; title?: string }) {
   const units = useUnits();
   const add = useAddCheck(coupon.id);
-  const { form, submit, done } = useContractForm<DimensionValues, typeof checkInputSchema>(
-    { stage: stage ?? 'dry', lengthMm: '', widthMm: '', thicknessMm: '', volumeCm3: '', method: '', measuredAt: localNow() },
-    checkInputSchema,
-    (v, bad) => dimensionBody(v, units, bad),
-    (body) => add.mutateAsync(body),
+  const resolver = useMemo(() => convertingResolver<DimensionValues, typeof checkInputSchema>(checkInputSchema, (v) => dimensionCheck(v, units)), [units]);
+  const { form, submit, done } = useCouponForm<DimensionValues, z.output<typeof checkInputSchema>>(
+    { stage: stage ?? 'dry', lengthMm: null, widthMm: null, thicknessMm: null, volumeCm3: null, method: '', measuredAt: toLocalInput() },
+    resolver,
+    DIMENSION_FIELDS,
   );
-  const l = units.label('length');
+  const onSubmit = submit((body) => add.mutateAsync(body), 'Dimensions saved.');
+  const label = title ?? 'Add a dimension check';
   return (
-    <Frame title={title ?? 'Add a dimension check'}>
-      <form noValidate aria-label={title ?? 'Add a dimension check'} onSubmit={(e) => void submit('Dimensions saved.')(e)}>
+    <Frame title={label}>
+      <form noValidate aria-label={label} onSubmit={(e) => void onSubmit(e)}>
         <FormError message={form.formState.errors.root?.message} />
         <div className="grid gap-x-3 sm:grid-cols-3">
-          {stage ? null : <Select form={form} name="stage" label="Stage" options={CHECK_STAGES.map((s) => ({ value: s, label: CHECK_STAGE_LABELS[s] }))} />}
-          <Input form={form} name="lengthMm" label={`Length (${l})`} inputMode="decimal" />
-          <Input form={form} name="widthMm" label={`Width (${l})`} inputMode="decimal" />
-          <Input form={form} name="thicknessMm" label={`Thickness (${l})`} inputMode="decimal" />
-          <Input form={form} name="volumeCm3" label={`Or volume by immersion (${units.label('volume')})`} inputMode="decimal" hint="For pieces calipers cannot measure." />
-          <Input form={form} name="method" label="Method (optional)" />
-          <Input form={form} name="measuredAt" label="Measured at" type="datetime-local" />
+          {stage ? null : (
+            <SelectField label="Stage" registration={form.register('stage')} error={form.formState.errors.stage?.message} options={checkStageOptions} />
+          )}
+          <NumberField form={form} name="lengthMm" label="Length" quantity="length" />
+          <NumberField form={form} name="widthMm" label="Width" quantity="length" />
+          <NumberField form={form} name="thicknessMm" label="Thickness" quantity="length" />
+          <NumberField form={form} name="volumeCm3" label="Or volume by immersion" quantity="volume" hint="For pieces calipers cannot measure." />
+          <Field label="Method (optional)" registration={form.register('method')} error={form.formState.errors.method?.message} />
+          <Field label="Measured at" type="datetime-local" registration={form.register('measuredAt')} error={form.formState.errors.measuredAt?.message} />
         </div>
         <button type="submit" className="btn-primary" disabled={form.formState.isSubmitting}>
           Save the dimensions
@@ -238,30 +199,60 @@ export function DimensionForm({ coupon, stage, title }: { coupon: CouponDetail; 
   );
 }
 
+interface HardnessValues {
+  stage: CheckStage;
+  hardnessValue: number | null;
+  hardnessScale: HardnessScale;
+  method: string;
+  measuredAt: string;
+}
+
+const hardnessResolver = convertingResolver<HardnessValues, typeof checkInputSchema>(
+  checkInputSchema,
+  (v) => ({
+    kind: 'hardness',
+    stage: v.stage,
+    hardnessValue: orUndefined(v.hardnessValue),
+    hardnessScale: v.hardnessScale,
+    measuredAt: instant(v.measuredAt),
+    method: optionalText(v.method),
+  }),
+  {},
+  { hardnessValue: 'Enter the reading' },
+);
+
 export function HardnessForm({ coupon }: { coupon: CouponDetail }) {
   const add = useAddCheck(coupon.id);
-  const { form, submit, done } = useContractForm(
-    { stage: (coupon.role === 'treated' ? 'cured' : 'dry') as CheckStage, hardnessValue: '', hardnessScale: 'shore-d' as HardnessScale, method: '', measuredAt: localNow() },
-    checkInputSchema,
-    (v, bad) => {
-      const n = numberOf(v.hardnessValue, 'hardnessValue', bad as never);
-      if (n === undefined && !v.hardnessValue.trim()) bad('hardnessValue', 'Enter the reading');
-      return { kind: 'hardness', stage: v.stage, hardnessValue: n, hardnessScale: v.hardnessScale, measuredAt: isoFromLocal(v.measuredAt), method: v.method.trim() || undefined };
-    },
-    (body) => add.mutateAsync(body),
+  const { form, submit, done } = useCouponForm<HardnessValues, z.output<typeof checkInputSchema>>(
+    { stage: coupon.role === 'treated' ? 'cured' : 'dry', hardnessValue: null, hardnessScale: 'shore-d', method: '', measuredAt: toLocalInput() },
+    hardnessResolver,
+    ['stage', 'hardnessValue', 'hardnessScale', 'method', 'measuredAt'],
   );
+  const onSubmit = submit(
+    (body) => add.mutateAsync(body),
+    'Hardness saved.',
+    (f) => f.reset({ ...f.getValues(), hardnessValue: null }),
+  );
+  const { errors } = form.formState;
   return (
     <Frame title="Add a hardness reading">
-      <form noValidate aria-label="Add a hardness reading" onSubmit={(e) => void submit('Hardness saved.', () => form.reset({ ...form.getValues(), hardnessValue: '' }))(e)}>
-        <FormError message={form.formState.errors.root?.message} />
+      <form noValidate aria-label="Add a hardness reading" onSubmit={(e) => void onSubmit(e)}>
+        <FormError message={errors.root?.message} />
         <div className="grid gap-x-3 sm:grid-cols-3">
-          <Select form={form} name="stage" label="Stage" options={CHECK_STAGES.map((s) => ({ value: s, label: CHECK_STAGE_LABELS[s] }))} />
-          <Input form={form} name="hardnessValue" label="Reading" inputMode="decimal" />
-          <Select form={form} name="hardnessScale" label="Scale" options={HARDNESS_SCALES.map((s) => ({ value: s, label: HARDNESS_SCALE_LABELS[s] }))} />
-          <Input form={form} name="method" label="Method (optional)" />
-          <Input form={form} name="measuredAt" label="Measured at" type="datetime-local" />
+          <SelectField label="Stage" registration={form.register('stage')} error={errors.stage?.message} options={checkStageOptions} />
+          <NumberField form={form} name="hardnessValue" label="Reading" />
+          <SelectField
+            label="Scale"
+            registration={form.register('hardnessScale')}
+            error={errors.hardnessScale?.message}
+            options={HARDNESS_SCALES.map((s) => ({ value: s, label: HARDNESS_SCALE_LABELS[s] }))}
+          />
+          <Field label="Method (optional)" registration={form.register('method')} error={errors.method?.message} />
+          <Field label="Measured at" type="datetime-local" registration={form.register('measuredAt')} error={errors.measuredAt?.message} />
         </div>
-        <p className="mb-2 text-xs text-ink-faint">Shore D, Janka and Brinell are different tests: each reading stays on the scale it was taken in and is never converted.</p>
+        <p className="mb-2 text-xs text-ink-faint">
+          Shore D, Janka and Brinell are different tests: each reading stays on the scale it was taken in and is never converted.
+        </p>
         <button type="submit" className="btn-primary" disabled={form.formState.isSubmitting}>
           Save the reading
         </button>
@@ -271,27 +262,42 @@ export function HardnessForm({ coupon }: { coupon: CouponDetail }) {
   );
 }
 
+interface MoistureValues {
+  stage: CheckStage;
+  moisturePct: number | null;
+  method: string;
+  measuredAt: string;
+}
+
+const moistureResolver = convertingResolver<MoistureValues, typeof checkInputSchema>(
+  checkInputSchema,
+  (v) => ({ kind: 'moisture', stage: v.stage, moisturePct: orUndefined(v.moisturePct), measuredAt: instant(v.measuredAt), method: optionalText(v.method) }),
+  {},
+  { moisturePct: 'Enter the moisture content' },
+);
+
 export function MoistureForm({ coupon }: { coupon: CouponDetail }) {
   const add = useAddCheck(coupon.id);
-  const { form, submit, done } = useContractForm(
-    { stage: 'dry' as CheckStage, moisturePct: '', method: '', measuredAt: localNow() },
-    checkInputSchema,
-    (v, bad) => {
-      const n = numberOf(v.moisturePct, 'moisturePct', bad as never);
-      if (n === undefined && !v.moisturePct.trim()) bad('moisturePct', 'Enter the moisture content');
-      return { kind: 'moisture', stage: v.stage, moisturePct: n, measuredAt: isoFromLocal(v.measuredAt), method: v.method.trim() || undefined };
-    },
-    (body) => add.mutateAsync(body),
+  const { form, submit, done } = useCouponForm<MoistureValues, z.output<typeof checkInputSchema>>(
+    { stage: 'dry', moisturePct: null, method: '', measuredAt: toLocalInput() },
+    moistureResolver,
+    ['stage', 'moisturePct', 'method', 'measuredAt'],
   );
+  const onSubmit = submit(
+    (body) => add.mutateAsync(body),
+    'Moisture saved.',
+    (f) => f.reset({ ...f.getValues(), moisturePct: null }),
+  );
+  const { errors } = form.formState;
   return (
     <Frame title="Add a moisture reading">
-      <form noValidate aria-label="Add a moisture reading" onSubmit={(e) => void submit('Moisture saved.', () => form.reset({ ...form.getValues(), moisturePct: '' }))(e)}>
-        <FormError message={form.formState.errors.root?.message} />
+      <form noValidate aria-label="Add a moisture reading" onSubmit={(e) => void onSubmit(e)}>
+        <FormError message={errors.root?.message} />
         <div className="grid gap-x-3 sm:grid-cols-3">
-          <Select form={form} name="stage" label="Stage" options={CHECK_STAGES.map((s) => ({ value: s, label: CHECK_STAGE_LABELS[s] }))} />
-          <Input form={form} name="moisturePct" label="Moisture content (%, oven-dry basis)" inputMode="decimal" />
-          <Input form={form} name="method" label="Method (optional)" hint="e.g. pin meter, oven-dry" />
-          <Input form={form} name="measuredAt" label="Measured at" type="datetime-local" />
+          <SelectField label="Stage" registration={form.register('stage')} error={errors.stage?.message} options={checkStageOptions} />
+          <NumberField form={form} name="moisturePct" label="Moisture content" unit="%, oven-dry basis" />
+          <Field label="Method (optional)" registration={form.register('method')} error={errors.method?.message} hint="e.g. pin meter, oven-dry" />
+          <Field label="Measured at" type="datetime-local" registration={form.register('measuredAt')} error={errors.measuredAt?.message} />
         </div>
         <button type="submit" className="btn-primary" disabled={form.formState.isSubmitting}>
           Save the reading
@@ -303,62 +309,74 @@ export function MoistureForm({ coupon }: { coupon: CouponDetail }) {
 }
 
 interface SoakValues {
-  massG: string;
-  lengthMm: string;
-  widthMm: string;
-  thicknessMm: string;
-  volumeCm3: string;
+  massG: number | null;
+  lengthMm: number | null;
+  widthMm: number | null;
+  thicknessMm: number | null;
+  volumeCm3: number | null;
   measuredAt: string;
 }
+
+/** The soak test is two records (a weighing and a size check), each checked by its own contract. */
+const soakTestSchema = z
+  .strictObject({ weighing: weighingInputSchema.nullable(), check: checkInputSchema.nullable() })
+  .refine((v) => v.weighing !== null || v.check !== null, { message: 'Enter the mass after the soak, or the size after it', path: ['weighing'] });
+const SOAK_RENAMES = {
+  weighing: 'massG',
+  'weighing.massG': 'massG',
+  'weighing.measuredAt': 'measuredAt',
+  'check.lengthMm': 'lengthMm',
+  'check.widthMm': 'widthMm',
+  'check.thicknessMm': 'thicknessMm',
+  'check.volumeCm3': 'volumeCm3',
+  'check.measuredAt': 'measuredAt',
+  check: 'lengthMm',
+};
 
 /** Water-soak stability: the after-soak mass, and the after-soak size or volume when measured. */
 export function SoakTestForm({ coupon }: { coupon: CouponDetail }) {
   const units = useUnits();
   const addW = useAddWeighing(coupon.id);
   const addC = useAddCheck(coupon.id);
-  const [done, setDone] = useState<string | null>(null);
   const hasMass = coupon.weighings.some((w) => w.stage === 'wet-test');
   const hasSize = coupon.checks.some((c) => c.kind === 'dimension' && c.stage === 'wet-test');
-  const form = useForm<SoakValues>({ defaultValues: { massG: '', lengthMm: '', widthMm: '', thicknessMm: '', volumeCm3: '', measuredAt: localNow() } });
+  const resolver = useMemo(
+    () =>
+      convertingResolver<SoakValues, typeof soakTestSchema>(
+        soakTestSchema,
+        (v) => {
+          const check = dimensionCheck({ stage: 'wet-test', ...v }, units);
+          const anySize = [v.lengthMm, v.widthMm, v.thicknessMm, v.volumeCm3].some((x) => x !== null);
+          return {
+            weighing: v.massG === null || hasMass ? null : { stage: 'wet-test', massG: toSi(v.massG, 'mass', units), measuredAt: instant(v.measuredAt) },
+            check: !anySize || hasSize ? null : check,
+          };
+        },
+        SOAK_RENAMES,
+      ),
+    [units, hasMass, hasSize],
+  );
+  const { form, submit, done } = useCouponForm<SoakValues, z.output<typeof soakTestSchema>>(
+    { massG: null, lengthMm: null, widthMm: null, thicknessMm: null, volumeCm3: null, measuredAt: toLocalInput() },
+    resolver,
+    ['massG', 'lengthMm', 'widthMm', 'thicknessMm', 'volumeCm3', 'measuredAt'],
+  );
+  const onSubmit = submit(
+    async ({ weighing, check }) => {
+      if (weighing) await addW.mutateAsync(weighing);
+      if (check) await addC.mutateAsync(check);
+    },
+    'Soak test saved.',
+    (f) => f.reset({ ...f.getValues(), massG: null, lengthMm: null, widthMm: null, thicknessMm: null, volumeCm3: null }),
+  );
   const base = coupon.role === 'treated' ? 'cured' : 'dry';
   const baseMass = coupon.role === 'treated' ? coupon.metrics.curedMassG : coupon.metrics.dryMassG;
   const baseVol = coupon.role === 'treated' ? coupon.metrics.curedVolumeCm3 : coupon.metrics.dryVolumeCm3;
-  const fields = ['massG', 'lengthMm', 'widthMm', 'thicknessMm', 'volumeCm3', 'measuredAt'] as const;
-
-  const onSubmit = form.handleSubmit(async (v) => {
-    setDone(null);
-    let failed = false;
-    const bad = (f: keyof SoakValues, m: string) => {
-      failed = true;
-      form.setError(f, { message: m });
-    };
-    const measuredAt = isoFromLocal(v.measuredAt);
-    const mass = numberOf(v.massG, 'massG', bad as never);
-    const dims = dimensionBody({ stage: 'wet-test', ...v, method: '' }, units, bad as never);
-    const anyDim = [dims.lengthMm, dims.widthMm, dims.thicknessMm, dims.volumeCm3].some((x) => x !== undefined);
-    if (failed) return;
-    if (mass === undefined && !anyDim) return bad('massG', 'Enter the mass after the soak, or the size after it');
-    const w = mass === undefined || hasMass ? null : weighingInputSchema.safeParse({ stage: 'wet-test', massG: units.fromDisplay(mass, 'mass'), measuredAt });
-    const c = !anyDim || hasSize ? null : checkInputSchema.safeParse(dims);
-    if (w && !w.success) return bad('massG', w.error.issues[0]?.message ?? 'Check the mass');
-    if (c && !c.success) {
-      for (const i of c.error.issues) bad(String(i.path[0] ?? 'lengthMm') as keyof SoakValues, i.message);
-      return;
-    }
-    try {
-      if (w?.success) await addW.mutateAsync(w.data);
-      if (c?.success) await addC.mutateAsync(c.data);
-      form.reset({ ...v, massG: '', lengthMm: '', widthMm: '', thicknessMm: '', volumeCm3: '' });
-      setDone('Soak test saved.');
-    } catch (err) {
-      applyServerErrors(err, form.setError, fields);
-    }
-  });
-  const l = units.label('length');
   return (
     <Frame title="Water-soak stability test">
       <p className="mb-2 text-sm text-ink-soft">
-        A short soak (about an hour under water, an hour to drain; common practice, no published source) and a reweigh. Swelling is worked out from the {base} state
+        A short soak (about an hour under water, an hour to drain; common practice, no published source) and a reweigh. Swelling is worked out from the {base}{' '}
+        state
         {baseMass !== null ? ` (${units.format(baseMass, 'mass')}` : ' (no mass yet'}
         {baseVol !== null ? `, ${units.format(baseVol, 'volume')})` : ')'}
         {coupon.role === 'treated' ? '; ASE compares it with the untreated controls of the same species in the trial.' : '.'}
@@ -366,16 +384,18 @@ export function SoakTestForm({ coupon }: { coupon: CouponDetail }) {
       <form noValidate aria-label="Water-soak stability test" onSubmit={(e) => void onSubmit(e)}>
         <FormError message={form.formState.errors.root?.message} />
         <div className="grid gap-x-3 sm:grid-cols-3">
-          {!hasMass && <Input form={form} name="massG" label={`Mass after the soak (${units.label('mass')})`} inputMode="decimal" />}
+          {!hasMass && <NumberField form={form} name="massG" label="Mass after the soak" quantity="mass" />}
           {!hasSize && (
             <>
-              <Input form={form} name="lengthMm" label={`Length after (${l})`} inputMode="decimal" />
-              <Input form={form} name="widthMm" label={`Width after (${l})`} inputMode="decimal" />
-              <Input form={form} name="thicknessMm" label={`Thickness after (${l})`} inputMode="decimal" />
-              <Input form={form} name="volumeCm3" label={`Or volume after, by immersion (${units.label('volume')})`} inputMode="decimal" />
+              <NumberField form={form} name="lengthMm" label="Length after" quantity="length" />
+              <NumberField form={form} name="widthMm" label="Width after" quantity="length" />
+              <NumberField form={form} name="thicknessMm" label="Thickness after" quantity="length" />
+              <NumberField form={form} name="volumeCm3" label="Or volume after, by immersion" quantity="volume" />
             </>
           )}
-          {!(hasMass && hasSize) && <Input form={form} name="measuredAt" label="Measured at" type="datetime-local" />}
+          {!(hasMass && hasSize) && (
+            <Field label="Measured at" type="datetime-local" registration={form.register('measuredAt')} error={form.formState.errors.measuredAt?.message} />
+          )}
         </div>
         {hasMass && hasSize ? (
           <p className="text-sm text-ink-soft">The after-soak mass and size are both recorded; correct them in the readings above if needed.</p>
@@ -390,26 +410,47 @@ export function SoakTestForm({ coupon }: { coupon: CouponDetail }) {
   );
 }
 
+interface CorrectWeighingValues {
+  massG: number | null;
+  reason: string;
+}
+
 /** A correction supersedes the reading; the old value stays in the history with the reason. */
 export function CorrectWeighingForm({ weighing, onDone }: { weighing: WeighingOut; onDone: () => void }) {
   const units = useUnits();
   const correct = useCorrectWeighing();
-  const { form, submit } = useContractForm(
-    { massG: units.toDisplay(weighing.massG, 'mass').toFixed(4).replace(/\.?0+$/, ''), reason: '' },
-    correctWeighingSchema,
-    (v, bad) => {
-      const n = numberOf(v.massG, 'massG', bad as never);
-      if (n === undefined && !v.massG.trim()) bad('massG', 'Enter the corrected mass');
-      return { massG: n === undefined ? undefined : units.fromDisplay(n, 'mass'), reason: v.reason };
-    },
-    (body) => correct.mutateAsync({ id: weighing.id, ...body }),
+  const resolver = useMemo(
+    () =>
+      convertingResolver<CorrectWeighingValues, typeof correctWeighingSchema>(
+        correctWeighingSchema,
+        (v) => ({ massG: orUndefined(toSi(v.massG, 'mass', units)), reason: v.reason }),
+        {},
+        { massG: 'Enter the corrected mass' },
+      ),
+    [units],
   );
+  const { form, submit } = useCouponForm<CorrectWeighingValues, z.output<typeof correctWeighingSchema>>(
+    { massG: toBox(weighing.massG, 'mass', units), reason: '' },
+    resolver,
+    ['massG', 'reason'],
+  );
+  const onSubmit = submit((body) => correct.mutateAsync({ id: weighing.id, ...body }), 'Corrected.', onDone);
   return (
-    <form noValidate aria-label={`Correct the ${weighing.stage} weighing`} onSubmit={(e) => void submit('Corrected.', onDone)(e)} className="mt-2 rounded border border-rule bg-white/50 p-3">
+    <form
+      noValidate
+      aria-label={`Correct the ${weighing.stage} weighing`}
+      onSubmit={(e) => void onSubmit(e)}
+      className="mt-2 rounded border border-rule bg-white/50 p-3"
+    >
       <FormError message={form.formState.errors.root?.message} />
       <div className="grid gap-x-3 sm:grid-cols-2">
-        <Input form={form} name="massG" label={`Corrected mass (${units.label('mass')})`} inputMode="decimal" />
-        <Input form={form} name="reason" label="Reason for the correction" hint="Kept in the history beside the old value." />
+        <NumberField form={form} name="massG" label="Corrected mass" quantity="mass" />
+        <Field
+          label="Reason for the correction"
+          registration={form.register('reason')}
+          error={form.formState.errors.reason?.message}
+          hint="Kept in the history beside the old value."
+        />
       </div>
       <div className="flex gap-2">
         <button type="submit" className="btn-primary" disabled={form.formState.isSubmitting}>
@@ -423,54 +464,92 @@ export function CorrectWeighingForm({ weighing, onDone }: { weighing: WeighingOu
   );
 }
 
+interface CorrectCheckValues {
+  lengthMm: number | null;
+  widthMm: number | null;
+  thicknessMm: number | null;
+  volumeCm3: number | null;
+  hardnessValue: number | null;
+  moisturePct: number | null;
+  reason: string;
+}
+
 export function CorrectCheckForm({ check, onDone }: { check: CheckOut; onDone: () => void }) {
   const units = useUnits();
   const correct = useCorrectCheck();
-  const show = (v: number | null, q: 'length' | 'volume') => (v === null ? '' : units.toDisplay(v, q).toFixed(4).replace(/\.?0+$/, ''));
-  const initial = {
-    lengthMm: show(check.lengthMm, 'length'),
-    widthMm: show(check.widthMm, 'length'),
-    thicknessMm: show(check.thicknessMm, 'length'),
-    volumeCm3: show(check.volumeCm3, 'volume'),
-    hardnessValue: check.hardnessValue === null ? '' : String(check.hardnessValue),
-    moisturePct: check.moisturePct === null ? '' : String(check.moisturePct),
-    reason: '',
-  };
-  const { form, submit } = useContractForm(
-    initial,
-    correctCheckSchema,
-    (v, bad) => {
-      // Only what was changed is sent, so an untouched value is not nudged by a round trip through the display unit.
-      const changed = (f: 'lengthMm' | 'widthMm' | 'thicknessMm' | 'volumeCm3' | 'hardnessValue' | 'moisturePct') => (v[f] === initial[f] ? undefined : numberOf(v[f], f, bad as never));
-      const len = (f: 'lengthMm' | 'widthMm' | 'thicknessMm') => {
-        const x = changed(f);
-        return x === undefined ? undefined : units.fromDisplay(x, 'length');
-      };
-      if (check.kind === 'dimension') {
-        const vol = changed('volumeCm3');
-        return { lengthMm: len('lengthMm'), widthMm: len('widthMm'), thicknessMm: len('thicknessMm'), volumeCm3: vol === undefined ? undefined : units.fromDisplay(vol, 'volume'), reason: v.reason };
-      }
-      if (check.kind === 'hardness') return { hardnessValue: changed('hardnessValue'), reason: v.reason };
-      return { moisturePct: changed('moisturePct'), reason: v.reason };
-    },
-    (body) => correct.mutateAsync({ id: check.id, ...body }),
+  const initial: CorrectCheckValues = useMemo(
+    () => ({
+      lengthMm: toBox(check.lengthMm, 'length', units),
+      widthMm: toBox(check.widthMm, 'length', units),
+      thicknessMm: toBox(check.thicknessMm, 'length', units),
+      volumeCm3: toBox(check.volumeCm3, 'volume', units),
+      hardnessValue: check.hardnessValue,
+      moisturePct: check.moisturePct,
+      reason: '',
+    }),
+    [check, units],
   );
-  const l = units.label('length');
+  const resolver = useMemo(
+    () =>
+      convertingResolver<CorrectCheckValues, typeof correctCheckSchema>(correctCheckSchema, (v) => {
+        // Only what was changed is sent, so an untouched value is not nudged by a round trip through the display unit.
+        const changed = <K extends keyof CorrectCheckValues>(f: K) => (Object.is(v[f], initial[f]) ? undefined : v[f]);
+        const si = (f: 'lengthMm' | 'widthMm' | 'thicknessMm' | 'volumeCm3', q: 'length' | 'volume') => {
+          const x = changed(f);
+          return x === undefined ? undefined : orUndefined(toSi(x, q, units));
+        };
+        if (check.kind === 'dimension')
+          return {
+            lengthMm: si('lengthMm', 'length'),
+            widthMm: si('widthMm', 'length'),
+            thicknessMm: si('thicknessMm', 'length'),
+            volumeCm3: si('volumeCm3', 'volume'),
+            reason: v.reason,
+          };
+        if (check.kind === 'hardness') return { hardnessValue: orUndefined(changed('hardnessValue') ?? null), reason: v.reason };
+        return { moisturePct: orUndefined(changed('moisturePct') ?? null), reason: v.reason };
+      }),
+    [check.kind, initial, units],
+  );
+  const { form, submit } = useCouponForm<CorrectCheckValues, z.output<typeof correctCheckSchema>>(initial, resolver, [
+    'lengthMm',
+    'widthMm',
+    'thicknessMm',
+    'volumeCm3',
+    'hardnessValue',
+    'moisturePct',
+    'reason',
+  ]);
+  const onSubmit = submit((body) => correct.mutateAsync({ id: check.id, ...body }), 'Corrected.', onDone);
   return (
-    <form noValidate aria-label={`Correct the ${check.kind} check`} onSubmit={(e) => void submit('Corrected.', onDone)(e)} className="mt-2 rounded border border-rule bg-white/50 p-3">
+    <form
+      noValidate
+      aria-label={`Correct the ${check.kind} check`}
+      onSubmit={(e) => void onSubmit(e)}
+      className="mt-2 rounded border border-rule bg-white/50 p-3"
+    >
       <FormError message={form.formState.errors.root?.message} />
       <div className="grid gap-x-3 sm:grid-cols-3">
         {check.kind === 'dimension' && (
           <>
-            <Input form={form} name="lengthMm" label={`Length (${l})`} inputMode="decimal" />
-            <Input form={form} name="widthMm" label={`Width (${l})`} inputMode="decimal" />
-            <Input form={form} name="thicknessMm" label={`Thickness (${l})`} inputMode="decimal" />
-            <Input form={form} name="volumeCm3" label={`Volume (${units.label('volume')})`} inputMode="decimal" />
+            <NumberField form={form} name="lengthMm" label="Length" quantity="length" />
+            <NumberField form={form} name="widthMm" label="Width" quantity="length" />
+            <NumberField form={form} name="thicknessMm" label="Thickness" quantity="length" />
+            <NumberField form={form} name="volumeCm3" label="Volume" quantity="volume" />
           </>
         )}
-        {check.kind === 'hardness' && <Input form={form} name="hardnessValue" label={`Reading (${check.hardnessScale ? HARDNESS_SCALE_LABELS[check.hardnessScale] : 'scale'})`} inputMode="decimal" />}
-        {check.kind === 'moisture' && <Input form={form} name="moisturePct" label="Moisture content (%)" inputMode="decimal" />}
-        <Input form={form} name="reason" label="Reason for the correction" hint="Kept in the history beside the old value." className="sm:col-span-2" />
+        {check.kind === 'hardness' && (
+          <NumberField form={form} name="hardnessValue" label="Reading" unit={check.hardnessScale ? HARDNESS_SCALE_LABELS[check.hardnessScale] : 'scale'} />
+        )}
+        {check.kind === 'moisture' && <NumberField form={form} name="moisturePct" label="Moisture content" unit="%" />}
+        <div className="sm:col-span-2">
+          <Field
+            label="Reason for the correction"
+            registration={form.register('reason')}
+            error={form.formState.errors.reason?.message}
+            hint="Kept in the history beside the old value."
+          />
+        </div>
       </div>
       <div className="flex gap-2">
         <button type="submit" className="btn-primary" disabled={form.formState.isSubmitting}>

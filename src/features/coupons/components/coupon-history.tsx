@@ -7,10 +7,11 @@ import type { auditEntrySchema, CheckOut, WeighingOut } from '../../../../shared
 import { ErrorNote, Loading } from '../../../components/ui/page';
 import { useUnits, type Units } from '../../../lib/use-units';
 import { couponHistoryQuery } from '../api/coupons-queries';
+import { formatDateTime } from '../../../lib/format/dates';
 
 type AuditEntry = z.infer<typeof auditEntrySchema>;
 
-const when = (iso: string) => new Date(iso).toLocaleString(undefined, { year: 'numeric', month: 'short', day: 'numeric', hour: '2-digit', minute: '2-digit' });
+const when = formatDateTime;
 
 const ACTION_WORDS: Record<string, string> = {
   create: 'entered',

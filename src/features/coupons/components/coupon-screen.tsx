@@ -11,8 +11,9 @@ import { CHECK_STAGE_LABELS, CorrectCheckForm, CorrectWeighingForm, DimensionFor
 import { CouponHistoryPanel } from './coupon-history';
 import { CouponPhotos } from './coupon-photos';
 import { paths } from '../../../config/paths';
+import { formatDateTime } from '../../../lib/format/dates';
 
-const when = (iso: string) => new Date(iso).toLocaleString(undefined, { year: 'numeric', month: 'short', day: 'numeric', hour: '2-digit', minute: '2-digit' });
+const when = formatDateTime;
 const pct = (v: number | null, d = 1) => (v === null ? '—' : `${v.toFixed(d)} %`);
 
 function Metrics({ coupon }: { coupon: CouponDetail }) {

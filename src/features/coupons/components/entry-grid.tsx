@@ -26,6 +26,7 @@ import {
 import { paths } from '../../../config/paths';
 import { useLeaveGuard } from '../../../lib/leave-guard';
 import { draftKey, useLocalDraft } from '../../../lib/local-draft';
+import { parseClipboard, pasteSummary, planPaste } from './paste-plan';
 
 type CellErrors = Record<number, Record<string, string>>;
 
@@ -313,35 +314,14 @@ export function EntryGrid({ coupons, scope, caption, focus }: { coupons: CouponO
   // the ones below (and to the right), leaving cells that already hold a saved value alone.
   const onPaste = (e: ClipboardEvent<HTMLInputElement>, r: number, c: number) => {
     if (!canEdit) return;
-    const text = e.clipboardData.getData('text/plain');
-    const trimmed = text.replace(/\r\n?/g, '\n').replace(/\n+$/, '');
-    if (!/[\n\t]/.test(trimmed)) return;
+    const block = parseClipboard(e.clipboardData.getData('text/plain'));
+    if (!block) return;
     e.preventDefault();
-    let filled = 0;
-    let skipped = 0;
-    let dropped = 0;
+    const plan = planPaste(block, r, c, { rows, columns: ENTRY_COLUMNS, locked: (model, col) => isLocked(model.coupon, col) !== null });
     const next: Drafts = { ...drafts };
-    trimmed.split('\n').forEach((line, i) => {
-      line.split('\t').forEach((raw, j) => {
-        const model = rows[r + i];
-        const col = ENTRY_COLUMNS[c + j];
-        if (!model || !col) {
-          if (raw.trim() !== '') dropped++;
-          return;
-        }
-        if (isLocked(model.coupon, col)) {
-          if (raw.trim() !== '') skipped++;
-          return;
-        }
-        next[model.coupon.id] = { ...next[model.coupon.id], [col.id]: raw.trim() };
-        filled++;
-      });
-    });
+    for (const { row, col, value } of plan.cells) next[row.coupon.id] = { ...next[row.coupon.id], [col.id]: value };
     setDrafts(next);
-    const parts = [`Pasted ${filled} value${filled === 1 ? '' : 's'}`];
-    if (skipped) parts.push(`${skipped} cell${skipped === 1 ? '' : 's'} already holding a saved value left alone`);
-    if (dropped) parts.push(`${dropped} value${dropped === 1 ? '' : 's'} past the end of the grid dropped`);
-    setStatus({ text: `${parts.join('; ')}.`, bad: false });
+    setStatus({ text: pasteSummary(plan), bad: false });
   };
 
   const collectErrors = (entries: [string, string][], plan: BatchPlan) => {

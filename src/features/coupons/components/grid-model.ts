@@ -3,6 +3,7 @@ import { couponMetrics, type CheckReading, type CouponMetrics, type WeighingRead
 import { checkProblems, weighingProblem } from '../../../../shared/coupons/validate';
 import type { CouponOut } from '../../../../shared/schemas/coupons';
 import type { Quantity } from '../../../../shared/units';
+import { parseNumber } from '../../../lib/forms/parse-number';
 
 /** An editable column of the entry grid: a weighing at a stage, or one dimension of the stage's set. */
 export type EntryColumn =
@@ -64,13 +65,9 @@ export function isLocked(coupon: CouponOut, col: EntryColumn): 'stored' | 'contr
   return coupon.checks.some((c) => c.kind === 'dimension' && c.stage === col.stage) ? 'stored' : null;
 }
 
-/** A typed number: spaces dropped, a lone decimal comma read as a point. NaN when it is not a number. */
+/** A typed number, read by the one parser of the client (`parseNumber`: decimal point or comma). NaN when it is not a number. */
 export function parseTyped(text: string): number | null {
-  let t = text.trim().replace(/\s+/g, '');
-  if (t === '') return null;
-  if (t.includes(',') && !t.includes('.')) t = t.replace(',', '.');
-  if (!/^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/.test(t)) return NaN;
-  return Number(t);
+  return parseNumber(text);
 }
 
 export interface RowModel {

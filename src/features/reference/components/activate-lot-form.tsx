@@ -2,13 +2,16 @@ import { useQuery } from '@tanstack/react-query';
 import { useEffect, useRef } from 'react';
 import { useForm } from 'react-hook-form';
 import { createResinLotSchema, type CreateResinLotInput } from '../../../../shared/schemas/reference';
+import { NumberField } from '../../../components/ui/number-field';
 import { Field, FormError, SelectField, TextAreaField } from '../../../components/ui/field';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { useUnits } from '../../../lib/use-units';
 import { resinListQuery } from '../../../lib/queries/reference';
 import { useActivateLot } from '../api/use-activate-lot';
 import { CautionNote } from './caution-note';
-import { convertingResolver, numberOrMissing, renameFields, textOrNull } from '../../../lib/form-values';
+import { renameFields, textOrNull } from '../../../lib/form-values';
+import { convertingResolver } from '../../../lib/forms/resolver';
+import { todayLocalDate } from '../../../lib/format/dates';
 
 /** As typed: the volume in the user's volume unit. */
 interface FormValues {
@@ -26,8 +29,7 @@ const FIELDS = ['resinId', 'code', 'activatedAt', 'volume', 'catalystNotes', 'dy
 const DAY_MS = 86_400_000;
 
 function today(): string {
-  // en-CA writes the local date as YYYY-MM-DD.
-  return new Date().toLocaleDateString('en-CA');
+  return todayLocalDate();
 }
 
 /** Records a resin lot as it is activated (technician and above). */
@@ -87,14 +89,7 @@ export function ActivateLotForm({ onDone, onCancel }: { onDone: (code: string) =
             error={errors.activatedAt?.message}
             hint={keepsUntil ? `At ${resin?.shelfLifeDays} days' shelf life it keeps until about ${keepsUntil}, stored cool.` : undefined}
           />
-          <Field
-            label={`Volume (${units.label('liquidVolume')})`}
-            type="number"
-            step="any"
-            inputMode="decimal"
-            registration={form.register('volume', numberOrMissing)}
-            error={errors.volume?.message}
-          />
+          <NumberField form={form} name="volume" label="Volume" quantity="liquidVolume" required />
           <Field label="Catalyst" registration={form.register('catalystNotes', textOrNull)} error={errors.catalystNotes?.message} hint="What was added, and how much" />
           <Field label="Dye" registration={form.register('dyeNotes', textOrNull)} error={errors.dyeNotes?.message} hint="Leave empty for a clear lot" />
         </div>

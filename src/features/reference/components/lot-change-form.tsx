@@ -2,10 +2,11 @@ import { useEffect, useId, useRef } from 'react';
 import { useForm } from 'react-hook-form';
 import { LOT_STATUSES, type LotStatus } from '../../../../shared/constants/records';
 import { updateResinLotSchema, type ResinLot, type UpdateResinLotInput } from '../../../../shared/schemas/reference';
+import { NumberField } from '../../../components/ui/number-field';
 import { Field, FormError, SelectField } from '../../../components/ui/field';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { useUpdateLot } from '../api/use-update-lot';
-import { convertingResolver, numberOrMissing } from '../../../lib/form-values';
+import { convertingResolver } from '../../../lib/forms/resolver';
 import { lotExpiryWord, LotExpiryMark } from './lot-expiry';
 import { LOT_STATUS_LABELS } from './labels';
 
@@ -104,16 +105,7 @@ export function LotChangeForm({
             )}
           </div>
           <div>
-            <Field
-              label="Reuse count"
-              type="number"
-              step="1"
-              min="0"
-              inputMode="numeric"
-              registration={form.register('reuseCount', numberOrMissing)}
-              error={errors.reuseCount?.message}
-              hint="Drained back into the jar after a run counts as one reuse"
-            />
+            <NumberField form={form} name="reuseCount" label="Reuse count" required hint="Drained back into the jar after a run counts as one reuse" />
             <button
               type="button"
               className="btn-quiet -mt-2 mb-4"

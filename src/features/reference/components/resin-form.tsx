@@ -1,12 +1,14 @@
 import { useEffect, useRef } from 'react';
 import { useForm } from 'react-hook-form';
 import { createResinSchema, DEFAULT_CURE_WINDOW_C, type CreateResinInput, type Resin } from '../../../../shared/schemas/reference';
+import { NumberField } from '../../../components/ui/number-field';
 import { Field, FormError, TextAreaField } from '../../../components/ui/field';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { useUnits } from '../../../lib/use-units';
 import { useCreateResin } from '../api/use-create-resin';
 import { useUpdateResin } from '../api/use-update-resin';
-import { convertingResolver, numberOrMissing, renameFields, textOrNull } from '../../../lib/form-values';
+import { renameFields, textOrNull } from '../../../lib/form-values';
+import { convertingResolver } from '../../../lib/forms/resolver';
 
 /** As typed: cure temperatures in the user's temperature unit; everything else as the contract has it. */
 interface FormValues {
@@ -27,7 +29,6 @@ export function ResinForm({ resin, onDone, onCancel }: { resin: Resin | null; on
   const units = useUnits();
   const create = useCreateResin();
   const update = useUpdateResin();
-  const tempLabel = units.label('temperature');
   // Round the shown value so a stored 93.333 °C reads back as the 200.0 °F that was typed.
   const shown = (c: number) => Math.round(units.toDisplay(c, 'temperature') * 10) / 10;
 
@@ -78,48 +79,11 @@ export function ResinForm({ resin, onDone, onCancel }: { resin: Resin | null; on
         <div className="grid gap-x-4 sm:grid-cols-2">
           <Field label="Name" registration={form.register('name')} error={errors.name?.message} hint="The name the shop uses for it" />
           <Field label="Kind" registration={form.register('kind')} error={errors.kind?.message} hint="e.g. methacrylate monomer blend" />
-          <Field
-            label="Liquid density (g/cm³)"
-            type="number"
-            step="0.01"
-            inputMode="decimal"
-            registration={form.register('liquidDensityGcm3', numberOrMissing)}
-            error={errors.liquidDensityGcm3?.message}
-          />
-          <Field
-            label="Cured density (g/cm³)"
-            type="number"
-            step="0.01"
-            inputMode="decimal"
-            registration={form.register('curedDensityGcm3', numberOrMissing)}
-            error={errors.curedDensityGcm3?.message}
-          />
-          <Field
-            label={`Lowest cure temperature (${tempLabel})`}
-            type="number"
-            step="1"
-            inputMode="decimal"
-            registration={form.register('cureMin', numberOrMissing)}
-            error={errors.cureMin?.message}
-          />
-          <Field
-            label={`Highest cure temperature (${tempLabel})`}
-            type="number"
-            step="1"
-            inputMode="decimal"
-            registration={form.register('cureMax', numberOrMissing)}
-            error={errors.cureMax?.message}
-            hint="About 93–121 °C (200–250 °F) is common practice for heat-cure resins; the resin maker's sheet governs"
-          />
-          <Field
-            label="Shelf life once activated (days)"
-            type="number"
-            step="1"
-            inputMode="numeric"
-            registration={form.register('shelfLifeDays', numberOrMissing)}
-            error={errors.shelfLifeDays?.message}
-            hint={resin ? undefined : "Leave empty to use the shop's setting"}
-          />
+          <NumberField form={form} name="liquidDensityGcm3" label="Liquid density (g/cm³)" required />
+          <NumberField form={form} name="curedDensityGcm3" label="Cured density (g/cm³)" required />
+          <NumberField form={form} name="cureMin" label="Lowest cure temperature" quantity="temperature" required />
+          <NumberField form={form} name="cureMax" label="Highest cure temperature" quantity="temperature" required hint="About 93–121 °C (200–250 °F) is common practice for heat-cure resins; the resin maker's sheet governs" />
+          <NumberField form={form} name="shelfLifeDays" label="Shelf life once activated (days)" required hint={resin ? undefined : "Leave empty to use the shop's setting"} />
         </div>
         <TextAreaField label="Notes" registration={form.register('notes', textOrNull)} error={errors.notes?.message} />
         <div className="flex gap-2">

@@ -1,14 +1,15 @@
-import { zodResolver } from '@hookform/resolvers/zod';
 import { useEffect, useRef } from 'react';
-import { useForm, type Resolver } from 'react-hook-form';
+import { useForm } from 'react-hook-form';
 import type { z } from 'zod';
 import { SPECIES_ORIGINS } from '../../../../shared/constants/records';
 import { createSpeciesSchema, type CreateSpeciesInput, type Species } from '../../../../shared/schemas/reference';
+import { NumberField } from '../../../components/ui/number-field';
 import { Field, FormError, TextAreaField } from '../../../components/ui/field';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { useCreateSpecies } from '../api/use-create-species';
 import { useUpdateSpecies } from '../api/use-update-species';
-import { numberOrNull, textOrNull } from '../../../lib/form-values';
+import { textOrNull } from '../../../lib/form-values';
+import { convertingResolver } from '../../../lib/forms/resolver';
 
 type FormValues = z.input<typeof createSpeciesSchema>;
 
@@ -26,10 +27,10 @@ const FIELDS = [
   'notes',
 ] as const;
 
-const schemaResolver = zodResolver(createSpeciesSchema);
 // A handbook row carries no measured density; drop what may have been typed before the origin was switched.
-const resolver: Resolver<FormValues, unknown, CreateSpeciesInput> = (values, ctx, options) =>
-  schemaResolver(values.origin === 'handbook' ? { ...values, measuredDensityKgM3: null, measuredMoisturePct: null } : values, ctx, options);
+const resolver = convertingResolver<FormValues, typeof createSpeciesSchema>(createSpeciesSchema, (values) =>
+  values.origin === 'handbook' ? { ...values, measuredDensityKgM3: null, measuredMoisturePct: null } : values,
+);
 
 function defaultsOf(s: Species | null): FormValues {
   if (!s) {
@@ -98,60 +99,14 @@ export function SpeciesForm({ species, onDone, onCancel }: { species: Species | 
         <div className="grid gap-x-4 sm:grid-cols-2">
           <Field label="Common name" registration={form.register('commonName')} error={errors.commonName?.message} hint='Handbook style reads well in lists, e.g. "Maple, red"' />
           <Field label="Botanical name" registration={form.register('botanicalName')} error={errors.botanicalName?.message} />
-          <Field
-            label="Basic specific gravity"
-            type="number"
-            step="0.01"
-            inputMode="decimal"
-            registration={form.register('basicSg', numberOrNull)}
-            error={errors.basicSg?.message}
-            hint="Oven-dry mass over green volume"
-          />
-          <Field
-            label="Specific gravity at 12 % MC"
-            type="number"
-            step="0.01"
-            inputMode="decimal"
-            registration={form.register('sg12', numberOrNull)}
-            error={errors.sg12?.message}
-            hint="Oven-dry mass over volume at 12 % moisture content"
-          />
-          <Field
-            label="Side hardness at 12 % MC (N)"
-            type="number"
-            step="10"
-            inputMode="decimal"
-            registration={form.register('sideHardnessN', numberOrNull)}
-            error={errors.sideHardnessN?.message}
-            hint="In newtons, as the table gives it (ASTM D143 ball test); not converted"
-          />
-          <Field
-            label="SG coefficient of variation (fraction)"
-            type="number"
-            step="0.01"
-            inputMode="decimal"
-            registration={form.register('sgCoefficientOfVariation', numberOrNull)}
-            error={errors.sgCoefficientOfVariation?.message}
-            hint="e.g. 0.10; leave empty when the source gives none"
-          />
+          <NumberField form={form} name="basicSg" label="Basic specific gravity" hint="Oven-dry mass over green volume" />
+          <NumberField form={form} name="sg12" label="Specific gravity at 12 % MC" hint="Oven-dry mass over volume at 12 % moisture content" />
+          <NumberField form={form} name="sideHardnessN" label="Side hardness at 12 % MC (N)" hint="In newtons, as the table gives it (ASTM D143 ball test); not converted" />
+          <NumberField form={form} name="sgCoefficientOfVariation" label="SG coefficient of variation (fraction)" hint="e.g. 0.10; leave empty when the source gives none" />
           {origin === 'shop-measured' && (
             <>
-              <Field
-                label="Measured density (kg/m³)"
-                type="number"
-                step="1"
-                inputMode="decimal"
-                registration={form.register('measuredDensityKgM3', numberOrNull)}
-                error={errors.measuredDensityKgM3?.message}
-              />
-              <Field
-                label="Moisture content at that density (%)"
-                type="number"
-                step="0.1"
-                inputMode="decimal"
-                registration={form.register('measuredMoisturePct', numberOrNull)}
-                error={errors.measuredMoisturePct?.message}
-              />
+              <NumberField form={form} name="measuredDensityKgM3" label="Measured density (kg/m³)" />
+              <NumberField form={form} name="measuredMoisturePct" label="Moisture content at that density (%)" />
             </>
           )}
         </div>

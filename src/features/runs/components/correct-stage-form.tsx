@@ -7,7 +7,7 @@ import { FormError } from '../../../components/ui/field';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { useUnits } from '../../../lib/use-units';
 import { useCorrectStage } from '../api/use-correct-stage';
-import { fromLocalInput, toLocalInput } from './time-text';
+import { fromLocalInput, toLocalInput } from '../../../lib/format/dates';
 
 interface ReadingRow {
   id: number;

@@ -1,58 +1,90 @@
-import { useFieldArray, useForm, type UseFormRegister, type UseFormSetError } from 'react-hook-form';
+import { useMemo, useRef } from 'react';
+import { useFieldArray, useForm } from 'react-hook-form';
 import { GAUGE_UNITS, type GaugeUnit, type RunStage } from '../../../../shared/constants/records';
-import { DomainError, absolutePressureFromGauge, percentVacuum } from '../../../../shared/domain/index';
+import { DomainError } from '../../../../shared/domain/errors';
+import { absolutePressureFromGauge, percentVacuum } from '../../../../shared/domain/vacuum';
 import { recordStageSchema, type RecordStageInput, type RunDetail, type RunStageOut } from '../../../../shared/schemas/runs';
 import { STAGE_LABELS } from '../../../../shared/runs/stages';
 import { convertPressure } from '../../../../shared/units';
-import { FormError } from '../../../components/ui/field';
+import { Field, FormError } from '../../../components/ui/field';
+import { NumberField } from '../../../components/ui/number-field';
 import { applyServerErrors } from '../../../lib/form-errors';
+import { renameFields } from '../../../lib/form-values';
+import { fromLocalInput, toLocalInput } from '../../../lib/format/dates';
+import { numberInput, toSi, type DisplayUnits } from '../../../lib/forms/number-input';
+import { convertingResolver } from '../../../lib/forms/resolver';
 import { useUnits } from '../../../lib/use-units';
 import { useRecordStage } from '../api/use-record-stage';
-import { fromLocalInput, toLocalInput } from './time-text';
 
 interface ReadingValues {
   at: string;
-  gaugeValue: string;
+  gaugeValue: number | null;
   gaugeUnit: GaugeUnit;
 }
 
-/** What the form holds: times as the browser's local wall time, temperatures in the user's unit. */
-interface StageFormValues {
+/** What the form holds: times as the browser's local wall time, numbers in the user's unit. */
+export interface StageFormValues {
   startedAt: string;
   endedAt: string;
-  plannedHours: string;
-  plannedMins: string;
+  plannedHours: number | null;
+  plannedMins: number | null;
   bubblingStoppedAt: string;
-  ovenSetC: string;
-  ovenMeasuredC: string;
+  ovenSetC: number | null;
+  ovenMeasuredC: number | null;
   notes: string;
   readings: ReadingValues[];
 }
 
-type FieldName = keyof StageFormValues | `readings.${number}.${keyof ReadingValues}`;
+const hasOven = (s: RunStage) => s === 'drying' || s === 'cure';
 
-const num = (s: string): number | null => {
-  const t = s.trim().replace(',', '.');
-  if (t === '') return null;
-  const n = Number(t);
-  return Number.isFinite(n) ? n : NaN;
-};
-
-// The contract names fields in SI; the form's fields carry the same names except the planned length.
-function formField(path: string): FieldName {
-  if (path === 'plannedMinutes') return 'plannedHours';
-  return path as FieldName;
+interface StageContext {
+  stage: RunStage;
+  mode: 'start' | 'open';
+  /** The stage as recorded, when the form adds to an open one. */
+  existing?: Pick<RunStageOut, 'startedAt'>;
+  /** "End" was pressed (rather than "Save without ending"). */
+  end: boolean;
+  units: DisplayUnits;
 }
 
-const hasOven = (s: RunStage) => s === 'drying' || s === 'cure';
+/**
+ * The form's values as the contract's input: local times to ISO instants, hours and minutes to minutes,
+ * oven temperatures to °C, blank gauge rows left out. Pure, so it is tested on its own.
+ */
+export function toStageInput(v: StageFormValues, { stage, mode, existing, end, units }: StageContext): Record<string, unknown> {
+  const when = (s: string) => fromLocalInput(s) ?? undefined;
+  const h = v.plannedHours;
+  const m = v.plannedMins;
+  const plannedMinutes = h === null && m === null ? null : Math.round((h ?? 0) * 60 + (m ?? 0));
+  const input: Record<string, unknown> = {
+    stage,
+    // An open stage keeps its recorded start to the second; the form only shows it to the minute.
+    startedAt: mode === 'open' && existing ? existing.startedAt : when(v.startedAt),
+    plannedMinutes: plannedMinutes === 0 ? null : plannedMinutes,
+    notes: v.notes.trim() === '' ? null : v.notes.trim(),
+    readings: v.readings.filter((r) => r.gaugeValue !== null).map((r) => ({ at: when(r.at), gaugeValue: r.gaugeValue, gaugeUnit: r.gaugeUnit })),
+  };
+  if (end) input.endedAt = when(v.endedAt);
+  if (stage === 'vacuum') input.bubblingStoppedAt = fromLocalInput(v.bubblingStoppedAt);
+  if (hasOven(stage)) {
+    input.ovenSetC = toSi(v.ovenSetC, 'temperature', units);
+    input.ovenMeasuredC = toSi(v.ovenMeasuredC, 'temperature', units);
+  }
+  return input;
+}
+
+// The contract names fields in SI; the form's fields carry the same names except the planned length.
+const RENAMES = { plannedMinutes: 'plannedHours' };
+const REQUIRED = { startedAt: 'Enter a date and time', endedAt: 'Enter a date and time' };
+
 
 export const GAUGE_NOTE =
   'A vacuum gauge shows how far below the local air pressure the chamber is, and reads about 1 inHg less per 1,000 ft of altitude; absolute pressure and % vacuum are what compare across shops and altitudes.';
 
 /** Live preview of one gauge reading at the run's altitude, with the same arithmetic the server uses. */
-function ReadingPreview({ value, unit, altitudeM }: { value: string; unit: GaugeUnit; altitudeM: number }) {
+function ReadingPreview({ value, unit, altitudeM }: { value: number | null | undefined; unit: GaugeUnit; altitudeM: number }) {
   const units = useUnits();
-  const n = num(value);
+  const n = value ?? null;
   if (n === null) return null;
   if (Number.isNaN(n)) return <span className="text-margin">not a number</span>;
   try {
@@ -78,49 +110,6 @@ function ErrorText({ id, message }: { id: string; message?: string }) {
   );
 }
 
-function Input({
-  id,
-  label,
-  name,
-  register,
-  error,
-  hint,
-  type = 'text',
-  inputMode,
-}: {
-  id: string;
-  label: string;
-  name: FieldName;
-  register: UseFormRegister<StageFormValues>;
-  error?: string;
-  hint?: string;
-  type?: string;
-  inputMode?: 'decimal' | 'numeric';
-}) {
-  const describedBy = [hint ? `${id}-hint` : '', error ? `${id}-error` : ''].filter(Boolean).join(' ') || undefined;
-  return (
-    <div className="mb-3">
-      <label htmlFor={id} className="field-label">
-        {label}
-      </label>
-      <input id={id} type={type} inputMode={inputMode} className="field-input" aria-invalid={error ? true : undefined} aria-describedby={describedBy} {...register(name)} />
-      {hint && (
-        <p id={`${id}-hint`} className="mt-1 text-xs text-ink-faint">
-          {hint}
-        </p>
-      )}
-      <ErrorText id={`${id}-error`} message={error} />
-    </div>
-  );
-}
-
-function placeIssues(issues: readonly { path: PropertyKey[]; message: string }[], setError: UseFormSetError<StageFormValues>): void {
-  for (const i of issues) {
-    const path = i.path.map(String).join('.');
-    setError(path ? formField(path) : 'root', { message: i.message });
-  }
-}
-
 /**
  * Start a stage (mode "start") or add to the open one: gauge readings, oven temperatures, bubbling
  * time, and its end (mode "open"). Every value is converted to the stored units before it is sent.
@@ -129,19 +118,32 @@ export function StageForm({ run, stage, mode, existing, onSaved }: { run: RunDet
   const units = useUnits();
   const record = useRecordStage(run.id);
   const defaultUnit: GaugeUnit = units.unit('pressure') === 'inHg' ? 'inHg' : 'kPa';
-  const temp = (c: number | null | undefined) => (c == null ? '' : units.toDisplay(c, 'temperature').toFixed(1));
+  const temp = (c: number | null | undefined) => (c == null ? null : Number(units.toDisplay(c, 'temperature').toFixed(1)));
   const now = toLocalInput(new Date());
-  const form = useForm<StageFormValues>({
+  // Which button was pressed decides whether the stage ends; the resolver reads it when the form is checked.
+  const ending = useRef(false);
+  const resolver = useMemo(
+    () =>
+      convertingResolver<StageFormValues, typeof recordStageSchema>(
+        recordStageSchema,
+        (v) => toStageInput(v, { stage, mode, existing, end: ending.current, units }),
+        RENAMES,
+        mode === 'start' ? { startedAt: REQUIRED.startedAt } : {},
+      ),
+    [stage, mode, existing, units],
+  );
+  const form = useForm<StageFormValues, unknown, RecordStageInput>({
+    resolver,
     defaultValues: {
       startedAt: existing ? toLocalInput(existing.startedAt) : now,
       endedAt: now,
-      plannedHours: existing?.plannedMinutes != null ? String(Math.floor(existing.plannedMinutes / 60)) : '',
-      plannedMins: existing?.plannedMinutes != null ? String(existing.plannedMinutes % 60) : '',
+      plannedHours: existing?.plannedMinutes != null ? Math.floor(existing.plannedMinutes / 60) : null,
+      plannedMins: existing?.plannedMinutes != null ? existing.plannedMinutes % 60 : null,
       bubblingStoppedAt: existing?.bubblingStoppedAt ? toLocalInput(existing.bubblingStoppedAt) : '',
       ovenSetC: temp(existing?.ovenSetC),
       ovenMeasuredC: temp(existing?.ovenMeasuredC),
       notes: existing?.notes ?? '',
-      readings: stage === 'vacuum' && mode === 'start' ? [{ at: now, gaugeValue: '', gaugeUnit: defaultUnit }] : [],
+      readings: stage === 'vacuum' && mode === 'start' ? [{ at: now, gaugeValue: null, gaugeUnit: defaultUnit }] : [],
     },
   });
   const readings = useFieldArray({ control: form.control, name: 'readings' });
@@ -150,72 +152,29 @@ export function StageForm({ run, stage, mode, existing, onSaved }: { run: RunDet
   const label = STAGE_LABELS[stage];
   const lower = label.toLowerCase();
   const idp = `st-${run.id}-${stage}-${mode}`;
-  const tempUnit = units.label('temperature');
 
-  const submit = (end: boolean) =>
-    form.handleSubmit(async (v) => {
-      const bad: [FieldName, string][] = [];
-      const number = (field: FieldName, s: string): number | null => {
-        const n = num(s);
-        if (Number.isNaN(n)) bad.push([field, 'Enter a number']);
-        return n === null || Number.isNaN(n) ? null : n;
-      };
-      const when = (field: FieldName, s: string, required: boolean): string | null => {
-        const iso = fromLocalInput(s);
-        if (!iso && (required || s)) bad.push([field, 'Enter a date and time']);
-        return iso;
-      };
-      // An open stage keeps its recorded start to the second; the form only shows it to the minute.
-      const startedAt = mode === 'open' && existing ? existing.startedAt : when('startedAt', v.startedAt, true);
-      const endedAt = end ? when('endedAt', v.endedAt, true) : undefined;
-      const h = number('plannedHours', v.plannedHours);
-      const m = number('plannedMins', v.plannedMins);
-      const plannedMinutes = h === null && m === null ? null : Math.round((h ?? 0) * 60 + (m ?? 0));
-      const set = number('ovenSetC', v.ovenSetC);
-      const measured = number('ovenMeasuredC', v.ovenMeasuredC);
-      const candidate: Record<string, unknown> = {
-        stage,
-        startedAt,
-        plannedMinutes: plannedMinutes === 0 ? null : plannedMinutes,
-        notes: v.notes.trim() === '' ? null : v.notes.trim(),
-        readings: v.readings
-          .filter((r) => r.gaugeValue.trim() !== '')
-          .map((r, i) => ({ at: when(`readings.${i}.at`, r.at, true), gaugeValue: number(`readings.${i}.gaugeValue`, r.gaugeValue), gaugeUnit: r.gaugeUnit })),
-      };
-      if (end) candidate.endedAt = endedAt;
-      if (stage === 'vacuum') candidate.bubblingStoppedAt = when('bubblingStoppedAt', v.bubblingStoppedAt, false);
-      if (hasOven(stage)) {
-        candidate.ovenSetC = set === null ? null : units.fromDisplay(set, 'temperature');
-        candidate.ovenMeasuredC = measured === null ? null : units.fromDisplay(measured, 'temperature');
-      }
-      if (bad.length) {
-        for (const [f, msg] of bad) form.setError(f, { message: msg });
-        return;
-      }
-      const parsed = recordStageSchema.safeParse(candidate);
-      if (!parsed.success) {
-        placeIssues(parsed.error.issues, form.setError);
-        return;
-      }
+  const submit = (end: boolean) => {
+    ending.current = end;
+    return form.handleSubmit(async (input) => {
       try {
-        await record.mutateAsync(parsed.data as RecordStageInput);
+        await record.mutateAsync(input);
         form.setValue('readings', []);
         // The form may go away with the change (an ended stage has none), so the page says what happened.
         onSaved(mode === 'start' ? `${label} started.` : end ? `${label} ended.` : `${label} saved.`);
       } catch (err) {
-        applyServerErrors(err, (name, e) => form.setError(formField(String(name)), e), [
-          'stage',
+        applyServerErrors(renameFields(err, RENAMES), form.setError, [
           'startedAt',
           'endedAt',
-          'plannedMinutes',
+          'plannedHours',
           'bubblingStoppedAt',
           'ovenSetC',
           'ovenMeasuredC',
           'notes',
-          ...v.readings.flatMap((_, i) => [`readings.${i}.at`, `readings.${i}.gaugeValue`, `readings.${i}.gaugeUnit`]),
+          ...form.getValues('readings').flatMap((_, i) => [`readings.${i}.at`, `readings.${i}.gaugeValue`, `readings.${i}.gaugeUnit`]),
         ]);
       }
     });
+  };
 
   return (
     <form
@@ -227,9 +186,9 @@ export function StageForm({ run, stage, mode, existing, onSaved }: { run: RunDet
       <FormError message={errors.root?.message} />
       <div className="grid gap-x-4 sm:grid-cols-2">
         {mode === 'start' ? (
-          <Input id={`${idp}-start`} label={`${label} started at`} name="startedAt" register={form.register} type="datetime-local" error={errors.startedAt?.message} />
+          <Field label={`${label} started at`} type="datetime-local" registration={form.register('startedAt')} error={errors.startedAt?.message} />
         ) : (
-          <Input id={`${idp}-end`} label={`${label} ended at`} name="endedAt" register={form.register} type="datetime-local" error={errors.endedAt?.message} hint="Used only by the “End” button." />
+          <Field label={`${label} ended at`} type="datetime-local" registration={form.register('endedAt')} error={errors.endedAt?.message} hint="Used only by the “End” button." />
         )}
         <fieldset className="mb-3">
           <legend className="field-label">Planned length</legend>
@@ -243,7 +202,7 @@ export function StageForm({ run, stage, mode, existing, onSaved }: { run: RunDet
               className="field-input w-20"
               aria-invalid={errors.plannedHours ? true : undefined}
               aria-describedby={errors.plannedHours ? `${idp}-ph-error` : undefined}
-              {...form.register('plannedHours')}
+              {...form.register('plannedHours', numberInput)}
             />
             <span aria-hidden="true">h</span>
             <label htmlFor={`${idp}-pm`} className="sr-only">
@@ -255,7 +214,7 @@ export function StageForm({ run, stage, mode, existing, onSaved }: { run: RunDet
               className="field-input w-20"
               aria-invalid={errors.plannedMins ? true : undefined}
               aria-describedby={errors.plannedMins ? `${idp}-pm-error` : undefined}
-              {...form.register('plannedMins')}
+              {...form.register('plannedMins', numberInput)}
             />
             <span aria-hidden="true">min</span>
           </div>
@@ -292,7 +251,7 @@ export function StageForm({ run, stage, mode, existing, onSaved }: { run: RunDet
                       className="field-input w-28"
                       aria-invalid={e?.gaugeValue ? true : undefined}
                       aria-describedby={[`${idp}-r${i}-preview`, e?.gaugeValue ? `${idp}-r${i}-v-error` : ''].filter(Boolean).join(' ')}
-                      {...form.register(`readings.${i}.gaugeValue`)}
+                      {...form.register(`readings.${i}.gaugeValue`, numberInput)}
                     />
                     <ErrorText id={`${idp}-r${i}-v-error`} message={e?.gaugeValue?.message} />
                   </div>
@@ -318,25 +277,23 @@ export function StageForm({ run, stage, mode, existing, onSaved }: { run: RunDet
               );
             })}
           </ol>
-          <button type="button" className="btn-quiet mt-2" onClick={() => readings.append({ at: toLocalInput(new Date()), gaugeValue: '', gaugeUnit: watched.at(-1)?.gaugeUnit ?? defaultUnit })}>
+          <button type="button" className="btn-quiet mt-2" onClick={() => readings.append({ at: toLocalInput(new Date()), gaugeValue: null, gaugeUnit: watched.at(-1)?.gaugeUnit ?? defaultUnit })}>
             Add a gauge reading
           </button>
           <div className="mt-3 max-w-xs">
-            <Input id={`${idp}-bubbles`} label="Bubbling stopped at (optional)" name="bubblingStoppedAt" register={form.register} type="datetime-local" error={errors.bubblingStoppedAt?.message} />
+            <Field label="Bubbling stopped at (optional)" type="datetime-local" registration={form.register('bubblingStoppedAt')} error={errors.bubblingStoppedAt?.message} />
           </div>
         </fieldset>
       )}
 
       {hasOven(stage) && (
         <div className="grid gap-x-4 sm:grid-cols-2">
-          <Input id={`${idp}-set`} label={`Oven set point (${tempUnit})`} name="ovenSetC" register={form.register} inputMode="decimal" error={errors.ovenSetC?.message} />
-          <Input
-            id={`${idp}-meas`}
-            label={`Separate thermometer in the oven (${tempUnit})`}
+          <NumberField form={form} name="ovenSetC" label="Oven set point" quantity="temperature" />
+          <NumberField
+            form={form}
             name="ovenMeasuredC"
-            register={form.register}
-            inputMode="decimal"
-            error={errors.ovenMeasuredC?.message}
+            label="Separate thermometer in the oven"
+            quantity="temperature"
             hint="Small ovens often read low against their own dial; the thermometer's reading is the one the checks use."
           />
         </div>
