@@ -22,7 +22,8 @@ export {
 export { absolutePressureFromGauge, percentVacuum, standardPressureAtAltitude } from './vacuum';
 export { reachedConstantMass } from './drying';
 export type { ConstantMassCriteria, ConstantMassResult, MassReading } from './drying';
-export { summarize, welchTest } from './statistics';
+export { HEDGES_G_NOTE, summarize, welchTest } from './statistics';
+export { NO_SPREAD_RELATIVE, hasSpread } from './spread';
 export type { Summary, WelchResult } from './statistics';
 export { fitLinear, fitMultiple } from './regression';
 export type { LinearFit, MultipleFit } from './regression';

@@ -1,6 +1,5 @@
-import { Matrix, QrDecomposition } from 'ml-matrix';
-import { mean } from 'simple-statistics';
 import { DomainError, requireFinite, requireFiniteArray } from './errors';
+import { NO_SPREAD_RELATIVE, compensatedSum, isNegligibleSpread } from './spread';
 
 export interface LinearFit {
   intercept: number;
@@ -28,7 +27,8 @@ export interface MultipleFit {
  * Straight-line least squares y = b₀ + b₁x on centered sums (two-pass, so large offsets in x do not
  * cancel digits): b₁ = Σ(x − x̄)(y − ȳ)/Σ(x − x̄)², b₀ = ȳ − b₁x̄, s = √(SSE/(n − 2)),
  * SE(b₁) = s/√Sxx, SE(b₀) = s·√(1/n + x̄²/Sxx), R² = 1 − SSE/Syy. Reproduces the certified values of
- * NIST StRD Norris to 12 or more significant digits. Needs 3 points and some spread in x and y.
+ * NIST StRD Norris to 12 or more significant digits. Needs 3 points and some spread in x and y, judged
+ * relative to their size (see spread.ts).
  */
 export function fitLinear(x: readonly number[], y: readonly number[]): LinearFit {
   requireFiniteArray(x, 'x', 3);
@@ -37,20 +37,31 @@ export function fitLinear(x: readonly number[], y: readonly number[]): LinearFit
     throw new DomainError('length-mismatch', 'y', `y has ${y.length} values but x has ${x.length}`);
   }
   const n = x.length;
-  const mx = mean(x as number[]);
-  const my = mean(y as number[]);
+  const mx = compensatedSum(x) / n;
+  const my = compensatedSum(y) / n;
   let sxx = 0;
   let sxy = 0;
   let syy = 0;
+  let xx = 0;
+  let yy = 0;
   for (let i = 0; i < n; i++) {
-    const dx = (x[i] as number) - mx;
-    const dy = (y[i] as number) - my;
+    const xi = x[i] as number;
+    const yi = y[i] as number;
+    const dx = xi - mx;
+    const dy = yi - my;
     sxx += dx * dx;
     sxy += dx * dy;
     syy += dy * dy;
+    xx += xi * xi;
+    yy += yi * yi;
   }
-  if (sxx === 0) throw new DomainError('no-variation', 'x', 'all x values are equal, so no slope can be fitted');
-  if (syy === 0) throw new DomainError('no-variation', 'y', 'all y values are equal, so R² is undefined');
+  // Relative to the data's size, so a constant column whose mean rounds by one ulp is still constant.
+  if (isNegligibleSpread(sxx, xx)) {
+    throw new DomainError('no-variation', 'x', 'all x values are equal (to within roundoff), so no slope can be fitted');
+  }
+  if (isNegligibleSpread(syy, yy)) {
+    throw new DomainError('no-variation', 'y', 'all y values are equal (to within roundoff), so R² is undefined');
+  }
   const slope = sxy / sxx;
   const intercept = my - slope * mx;
   // Residuals from the centered form: y − ŷ = (y − ȳ) − b₁(x − x̄), which avoids re-adding the offset.
@@ -71,16 +82,19 @@ export function fitLinear(x: readonly number[], y: readonly number[]): LinearFit
   };
 }
 
-/** A column is treated as a linear combination of the earlier ones below this share of its own length. */
-const RANK_TOLERANCE = 1e-10;
-
 /**
- * Multiple least squares y = b₀ + Σ bⱼxⱼ by Householder QR (ml-matrix) of the column-centered design,
- * not by the normal equations: XᵀX squares the condition number, and on NIST StRD Longley the normal
- * equations keep no correct digit while QR keeps 12 or more. With X_c = QR:
- * b = R⁻¹Qᵀ(y − ȳ), b₀ = ȳ − x̄ᵀb, s² = SSE/(n − p − 1), Cov(b) = s²R⁻¹R⁻ᵀ,
+ * Multiple least squares y = b₀ + Σ bⱼxⱼ by Householder QR of the column-centered design, not by the
+ * normal equations: XᵀX squares the condition number, and on NIST StRD Longley the normal equations keep
+ * no correct digit while QR keeps 12 or more. With X_c = QR:
+ * b = R⁻¹Qᵀ(y − ȳ), b₀ = ȳ − x̄ᵀb, SSE = ‖(Qᵀ(y − ȳ))ₚ₊₁…ₙ‖², s² = SSE/(n − p − 1), Cov(b) = s²R⁻¹R⁻ᵀ,
  * Var(b₀) = s²(1/n + ‖R⁻ᵀx̄‖²) (centered columns are orthogonal to the intercept), R² = 1 − SSE/SST.
  * Golub & Van Loan, Matrix Computations, ch. 5 (from memory). Needs n ≥ p + 2 rows.
+ *
+ * The design lives in one packed column-major Float64Array with y − ȳ as its last column, so Qᵀy comes
+ * out of the same reflections and the work is O(n·p²) time and O(n·p) memory, linear in the rows.
+ * A column is refused as rank-deficient when its QR diagonal (what is left of it after the intercept and
+ * the earlier columns are taken out) is negligible against the column's own size √Σx², the same "no
+ * spread" rule as fitLinear and welchTest (NO_SPREAD_RELATIVE).
  */
 export function fitMultiple(rows: readonly (readonly number[])[], y: readonly number[]): MultipleFit {
   if (!Array.isArray(rows) || rows.length === 0) {
@@ -92,52 +106,92 @@ export function fitMultiple(rows: readonly (readonly number[])[], y: readonly nu
   if (n < p + 2) {
     throw new DomainError('too-few-points', 'rows', `${p} predictors need at least ${p + 2} rows, got ${n}`);
   }
-  rows.forEach((row, i) => {
-    if (!Array.isArray(row) || row.length !== p) {
-      throw new DomainError('length-mismatch', 'rows', `row ${i} has ${row?.length ?? 0} values, expected ${p}`, i);
-    }
-    row.forEach((v) => requireFinite(v, 'rows', i));
-  });
   requireFiniteArray(y, 'y', 0);
   if (y.length !== n) throw new DomainError('length-mismatch', 'y', `y has ${y.length} values but rows has ${n}`);
 
-  const xMeans: number[] = [];
-  for (let j = 0; j < p; j++) xMeans.push(mean(rows.map((row) => row[j] as number)));
-  const yMean = mean(y as number[]);
-
-  const centered = new Matrix(n, p);
-  const yc = new Matrix(n, 1);
-  let sst = 0;
+  // Pack the predictors column-major (validating as we go), then y as column p.
+  const cols = p + 1;
+  const a = new Float64Array(n * cols);
   for (let i = 0; i < n; i++) {
-    const row = rows[i] as readonly number[];
-    for (let j = 0; j < p; j++) centered.set(i, j, (row[j] as number) - (xMeans[j] as number));
-    const d = (y[i] as number) - yMean;
-    yc.set(i, 0, d);
-    sst += d * d;
+    const row = rows[i];
+    if (!Array.isArray(row) || row.length !== p) {
+      throw new DomainError('length-mismatch', 'rows', `row ${i} has ${row?.length ?? 0} values, expected ${p}`, i);
+    }
+    for (let j = 0; j < p; j++) a[j * n + i] = requireFinite(row[j] as number, 'rows', i);
+    a[p * n + i] = y[i] as number;
   }
-  if (sst === 0) throw new DomainError('no-variation', 'y', 'all y values are equal, so R² is undefined');
 
-  const columnNorms = Array.from({ length: p }, (_, j) => centered.getColumnVector(j).norm());
-  const qr = new QrDecomposition(centered);
-  const r = qr.upperTriangularMatrix;
+  // Centre every column on its compensated mean; keep Σx² of each raw column as its size.
+  const means = new Float64Array(cols);
+  const rawNorms = new Float64Array(cols);
+  const centredSumSq = new Float64Array(cols);
+  for (let j = 0; j < cols; j++) {
+    const column = a.subarray(j * n, (j + 1) * n);
+    const m = compensatedSum(column) / n;
+    let raw = 0;
+    let centred = 0;
+    for (let i = 0; i < n; i++) {
+      const v = column[i] as number;
+      raw += v * v;
+      const d = v - m;
+      column[i] = d;
+      centred += d * d;
+    }
+    means[j] = m;
+    rawNorms[j] = Math.sqrt(raw);
+    centredSumSq[j] = centred;
+  }
+  const sst = centredSumSq[p] as number;
+  if (isNegligibleSpread(sst, (rawNorms[p] as number) ** 2)) {
+    throw new DomainError('no-variation', 'y', 'all y values are equal (to within roundoff), so R² is undefined');
+  }
   for (let j = 0; j < p; j++) {
-    if (Math.abs(r.get(j, j)) <= RANK_TOLERANCE * (columnNorms[j] as number)) {
+    if (isNegligibleSpread(centredSumSq[j] as number, (rawNorms[j] as number) ** 2)) {
+      throw new DomainError('rank-deficient', 'rows', `predictor ${j + 1} has no spread (every value is the same)`);
+    }
+  }
+
+  // Householder QR in place: column k's reflection zeroes rows k+1…n−1 and is applied to columns k+1…p.
+  const r = new Float64Array(p * p); // row-major upper triangle
+  for (let k = 0; k < p; k++) {
+    const base = k * n;
+    let norm2 = 0;
+    for (let i = k; i < n; i++) norm2 += (a[base + i] as number) ** 2;
+    const norm = Math.sqrt(norm2);
+    const akk = a[base + k] as number;
+    const alpha = akk > 0 ? -norm : norm;
+    if (Math.abs(alpha) <= NO_SPREAD_RELATIVE * (rawNorms[k] as number)) {
       throw new DomainError(
         'rank-deficient',
         'rows',
-        `predictor ${j + 1} is constant or a linear combination of the others`,
+        `predictor ${k + 1} is constant or a linear combination of the others`,
       );
     }
+    // v = (akk − alpha, a[k+1…]); vᵀv = 2·norm·(norm + |akk|); H = I − 2vvᵀ/vᵀv.
+    const v0 = akk - alpha;
+    const vtv = 2 * norm * (norm + Math.abs(akk));
+    a[base + k] = v0;
+    for (let j = k + 1; j < cols; j++) {
+      const cj = j * n;
+      let s = 0;
+      for (let i = k; i < n; i++) s += (a[base + i] as number) * (a[cj + i] as number);
+      const f = (2 * s) / vtv;
+      for (let i = k; i < n; i++) a[cj + i] = (a[cj + i] as number) - f * (a[base + i] as number);
+    }
+    r[k * p + k] = alpha;
+    for (let j = k + 1; j < p; j++) r[k * p + j] = a[j * n + k] as number;
   }
-  const b = qr.solve(yc).getColumn(0);
 
-  let sse = 0;
-  for (let i = 0; i < n; i++) {
-    let fitted = 0;
-    for (let j = 0; j < p; j++) fitted += centered.get(i, j) * (b[j] as number);
-    const res = yc.get(i, 0) - fitted;
-    sse += res * res;
+  // Qᵀ(y − ȳ): its first p entries give b by back substitution, the rest are the residual components.
+  const qty = a.subarray(p * n, (p + 1) * n);
+  const b = new Array<number>(p).fill(0);
+  for (let i = p - 1; i >= 0; i--) {
+    let s = qty[i] as number;
+    for (let k = i + 1; k < p; k++) s -= (r[i * p + k] as number) * (b[k] as number);
+    b[i] = s / (r[i * p + i] as number);
   }
+  let sse = 0;
+  for (let i = p; i < n; i++) sse += (qty[i] as number) ** 2;
   const dfResidual = n - p - 1;
   const residualSd = Math.sqrt(sse / dfResidual);
 
@@ -147,10 +201,11 @@ export function fitMultiple(rows: readonly (readonly number[])[], y: readonly nu
   let wNorm2 = 0;
   for (let k = 0; k < p; k++) {
     let w = 0;
-    for (let j = 0; j <= k; j++) w += (rInv[j]?.[k] as number) * (xMeans[j] as number);
+    for (let j = 0; j <= k; j++) w += (rInv[j]?.[k] as number) * (means[j] as number);
     wNorm2 += w * w;
   }
-  const intercept = yMean - b.reduce((s, bj, j) => s + bj * (xMeans[j] as number), 0);
+  const yMean = means[p] as number;
+  const intercept = yMean - b.reduce((s, bj, j) => s + bj * (means[j] as number), 0);
   return {
     coefficients: [intercept, ...b],
     standardErrors: [residualSd * Math.sqrt(1 / n + wNorm2), ...slopeSes],
@@ -160,14 +215,14 @@ export function fitMultiple(rows: readonly (readonly number[])[], y: readonly nu
   };
 }
 
-/** Inverse of the p×p upper-triangular R by back substitution, column by column, as nested arrays. */
-function upperTriangularInverse(r: Matrix, p: number): number[][] {
+/** Inverse of the p×p upper-triangular R (row-major) by back substitution, column by column. */
+function upperTriangularInverse(r: Float64Array, p: number): number[][] {
   const inv = Array.from({ length: p }, () => new Array<number>(p).fill(0));
   for (let col = 0; col < p; col++) {
     for (let i = col; i >= 0; i--) {
       let s = i === col ? 1 : 0;
-      for (let k = i + 1; k <= col; k++) s -= r.get(i, k) * (inv[k]?.[col] as number);
-      (inv[i] as number[])[col] = s / r.get(i, i);
+      for (let k = i + 1; k <= col; k++) s -= (r[i * p + k] as number) * (inv[k]?.[col] as number);
+      (inv[i] as number[])[col] = s / (r[i * p + i] as number);
     }
   }
   return inv;

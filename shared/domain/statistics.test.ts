@@ -2,7 +2,7 @@ import jStat from 'jstat';
 import { sampleStandardDeviation, tTestTwoSample } from 'simple-statistics';
 import { describe, expect, it } from 'vitest';
 import { readNistData } from '../../tests/reference/read-reference';
-import { summarize, welchTest } from './index';
+import { HEDGES_G_NOTE, hasSpread, summarize, welchTest } from './index';
 
 /** NIST's log relative error: the number of correct significant digits. */
 const lre = (computed: number, certified: number) =>
@@ -114,5 +114,55 @@ describe('the incomplete beta from jstat that welchTest uses for p, verified whe
     const p2 = 1 - t / Math.sqrt(2 + t * t);
     expect(lre(jStat.ibeta(1 / (1 + t * t), 0.5, 0.5), p1)).toBeGreaterThanOrEqual(7);
     expect(lre(jStat.ibeta(2 / (2 + t * t), 1, 0.5), p2)).toBeGreaterThanOrEqual(7);
+  });
+});
+
+describe('welchTest: "no spread" relative to the data\'s size', () => {
+  it('refuses two constant groups whose variances are roundoff: [0.3, 0.3, 0.3] vs [0.35, 0.35, 0.35]', () => {
+    // By hand: both groups are constant, so the t statistic is 0/0; the old exact-zero test gave t = −1.27e15.
+    expect(() => welchTest([0.3, 0.3, 0.3], [0.35, 0.35, 0.35])).toThrow(
+      expect.objectContaining({ code: 'no-variation' }),
+    );
+  });
+
+  it('treats a roundoff-only variance as exactly zero when the other group has spread', () => {
+    // With s_a² = 0 Welch reduces to the one-sample t of b against mean(a): t = (x̄_a − x̄_b)/(s_b/√n_b),
+    // df = n_b − 1 (by hand from the formulas).
+    const a = [0.35, 0.35, 0.35];
+    const b = [0.3, 0.4, 0.5, 0.6];
+    const w = welchTest(a, b);
+    const sb = Math.sqrt(((0.3 - 0.45) ** 2 + (0.4 - 0.45) ** 2 + (0.5 - 0.45) ** 2 + (0.6 - 0.45) ** 2) / 3);
+    expect(w.t).toBeCloseTo((0.35 - 0.45) / (sb / 2), 12);
+    expect(w.df).toBe(3);
+  });
+});
+
+describe("welchTest names what its Hedges' g is (correction and standardizer)", () => {
+  it('returns J and the pooled SD it used, and g = J·(x̄_a − x̄_b)/s_pooled (Hedges 1981), on the sleep data', () => {
+    const drug1 = [0.7, -1.6, -0.2, -1.2, -0.1, 3.4, 3.7, 0.8, 0.0, 2.0];
+    const drug2 = [1.9, 0.8, 1.1, 0.1, -0.1, 4.4, 5.5, 1.6, 4.6, 3.4];
+    const w = welchTest(drug1, drug2);
+    expect(w.hedgesCorrection).toBeCloseTo(1 - 3 / 71, 15);
+    const v1 = drug1.reduce((s, x) => s + (x - 0.75) ** 2, 0) / 9;
+    const v2 = drug2.reduce((s, x) => s + (x - 2.33) ** 2, 0) / 9;
+    expect(w.pooledSd).toBeCloseTo(Math.sqrt((v1 + v2) / 2), 13);
+    expect(w.hedgesG).toBeCloseTo((w.hedgesCorrection * w.meanDiff) / w.pooledSd, 14);
+    expect(HEDGES_G_NOTE).toMatch(/pooled standard deviation/);
+    expect(HEDGES_G_NOTE).toMatch(/J = 1 − 3\/\(4\(n₁ \+ n₂\) − 9\)/);
+  });
+});
+
+describe('hasSpread: the shared "no spread" rule (relative to the values\' size)', () => {
+  // [values, expected, why]
+  const rows: [number[], boolean, string][] = [
+    [[0.35, 0.35, 0.35], false, 'equal values whose mean rounds by one ulp'],
+    [[12.7, 12.700000000000001, 12.7, 12.7], false, 'one ulp apart, as a unit conversion can leave them'],
+    [[0, 0, 0], false, 'all zero'],
+    [[10000000.1, 10000000.3], true, 'a spread of 1e-8 of the size (NIST StRD NumAcc4 scale)'],
+    [[1e-30, 2e-30], true, 'tiny values with a real relative spread'],
+    [[5], false, 'a single value'],
+  ];
+  it.each(rows)('%j → %s (%s)', (values, expected) => {
+    expect(hasSpread(values)).toBe(expected);
   });
 });

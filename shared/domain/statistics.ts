@@ -1,6 +1,7 @@
 import jStat from 'jstat';
 import { max, mean, median, min, sampleVariance } from 'simple-statistics';
 import { DomainError, requireFiniteArray } from './errors';
+import { isNegligibleSpread, spreadSums } from './spread';
 
 /**
  * Two-sided 95 % quantile of Student's t with df degrees of freedom (df may be fractional), from jstat.
@@ -60,9 +61,21 @@ export interface WelchResult {
   meanDiff: number;
   /** 95 % confidence interval of mean(a) − mean(b). */
   ci95: [number, number];
-  /** Standardized difference with pooled SD and the small-sample correction J. */
+  /**
+   * Hedges' g: (mean(a) − mean(b)) / pooled SD, times the small-sample correction J (see HEDGES_G_NOTE).
+   * Without J it would be Cohen's d with the pooled SD.
+   */
   hedgesG: number;
+  /** The small-sample correction J = 1 − 3/(4(n_a + n_b) − 9) that hedgesG includes. */
+  hedgesCorrection: number;
+  /** The standardizer of hedgesG: √[((n_a − 1)s_a² + (n_b − 1)s_b²)/(n_a + n_b − 2)], in the units of the data. */
+  pooledSd: number;
 }
+
+/** What Hedges' g is, in words to show beside it wherever it is shown. */
+export const HEDGES_G_NOTE =
+  "Hedges' g: the difference of the means divided by the pooled standard deviation of both groups, " +
+  'times the small-sample correction J = 1 − 3/(4(n₁ + n₂) − 9).';
 
 /**
  * Welch's unequal-variance t test, two-sided: t = (x̄_a − x̄_b)/√(s_a²/n_a + s_b²/n_b),
@@ -70,7 +83,8 @@ export interface WelchResult {
  * Welch (1947) Biometrika 34:28–35. Effect size Hedges' g = J·(x̄_a − x̄_b)/s_pooled,
  * J = 1 − 3/(4(n_a + n_b) − 9); Hedges (1981) J. Educational Statistics 6(2):107–128. Both citations'
  * volume and pages are from memory.
- * Each group needs 2 values; two groups with no spread at all leave t undefined.
+ * Each group needs 2 values. A group whose spread is roundoff against its size (spread.ts) counts as
+ * exactly no spread; two such groups leave t undefined and are refused.
  */
 export function welchTest(a: readonly number[], b: readonly number[]): WelchResult {
   requireFiniteArray(a, 'a', 2);
@@ -79,10 +93,16 @@ export function welchTest(a: readonly number[], b: readonly number[]): WelchResu
   const xb = b as number[];
   const na = xa.length;
   const nb = xb.length;
-  const va = sampleVariance(xa);
-  const vb = sampleVariance(xb);
+  const sa = spreadSums(xa);
+  const sb = spreadSums(xb);
+  const va = isNegligibleSpread(sa.centredSumSq, sa.rawSumSq) ? 0 : sampleVariance(xa);
+  const vb = isNegligibleSpread(sb.centredSumSq, sb.rawSumSq) ? 0 : sampleVariance(xb);
   if (va === 0 && vb === 0) {
-    throw new DomainError('no-variation', 'a', 'both groups have zero spread, so the t test is undefined');
+    throw new DomainError(
+      'no-variation',
+      'a',
+      'neither group has any spread (all values equal to within roundoff), so the t test is undefined',
+    );
   }
   const meanDiff = mean(xa) - mean(xb);
   const qa = va / na;
@@ -100,5 +120,7 @@ export function welchTest(a: readonly number[], b: readonly number[]): WelchResu
     meanDiff,
     ci95: [meanDiff - half, meanDiff + half],
     hedgesG: (j * meanDiff) / pooledSd,
+    hedgesCorrection: j,
+    pooledSd,
   };
 }

@@ -1,0 +1,217 @@
+import { DEFAULT_CELL_WALL_DENSITY, DomainError, fitLinear, fitMultiple, maxWeightPercentGain } from '../domain/index';
+import type { LinearFit } from '../domain/index';
+import { DEFAULT_SG_COV, SG_WARNING_SDS, sgWarningText } from '../coupons/plausibility';
+import type { AnalysisCoupon, Fit, Outlier, Overview } from '../schemas/analysis';
+import { fitThroughOrigin, fmt, t975 } from './stats';
+
+export interface XY {
+  c: AnalysisCoupon;
+  x: number;
+  y: number;
+}
+
+/** Beyond this many residual SDs (internally studentized) a coupon is listed as an outlier; common practice. */
+export const RESIDUAL_OUTLIER_Z = 3;
+const BAND_STEPS = 40;
+
+const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`;
+
+function direction(v: number, up: string, down: string): string {
+  return v >= 0 ? up : down;
+}
+
+function ciText(lo: number, hi: number, scale: number, digits: number): string {
+  const a = lo * scale;
+  const b = hi * scale;
+  return `95 % CI ${fmt(Math.min(a, b), digits)} to ${fmt(Math.max(a, b), digits)}`;
+}
+
+export interface SimpleFitResult {
+  fit: Fit;
+  linear: LinearFit;
+  xMean: number;
+  sxx: number;
+}
+
+/**
+ * WPG against one predictor by the core's `fitLinear`, with the 95 % confidence band for the mean line:
+ * ŷ(x) ± t₀.₉₇₅,ₙ₋₂ · s · √(1/n + (x − x̄)²/Sxx) (e.g. NIST/SEMATECH e-Handbook §4.5.2, section from memory).
+ * `per` is the step the sentence speaks in (0.1 of SG, 1 mm). Null with a reason when no line can be fitted.
+ */
+export function simpleFit(
+  model: 'density' | 'thickness',
+  pts: readonly XY[],
+): SimpleFitResult | { note: string } {
+  const what = model === 'density' ? 'oven-dry SG' : 'thickness';
+  if (pts.length < 3) return { note: `No WPG–${what} line: it needs at least 3 coupons, and ${pts.length} have both values.` };
+  const x = pts.map((p) => p.x);
+  const y = pts.map((p) => p.y);
+  let linear: LinearFit;
+  try {
+    linear = fitLinear(x, y);
+  } catch (e) {
+    if (e instanceof DomainError) return { note: `No WPG–${what} line: ${e.message}.` };
+    throw e;
+  }
+  const n = linear.n;
+  const xMean = x.reduce((s, v) => s + v, 0) / n;
+  const sxx = x.reduce((s, v) => s + (v - xMean) * (v - xMean), 0);
+  const t = t975(n - 2);
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (const v of x) {
+    if (v < lo) lo = v;
+    if (v > hi) hi = v;
+  }
+  const band: Fit['band'] = [];
+  for (let i = 0; i <= BAND_STEPS; i++) {
+    const xi = lo + ((hi - lo) * i) / BAND_STEPS;
+    const f = linear.intercept + linear.slope * xi;
+    const half = t * linear.residualSd * Math.sqrt(1 / n + ((xi - xMean) * (xi - xMean)) / sxx);
+    band.push({ x: xi, fit: f, lo: f - half, hi: f + half });
+  }
+  const ci = (est: number, se: number): [number, number] => [est - t * se, est + t * se];
+  const slopeCi = ci(linear.slope, linear.slopeSe);
+  const step = model === 'density' ? 0.1 : 1;
+  const stepWords = model === 'density' ? 'each 0.1 rise in oven-dry SG' : 'each 1 mm of extra thickness';
+  const change = linear.slope * step;
+  const sentence =
+    `Across ${plural(n, 'coupon')}, WPG ${direction(change, 'rises', 'falls')} by about ${fmt(Math.abs(change))} points for ${stepWords} ` +
+    `(${ciText(slopeCi[0], slopeCi[1], step, 1)}); the line accounts for ${fmt(linear.r2 * 100, 0)} % of the spread (R² = ${fmt(linear.r2, 2)}) ` +
+    `and coupons scatter about ±${fmt(linear.residualSd)} points around it (residual SD). The shaded band is the 95 % confidence band of the mean line.`;
+  return {
+    fit: {
+      model,
+      n,
+      coefficients: [
+        { name: 'intercept', estimate: linear.intercept, se: linear.interceptSe, ci95: ci(linear.intercept, linear.interceptSe) },
+        { name: model === 'density' ? 'SG' : 'thickness (mm)', estimate: linear.slope, se: linear.slopeSe, ci95: slopeCi },
+      ],
+      r2: linear.r2,
+      residualSd: linear.residualSd,
+      sentence,
+      band,
+    },
+    linear,
+    xMean,
+    sxx,
+  };
+}
+
+/**
+ * WPG on oven-dry SG and thickness together, by the core's `fitMultiple` (QR), with a plain reading at
+ * equal thickness and at equal SG.
+ */
+export function multipleFit(pts: readonly { sg: number; thickness: number; y: number }[]): Fit | { note: string } {
+  if (pts.length < 4) return { note: `No fit on SG and thickness together: it needs at least 4 coupons, and ${pts.length} have all three values.` };
+  let m;
+  try {
+    m = fitMultiple(
+      pts.map((p) => [p.sg, p.thickness]),
+      pts.map((p) => p.y),
+    );
+  } catch (e) {
+    if (e instanceof DomainError) {
+      const why = e.code === 'rank-deficient' ? 'SG or thickness does not vary independently (e.g. every coupon has the same thickness)' : e.message;
+      return { note: `No fit on SG and thickness together: ${why}.` };
+    }
+    throw e;
+  }
+  const t = t975(m.n - 3);
+  const names = ['intercept', 'SG', 'thickness (mm)'];
+  const coefficients = m.coefficients.map((est, i) => {
+    const se = m.standardErrors[i] as number;
+    return { name: names[i] as string, estimate: est, se, ci95: [est - t * se, est + t * se] as [number, number] };
+  });
+  const sg = coefficients[1] as Fit['coefficients'][number];
+  const th = coefficients[2] as Fit['coefficients'][number];
+  const sentence =
+    `At equal thickness, each 0.1 of SG ${direction(sg.estimate, 'raises', 'lowers')} uptake by about ${fmt(Math.abs(sg.estimate * 0.1))} points ` +
+    `(${ciText(sg.ci95[0], sg.ci95[1], 0.1, 1)}); at equal SG, each 1 mm of thickness ${direction(th.estimate, 'raises', 'lowers')} it by about ` +
+    `${fmt(Math.abs(th.estimate), 2)} points (${ciText(th.ci95[0], th.ci95[1], 1, 2)}). Together they account for ${fmt(m.r2 * 100, 0)} % of the spread ` +
+    `(R² = ${fmt(m.r2, 2)}, residual SD ${fmt(m.residualSd)} points, ${plural(m.n, 'coupon')}).`;
+  return { model: 'density+thickness', n: m.n, coefficients, r2: m.r2, residualSd: m.residualSd, sentence, band: [] };
+}
+
+/**
+ * Outliers: an internally studentized residual r/(s·√(1 − h)), h = 1/n + (x − x̄)²/Sxx, beyond
+ * RESIDUAL_OUTLIER_Z on the WPG–SG line; and a measured SG beyond SG_WARNING_SDS species SDs from the
+ * species reference (the same rule the entry grid flags with).
+ */
+export function findOutliers(pts: readonly XY[], fit: SimpleFitResult | null, all: readonly AnalysisCoupon[]): Outlier[] {
+  const out: Outlier[] = [];
+  if (fit) {
+    const { linear, xMean, sxx } = fit;
+    const n = linear.n;
+    for (const p of pts) {
+      const expected = linear.intercept + linear.slope * p.x;
+      const h = 1 / n + ((p.x - xMean) * (p.x - xMean)) / sxx;
+      const z = (p.y - expected) / (linear.residualSd * Math.sqrt(Math.max(1 - h, 1e-12)));
+      if (Math.abs(z) > RESIDUAL_OUTLIER_Z) {
+        out.push({
+          id: p.c.id,
+          tag: p.c.tag,
+          kind: 'residual',
+          value: z,
+          reason: `WPG ${fmt(p.y)} % where the line expects ${fmt(expected)} % at SG ${p.x.toFixed(3)}: a standardized residual of ${fmt(z)}.`,
+        });
+      }
+    }
+  }
+  for (const c of all) {
+    if (c.drySg === null || c.referenceSg === null) continue;
+    const cov = c.referenceSgCov ?? DEFAULT_SG_COV;
+    const z = (c.drySg - c.referenceSg) / (cov * c.referenceSg);
+    if (Math.abs(z) > SG_WARNING_SDS) {
+      out.push({ id: c.id, tag: c.tag, kind: 'sg', value: z, reason: sgWarningText(c.drySg, { referenceSg: c.referenceSg, coefficientOfVariation: cov, z, plausible: false }) });
+    }
+  }
+  return out;
+}
+
+/**
+ * The theoretical-maximum curve WPG_max(SG) of the core's `maxWeightPercentGain` for each resin among the
+ * points, over their SG range, with the fraction of voids filled the data imply: least squares through
+ * the origin of actual WPG on each coupon's WPG_max at the plotted SG.
+ */
+export function theoreticalMax(pts: readonly XY[]): Overview['theoreticalMax'] {
+  const byResin = new Map<string, { name: string; density: number; pts: XY[] }>();
+  for (const p of pts) {
+    const d = p.c.resinDensityGcm3;
+    if (d === null || p.c.resinName === null) continue;
+    const k = `${p.c.resinName}|${d}`;
+    const e = byResin.get(k) ?? { name: p.c.resinName, density: d, pts: [] };
+    e.pts.push(p);
+    byResin.set(k, e);
+  }
+  const out: Overview['theoreticalMax'] = [];
+  for (const { name, density, pts: list } of byResin.values()) {
+    let lo = Infinity;
+    let hi = -Infinity;
+    for (const p of list) {
+      if (p.x < lo) lo = p.x;
+      if (p.x > hi) hi = p.x;
+    }
+    lo = Math.max(0.05, lo - 0.05);
+    hi = Math.min(DEFAULT_CELL_WALL_DENSITY - 0.05, hi + 0.05);
+    const curve: { x: number; y: number }[] = [];
+    for (let i = 0; i <= BAND_STEPS; i++) {
+      const x = lo + ((hi - lo) * i) / BAND_STEPS;
+      curve.push({ x, y: maxWeightPercentGain(x, density) });
+    }
+    const mx: number[] = [];
+    const my: number[] = [];
+    for (const p of list) {
+      if (p.x <= 0 || p.x >= DEFAULT_CELL_WALL_DENSITY) continue;
+      mx.push(maxWeightPercentGain(p.x, density));
+      my.push(p.y);
+    }
+    let impliedFill: Overview['theoreticalMax'][number]['impliedFill'] = null;
+    if (mx.length >= 2) {
+      const f = fitThroughOrigin(mx, my);
+      impliedFill = { fraction: f.slope, ci95: f.ci95, n: f.n };
+    }
+    out.push({ resinName: name, resinDensityGcm3: density, cellWallDensityGcm3: DEFAULT_CELL_WALL_DENSITY, curve, impliedFill });
+  }
+  return out;
+}

@@ -1,0 +1,97 @@
+import { hardnessGain } from '../domain/index';
+import type { HardnessScale } from '../constants/records';
+import type { AnalysisCoupon, GroupRow, SgBasis } from '../schemas/analysis';
+import { statsOf } from './stats';
+
+/** The oven-dry SG a coupon is placed at: its own (mass over volume) or its species' reference. */
+export function sgOf(c: AnalysisCoupon, basis: SgBasis): number | null {
+  return basis === 'measured' ? c.drySg : c.referenceSg;
+}
+
+/**
+ * Why a treated coupon cannot enter the uptake analysis (empty when it can). Reasons come from the
+ * results table's record of blank metrics where it has one; otherwise they name the missing reading.
+ */
+export function exclusionReasons(c: AnalysisCoupon, basis: SgBasis): string[] {
+  const reasons: string[] = [];
+  if (c.wpgPct === null) {
+    if (c.blankReasons.wpgPct) reasons.push(c.blankReasons.wpgPct);
+    else if (c.dryMassG === null) reasons.push('No dry weighing');
+    else if (c.curedMassG === null) reasons.push('No cured weighing');
+    else reasons.push('WPG is blank');
+  }
+  if (sgOf(c, basis) === null) {
+    if (basis === 'handbook') reasons.push(`The species ${c.speciesName} has no reference SG`);
+    else if (c.blankReasons.drySg) reasons.push(c.blankReasons.drySg);
+    else if (c.dryMassG !== null) reasons.push('No dry dimensions, so no measured SG');
+    else if (c.wpgPct !== null) reasons.push('No dry weighing, so no measured SG');
+  }
+  return [...new Set(reasons)];
+}
+
+/** Group key species × resin. */
+export const groupKey = (c: Pick<AnalysisCoupon, 'speciesId' | 'resinId'>) => `${c.speciesId}|${c.resinId ?? 'none'}`;
+
+function mostCommonScale(values: readonly { hardnessScale: HardnessScale | null }[]): HardnessScale | null {
+  const counts = new Map<HardnessScale, number>();
+  for (const v of values) if (v.hardnessScale) counts.set(v.hardnessScale, (counts.get(v.hardnessScale) ?? 0) + 1);
+  let best: HardnessScale | null = null;
+  let n = 0;
+  for (const [k, c] of counts) if (c > n) [best, n] = [k, c];
+  return best;
+}
+
+/** Distinct named boards and coupons with no board named, in a list of coupons. */
+export function boardCounts(list: readonly Pick<AnalysisCoupon, 'sourceBoard'>[]): { nBoards: number; nNoBoard: number } {
+  const boards = new Set<string>();
+  let nNoBoard = 0;
+  for (const c of list) {
+    if (c.sourceBoard) boards.add(c.sourceBoard);
+    else nNoBoard++;
+  }
+  return { nBoards: boards.size, nNoBoard };
+}
+
+/**
+ * The species × resin table over the included treated coupons: n (coupons, boards), mean WPG, resin
+ * loading, void fill and ASE with 95 % CIs (the core's `summarize`), and hardness gain against the
+ * controls of the same species on the same scale (the core's `hardnessGain`).
+ */
+export function speciesResinGroups(included: readonly AnalysisCoupon[], controls: readonly AnalysisCoupon[]): GroupRow[] {
+  const groups = new Map<string, AnalysisCoupon[]>();
+  for (const c of included) {
+    const k = groupKey(c);
+    const list = groups.get(k);
+    if (list) list.push(c);
+    else groups.set(k, [c]);
+  }
+  const rows: GroupRow[] = [];
+  for (const list of groups.values()) {
+    const first = list[0] as AnalysisCoupon;
+    const pick = (f: (c: AnalysisCoupon) => number | null) => list.map(f).filter((v): v is number => v !== null);
+    const hard = list.filter((c) => c.hardnessValue !== null && c.hardnessScale !== null);
+    const scale = mostCommonScale(hard);
+    let gain: GroupRow['hardnessGain'] = null;
+    if (scale) {
+      const t = hard.filter((c) => c.hardnessScale === scale).map((c) => c.hardnessValue as number);
+      const ctl = controls
+        .filter((c) => c.speciesId === first.speciesId && c.hardnessScale === scale && c.hardnessValue !== null)
+        .map((c) => c.hardnessValue as number);
+      if (t.length > 0 && ctl.length > 0) gain = { ratio: hardnessGain(t, ctl), scale, nTreated: t.length, nControl: ctl.length };
+    }
+    rows.push({
+      speciesId: first.speciesId,
+      speciesName: first.speciesName,
+      resinId: first.resinId,
+      resinName: first.resinName,
+      nCoupons: list.length,
+      ...boardCounts(list),
+      wpg: statsOf(pick((c) => c.wpgPct)),
+      resinLoading: statsOf(pick((c) => c.resinLoadingKgM3)),
+      voidFill: statsOf(pick((c) => c.voidFillPct)),
+      hardnessGain: gain,
+      ase: statsOf(pick((c) => c.asePct)),
+    });
+  }
+  return rows.sort((a, b) => a.speciesName.localeCompare(b.speciesName) || (a.resinName ?? '').localeCompare(b.resinName ?? ''));
+}
