@@ -26,6 +26,14 @@ const CLIENT_DIR = path.resolve(here, '../dist/client');
 const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
 const REQUEST_ID = /^[A-Za-z0-9._-]{1,64}$/;
 
+function originHost(origin: string): string | null {
+  try {
+    return new URL(origin).host || null;
+  } catch {
+    return null;
+  }
+}
+
 /**
  * Builds the Express app from its dependencies. Features are composed here and nowhere else:
  * each contributes a secureRouter mounted under /api.
@@ -45,7 +53,9 @@ export function createApp(deps: AppDeps) {
   const app = express();
   app.disable('x-powered-by');
   const secureCookie = deps.config.appUrl.startsWith('https://');
-  if (secureCookie) app.set('trust proxy', 1);
+  // Only a proxy named in TRUST_PROXY is believed about the client's address and scheme; anyone else's
+  // X-Forwarded-For is ignored, so it cannot walk past the sign-in limit.
+  app.set('trust proxy', deps.config.trustProxy);
 
   app.use(
     pinoHttp({
@@ -57,6 +67,15 @@ export function createApp(deps: AppDeps) {
         return id;
       },
       autoLogging: { ignore: (req) => !req.url?.startsWith('/api') },
+      // One readable line per request: never the headers, which carry the session cookie (replayable
+      // for days), the answer's set-cookie and any authorization.
+      serializers: {
+        req: (req: { id: unknown; method: string; url: string }) => ({ id: req.id, method: req.method, url: req.url }),
+        res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
+      },
+      redact: { paths: ['req.headers.cookie', 'req.headers.authorization', 'res.headers["set-cookie"]'], remove: true },
+      customSuccessMessage: (req, res, ms) => `${req.method} ${(req as Request).originalUrl ?? req.url} ${res.statusCode} ${Math.round(ms)} ms`,
+      customErrorMessage: (req, res, err) => `${req.method} ${(req as Request).originalUrl ?? req.url} ${res.statusCode} ${err.message}`,
     }),
   );
   app.use(
@@ -105,7 +124,8 @@ export function createApp(deps: AppDeps) {
     const marked = req.get(CSRF_HEADER) === CSRF_VALUE || req.get('x-requested-with') === 'XMLHttpRequest';
     if (!marked) return next(new Forbidden(`Missing the ${CSRF_HEADER} header on a write request`));
     const origin = req.get('origin');
-    if (origin && new URL(origin).host !== req.get('host')) return next(new Forbidden('Cross-origin write refused'));
+    // `Origin: null` (sandboxed frames, some redirects) and unparsable origins are refused like foreign ones.
+    if (origin !== undefined && originHost(origin) !== req.get('host')) return next(new Forbidden('Cross-origin write refused'));
     next();
   });
 
@@ -114,7 +134,7 @@ export function createApp(deps: AppDeps) {
 
   const mounted: SecureRouter[] = [
     health,
-    authRoutes(feature, deps.loginRateLimit ?? { windowMs: 15 * 60_000, limit: 10 }),
+    authRoutes(feature, deps.loginRateLimit ?? { windowMs: 15 * 60_000, limit: deps.config.loginRateLimit, perAddress: deps.config.loginRateLimitPerAddress }),
     adminRoutes(feature),
     runsRoutes(feature),
     couponsRoutes(feature),

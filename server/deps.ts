@@ -12,8 +12,8 @@ export interface AppDeps {
   logger: Logger;
   /** bcrypt cost; tests lower it so they stay fast, production uses the default. */
   bcryptCost?: number;
-  /** Sign-in attempts allowed per client per window. */
-  loginRateLimit?: { windowMs: number; limit: number };
+  /** Failed sign-ins allowed per account (`limit`) and per client address (`perAddress`) per window. */
+  loginRateLimit?: { windowMs: number; limit: number; perAddress?: number };
   /** A clock the tests can move (token expiry). */
   now?: () => Date;
 }

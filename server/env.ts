@@ -1,3 +1,4 @@
+import net from 'node:net';
 import path from 'node:path';
 import { z } from 'zod';
 
@@ -21,8 +22,12 @@ const envSchema = z.object({
   SMTP_PASS: z.string().optional(),
   MAIL_FROM: z.string().default('Lumenbook <lumenbook@localhost>'),
   DEMO_DATA: z.enum(['true', 'false']).default('true'),
-  /** Sign-in attempts per client per 15 minutes. */
+  /** Failed sign-ins per account per 15 minutes (correct ones are not counted). */
   LOGIN_RATE_LIMIT: z.coerce.number().int().min(1).default(10),
+  /** Failed sign-ins per client address per 15 minutes, whatever the accounts tried. */
+  LOGIN_RATE_LIMIT_PER_ADDRESS: z.coerce.number().int().min(1).default(30),
+  /** The reverse proxies whose X-Forwarded-* headers are believed (addresses, subnets or loopback). */
+  TRUST_PROXY: z.string().max(500).default(''),
 });
 
 export type Env = z.infer<typeof envSchema>;
@@ -39,6 +44,35 @@ export interface Config {
   mailFrom: string;
   demoData: boolean;
   loginRateLimit: number;
+  loginRateLimitPerAddress: number;
+  /** Express's `trust proxy`: false, or the named proxies only (never "everyone"). */
+  trustProxy: false | string[];
+}
+
+const PROXY_PRESETS = new Set(['loopback', 'linklocal', 'uniquelocal']);
+
+/**
+ * TRUST_PROXY lists the proxies in front of the server: IP addresses, subnets (10.0.0.0/8) or the
+ * names loopback, linklocal, uniquelocal. "true" and hop counts are refused: they would believe a
+ * client's forged X-Forwarded-For whenever no proxy is in front.
+ */
+export function parseTrustProxy(value: string): false | string[] {
+  const items = value
+    .split(',')
+    .map((s) => s.trim())
+    .filter(Boolean);
+  if (items.length === 0 || (items.length === 1 && items[0] === 'false')) return false;
+  for (const item of items) {
+    const [addr, bits, extra] = item.split('/');
+    const ipVersion = net.isIP(addr ?? '');
+    const okBits = bits === undefined || (/^\d{1,3}$/.test(bits) && Number(bits) <= (ipVersion === 6 ? 128 : 32));
+    if (PROXY_PRESETS.has(item) || (ipVersion !== 0 && okBits && extra === undefined)) continue;
+    throw new Error(
+      `Invalid environment:\n  TRUST_PROXY: "${item}" is not a proxy address, subnet or one of loopback, linklocal, uniquelocal ` +
+        '(name the proxy in front of the server, e.g. TRUST_PROXY=127.0.0.1; "true" and hop counts are refused)',
+    );
+  }
+  return items;
 }
 
 export function loadConfig(source: NodeJS.ProcessEnv = process.env): Config {
@@ -62,5 +96,7 @@ export function loadConfig(source: NodeJS.ProcessEnv = process.env): Config {
     mailFrom: env.MAIL_FROM,
     demoData: env.DEMO_DATA === 'true',
     loginRateLimit: env.LOGIN_RATE_LIMIT,
+    loginRateLimitPerAddress: env.LOGIN_RATE_LIMIT_PER_ADDRESS,
+    trustProxy: parseTrustProxy(env.TRUST_PROXY),
   };
 }

@@ -27,7 +27,13 @@ async function main() {
   const database = openDatabase(path.join(config.dataDir, 'lumenbook.db'));
   const seeded = config.demoData ? seedDemo(database) : (seedReference(database), false);
   const mailer = await createMailer(config, database.db, logger);
-  const lumenbook = createApp({ config, database, mailer, logger, loginRateLimit: { windowMs: 15 * 60_000, limit: config.loginRateLimit } });
+  const lumenbook = createApp({
+    config,
+    database,
+    mailer,
+    logger,
+    loginRateLimit: { windowMs: 15 * 60_000, limit: config.loginRateLimit, perAddress: config.loginRateLimitPerAddress },
+  });
 
   const server = lumenbook.app.listen(config.port, config.host, (err?: Error) => {
     // Express 5 reports listen errors (EADDRINUSE…) here rather than throwing.

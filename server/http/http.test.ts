@@ -137,6 +137,7 @@ describe('admin', () => {
   it('reads the outbox and makes an online backup', async () => {
     const admin = await h.signIn('admin@demo.test');
     await h.agent().post('/api/auth/password-reset').send({ email: 'viewer@demo.test' });
+    await h.mailer.settled();
     const out = await admin.get('/api/admin/outbox');
     expect(out.status).toBe(200);
     expect(out.body.items[0]).toMatchObject({ to: 'viewer@demo.test' });

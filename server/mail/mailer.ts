@@ -8,6 +8,13 @@ import { outbox } from '../db/schema/admin';
 
 export interface Mailer {
   send(message: { to: string; subject: string; text: string }): Promise<void>;
+  /**
+   * Sends without making the caller wait: an answer that waits for the mail server would tell, by its
+   * time, whether there was anything to send (e.g. whether an account exists). Failures go to the log.
+   */
+  sendInBackground(message: { to: string; subject: string; text: string }): void;
+  /** Resolves when every background send has finished (tests, shutdown). */
+  settled(): Promise<void>;
   close(): Promise<void>;
   /** Where the fake SMTP server listens, when it is the one in use. */
   fakeSmtpPort: number | null;
@@ -65,12 +72,26 @@ export async function createMailer(config: Pick<Config, 'smtp' | 'mailFrom'>, db
     logger.info({ port: fakeSmtpPort }, 'fake SMTP server files outgoing mail in the outbox');
   }
 
+  const pending = new Set<Promise<void>>();
+  const send = async ({ to, subject, text }: { to: string; subject: string; text: string }) => {
+    await transport.sendMail({ from: config.mailFrom, to, subject, text });
+  };
+  const settled = async () => {
+    while (pending.size) await Promise.allSettled([...pending]);
+  };
+
   return {
     fakeSmtpPort,
-    async send({ to, subject, text }) {
-      await transport.sendMail({ from: config.mailFrom, to, subject, text });
+    send,
+    sendInBackground(message) {
+      const p: Promise<void> = send(message)
+        .catch((err: unknown) => logger.error({ err, subject: message.subject }, 'mail could not be sent'))
+        .finally(() => pending.delete(p));
+      pending.add(p);
     },
+    settled,
     async close() {
+      await settled();
       transport.close();
       if (fake) await new Promise<void>((resolve) => fake!.close(() => resolve()));
     },

@@ -32,7 +32,16 @@ export interface Harness {
  * The real app on a real SQLite file built from the committed migrations, in a temp directory, with
  * mail through the in-process fake SMTP server. Demo data is seeded with a low bcrypt cost for speed.
  */
-export async function startHarness(options: { seed?: boolean; loginLimit?: number } = {}): Promise<Harness> {
+export interface HarnessOptions {
+  seed?: boolean;
+  loginLimit?: number;
+  /** Collects the app's log lines at `info` (otherwise the log is silent). */
+  logLines?: string[];
+  /** Extra environment (e.g. TRUST_PROXY, APP_URL) over the test defaults. */
+  env?: Record<string, string>;
+}
+
+export async function startHarness(options: HarnessOptions = {}): Promise<Harness> {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'lumenbook-test-'));
   const config = loadConfig({
     NODE_ENV: 'test',
@@ -40,8 +49,10 @@ export async function startHarness(options: { seed?: boolean; loginLimit?: numbe
     LOG_LEVEL: 'silent',
     APP_URL: 'http://localhost:3999',
     SESSION_SECRET: 'test-secret-test-secret-test-secret',
+    ...options.env,
   });
-  const logger = pino({ level: 'silent' });
+  const lines = options.logLines;
+  const logger = lines ? pino({ level: 'info' }, { write: (line: string) => void lines.push(line) }) : pino({ level: 'silent' });
   let database = openDatabase(path.join(dir, 'lumenbook.db'));
   if (options.seed !== false) seedDemo(database, { bcryptCost: 4 });
   let mailer = await createMailer(config, database.db, logger);
@@ -54,7 +65,7 @@ export async function startHarness(options: { seed?: boolean; loginLimit?: numbe
       logger,
       bcryptCost: 4,
       now: () => new Date(Date.now() + clock.offsetMs),
-      loginRateLimit: { windowMs: 60_000, limit: options.loginLimit ?? 1000 },
+      loginRateLimit: { windowMs: 60_000, limit: options.loginLimit ?? 1000, perAddress: (options.loginLimit ?? 1000) * 3 },
     });
   let lumenbook = build();
 

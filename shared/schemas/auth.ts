@@ -37,10 +37,12 @@ export const invitationAcceptSchema = z.strictObject({
 });
 export type InvitationAcceptInput = z.infer<typeof invitationAcceptSchema>;
 
-export const updatePreferencesSchema = z.strictObject({
-  unitSystem: z.enum(UNIT_SYSTEMS_LIST).optional(),
-  name: nameSchema.optional(),
-});
+export const updatePreferencesSchema = z
+  .strictObject({
+    unitSystem: z.enum(UNIT_SYSTEMS_LIST).optional(),
+    name: nameSchema.optional(),
+  })
+  .refine((v) => v.unitSystem !== undefined || v.name !== undefined, { message: 'Nothing to change: give a name or a unit system' });
 export type UpdatePreferencesInput = z.infer<typeof updatePreferencesSchema>;
 
 export const acceptedResponseSchema = z.object({ accepted: z.literal(true) });

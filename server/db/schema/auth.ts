@@ -53,3 +53,21 @@ export const authTokens = sqliteTable(
   },
   (t) => [uniqueIndex('auth_tokens_hash_unique').on(t.tokenHash), index('auth_tokens_user_idx').on(t.userId)],
 );
+
+export const LOGIN_FAILURE_SCOPES = ['account', 'address'] as const;
+
+/**
+ * Failed sign-ins, one row per scope (the e-mail tried, the client address), so the limit holds per
+ * account across addresses and per address across accounts, and survives a restart. Correct sign-ins
+ * are not counted.
+ */
+export const loginFailures = sqliteTable(
+  'login_failures',
+  {
+    id: id(),
+    scope: text('scope', { enum: LOGIN_FAILURE_SCOPES }).notNull(),
+    key: text('key').notNull(),
+    at: text('at').notNull(),
+  },
+  (t) => [index('login_failures_scope_key_at_idx').on(t.scope, t.key, t.at)],
+);

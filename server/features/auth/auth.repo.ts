@@ -1,6 +1,6 @@
-import { and, eq, gt, isNull } from 'drizzle-orm';
+import { and, count, eq, gt, isNull, lte } from 'drizzle-orm';
 import type { Db } from '../../db/client';
-import { authTokens, users, AUTH_TOKEN_KINDS } from '../../db/schema/auth';
+import { authTokens, loginFailures, users, AUTH_TOKEN_KINDS, LOGIN_FAILURE_SCOPES } from '../../db/schema/auth';
 import type { User } from '../../../shared/schemas/auth';
 
 export type UserRow = typeof users.$inferSelect;
@@ -41,4 +41,28 @@ export function retireTokens(db: Db, userId: number, kind: TokenKind, nowIso: st
     .set({ usedAt: nowIso })
     .where(and(eq(authTokens.userId, userId), eq(authTokens.kind, kind), isNull(authTokens.usedAt)))
     .run();
+}
+
+export type LoginFailureScope = (typeof LOGIN_FAILURE_SCOPES)[number];
+
+/** Failed sign-ins of this account or address since `sinceIso`. */
+export function countLoginFailures(db: Db, scope: LoginFailureScope, key: string, sinceIso: string): number {
+  return (
+    db
+      .select({ n: count() })
+      .from(loginFailures)
+      .where(and(eq(loginFailures.scope, scope), eq(loginFailures.key, key), gt(loginFailures.at, sinceIso)))
+      .get()?.n ?? 0
+  );
+}
+
+export function recordLoginFailure(db: Db, entries: { scope: LoginFailureScope; key: string }[], atIso: string, pruneBeforeIso: string): void {
+  db.transaction((tx) => {
+    tx.delete(loginFailures).where(lte(loginFailures.at, pruneBeforeIso)).run();
+    for (const e of entries) tx.insert(loginFailures).values({ ...e, at: atIso }).run();
+  });
+}
+
+export function clearLoginFailures(db: Db, scope: LoginFailureScope, key: string): void {
+  db.delete(loginFailures).where(and(eq(loginFailures.scope, scope), eq(loginFailures.key, key))).run();
 }

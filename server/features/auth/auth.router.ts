@@ -14,6 +14,7 @@ import {
 import { inviteUserSchema, updateUserSchema } from '../../../shared/schemas/admin';
 import { idParamsSchema, listQuerySchema } from '../../../shared/schemas/common';
 import { createAuthService } from './auth.service';
+import { createLoginThrottle, type LoginLimits } from './login-throttle';
 
 function regenerate(req: Request): Promise<void> {
   return new Promise((resolve, reject) => req.session.regenerate((err) => (err ? reject(err) : resolve())));
@@ -25,6 +26,19 @@ function destroy(req: Request): Promise<void> {
   return new Promise((resolve, reject) => req.session.destroy((err) => (err ? reject(err) : resolve())));
 }
 
+/**
+ * With an https APP_URL the session cookie is Secure, and neither express-session nor a browser keeps
+ * it on a plain-http request: the sign-in would "succeed" with no cookie. Say why instead.
+ */
+function requireSecureWhenConfigured(deps: FeatureDeps, req: Request) {
+  if (!deps.config.appUrl.startsWith('https://') || req.secure) return;
+  throw new AppError(
+    'forbidden',
+    `This server's address is ${deps.config.appUrl}, but this request came over plain http, so no browser would keep the sign-in cookie. ` +
+      'Open the https address; if a proxy in front of the server handles https, name it in TRUST_PROXY so its X-Forwarded-Proto is believed.',
+  );
+}
+
 /** Starts a fresh session for the user; a new id at sign-in defeats session fixation. */
 async function signIn(req: Request, userId: number) {
   await regenerate(req);
@@ -34,7 +48,7 @@ async function signIn(req: Request, userId: number) {
 
 export const SESSION_COOKIE = 'lumenbook.sid';
 
-export function authRoutes(deps: FeatureDeps, limits: { windowMs: number; limit: number }) {
+export function authRoutes(deps: FeatureDeps, limits: LoginLimits) {
   const service = createAuthService(deps);
   const r = secureRouter();
 
@@ -47,11 +61,22 @@ export function authRoutes(deps: FeatureDeps, limits: { windowMs: number; limit:
       identifier: name,
       handler: (_req, _res, next) => next(new AppError('rate_limited', 'Too many attempts; wait a few minutes and try again')),
     });
-  r.router.use('/auth/login', limiter('login'));
   r.router.use('/auth/password-reset', limiter('password-reset'));
 
+  const throttle = createLoginThrottle(deps, limits);
+  const address = (req: Request) => req.ip ?? req.socket.remoteAddress ?? 'unknown';
+
   r.post('/auth/login', { access: 'public', schemas: { body: loginSchema } }, async ({ body, req }) => {
-    const user = await service.verifyLogin(body.email, body.password);
+    requireSecureWhenConfigured(deps, req);
+    throttle.check(body.email, address(req));
+    let user;
+    try {
+      user = await service.verifyLogin(body.email, body.password);
+    } catch (err) {
+      throttle.failed(body.email, address(req));
+      throw err;
+    }
+    throttle.succeeded(body.email);
     await signIn(req, user.id);
     deps.logger.info({ userId: user.id }, 'signed in');
     return { user };
@@ -80,6 +105,7 @@ export function authRoutes(deps: FeatureDeps, limits: { windowMs: number; limit:
   });
 
   r.post('/auth/invitations/accept', { access: 'public', schemas: { body: invitationAcceptSchema } }, async ({ body, req }) => {
+    requireSecureWhenConfigured(deps, req);
     const user = await service.acceptInvitation(body.token, body.password, body.name);
     await signIn(req, user.id);
     return { user };

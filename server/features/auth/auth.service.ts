@@ -1,3 +1,4 @@
+import crypto from 'node:crypto';
 import bcrypt from 'bcryptjs';
 import { asc, count, desc, eq, sql } from 'drizzle-orm';
 import type { FeatureDeps } from '../../deps';
@@ -12,17 +13,18 @@ import { hashToken, newToken } from './tokens';
 
 const INVITATION_HOURS = 72;
 const RESET_HOURS = 1;
-// Compared against when the e-mail is unknown, so a wrong e-mail costs as long as a wrong password.
-const DUMMY_HASH = bcrypt.hashSync('not-a-real-password-at-all', 10);
 
 export function createAuthService(deps: FeatureDeps) {
   const { db } = deps.database;
   const iso = () => deps.now().toISOString();
   const later = (hours: number) => new Date(deps.now().getTime() + hours * 3600_000).toISOString();
+  // Compared against when the e-mail is unknown (or has no password yet), at the same cost as the
+  // real hashes, so an unknown e-mail costs exactly as long as a wrong password.
+  const dummyHash = bcrypt.hashSync(crypto.randomBytes(16).toString('hex'), deps.bcryptCost);
 
   async function verifyLogin(email: string, password: string): Promise<User> {
     const row = findUserByEmail(db, email);
-    const ok = await bcrypt.compare(password, row?.passwordHash ?? DUMMY_HASH);
+    const ok = await bcrypt.compare(password, row?.passwordHash ?? dummyHash);
     // One answer for unknown e-mail, wrong password and disabled account: nothing to enumerate.
     if (!row || !row.passwordHash || !ok || row.disabled) throw new Unauthenticated('E-mail or password is not right');
     return toUser(row);
@@ -37,7 +39,8 @@ export function createAuthService(deps: FeatureDeps) {
       insertToken(tx, { userId: row.id, kind: 'password-reset', tokenHash: hash, expiresAt: later(RESET_HOURS), createdBy: null });
     });
     const link = `${deps.config.appUrl}/reset-password?token=${token}`;
-    await deps.mailer.send({
+    // Not awaited: the answer must not wait for the mail server only when the account exists.
+    deps.mailer.sendInBackground({
       to: row.email,
       subject: 'Reset your Lumenbook password',
       text: `Someone asked to reset the Lumenbook password for ${row.email}.\n\nTo choose a new password, open this link within ${RESET_HOURS} hour:\n${link}\n\nIf it was not you, ignore this message; your password stays as it is.`,

@@ -103,6 +103,7 @@ describe('password reset', () => {
   it('mails a one-time link that sets a new password and cannot be used twice or after expiry', async () => {
     const ask = await h.agent().post('/api/auth/password-reset').send({ email: 'tech@demo.test' });
     expect(ask.status).toBe(202);
+    await h.mailer.settled();
     const mail = h.lastMail();
     expect(mail?.toAddress).toBe('tech@demo.test');
     const token = tokenFromMail(mail?.textBody);
@@ -117,6 +118,7 @@ describe('password reset', () => {
     expect(again.body.error.fieldErrors.token).toBeTruthy();
 
     await h.agent().post('/api/auth/password-reset').send({ email: 'tech@demo.test' });
+    await h.mailer.settled();
     const late = tokenFromMail(h.lastMail()?.textBody);
     h.clock.offsetMs = 2 * 3600_000;
     const expired = await h.agent().post('/api/auth/password-reset/confirm').send({ token: late, password: 'too late password' });
@@ -126,6 +128,7 @@ describe('password reset', () => {
   it('answers 202 for an unknown e-mail and sends nothing', async () => {
     const res = await h.agent().post('/api/auth/password-reset').send({ email: 'nobody@demo.test' });
     expect(res.status).toBe(202);
+    await h.mailer.settled();
     expect(h.lastMail()).toBeUndefined();
   });
 

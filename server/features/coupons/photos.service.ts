@@ -55,7 +55,10 @@ export function createPhotoService(deps: FeatureDeps) {
           const field = err.field ?? 'file';
           return reject(new ValidationFailed(`Upload refused: ${err.message}`, { [field]: [err.message] }));
         }
-        reject(err);
+        // Anything else while reading a body held in memory is the body itself: a missing boundary, a
+        // truncated body, a malformed part header (busboy's errors). The client's to fix, so a 400.
+        const msg = err instanceof Error ? err.message : 'unreadable multipart body';
+        reject(new ValidationFailed(`The upload is not a well-formed multipart form: ${msg}`, { file: [`Malformed upload: ${msg}`] }));
       });
     });
   }
