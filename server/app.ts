@@ -20,6 +20,7 @@ import { runsRoutes } from './features/runs/runs.router';
 import { couponsRoutes } from './features/coupons/coupons.router';
 import { referenceRoutes } from './features/reference/reference.router';
 import { trialsRoutes } from './features/trials/trials.router';
+import { importsRoutes } from './features/imports/imports.router';
 
 const here = path.dirname(fileURLToPath(import.meta.url));
 const CLIENT_DIR = path.resolve(here, '../dist/client');
@@ -140,6 +141,7 @@ export function createApp(deps: AppDeps) {
     couponsRoutes(feature),
     referenceRoutes(feature),
     trialsRoutes(feature),
+    importsRoutes(feature),
   ];
   const declared: DeclaredRoute[] = [];
   for (const r of mounted) {
