@@ -61,6 +61,7 @@ describe('access rules', () => {
         'POST /api/auth/password-reset',
         'POST /api/auth/password-reset/confirm',
         'POST /api/auth/invitations/accept',
+        'GET /api/auth/invitations/:token',
       ].sort(),
     );
   });

@@ -38,6 +38,12 @@ export const shopSettingsSchema = z.object({
   dryingMinIntervalHours: z.number().min(0.5).max(48),
   dryingMaxChangePct: z.number().min(0.01).max(5),
   lotShelfLifeDays: z.number().int().min(1).max(3650),
+  /** Base address printed labels' QR codes open; empty (null) means the server's APP_URL. */
+  labelBaseUrl: z
+    .url({ protocol: /^https?$/, error: 'Give a web address starting with http:// or https://' })
+    .max(300)
+    .refine((u) => !/[?#]/.test(u), 'Give the address without ? or #')
+    .nullable(),
 });
 export type ShopSettings = z.infer<typeof shopSettingsSchema>;
 export const updateShopSettingsSchema = shopSettingsSchema.partial().strict();
@@ -51,4 +57,16 @@ export const DEFAULT_SHOP_SETTINGS: ShopSettings = {
   dryingMinIntervalHours: 2,
   dryingMaxChangePct: 0.1,
   lotShelfLifeDays: 365,
+  labelBaseUrl: null,
 };
+
+export const labelAddressSchema = z.object({
+  url: z.string(),
+  source: z.enum(['setting', 'app-url']),
+  loopback: z.boolean(),
+  warning: z.string().nullable(),
+});
+
+/** GET and PATCH /settings: the settings and the address labels will use with them. */
+export const settingsResponseSchema = z.object({ settings: shopSettingsSchema, labelAddress: labelAddressSchema });
+export type SettingsResponse = z.infer<typeof settingsResponseSchema>;

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { labelAddressSchema } from './admin';
 import { COUPON_ROLES, TRIAL_STATUSES } from '../constants/records';
 import { PLANNING_WARNING_CODES } from '../trials/planning';
 import { listQuerySchema, listResponseSchema } from './common';
@@ -193,6 +194,8 @@ export const couponLabelSchema = z.object({
 export type CouponLabel = z.infer<typeof couponLabelSchema>;
 export const labelSheetSchema = z.object({
   trial: z.object({ id: z.number().int(), code: z.string(), title: z.string() }),
+  /** The address the QR codes open, and whether a phone can open it. */
+  address: labelAddressSchema,
   labels: z.array(couponLabelSchema),
 });
 export type LabelSheet = z.infer<typeof labelSheetSchema>;

@@ -18,7 +18,8 @@ async function ruleIds(filePath: string, code: string): Promise<string[]> {
   }
 }
 
-describe('lint boundaries', () => {
+// The first probe makes ESLint resolve the whole import graph: minutes on a busy 2-core machine.
+describe('lint boundaries', { timeout: 180_000 }, () => {
   // [what is broken, where the probe file sits, the repo path it imports, a name exported there]
   it.each([
     ['shared imports the server', 'shared/domain/zz-probe.ts', 'server/app', 'createApp'],

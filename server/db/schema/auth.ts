@@ -1,6 +1,6 @@
 import { index, integer, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
 import { ROLES } from '../../../shared/constants/roles';
-import { UNIT_SYSTEMS_LIST } from '../../../shared/constants/units';
+import { UNIT_SYSTEMS_LIST, type UnitPrefs } from '../../../shared/constants/units';
 import { createdAt, createdBy, id } from './columns';
 
 export const AUTH_TOKEN_KINDS = ['invitation', 'password-reset'] as const;
@@ -14,7 +14,9 @@ export const users = sqliteTable(
     role: text('role', { enum: ROLES }).notNull(),
     // Null until an invited user sets a password through the invitation link.
     passwordHash: text('password_hash'),
+    /** The preset the user's units start from; `unit_overrides` holds the quantities chosen differently. */
     unitSystem: text('unit_system', { enum: UNIT_SYSTEMS_LIST }).notNull().default('metric'),
+    unitOverrides: text('unit_overrides', { mode: 'json' }).$type<Partial<UnitPrefs>>(),
     disabled: integer('disabled', { mode: 'boolean' }).notNull().default(false),
     createdAt: createdAt(),
     createdBy: createdBy(),

@@ -11,9 +11,9 @@ export function adminRoutes(deps: FeatureDeps) {
   r.get('/admin/outbox', { access: 'admin', schemas: { query: listQuerySchema } }, ({ query }) => service.listOutbox(query));
   r.post('/admin/backup', { access: 'admin', status: 201 }, ({ user }) => service.backup(user));
   // Everyone reads the shop settings (runs need the altitude); only the admin changes them.
-  r.get('/settings', { access: 'viewer' }, () => ({ settings: service.getSettings() }));
-  r.patch('/settings', { access: 'admin', schemas: { body: updateShopSettingsSchema } }, ({ user, body }) => ({
-    settings: service.updateSettings(user, body),
-  }));
+  r.get('/settings', { access: 'viewer' }, () => service.settingsAnswer(service.getSettings()));
+  r.patch('/settings', { access: 'admin', schemas: { body: updateShopSettingsSchema } }, ({ user, body }) =>
+    service.settingsAnswer(service.updateSettings(user, body)),
+  );
   return r;
 }

@@ -1,13 +1,15 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import { count, desc } from 'drizzle-orm';
+import { count, desc, eq } from 'drizzle-orm';
 import type { FeatureDeps } from '../../deps';
 import { writeAudit } from '../../db/audit';
 import { outbox, settings } from '../../db/schema/admin';
 import type { ListQuery } from '../../../shared/schemas/common';
 import { readShopSettings } from '../../db/shop-settings';
+import { labelAddress } from '../../../shared/trials/label-address';
 import {
   type OutboxMessage,
+  type SettingsResponse,
   type ShopSettings,
   type UpdateShopSettingsInput,
 } from '../../../shared/schemas/admin';
@@ -53,6 +55,11 @@ export function createAdminService(deps: FeatureDeps) {
     db.transaction((tx) => {
       for (const [key, value] of Object.entries(input)) {
         if (value === undefined) continue;
+        // An emptied setting goes back to its default.
+        if (value === null) {
+          tx.delete(settings).where(eq(settings.key, key)).run();
+          continue;
+        }
         tx.insert(settings)
           .values({ key, value, createdBy: actor.id })
           .onConflictDoUpdate({ target: settings.key, set: { value } })
@@ -63,5 +70,10 @@ export function createAdminService(deps: FeatureDeps) {
     return getSettings();
   }
 
-  return { listOutbox, backup, getSettings, updateSettings };
+  /** The settings with the address labels will use, so the admin sees it (and a loopback warning) where it is set. */
+  function settingsAnswer(s: ShopSettings): SettingsResponse {
+    return { settings: s, labelAddress: labelAddress(s.labelBaseUrl, deps.config.appUrl) };
+  }
+
+  return { listOutbox, backup, getSettings, updateSettings, settingsAnswer };
 }

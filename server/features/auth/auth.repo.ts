@@ -2,12 +2,21 @@ import { and, count, eq, gt, isNull, lte } from 'drizzle-orm';
 import type { Db } from '../../db/client';
 import { authTokens, loginFailures, users, AUTH_TOKEN_KINDS, LOGIN_FAILURE_SCOPES } from '../../db/schema/auth';
 import type { User } from '../../../shared/schemas/auth';
+import { unitPrefs } from '../../../shared/units';
 
 export type UserRow = typeof users.$inferSelect;
 export type TokenKind = (typeof AUTH_TOKEN_KINDS)[number];
 
 export function toUser(row: UserRow): User {
-  return { id: row.id, email: row.email, name: row.name, role: row.role, unitSystem: row.unitSystem, disabled: row.disabled };
+  return {
+    id: row.id,
+    email: row.email,
+    name: row.name,
+    role: row.role,
+    unitSystem: row.unitSystem,
+    units: unitPrefs(row.unitSystem, row.unitOverrides),
+    disabled: row.disabled,
+  };
 }
 
 export function findUserByEmail(db: Db, email: string): UserRow | undefined {
@@ -41,6 +50,23 @@ export function retireTokens(db: Db, userId: number, kind: TokenKind, nowIso: st
     .set({ usedAt: nowIso })
     .where(and(eq(authTokens.userId, userId), eq(authTokens.kind, kind), isNull(authTokens.usedAt)))
     .run();
+}
+
+/** Sets a user's name and units: the preset and the quantities chosen differently from it. */
+export function updateUserPreferences(
+  db: Db,
+  id: number,
+  values: { name?: string; unitSystem?: UserRow['unitSystem']; unitOverrides?: UserRow['unitOverrides'] },
+) {
+  db.update(users).set(values).where(eq(users.id, id)).run();
+}
+
+/** The invitation a live token stands for, with the invited user's name, e-mail and role. */
+export function findInvitation(db: Db, tokenHash: string, nowIso: string) {
+  const token = findLiveToken(db, tokenHash, 'invitation', nowIso);
+  if (!token) return undefined;
+  const user = findUserById(db, token.userId);
+  return user ? { user, expiresAt: token.expiresAt } : undefined;
 }
 
 export type LoginFailureScope = (typeof LOGIN_FAILURE_SCOPES)[number];

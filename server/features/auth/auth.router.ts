@@ -6,6 +6,7 @@ import { AppError } from '../../http/errors';
 import {
   acceptedResponseSchema,
   invitationAcceptSchema,
+  invitationTokenParamsSchema,
   loginSchema,
   passwordResetConfirmSchema,
   passwordResetRequestSchema,
@@ -103,6 +104,11 @@ export function authRoutes(deps: FeatureDeps, limits: LoginLimits) {
     await service.confirmPasswordReset(body.token, body.password);
     return { accepted: true };
   });
+
+  // Before accepting: the page greets the invited person by the name the admin typed.
+  r.get('/auth/invitations/:token', { access: 'public', schemas: { params: invitationTokenParamsSchema } }, ({ params }) => ({
+    invitation: service.previewInvitation(params.token),
+  }));
 
   r.post('/auth/invitations/accept', { access: 'public', schemas: { body: invitationAcceptSchema } }, async ({ body, req }) => {
     requireSecureWhenConfigured(deps, req);

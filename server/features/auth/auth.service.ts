@@ -5,10 +5,21 @@ import type { FeatureDeps } from '../../deps';
 import { writeAudit } from '../../db/audit';
 import { authTokens, users } from '../../db/schema/auth';
 import { Conflict, NotFound, Unauthenticated, ValidationFailed } from '../../http/errors';
-import type { User } from '../../../shared/schemas/auth';
+import type { InvitationPreview, UpdatePreferencesInput, User } from '../../../shared/schemas/auth';
+import { prefsOverrides, unitPrefs } from '../../../shared/units';
 import type { AdminUser, InviteUserInput, UpdateUserInput } from '../../../shared/schemas/admin';
 import type { ListQuery } from '../../../shared/schemas/common';
-import { findLiveToken, findUserByEmail, findUserById, insertToken, markTokenUsed, retireTokens, toUser } from './auth.repo';
+import {
+  findInvitation,
+  findLiveToken,
+  findUserByEmail,
+  findUserById,
+  insertToken,
+  markTokenUsed,
+  retireTokens,
+  toUser,
+  updateUserPreferences,
+} from './auth.repo';
 import { hashToken, newToken } from './tokens';
 
 const INVITATION_HOURS = 72;
@@ -74,11 +85,30 @@ export function createAuthService(deps: FeatureDeps) {
     return toUser(row);
   }
 
-  function updatePreferences(userId: number, input: { unitSystem?: User['unitSystem']; name?: string }): User {
-    db.update(users).set(input).where(eq(users.id, userId)).run();
+  /**
+   * A preset starts every quantity afresh; single choices go on top. Only the quantities that differ
+   * from the preset are stored, so a later change of a preset's unit reaches everyone who kept it.
+   */
+  function updatePreferences(userId: number, input: UpdatePreferencesInput): User {
     const row = findUserById(db, userId);
     if (!row) throw new NotFound('User');
-    return toUser(row);
+    const system = input.unitSystem ?? row.unitSystem;
+    const start = input.unitSystem !== undefined ? unitPrefs(system) : toUser(row).units;
+    const chosen = unitPrefs(start, input.units);
+    const overrides = prefsOverrides(system, chosen);
+    updateUserPreferences(db, userId, {
+      name: input.name,
+      unitSystem: system,
+      unitOverrides: Object.keys(overrides).length === 0 ? null : overrides,
+    });
+    return toUser(findUserById(db, userId)!);
+  }
+
+  /** The invited person's name, e-mail and role, for a live invitation link; the link itself is the secret. */
+  function previewInvitation(token: string): InvitationPreview {
+    const found = findInvitation(db, hashToken(token), iso());
+    if (!found || found.user.disabled) throw new NotFound('Invitation');
+    return { email: found.user.email, name: found.user.name, role: found.user.role, expiresAt: found.expiresAt };
   }
 
   function listUsers(q: ListQuery): { items: AdminUser[]; page: number; pageSize: number; total: number } {
@@ -160,6 +190,6 @@ export function createAuthService(deps: FeatureDeps) {
     return db.select({ n: count() }).from(authTokens).where(sql`${authTokens.usedAt} IS NULL`).get()?.n ?? 0;
   }
 
-  return { verifyLogin, requestPasswordReset, confirmPasswordReset, acceptInvitation, updatePreferences, listUsers, invite, updateUser, pendingTokenCount };
+  return { verifyLogin, requestPasswordReset, confirmPasswordReset, acceptInvitation, previewInvitation, updatePreferences, listUsers, invite, updateUser, pendingTokenCount };
 }
 export type AuthService = ReturnType<typeof createAuthService>;

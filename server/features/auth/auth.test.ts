@@ -97,6 +97,43 @@ describe('sign-in', () => {
     expect(res.body.user.unitSystem).toBe('us');
     expect((await a.get('/api/auth/me')).body.user.unitSystem).toBe('us');
   });
+
+  it('keeps a unit per quantity: a preset, then single choices on top, and a preset again starts afresh', async () => {
+    const a = await h.signIn('tech@demo.test');
+    const me = (await a.get('/api/auth/me')).body.user;
+    expect(me.units).toMatchObject({ mass: 'g', length: 'mm', temperature: 'degC', pressure: 'kPa', density: 'kgPerM3', altitude: 'm', force: 'N' });
+
+    // A US shop with a gram scale: US preset, mass in g, density in g/cm³.
+    const mixed = await a.patch('/api/auth/me').send({ unitSystem: 'us', units: { mass: 'g', density: 'gPerCm3' } });
+    expect(mixed.status).toBe(200);
+    expect(mixed.body.user.units).toEqual({
+      mass: 'g',
+      length: 'in',
+      temperature: 'degF',
+      pressure: 'inHg',
+      volume: 'in3',
+      liquidVolume: 'gal',
+      density: 'gPerCm3',
+      altitude: 'ft',
+      force: 'lbf',
+    });
+    // A later single choice keeps the earlier ones.
+    const one = await a.patch('/api/auth/me').send({ units: { pressure: 'kPa' } });
+    expect(one.body.user.units).toMatchObject({ mass: 'g', density: 'gPerCm3', pressure: 'kPa', length: 'in' });
+    const row = h.database.db.select().from(users).where(eq(users.email, 'tech@demo.test')).get()!;
+    expect(row.unitOverrides).toEqual({ mass: 'g', density: 'gPerCm3', pressure: 'kPa' });
+
+    const reset = await a.patch('/api/auth/me').send({ unitSystem: 'metric' });
+    expect(reset.body.user.units).toMatchObject({ mass: 'g', length: 'mm', pressure: 'kPa', density: 'kgPerM3' });
+    expect(h.database.db.select().from(users).where(eq(users.email, 'tech@demo.test')).get()!.unitOverrides).toBeNull();
+  });
+
+  it('refuses a unit that is not one of its quantity, naming the field', async () => {
+    const a = await h.signIn('tech@demo.test');
+    const res = await a.patch('/api/auth/me').send({ units: { mass: 'in' } });
+    expect(res.status).toBe(400);
+    expect(Object.keys(res.body.error.fieldErrors)).toEqual(['units.mass']);
+  });
 });
 
 describe('password reset', () => {
@@ -150,6 +187,11 @@ describe('invitations and users (admin)', () => {
     expect(mail?.subject).toMatch(/invited/);
     const token = tokenFromMail(mail?.textBody);
 
+    // The page shows whom the link invites, so the name the admin typed is prefilled.
+    const preview = await h.agent().get(`/api/auth/invitations/${token}`);
+    expect(preview.status).toBe(200);
+    expect(preview.body.invitation).toMatchObject({ email: 'new.hand@demo.test', name: 'New Hand', role: 'technician' });
+
     const accepted = await h.agent().post('/api/auth/invitations/accept').send({ token, password: 'new hand password', name: 'New Hand' });
     expect(accepted.status).toBe(200);
     expect(accepted.body.user.role).toBe('technician');
@@ -157,12 +199,15 @@ describe('invitations and users (admin)', () => {
 
     const twice = await h.agent().post('/api/auth/invitations/accept').send({ token, password: 'another password!', name: 'X' });
     expect(twice.status).toBe(400);
+    expect((await h.agent().get(`/api/auth/invitations/${token}`)).status).toBe(404);
 
     await admin.post('/api/users/invitations').send({ email: 'late@demo.test', name: 'Late', role: 'viewer' });
     const lateToken = tokenFromMail(h.lastMail()?.textBody);
     h.clock.offsetMs = 73 * 3600_000;
     const expired = await h.agent().post('/api/auth/invitations/accept').send({ token: lateToken, password: 'late password 123', name: 'Late' });
     expect(expired.status).toBe(400);
+    expect((await h.agent().get(`/api/auth/invitations/${lateToken}`)).status).toBe(404);
+    expect((await h.agent().get('/api/auth/invitations/not*a*token')).status).toBe(400);
   });
 
   it('refuses to invite an existing user', async () => {

@@ -17,11 +17,13 @@ import type {
 import { conditionLabel, planningWarnings } from '../../../shared/trials/planning';
 import { assignCodes, controlTag, parseTag, resinCode, speciesCode, treatedTag, trialCode, trialCounter } from '../../../shared/trials/tags';
 import * as repo from './trials.repo';
+import { labelAddress } from '../../../shared/trials/label-address';
+import { readShopSettings } from '../../db/shop-settings';
 
 export interface TrialsServiceDeps {
   db: Db;
   now: () => Date;
-  /** Base URL of the app; a label's QR code opens `${appUrl}/coupons/<id>`. */
+  /** Base URL of the app; a label's QR code opens `${base}/coupons/<id>`, base being the shop's label address or else this. */
   appUrl: string;
 }
 
@@ -340,7 +342,8 @@ export function createTrialsService(deps: TrialsServiceDeps) {
     const trial = repo.findTrial(db, id);
     if (!trial) throw new NotFound('Trial');
     const rows = repo.labelRows(db, id);
-    const base = deps.appUrl.replace(/\/+$/, '');
+    const address = labelAddress(readShopSettings(db).labelBaseUrl, deps.appUrl);
+    const base = address.url;
     const out = [];
     for (const r of rows) {
       const url = `${base}/coupons/${r.id}`;
@@ -359,7 +362,7 @@ export function createTrialsService(deps: TrialsServiceDeps) {
         qrSvg,
       });
     }
-    return { trial: { id: trial.id, code: trial.code, title: trial.title }, labels: out };
+    return { trial: { id: trial.id, code: trial.code, title: trial.title }, address, labels: out };
   }
 
   return { listTrials, getTrial: (id: number) => getTrial(id), createTrial, updateTrial, createPlannedCoupons, labels };
