@@ -4,7 +4,7 @@ import path from 'node:path';
 import { pino } from 'pino';
 import { createApp } from './app';
 import { openDatabase } from './db/client';
-import { DEMO_PASSWORD, DEMO_USERS, seedDemo, seedReference } from './seed';
+import { DEMO_PASSWORD, DEMO_USERS, ensureResults, seedDemo, seedReference } from './seed';
 import { loadConfig } from './env';
 import { createMailer } from './mail/mailer';
 
@@ -26,6 +26,7 @@ async function main() {
 
   const database = openDatabase(path.join(config.dataDir, 'lumenbook.db'));
   const seeded = config.demoData ? seedDemo(database) : (seedReference(database), false);
+  if (ensureResults(database)) logger.info('coupon results computed from the readings');
   const mailer = await createMailer(config, database.db, logger);
   const lumenbook = createApp({
     config,

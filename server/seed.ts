@@ -8,6 +8,7 @@ import type { Role } from '../shared/constants/roles';
 import { DEMO_RESINS, seedReferenceDemo, seedReferenceSpecies } from './features/reference/reference.seed';
 import { seedTrialsDemo } from './features/trials/trials.seed';
 import { seedRunsDemo } from './features/runs/runs.seed';
+import { rebuildResults, resultsIncomplete } from './measurements/results';
 
 /** Password of every demo account; the demo exists only for trying the app, never for a real shop. */
 export const DEMO_PASSWORD = 'lumenbook-demo';
@@ -43,6 +44,16 @@ const referenceSeeders: ((db: Db) => void)[] = [seedReferenceSpecies];
 /** Feature demo seeders, run in this order inside the one demo transaction. */
 const demoSeeders: DemoSeeder[] = [seedReferenceDemo, (ctx) => seedTrialsDemo(ctx, DEMO_RESINS), seedRunsDemo];
 
+/**
+ * A database from before the results table (or a restored older backup) has coupons without a results
+ * row: compute them all once, at start.
+ */
+export function ensureResults(database: Database_): boolean {
+  if (!resultsIncomplete(database.db)) return false;
+  database.db.transaction((tx) => rebuildResults(tx));
+  return true;
+}
+
 export function seedReference(database: Database_): void {
   database.db.transaction((tx) => {
     for (const seed of referenceSeeders) seed(tx);
@@ -64,6 +75,8 @@ export function seedDemo(database: Database_, options: { bcryptCost?: number; no
     ) as Record<Role, number>;
     const ctx: DemoContext = { tx, userIds, now: options.now ?? new Date() };
     for (const seed of demoSeeders) seed(ctx);
+    // The seeders write coupons and readings directly; their results rows are computed once here.
+    rebuildResults(tx);
   });
   return true;
 }

@@ -10,9 +10,10 @@ import * as referenceSchema from './schema/reference';
 import * as trialsSchema from './schema/trials';
 import * as runsSchema from './schema/runs';
 import * as couponsSchema from './schema/coupons';
+import * as resultsSchema from './schema/results';
 import * as importsSchema from './schema/imports';
 
-export const schema = { ...authSchema, ...adminSchema, ...referenceSchema, ...trialsSchema, ...runsSchema, ...couponsSchema, ...importsSchema };
+export const schema = { ...authSchema, ...adminSchema, ...referenceSchema, ...trialsSchema, ...runsSchema, ...couponsSchema, ...resultsSchema, ...importsSchema };
 export type Db = BetterSQLite3Database<typeof schema>;
 
 export interface Database_ {

@@ -16,6 +16,15 @@ export type CouponRole = (typeof COUPON_ROLES)[number];
 export const WEIGHING_STAGES = ['dry', 'soaked', 'cured', 'wet-test', 'drying-check'] as const;
 export type WeighingStage = (typeof WEIGHING_STAGES)[number];
 
+/**
+ * Where a reading came from, stored on every weighing and check: typed on a coupon's page (`entry`),
+ * saved from the entry grid (`grid`), written by a CSV import (`import:<id>`), or the new row of a
+ * correction (`correction`).
+ */
+export const MEASUREMENT_SOURCE_KINDS = ['entry', 'grid', 'import', 'correction'] as const;
+export type MeasurementSource = 'entry' | 'grid' | 'correction' | `import:${number}`;
+export const MEASUREMENT_SOURCE_PATTERN = /^(entry|grid|correction|import:[1-9][0-9]*)$/;
+
 export const CHECK_KINDS = ['dimension', 'hardness', 'moisture'] as const;
 export type CheckKind = (typeof CHECK_KINDS)[number];
 

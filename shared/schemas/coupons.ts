@@ -162,6 +162,8 @@ export const weighingSchema = z.object({
   massG: z.number(),
   measuredAt: z.string(),
   importId: z.number().int().nullable(),
+  /** entry | grid | import:<id> | correction */
+  source: z.string(),
   supersededBy: z.number().int().nullable(),
   deletedAt: z.string().nullable(),
   createdAt: z.string(),
@@ -183,6 +185,9 @@ export const checkSchema = z.object({
   hardnessScale: z.enum(HARDNESS_SCALES).nullable(),
   moisturePct: z.number().nullable(),
   method: z.string().nullable(),
+  importId: z.number().int().nullable(),
+  /** entry | grid | import:<id> | correction */
+  source: z.string(),
   supersededBy: z.number().int().nullable(),
   deletedAt: z.string().nullable(),
   createdAt: z.string(),

@@ -28,6 +28,7 @@ describe('lint boundaries', { timeout: 180_000 }, () => {
     ['the server imports the client', 'server/zz-probe.ts', 'src/lib/api-client', 'api'],
     ['a server feature imports another', 'server/features/admin/zz-probe.ts', 'server/features/auth/auth.repo', 'toUser'],
     ['a client feature imports another', 'src/features/admin/zz-probe.ts', 'src/features/auth/hooks/use-me', 'useMe'],
+    ['the measurements module imports a feature', 'server/measurements/zz-probe.ts', 'server/features/coupons/coupons.service', 'createCouponsService'],
   ])('%s → import/no-restricted-paths', async (_name, file, target, name) => {
     let specifier = path.relative(path.dirname(file), target);
     if (!specifier.startsWith('.')) specifier = `./${specifier}`;
@@ -56,5 +57,10 @@ describe('lint boundaries', { timeout: 180_000 }, () => {
   it('allowed directions pass', async () => {
     const specifier = path.relative('server/features/auth', 'shared/constants/roles');
     expect(await ruleIds('server/features/auth/zz-probe.ts', `import { ROLES } from '${specifier}';\nexport const x = ROLES;`)).toEqual([]);
+  });
+
+  it.each(['coupons', 'runs', 'trials'])('the %s feature may call the measurements module', async (f) => {
+    const specifier = path.relative(`server/features/${f}`, 'server/measurements/measurements');
+    expect(await ruleIds(`server/features/${f}/zz-probe.ts`, `import { createMeasurements } from '${specifier}';\nexport const x = createMeasurements;`)).toEqual([]);
   });
 });

@@ -1,5 +1,5 @@
 import { index, integer, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
-import { CHECK_KINDS, CHECK_STAGES, COUPON_ROLES, HARDNESS_SCALES, PHOTO_KINDS, WEIGHING_STAGES } from '../../../shared/constants/records';
+import { CHECK_KINDS, CHECK_STAGES, COUPON_ROLES, HARDNESS_SCALES, PHOTO_KINDS, WEIGHING_STAGES, type MeasurementSource } from '../../../shared/constants/records';
 import { users } from './auth';
 import { createdAt, createdBy, id } from './columns';
 import { species } from './reference';
@@ -31,6 +31,10 @@ export const coupons = sqliteTable(
     index('coupons_condition_idx').on(t.conditionId),
     index('coupons_species_idx').on(t.speciesId),
     index('coupons_run_idx').on(t.runId),
+    // The list's orders and filters, so a page far down is read from an index instead of sorting 100k rows.
+    index('coupons_created_idx').on(t.createdAt, t.id),
+    index('coupons_trial_tag_idx').on(t.trialId, t.tag),
+    index('coupons_run_tag_idx').on(t.runId, t.tag),
   ],
 );
 
@@ -50,6 +54,8 @@ export const weighings = sqliteTable(
     measuredAt: text('measured_at').notNull(),
     /** The CSV import that produced this reading, if any. */
     importId: integer('import_id'),
+    /** entry | grid | import:<id> | correction (MeasurementSource). */
+    source: text('source').$type<MeasurementSource>().notNull().default('entry'),
     supersededBy: integer('superseded_by'),
     deletedAt: text('deleted_at'),
     createdAt: createdAt(),
@@ -78,12 +84,16 @@ export const checks = sqliteTable(
     hardnessScale: text('hardness_scale', { enum: HARDNESS_SCALES }),
     moisturePct: real('moisture_pct'),
     method: text('method'),
+    /** The CSV import that produced this reading, if any. */
+    importId: integer('import_id'),
+    /** entry | grid | import:<id> | correction (MeasurementSource). */
+    source: text('source').$type<MeasurementSource>().notNull().default('entry'),
     supersededBy: integer('superseded_by'),
     deletedAt: text('deleted_at'),
     createdAt: createdAt(),
     createdBy: createdBy().references(() => users.id),
   },
-  (t) => [index('checks_coupon_idx').on(t.couponId, t.kind, t.stage)],
+  (t) => [index('checks_coupon_idx').on(t.couponId, t.kind, t.stage), index('checks_import_idx').on(t.importId)],
 );
 
 /** An uploaded image of a coupon or a run, stored under DATA_DIR/photos with a generated name. */

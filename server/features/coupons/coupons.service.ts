@@ -2,8 +2,10 @@ import { and, asc, count, desc, eq } from 'drizzle-orm';
 import type { FeatureDeps } from '../../deps';
 import type { Db } from '../../db/client';
 import { writeAudit } from '../../db/audit';
-import { checks, coupons, weighings } from '../../db/schema/coupons';
-import { AppError, Conflict, NotFound, Unprocessable, ValidationFailed } from '../../http/errors';
+import { createMeasurements } from '../../measurements/measurements';
+import { refreshResults } from '../../measurements/results';
+import { coupons } from '../../db/schema/coupons';
+import { Conflict, NotFound, Unprocessable, ValidationFailed } from '../../http/errors';
 import type { User } from '../../../shared/schemas/auth';
 import type {
   BatchMeasurementsInput,
@@ -21,9 +23,8 @@ import type {
   WeighingInput,
   WeighingOut,
 } from '../../../shared/schemas/coupons';
-import { antiSwellForList, couponMetrics, massAt, type CouponMetrics } from '../../../shared/coupons/metrics';
+import { antiSwellForList, couponMetrics, type CouponMetrics } from '../../../shared/coupons/metrics';
 import { sgPlausibility, sgWarningText } from '../../../shared/coupons/plausibility';
-import { checkProblems, weighingProblem, type MeasurementProblem } from '../../../shared/coupons/validate';
 import {
   allChecks,
   allWeighings,
@@ -31,13 +32,11 @@ import {
   controlsFor,
   currentChecks,
   currentWeighings,
-  findCheck,
   findCondition,
   findCoupon,
   findCouponByTag,
   findSpecies,
   findTrial,
-  findWeighing,
   listCouponRows,
   photosOf,
   resinsFor,
@@ -52,13 +51,6 @@ import {
 
 const SORTS = { id: coupons.id, tag: coupons.tag, createdAt: coupons.createdAt } as const;
 
-/** Fields each check kind may carry; anything else in a correction is refused. */
-const CHECK_FIELDS = {
-  dimension: ['lengthMm', 'widthMm', 'thicknessMm', 'volumeCm3'],
-  hardness: ['hardnessValue', 'hardnessScale'],
-  moisture: ['moisturePct'],
-} as const;
-
 export function toWeighingOut(r: WeighingRow): WeighingOut {
   return {
     id: r.id,
@@ -67,6 +59,7 @@ export function toWeighingOut(r: WeighingRow): WeighingOut {
     massG: r.massG,
     measuredAt: r.measuredAt,
     importId: r.importId,
+    source: r.source,
     supersededBy: r.supersededBy,
     deletedAt: r.deletedAt,
     createdAt: r.createdAt,
@@ -89,6 +82,8 @@ export function toCheckOut(r: CheckRow): CheckOut {
     hardnessScale: r.hardnessScale,
     moisturePct: r.moisturePct,
     method: r.method,
+    importId: r.importId,
+    source: r.source,
     supersededBy: r.supersededBy,
     deletedAt: r.deletedAt,
     createdAt: r.createdAt,
@@ -122,20 +117,9 @@ export function warningsOf(metrics: CouponMetrics, sp: SpeciesRow | undefined): 
   return out;
 }
 
-function problemError(prefix: string, problems: MeasurementProblem[]): Unprocessable {
-  const fieldErrors: Record<string, string[]> = {};
-  for (const p of problems) (fieldErrors[`${prefix}${p.field}`] ??= []).push(p.message);
-  const first = problems[0] as MeasurementProblem;
-  return new Unprocessable(prefix ? `${prefix.replace(/\.$/, '')}: ${first.message}` : first.message, fieldErrors);
-}
-
-function currentMasses(ws: WeighingRow[]) {
-  const readings = ws.map((w) => ({ stage: w.stage, massG: w.massG, measuredAt: w.measuredAt }));
-  return { dry: massAt(readings, 'dry'), soaked: massAt(readings, 'soaked'), cured: massAt(readings, 'cured') };
-}
-
 export function createCouponsService(deps: FeatureDeps) {
   const { db } = deps.database;
+  const measurements = createMeasurements(deps);
 
   function speciesDensityOf(sp: SpeciesRow | undefined) {
     return {
@@ -268,6 +252,7 @@ export function createCouponsService(deps: FeatureDeps) {
         .returning()
         .get();
       writeAudit(tx, { actorId: actor.id, action: 'create', entity: 'coupon', entityId: row.id, after: row });
+      refreshResults(tx, [row.id]);
       return row.id;
     });
     return get(id);
@@ -292,60 +277,9 @@ export function createCouponsService(deps: FeatureDeps) {
       if (input.notes !== undefined) set.notes = input.notes;
       const after = tx.update(coupons).set(set).where(eq(coupons.id, id)).returning().get();
       writeAudit(tx, { actorId: actor.id, action: 'update', entity: 'coupon', entityId: id, before, after, reason: input.reason ?? null });
+      refreshResults(tx, [id]);
     });
     return get(id);
-  }
-
-  function applyWeighing(tx: Db, actor: User, coupon: CouponRow, input: WeighingInput, prefix: string): WeighingRow {
-    if (coupon.role === 'control' && (input.stage === 'soaked' || input.stage === 'cured')) {
-      throw problemError(prefix, [{ field: 'stage', message: `${coupon.tag} is a control: it is never soaked in resin or cured, so it has no ${input.stage} weighing` }]);
-    }
-    const ws = currentWeighings(tx, [coupon.id]);
-    if (input.stage !== 'drying-check') {
-      const dup = ws.find((w) => w.stage === input.stage);
-      if (dup) {
-        const msg = `${coupon.tag} already has a ${input.stage} weighing (${dup.massG} g); correct that one, with a reason, instead of adding another`;
-        throw new Conflict(prefix ? `${prefix.replace(/\.$/, '')}: ${msg}` : msg, { [`${prefix}stage`]: [msg] });
-      }
-    }
-    const problem = weighingProblem(input.stage, input.massG, currentMasses(ws));
-    if (problem) throw problemError(prefix, [problem]);
-    const row = tx.insert(weighings).values({ couponId: coupon.id, stage: input.stage, massG: input.massG, measuredAt: input.measuredAt, createdBy: actor.id }).returning().get();
-    writeAudit(tx, { actorId: actor.id, action: 'create', entity: 'weighing', entityId: row.id, after: row });
-    return row;
-  }
-
-  function applyCheck(tx: Db, actor: User, coupon: CouponRow, input: CheckInput, prefix: string): CheckRow {
-    const problems = checkProblems(input);
-    if (problems.length) throw problemError(prefix, problems);
-    if (input.kind === 'dimension') {
-      const dup = currentChecks(tx, [coupon.id]).find((c) => c.kind === 'dimension' && c.stage === input.stage);
-      if (dup) {
-        const msg = `${coupon.tag} already has ${input.stage} dimensions; correct those, with a reason, instead of adding another set`;
-        throw new Conflict(prefix ? `${prefix.replace(/\.$/, '')}: ${msg}` : msg, { [`${prefix}stage`]: [msg] });
-      }
-    }
-    const row = tx
-      .insert(checks)
-      .values({
-        couponId: coupon.id,
-        kind: input.kind,
-        stage: input.stage,
-        measuredAt: input.measuredAt,
-        lengthMm: input.kind === 'dimension' ? (input.lengthMm ?? null) : null,
-        widthMm: input.kind === 'dimension' ? (input.widthMm ?? null) : null,
-        thicknessMm: input.kind === 'dimension' ? (input.thicknessMm ?? null) : null,
-        volumeCm3: input.kind === 'dimension' ? (input.volumeCm3 ?? null) : null,
-        hardnessValue: input.kind === 'hardness' ? input.hardnessValue : null,
-        hardnessScale: input.kind === 'hardness' ? input.hardnessScale : null,
-        moisturePct: input.kind === 'moisture' ? input.moisturePct : null,
-        method: input.method ?? null,
-        createdBy: actor.id,
-      })
-      .returning()
-      .get();
-    writeAudit(tx, { actorId: actor.id, action: 'create', entity: 'check', entityId: row.id, after: row });
-    return row;
   }
 
   function withWarnings<T>(tx: Db, couponId: number, extra: T) {
@@ -355,153 +289,62 @@ export function createCouponsService(deps: FeatureDeps) {
 
   function addWeighing(actor: User, couponId: number, input: WeighingInput) {
     return db.transaction((tx) => {
-      const c = requireCoupon(tx, couponId);
-      const row = applyWeighing(tx, actor, c.coupon, input, '');
+      requireCoupon(tx, couponId);
+      const row = measurements.addWeighing(tx, actor, 'entry', couponId, input);
       return withWarnings(tx, couponId, { weighing: toWeighingOut(row) });
     });
   }
 
   function addCheck(actor: User, couponId: number, input: CheckInput) {
     return db.transaction((tx) => {
-      const c = requireCoupon(tx, couponId);
-      const row = applyCheck(tx, actor, c.coupon, input, '');
+      requireCoupon(tx, couponId);
+      const row = measurements.addCheck(tx, actor, 'entry', couponId, input);
       return withWarnings(tx, couponId, { check: toCheckOut(row) });
     });
   }
 
-  function requireCurrent<R extends { supersededBy: number | null; deletedAt: string | null }>(row: R | undefined, what: string): R {
-    if (!row) throw new NotFound(what);
-    if (row.deletedAt !== null) throw new Conflict(`This ${what.toLowerCase()} was deleted; it cannot be changed`);
-    if (row.supersededBy !== null) {
-      throw new Conflict(`This ${what.toLowerCase()} was already corrected; correct the current one (id ${row.supersededBy})`);
-    }
-    return row;
-  }
-
   function correctWeighing(actor: User, id: number, input: CorrectWeighingInput) {
     return db.transaction((tx) => {
-      const old = requireCurrent(findWeighing(tx, id), 'Weighing');
-      const others = currentWeighings(tx, [old.couponId]).filter((w) => w.id !== old.id);
-      const problem = weighingProblem(old.stage, input.massG, currentMasses(others));
-      if (problem) throw problemError('', [problem]);
-      const row = tx
-        .insert(weighings)
-        .values({ couponId: old.couponId, stage: old.stage, massG: input.massG, measuredAt: input.measuredAt ?? old.measuredAt, importId: old.importId, createdBy: actor.id })
-        .returning()
-        .get();
-      tx.update(weighings).set({ supersededBy: row.id }).where(eq(weighings.id, old.id)).run();
-      writeAudit(tx, { actorId: actor.id, action: 'correct', entity: 'weighing', entityId: old.id, before: old, after: row, reason: input.reason });
-      return withWarnings(tx, old.couponId, { weighing: toWeighingOut(row), superseded: toWeighingOut({ ...old, supersededBy: row.id }) });
+      const { row, old } = measurements.correctWeighing(tx, actor, id, input);
+      return withWarnings(tx, old.couponId, { weighing: toWeighingOut(row), superseded: toWeighingOut(old) });
     });
   }
 
   function correctCheck(actor: User, id: number, input: CorrectCheckInput) {
     return db.transaction((tx) => {
-      const old = requireCurrent(findCheck(tx, id), 'Check');
-      const allowed: readonly string[] = CHECK_FIELDS[old.kind];
-      const foreign = Object.entries(input)
-        .filter(([k, v]) => v !== undefined && !['reason', 'measuredAt', 'method'].includes(k) && !allowed.includes(k))
-        .map(([k]) => k);
-      if (foreign.length) {
-        throw new ValidationFailed(`A ${old.kind} check has no ${foreign.join(', ')}`, Object.fromEntries(foreign.map((f) => [f, [`Not a field of a ${old.kind} check`]])));
-      }
-      const next = {
-        couponId: old.couponId,
-        kind: old.kind,
-        stage: old.stage,
-        measuredAt: input.measuredAt ?? old.measuredAt,
-        lengthMm: input.lengthMm ?? old.lengthMm,
-        widthMm: input.widthMm ?? old.widthMm,
-        thicknessMm: input.thicknessMm ?? old.thicknessMm,
-        volumeCm3: input.volumeCm3 ?? old.volumeCm3,
-        hardnessValue: input.hardnessValue ?? old.hardnessValue,
-        hardnessScale: input.hardnessScale ?? old.hardnessScale,
-        moisturePct: input.moisturePct ?? old.moisturePct,
-        method: input.method ?? old.method,
-        createdBy: actor.id,
-      };
-      const problems = checkProblems(next);
-      if (problems.length) throw problemError('', problems);
-      const row = tx.insert(checks).values(next).returning().get();
-      tx.update(checks).set({ supersededBy: row.id }).where(eq(checks.id, old.id)).run();
-      writeAudit(tx, { actorId: actor.id, action: 'correct', entity: 'check', entityId: old.id, before: old, after: row, reason: input.reason });
-      return withWarnings(tx, old.couponId, { check: toCheckOut(row), superseded: toCheckOut({ ...old, supersededBy: row.id }) });
+      const { row, old } = measurements.correctCheck(tx, actor, id, input);
+      return withWarnings(tx, old.couponId, { check: toCheckOut(row), superseded: toCheckOut(old) });
     });
   }
 
   function deleteWeighing(actor: User, id: number, reason: string) {
     return db.transaction((tx) => {
-      const old = requireCurrent(findWeighing(tx, id), 'Weighing');
-      const deletedAt = deps.now().toISOString();
-      tx.update(weighings).set({ deletedAt }).where(eq(weighings.id, id)).run();
-      writeAudit(tx, { actorId: actor.id, action: 'delete', entity: 'weighing', entityId: id, before: old, after: { ...old, deletedAt }, reason });
+      const { old } = measurements.deleteWeighing(tx, actor, id, reason);
       return { coupon: one(tx, old.couponId) };
     });
   }
 
   function deleteCheck(actor: User, id: number, reason: string) {
     return db.transaction((tx) => {
-      const old = requireCurrent(findCheck(tx, id), 'Check');
-      const deletedAt = deps.now().toISOString();
-      tx.update(checks).set({ deletedAt }).where(eq(checks.id, id)).run();
-      writeAudit(tx, { actorId: actor.id, action: 'delete', entity: 'check', entityId: id, before: old, after: { ...old, deletedAt }, reason });
+      const { old } = measurements.deleteCheck(tx, actor, id, reason);
       return { coupon: one(tx, old.couponId) };
     });
   }
 
   /**
    * The entry grid's save: every entry or none, errors naming `entries.<i>.<list>.<j>.<field>`.
-   * Every entry is tried before giving up, so the grid can mark all its bad cells from one answer;
-   * the transaction is rolled back when any failed.
+   * Every reading is checked before giving up, so the grid can mark all its bad cells from one answer.
    */
   function batch(actor: User, input: BatchMeasurementsInput) {
     return db.transaction((tx) => {
-      const touched: number[] = [];
-      const failures: AppError[] = [];
-      let nw = 0;
-      let nc = 0;
-      const attempt = (run: () => void) => {
-        try {
-          run();
-        } catch (err) {
-          if (!(err instanceof AppError)) throw err;
-          failures.push(err);
-        }
-      };
-      input.entries.forEach((e, i) => {
-        const c = findCoupon(tx, e.couponId);
-        if (!c) {
-          const msg = `No coupon with id ${e.couponId}`;
-          failures.push(new Unprocessable(`entries.${i}: ${msg}`, { [`entries.${i}.couponId`]: [msg] }));
-          return;
-        }
-        (e.weighings ?? []).forEach((w, j) =>
-          attempt(() => {
-            applyWeighing(tx, actor, c.coupon, w, `entries.${i}.weighings.${j}.`);
-            nw++;
-          }),
-        );
-        (e.checks ?? []).forEach((k, j) =>
-          attempt(() => {
-            applyCheck(tx, actor, c.coupon, k, `entries.${i}.checks.${j}.`);
-            nc++;
-          }),
-        );
-        if (!touched.includes(c.coupon.id)) touched.push(c.coupon.id);
-      });
-      if (failures.length > 0) {
-        const first = failures[0]!;
-        const fieldErrors: Record<string, string[]> = {};
-        for (const f of failures) for (const [k, v] of Object.entries(f.fieldErrors ?? {})) (fieldErrors[k] ??= []).push(...v);
-        const message = failures.length === 1 ? first.message : `${failures.length} readings have problems, nothing was saved; the first: ${first.message}`;
-        throw new AppError(first.code, message, fieldErrors);
-      }
+      const { weighings: ws, checks: cs, couponIds } = measurements.batch(tx, actor, 'grid', input.entries);
       const out = build(
         tx,
-        touched.map((id) => requireCoupon(tx, id)),
+        couponIds.map((id) => requireCoupon(tx, id)),
       );
-      const warnings = input.entries.flatMap((e, i) => (out.find((c) => c.id === e.couponId)?.warnings ?? []).map((w) => ({ ...w, entry: i, couponId: e.couponId })));
-      return { written: { weighings: nw, checks: nc }, coupons: out, warnings };
+      const byId = new Map(out.map((c) => [c.id, c]));
+      const warnings = input.entries.flatMap((e, i) => (byId.get(e.couponId)?.warnings ?? []).map((w) => ({ ...w, entry: i, couponId: e.couponId })));
+      return { written: { weighings: ws.length, checks: cs.length }, coupons: out, warnings };
     });
   }
 

@@ -2,6 +2,7 @@ import { and, asc, count, desc, eq, exists, isNotNull, like, notExists } from 'd
 import type { FeatureDeps } from '../../deps';
 import type { Db } from '../../db/client';
 import { writeAudit } from '../../db/audit';
+import { refreshResults, refreshResultsOfRun } from '../../measurements/results';
 import { coupons } from '../../db/schema/coupons';
 import { runReadings, runStages, runs } from '../../db/schema/runs';
 import { Conflict, NotFound, Unprocessable, ValidationFailed } from '../../http/errors';
@@ -184,6 +185,11 @@ export function createRunsService(deps: FeatureDeps) {
       tx.update(coupons).set({ runId: run.id }).where(eq(coupons.id, c.id)).run();
       writeAudit(tx, { actorId: actor.id, action: 'assign-run', entity: 'coupon', entityId: c.id, before: { runId: null }, after: { runId: run.id, runCode: run.code } });
     }
+    // The run's lot decides the resin of each coupon's results row.
+    refreshResults(
+      tx,
+      found.map((c) => c.id),
+    );
   }
 
   function removeCoupons(tx: Db, actor: User, run: RunRow, ids: number[]): void {
@@ -204,6 +210,10 @@ export function createRunsService(deps: FeatureDeps) {
       tx.update(coupons).set({ runId: null }).where(eq(coupons.id, c.id)).run();
       writeAudit(tx, { actorId: actor.id, action: 'remove-from-run', entity: 'coupon', entityId: c.id, before: { runId: run.id, runCode: run.code }, after: { runId: null } });
     }
+    refreshResults(
+      tx,
+      found.map((c) => c.id),
+    );
   }
 
   function list(q: RunListQuery): { items: RunSummary[]; page: number; pageSize: number; total: number } {
@@ -315,6 +325,8 @@ export function createRunsService(deps: FeatureDeps) {
           }
         }
         writeAudit(tx, { actorId: actor.id, action: 'update', entity: 'run', entityId: id, before, after });
+        // Another lot may mean another resin: void fill and the maximum uptake of every coupon change.
+        if (input.resinLotId !== undefined && input.resinLotId !== before.resinLotId) refreshResultsOfRun(tx, id);
       }
       const run = requireRun(tx, id);
       removeCoupons(tx, actor, run, input.removeCouponIds ?? []);

@@ -1,6 +1,7 @@
 import QRCode from 'qrcode';
 import type { Db } from '../../db/client';
 import { writeAudit } from '../../db/audit';
+import { refreshResults } from '../../measurements/results';
 import { Conflict, NotFound, Unprocessable } from '../../http/errors';
 import type { User } from '../../../shared/schemas/auth';
 import type {
@@ -321,6 +322,10 @@ export function createTrialsService(deps: TrialsServiceDeps) {
         }
       }
       if (made.length) {
+        refreshResults(
+          tx,
+          made.map((m) => m.id),
+        );
         writeAudit(tx, {
           actorId: actor.id,
           action: 'create-coupons',

@@ -1,0 +1,114 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { asc, count, eq } from 'drizzle-orm';
+import { startHarness, type Harness } from '../testing/harness';
+import { auditLog } from '../db/schema/admin';
+import { users } from '../db/schema/auth';
+import { checks, coupons, weighings } from '../db/schema/coupons';
+import { species } from '../db/schema/reference';
+import { couponResults } from '../db/schema/results';
+import { AppError } from '../http/errors';
+import { createMeasurements } from './measurements';
+import { rebuildResults, refreshResults } from './results';
+
+let h: Harness;
+let actor: { id: number };
+const m = createMeasurements({ now: () => new Date() });
+const at = (hours: number) => new Date(Date.UTC(2026, 4, 1) + hours * 3_600_000).toISOString();
+
+beforeAll(async () => {
+  h = await startHarness();
+  actor = { id: h.database.db.select({ id: users.id }).from(users).where(eq(users.email, 'tech@demo.test')).get()!.id };
+});
+afterAll(async () => {
+  await h.close();
+});
+
+/** Fresh coupons with no readings, so each test starts from a known state. */
+function newCoupons(n: number, role: 'treated' | 'control' = 'treated'): number[] {
+  const db = h.database.db;
+  const sp = db.select({ id: species.id }).from(species).limit(1).get()!.id;
+  return db.transaction((tx) => {
+    const ids = Array.from({ length: n }, (_, i) => tx.insert(coupons).values({ tag: `BULK-${role}-${Date.now()}-${i}-${Math.random()}`, speciesId: sp, role }).returning().get().id);
+    refreshResults(tx, ids);
+    return ids;
+  });
+}
+
+describe('measurements module: bulk path', () => {
+  it('writes every reading with its source, one audit entry per coupon, and the results rows, in one transaction', () => {
+    const db = h.database.db;
+    const ids = newCoupons(3);
+    const auditBefore = db.select({ n: count() }).from(auditLog).get()!.n;
+    const out = db.transaction((tx) =>
+      m.bulkAdd(
+        tx,
+        actor,
+        'import:7',
+        ids.map((couponId, i) => ({
+          couponId,
+          weighings: [
+            { stage: 'dry' as const, massG: 10 + i, measuredAt: at(0) },
+            { stage: 'cured' as const, massG: 15 + i, measuredAt: at(30) },
+          ],
+          checks: [{ kind: 'dimension' as const, stage: 'dry' as const, measuredAt: at(0), lengthMm: 100, widthMm: 20, thicknessMm: 10 }],
+        })),
+      ),
+    );
+    expect(out.written).toEqual({ weighings: 6, checks: 3 });
+    const ws = db.select().from(weighings).where(eq(weighings.couponId, ids[0]!)).orderBy(asc(weighings.id)).all();
+    expect(ws.map((w) => [w.stage, w.source, w.importId, w.createdBy])).toEqual([
+      ['dry', 'import:7', 7, actor.id],
+      ['cured', 'import:7', 7, actor.id],
+    ]);
+    expect(db.select().from(checks).where(eq(checks.couponId, ids[0]!)).get()).toMatchObject({ source: 'import:7', importId: 7 });
+    expect(db.select({ n: count() }).from(auditLog).get()!.n - auditBefore).toBe(3);
+    // WPG = (15 − 10) / 10 × 100 = 50 % (definition); dry SG = 10 g / 20 cm³ = 0.5.
+    const r = db.select().from(couponResults).where(eq(couponResults.couponId, ids[0]!)).get()!;
+    expect(r).toMatchObject({ dryMassG: 10, curedMassG: 15, wpgPct: 50, drySg: 0.5, dryVolumeCm3: 20 });
+    const incremental = db.select().from(couponResults).orderBy(asc(couponResults.couponId)).all();
+    db.transaction((tx) => rebuildResults(tx));
+    expect(db.select().from(couponResults).orderBy(asc(couponResults.couponId)).all()).toEqual(incremental);
+  });
+
+  it('applies the same rules as a single write, within the bulk too, and writes nothing when any reading is refused', () => {
+    const db = h.database.db;
+    const [a, b] = newCoupons(2);
+    const [ctrl] = newCoupons(1, 'control');
+    const entries = [
+      { couponId: a!, weighings: [{ stage: 'dry' as const, massG: 10, measuredAt: at(0) }] },
+      // Below the dry mass of the entry before it: refused although that dry mass is not stored yet.
+      { couponId: a!, weighings: [{ stage: 'cured' as const, massG: 9, measuredAt: at(30) }] },
+      // A second dry weighing in the same file.
+      { couponId: a!, weighings: [{ stage: 'dry' as const, massG: 11, measuredAt: at(1) }] },
+      { couponId: ctrl!, weighings: [{ stage: 'soaked' as const, massG: 12, measuredAt: at(20) }] },
+      { couponId: b!, checks: [{ kind: 'moisture' as const, stage: 'dry' as const, measuredAt: at(0), moisturePct: 400 }] },
+      { couponId: 99_999_999, weighings: [{ stage: 'dry' as const, massG: 5, measuredAt: at(0) }] },
+      { couponId: b!, weighings: [{ stage: 'dry' as const, massG: 8, measuredAt: at(0) }] },
+    ];
+    const problems = db.transaction((tx) => m.checkBulk(tx, entries));
+    expect(problems.map((p) => [p.entry, p.field, p.code])).toEqual([
+      [1, 'massG', 'unprocessable'],
+      [2, 'stage', 'conflict'],
+      [3, 'stage', 'unprocessable'],
+      [4, 'moisturePct', 'unprocessable'],
+      [5, 'couponId', 'unprocessable'],
+    ]);
+    const before = db.select({ n: count() }).from(weighings).get()!.n;
+    let error: unknown;
+    try {
+      db.transaction((tx) => m.bulkAdd(tx, actor, 'import:8', entries));
+    } catch (e) {
+      error = e;
+    }
+    expect(error).toBeInstanceOf(AppError);
+    expect((error as AppError).message).toMatch(/^5 readings have problems, nothing was saved/);
+    expect(Object.keys((error as AppError).fieldErrors ?? {})).toEqual([
+      'entries.1.weighings.0.massG',
+      'entries.2.weighings.0.stage',
+      'entries.3.weighings.0.stage',
+      'entries.4.checks.0.moisturePct',
+      'entries.5.couponId',
+    ]);
+    expect(db.select({ n: count() }).from(weighings).get()!.n).toBe(before);
+  });
+});

@@ -1,0 +1,427 @@
+import type { Db } from '../db/client';
+import { writeAudit } from '../db/audit';
+import { AppError, Conflict, NotFound, Unprocessable, ValidationFailed } from '../http/errors';
+import type { MeasurementSource, WeighingStage } from '../../shared/constants/records';
+import type { CheckInput, CorrectCheckInput, CorrectWeighingInput, WeighingInput } from '../../shared/schemas/coupons';
+import { massAt, type WeighingReading } from '../../shared/coupons/metrics';
+import { checkProblems, weighingProblem, type MeasurementProblem } from '../../shared/coupons/validate';
+import {
+  checkById,
+  currentWeighingsOf,
+  insertCheck,
+  insertWeighing,
+  markCheck,
+  markWeighing,
+  weighingById,
+  type CheckRow,
+  type WeighingRow,
+} from './readings.repo';
+import { refreshResults } from './results';
+
+/** Who is writing: only the id is stored (created_by, audit actor). */
+export interface Actor {
+  id: number;
+}
+
+/** The readings of one coupon in a batch or bulk write. */
+export interface MeasurementEntry {
+  couponId: number;
+  weighings?: readonly WeighingInput[];
+  checks?: readonly CheckInput[];
+}
+
+/** One refused reading: which entry, which list and item, which field, and why. */
+export interface ReadingProblem {
+  entry: number;
+  list: 'weighings' | 'checks' | null;
+  index: number | null;
+  field: string;
+  message: string;
+  code: 'conflict' | 'unprocessable';
+}
+
+/** Fields each check kind may carry; anything else in a correction is refused. */
+const CHECK_FIELDS = {
+  dimension: ['lengthMm', 'widthMm', 'thicknessMm', 'volumeCm3'],
+  hardness: ['hardnessValue', 'hardnessScale'],
+  moisture: ['moisturePct'],
+} as const;
+
+const SINGLE_STAGES: readonly WeighingStage[] = ['dry', 'soaked', 'cured', 'wet-test'];
+
+export function importIdOf(source: MeasurementSource): number | null {
+  return source.startsWith('import:') ? Number(source.slice('import:'.length)) : null;
+}
+
+function masses(ws: readonly WeighingReading[]) {
+  return { dry: massAt(ws, 'dry'), soaked: massAt(ws, 'soaked'), cured: massAt(ws, 'cured') };
+}
+
+function problemError(prefix: string, problems: MeasurementProblem[]): Unprocessable {
+  const fieldErrors: Record<string, string[]> = {};
+  for (const p of problems) (fieldErrors[`${prefix}${p.field}`] ??= []).push(p.message);
+  const first = problems[0] as MeasurementProblem;
+  return new Unprocessable(prefix ? `${prefix.replace(/\.$/, '')}: ${first.message}` : first.message, fieldErrors);
+}
+
+/** How a problem's field is named in an answer: `massG` alone, or `entries.3.weighings.0.massG` in a batch. */
+type Prefixer = (p: Pick<ReadingProblem, 'entry' | 'list' | 'index'>) => string;
+const batchPrefix: Prefixer = (p) => (p.list === null ? `entries.${p.entry}.` : `entries.${p.entry}.${p.list}.${p.index}.`);
+const singlePrefix: Prefixer = () => '';
+
+/** One AppError per refused reading (its problems together), as the grid and the coupon page expect. */
+function errorsOf(problems: readonly ReadingProblem[], prefixOf: Prefixer): AppError[] {
+  const byReading = new Map<string, ReadingProblem[]>();
+  for (const p of problems) {
+    const key = `${p.entry}|${p.list}|${p.index}`;
+    const list = byReading.get(key);
+    if (list) list.push(p);
+    else byReading.set(key, [p]);
+  }
+  return [...byReading.values()].map((ps) => {
+    const first = ps[0] as ReadingProblem;
+    const prefix = prefixOf(first);
+    if (first.code === 'conflict') {
+      return new Conflict(prefix ? `${prefix.replace(/\.$/, '')}: ${first.message}` : first.message, { [`${prefix}${first.field}`]: [first.message] });
+    }
+    return problemError(prefix, ps);
+  });
+}
+
+/** All refusals as one error: the only one as it is, several counted with the first named. */
+export function combinedError(failures: AppError[]): AppError {
+  const first = failures[0] as AppError;
+  if (failures.length === 1) return first;
+  const fieldErrors: Record<string, string[]> = {};
+  for (const f of failures) for (const [k, v] of Object.entries(f.fieldErrors ?? {})) (fieldErrors[k] ??= []).push(...v);
+  return new AppError(first.code, `${failures.length} readings have problems, nothing was saved; the first: ${first.message}`, fieldErrors);
+}
+
+interface CouponState {
+  tag: string;
+  role: 'treated' | 'control';
+  weighings: WeighingReading[];
+  dimensionStages: Set<string>;
+}
+
+function client(tx: Db) {
+  return (tx as unknown as { session: { client: import('better-sqlite3').Database } }).session.client;
+}
+
+/** The stored state the rules need, for every coupon of the entries, in three queries. */
+function loadStates(tx: Db, couponIds: number[]): Map<number, CouponState> {
+  const ids = JSON.stringify([...new Set(couponIds)]);
+  const c = client(tx);
+  const states = new Map<number, CouponState>();
+  for (const r of c.prepare('select id, tag, role from coupons where id in (select value from json_each(?))').all(ids) as { id: number; tag: string; role: 'treated' | 'control' }[]) {
+    states.set(r.id, { tag: r.tag, role: r.role, weighings: [], dimensionStages: new Set() });
+  }
+  const ws = c
+    .prepare(
+      'select coupon_id as couponId, stage, mass_g as massG, measured_at as measuredAt from weighings where coupon_id in (select value from json_each(?)) and superseded_by is null and deleted_at is null order by measured_at, id',
+    )
+    .all(ids) as (WeighingReading & { couponId: number })[];
+  for (const w of ws) states.get(w.couponId)?.weighings.push({ stage: w.stage, massG: w.massG, measuredAt: w.measuredAt });
+  const dims = c
+    .prepare("select coupon_id as couponId, stage from checks where coupon_id in (select value from json_each(?)) and kind = 'dimension' and superseded_by is null and deleted_at is null")
+    .all(ids) as { couponId: number; stage: string }[];
+  for (const d of dims) states.get(d.couponId)?.dimensionStages.add(d.stage);
+  return states;
+}
+
+/**
+ * The write rules of a new reading, checked in memory against the stored readings and the earlier
+ * readings of the same write (so a batch behaves as if its readings were added one by one):
+ * controls are never soaked or cured; one current dry, soaked, cured and wet-test weighing and one set
+ * of dimensions per stage; soaked and cured never below dry (and dry never above them); no
+ * non-positive mass, out-of-range moisture or Shore D. Answers the problems; `states` is advanced by
+ * every reading that passes.
+ */
+function validate(entries: readonly MeasurementEntry[], states: Map<number, CouponState>): ReadingProblem[] {
+  const problems: ReadingProblem[] = [];
+  entries.forEach((e, i) => {
+    const s = states.get(e.couponId);
+    if (!s) {
+      problems.push({ entry: i, list: null, index: null, field: 'couponId', message: `No coupon with id ${e.couponId}`, code: 'unprocessable' });
+      return;
+    }
+    (e.weighings ?? []).forEach((w, j) => {
+      const at = { entry: i, list: 'weighings' as const, index: j };
+      if (s.role === 'control' && (w.stage === 'soaked' || w.stage === 'cured')) {
+        problems.push({ ...at, field: 'stage', code: 'unprocessable', message: `${s.tag} is a control: it is never soaked in resin or cured, so it has no ${w.stage} weighing` });
+        return;
+      }
+      if (SINGLE_STAGES.includes(w.stage)) {
+        const dup = s.weighings.find((x) => x.stage === w.stage);
+        if (dup) {
+          problems.push({
+            ...at,
+            field: 'stage',
+            code: 'conflict',
+            message: `${s.tag} already has a ${w.stage} weighing (${dup.massG} g); correct that one, with a reason, instead of adding another`,
+          });
+          return;
+        }
+      }
+      const p = weighingProblem(w.stage, w.massG, masses(s.weighings));
+      if (p) {
+        problems.push({ ...at, ...p, code: 'unprocessable' });
+        return;
+      }
+      s.weighings.push({ stage: w.stage, massG: w.massG, measuredAt: w.measuredAt });
+    });
+    (e.checks ?? []).forEach((k, j) => {
+      const at = { entry: i, list: 'checks' as const, index: j };
+      const ps = checkProblems(k);
+      if (ps.length) {
+        for (const p of ps) problems.push({ ...at, ...p, code: 'unprocessable' });
+        return;
+      }
+      if (k.kind === 'dimension') {
+        if (s.dimensionStages.has(k.stage)) {
+          problems.push({
+            ...at,
+            field: 'stage',
+            code: 'conflict',
+            message: `${s.tag} already has ${k.stage} dimensions; correct those, with a reason, instead of adding another set`,
+          });
+          return;
+        }
+        s.dimensionStages.add(k.stage);
+      }
+    });
+  });
+  return problems;
+}
+
+function checkValues(couponId: number, k: CheckInput, source: MeasurementSource, actorId: number) {
+  return {
+    couponId,
+    kind: k.kind,
+    stage: k.stage,
+    measuredAt: k.measuredAt,
+    lengthMm: k.kind === 'dimension' ? (k.lengthMm ?? null) : null,
+    widthMm: k.kind === 'dimension' ? (k.widthMm ?? null) : null,
+    thicknessMm: k.kind === 'dimension' ? (k.thicknessMm ?? null) : null,
+    volumeCm3: k.kind === 'dimension' ? (k.volumeCm3 ?? null) : null,
+    hardnessValue: k.kind === 'hardness' ? k.hardnessValue : null,
+    hardnessScale: k.kind === 'hardness' ? k.hardnessScale : null,
+    moisturePct: k.kind === 'moisture' ? k.moisturePct : null,
+    method: k.method ?? null,
+    importId: importIdOf(source),
+    source,
+    createdBy: actorId,
+  };
+}
+
+function requireCurrent<R extends { supersededBy: number | null; deletedAt: string | null }>(row: R | undefined, what: string): R {
+  if (!row) throw new NotFound(what);
+  if (row.deletedAt !== null) throw new Conflict(`This ${what.toLowerCase()} was deleted; it cannot be changed`);
+  if (row.supersededBy !== null) throw new Conflict(`This ${what.toLowerCase()} was already corrected; correct the current one (id ${row.supersededBy})`);
+  return row;
+}
+
+/**
+ * The one place where a measurement is written. Every function runs inside the caller's transaction
+ * (`db.transaction((tx) => …)`), applies the write rules, writes the audit entry and refreshes the
+ * coupon's row of coupon_results in that same transaction. Features (coupons, runs, imports) call it;
+ * none writes weighings or checks itself.
+ */
+export function createMeasurements(deps: { now: () => Date }) {
+  /** Validates and writes entries row by row with an audit entry per reading; answers the rows. */
+  function writeRows(tx: Db, actor: Actor, source: MeasurementSource, entries: readonly MeasurementEntry[], prefixOf: Prefixer) {
+    const states = loadStates(
+      tx,
+      entries.map((e) => e.couponId),
+    );
+    const problems = validate(entries, states);
+    if (problems.length) throw combinedError(errorsOf(problems, prefixOf));
+    const weighingRows: WeighingRow[] = [];
+    const checkRows: CheckRow[] = [];
+    for (const e of entries) {
+      for (const w of e.weighings ?? []) {
+        const row = insertWeighing(tx, { couponId: e.couponId, stage: w.stage, massG: w.massG, measuredAt: w.measuredAt, importId: importIdOf(source), source, createdBy: actor.id });
+        writeAudit(tx, { actorId: actor.id, action: 'create', entity: 'weighing', entityId: row.id, after: row });
+        weighingRows.push(row);
+      }
+      for (const k of e.checks ?? []) {
+        const row = insertCheck(tx, checkValues(e.couponId, k, source, actor.id));
+        writeAudit(tx, { actorId: actor.id, action: 'create', entity: 'check', entityId: row.id, after: row });
+        checkRows.push(row);
+      }
+    }
+    const couponIds = [...new Set(entries.map((e) => e.couponId))];
+    refreshResults(tx, couponIds);
+    return { weighings: weighingRows, checks: checkRows, couponIds };
+  }
+
+  function addWeighing(tx: Db, actor: Actor, source: MeasurementSource, couponId: number, input: WeighingInput): WeighingRow {
+    return writeRows(tx, actor, source, [{ couponId, weighings: [input] }], singlePrefix).weighings[0] as WeighingRow;
+  }
+
+  function addCheck(tx: Db, actor: Actor, source: MeasurementSource, couponId: number, input: CheckInput): CheckRow {
+    return writeRows(tx, actor, source, [{ couponId, checks: [input] }], singlePrefix).checks[0] as CheckRow;
+  }
+
+  /**
+   * The entry grid's save: every reading is checked before anything is written, so one answer names
+   * all the bad cells as `entries.<i>.<list>.<j>.<field>`; nothing is written when any fails.
+   */
+  function batch(tx: Db, actor: Actor, source: MeasurementSource, entries: readonly MeasurementEntry[]) {
+    return writeRows(tx, actor, source, entries, batchPrefix);
+  }
+
+  /** Problems a bulk write would refuse, without writing anything (an import's preview). */
+  function checkBulk(tx: Db, entries: readonly MeasurementEntry[]): ReadingProblem[] {
+    return validate(
+      entries,
+      loadStates(
+        tx,
+        entries.map((e) => e.couponId),
+      ),
+    );
+  }
+
+  /**
+   * Many readings at once (an import): the same rules as every other write, checked in memory against
+   * state loaded in three queries; inserts through prepared statements; one audit entry per coupon
+   * listing the readings it received; the touched coupons' results rows rewritten in one pass. Nothing
+   * is written when any reading is refused: the error lists every problem (see `checkBulk` to get them
+   * as data). Call it inside one transaction.
+   */
+  function bulkAdd(tx: Db, actor: Actor, source: MeasurementSource, entries: readonly MeasurementEntry[], options: { reason?: string } = {}) {
+    const states = loadStates(
+      tx,
+      entries.map((e) => e.couponId),
+    );
+    const problems = validate(entries, states);
+    if (problems.length) throw combinedError(errorsOf(problems, batchPrefix));
+    const c = client(tx);
+    const importId = importIdOf(source);
+    const insW = c.prepare('insert into weighings (coupon_id, stage, mass_g, measured_at, import_id, source, created_by) values (?, ?, ?, ?, ?, ?, ?)');
+    const insC = c.prepare(
+      'insert into checks (coupon_id, kind, stage, measured_at, length_mm, width_mm, thickness_mm, volume_cm3, hardness_value, hardness_scale, moisture_pct, method, import_id, source, created_by) values (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)',
+    );
+    const insA = c.prepare("insert into audit_log (actor_id, created_by, action, entity, entity_id, after, reason) values (?, ?, 'add-readings', 'coupon', ?, ?, ?)");
+    const perCoupon = new Map<number, { weighings: unknown[]; checks: unknown[] }>();
+    let nw = 0;
+    let nc = 0;
+    for (const e of entries) {
+      let mine = perCoupon.get(e.couponId);
+      if (!mine) {
+        mine = { weighings: [], checks: [] };
+        perCoupon.set(e.couponId, mine);
+      }
+      for (const w of e.weighings ?? []) {
+        const id = insW.run(e.couponId, w.stage, w.massG, w.measuredAt, importId, source, actor.id).lastInsertRowid;
+        mine.weighings.push({ id: Number(id), stage: w.stage, massG: w.massG, measuredAt: w.measuredAt });
+        nw++;
+      }
+      for (const k of e.checks ?? []) {
+        const v = checkValues(e.couponId, k, source, actor.id);
+        const id = insC.run(
+          v.couponId,
+          v.kind,
+          v.stage,
+          v.measuredAt,
+          v.lengthMm,
+          v.widthMm,
+          v.thicknessMm,
+          v.volumeCm3,
+          v.hardnessValue,
+          v.hardnessScale,
+          v.moisturePct,
+          v.method,
+          v.importId,
+          v.source,
+          v.createdBy,
+        ).lastInsertRowid;
+        mine.checks.push({ id: Number(id), ...k });
+        nc++;
+      }
+    }
+    for (const [couponId, after] of perCoupon) insA.run(actor.id, actor.id, String(couponId), JSON.stringify({ source, ...after }), options.reason ?? null);
+    const couponIds = [...perCoupon.keys()];
+    refreshResults(tx, couponIds);
+    return { written: { weighings: nw, checks: nc }, couponIds };
+  }
+
+  /** A correction supersedes: a new row with the new value (source `correction`), the old one pointing at it. */
+  function correctWeighing(tx: Db, actor: Actor, id: number, input: CorrectWeighingInput) {
+    const old = requireCurrent(weighingById(tx, id), 'Weighing');
+    const others = currentWeighingsOf(tx, old.couponId).filter((w) => w.id !== old.id);
+    const problem = weighingProblem(old.stage, input.massG, masses(others));
+    if (problem) throw problemError('', [problem]);
+    const row = insertWeighing(tx, {
+      couponId: old.couponId,
+      stage: old.stage,
+      massG: input.massG,
+      measuredAt: input.measuredAt ?? old.measuredAt,
+      importId: old.importId,
+      source: 'correction',
+      createdBy: actor.id,
+    });
+    markWeighing(tx, old.id, { supersededBy: row.id });
+    writeAudit(tx, { actorId: actor.id, action: 'correct', entity: 'weighing', entityId: old.id, before: old, after: row, reason: input.reason });
+    refreshResults(tx, [old.couponId]);
+    return { row, old: { ...old, supersededBy: row.id } };
+  }
+
+  function correctCheck(tx: Db, actor: Actor, id: number, input: CorrectCheckInput) {
+    const old = requireCurrent(checkById(tx, id), 'Check');
+    const allowed: readonly string[] = CHECK_FIELDS[old.kind];
+    const foreign = Object.entries(input)
+      .filter(([k, v]) => v !== undefined && !['reason', 'measuredAt', 'method'].includes(k) && !allowed.includes(k))
+      .map(([k]) => k);
+    if (foreign.length) {
+      throw new ValidationFailed(`A ${old.kind} check has no ${foreign.join(', ')}`, Object.fromEntries(foreign.map((f) => [f, [`Not a field of a ${old.kind} check`]])));
+    }
+    const next = {
+      couponId: old.couponId,
+      kind: old.kind,
+      stage: old.stage,
+      measuredAt: input.measuredAt ?? old.measuredAt,
+      lengthMm: input.lengthMm ?? old.lengthMm,
+      widthMm: input.widthMm ?? old.widthMm,
+      thicknessMm: input.thicknessMm ?? old.thicknessMm,
+      volumeCm3: input.volumeCm3 ?? old.volumeCm3,
+      hardnessValue: input.hardnessValue ?? old.hardnessValue,
+      hardnessScale: input.hardnessScale ?? old.hardnessScale,
+      moisturePct: input.moisturePct ?? old.moisturePct,
+      method: input.method ?? old.method,
+      importId: old.importId,
+      source: 'correction' as const,
+      createdBy: actor.id,
+    };
+    const problems = checkProblems(next);
+    if (problems.length) throw problemError('', problems);
+    const row = insertCheck(tx, next);
+    markCheck(tx, old.id, { supersededBy: row.id });
+    writeAudit(tx, { actorId: actor.id, action: 'correct', entity: 'check', entityId: old.id, before: old, after: row, reason: input.reason });
+    refreshResults(tx, [old.couponId]);
+    return { row, old: { ...old, supersededBy: row.id } };
+  }
+
+  /** A deletion is soft: the row stays with deleted_at and the reason in the audit log. */
+  function deleteWeighing(tx: Db, actor: Actor, id: number, reason: string) {
+    const old = requireCurrent(weighingById(tx, id), 'Weighing');
+    const deletedAt = deps.now().toISOString();
+    markWeighing(tx, id, { deletedAt });
+    writeAudit(tx, { actorId: actor.id, action: 'delete', entity: 'weighing', entityId: id, before: old, after: { ...old, deletedAt }, reason });
+    refreshResults(tx, [old.couponId]);
+    return { old: { ...old, deletedAt } };
+  }
+
+  function deleteCheck(tx: Db, actor: Actor, id: number, reason: string) {
+    const old = requireCurrent(checkById(tx, id), 'Check');
+    const deletedAt = deps.now().toISOString();
+    markCheck(tx, id, { deletedAt });
+    writeAudit(tx, { actorId: actor.id, action: 'delete', entity: 'check', entityId: id, before: old, after: { ...old, deletedAt }, reason });
+    refreshResults(tx, [old.couponId]);
+    return { old: { ...old, deletedAt } };
+  }
+
+  return { addWeighing, addCheck, batch, checkBulk, bulkAdd, correctWeighing, correctCheck, deleteWeighing, deleteCheck };
+}
+
+export type Measurements = ReturnType<typeof createMeasurements>;

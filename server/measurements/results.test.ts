@@ -1,0 +1,172 @@
+import fc from 'fast-check';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { and, asc, eq, isNull } from 'drizzle-orm';
+import { startHarness, type Harness } from '../testing/harness';
+import { checks, coupons, weighings } from '../db/schema/coupons';
+import { resinLots, species } from '../db/schema/reference';
+import { runs } from '../db/schema/runs';
+import { couponResults } from '../db/schema/results';
+import { rebuildResults } from './results';
+import { WEIGHING_STAGES, CHECK_STAGES, HARDNESS_SCALES } from '../../shared/constants/records';
+
+type Agent = Awaited<ReturnType<Harness['signIn']>>;
+let h: Harness;
+let tech: Agent;
+
+beforeAll(async () => {
+  h = await startHarness();
+  tech = await h.signIn('tech@demo.test');
+});
+afterAll(async () => {
+  await h.close();
+});
+
+const snapshot = () => h.database.db.select().from(couponResults).orderBy(asc(couponResults.couponId)).all();
+const at = (n: number) => new Date(Date.UTC(2026, 3, 1) + (n % 500) * 3_600_000).toISOString();
+const pick = <T>(list: readonly T[], n: number): T | undefined => (list.length ? list[n % list.length] : undefined);
+
+/** One random change, through the HTTP API as the client sends it, so every write path is exercised. */
+const op = fc.oneof(
+  fc.record({ kind: fc.constant('weigh' as const), c: fc.nat(), stage: fc.constantFrom(...WEIGHING_STAGES), massG: fc.double({ min: 1, max: 60, noNaN: true }), t: fc.nat() }),
+  fc.record({
+    kind: fc.constant('dims' as const),
+    c: fc.nat(),
+    stage: fc.constantFrom(...CHECK_STAGES),
+    l: fc.double({ min: 50, max: 150, noNaN: true }),
+    w: fc.double({ min: 10, max: 40, noNaN: true }),
+    th: fc.double({ min: 5, max: 40, noNaN: true }),
+    t: fc.nat(),
+  }),
+  fc.record({ kind: fc.constant('hardness' as const), c: fc.nat(), stage: fc.constantFrom(...CHECK_STAGES), scale: fc.constantFrom(...HARDNESS_SCALES), v: fc.integer({ min: 1, max: 99 }), t: fc.nat() }),
+  fc.record({ kind: fc.constant('moisture' as const), c: fc.nat(), v: fc.double({ min: 0, max: 40, noNaN: true }), t: fc.nat() }),
+  fc.record({ kind: fc.constant('batch' as const), cs: fc.array(fc.nat(), { minLength: 1, maxLength: 3 }), massG: fc.double({ min: 1, max: 60, noNaN: true }), t: fc.nat() }),
+  fc.record({ kind: fc.constant('correct-weighing' as const), n: fc.nat(), massG: fc.double({ min: 1, max: 60, noNaN: true }) }),
+  fc.record({ kind: fc.constant('correct-check' as const), n: fc.nat(), th: fc.double({ min: 5, max: 40, noNaN: true }) }),
+  fc.record({ kind: fc.constant('delete-weighing' as const), n: fc.nat() }),
+  fc.record({ kind: fc.constant('delete-check' as const), n: fc.nat() }),
+  fc.record({ kind: fc.constant('move' as const), c: fc.nat(), r: fc.nat(), out: fc.boolean() }),
+  fc.record({ kind: fc.constant('lot' as const), r: fc.nat(), l: fc.nat() }),
+  fc.record({ kind: fc.constant('coupon' as const), c: fc.nat(), s: fc.nat(), control: fc.boolean() }),
+);
+type Op = typeof op extends fc.Arbitrary<infer T> ? T : never;
+
+async function apply(o: Op, ids: { coupons: number[]; runs: number[]; lots: number[]; species: number[] }): Promise<number> {
+  const db = h.database.db;
+  const liveW = () => db.select({ id: weighings.id }).from(weighings).where(and(isNull(weighings.supersededBy), isNull(weighings.deletedAt))).orderBy(asc(weighings.id)).all();
+  const liveC = () => db.select({ id: checks.id, kind: checks.kind }).from(checks).where(and(isNull(checks.supersededBy), isNull(checks.deletedAt))).orderBy(asc(checks.id)).all();
+  const coupon = 'c' in o ? pick(ids.coupons, o.c)! : 0;
+  let res: { status: number; body: unknown };
+  switch (o.kind) {
+    case 'weigh':
+      res = await tech.post(`/api/coupons/${coupon}/weighings`).send({ stage: o.stage, massG: o.massG, measuredAt: at(o.t) });
+      break;
+    case 'dims':
+      res = await tech.post(`/api/coupons/${coupon}/checks`).send({ kind: 'dimension', stage: o.stage, measuredAt: at(o.t), lengthMm: o.l, widthMm: o.w, thicknessMm: o.th });
+      break;
+    case 'hardness':
+      res = await tech.post(`/api/coupons/${coupon}/checks`).send({ kind: 'hardness', stage: o.stage, measuredAt: at(o.t), hardnessValue: o.v, hardnessScale: o.scale });
+      break;
+    case 'moisture':
+      res = await tech.post(`/api/coupons/${coupon}/checks`).send({ kind: 'moisture', stage: 'dry', measuredAt: at(o.t), moisturePct: o.v });
+      break;
+    case 'batch':
+      res = await tech.post('/api/coupons/measurements').send({
+        entries: o.cs.map((c, i) => ({ couponId: pick(ids.coupons, c)!, weighings: [{ stage: 'drying-check', massG: o.massG + i, measuredAt: at(o.t + i) }] })),
+      });
+      break;
+    case 'correct-weighing': {
+      const w = pick(liveW(), o.n);
+      if (!w) return 0;
+      res = await tech.patch(`/api/weighings/${w.id}`).send({ massG: o.massG, reason: 'typed the wrong figure' });
+      break;
+    }
+    case 'correct-check': {
+      const c = pick(
+        liveC().filter((x) => x.kind === 'dimension'),
+        o.n,
+      );
+      if (!c) return 0;
+      res = await tech.patch(`/api/checks/${c.id}`).send({ thicknessMm: o.th, reason: 'callipers slipped' });
+      break;
+    }
+    case 'delete-weighing': {
+      const w = pick(liveW(), o.n);
+      if (!w) return 0;
+      res = await tech.delete(`/api/weighings/${w.id}`).send({ reason: 'wrong coupon' });
+      break;
+    }
+    case 'delete-check': {
+      const c = pick(liveC(), o.n);
+      if (!c) return 0;
+      res = await tech.delete(`/api/checks/${c.id}`).send({ reason: 'wrong coupon' });
+      break;
+    }
+    case 'move': {
+      const runId = pick(ids.runs, o.r)!;
+      const current = db.select({ runId: coupons.runId }).from(coupons).where(eq(coupons.id, coupon)).get()?.runId ?? null;
+      res = o.out && current !== null
+        ? await tech.patch(`/api/runs/${current}`).send({ removeCouponIds: [coupon] })
+        : await tech.patch(`/api/runs/${runId}`).send({ addCouponIds: [coupon] });
+      break;
+    }
+    case 'lot':
+      res = await tech.patch(`/api/runs/${pick(ids.runs, o.r)!}`).send({ resinLotId: pick(ids.lots, o.l)! });
+      break;
+    case 'coupon':
+      res = await tech.patch(`/api/coupons/${coupon}`).send(o.control ? { role: 'control' } : { speciesId: pick(ids.species, o.s)! });
+      break;
+  }
+  // Refusals (409, 422) are part of the game; a 500 or a malformed request is a bug.
+  expect([200, 201, 409, 422], `${o.kind}: ${JSON.stringify(res.body)}`).toContain(res.status);
+  return res.status;
+}
+
+describe('coupon_results', () => {
+  it('has one row per coupon after the demo seed, equal to a rebuild', () => {
+    const n = h.database.db.select({ id: coupons.id }).from(coupons).all().length;
+    const before = snapshot();
+    expect(before).toHaveLength(n);
+    h.database.db.transaction((tx) => rebuildResults(tx));
+    expect(snapshot()).toEqual(before);
+  });
+
+  it('stores what the coupon answer computes, for every demo coupon', async () => {
+    const res = await tech.get('/api/coupons?pageSize=200');
+    expect(res.status).toBe(200);
+    const rows = new Map(snapshot().map((r) => [r.couponId, r]));
+    for (const c of res.body.items as { id: number; metrics: Record<string, unknown> }[]) {
+      const r = rows.get(c.id)!;
+      expect({ wpgPct: r.wpgPct, drySg: r.drySg, voidFillPct: r.voidFillPct, swellingPct: r.swellingPct, hardness: r.hardness, problems: r.problems }).toEqual({
+        wpgPct: c.metrics.wpgPct,
+        drySg: c.metrics.drySg,
+        voidFillPct: c.metrics.voidFillPct,
+        swellingPct: c.metrics.swellingPct,
+        hardness: c.metrics.hardness,
+        problems: c.metrics.problems,
+      });
+    }
+  });
+
+  it('equals a rebuild from the readings after any sequence of adds, corrections, deletions and moves', async () => {
+    const db = h.database.db;
+    // A small working set keeps collisions (duplicates, corrections of the same coupon) frequent.
+    const ids = {
+      coupons: db.select({ id: coupons.id }).from(coupons).orderBy(asc(coupons.id)).limit(12).all().map((r) => r.id),
+      runs: db.select({ id: runs.id }).from(runs).all().map((r) => r.id),
+      lots: db.select({ id: resinLots.id }).from(resinLots).all().map((r) => r.id),
+      species: db.select({ id: species.id }).from(species).limit(4).all().map((r) => r.id),
+    };
+    let accepted = 0;
+    await fc.assert(
+      fc.asyncProperty(fc.array(op, { minLength: 1, maxLength: 12 }), async (ops) => {
+        for (const o of ops) if ((await apply(o, ids)) < 300) accepted++;
+        const incremental = snapshot();
+        db.transaction((tx) => rebuildResults(tx));
+        expect(snapshot()).toEqual(incremental);
+      }),
+      { numRuns: 30, seed: 20260401 },
+    );
+    // The sequences must actually change things, not only be refused.
+    expect(accepted).toBeGreaterThan(50);
+  }, 120_000);
+});

@@ -1,0 +1,232 @@
+import { getTableColumns, sql } from 'drizzle-orm';
+import type { Db } from '../db/client';
+import { couponResults, type CouponResultValues } from '../db/schema/results';
+import type { CheckKind, CheckStage, CouponRole, HardnessScale, WeighingStage } from '../../shared/constants/records';
+import { checkVolumeCm3, couponMetrics, type CheckReading, type WeighingReading } from '../../shared/coupons/metrics';
+
+/** What a results row is keyed by: the coupon and where it sits (trial, run, lot, resin). */
+export interface ResultKeys {
+  couponId: number;
+  tag: string;
+  trialId: number | null;
+  conditionId: number | null;
+  runId: number | null;
+  speciesId: number;
+  role: CouponRole;
+  sourceBoard: string | null;
+  resinId: number | null;
+  resinLotId: number | null;
+  curedDensityGcm3: number | null;
+}
+
+export interface StoredWeighing extends WeighingReading {
+  couponId: number;
+}
+export interface StoredCheck extends CheckReading {
+  couponId: number;
+}
+
+const HARDNESS_COLUMN: Record<CheckStage, Record<HardnessScale, keyof CouponResultValues>> = {
+  dry: { 'shore-d': 'hardnessDryShoreD', 'janka-n': 'hardnessDryJankaN', 'brinell-hb': 'hardnessDryBrinellHb' },
+  cured: { 'shore-d': 'hardnessCuredShoreD', 'janka-n': 'hardnessCuredJankaN', 'brinell-hb': 'hardnessCuredBrinellHb' },
+  'wet-test': { 'shore-d': 'hardnessWetTestShoreD', 'janka-n': 'hardnessWetTestJankaN', 'brinell-hb': 'hardnessWetTestBrinellHb' },
+};
+
+function latest<T extends { measuredAt: string }>(rows: readonly T[]): T | undefined {
+  let best: T | undefined;
+  for (const r of rows) if (!best || Date.parse(r.measuredAt) >= Date.parse(best.measuredAt)) best = r;
+  return best;
+}
+
+/**
+ * The results row of one coupon from its keys and current readings (in measured_at, id order), through
+ * couponMetrics: the same function the client's grid runs, so the stored numbers cannot disagree with it.
+ */
+export function resultValues(k: ResultKeys, ws: readonly WeighingReading[], cs: readonly CheckReading[]): CouponResultValues {
+  const m = couponMetrics({ role: k.role, weighings: ws, checks: cs, resin: k.curedDensityGcm3 === null ? null : { curedDensityGcm3: k.curedDensityGcm3 } });
+  const drying = ws.filter((w) => w.stage === 'drying-check');
+  const firstDrying = [...drying].sort((a, b) => Date.parse(a.measuredAt) - Date.parse(b.measuredAt))[0];
+  const lastDrying = latest(drying);
+  const dryDim = latest(cs.filter((c) => c.kind === 'dimension' && c.stage === 'dry' && checkVolumeCm3(c) !== null));
+  const meter = latest(cs.filter((c) => c.kind === 'moisture' && c.stage === 'dry' && c.moisturePct != null));
+  const row: CouponResultValues = {
+    couponId: k.couponId,
+    tag: k.tag,
+    trialId: k.trialId,
+    conditionId: k.conditionId,
+    runId: k.runId,
+    speciesId: k.speciesId,
+    resinId: k.resinId,
+    resinLotId: k.resinLotId,
+    role: k.role,
+    sourceBoard: k.sourceBoard,
+    dryMassG: m.dryMassG,
+    soakedMassG: m.soakedMassG,
+    curedMassG: m.curedMassG,
+    wetTestMassG: m.wetTestMassG,
+    dryingCheckCount: drying.length,
+    firstDryingCheckMassG: firstDrying?.massG ?? null,
+    lastDryingCheckMassG: lastDrying?.massG ?? null,
+    lastDryingCheckAt: lastDrying?.measuredAt ?? null,
+    dryLengthMm: dryDim?.lengthMm ?? null,
+    dryWidthMm: dryDim?.widthMm ?? null,
+    dryThicknessMm: dryDim?.thicknessMm ?? null,
+    dryVolumeCm3: m.dryVolumeCm3,
+    curedVolumeCm3: m.curedVolumeCm3,
+    wetTestVolumeCm3: m.wetTestVolumeCm3,
+    dryMoisturePct: meter?.moisturePct ?? null,
+    hardnessDryShoreD: null,
+    hardnessDryJankaN: null,
+    hardnessDryBrinellHb: null,
+    hardnessCuredShoreD: null,
+    hardnessCuredJankaN: null,
+    hardnessCuredBrinellHb: null,
+    hardnessWetTestShoreD: null,
+    hardnessWetTestJankaN: null,
+    hardnessWetTestBrinellHb: null,
+    thicknessMm: m.thicknessMm,
+    mcPct: m.mcPct,
+    mcSource: m.mcSource,
+    dryDensityKgM3: m.dryDensityKgM3,
+    drySg: m.drySg,
+    wpgPct: m.wpgPct,
+    wetUptakePct: m.wetUptakePct,
+    resinLoadingKgM3: m.resinLoadingKgM3,
+    voidFillPct: m.voidFillPct,
+    maxWpgPct: m.maxWpgPct,
+    cureLossPct: m.cureLossPct,
+    bulkingPct: m.bulkingPct,
+    swellingPct: m.swellingPct,
+    swellingBasis: m.swellingBasis,
+    hardness: m.hardness,
+    problems: m.problems,
+    problemCount: m.problems.length,
+  };
+  for (const h of m.hardness) (row as Record<string, unknown>)[HARDNESS_COLUMN[h.stage][h.scale]] = h.value;
+  return row;
+}
+
+// Raw SQL below: one statement each, bound with a single JSON array so no list of ids ever becomes
+// thousands of SQL variables (SQLite stops at 32,766).
+
+const KEYS_SQL = `
+  select c.id as couponId, c.tag, c.trial_id as trialId, c.condition_id as conditionId, c.run_id as runId,
+         c.species_id as speciesId, c.role, c.source_board as sourceBoard,
+         coalesce(rl.resin_id, tc.resin_id) as resinId, r.resin_lot_id as resinLotId, rs.cured_density_g_cm3 as curedDensityGcm3
+  from coupons c
+  left join runs r on r.id = c.run_id
+  left join resin_lots rl on rl.id = r.resin_lot_id
+  left join trial_conditions tc on tc.id = c.condition_id
+  left join resins rs on rs.id = coalesce(rl.resin_id, tc.resin_id)`;
+const WEIGHINGS_SQL = `select w.coupon_id as couponId, w.stage, w.mass_g as massG, w.measured_at as measuredAt from weighings w`;
+const CHECKS_SQL = `
+  select k.coupon_id as couponId, k.kind, k.stage, k.measured_at as measuredAt, k.length_mm as lengthMm, k.width_mm as widthMm,
+         k.thickness_mm as thicknessMm, k.volume_cm3 as volumeCm3, k.hardness_value as hardnessValue, k.hardness_scale as hardnessScale,
+         k.moisture_pct as moisturePct
+  from checks k`;
+const IDS = `(select value from json_each(?))`;
+
+interface RawKeys extends Omit<ResultKeys, 'role'> {
+  role: string;
+}
+interface RawWeighing {
+  couponId: number;
+  stage: string;
+  massG: number;
+  measuredAt: string;
+}
+interface RawCheck extends Omit<StoredCheck, 'kind' | 'stage' | 'hardnessScale'> {
+  kind: string;
+  stage: string;
+  hardnessScale: string | null;
+}
+
+/** better-sqlite3 underneath drizzle: the same connection, so these statements run inside the caller's transaction. */
+function client(tx: Db) {
+  return (tx as unknown as { $client?: import('better-sqlite3').Database }).$client ?? (tx as unknown as { session: { client: import('better-sqlite3').Database } }).session.client;
+}
+
+function groupBy<T extends { couponId: number }>(rows: T[]): Map<number, T[]> {
+  const out = new Map<number, T[]>();
+  for (const r of rows) {
+    const list = out.get(r.couponId);
+    if (list) list.push(r);
+    else out.set(r.couponId, [r]);
+  }
+  return out;
+}
+
+const toWeighing = (w: RawWeighing): WeighingReading => ({ stage: w.stage as WeighingStage, massG: w.massG, measuredAt: w.measuredAt });
+const toCheck = (c: RawCheck): CheckReading => ({
+  kind: c.kind as CheckKind,
+  stage: c.stage as CheckStage,
+  measuredAt: c.measuredAt,
+  lengthMm: c.lengthMm,
+  widthMm: c.widthMm,
+  thicknessMm: c.thicknessMm,
+  volumeCm3: c.volumeCm3,
+  hardnessValue: c.hardnessValue,
+  hardnessScale: c.hardnessScale as HardnessScale | null,
+  moisturePct: c.moisturePct,
+});
+
+const COLUMNS = Object.entries(getTableColumns(couponResults)).map(([key, col]) => ({ key, name: col.name }));
+const UPSERT_SQL = `insert or replace into coupon_results (${COLUMNS.map((c) => c.name).join(', ')}) values (${COLUMNS.map((c) => `@${c.key}`).join(', ')})`;
+
+function bindable(v: CouponResultValues): Record<string, unknown> {
+  const out: Record<string, unknown> = {};
+  for (const c of COLUMNS) {
+    const x = (v as Record<string, unknown>)[c.key];
+    out[c.key] = c.key === 'hardness' || c.key === 'problems' ? JSON.stringify(x) : (x ?? null);
+  }
+  return out;
+}
+
+function writeRows(tx: Db, keys: RawKeys[], ws: Map<number, RawWeighing[]>, cs: Map<number, RawCheck[]>): number {
+  const upsert = client(tx).prepare(UPSERT_SQL);
+  for (const k of keys) {
+    const values = resultValues({ ...k, role: k.role as CouponRole }, (ws.get(k.couponId) ?? []).map(toWeighing), (cs.get(k.couponId) ?? []).map(toCheck));
+    upsert.run(bindable(values));
+  }
+  return keys.length;
+}
+
+/**
+ * Recomputes the results rows of these coupons from their current readings and keys. Call it inside
+ * the transaction of the change (every write of server/measurements does; a feature that moves a
+ * coupon between runs, changes its species or role, or creates coupons calls it for those coupons).
+ */
+export function refreshResults(tx: Db, couponIds: readonly number[]): number {
+  if (couponIds.length === 0) return 0;
+  const ids = JSON.stringify([...new Set(couponIds)]);
+  const c = client(tx);
+  const keys = c.prepare(`${KEYS_SQL} where c.id in ${IDS}`).all(ids) as RawKeys[];
+  const ws = c.prepare(`${WEIGHINGS_SQL} where w.coupon_id in ${IDS} and w.superseded_by is null and w.deleted_at is null order by w.measured_at, w.id`).all(ids) as RawWeighing[];
+  const cs = c.prepare(`${CHECKS_SQL} where k.coupon_id in ${IDS} and k.superseded_by is null and k.deleted_at is null order by k.measured_at, k.id`).all(ids) as RawCheck[];
+  return writeRows(tx, keys, groupBy(ws), groupBy(cs));
+}
+
+/** Refreshes every coupon of a run (its lot, and so its resin, changed). */
+export function refreshResultsOfRun(tx: Db, runId: number): number {
+  const ids = (client(tx).prepare('select id from coupons where run_id = ?').all(runId) as { id: number }[]).map((r) => r.id);
+  return refreshResults(tx, ids);
+}
+
+/**
+ * Throws the table away and writes it again from the readings, in one pass over each table (no
+ * per-coupon queries). `npm run db:rebuild-results`; also run at start when the table lacks rows.
+ */
+export function rebuildResults(tx: Db): number {
+  const c = client(tx);
+  c.prepare('delete from coupon_results').run();
+  const keys = c.prepare(`${KEYS_SQL} order by c.id`).all() as RawKeys[];
+  const ws = c.prepare(`${WEIGHINGS_SQL} where w.superseded_by is null and w.deleted_at is null order by w.measured_at, w.id`).all() as RawWeighing[];
+  const cs = c.prepare(`${CHECKS_SQL} where k.superseded_by is null and k.deleted_at is null order by k.measured_at, k.id`).all() as RawCheck[];
+  return writeRows(tx, keys, groupBy(ws), groupBy(cs));
+}
+
+/** True when some coupon has no results row (a database from before the table, or a restored backup). */
+export function resultsIncomplete(tx: Db): boolean {
+  const row = tx.get<{ missing: number }>(sql`select exists (select 1 from coupons c where not exists (select 1 from coupon_results r where r.coupon_id = c.id)) as missing`);
+  return row.missing === 1;
+}
