@@ -1,5 +1,5 @@
 import fs from 'node:fs';
-import { Transform, type TransformCallback } from 'node:stream';
+import { Transform, type Duplex, type TransformCallback } from 'node:stream';
 import iconv from 'iconv-lite';
 import Papa from 'papaparse';
 import type { ImportFormat } from '../../../shared/schemas/imports';
@@ -77,12 +77,13 @@ export async function streamRows(
     onProgress?.(size ? read / size : 1);
   });
   const papa = Papa.parse(Papa.NODE_STREAM_INPUT, { delimiter: format.delimiter === 'spaces' ? ' ' : format.delimiter, skipEmptyLines: false });
-  const decoder = iconv.decodeStream(format.encoding, { stripBOM: true });
+  const decoder = iconv.decodeStream(format.encoding, { stripBOM: true }) as unknown as Transform;
   const guard = new LineGuard({ decodeStrings: false, encoding: 'utf8' });
+  const streams: Duplex[] = [source as unknown as Duplex, decoder, guard, papa];
   const fail = (err: Error) => {
-    for (const s of [source, decoder, guard, papa]) s.destroy(err);
+    for (const s of streams) s.destroy(err);
   };
-  for (const s of [source, decoder, guard]) s.on('error', fail);
+  for (const s of streams.slice(0, 3)) s.on('error', fail);
   source.pipe(decoder).pipe(guard).pipe(papa);
   let records = 0;
   for await (const data of papa as AsyncIterable<string[]>) {

@@ -23,7 +23,7 @@ import type {
   ImportSummary,
 } from '../../../shared/schemas/imports';
 import type { ListQuery } from '../../../shared/schemas/common';
-import { detectSample, sampleLines, viewSample } from '../../../shared/imports/detect';
+import { detectSample, formatOf, sampleLines, viewSample } from '../../../shared/imports/detect';
 import { binaryReason, detectEncoding } from '../../../shared/imports/encoding';
 import { nearestTags } from '../../../shared/imports/levenshtein';
 import { readRow, type RowProblem } from '../../../shared/imports/rows';
@@ -202,6 +202,8 @@ export function createImportsService(deps: FeatureDeps) {
       }
       const { detected, view } = detectSample(text, enc, truncated, (t) => tagExists(db, t));
       if (text.trim() === '') throw new Unprocessable('The file holds no text', { file: ['The file holds no text'] });
+      // A sample with no complete data row may hide an endless line; reading on finds it (LineTooLong).
+      if (view.rows.length === 0 && truncated) await streamRows(file.path, formatOf(detected), () => undefined);
       if (view.rows.length === 0) {
         const msg = 'The file has a header line but no readings below it';
         throw new Unprocessable(msg, { file: [msg] });
