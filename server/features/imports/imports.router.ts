@@ -24,9 +24,11 @@ export function importsRoutes(deps: FeatureDeps) {
   r.get('/imports/:id', { access: 'viewer', schemas: id }, ({ params }) => service.detail(params.id));
   r.get('/imports/:id/problems', { access: 'viewer', schemas: { ...id, query: importProblemsQuerySchema } }, ({ params, query }) => service.problems(params.id, query));
   r.get('/imports/:id/problems.csv', { access: 'viewer', schemas: id }, ({ params, res }) => {
+    // Built before any header is set, so a missing import still gets the JSON error envelope.
+    const csv = service.problemsCsv(params.id);
     res.setHeader('Content-Type', 'text/csv; charset=utf-8');
     res.setHeader('Content-Disposition', `attachment; filename="import-${params.id}-problems.csv"`);
-    res.status(200).send(service.problemsCsv(params.id));
+    res.status(200).send(csv);
   });
   r.post('/imports/:id/sample', { access: 'technician', schemas: { ...id, body: sampleImportSchema } }, ({ params, body }) => service.sample(params.id, body.format));
   r.post('/imports/:id/preview', { access: 'technician', status: 202, schemas: { ...id, body: previewImportSchema } }, ({ params, body }) => service.preview(params.id, body.mapping));
