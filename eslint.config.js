@@ -56,6 +56,11 @@ export default [
             { target: './server', from: './src', message: 'The server never imports the client.' },
             // server/measurements is the one writer of readings: features call it, it calls no feature.
             { target: './server/measurements', from: './server/features', message: 'server/measurements sits below the features: it imports none of them.' },
+            ...['lib', 'components', 'config'].map((dir) => ({
+              target: `./src/${dir}`,
+              from: ['./src/features', './src/app'],
+              message: `src/${dir} is shared by every feature, so it imports no feature and not the app.`,
+            })),
             ...featureZones('src'),
             ...featureZones('server'),
           ],

@@ -6,11 +6,15 @@ import '@fontsource/literata/400-italic.css';
 import '@fontsource/literata/600.css';
 import './index.css';
 import { AppProvider } from './app/provider';
-import { router } from './app/router';
+import { createQueryClient } from './app/query-client';
+import { createAppRouter } from './app/router';
+
+const queryClient = createQueryClient();
+const router = createAppRouter(queryClient);
 
 createRoot(document.getElementById('root')!).render(
   <StrictMode>
-    <AppProvider>
+    <AppProvider client={queryClient}>
       <RouterProvider router={router} />
     </AppProvider>
   </StrictMode>,

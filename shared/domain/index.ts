@@ -30,6 +30,8 @@ export type { LinearFit, MultipleFit } from './regression';
 export {
   CURE_TEMPERATURE_RANGE_C,
   CURE_TEMPERATURE_RANGE_F,
+  CURE_WINDOW_SLACK_C,
+  inCureWindow,
   GAUGE_DROP_INHG_PER_1000_FT,
   SOAK_TO_VACUUM_TIME_RATIO,
   minimumSoakHours,

@@ -115,12 +115,13 @@ describe('rules of thumb of the trade (common practice, no published source)', (
     expect(minimumSoakHours(6)).toBe(12);
   });
 
-  it('cure at 93–121 °C is the 200–250 °F of shop practice, both ways (°F = °C × 9/5 + 32)', () => {
+  it('the cure window is the 200–250 °F of shop practice, in °C without rounding (°F = °C × 9/5 + 32)', () => {
     const [lowF, highF] = CURE_TEMPERATURE_RANGE_F;
     const [lowC, highC] = CURE_TEMPERATURE_RANGE_C;
-    expect(Math.round(convertTemperature(lowF, 'degF', 'degC'))).toBe(lowC);
-    expect(Math.round(convertTemperature(highF, 'degF', 'degC'))).toBe(highC);
-    expect(Math.abs(convertTemperature(lowC, 'degC', 'degF') - lowF)).toBeLessThan(1);
-    expect(Math.abs(convertTemperature(highC, 'degC', 'degF') - highF)).toBeLessThan(1);
+    // An oven typed as 200 or 250 °F is stored as exactly these ends.
+    expect(convertTemperature(lowF, 'degF', 'degC')).toBe(lowC);
+    expect(convertTemperature(highF, 'degF', 'degC')).toBe(highC);
+    expect(lowC).toBeCloseTo(93.3333333, 6);
+    expect(highC).toBeCloseTo(121.1111111, 6);
   });
 });

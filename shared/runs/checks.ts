@@ -1,13 +1,14 @@
 import type { LotStatus } from '../constants/records';
-import { DomainError, reachedConstantMass } from '../domain/index';
-import { soakMinimumEnd } from './timers';
+import { DomainError, inCureWindow, reachedConstantMass } from '../domain/index';
+import type { UnitSystem } from '../units';
+import { durationSeconds, formatDuration, formatTemperature, formatTemperatureRange } from './format';
+import { soakRequirement } from './timers';
 import { stageMinutes, type StageTimes } from './stages';
 import {
   DEFAULT_CURE_WINDOW_C,
   DEFAULT_SHELF_LIFE_DAYS,
   LOT_NEAR_EXPIRY_DAYS,
   MIN_CURE_MINUTES,
-  SOAK_TO_VACUUM_RATIO,
   THIN_COUPON_MAX_MM,
 } from './thresholds';
 
@@ -45,21 +46,14 @@ export interface RunCheckInput {
   }[];
   dryingRule: { minIntervalHours: number; maxChangePct: number };
   now: Date;
+  /** The reader's units for temperatures in the reasons (stored values stay °C). Metric when omitted. */
+  units?: UnitSystem;
 }
 
 const DAY = 86_400_000;
 
-export function formatMinutes(minutes: number): string {
-  const m = Math.round(minutes);
-  const h = Math.floor(m / 60);
-  const rest = m % 60;
-  if (h === 0) return `${rest} min`;
-  return rest === 0 ? `${h} h` : `${h} h ${rest} min`;
-}
-
-function formatC(c: number): string {
-  return `${Math.round(c * 10) / 10} °C (${Math.round(((c * 9) / 5 + 32) * 10) / 10} °F)`;
-}
+/** A duration in words; see formatDuration (kept under this name for existing callers). */
+export const formatMinutes = formatDuration;
 
 function listTags(tags: string[]): string {
   return tags.length <= 5 ? tags.join(', ') : `${tags.slice(0, 5).join(', ')} and ${tags.length - 5} more`;
@@ -73,35 +67,39 @@ function soakTime(input: RunCheckInput): RuleCheck {
   const rule = 'soak-time';
   const vacuum = stageOf(input, 'vacuum');
   const soak = stageOf(input, 'soak');
-  const vacMin = stageMinutes(vacuum);
-  if (vacMin === null) return { rule, status: 'pending', reason: 'Waiting for the vacuum stage to end; the soak should then last at least twice as long.' };
-  const needed = SOAK_TO_VACUUM_RATIO * vacMin;
-  if (!soak) return { rule, status: 'pending', reason: `The soak has not started; it should last at least ${formatMinutes(needed)} (twice the ${formatMinutes(vacMin)} vacuum).` };
+  // The same requirement the bench timer counts down (timers.ts), so the two can never disagree.
+  const req = soakRequirement(vacuum, soak);
+  if (req === null) return { rule, status: 'pending', reason: 'Waiting for the vacuum stage to end; the soak should then last at least twice as long.' };
+  const vac = formatDuration(req.vacuumMinutes);
+  const needed = formatDuration(req.neededMinutes);
+  if (!soak) return { rule, status: 'pending', reason: `The soak has not started; it should last at least ${needed} (twice the ${vac} vacuum).` };
   const soakMin = stageMinutes(soak);
   if (soakMin === null) {
-    const until = soakMinimumEnd(vacuum);
+    const until = req.earliestEnd;
     return {
       rule,
       status: 'pending',
-      reason: `Soaking; it reaches twice the ${formatMinutes(vacMin)} vacuum at ${until === null ? 'an unknown time' : new Date(until).toISOString()}.`,
+      reason: `Soaking; it will have lasted ${needed} (twice the ${vac} vacuum) at ${until === null ? 'an unknown time' : new Date(until).toISOString()}.`,
     };
   }
-  if (soakMin < needed) {
+  // Compared to the second, the resolution the durations are shown in.
+  if (durationSeconds(soakMin) < durationSeconds(req.neededMinutes)) {
     return {
       rule,
       status: 'fail',
-      reason: `The soak lasted ${formatMinutes(soakMin)}, less than twice the ${formatMinutes(vacMin)} vacuum (${formatMinutes(needed)}). Common practice, no published source: soak at least twice as long as the vacuum.`,
+      reason: `The soak lasted ${formatDuration(soakMin)} (from its start to its end), less than twice the ${vac} vacuum (${needed}). Common practice, no published source: soak at least twice as long as the vacuum.`,
     };
   }
-  return { rule, status: 'ok', reason: `The soak lasted ${formatMinutes(soakMin)}, at least twice the ${formatMinutes(vacMin)} vacuum.` };
+  return { rule, status: 'ok', reason: `The soak lasted ${formatDuration(soakMin)}, at least twice the ${vac} vacuum (${needed}).` };
 }
 
 function cureTemperature(input: RunCheckInput): RuleCheck {
   const rule = 'cure-temperature';
+  const units = input.units ?? 'metric';
   const cure = stageOf(input, 'cure');
   const min = input.resin?.cureMinC ?? DEFAULT_CURE_WINDOW_C.min;
   const max = input.resin?.cureMaxC ?? DEFAULT_CURE_WINDOW_C.max;
-  const window = `${formatC(min)} to ${formatC(max)}${input.resin ? ` for ${input.resin.name}` : ' (the usual window; no resin is recorded)'}`;
+  const window = `${formatTemperatureRange(min, max, units)}${input.resin ? ` for ${input.resin.name}` : ' (the usual window; no resin is recorded)'}`;
   if (!cure) return { rule, status: 'pending', reason: `The cure has not started; the oven should hold ${window}.` };
   const measured = cure.ovenMeasuredC ?? null;
   const set = cure.ovenSetC ?? null;
@@ -109,37 +107,51 @@ function cureTemperature(input: RunCheckInput): RuleCheck {
   // The separate thermometer wins: small ovens often read low against their own dial.
   const used = measured ?? (set as number);
   const which = measured !== null ? 'The thermometer in the oven read' : 'The oven was set to';
-  if (used < min || used > max) {
-    return { rule, status: 'fail', reason: `${which} ${formatC(used)}, outside ${window}.` };
+  const shown = formatTemperature(used, units, 2);
+  if (!inCureWindow(used, min, max)) {
+    return { rule, status: 'fail', reason: `${which} ${shown}, outside ${window}.` };
   }
   if (measured === null) {
     return {
       rule,
       status: 'warn',
-      reason: `The oven was set to ${formatC(used)}, inside ${window}, but no separate thermometer reading is recorded; small ovens often read low.`,
+      reason: `The oven was set to ${shown}, inside ${window}, but no separate thermometer reading is recorded; small ovens often read low.`,
     };
   }
-  return { rule, status: 'ok', reason: `${which} ${formatC(used)}, inside ${window}.` };
+  return { rule, status: 'ok', reason: `${which} ${shown}, inside ${window}.` };
+}
+
+function signedPct(v: number): string {
+  const r = Math.round(v * 1000) / 1000;
+  return `${r > 0 ? '+' : ''}${Object.is(r, -0) ? 0 : r} %`;
 }
 
 function dryingConstantMass(input: RunCheckInput): RuleCheck {
   const rule = 'drying-constant-mass';
   const { minIntervalHours, maxChangePct } = input.dryingRule;
-  const criterion = `two drying checks at least ${minIntervalHours} h apart differing by no more than ${maxChangePct} %`;
+  const criterion = `two drying checks at least ${minIntervalHours} h apart, with every weighing from the first to the second differing from the first by less than ${maxChangePct} %`;
   if (input.coupons.length === 0) return { rule, status: 'pending', reason: 'No coupons are in this run yet.' };
   const drying = stageOf(input, 'drying');
   const stillDrying = (drying !== undefined && drying.endedAt === null) || input.stages.length === 0;
-  const notReached: { id: number; tag: string }[] = [];
+  const notReached: { id: number; tag: string; compared: string | null }[] = [];
   let withChecks = 0;
   for (const c of input.coupons) {
     if (c.dryingChecks.length > 0) withChecks++;
     let reached = false;
+    let compared: string | null = null;
     try {
-      reached = reachedConstantMass(c.dryingChecks, { minIntervalHours, maxChangePct }).reached;
+      const r = reachedConstantMass(c.dryingChecks, { minIntervalHours, maxChangePct });
+      reached = r.reached;
+      if (r.compared && r.largestChangePct !== null && r.intervalHours !== null) {
+        const between = r.largestChangePct !== r.lastChangePct ? `, ${signedPct(r.largestChangePct)} at most in between` : '';
+        compared = `${c.tag} changed ${signedPct(r.lastChangePct as number)} from ${r.compared.from.at} to ${r.compared.to.at} (${formatDuration(r.intervalHours * 60)}${between})`;
+      } else if (c.dryingChecks.length > 0) {
+        compared = `${c.tag} has no two drying checks ${minIntervalHours} h apart`;
+      }
     } catch (e) {
       if (!(e instanceof DomainError)) throw e;
     }
-    if (!reached) notReached.push(c);
+    if (!reached) notReached.push({ id: c.id, tag: c.tag, compared });
   }
   if (notReached.length === 0) return { rule, status: 'ok', reason: `All ${input.coupons.length} coupons reached constant mass (${criterion}).` };
   const ids = notReached.map((c) => c.id);
@@ -148,7 +160,11 @@ function dryingConstantMass(input: RunCheckInput): RuleCheck {
       ? { rule, status: 'pending', reason: `No drying-check weighings yet; constant mass means ${criterion}.`, couponIds: ids }
       : { rule, status: 'warn', reason: `No drying-check weighings were recorded, so the run does not show that the coupons were dry (${criterion}).`, couponIds: ids };
   }
-  const message = `${notReached.length} of ${input.coupons.length} coupons have not shown constant mass (${criterion}): ${listTags(notReached.map((c) => c.tag))}.`;
+  const details = notReached.flatMap((c) => (c.compared ? [c.compared] : []));
+  const shown = details.slice(0, 3).join('; ') + (details.length > 3 ? `; and ${details.length - 3} more` : '');
+  const message =
+    `${notReached.length} of ${input.coupons.length} coupons have not shown constant mass (${criterion}): ${listTags(notReached.map((c) => c.tag))}.` +
+    (shown ? ` Compared: ${shown}.` : '');
   return { rule, status: stillDrying ? 'pending' : 'warn', reason: stillDrying ? `Still drying. ${message}` : message, couponIds: ids };
 }
 
@@ -193,7 +209,7 @@ function cureTime(input: RunCheckInput): RuleCheck {
   const thickNote = thick.length > 0 ? ` ${thick.length} coupons are thicker than ${THIN_COUPON_MAX_MM} mm and need longer than that.` : '';
   if (!cure) return { rule, status: 'pending', reason: `The cure has not started; thin pieces need at least ${formatMinutes(MIN_CURE_MINUTES)}.${thickNote}` };
   if (minutes === null) return { rule, status: 'pending', reason: `Curing; thin pieces need at least ${formatMinutes(MIN_CURE_MINUTES)}.${thickNote}` };
-  if (minutes < MIN_CURE_MINUTES) {
+  if (durationSeconds(minutes) < durationSeconds(MIN_CURE_MINUTES)) {
     return {
       rule,
       status: 'fail',

@@ -22,6 +22,6 @@ describe('what a run waits for', () => {
     const cure = [{ stage: 'cure' as const, startedAt: T(20), endedAt: null, plannedMinutes: 150 }];
     expect(dueItems(cure, new Date(T(20))).next?.dueAt).toBe(new Date(Date.UTC(2026, 0, 1, 22, 30)).toISOString());
     expect(dueItems([{ stage: 'cure', startedAt: T(20), endedAt: T(23), plannedMinutes: 150 }], new Date(T(24))).next).toBeNull();
-    expect(soakMinimumEnd({ stage: 'vacuum', startedAt: T(0), endedAt: null })).toBeNull();
+    expect(soakMinimumEnd({ stage: 'vacuum', startedAt: T(0), endedAt: null }, undefined)).toBeNull();
   });
 });

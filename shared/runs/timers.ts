@@ -29,13 +29,33 @@ function plannedEnd(s: StageTimes): number | null {
 }
 
 /**
- * The earliest time the soak may end: the vacuum's length times the soak ratio (common practice,
- * no published source: soak at least twice as long as the vacuum took), counted from the vacuum's end.
+ * The soak rule, one definition for the timer and the rule check (common practice, no published
+ * source: soak at least twice as long as the vacuum took). The soak is the soak stage as recorded,
+ * from its own start to its own end, so time between the vacuum's end and the soak's start (blanks
+ * moved, resin topped up) does not count; it must last at least SOAK_TO_VACUUM_RATIO × the vacuum
+ * stage's length, and may therefore end from soak start + that length on.
  */
-export function soakMinimumEnd(vacuum: StageTimes | undefined): number | null {
-  const minutes = stageMinutes(vacuum);
-  if (!vacuum?.endedAt || minutes === null) return null;
-  return Date.parse(vacuum.endedAt) + SOAK_TO_VACUUM_RATIO * minutes * MINUTE;
+export interface SoakRequirement {
+  vacuumMinutes: number;
+  /** Shortest soak, minutes. */
+  neededMinutes: number;
+  /** Earliest time (ms since the epoch) the soak may end; null until the soak has started. */
+  earliestEnd: number | null;
+}
+
+export function soakRequirement(
+  vacuum: Pick<StageTimes, 'startedAt' | 'endedAt'> | undefined,
+  soak: Pick<StageTimes, 'startedAt'> | undefined,
+): SoakRequirement | null {
+  const vacuumMinutes = stageMinutes(vacuum);
+  if (vacuumMinutes === null) return null;
+  const neededMinutes = SOAK_TO_VACUUM_RATIO * vacuumMinutes;
+  return { vacuumMinutes, neededMinutes, earliestEnd: soak ? Date.parse(soak.startedAt) + neededMinutes * MINUTE : null };
+}
+
+/** The earliest time (ms) the soak may end under soakRequirement, or null when it cannot be known yet. */
+export function soakMinimumEnd(vacuum: StageTimes | undefined, soak: StageTimes | undefined): number | null {
+  return soakRequirement(vacuum, soak)?.earliestEnd ?? null;
 }
 
 /**
@@ -56,15 +76,15 @@ export function dueItems(stages: readonly StageTimes[], now: Date): DueSummary {
   }
   const soak = stages.find((s) => s.stage === 'soak');
   if (soak && soak.endedAt === null) {
-    const min = soakMinimumEnd(stages.find((s) => s.stage === 'vacuum'));
+    const min = soakMinimumEnd(stages.find((s) => s.stage === 'vacuum'), soak);
     if (min !== null) {
       push(
         'soak-minimum',
         'soak',
         min,
         min <= t
-          ? `The soak has reached ${SOAK_TO_VACUUM_RATIO} × the vacuum time; it may be drained`
-          : `The soak reaches ${SOAK_TO_VACUUM_RATIO} × the vacuum time`,
+          ? `The soak has lasted ${SOAK_TO_VACUUM_RATIO} × the vacuum time; it may be drained`
+          : `The soak will have lasted ${SOAK_TO_VACUUM_RATIO} × the vacuum time`,
       );
     }
   }

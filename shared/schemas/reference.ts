@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { LOT_STATUSES, SPECIES_ORIGINS } from '../constants/records';
+import { CURE_TEMPERATURE_RANGE_C } from '../domain/rules-of-thumb';
 import { listQuerySchema, listResponseSchema } from './common';
 
 // Plausibility bounds. Wood SG runs from about 0.1 (balsa) to about 1.3 (lignum vitae) in the Wood
@@ -13,7 +14,8 @@ const RESIN_DENSITY_MAX = 2.5;
 // outside 40–200 °C a value is a unit slip (°F typed as °C) rather than a real window.
 export const CURE_TEMP_MIN_C = 40;
 export const CURE_TEMP_MAX_C = 200;
-export const DEFAULT_CURE_WINDOW_C = { min: 93, max: 121 } as const;
+/** 200–250 °F, the window as the trade states it, in °C without rounding (93.33… to 121.11… °C). */
+export const DEFAULT_CURE_WINDOW_C = { min: CURE_TEMPERATURE_RANGE_C[0], max: CURE_TEMPERATURE_RANGE_C[1] } as const;
 /** A lot this many days or fewer from its expiry date is flagged as expiring soon. */
 export const LOT_EXPIRING_SOON_DAYS = 30;
 
@@ -182,7 +184,7 @@ interface ResinShape {
 export function resinRowProblems(row: ResinShape): Record<string, string[]> {
   const min = row.cureMinC ?? DEFAULT_CURE_WINDOW_C.min;
   const max = row.cureMaxC ?? DEFAULT_CURE_WINDOW_C.max;
-  if (min >= max) return { cureMaxC: [`The highest cure temperature must be above the lowest (${min} °C)`] };
+  if (min >= max) return { cureMaxC: [`The highest cure temperature must be above the lowest (${Math.round(min * 10) / 10} °C)`] };
   return {};
 }
 

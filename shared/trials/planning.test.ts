@@ -43,3 +43,16 @@ describe('planning warnings', () => {
     expect(w.map((x) => x.code)).toEqual(['cure-outside-window', 'short-soak']);
   });
 });
+
+describe('planning warnings speak the reader\'s units', () => {
+  it('a US-units plan at 260 °F reads "260 °F … 200–250 °F", never "126.66666666666667 °C"', () => {
+    const resin = { name: 'Clear', cureMinC: ((200 - 32) * 5) / 9, cureMaxC: ((250 - 32) * 5) / 9 };
+    const us = { ...ctx, resin: () => resin, units: 'us' as const };
+    const w = planningWarnings({ controlsPerSpecies: 2, conditions: [cell(1, 10, { cureTempC: ((260 - 32) * 5) / 9 })] }, us);
+    expect(w[0]?.message).toMatch(/a cure at 260 °F is outside Clear's window of 200–250 °F$/);
+    // 250 °F typed by a US user is inside; the old 93–121 °C window flagged it.
+    expect(planningWarnings({ controlsPerSpecies: 2, conditions: [cell(1, 10, { cureTempC: ((250 - 32) * 5) / 9 })] }, us)).toEqual([]);
+    const metric = planningWarnings({ controlsPerSpecies: 2, conditions: [cell(1, 10, { cureTempC: 126.6 })] }, { ...us, units: 'metric' });
+    expect(metric[0]?.message).toMatch(/a cure at 126\.6 °C is outside Clear's window of 93\.3–121\.1 °C$/);
+  });
+});

@@ -1,3 +1,7 @@
+import { inCureWindow } from '../domain/rules-of-thumb';
+import { formatTemperature, formatTemperatureRange } from '../runs/format';
+import type { UnitSystem } from '../units';
+
 /**
  * Planning checks for a trial: will this plan be able to answer its question? Each warning carries a
  * plain reason. Pure, so the plan screen can show them while the grid is being filled in.
@@ -31,6 +35,8 @@ export interface PlannedCondition {
 export interface PlanContext {
   speciesName: (id: number) => string;
   resin: (id: number) => { name: string; cureMinC: number; cureMaxC: number } | undefined;
+  /** The reader's units for temperatures in the messages (stored values stay °C). Metric when omitted. */
+  units?: UnitSystem;
 }
 
 export function planningWarnings(
@@ -49,11 +55,12 @@ export function planningWarnings(
       });
     }
     const resin = ctx.resin(c.resinId);
-    if (resin && c.cureTempC != null && (c.cureTempC < resin.cureMinC || c.cureTempC > resin.cureMaxC)) {
+    if (resin && c.cureTempC != null && !inCureWindow(c.cureTempC, resin.cureMinC, resin.cureMaxC)) {
+      const units = ctx.units ?? 'metric';
       out.push({
         code: 'cure-outside-window',
         conditionIndex: i,
-        message: `${describe(c)}: a cure at ${c.cureTempC} °C is outside ${resin.name}'s window of ${resin.cureMinC}–${resin.cureMaxC} °C`,
+        message: `${describe(c)}: a cure at ${formatTemperature(c.cureTempC, units, 2)} is outside ${resin.name}'s window of ${formatTemperatureRange(resin.cureMinC, resin.cureMaxC, units)}`,
       });
     }
     // Soak at least twice as long as the vacuum took (common practice, no published source).

@@ -2,10 +2,11 @@ import { useQuery } from '@tanstack/react-query';
 import { NavLink, Navigate, Outlet, useLocation, useNavigate } from 'react-router-dom';
 import { roleAtLeast, ROLE_LABELS } from '../../shared/constants/roles';
 import { NAVIGATION } from '../config/navigation';
-import { meQuery } from '../features/auth/api/auth-queries';
+import { meQuery } from '../lib/session';
 import { useSignOut } from '../features/auth/api/use-auth-mutations';
 import { Loading } from '../components/ui/page';
-import { settingsQuery } from '../features/admin/api/admin-queries';
+import { settingsQuery } from '../lib/queries/settings';
+import { paths } from '../config/paths';
 
 /** The signed-in frame: skip link, role-aware navigation, the user's menu, and the screen. */
 export function AppLayout() {
@@ -16,7 +17,7 @@ export function AppLayout() {
   const settings = useQuery({ ...settingsQuery(), enabled: !!me.data });
 
   if (me.isPending) return <Loading />;
-  if (!me.data) return <Navigate to="/sign-in" replace state={{ from: location.pathname + location.search }} />;
+  if (!me.data) return <Navigate to={paths.signIn.href()} replace state={{ from: location.pathname + location.search }} />;
   const user = me.data;
   const items = NAVIGATION.filter((n) => roleAtLeast(user.role, n.min));
 
@@ -37,7 +38,7 @@ export function AppLayout() {
                 <li key={n.to}>
                   <NavLink
                     to={n.to}
-                    end={n.to === '/'}
+                    end={n.to === paths.bench.href()}
                     className={({ isActive }) =>
                       `block rounded px-2 py-1 text-sm no-underline ${isActive ? 'bg-amber-light font-semibold text-ink' : 'text-ink-soft hover:bg-paper'}`
                     }
@@ -49,7 +50,7 @@ export function AppLayout() {
             </ul>
           </nav>
           <div className="flex items-center gap-3 text-sm">
-            <NavLink to="/preferences" className="text-ink-soft">
+            <NavLink to={paths.preferences.href()} className="text-ink-soft">
               {user.name} · {ROLE_LABELS[user.role]}
             </NavLink>
             <button
@@ -57,7 +58,7 @@ export function AppLayout() {
               className="btn-quiet"
               onClick={async () => {
                 await signOut.mutateAsync().catch(() => undefined);
-                navigate('/sign-in');
+                navigate(paths.signIn.href());
               }}
             >
               Sign out

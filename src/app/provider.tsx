@@ -1,27 +1,15 @@
-import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
+import { QueryClientProvider, type QueryClient } from '@tanstack/react-query';
 import { useEffect, useState, type ReactNode } from 'react';
 import { ApiError, onGlobalApiError } from '../lib/api-client';
+import { queryKeys } from '../lib/queries/keys';
 
-function makeClient() {
-  return new QueryClient({
-    defaultOptions: {
-      queries: {
-        // A 4xx will not get better by asking again.
-        retry: (count, err) => !(err instanceof ApiError && err.status >= 400 && err.status < 500) && count < 2,
-        refetchOnWindowFocus: false,
-      },
-    },
-  });
-}
-
-export function AppProvider({ children }: { children: ReactNode }) {
-  const [client] = useState(makeClient);
+export function AppProvider({ client, children }: { client: QueryClient; children: ReactNode }) {
   const [serverError, setServerError] = useState<ApiError | null>(null);
   useEffect(
     () =>
       onGlobalApiError((err) => {
         // 401: the session ended (signed out elsewhere, disabled, expired) — the layout sends the user to sign-in.
-        if (err.status === 401) client.setQueryData(['auth', 'me'], null);
+        if (err.status === 401) client.setQueryData(queryKeys.session.me(), null);
         else setServerError(err);
       }),
     [client],

@@ -1,7 +1,7 @@
 import type { ReactNode } from 'react';
 import { roleAtLeast, ROLE_LABELS, type Role } from '../../shared/constants/roles';
 import { Page } from '../components/ui/page';
-import { useMe } from '../features/auth/hooks/use-me';
+import { useMe } from '../lib/session';
 
 /** Hides a screen from roles that cannot use it. The server refuses them anyway; this is for clarity. */
 export function RequireRole({ min, children }: { min: Role; children: ReactNode }) {

@@ -1,21 +1,12 @@
 import { useQuery } from '@tanstack/react-query';
 import { useMemo } from 'react';
 import { displayUnit, fromDisplay, toDisplay, type Quantity, type UnitSystem } from '../../shared/units';
-import { userResponseSchema } from '../../shared/schemas/auth';
-import { api } from './api-client';
-
-// Reads the signed-in user's preference from the same cache entry as the auth feature's `me` query
-// (same key), without importing that feature: lib code is shared by all features.
-const meKey = ['auth', 'me'] as const;
+import { meQuery } from './session';
 
 /** Formatting and parsing in the user's display units; values in and out are SI as stored. */
 export function useUnits() {
-  const me = useQuery({
-    queryKey: meKey,
-    queryFn: async () => (await api.get('/auth/me', userResponseSchema)).user,
-    enabled: false,
-  });
-  const system: UnitSystem = me.data?.unitSystem ?? 'metric';
+  // `select`: a component re-renders when the unit system changes, not when anything else about the user does.
+  const system: UnitSystem = useQuery({ ...meQuery(), select: (u) => u?.unitSystem ?? 'metric' }).data ?? 'metric';
   return useMemo(() => unitsFor(system), [system]);
 }
 

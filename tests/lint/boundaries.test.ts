@@ -27,8 +27,10 @@ describe('lint boundaries', { timeout: 180_000 }, () => {
     ['the client imports the server', 'src/lib/zz-probe.ts', 'server/http/errors', 'NotFound'],
     ['the server imports the client', 'server/zz-probe.ts', 'src/lib/api-client', 'api'],
     ['a server feature imports another', 'server/features/admin/zz-probe.ts', 'server/features/auth/auth.repo', 'toUser'],
-    ['a client feature imports another', 'src/features/admin/zz-probe.ts', 'src/features/auth/hooks/use-me', 'useMe'],
     ['the measurements module imports a feature', 'server/measurements/zz-probe.ts', 'server/features/coupons/coupons.service', 'createCouponsService'],
+    ['a client feature imports another', 'src/features/admin/zz-probe.ts', 'src/features/auth/api/auth-queries', 'usersQuery'],
+    ['shared client code imports a feature', 'src/lib/zz-probe.ts', 'src/features/auth/api/auth-queries', 'usersQuery'],
+    ['shared client code imports the app', 'src/components/ui/zz-probe.ts', 'src/app/query-client', 'createQueryClient'],
   ])('%s → import/no-restricted-paths', async (_name, file, target, name) => {
     let specifier = path.relative(path.dirname(file), target);
     if (!specifier.startsWith('.')) specifier = `./${specifier}`;

@@ -1,5 +1,6 @@
 import type { Db } from '../../db/client';
 import type { Role } from '../../../shared/constants/roles';
+import { DEFAULT_CURE_WINDOW_C } from '../../../shared/schemas/reference';
 import { HANDBOOK_SPECIES } from './handbook-species';
 import * as repo from './reference.repo';
 import { seedHandbookSpecies } from './reference.service';
@@ -56,8 +57,8 @@ export function seedReferenceDemo({ tx, userIds, now }: DemoContext): void {
     kind,
     liquidDensityGcm3: 1.05,
     curedDensityGcm3: 1.17,
-    cureMinC: 93,
-    cureMaxC: 121,
+    cureMinC: DEFAULT_CURE_WINDOW_C.min,
+    cureMaxC: DEFAULT_CURE_WINDOW_C.max,
     shelfLifeDays: 365,
     notes: 'Demo resin, an invented shop name',
     createdBy: admin,
@@ -67,8 +68,8 @@ export function seedReferenceDemo({ tx, userIds, now }: DemoContext): void {
     kind: `${kind}, with an amber dye`,
     liquidDensityGcm3: 1.06,
     curedDensityGcm3: 1.18,
-    cureMinC: 93,
-    cureMaxC: 121,
+    cureMinC: DEFAULT_CURE_WINDOW_C.min,
+    cureMaxC: DEFAULT_CURE_WINDOW_C.max,
     shelfLifeDays: 365,
     notes: 'Demo resin, an invented shop name',
     createdBy: admin,

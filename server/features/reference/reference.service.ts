@@ -7,6 +7,7 @@ import {
   resinRowProblems,
   speciesRowProblems,
   type CreateResinInput,
+  DEFAULT_CURE_WINDOW_C,
   type CreateResinLotInput,
   type CreateSpeciesInput,
   type Resin,
@@ -175,6 +176,9 @@ export function createReferenceService(deps: Pick<FeatureDeps, 'database' | 'now
           ...input,
           // A resin entered without its own shelf life takes the shop's rule at the time it is entered.
           shelfLifeDays: input.shelfLifeDays ?? repo.shopLotShelfLifeDays(tx),
+          // 200–250 °F unrounded; the column's SQL default is the rounded 93–121 °C.
+          cureMinC: input.cureMinC ?? DEFAULT_CURE_WINDOW_C.min,
+          cureMaxC: input.cureMaxC ?? DEFAULT_CURE_WINDOW_C.max,
           createdBy: actor.id,
         });
         writeAudit(tx, { actorId: actor.id, action: 'create', entity: 'resin', entityId: inserted.id, after: inserted });

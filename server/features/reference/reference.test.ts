@@ -262,12 +262,12 @@ describe('resins', () => {
     expect(dup.status).toBe(409);
   });
 
-  it('defaults the cure window, and the shelf life to the shop setting when the resin has none', async () => {
+  it('defaults the cure window to 200–250 °F in °C without rounding, and the shelf life to the shop setting when the resin has none', async () => {
     expect((await as.admin.patch('/api/settings').send({ lotShelfLifeDays: 180 })).status).toBe(200);
     const { shelfLifeDays: _omit, cureMinC: _a, cureMaxC: _b, ...bare } = newResin('Bare blend');
     const res = await as.admin.post('/api/resins').send(bare);
     expect(res.status).toBe(201);
-    expect(res.body.resin).toMatchObject({ cureMinC: 93, cureMaxC: 121, shelfLifeDays: 180, usableLots: 0 });
+    expect(res.body.resin).toMatchObject({ cureMinC: ((200 - 32) * 5) / 9, cureMaxC: ((250 - 32) * 5) / 9, shelfLifeDays: 180, usableLots: 0 });
   });
 
   it('checks the merged cure window on edit and audits the change', async () => {

@@ -7,7 +7,7 @@ import { coupons } from '../../db/schema/coupons';
 import { runReadings, runStages, runs } from '../../db/schema/runs';
 import { Conflict, NotFound, Unprocessable, ValidationFailed } from '../../http/errors';
 import { DomainError, absolutePressureFromGauge, percentVacuum, standardPressureAtAltitude } from '../../../shared/domain/index';
-import { convertPressure } from '../../../shared/units';
+import { convertPressure, type UnitSystem } from '../../../shared/units';
 import type { User } from '../../../shared/schemas/auth';
 import type {
   CreateRunInput,
@@ -70,7 +70,7 @@ export function convertReading(r: Pick<GaugeReadingInput, 'gaugeValue' | 'gaugeU
 export function createRunsService(deps: FeatureDeps) {
   const { db } = deps.database;
 
-  function checksFor(run: RunRow, stages: StageRow[], lot: LotWithResin | undefined, couponInfo: RunCouponInfo[], now: Date): RuleCheck[] {
+  function checksFor(run: RunRow, stages: StageRow[], lot: LotWithResin | undefined, couponInfo: RunCouponInfo[], now: Date, units?: UnitSystem): RuleCheck[] {
     const s = getShopSettings(db);
     return runChecks({
       stages: stages.map(toStageTimes),
@@ -79,10 +79,12 @@ export function createRunsService(deps: FeatureDeps) {
       coupons: couponInfo.map((c) => ({ id: c.id, tag: c.tag, thicknessMm: c.thicknessMm, hasDryWeighing: c.stagesWeighed.includes('dry'), dryingChecks: c.dryingChecks })),
       dryingRule: { minIntervalHours: s.dryingMinIntervalHours, maxChangePct: s.dryingMaxChangePct },
       now,
+      units,
     });
   }
 
-  function detail(run: RunRow): RunDetail {
+  /** units: the reader's, for temperatures in the checks' reasons. */
+  function detail(run: RunRow, units?: UnitSystem): RunDetail {
     const now = deps.now();
     const stages = stagesOf(db, [run.id]);
     const readings = readingsOf(db, run.id);
@@ -138,7 +140,7 @@ export function createRunsService(deps: FeatureDeps) {
       progress: runProgress(times),
       startableStages: startableStages(times, now.toISOString()),
       coupons: couponInfo.map((c) => ({ id: c.id, tag: c.tag, role: c.role, speciesId: c.speciesId, speciesName: c.speciesName, stagesWeighed: c.stagesWeighed })),
-      checks: checksFor(run, stages, lot, couponInfo, now),
+      checks: checksFor(run, stages, lot, couponInfo, now, units),
       due: dueItems(times, now),
       cautions: cautionsByStage(),
       photos: photosOfRun(db, run.id),
@@ -278,8 +280,8 @@ export function createRunsService(deps: FeatureDeps) {
     return { items, page: q.page, pageSize: q.pageSize, total };
   }
 
-  function get(id: number): RunDetail {
-    return detail(requireRun(db, id));
+  function get(id: number, units?: UnitSystem): RunDetail {
+    return detail(requireRun(db, id), units);
   }
 
   function create(actor: User, input: CreateRunInput): RunDetail {
@@ -300,7 +302,7 @@ export function createRunsService(deps: FeatureDeps) {
       addCoupons(tx, actor, row, input.couponIds ?? [], 'couponIds');
       return row.id;
     });
-    return get(id);
+    return get(id, actor.unitSystem);
   }
 
   function update(actor: User, id: number, input: UpdateRunInput): RunDetail {
@@ -332,7 +334,7 @@ export function createRunsService(deps: FeatureDeps) {
       removeCoupons(tx, actor, run, input.removeCouponIds ?? []);
       addCoupons(tx, actor, run, input.addCouponIds ?? [], 'addCouponIds');
     });
-    return get(id);
+    return get(id, actor.unitSystem);
   }
 
   function recordStage(actor: User, id: number, input: RecordStageInput): RunDetail {
@@ -387,11 +389,11 @@ export function createRunsService(deps: FeatureDeps) {
         after: { ...row, readingsAdded: added },
       });
     });
-    return get(id);
+    return get(id, actor.unitSystem);
   }
 
-  function checks(id: number): { runId: number; checks: RuleCheck[] } {
-    return { runId: id, checks: get(id).checks };
+  function checks(id: number, units?: UnitSystem): { runId: number; checks: RuleCheck[] } {
+    return { runId: id, checks: get(id, units).checks };
   }
 
   return { list, get, create, update, recordStage, checks, detail, checksFor };

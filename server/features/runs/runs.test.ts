@@ -52,8 +52,9 @@ function makeLot(opts: { activatedDaysAgo?: number; cureMinC?: number; cureMaxC?
       kind: 'test blend',
       liquidDensityGcm3: 1.05,
       curedDensityGcm3: 1.2,
-      cureMinC: opts.cureMinC ?? 93,
-      cureMaxC: opts.cureMaxC ?? 121,
+      // 200–250 °F, the window as the trade states it.
+      cureMinC: opts.cureMinC ?? ((200 - 32) * 5) / 9,
+      cureMaxC: opts.cureMaxC ?? ((250 - 32) * 5) / 9,
       shelfLifeDays: opts.shelfLifeDays ?? 365,
     })
     .returning()
@@ -357,6 +358,21 @@ describe('rule checks on crafted runs', () => {
     const c = await fullRun({ vacuumH: 4, soakH: 10, cureC: 130 });
     expect(c['cure-temperature'].status).toBe('fail');
     expect(c['cure-temperature'].reason).toMatch(/130 °C/);
+  });
+
+  it('passes an oven at exactly 250 °F and words the window in the reader\'s units', async () => {
+    const c = await fullRun({ vacuumH: 4, soakH: 10, cureC: ((250 - 32) * 5) / 9 });
+    expect(c['cure-temperature'].status).toBe('ok');
+    expect(c['cure-temperature'].reason).toMatch(/read 121\.11 °C, inside 93\.3–121\.1 °C/);
+    expect((await as.viewer.patch('/api/auth/me').send({ unitSystem: 'us' })).status).toBe(200);
+    try {
+      const runs = await as.viewer.get('/api/runs?pageSize=1&sort=-createdAt');
+      const id = runs.body.items[0].id;
+      const us = (await as.viewer.get(`/api/runs/${id}/checks`)).body.checks.find((x: { rule: string }) => x.rule === 'cure-temperature');
+      expect(us.reason).toMatch(/read 250 °F, inside 200–250 °F/);
+    } finally {
+      await as.viewer.patch('/api/auth/me').send({ unitSystem: 'metric' });
+    }
   });
 
   it('fails a run made with an expired lot', async () => {

@@ -4,6 +4,7 @@ import { writeAudit } from '../../db/audit';
 import { refreshResults } from '../../measurements/results';
 import { Conflict, NotFound, Unprocessable } from '../../http/errors';
 import type { User } from '../../../shared/schemas/auth';
+import type { UnitSystem } from '../../../shared/units';
 import type {
   ConditionInput,
   CreateTrialCouponsResponse,
@@ -71,7 +72,8 @@ export function createTrialsService(deps: TrialsServiceDeps) {
     return trialCode(year, highest + 1);
   }
 
-  function getTrial(id: number, tx: Db = db): Trial {
+  /** units: the reader's, for temperatures in the planning warnings. */
+  function getTrial(id: number, tx: Db = db, units?: UnitSystem): Trial {
     const t = repo.findTrial(tx, id);
     if (!t) throw new NotFound('Trial');
     const conditions = repo.conditionsOf(tx, id);
@@ -110,7 +112,7 @@ export function createTrialsService(deps: TrialsServiceDeps) {
     const resinMap = new Map(conditions.map((c) => [c.resinId, { name: c.resinName, cureMinC: c.cureMinC, cureMaxC: c.cureMaxC }]));
     const warnings = planningWarnings(
       { controlsPerSpecies: t.controlsPerSpecies, conditions },
-      { speciesName: (s) => speciesInGrid.get(s) ?? `species ${s}`, resin: (r) => resinMap.get(r) },
+      { speciesName: (s) => speciesInGrid.get(s) ?? `species ${s}`, resin: (r) => resinMap.get(r), units },
     );
 
     return {
@@ -370,6 +372,6 @@ export function createTrialsService(deps: TrialsServiceDeps) {
     return { trial: { id: trial.id, code: trial.code, title: trial.title }, address, labels: out };
   }
 
-  return { listTrials, getTrial: (id: number) => getTrial(id), createTrial, updateTrial, createPlannedCoupons, labels };
+  return { listTrials, getTrial: (id: number, units?: UnitSystem) => getTrial(id, db, units), createTrial, updateTrial, createPlannedCoupons, labels };
 }
 export type TrialsService = ReturnType<typeof createTrialsService>;

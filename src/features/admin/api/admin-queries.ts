@@ -1,27 +1,23 @@
 import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
-import { z } from 'zod';
 import { api, queryString } from '../../../lib/api-client';
-import { backupResponseSchema, outboxListSchema, shopSettingsSchema, type UpdateShopSettingsInput } from '../../../../shared/schemas/admin';
-
-export const adminKeys = {
-  all: ['admin'] as const,
-  outbox: (page: number) => [...adminKeys.all, 'outbox', page] as const,
-  settings: () => ['settings'] as const,
-};
-
-const settingsResponse = z.object({ settings: shopSettingsSchema });
+import { queryKeys } from '../../../lib/queries/keys';
+import { useInvalidate } from '../../../lib/queries/invalidate';
+import { settingsResponseSchema } from '../../../lib/queries/settings';
+import { backupResponseSchema, outboxListSchema, type UpdateShopSettingsInput } from '../../../../shared/schemas/admin';
 
 export const outboxQuery = (page = 1) =>
-  queryOptions({ queryKey: adminKeys.outbox(page), queryFn: () => api.get(`/admin/outbox${queryString({ page, pageSize: 25 })}`, outboxListSchema) });
-
-export const settingsQuery = () =>
-  queryOptions({ queryKey: adminKeys.settings(), queryFn: async () => (await api.get('/settings', settingsResponse)).settings, staleTime: 300_000 });
+  queryOptions({ queryKey: queryKeys.outbox.page(page), queryFn: () => api.get(`/admin/outbox${queryString({ page, pageSize: 25 })}`, outboxListSchema) });
 
 export function useUpdateSettings() {
   const qc = useQueryClient();
+  const invalidate = useInvalidate();
   return useMutation({
-    mutationFn: (input: UpdateShopSettingsInput) => api.patch('/settings', input, settingsResponse),
-    onSuccess: ({ settings }) => qc.setQueryData(adminKeys.settings(), settings),
+    mutationFn: (input: UpdateShopSettingsInput) => api.patch('/settings', input, settingsResponseSchema),
+    onSuccess: ({ settings }) => {
+      qc.setQueryData(queryKeys.settings.all, settings);
+      // The bench's timers and a run's checks read the shop's settings too.
+      return invalidate('settings');
+    },
   });
 }
 

@@ -6,7 +6,8 @@ import { shopSettingsSchema, type ShopSettings } from '../../../../shared/schema
 import { Field, FormError } from '../../../components/ui/field';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
 import { applyServerErrors } from '../../../lib/form-errors';
-import { settingsQuery, useBackup, useUpdateSettings } from '../api/admin-queries';
+import { settingsQuery } from '../../../lib/queries/settings';
+import { useBackup, useUpdateSettings } from '../api/admin-queries';
 
 const FIELDS = ['shopName', 'altitudeM', 'dryingMinIntervalHours', 'dryingMaxChangePct', 'lotShelfLifeDays'] as const;
 

@@ -10,7 +10,9 @@ import {
 } from '../../../../shared/schemas/auth';
 import { adminUserSchema, type InviteUserInput, type UpdateUserInput } from '../../../../shared/schemas/admin';
 import { z } from 'zod';
-import { acceptedSchema, authKeys, usersKeys } from './auth-queries';
+import { acceptedSchema } from './auth-queries';
+import { queryKeys } from '../../../lib/queries/keys';
+import { useInvalidate } from '../../../lib/queries/invalidate';
 
 export function useSignIn() {
   const qc = useQueryClient();
@@ -18,7 +20,7 @@ export function useSignIn() {
     mutationFn: (input: LoginInput) => api.post('/auth/login', input, userResponseSchema),
     onSuccess: ({ user }) => {
       qc.clear();
-      qc.setQueryData(authKeys.me(), user);
+      qc.setQueryData(queryKeys.session.me(), user);
     },
   });
 }
@@ -29,7 +31,7 @@ export function useSignOut() {
     mutationFn: () => api.post('/auth/logout', undefined, null),
     onSettled: () => {
       qc.clear();
-      qc.setQueryData(authKeys.me(), null);
+      qc.setQueryData(queryKeys.session.me(), null);
     },
   });
 }
@@ -38,7 +40,7 @@ export function useUpdatePreferences() {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: (input: UpdatePreferencesInput) => api.patch('/auth/me', input, userResponseSchema),
-    onSuccess: ({ user }) => qc.setQueryData(authKeys.me(), user),
+    onSuccess: ({ user }) => qc.setQueryData(queryKeys.session.me(), user),
   });
 }
 
@@ -56,7 +58,7 @@ export function useAcceptInvitation() {
     mutationFn: (input: InvitationAcceptInput) => api.post('/auth/invitations/accept', input, userResponseSchema),
     onSuccess: ({ user }) => {
       qc.clear();
-      qc.setQueryData(authKeys.me(), user);
+      qc.setQueryData(queryKeys.session.me(), user);
     },
   });
 }
@@ -64,17 +66,17 @@ export function useAcceptInvitation() {
 const oneUser = z.object({ user: adminUserSchema });
 
 export function useInviteUser() {
-  const qc = useQueryClient();
+  const invalidate = useInvalidate();
   return useMutation({
     mutationFn: (input: InviteUserInput) => api.post('/users/invitations', input, oneUser),
-    onSuccess: () => qc.invalidateQueries({ queryKey: usersKeys.all }),
+    onSuccess: () => invalidate('users', 'outbox'),
   });
 }
 
 export function useUpdateUser() {
-  const qc = useQueryClient();
+  const invalidate = useInvalidate();
   return useMutation({
     mutationFn: ({ id, ...input }: UpdateUserInput & { id: number }) => api.patch(`/users/${id}`, input, oneUser),
-    onSuccess: () => qc.invalidateQueries({ queryKey: usersKeys.all }),
+    onSuccess: () => invalidate('users'),
   });
 }

@@ -14,6 +14,7 @@ import { Field, FormError } from '../../../components/ui/field';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { useAcceptInvitation, useConfirmPasswordReset, useRequestPasswordReset } from '../api/use-auth-mutations';
 import { AuthFrame } from './auth-frame';
+import { paths } from '../../../config/paths';
 
 export function ForgotPasswordScreen() {
   const request = useRequestPasswordReset();
@@ -41,7 +42,7 @@ export function ForgotPasswordScreen() {
         </form>
       )}
       <p className="mt-4 text-sm">
-        <Link to="/sign-in">Back to sign-in</Link>
+        <Link to={paths.signIn.href()}>Back to sign-in</Link>
       </p>
     </AuthFrame>
   );
@@ -68,7 +69,7 @@ export function ResetPasswordScreen() {
     <AuthFrame title="Choose a new password">
       {done ? (
         <p role="status">
-          Your password is changed. <Link to="/sign-in">Sign in</Link>
+          Your password is changed. <Link to={paths.signIn.href()}>Sign in</Link>
         </p>
       ) : (
         <form onSubmit={onSubmit} noValidate aria-label="Choose a new password">
@@ -94,7 +95,7 @@ export function AcceptInvitationScreen() {
   const onSubmit = form.handleSubmit(async (values) => {
     try {
       await accept.mutateAsync(values);
-      navigate('/', { replace: true });
+      navigate(paths.bench.href(), { replace: true });
     } catch (err) {
       applyServerErrors(err, form.setError, ['password', 'name']);
     }

@@ -3,7 +3,7 @@ import { UNIT_SYSTEMS_LIST, type UnitSystemName } from '../../../../shared/const
 import { ROLE_LABELS } from '../../../../shared/constants/roles';
 import { ErrorNote, Page } from '../../../components/ui/page';
 import { useUpdatePreferences } from '../api/use-auth-mutations';
-import { useMe } from '../hooks/use-me';
+import { useMe } from '../../../lib/session';
 
 const SYSTEM_LABELS: Record<UnitSystemName, string> = {
   metric: 'Metric — g, mm, °C, kPa',

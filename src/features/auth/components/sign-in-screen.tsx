@@ -6,6 +6,7 @@ import { Field, FormError } from '../../../components/ui/field';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { useSignIn } from '../api/use-auth-mutations';
 import { AuthFrame } from './auth-frame';
+import { paths } from '../../../config/paths';
 
 export function SignInScreen() {
   const signIn = useSignIn();
@@ -34,7 +35,7 @@ export function SignInScreen() {
           <button type="submit" className="btn-primary" disabled={isSubmitting}>
             {isSubmitting ? 'Signing in…' : 'Sign in'}
           </button>
-          <Link to="/forgot-password">Forgot your password?</Link>
+          <Link to={paths.forgotPassword.href()}>Forgot your password?</Link>
         </div>
       </form>
     </AuthFrame>

@@ -9,7 +9,7 @@ import { ErrorNote, Loading, Page } from '../../../components/ui/page';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { usersQuery } from '../api/auth-queries';
 import { useInviteUser, useUpdateUser } from '../api/use-auth-mutations';
-import { useMe } from '../hooks/use-me';
+import { useMe } from '../../../lib/session';
 
 const roleOptions = ROLES.map((r) => ({ value: r, label: ROLE_LABELS[r] }));
 

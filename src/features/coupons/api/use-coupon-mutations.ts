@@ -1,4 +1,4 @@
-import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useMutation } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from '../../../lib/api-client';
 import {
@@ -14,15 +14,16 @@ import {
   type WeighingInput,
 } from '../../../../shared/schemas/coupons';
 import { photoSchema } from '../../../../shared/schemas/runs';
-import { couponKeys } from './coupons-queries';
+import { useInvalidate } from '../../../lib/queries/invalidate';
 
 const correctedWeighingSchema = z.object({ weighing: weighingSchema, superseded: weighingSchema, coupon: couponSchema, warnings: z.array(measurementWarningSchema) });
 const correctedCheckSchema = z.object({ check: checkSchema, superseded: checkSchema, coupon: couponSchema, warnings: z.array(measurementWarningSchema) });
 const photoResponseSchema = z.object({ photo: photoSchema });
 
+/** A reading changes the coupon's results, its run's and trial's progress, the bench and every analysis. */
 function useInvalidateCoupons() {
-  const qc = useQueryClient();
-  return () => qc.invalidateQueries({ queryKey: couponKeys.all });
+  const invalidate = useInvalidate();
+  return () => invalidate('measurements');
 }
 
 export function useAddWeighing(couponId: number) {

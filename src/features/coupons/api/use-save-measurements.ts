@@ -1,13 +1,13 @@
-import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useMutation } from '@tanstack/react-query';
 import { api } from '../../../lib/api-client';
 import { batchResponseSchema, type BatchMeasurementsInput } from '../../../../shared/schemas/coupons';
-import { couponKeys } from './coupons-queries';
+import { useInvalidate } from '../../../lib/queries/invalidate';
 
 /** The grid's save: every edited row in one request, written all together or not at all. */
 export function useSaveMeasurements() {
-  const qc = useQueryClient();
+  const invalidate = useInvalidate();
   return useMutation({
     mutationFn: (input: BatchMeasurementsInput) => api.post('/coupons/measurements', input, batchResponseSchema),
-    onSuccess: () => qc.invalidateQueries({ queryKey: couponKeys.all }),
+    onSuccess: () => invalidate('measurements'),
   });
 }

@@ -1,6 +1,6 @@
 import type { CouponDetail } from '../../../../shared/schemas/coupons';
 import { PhotoPanel } from '../../../components/ui/photo-panel';
-import { useRole } from '../../../lib/use-role';
+import { useRole } from '../../../lib/session';
 import { useUploadCouponPhoto } from '../api/use-coupon-mutations';
 
 /** Reminder beside the cut-section photos, which are made by sawing and sanding the coupon. */

@@ -4,12 +4,13 @@ import { Link, useLocation, useParams, useSearchParams } from 'react-router-dom'
 import { HARDNESS_SCALE_LABELS, WEIGHING_STAGES, type WeighingStage } from '../../../../shared/constants/records';
 import type { CheckOut, CouponDetail, WeighingOut } from '../../../../shared/schemas/coupons';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
-import { useRole } from '../../../lib/use-role';
+import { useRole } from '../../../lib/session';
 import { useUnits } from '../../../lib/use-units';
 import { couponQuery } from '../api/coupons-queries';
 import { CHECK_STAGE_LABELS, CorrectCheckForm, CorrectWeighingForm, DimensionForm, HardnessForm, MoistureForm, SoakTestForm, WEIGHING_STAGE_LABELS, WeighingForm } from './coupon-forms';
 import { CouponHistoryPanel } from './coupon-history';
 import { CouponPhotos } from './coupon-photos';
+import { paths } from '../../../config/paths';
 
 const when = (iso: string) => new Date(iso).toLocaleString(undefined, { year: 'numeric', month: 'short', day: 'numeric', hour: '2-digit', minute: '2-digit' });
 const pct = (v: number | null, d = 1) => (v === null ? '—' : `${v.toFixed(d)} %`);
@@ -151,11 +152,11 @@ export function CouponScreen() {
       title={`Coupon ${c.tag}`}
       actions={
         c.runId ? (
-          <Link to={`/runs/${c.runId}/coupons?focus=${c.id}`} className="btn-quiet no-underline">
+          <Link to={paths.runCoupons.href({ id: c.runId }, { focus: c.id })} className="btn-quiet no-underline">
             In the run's grid
           </Link>
         ) : c.trialId ? (
-          <Link to={`/coupons?trialId=${c.trialId}&focus=${c.id}`} className="btn-quiet no-underline">
+          <Link to={paths.coupons.href({ trialId: c.trialId, focus: c.id })} className="btn-quiet no-underline">
             In the trial's grid
           </Link>
         ) : undefined
@@ -167,9 +168,9 @@ export function CouponScreen() {
         <dt className="text-ink-soft">Role</dt>
         <dd>{c.role === 'control' ? 'control (untreated)' : 'treated'}</dd>
         <dt className="text-ink-soft">Trial</dt>
-        <dd>{c.trialId ? <Link to={`/coupons?trialId=${c.trialId}`}>{c.trialCode ?? c.trialId}</Link> : 'none'}</dd>
+        <dd>{c.trialId ? <Link to={paths.coupons.href({ trialId: c.trialId })}>{c.trialCode ?? c.trialId}</Link> : 'none'}</dd>
         <dt className="text-ink-soft">Run</dt>
-        <dd>{c.runId ? <Link to={`/runs/${c.runId}`}>{c.runCode ?? c.runId}</Link> : 'none'}</dd>
+        <dd>{c.runId ? <Link to={paths.run.href({ id: c.runId })}>{c.runCode ?? c.runId}</Link> : 'none'}</dd>
         <dt className="text-ink-soft">Resin</dt>
         <dd>{c.resin ? `${c.resin.name} (cured ${c.resin.curedDensityGcm3} g/cm³)` : 'none yet'}</dd>
         <dt className="text-ink-soft">Source board</dt>

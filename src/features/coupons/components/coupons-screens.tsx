@@ -2,9 +2,11 @@ import { useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
 import { Link, useParams, useSearchParams } from 'react-router-dom';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
-import { couponsQuery, gridCouponsQuery, runsPickerQuery, trialsPickerQuery, type GridScope } from '../api/coupons-queries';
+import { couponListQuery, runListQuery, trialListQuery } from '../../../lib/queries/records';
+import { gridCouponsQuery, type GridScope } from '../api/coupons-queries';
 import { EntryGrid } from './entry-grid';
 import { columnIndexOf } from './grid-model';
+import { paths } from '../../../config/paths';
 
 function focusFrom(search: URLSearchParams): { couponId: number; col: number } | null {
   const couponId = Number(search.get('focus'));
@@ -33,7 +35,7 @@ export function RunCouponsScreen() {
     <Page
       title={title}
       actions={
-        <Link to={`/runs/${runId}`} className="btn-quiet no-underline">
+        <Link to={paths.run.href({ id: runId })} className="btn-quiet no-underline">
           Back to the run
         </Link>
       }
@@ -48,8 +50,8 @@ export function CouponsScreen() {
   const [search, setSearch] = useSearchParams();
   const trialId = Number(search.get('trialId')) || null;
   const runId = Number(search.get('runId')) || null;
-  const trials = useQuery(trialsPickerQuery());
-  const runs = useQuery(runsPickerQuery());
+  const trials = useQuery(trialListQuery());
+  const runs = useQuery(runListQuery());
   const pick = (key: 'trialId' | 'runId', value: string) => {
     const next = new URLSearchParams();
     if (value) next.set(key, value);
@@ -96,7 +98,7 @@ export function CouponsScreen() {
 
 function CouponList() {
   const [page, setPage] = useState(1);
-  const list = useQuery(couponsQuery({ page, pageSize: 50, sort: 'tag' }));
+  const list = useQuery(couponListQuery({ page, pageSize: 50, sort: 'tag' }));
   if (list.isPending) return <Loading />;
   if (list.isError) return <ErrorNote error={list.error} />;
   const pages = Math.max(1, Math.ceil(list.data.total / list.data.pageSize));
@@ -121,12 +123,12 @@ function CouponList() {
           {list.data.items.map((c) => (
             <tr key={c.id}>
               <th scope="row" className="border-b border-paper-edge font-normal">
-                <Link to={`/coupons/${c.id}`}>{c.tag}</Link>
+                <Link to={paths.coupon.href({ id: c.id })}>{c.tag}</Link>
               </th>
               <td>{c.speciesName}</td>
               <td>{c.role}</td>
-              <td>{c.trialId ? <Link to={`/coupons?trialId=${c.trialId}`}>{c.trialCode ?? c.trialId}</Link> : '—'}</td>
-              <td>{c.runId ? <Link to={`/runs/${c.runId}`}>{c.runCode ?? c.runId}</Link> : '—'}</td>
+              <td>{c.trialId ? <Link to={paths.coupons.href({ trialId: c.trialId })}>{c.trialCode ?? c.trialId}</Link> : '—'}</td>
+              <td>{c.runId ? <Link to={paths.run.href({ id: c.runId })}>{c.runCode ?? c.runId}</Link> : '—'}</td>
               <td className="text-right tabular-nums">{c.metrics.wpgPct === null ? '—' : c.metrics.wpgPct.toFixed(1)}</td>
             </tr>
           ))}

@@ -5,9 +5,10 @@ import { Link } from 'react-router-dom';
 import { sgPlausibility, sgWarningText } from '../../../../shared/coupons/plausibility';
 import { batchMeasurementsSchema, type CouponOut } from '../../../../shared/schemas/coupons';
 import { ApiError } from '../../../lib/api-client';
-import { useRole } from '../../../lib/use-role';
+import { useRole } from '../../../lib/session';
 import { useUnits } from '../../../lib/use-units';
-import { couponKeys, type GridScope } from '../api/coupons-queries';
+import { queryKeys } from '../../../lib/queries/keys';
+import type { GridScope } from '../api/coupons-queries';
 import { useSaveMeasurements } from '../api/use-save-measurements';
 import {
   ENTRY_COLUMNS,
@@ -22,6 +23,7 @@ import {
   type Drafts,
   type RowModel,
 } from './grid-model';
+import { paths } from '../../../config/paths';
 
 type CellErrors = Record<number, Record<string, string>>;
 
@@ -151,7 +153,7 @@ function useColumns(): ColumnDef<RowModel, unknown>[] {
             header: 'Tag',
             // Out of the Tab order: inside the grid, Tab moves between cells like a spreadsheet.
             cell: (ctx) => (
-              <Link to={`/coupons/${ctx.row.original.coupon.id}`} tabIndex={-1} className="whitespace-nowrap">
+              <Link to={paths.coupon.href({ id: ctx.row.original.coupon.id })} tabIndex={-1} className="whitespace-nowrap">
                 {ctx.row.original.coupon.tag}
               </Link>
             ),
@@ -380,7 +382,7 @@ export function EntryGrid({ coupons, scope, caption, focus }: { coupons: CouponO
     try {
       const res = await save.mutateAsync(parsed.data);
       const byId = new Map(res.coupons.map((c) => [c.id, c]));
-      qc.setQueryData<CouponOut[]>(couponKeys.grid(scope), (old) => old?.map((c) => byId.get(c.id) ?? c));
+      qc.setQueryData<CouponOut[]>(queryKeys.coupons.grid(scope), (old) => old?.map((c) => byId.get(c.id) ?? c));
       setDrafts((d) => {
         const next = { ...d };
         for (const e of plan.entries) delete next[e.couponId];
@@ -399,7 +401,7 @@ export function EntryGrid({ coupons, scope, caption, focus }: { coupons: CouponO
         setRowErrors({ ...refused.rows, ...found.rows });
         setStatus({ text: `Nothing saved: ${err.message.replace(/entries\.\d+(\.\w+\.\d+)?(\.\w+)?:\s*/g, '')}`, bad: true });
         // Someone else saved a reading meanwhile: show it, so the conflict can be seen and corrected.
-        if (err.status === 409) void qc.invalidateQueries({ queryKey: couponKeys.grid(scope) });
+        if (err.status === 409) void qc.invalidateQueries({ queryKey: queryKeys.coupons.grid(scope) });
       } else {
         setStatus({ text: 'Nothing saved: something went wrong; try again.', bad: true });
       }

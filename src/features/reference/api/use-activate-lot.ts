@@ -1,16 +1,13 @@
-import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useMutation } from '@tanstack/react-query';
 import { api } from '../../../lib/api-client';
+import { useInvalidate } from '../../../lib/queries/invalidate';
 import { resinLotResponseSchema, type CreateResinLotInput } from '../../../../shared/schemas/reference';
-import { lotKeys, resinKeys } from './reference-queries';
 
 /** Records a newly activated lot. */
 export function useActivateLot() {
-  const qc = useQueryClient();
+  const invalidate = useInvalidate();
   return useMutation({
     mutationFn: (input: CreateResinLotInput) => api.post('/resin-lots', input, resinLotResponseSchema),
-    onSuccess: async () => {
-      // Each resin counts its usable lots.
-      await Promise.all([qc.invalidateQueries({ queryKey: lotKeys.all }), qc.invalidateQueries({ queryKey: resinKeys.all })]);
-    },
+    onSuccess: () => invalidate('lots'),
   });
 }

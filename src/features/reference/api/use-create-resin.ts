@@ -1,12 +1,12 @@
-import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useMutation } from '@tanstack/react-query';
 import { api } from '../../../lib/api-client';
+import { useInvalidate } from '../../../lib/queries/invalidate';
 import { resinResponseSchema, type CreateResinInput } from '../../../../shared/schemas/reference';
-import { resinKeys } from './reference-queries';
 
 export function useCreateResin() {
-  const qc = useQueryClient();
+  const invalidate = useInvalidate();
   return useMutation({
     mutationFn: (input: CreateResinInput) => api.post('/resins', input, resinResponseSchema),
-    onSuccess: () => qc.invalidateQueries({ queryKey: resinKeys.all }),
+    onSuccess: () => invalidate('resins'),
   });
 }

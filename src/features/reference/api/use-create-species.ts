@@ -1,12 +1,12 @@
-import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useMutation } from '@tanstack/react-query';
 import { api } from '../../../lib/api-client';
+import { useInvalidate } from '../../../lib/queries/invalidate';
 import { speciesResponseSchema, type CreateSpeciesInput } from '../../../../shared/schemas/reference';
-import { speciesKeys } from './reference-queries';
 
 export function useCreateSpecies() {
-  const qc = useQueryClient();
+  const invalidate = useInvalidate();
   return useMutation({
     mutationFn: (input: CreateSpeciesInput) => api.post('/species', input, speciesResponseSchema),
-    onSuccess: () => qc.invalidateQueries({ queryKey: speciesKeys.all }),
+    onSuccess: () => invalidate('species'),
   });
 }

@@ -1,15 +1,12 @@
-import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useMutation } from '@tanstack/react-query';
 import { api } from '../../../lib/api-client';
+import { useInvalidate } from '../../../lib/queries/invalidate';
 import { speciesResponseSchema, type UpdateSpeciesInput } from '../../../../shared/schemas/reference';
-import { lotKeys, speciesKeys } from './reference-queries';
 
 export function useUpdateSpecies() {
-  const qc = useQueryClient();
+  const invalidate = useInvalidate();
   return useMutation({
     mutationFn: ({ id, ...patch }: UpdateSpeciesInput & { id: number }) => api.patch(`/species/${id}`, patch, speciesResponseSchema),
-    onSuccess: async () => {
-      // Lots list the species that went through them by name.
-      await Promise.all([qc.invalidateQueries({ queryKey: speciesKeys.all }), qc.invalidateQueries({ queryKey: lotKeys.all })]);
-    },
+    onSuccess: () => invalidate('species'),
   });
 }

@@ -5,7 +5,7 @@ import { createResinLotSchema, type CreateResinLotInput } from '../../../../shar
 import { Field, FormError, SelectField, TextAreaField } from '../../../components/ui/field';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { useUnits } from '../../../lib/use-units';
-import { resinListQuery } from '../api/reference-queries';
+import { resinListQuery } from '../../../lib/queries/reference';
 import { useActivateLot } from '../api/use-activate-lot';
 import { CautionNote } from './caution-note';
 import { convertingResolver, numberOrMissing, renameFields, textOrNull } from '../../../lib/form-values';

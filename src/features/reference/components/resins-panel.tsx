@@ -2,9 +2,9 @@ import { useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
 import type { Resin } from '../../../../shared/schemas/reference';
 import { ErrorNote, Loading } from '../../../components/ui/page';
-import { useRole } from '../../../lib/use-role';
+import { useRole } from '../../../lib/session';
 import { useUnits } from '../../../lib/use-units';
-import { resinListQuery } from '../api/reference-queries';
+import { resinListQuery } from '../../../lib/queries/reference';
 import { ResinForm } from './resin-form';
 
 export function ResinsPanel() {

@@ -1,15 +1,17 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api } from '../../../lib/api-client';
 import { runResponseSchema, type UpdateRunInput } from '../../../../shared/schemas/runs';
-import { runKeys } from './runs-queries';
+import { queryKeys } from '../../../lib/queries/keys';
+import { useInvalidate } from '../../../lib/queries/invalidate';
 
 export function useUpdateRun(runId: number) {
   const qc = useQueryClient();
+  const invalidate = useInvalidate();
   return useMutation({
     mutationFn: async (input: UpdateRunInput) => (await api.patch(`/runs/${runId}`, input, runResponseSchema)).run,
     onSuccess: (run) => {
-      qc.setQueryData(runKeys.detail(run.id), run);
-      return qc.invalidateQueries({ queryKey: runKeys.all });
+      qc.setQueryData(queryKeys.runs.detail(run.id), run);
+      return invalidate('runs');
     },
   });
 }

@@ -2,7 +2,7 @@ import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from '../../../lib/api-client';
 import { photoSchema } from '../../../../shared/schemas/runs';
-import { runKeys } from './runs-queries';
+import { queryKeys } from '../../../lib/queries/keys';
 
 const photoResponseSchema = z.object({ photo: photoSchema });
 
@@ -10,6 +10,6 @@ export function useUploadRunPhoto(runId: number) {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: (form: FormData) => api.post(`/runs/${runId}/photos`, form, photoResponseSchema),
-    onSuccess: () => qc.invalidateQueries({ queryKey: runKeys.detail(runId) }),
+    onSuccess: () => qc.invalidateQueries({ queryKey: queryKeys.runs.detail(runId) }),
   });
 }

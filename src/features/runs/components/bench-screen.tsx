@@ -5,11 +5,12 @@ import type { WeighingStage } from '../../../../shared/constants/records';
 import type { BenchItem, RunSummary } from '../../../../shared/schemas/runs';
 import { STAGE_LABELS } from '../../../../shared/runs/stages';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
-import { useRole } from '../../../lib/use-role';
-import { benchQuery, runsQuery } from '../api/runs-queries';
+import { useRole } from '../../../lib/session';
+import { benchQuery, runsInProgressQuery } from '../api/runs-queries';
 import { useNow } from '../hooks/use-now';
 import { StatusWord } from './rule-checks';
 import { DueTime } from './time-text';
+import { paths } from '../../../config/paths';
 
 const WINDOWS = [2, 4, 8, 24] as const;
 
@@ -23,10 +24,10 @@ const WEIGHING_WORDS: Record<WeighingStage, string> = {
 
 /** Where one click takes the user for an item: the run's stage form, the run's grid at the coupon, or the coupon's weighing form. */
 export function benchHref(item: BenchItem): string {
-  if (item.target.entity === 'run') return `/runs/${item.target.id}?stage=${item.target.stage}#stage-${item.target.stage}`;
+  if (item.target.entity === 'run') return paths.run.href({ id: item.target.id }, { stage: item.target.stage }, `stage-${item.target.stage}`);
   const stage = item.target.stage;
-  if (stage === 'dry' || stage === 'soaked' || stage === 'cured') return `/runs/${item.runId}/coupons?focus=${item.target.id}&col=${stage}`;
-  return `/coupons/${item.target.id}?weigh=${stage}#weighing-form`;
+  if (stage === 'dry' || stage === 'soaked' || stage === 'cured') return paths.runCoupons.href({ id: item.runId }, { focus: item.target.id, col: stage });
+  return paths.coupon.href({ id: item.target.id }, { weigh: stage }, 'weighing-form');
 }
 
 interface Group {
@@ -73,7 +74,7 @@ function GroupRow({ group, now }: { group: Group; now: Date }) {
       <p className="mt-1 text-sm">
         <Link to={benchHref(first)}>{action}</Link>
         {' · '}
-        <Link to={`/runs/${first.runId}`}>run {first.runCode}</Link>
+        <Link to={paths.run.href({ id: first.runId })}>run {first.runCode}</Link>
       </p>
       {many && (
         <details className="mt-1 text-sm">
@@ -104,13 +105,13 @@ function ItemList({ items, now, empty }: { items: BenchItem[]; now: Date; empty:
 
 function RunsInProgress({ now }: { now: Date }) {
   const { can } = useRole();
-  const runs = useQuery({ ...runsQuery({ status: 'in-progress', sort: '-id' }), refetchInterval: 60_000 });
+  const runs = useQuery(runsInProgressQuery());
   if (runs.isPending) return <Loading />;
   if (runs.isError) return <ErrorNote error={runs.error} />;
   if (runs.data.items.length === 0) {
     return (
       <p className="text-ink-soft">
-        No run is in the chamber or the oven.{can('technician') && <> <Link to="/runs/new">Start a run</Link>.</>}
+        No run is in the chamber or the oven.{can('technician') && <> <Link to={paths.runNew.href()}>Start a run</Link>.</>}
       </p>
     );
   }
@@ -128,7 +129,7 @@ function RunsInProgress({ now }: { now: Date }) {
         {runs.data.items.map((r) => (
           <tr key={r.id}>
             <th scope="row" className="border-b border-paper-edge font-normal">
-              <Link to={`/runs/${r.id}`}>{r.code}</Link> <span className="text-ink-faint">· {r.chamber}</span>
+              <Link to={paths.run.href({ id: r.id })}>{r.code}</Link> <span className="text-ink-faint">· {r.chamber}</span>
             </th>
             <td>{currentStageText(r)}</td>
             <td>{r.nextDue ? <><DueTime dueAt={r.nextDue.dueAt} now={now} /><br /><span className="text-xs text-ink-soft">{r.nextDue.message}</span></> : <span className="text-ink-soft">nothing timed</span>}</td>

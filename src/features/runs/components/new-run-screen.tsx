@@ -8,8 +8,10 @@ import type { ResinLot } from '../../../../shared/schemas/reference';
 import { Field, FormError } from '../../../components/ui/field';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
 import { applyServerErrors } from '../../../lib/form-errors';
-import { lotsPickerQuery, trialCouponsPickerQuery, trialsPickerQuery } from '../api/runs-queries';
+import { lotListQuery } from '../../../lib/queries/reference';
+import { trialCouponsQuery, trialListQuery } from '../../../lib/queries/records';
 import { useCreateRun } from '../api/use-create-run';
+import { paths } from '../../../config/paths';
 
 const FIELDS = ['code', 'chamber', 'resinLotId', 'altitudeM', 'notes', 'couponIds'] as const;
 const blankToUndefined = (v: unknown) => (typeof v === 'string' && v.trim() === '' ? undefined : v);
@@ -26,8 +28,8 @@ export function lotWarning(lot: Pick<ResinLot, 'expired' | 'expiringSoon' | 'exp
 export function NewRunScreen() {
   const navigate = useNavigate();
   const create = useCreateRun();
-  const lots = useQuery(lotsPickerQuery());
-  const trials = useQuery(trialsPickerQuery());
+  const lots = useQuery(lotListQuery());
+  const trials = useQuery(trialListQuery());
   const [trialId, setTrialId] = useState<number | null>(null);
   const [picked, setPicked] = useState<Set<number>>(new Set());
   const form = useForm<CreateRunInput>({
@@ -50,7 +52,7 @@ export function NewRunScreen() {
   const onSubmit = form.handleSubmit(async (values) => {
     try {
       const run = await create.mutateAsync({ ...values, couponIds: [...picked] });
-      navigate(`/runs/${run.id}`);
+      navigate(paths.run.href({ id: run.id }));
     } catch (err) {
       applyServerErrors(err, form.setError, FIELDS);
     }
@@ -155,7 +157,7 @@ export function NewRunScreen() {
 }
 
 function TrialCoupons({ trialId, picked, onToggle }: { trialId: number; picked: Set<number>; onToggle: (ids: number[], on: boolean) => void }) {
-  const coupons = useQuery(trialCouponsPickerQuery(trialId));
+  const coupons = useQuery(trialCouponsQuery(trialId));
   const rows = useMemo(() => coupons.data?.items ?? [], [coupons.data]);
   if (coupons.isPending) return <Loading label="Loading the trial's coupons…" />;
   if (coupons.isError) return <ErrorNote error={coupons.error} />;

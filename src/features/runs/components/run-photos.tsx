@@ -1,6 +1,6 @@
 import type { RunDetail } from '../../../../shared/schemas/runs';
 import { PhotoPanel } from '../../../components/ui/photo-panel';
-import { useRole } from '../../../lib/use-role';
+import { useRole } from '../../../lib/session';
 import { useUploadRunPhoto } from '../api/use-upload-run-photo';
 
 export function RunPhotos({ run }: { run: RunDetail }) {

@@ -5,15 +5,16 @@ import { RUN_STAGES, type RunStage } from '../../../../shared/constants/records'
 import type { RunDetail, RunStageOut } from '../../../../shared/schemas/runs';
 import { STAGE_LABELS, stageMinutes } from '../../../../shared/runs/stages';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
-import { useRole } from '../../../lib/use-role';
+import { useRole } from '../../../lib/session';
 import { useUnits } from '../../../lib/use-units';
-import { runQuery } from '../api/runs-queries';
+import { runQuery } from '../../../lib/queries/records';
 import { useNow } from '../hooks/use-now';
 import { RunPhotos } from './run-photos';
 import { CautionNote } from './caution-note';
 import { RuleChecks } from './rule-checks';
 import { GAUGE_NOTE, StageForm } from './stage-form';
 import { DueTime, dateTime, formatSpan } from './time-text';
+import { paths } from '../../../config/paths';
 
 type StageState = 'done' | 'in progress' | 'not started' | 'skipped';
 
@@ -187,7 +188,7 @@ export function RunScreen() {
     <Page
       title={`Run ${r.code}`}
       actions={
-        <Link to={`/runs/${r.id}/coupons`} className="btn-primary no-underline">
+        <Link to={paths.runCoupons.href({ id: r.id })} className="btn-primary no-underline">
           Coupons grid ({r.coupons.length})
         </Link>
       }
@@ -264,7 +265,7 @@ export function RunScreen() {
                   {r.coupons.map((c) => (
                     <tr key={c.id}>
                       <th scope="row" className="border-b border-paper-edge font-normal">
-                        <Link to={`/coupons/${c.id}`}>{c.tag}</Link>
+                        <Link to={paths.coupon.href({ id: c.id })}>{c.tag}</Link>
                       </th>
                       <td>{c.speciesName}</td>
                       <td>{c.stagesWeighed.length ? c.stagesWeighed.join(', ') : <span className="text-ink-soft">nothing yet</span>}</td>

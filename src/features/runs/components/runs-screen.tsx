@@ -4,11 +4,12 @@ import { Link } from 'react-router-dom';
 import { RUN_STATUSES } from '../../../../shared/runs/stages';
 import type { RunListQuery } from '../../../../shared/schemas/runs';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
-import { useRole } from '../../../lib/use-role';
-import { runsQuery } from '../api/runs-queries';
+import { useRole } from '../../../lib/session';
+import { runListQuery } from '../../../lib/queries/records';
 import { useNow } from '../hooks/use-now';
 import { CheckCounts, currentStageText } from './bench-screen';
 import { DueTime, dateTime } from './time-text';
+import { paths } from '../../../config/paths';
 
 type StatusFilter = NonNullable<RunListQuery['status']> | '';
 const STATUS_OPTIONS: { value: StatusFilter; label: string }[] = [
@@ -21,14 +22,14 @@ export function RunsScreen() {
   const { can } = useRole();
   const [status, setStatus] = useState<StatusFilter>('');
   const [page, setPage] = useState(1);
-  const runs = useQuery(runsQuery({ status: status || undefined, page, pageSize: 50 }));
+  const runs = useQuery(runListQuery({ status: status || undefined, page, pageSize: 50 }));
   const now = useNow();
   return (
     <Page
       title="Runs"
       actions={
         can('technician') ? (
-          <Link to="/runs/new" className="btn-primary no-underline">
+          <Link to={paths.runNew.href()} className="btn-primary no-underline">
             New run
           </Link>
         ) : undefined
@@ -79,13 +80,13 @@ export function RunsScreen() {
               {runs.data.items.map((r) => (
                 <tr key={r.id}>
                   <th scope="row" className="border-b border-paper-edge font-normal">
-                    <Link to={`/runs/${r.id}`}>{r.code}</Link>
+                    <Link to={paths.run.href({ id: r.id })}>{r.code}</Link>
                     {r.startedAt && <div className="text-xs text-ink-faint">started {dateTime(r.startedAt)}</div>}
                   </th>
                   <td>{r.chamber}</td>
                   <td>{r.lotCode ? `${r.lotCode} (${r.resinName ?? 'resin'})` : <span className="text-ink-soft">none</span>}</td>
                   <td>
-                    <Link to={`/runs/${r.id}/coupons`} aria-label={`${r.couponCount} coupons of run ${r.code}, open the entry grid`}>
+                    <Link to={paths.runCoupons.href({ id: r.id })} aria-label={`${r.couponCount} coupons of run ${r.code}, open the entry grid`}>
                       {r.couponCount}
                     </Link>
                   </td>

@@ -1,15 +1,17 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api } from '../../../lib/api-client';
 import { trialResponseSchema, type UpdateTrialInput } from '../../../../shared/schemas/trials';
-import { trialKeys } from './trials-queries';
+import { queryKeys } from '../../../lib/queries/keys';
+import { useInvalidate } from '../../../lib/queries/invalidate';
 
 export function useUpdateTrial(id: number) {
   const qc = useQueryClient();
+  const invalidate = useInvalidate();
   return useMutation({
     mutationFn: async (patch: UpdateTrialInput) => (await api.patch(`/trials/${id}`, patch, trialResponseSchema)).trial,
     onSuccess: async (trial) => {
-      qc.setQueryData(trialKeys.detail(id), trial);
-      await Promise.all([qc.invalidateQueries({ queryKey: trialKeys.lists() }), qc.invalidateQueries({ queryKey: trialKeys.labels(id) })]);
+      qc.setQueryData(queryKeys.trials.detail(id), trial);
+      await invalidate('trials');
     },
   });
 }

@@ -4,6 +4,7 @@ import type { CouponLabel } from '../../../../shared/schemas/trials';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
 import { labelSheetQuery } from '../api/trials-queries';
 import { ROLE_LABELS } from './labels';
+import { paths } from '../../../config/paths';
 
 // Page margins for the printer; the labels themselves have a fixed size in millimetres so they cut
 // out the same on any paper.
@@ -27,7 +28,7 @@ export function LabelSheetScreen() {
           <button type="button" className="btn-primary" onClick={() => window.print()} disabled={!sheet.data?.labels.length}>
             Print
           </button>
-          <Link to={`/trials/${id}`} className="btn-quiet no-underline">
+          <Link to={paths.trial.href({ id: id })} className="btn-quiet no-underline">
             Back to the trial
           </Link>
         </>
@@ -40,7 +41,7 @@ export function LabelSheetScreen() {
         <ErrorNote error={sheet.error} />
       ) : sheet.data.labels.length === 0 ? (
         <p className="text-ink-soft">
-          This trial has no coupons yet. Create the planned coupons on the <Link to={`/trials/${id}`}>trial's page</Link>, then come back here.
+          This trial has no coupons yet. Create the planned coupons on the <Link to={paths.trial.href({ id: id })}>trial's page</Link>, then come back here.
         </p>
       ) : (
         <>

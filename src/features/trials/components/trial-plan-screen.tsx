@@ -10,12 +10,14 @@ import { ErrorNote, Loading, Page } from '../../../components/ui/page';
 import { ApiError } from '../../../lib/api-client';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { useUnits } from '../../../lib/use-units';
-import { planChoicesQuery, trialQuery } from '../api/trials-queries';
+import { trialQuery } from '../../../lib/queries/records';
+import { usePlanChoices } from '../hooks/use-plan-choices';
 import { useCreateTrial } from '../api/use-create-trial';
 import { useUpdateTrial } from '../api/use-update-trial';
 import { numberOrNull, textOrNull } from '../../../lib/form-values';
 import { buildPlan, cellKey, checkPlan, formFieldOf, planValuesFromTrial, type PlanValues, type ProcessRow } from './plan-values';
 import { PlanningWarnings } from './planning-warnings';
+import { paths } from '../../../config/paths';
 
 const emptyProcess = (): ProcessRow => ({
   processLabel: '',
@@ -28,16 +30,16 @@ const emptyProcess = (): ProcessRow => ({
 });
 
 export function TrialPlanScreen() {
-  const choices = useQuery(planChoicesQuery());
+  const choices = usePlanChoices();
   const create = useCreateTrial();
   return (
     <Page title="Plan a trial">
       {choices.isPending ? (
         <Loading />
-      ) : choices.isError ? (
+      ) : !choices.data ? (
         <ErrorNote error={choices.error} />
       ) : (
-        <PlanForm species={choices.data.species} resins={choices.data.resins} save={(input) => create.mutateAsync(input)} cancelTo="/trials" />
+        <PlanForm species={choices.data.species} resins={choices.data.resins} save={(input) => create.mutateAsync(input)} cancelTo={paths.trials.href()} />
       )}
     </Page>
   );
@@ -46,7 +48,7 @@ export function TrialPlanScreen() {
 /** The same form on a saved trial: the grid is replaced as a whole; cells that already have coupons stay (the server refuses their removal). */
 export function TrialEditPlanScreen() {
   const id = Number(useParams().id);
-  const choices = useQuery(planChoicesQuery());
+  const choices = usePlanChoices();
   const trial = useQuery(trialQuery(id));
   const update = useUpdateTrial(id);
   const units = useUnits();
@@ -66,7 +68,7 @@ export function TrialEditPlanScreen() {
           resins={choices.data.resins}
           initial={planValuesFromTrial(trial.data, { temp: (c) => units.toDisplay(c, 'temperature'), length: (mm) => units.toDisplay(mm, 'length') })}
           save={(input) => update.mutateAsync(input)}
-          cancelTo={`/trials/${id}`}
+          cancelTo={paths.trial.href({ id: id })}
         />
       )}
     </Page>
@@ -129,6 +131,7 @@ function PlanForm({ species, resins, initial, save, cancelTo }: PlanFormProps) {
       {
         speciesName: (id) => speciesById.get(String(id))?.commonName ?? `species ${id}`,
         resin: (id) => resinById.get(String(id)),
+        units: units.system,
       },
     );
   })();
@@ -139,7 +142,7 @@ function PlanForm({ species, resins, initial, save, cancelTo }: PlanFormProps) {
   const onSubmit = form.handleSubmit(async (input) => {
     try {
       const trial = await save(input);
-      navigate(`/trials/${trial.id}`);
+      navigate(paths.trial.href({ id: trial.id }));
     } catch (err) {
       // The server names contract paths; move them onto the boxes, as the form's own check does.
       const { origins } = buildPlan(form.getValues(), conv);

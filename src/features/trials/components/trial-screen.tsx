@@ -4,14 +4,15 @@ import { Link, useParams } from 'react-router-dom';
 import { TRIAL_STATUSES, type TrialStatus } from '../../../../shared/constants/records';
 import type { Progress, Trial, TrialCondition } from '../../../../shared/schemas/trials';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
-import { useRole } from '../../../lib/use-role';
+import { useRole } from '../../../lib/session';
 import { useUnits } from '../../../lib/use-units';
-import { trialQuery } from '../api/trials-queries';
+import { trialQuery } from '../../../lib/queries/records';
 import { useCreatePlannedCoupons } from '../api/use-create-planned-coupons';
 import { useUpdateTrial } from '../api/use-update-trial';
 import { TRIAL_STATUS_LABELS } from './labels';
 import { PlanningWarnings } from './planning-warnings';
 import { controlDone, ProgressBar, treatedDone } from './progress-bar';
+import { paths } from '../../../config/paths';
 
 export function TrialScreen() {
   const id = Number(useParams().id);
@@ -49,11 +50,11 @@ function TrialView({ trial }: { trial: Trial }) {
             </button>
           )}
           {can('technician') && trial.status !== 'closed' && (
-            <Link to={`/trials/${trial.id}/edit`} className="btn-quiet no-underline">
+            <Link to={paths.trialEdit.href({ id: trial.id })} className="btn-quiet no-underline">
               Edit the plan
             </Link>
           )}
-          <Link to={`/trials/${trial.id}/labels`} className="btn-quiet no-underline">
+          <Link to={paths.trialLabels.href({ id: trial.id })} className="btn-quiet no-underline">
             Label sheet
           </Link>
         </>

@@ -4,10 +4,11 @@ import { Link } from 'react-router-dom';
 import { TRIAL_STATUSES, type TrialStatus } from '../../../../shared/constants/records';
 import type { TrialSummary } from '../../../../shared/schemas/trials';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
-import { useRole } from '../../../lib/use-role';
-import { trialListQuery } from '../api/trials-queries';
+import { useRole } from '../../../lib/session';
+import { trialListQuery } from '../../../lib/queries/records';
 import { TRIAL_STATUS_LABELS } from './labels';
 import { ProgressBar } from './progress-bar';
+import { paths } from '../../../config/paths';
 
 const PAGE_SIZE = 25;
 
@@ -29,7 +30,7 @@ export function TrialsScreen() {
       title="Trials"
       actions={
         can('technician') ? (
-          <Link to="/trials/new" className="btn-primary no-underline">
+          <Link to={paths.trialNew.href()} className="btn-primary no-underline">
             Plan a trial
           </Link>
         ) : undefined
@@ -99,7 +100,7 @@ export function TrialsScreen() {
                   return (
                     <tr key={t.id}>
                       <th scope="row" className="border-b border-paper-edge text-left font-normal text-ink whitespace-nowrap">
-                        <Link to={`/trials/${t.id}`}>{t.code}</Link>
+                        <Link to={paths.trial.href({ id: t.id })}>{t.code}</Link>
                       </th>
                       <td>{t.title}</td>
                       <td>{TRIAL_STATUS_LABELS[t.status]}</td>

@@ -1,5 +1,5 @@
 import { keepPreviousData, queryOptions } from '@tanstack/react-query';
-import { api, queryString } from '../../../lib/api-client';
+import { api, queryString } from '../api-client';
 import {
   resinListSchema,
   resinLotListSchema,
@@ -7,40 +7,35 @@ import {
   type ResinListQuery,
   type ResinLotListQuery,
   type SpeciesListQuery,
-} from '../../../../shared/schemas/reference';
+} from '../../../shared/schemas/reference';
+import { queryKeys } from './keys';
 
-export const speciesKeys = {
-  all: ['species'] as const,
-  list: (q: Partial<SpeciesListQuery>) => [...speciesKeys.all, 'list', q] as const,
-};
-export const resinKeys = {
-  all: ['resins'] as const,
-  list: (q: Partial<ResinListQuery>) => [...resinKeys.all, 'list', q] as const,
-};
-export const lotKeys = {
-  all: ['resin-lots'] as const,
-  list: (q: Partial<ResinLotListQuery>) => [...lotKeys.all, 'list', q] as const,
-};
-
-// A shop's reference lists are short (tens of rows), so each screen asks for one page of the largest
-// size the API allows rather than paging.
+// A shop's reference lists are short (tens of rows): one page of the largest size the API allows holds
+// them. Every picker and the Reference screen read the same entries, so a species added on one screen
+// shows in every other feature's picker at once (its mutation invalidates `queryKeys.species.all`).
 const ALL = 200;
 
+/** Species, filtered or (no argument) all of them for a picker. */
 export const speciesListQuery = (q: Partial<SpeciesListQuery> = {}) =>
   queryOptions({
-    queryKey: speciesKeys.list(q),
+    queryKey: queryKeys.species.list(q),
     queryFn: () => api.get(`/species${queryString({ sort: 'commonName', pageSize: ALL, ...q })}`, speciesListSchema),
     placeholderData: keepPreviousData,
+    staleTime: 60_000,
   });
 
+/** Resins, filtered or (no argument) all of them for a picker. */
 export const resinListQuery = (q: Partial<ResinListQuery> = {}) =>
   queryOptions({
-    queryKey: resinKeys.list(q),
+    queryKey: queryKeys.resins.list(q),
     queryFn: () => api.get(`/resins${queryString({ sort: 'name', pageSize: ALL, ...q })}`, resinListSchema),
+    staleTime: 60_000,
   });
 
+/** Resin lots, newest activation first, filtered or (no argument) all of them for a picker. */
 export const lotListQuery = (q: Partial<ResinLotListQuery> = {}) =>
   queryOptions({
-    queryKey: lotKeys.list(q),
+    queryKey: queryKeys.lots.list(q),
     queryFn: () => api.get(`/resin-lots${queryString({ sort: '-activatedAt', pageSize: ALL, ...q })}`, resinLotListSchema),
+    staleTime: 60_000,
   });

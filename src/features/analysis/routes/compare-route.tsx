@@ -1,0 +1,3 @@
+import { CompareScreen } from '../components/compare-screen';
+
+export const Component = CompareScreen;

@@ -1,0 +1,3 @@
+import { AcceptInvitationScreen } from '../components/password-screens';
+
+export const Component = AcceptInvitationScreen;

@@ -1,0 +1,3 @@
+import { ForgotPasswordScreen } from '../components/password-screens';
+
+export const Component = ForgotPasswordScreen;

@@ -1,0 +1,3 @@
+import { PreferencesScreen } from '../components/preferences-screen';
+
+export const Component = PreferencesScreen;

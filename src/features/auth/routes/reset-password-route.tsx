@@ -1,0 +1,3 @@
+import { ResetPasswordScreen } from '../components/password-screens';
+
+export const Component = ResetPasswordScreen;

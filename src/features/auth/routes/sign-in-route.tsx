@@ -1,0 +1,3 @@
+import { SignInScreen } from '../components/sign-in-screen';
+
+export const Component = SignInScreen;

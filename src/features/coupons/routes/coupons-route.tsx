@@ -1,0 +1,17 @@
+import type { QueryClient } from '@tanstack/react-query';
+import { CouponsScreen } from '../components/coupons-screens';
+import type { PrefetchArgs } from '../../../lib/routing';
+import { couponListQuery, runListQuery, trialListQuery } from '../../../lib/queries/records';
+import { gridCouponsQuery } from '../api/coupons-queries';
+
+export const Component = CouponsScreen;
+
+export function prefetch(qc: QueryClient, { url }: PrefetchArgs): void {
+  void qc.prefetchQuery(trialListQuery());
+  void qc.prefetchQuery(runListQuery());
+  const trialId = Number(url.searchParams.get('trialId')) || null;
+  const runId = Number(url.searchParams.get('runId')) || null;
+  if (trialId) void qc.prefetchQuery(gridCouponsQuery({ trialId }));
+  else if (runId) void qc.prefetchQuery(gridCouponsQuery({ runId }));
+  else void qc.prefetchQuery(couponListQuery({ page: 1, pageSize: 50, sort: 'tag' }));
+}

@@ -1,0 +1,3 @@
+import { FindingsScreen } from '../components/findings-screen';
+
+export const Component = FindingsScreen;

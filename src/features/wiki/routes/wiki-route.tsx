@@ -1,0 +1,3 @@
+import { WikiScreen } from '../components/wiki-screen';
+
+export const Component = WikiScreen;
