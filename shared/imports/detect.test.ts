@@ -27,7 +27,7 @@ describe('detection over the fixtures', () => {
     ['two-date-columns-day-first.csv', 'utf-8', ',', true, '.', 'dmy'],
     ['one-date-column-month-first.csv', 'utf-8', ',', true, '.', 'mdy'],
     ['ambiguous-dates.csv', 'utf-8', ',', true, '.', 'dmy'],
-    ['demo-run-soaked.csv', 'utf-8', ';', true, ',', 'dmy'],
+    ['demo-run-cured.csv', 'utf-8', ';', true, ',', 'dmy'],
   ] as const)('%s: %s, %j, header %s, decimal %j, dates %s', (name, encoding, delimiter, hasHeader, decimal, order) => {
     const d = detect(name);
     expect(d.binary).toBeNull();
@@ -61,7 +61,7 @@ describe('detection over the fixtures', () => {
     const d = detect('ambiguous-dates.csv');
     expect(d.detected.dateOrder).toMatchObject({ assumed: true });
     expect(d.detected.dateOrder.reason).toMatch(/run forward in time/);
-    expect(detect('demo-run-soaked.csv').detected.dateOrder.reason).toMatch(/dots/);
+    expect(detect('demo-run-cured.csv').detected.dateOrder.reason).toMatch(/dots/);
   });
 
   it('tells a binary file and an empty one', () => {

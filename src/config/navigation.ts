@@ -7,7 +7,7 @@ export const NAVIGATION: readonly { to: string; label: string; min: Role }[] = [
   { to: paths.trials.href(), label: 'Trials', min: 'viewer' },
   { to: paths.runs.href(), label: 'Runs', min: 'viewer' },
   { to: paths.coupons.href(), label: 'Coupons', min: 'viewer' },
-  { to: paths.imports.href(), label: 'Imports', min: 'technician' },
+  { to: paths.imports.href(), label: 'Imports', min: 'viewer' },
   { to: paths.compare.href(), label: 'Compare', min: 'viewer' },
   { to: paths.findings.href(), label: 'Findings', min: 'viewer' },
   { to: paths.wiki.href(), label: 'Wiki', min: 'viewer' },
