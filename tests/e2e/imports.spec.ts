@@ -32,29 +32,29 @@ test('a technician imports a scale file, sees every problem row, commits, sees W
   await expect(page.getByRole('heading', { level: 1, name: 'Imports' })).toBeVisible();
   await expectNoSeriousViolations(page);
 
-  await page.getByLabel('File').setInputFiles(FIXTURE);
+  await page.getByLabel('File', { exact: true }).setInputFiles(FIXTURE);
   await page.getByRole('button', { name: 'Upload and detect' }).click();
   await expect(page.getByRole('heading', { level: 1, name: 'Import: demo-run-cured.csv' })).toBeVisible();
 
   // What was detected, with the reasons; the dates read both ways, so the assumption is said.
-  await expect(page.getByLabel('Columns separated by')).toHaveValue(';');
-  await expect(page.getByLabel('Decimal mark')).toHaveValue(',');
-  await expect(page.getByLabel('Dates are written')).toHaveValue('dmy');
+  await expect(page.getByLabel('Columns separated by', { exact: true })).toHaveValue(';');
+  await expect(page.getByLabel('Decimal mark', { exact: true })).toHaveValue(',');
+  await expect(page.getByLabel('Dates are written', { exact: true })).toHaveValue('dmy');
   await expect(page.getByText(/Assumed: .*written with dots/)).toBeVisible();
-  await expect(page.getByLabel('Coupon tag')).toHaveValue('2');
-  await expect(page.getByLabel('Mass (the reading)')).toHaveValue('3');
-  await expect(page.getByLabel('Stable/unstable flag')).toHaveValue('4');
+  await expect(page.getByLabel('Coupon tag', { exact: true })).toHaveValue('2');
+  await expect(page.getByLabel('Mass (the reading)', { exact: true })).toHaveValue('3');
+  await expect(page.getByLabel('Stable/unstable flag', { exact: true })).toHaveValue('4');
 
   // Preview without a stage is refused on the field.
   await page.getByRole('button', { name: 'Preview' }).click();
   await expect(page.getByText('Choose the stage these readings were taken at')).toBeVisible();
-  await page.getByLabel('Stage these readings were taken at').selectOption('cured');
+  await page.getByLabel('Stage these readings were taken at', { exact: true }).selectOption('cured');
   await page.getByRole('button', { name: 'Preview' }).click();
 
   const preview = page.getByRole('region', { name: 'Preview' });
   await expect(preview.getByText(/5 rows read: 3 accepted, 1 skipped, 1 with problems/)).toBeVisible({ timeout: 30_000 });
   const problems = preview.getByRole('table', { name: /Each row with its column and the reason/ });
-  await expect(problems.getByRole('row').filter({ hasText: 'No coupon is tagged "T26-001-YBU-EPD9-03"; did you mean T26-001-YBU-EPD90-03?' })).toContainText('Sample');
+  await expect(problems.getByRole('row').filter({ hasText: 'No coupon is tagged "T26-001-YBU-EPD9-03"; did you mean T26-001-YBU-EPD90-03' })).toContainText('Sample');
   await expect(problems.getByRole('row').filter({ hasText: 'unstable' })).toContainText('5');
   await expect(preview.getByRole('cell', { name: '57.6 g' })).toBeVisible();
   await expectNoSeriousViolations(page);
@@ -68,7 +68,7 @@ test('a technician imports a scale file, sees every problem row, commits, sees W
 
   await page.goBack();
   await expect(page.getByRole('heading', { level: 2, name: 'Undo this import' })).toBeVisible();
-  await page.getByLabel('Why').fill('weighed on the wrong day');
+  await page.getByLabel('Why', { exact: true }).fill('weighed on the wrong day');
   await page.getByRole('button', { name: 'Undo import' }).click();
   await expect(page.getByText(/undone .* weighed on the wrong day/)).toBeVisible();
   await page.getByRole('link', { name: 'T26-001-RMA-EPD90-03' }).click();

@@ -127,7 +127,9 @@ function Preview({ d }: { d: ImportDetail }) {
             {d.previewRows.map((r) => (
               <tr key={r.row}>
                 <td>{r.row}</td>
-                <td>{d.status === 'committed' ? <Link to={paths.coupon.href({ id: r.couponId })}>{r.tag}</Link> : r.tag}</td>
+                <td>
+                  <Link to={paths.coupon.href({ id: r.couponId })}>{r.tag}</Link>
+                </td>
                 <td>
                   {r.stage}
                   {r.correction ? ' (correction)' : ''}
