@@ -20,6 +20,8 @@ import { runsRoutes } from './features/runs/runs.router';
 import { couponsRoutes } from './features/coupons/coupons.router';
 import { referenceRoutes } from './features/reference/reference.router';
 import { trialsRoutes } from './features/trials/trials.router';
+import { findingsRoutes } from './features/findings/findings.router';
+import { wikiRoutes } from './features/wiki/wiki.router';
 import { importsRoutes } from './features/imports/imports.router';
 
 const here = path.dirname(fileURLToPath(import.meta.url));
@@ -141,6 +143,8 @@ export function createApp(deps: AppDeps) {
     couponsRoutes(feature),
     referenceRoutes(feature),
     trialsRoutes(feature),
+    findingsRoutes(feature, deps.signingRateLimit ?? { windowMs: 15 * 60_000, limit: 5 }),
+    wikiRoutes(feature),
     importsRoutes(feature),
   ];
   const declared: DeclaredRoute[] = [];

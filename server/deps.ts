@@ -14,6 +14,8 @@ export interface AppDeps {
   bcryptCost?: number;
   /** Failed sign-ins allowed per account (`limit`) and per client address (`perAddress`) per window. */
   loginRateLimit?: { windowMs: number; limit: number; perAddress?: number };
+  /** Failed signing attempts (wrong password at approval) allowed per signer per window. */
+  signingRateLimit?: { windowMs: number; limit: number };
   /** A clock the tests can move (token expiry). */
   now?: () => Date;
 }

@@ -12,8 +12,21 @@ import * as runsSchema from './schema/runs';
 import * as couponsSchema from './schema/coupons';
 import * as resultsSchema from './schema/results';
 import * as importsSchema from './schema/imports';
+import * as findingsSchema from './schema/findings';
+import * as wikiSchema from './schema/wiki';
 
-export const schema = { ...authSchema, ...adminSchema, ...referenceSchema, ...trialsSchema, ...runsSchema, ...couponsSchema, ...resultsSchema, ...importsSchema };
+export const schema = {
+  ...authSchema,
+  ...adminSchema,
+  ...referenceSchema,
+  ...trialsSchema,
+  ...runsSchema,
+  ...couponsSchema,
+  ...resultsSchema,
+  ...findingsSchema,
+  ...wikiSchema,
+  ...importsSchema,
+};
 export type Db = BetterSQLite3Database<typeof schema>;
 
 export interface Database_ {

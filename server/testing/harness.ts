@@ -35,6 +35,8 @@ export interface Harness {
 export interface HarnessOptions {
   seed?: boolean;
   loginLimit?: number;
+  /** Failed signing attempts allowed per signer (default: effectively unlimited). */
+  signingLimit?: number;
   /** Collects the app's log lines at `info` (otherwise the log is silent). */
   logLines?: string[];
   /** Extra environment (e.g. TRUST_PROXY, APP_URL) over the test defaults. */
@@ -66,6 +68,7 @@ export async function startHarness(options: HarnessOptions = {}): Promise<Harnes
       bcryptCost: 4,
       now: () => new Date(Date.now() + clock.offsetMs),
       loginRateLimit: { windowMs: 60_000, limit: options.loginLimit ?? 1000, perAddress: (options.loginLimit ?? 1000) * 3 },
+      signingRateLimit: { windowMs: 60_000, limit: options.signingLimit ?? 1000 },
     });
   let lumenbook = build();
 
