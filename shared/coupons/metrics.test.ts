@@ -22,7 +22,7 @@ describe('couponMetrics', () => {
     resin: { curedDensityGcm3: 1.2 },
   });
 
-  it('works out volume, density and SG from the dry mass and callipers', () => {
+  it('works out volume, density and SG from the dry mass and calipers', () => {
     expect(treated.dryVolumeCm3).toBeCloseTo(20, 10);
     expect(treated.drySg).toBeCloseTo(0.5, 10);
     expect(treated.dryDensityKgM3).toBeCloseTo(500, 8);

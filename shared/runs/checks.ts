@@ -1,6 +1,6 @@
 import type { LotStatus } from '../constants/records';
 import { DomainError, inCureWindow, reachedConstantMass } from '../domain/index';
-import type { UnitSystem } from '../units';
+import type { UnitChoice } from '../units';
 import { durationSeconds, formatDuration, formatTemperature, formatTemperatureRange } from './format';
 import { soakRequirement } from './timers';
 import { stageMinutes, type StageTimes } from './stages';
@@ -47,7 +47,7 @@ export interface RunCheckInput {
   dryingRule: { minIntervalHours: number; maxChangePct: number };
   now: Date;
   /** The reader's units for temperatures in the reasons (stored values stay °C). Metric when omitted. */
-  units?: UnitSystem;
+  units?: UnitChoice;
 }
 
 const DAY = 86_400_000;

@@ -1,4 +1,4 @@
-import { convertTemperature, type UnitSystem } from '../units';
+import { convertTemperature, unitPrefs, UNIT_LABELS, type UnitChoice } from '../units';
 
 /** n rounded to `decimals` places, without trailing zeros: 250, 93.3, 121.15. */
 function trimmed(n: number, decimals: number): string {
@@ -11,14 +11,15 @@ function trimmed(n: number, decimals: number): string {
  * A temperature stored in °C, shown in the user's units: whole degrees when it is one, else up to
  * `decimals` places (1 for windows and set points, 2 for readings so nothing near an edge hides).
  */
-export function formatTemperature(tempC: number, system: UnitSystem = 'metric', decimals = 1): string {
-  return system === 'us' ? `${trimmed(convertTemperature(tempC, 'degC', 'degF'), decimals)} °F` : `${trimmed(tempC, decimals)} °C`;
+export function formatTemperature(tempC: number, units: UnitChoice = 'metric', decimals = 1): string {
+  const unit = unitPrefs(units).temperature;
+  return `${trimmed(convertTemperature(tempC, 'degC', unit), decimals)} ${UNIT_LABELS[unit]}`;
 }
 
 /** A window such as "200–250 °F" or "93.3–121.1 °C". */
-export function formatTemperatureRange(minC: number, maxC: number, system: UnitSystem = 'metric'): string {
-  const lo = formatTemperature(minC, system).replace(/ °[CF]$/, '');
-  return `${lo}–${formatTemperature(maxC, system)}`;
+export function formatTemperatureRange(minC: number, maxC: number, units: UnitChoice = 'metric'): string {
+  const lo = formatTemperature(minC, units).replace(/ °[CF]$/, '');
+  return `${lo}–${formatTemperature(maxC, units)}`;
 }
 
 /** Whole seconds in a duration given in minutes; durations are compared at this resolution. */

@@ -73,7 +73,7 @@ const dimensionCheckSchema = z
     lengthMm: lengthSchema.optional(),
     widthMm: lengthSchema.optional(),
     thicknessMm: lengthSchema.optional(),
-    /** Volume by immersion, when callipers cannot measure the piece. */
+    /** Volume by immersion, when calipers cannot measure the piece. */
     volumeCm3: volumeSchema.optional(),
     method: methodSchema.optional(),
   })

@@ -1,6 +1,6 @@
 import { inCureWindow } from '../domain/rules-of-thumb';
 import { formatTemperature, formatTemperatureRange } from '../runs/format';
-import type { UnitSystem } from '../units';
+import type { UnitChoice } from '../units';
 
 /**
  * Planning checks for a trial: will this plan be able to answer its question? Each warning carries a
@@ -36,7 +36,7 @@ export interface PlanContext {
   speciesName: (id: number) => string;
   resin: (id: number) => { name: string; cureMinC: number; cureMaxC: number } | undefined;
   /** The reader's units for temperatures in the messages (stored values stay °C). Metric when omitted. */
-  units?: UnitSystem;
+  units?: UnitChoice;
 }
 
 export function planningWarnings(

@@ -78,7 +78,7 @@ export const checks = sqliteTable(
     lengthMm: real('length_mm'),
     widthMm: real('width_mm'),
     thicknessMm: real('thickness_mm'),
-    /** Volume by immersion (cm³) when measured that way instead of by callipers. */
+    /** Volume by immersion (cm³) when measured that way instead of by calipers. */
     volumeCm3: real('volume_cm3'),
     hardnessValue: real('hardness_value'),
     hardnessScale: text('hardness_scale', { enum: HARDNESS_SCALES }),

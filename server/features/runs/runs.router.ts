@@ -13,14 +13,14 @@ export function runsRoutes(deps: FeatureDeps) {
 
   r.get('/runs', { access: 'viewer', schemas: { query: runListQuerySchema } }, ({ query }) => service.list(query));
   r.post('/runs', { access: 'technician', status: 201, schemas: { body: createRunSchema } }, ({ user, body }) => ({ run: service.create(user, body) }));
-  r.get('/runs/:id', { access: 'viewer', schemas: { params: idParamsSchema } }, ({ user, params }) => ({ run: service.get(params.id, user.unitSystem) }));
+  r.get('/runs/:id', { access: 'viewer', schemas: { params: idParamsSchema } }, ({ user, params }) => ({ run: service.get(params.id, user.units) }));
   r.patch('/runs/:id', { access: 'technician', schemas: { params: idParamsSchema, body: updateRunSchema } }, ({ user, params, body }) => ({
     run: service.update(user, params.id, body),
   }));
   r.post('/runs/:id/stages', { access: 'technician', schemas: { params: idParamsSchema, body: recordStageSchema } }, ({ user, params, body }) => ({
     run: service.recordStage(user, params.id, body),
   }));
-  r.get('/runs/:id/checks', { access: 'viewer', schemas: { params: idParamsSchema } }, ({ user, params }) => service.checks(params.id, user.unitSystem));
+  r.get('/runs/:id/checks', { access: 'viewer', schemas: { params: idParamsSchema } }, ({ user, params }) => service.checks(params.id, user.units));
   r.get('/bench', { access: 'viewer', schemas: { query: benchQuerySchema } }, ({ query }) => bench.bench(query));
   return r;
 }

@@ -7,7 +7,7 @@ import { coupons } from '../../db/schema/coupons';
 import { runReadings, runStages, runs } from '../../db/schema/runs';
 import { Conflict, NotFound, Unprocessable, ValidationFailed } from '../../http/errors';
 import { DomainError, absolutePressureFromGauge, percentVacuum, standardPressureAtAltitude } from '../../../shared/domain/index';
-import { convertPressure, type UnitSystem } from '../../../shared/units';
+import { convertPressure, type UnitChoice } from '../../../shared/units';
 import type { User } from '../../../shared/schemas/auth';
 import type {
   CreateRunInput,
@@ -70,7 +70,7 @@ export function convertReading(r: Pick<GaugeReadingInput, 'gaugeValue' | 'gaugeU
 export function createRunsService(deps: FeatureDeps) {
   const { db } = deps.database;
 
-  function checksFor(run: RunRow, stages: StageRow[], lot: LotWithResin | undefined, couponInfo: RunCouponInfo[], now: Date, units?: UnitSystem): RuleCheck[] {
+  function checksFor(run: RunRow, stages: StageRow[], lot: LotWithResin | undefined, couponInfo: RunCouponInfo[], now: Date, units?: UnitChoice): RuleCheck[] {
     const s = getShopSettings(db);
     return runChecks({
       stages: stages.map(toStageTimes),
@@ -84,7 +84,7 @@ export function createRunsService(deps: FeatureDeps) {
   }
 
   /** units: the reader's, for temperatures in the checks' reasons. */
-  function detail(run: RunRow, units?: UnitSystem): RunDetail {
+  function detail(run: RunRow, units?: UnitChoice): RunDetail {
     const now = deps.now();
     const stages = stagesOf(db, [run.id]);
     const readings = readingsOf(db, run.id);
@@ -280,7 +280,7 @@ export function createRunsService(deps: FeatureDeps) {
     return { items, page: q.page, pageSize: q.pageSize, total };
   }
 
-  function get(id: number, units?: UnitSystem): RunDetail {
+  function get(id: number, units?: UnitChoice): RunDetail {
     return detail(requireRun(db, id), units);
   }
 
@@ -392,7 +392,7 @@ export function createRunsService(deps: FeatureDeps) {
     return get(id, actor.unitSystem);
   }
 
-  function checks(id: number, units?: UnitSystem): { runId: number; checks: RuleCheck[] } {
+  function checks(id: number, units?: UnitChoice): { runId: number; checks: RuleCheck[] } {
     return { runId: id, checks: get(id, units).checks };
   }
 

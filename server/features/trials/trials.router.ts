@@ -12,7 +12,7 @@ export function trialsRoutes(deps: FeatureDeps) {
   r.post('/trials', { access: 'technician', status: 201, schemas: { body: createTrialSchema } }, ({ user, body }) => ({
     trial: service.createTrial(user, body),
   }));
-  r.get('/trials/:id', { access: 'viewer', schemas: { params: idParamsSchema } }, ({ user, params }) => ({ trial: service.getTrial(params.id, user.unitSystem) }));
+  r.get('/trials/:id', { access: 'viewer', schemas: { params: idParamsSchema } }, ({ user, params }) => ({ trial: service.getTrial(params.id, user.units) }));
   r.patch('/trials/:id', { access: 'technician', schemas: { params: idParamsSchema, body: updateTrialSchema } }, ({ user, params, body }) => ({
     trial: service.updateTrial(user, params.id, body),
   }));

@@ -4,7 +4,7 @@ import { writeAudit } from '../../db/audit';
 import { refreshResults } from '../../measurements/results';
 import { Conflict, NotFound, Unprocessable } from '../../http/errors';
 import type { User } from '../../../shared/schemas/auth';
-import type { UnitSystem } from '../../../shared/units';
+import type { UnitChoice } from '../../../shared/units';
 import type {
   ConditionInput,
   CreateTrialCouponsResponse,
@@ -73,7 +73,7 @@ export function createTrialsService(deps: TrialsServiceDeps) {
   }
 
   /** units: the reader's, for temperatures in the planning warnings. */
-  function getTrial(id: number, tx: Db = db, units?: UnitSystem): Trial {
+  function getTrial(id: number, tx: Db = db, units?: UnitChoice): Trial {
     const t = repo.findTrial(tx, id);
     if (!t) throw new NotFound('Trial');
     const conditions = repo.conditionsOf(tx, id);
@@ -372,6 +372,6 @@ export function createTrialsService(deps: TrialsServiceDeps) {
     return { trial: { id: trial.id, code: trial.code, title: trial.title }, address, labels: out };
   }
 
-  return { listTrials, getTrial: (id: number, units?: UnitSystem) => getTrial(id, db, units), createTrial, updateTrial, createPlannedCoupons, labels };
+  return { listTrials, getTrial: (id: number, units?: UnitChoice) => getTrial(id, db, units), createTrial, updateTrial, createPlannedCoupons, labels };
 }
 export type TrialsService = ReturnType<typeof createTrialsService>;

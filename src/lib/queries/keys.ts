@@ -60,12 +60,18 @@ export const queryKeys = {
   users: {
     all: ['users'] as const,
     list: (q: Partial<ListQuery>) => ['users', 'list', q] as const,
+    /** Whom an invitation link invites (read before signing in). */
+    invitation: (token: string) => ['users', 'invitation', token] as const,
   },
   outbox: {
     all: ['outbox'] as const,
     page: (page: number) => ['outbox', page] as const,
   },
-  settings: { all: ['settings'] as const },
+  settings: {
+    all: ['settings'] as const,
+    /** The address printed labels open, worked out by the server from the settings and APP_URL. */
+    labelAddress: () => ['settings', 'label-address'] as const,
+  },
 } as const;
 
 type Root = readonly [string];

@@ -1,7 +1,28 @@
 import { useQuery } from '@tanstack/react-query';
-import { useState } from 'react';
+import { useState, type ReactNode } from 'react';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
 import { outboxQuery } from '../api/admin-queries';
+
+// Web addresses in a message; a sentence's closing punctuation is not part of the address.
+const URL_PATTERN = /https?:\/\/[^\s<>"']+[^\s<>"'.,;:!?)\]]/g;
+
+/** Plain mail text with its web addresses as links, so an invitation or reset link opens with one click. */
+export function Linked({ text }: { text: string }) {
+  const parts: ReactNode[] = [];
+  let last = 0;
+  for (const m of text.matchAll(URL_PATTERN)) {
+    const at = m.index ?? 0;
+    if (at > last) parts.push(text.slice(last, at));
+    parts.push(
+      <a key={at} href={m[0]}>
+        {m[0]}
+      </a>,
+    );
+    last = at + m[0].length;
+  }
+  if (last < text.length) parts.push(text.slice(last));
+  return <>{parts}</>;
+}
 
 /** Mail the app would have sent, as caught by the local fake SMTP server. */
 export function OutboxScreen() {
@@ -10,8 +31,8 @@ export function OutboxScreen() {
   return (
     <Page title="Outbox">
       <p className="mb-4 max-w-2xl text-sm text-ink-soft">
-        Without mail-server settings, Lumenbook keeps its e-mail here instead of sending it. Invitation and reset links can be copied from these
-        messages.
+        Without mail-server settings, Lumenbook keeps its e-mail here instead of sending it. Invitation and reset links in these messages
+        open with a click.
       </p>
       {outbox.isPending ? (
         <Loading />
@@ -29,7 +50,9 @@ export function OutboxScreen() {
                   <p className="text-xs text-ink-faint">
                     To {m.to} · from {m.from} · <time dateTime={m.createdAt}>{new Date(m.createdAt).toLocaleString()}</time>
                   </p>
-                  <pre className="mt-2 font-mono text-sm break-all whitespace-pre-wrap">{m.text}</pre>
+                  <pre className="mt-2 font-mono text-sm break-all whitespace-pre-wrap">
+                    <Linked text={m.text} />
+                  </pre>
                 </article>
               </li>
             ))}

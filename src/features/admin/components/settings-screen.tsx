@@ -6,10 +6,10 @@ import { shopSettingsSchema, type ShopSettings } from '../../../../shared/schema
 import { Field, FormError } from '../../../components/ui/field';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
 import { applyServerErrors } from '../../../lib/form-errors';
-import { settingsQuery } from '../../../lib/queries/settings';
+import { labelAddressQuery, settingsQuery } from '../../../lib/queries/settings';
 import { useBackup, useUpdateSettings } from '../api/admin-queries';
 
-const FIELDS = ['shopName', 'altitudeM', 'dryingMinIntervalHours', 'dryingMaxChangePct', 'lotShelfLifeDays'] as const;
+const FIELDS = ['shopName', 'altitudeM', 'dryingMinIntervalHours', 'dryingMaxChangePct', 'lotShelfLifeDays', 'labelBaseUrl'] as const;
 
 export function SettingsScreen() {
   const settings = useQuery(settingsQuery());
@@ -18,6 +18,21 @@ export function SettingsScreen() {
       {settings.isPending ? <Loading /> : settings.isError ? <ErrorNote error={settings.error} /> : <SettingsForm initial={settings.data} />}
       <BackupPanel />
     </Page>
+  );
+}
+
+/** What the labels will really open, as the server works it out, with a warning when a phone cannot open it. */
+function LabelAddressNote() {
+  const address = useQuery(labelAddressQuery());
+  if (!address.data) return null;
+  const a = address.data;
+  return (
+    <div className={`mb-4 rounded border px-3 py-2 text-sm ${a.warning ? 'border-margin text-margin' : 'border-rule text-ink-soft'}`} role={a.warning ? 'alert' : undefined}>
+      <p>
+        Labels now open <code className="break-all">{a.url}/coupons/…</code> ({a.source === 'setting' ? 'set here' : 'from APP_URL'}).
+      </p>
+      {a.warning && <p className="mt-1">{a.warning}</p>}
+    </div>
   );
 }
 
@@ -70,6 +85,16 @@ function SettingsForm({ initial }: { initial: ShopSettings }) {
         error={errors.lotShelfLifeDays?.message}
         hint="Used when a resin has no shelf life of its own; about a year stored cool is common practice."
       />
+      <Field
+        label="Address printed labels open"
+        type="url"
+        inputMode="url"
+        placeholder="e.g. http://shop-pc:3000"
+        registration={form.register('labelBaseUrl', { setValueAs: (v: unknown) => (typeof v === 'string' && v.trim() !== '' ? v.trim() : null) })}
+        error={errors.labelBaseUrl?.message}
+        hint="The address the shop's phones use to reach Lumenbook. Leave empty to use the server's APP_URL."
+      />
+      <LabelAddressNote />
       <button type="submit" className="btn-primary" disabled={form.formState.isSubmitting}>
         Save settings
       </button>

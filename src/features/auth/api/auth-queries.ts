@@ -3,6 +3,7 @@ import { z } from 'zod';
 import { api, queryString } from '../../../lib/api-client';
 import { queryKeys } from '../../../lib/queries/keys';
 import { userListSchema } from '../../../../shared/schemas/admin';
+import { invitationPreviewSchema } from '../../../../shared/schemas/auth';
 import type { ListQuery } from '../../../../shared/schemas/common';
 
 // The signed-in user's query lives in src/lib/session.ts (every feature reads it).
@@ -14,3 +15,12 @@ export const usersQuery = (q: Partial<ListQuery> = {}) =>
   });
 
 export const acceptedSchema = z.object({ accepted: z.literal(true) });
+
+/** Whom an invitation link invites, so the page greets them and prefills the name the admin typed. */
+export const invitationQuery = (token: string) =>
+  queryOptions({
+    queryKey: queryKeys.users.invitation(token),
+    queryFn: async () => (await api.get(`/auth/invitations/${encodeURIComponent(token)}`, invitationPreviewSchema)).invitation,
+    retry: false,
+    staleTime: Infinity,
+  });

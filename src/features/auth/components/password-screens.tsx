@@ -1,4 +1,5 @@
 import { zodResolver } from '@hookform/resolvers/zod';
+import { useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { Link, useNavigate, useSearchParams } from 'react-router-dom';
@@ -7,6 +8,7 @@ import {
   passwordResetConfirmSchema,
   passwordResetRequestSchema,
   type InvitationAcceptInput,
+  type InvitationPreview,
   type PasswordResetConfirmInput,
   type PasswordResetRequestInput,
 } from '../../../../shared/schemas/auth';
@@ -14,6 +16,9 @@ import { Field, FormError } from '../../../components/ui/field';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { useAcceptInvitation, useConfirmPasswordReset, useRequestPasswordReset } from '../api/use-auth-mutations';
 import { AuthFrame } from './auth-frame';
+import { invitationQuery } from '../api/auth-queries';
+import { Loading } from '../../../components/ui/page';
+import { ROLE_LABELS } from '../../../../shared/constants/roles';
 import { paths } from '../../../config/paths';
 
 export function ForgotPasswordScreen() {
@@ -86,11 +91,25 @@ export function ResetPasswordScreen() {
 
 export function AcceptInvitationScreen() {
   const [params] = useSearchParams();
+  const token = params.get('token') ?? '';
+  const invitation = useQuery({ ...invitationQuery(token), enabled: token.length >= 20 });
+  if (token.length >= 20 && invitation.isPending) {
+    return (
+      <AuthFrame title="Join the shop's Lumenbook">
+        <Loading />
+      </AuthFrame>
+    );
+  }
+  return <AcceptInvitationForm token={token} invitation={invitation.data ?? null} invalid={invitation.isError || token.length < 20} />;
+}
+
+function AcceptInvitationForm({ token, invitation, invalid }: { token: string; invitation: InvitationPreview | null; invalid: boolean }) {
   const accept = useAcceptInvitation();
   const navigate = useNavigate();
   const form = useForm<InvitationAcceptInput>({
     resolver: zodResolver(invitationAcceptSchema),
-    defaultValues: { token: params.get('token') ?? '', password: '', name: '' },
+    // The name the admin typed, which the newcomer may correct.
+    defaultValues: { token, password: '', name: invitation?.name ?? '' },
   });
   const onSubmit = form.handleSubmit(async (values) => {
     try {
@@ -103,6 +122,15 @@ export function AcceptInvitationScreen() {
   const { errors } = form.formState;
   return (
     <AuthFrame title="Join the shop's Lumenbook">
+      {invitation ? (
+        <p className="mb-4 text-sm text-ink-soft">
+          This link invites {invitation.email} as {ROLE_LABELS[invitation.role].toLowerCase()}. Check your name and choose a password.
+        </p>
+      ) : invalid ? (
+        <p className="mb-4 text-sm text-margin" role="alert">
+          This invitation link is not valid any more (it works once and expires after a few days); ask the shop's admin for a new one.
+        </p>
+      ) : null}
       <form onSubmit={onSubmit} noValidate aria-label="Accept the invitation">
         <FormError message={errors.root?.message ?? errors.token?.message} />
         <Field label="Your name" autoComplete="name" registration={form.register('name')} error={errors.name?.message} />

@@ -225,7 +225,7 @@ export function DimensionForm({ coupon, stage, title }: { coupon: CouponDetail; 
           <Input form={form} name="lengthMm" label={`Length (${l})`} inputMode="decimal" />
           <Input form={form} name="widthMm" label={`Width (${l})`} inputMode="decimal" />
           <Input form={form} name="thicknessMm" label={`Thickness (${l})`} inputMode="decimal" />
-          <Input form={form} name="volumeCm3" label={`Or volume by immersion (${units.label('volume')})`} inputMode="decimal" hint="For pieces callipers cannot measure." />
+          <Input form={form} name="volumeCm3" label={`Or volume by immersion (${units.label('volume')})`} inputMode="decimal" hint="For pieces calipers cannot measure." />
           <Input form={form} name="method" label="Method (optional)" />
           <Input form={form} name="measuredAt" label="Measured at" type="datetime-local" />
         </div>

@@ -1,9 +1,11 @@
 import { useQuery } from '@tanstack/react-query';
 import type { z } from 'zod';
-import { HARDNESS_SCALES, HARDNESS_SCALE_LABELS } from '../../../../shared/constants/records';
+import { useState } from 'react';
+import { HARDNESS_SCALES } from '../../../../shared/constants/records';
+import { decimalsToSeeChange, type Quantity } from '../../../../shared/units';
 import type { auditEntrySchema, CheckOut, WeighingOut } from '../../../../shared/schemas/coupons';
 import { ErrorNote, Loading } from '../../../components/ui/page';
-import { useUnits } from '../../../lib/use-units';
+import { useUnits, type Units } from '../../../lib/use-units';
 import { couponHistoryQuery } from '../api/coupons-queries';
 
 type AuditEntry = z.infer<typeof auditEntrySchema>;
@@ -23,33 +25,44 @@ function record(v: unknown): Record<string, unknown> | null {
   return v && typeof v === 'object' ? (v as Record<string, unknown>) : null;
 }
 
-/** The measured values an audit row holds, in the user's units, for a before → after line. */
-function valuesOf(v: unknown, u: ReturnType<typeof useUnits>): string {
+/**
+ * The measured values an audit row holds, in the user's units, for a before → after line. Given the
+ * other side of a correction, each value shows enough decimals to see the correction's size
+ * (25.1 g → 25.12 g rather than 25.1 g → 25.1 g).
+ */
+function valuesOf(v: unknown, u: Units, other?: unknown): string {
   const r = record(v);
   if (!r) return '';
+  const o = record(other);
   const out: string[] = [];
-  const n = (k: string) => (typeof r[k] === 'number' ? (r[k] as number) : null);
-  if (n('massG') !== null) out.push(u.format(n('massG'), 'mass'));
+  const n = (rec: Record<string, unknown> | null, k: string) => (rec && typeof rec[k] === 'number' ? (rec[k] as number) : null);
+  const show = (k: string, q: Quantity) => {
+    const value = n(r, k) as number;
+    const theirs = n(o, k);
+    const decimals = theirs === null ? undefined : decimalsToSeeChange(u.toDisplay(value, q), u.toDisplay(theirs, q), u.decimals(q));
+    return u.format(value, q, true, { decimals });
+  };
+  if (n(r, 'massG') !== null) out.push(show('massG', 'mass'));
   for (const [k, label] of [
     ['lengthMm', 'L'],
     ['widthMm', 'W'],
     ['thicknessMm', 'T'],
   ] as const)
-    if (n(k) !== null) out.push(`${label} ${u.format(n(k), 'length')}`);
-  if (n('volumeCm3') !== null) out.push(u.format(n('volumeCm3'), 'volume'));
-  if (n('hardnessValue') !== null) {
+    if (n(r, k) !== null) out.push(`${label} ${show(k, 'length')}`);
+  if (n(r, 'volumeCm3') !== null) out.push(show('volumeCm3', 'volume'));
+  if (n(r, 'hardnessValue') !== null) {
     const scale = HARDNESS_SCALES.find((s) => s === r.hardnessScale);
-    out.push(`${n('hardnessValue')} ${scale ? HARDNESS_SCALE_LABELS[scale] : ''}`.trim());
+    out.push(scale ? u.hardness(n(r, 'hardnessValue'), scale) : String(n(r, 'hardnessValue')));
   }
-  if (n('moisturePct') !== null) out.push(`${n('moisturePct')} % MC`);
+  if (n(r, 'moisturePct') !== null) out.push(`${n(r, 'moisturePct')} % MC`);
   if (typeof r.runCode === 'string') out.push(`run ${r.runCode}`);
   return out.join(', ');
 }
 
 function Entry({ e }: { e: AuditEntry }) {
   const u = useUnits();
-  const before = valuesOf(e.before, u);
-  const after = valuesOf(e.after, u);
+  const before = valuesOf(e.before, u, e.after);
+  const after = valuesOf(e.after, u, e.before);
   const stage = record(e.after)?.stage ?? record(e.before)?.stage;
   const kind = e.entity === 'check' ? (record(e.after)?.kind ?? record(e.before)?.kind) : null;
   const what = e.entity === 'check' && typeof kind === 'string' ? `${kind} check` : e.entity;
@@ -98,6 +111,7 @@ function Superseded({ weighings, checks, audit }: { weighings: WeighingOut[]; ch
 
 export function CouponHistoryPanel({ couponId }: { couponId: number }) {
   const history = useQuery(couponHistoryQuery(couponId));
+  const [newestFirst, setNewestFirst] = useState(true);
   return (
     <section aria-labelledby="history-heading" className="sheet mt-6 p-5">
       <h2 id="history-heading" className="mb-2">
@@ -114,12 +128,17 @@ export function CouponHistoryPanel({ couponId }: { couponId: number }) {
             <Superseded weighings={history.data.weighings} checks={history.data.checks} audit={history.data.audit} />
           </div>
           <div>
-            <h3 className="font-semibold">Every change, oldest first</h3>
+            <div className="flex flex-wrap items-baseline justify-between gap-2">
+              <h3 className="font-semibold">Every change, {newestFirst ? 'newest' : 'oldest'} first</h3>
+              <button type="button" className="btn-quiet px-2 py-0.5 text-xs" onClick={() => setNewestFirst((v) => !v)}>
+                Show {newestFirst ? 'oldest' : 'newest'} first
+              </button>
+            </div>
             {history.data.audit.length === 0 ? (
               <p className="text-sm text-ink-soft">Nothing recorded yet.</p>
             ) : (
               <ol className="divide-y divide-paper-edge">
-                {history.data.audit.map((e) => (
+                {(newestFirst ? [...history.data.audit].reverse() : history.data.audit).map((e) => (
                   <Entry key={e.id} e={e} />
                 ))}
               </ol>

@@ -1,7 +1,7 @@
 import { useQuery } from '@tanstack/react-query';
 import { useEffect, useState } from 'react';
 import { Link, useLocation, useParams, useSearchParams } from 'react-router-dom';
-import { HARDNESS_SCALE_LABELS, WEIGHING_STAGES, type WeighingStage } from '../../../../shared/constants/records';
+import { WEIGHING_STAGES, type WeighingStage } from '../../../../shared/constants/records';
 import type { CheckOut, CouponDetail, WeighingOut } from '../../../../shared/schemas/coupons';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
 import { useRole } from '../../../lib/session';
@@ -25,11 +25,11 @@ function Metrics({ coupon }: { coupon: CouponDetail }) {
     ['Dry volume', u.format(m.dryVolumeCm3, 'volume')],
     ['Cured volume', u.format(m.curedVolumeCm3, 'volume')],
     ['Moisture content', m.mcPct === null ? '—' : `${m.mcPct.toFixed(1)} % (${m.mcSource === 'moisture-check' ? 'meter or oven reading' : 'first drying check against the dry mass'})`],
-    ['Dry density', m.dryDensityKgM3 === null ? '—' : `${m.dryDensityKgM3.toFixed(0)} kg/m³`],
+    ['Dry density', u.format(m.dryDensityKgM3, 'density')],
     ['Dry SG', m.drySg === null ? '—' : m.drySg.toFixed(3)],
     ['Wet uptake after the soak', pct(m.wetUptakePct)],
     ['WPG (cured)', pct(m.wpgPct)],
-    ['Resin loading', m.resinLoadingKgM3 === null ? '—' : `${m.resinLoadingKgM3.toFixed(0)} kg/m³`],
+    ['Resin loading', u.format(m.resinLoadingKgM3, 'density')],
     ['Void fill', pct(m.voidFillPct, 0)],
     ['Most the resin could add', pct(m.maxWpgPct, 0)],
     ['Cure loss', pct(m.cureLossPct)],
@@ -57,7 +57,7 @@ function Metrics({ coupon }: { coupon: CouponDetail }) {
         <dd>
           {m.hardness.length === 0
             ? '—'
-            : m.hardness.map((h) => `${h.value} ${HARDNESS_SCALE_LABELS[h.scale]} (${CHECK_STAGE_LABELS[h.stage].toLowerCase()})`).join('; ')}
+            : m.hardness.map((h) => `${u.hardness(h.value, h.scale)} (${CHECK_STAGE_LABELS[h.stage].toLowerCase()})`).join('; ')}
         </dd>
       </dl>
       {coupon.warnings.length > 0 && (
@@ -79,7 +79,7 @@ function checkValues(c: CheckOut, u: ReturnType<typeof useUnits>): string {
     const vol = c.volumeCm3 !== null ? `${u.format(c.volumeCm3, 'volume')} by immersion` : null;
     return [size, vol].filter(Boolean).join('; ');
   }
-  if (c.kind === 'hardness') return `${c.hardnessValue} ${c.hardnessScale ? HARDNESS_SCALE_LABELS[c.hardnessScale] : ''}`;
+  if (c.kind === 'hardness') return c.hardnessScale ? u.hardness(c.hardnessValue, c.hardnessScale) : String(c.hardnessValue);
   return `${c.moisturePct} % MC`;
 }
 
@@ -133,6 +133,7 @@ export function CouponScreen() {
   const [search] = useSearchParams();
   const location = useLocation();
   const { can } = useRole();
+  const units = useUnits();
   const weigh = WEIGHING_STAGES.find((s) => s === search.get('weigh'));
 
   const loadedId = coupon.data?.id;
@@ -172,7 +173,7 @@ export function CouponScreen() {
         <dt className="text-ink-soft">Run</dt>
         <dd>{c.runId ? <Link to={paths.run.href({ id: c.runId })}>{c.runCode ?? c.runId}</Link> : 'none'}</dd>
         <dt className="text-ink-soft">Resin</dt>
-        <dd>{c.resin ? `${c.resin.name} (cured ${c.resin.curedDensityGcm3} g/cm³)` : 'none yet'}</dd>
+        <dd>{c.resin ? `${c.resin.name} (cured ${units.format(c.resin.curedDensityGcm3 * 1000, 'density')})` : 'none yet'}</dd>
         <dt className="text-ink-soft">Source board</dt>
         <dd>{c.sourceBoard ?? '—'}</dd>
         {c.notes && (

@@ -40,8 +40,7 @@ export function ActivateLotForm({ onDone, onCancel }: { onDone: (code: string) =
     ({ resinId, volume, ...rest }) => ({
       ...rest,
       resinId: resinId === '' ? undefined : Number(resinId),
-      // cm³ and mL are the same volume.
-      volumeMl: volume === undefined ? undefined : units.fromDisplay(volume, 'volume'),
+      volumeMl: volume === undefined ? undefined : units.fromDisplay(volume, 'liquidVolume'),
     }),
     RENAMED,
   );
@@ -89,13 +88,12 @@ export function ActivateLotForm({ onDone, onCancel }: { onDone: (code: string) =
             hint={keepsUntil ? `At ${resin?.shelfLifeDays} days' shelf life it keeps until about ${keepsUntil}, stored cool.` : undefined}
           />
           <Field
-            label={`Volume (${units.label('volume')})`}
+            label={`Volume (${units.label('liquidVolume')})`}
             type="number"
             step="any"
             inputMode="decimal"
             registration={form.register('volume', numberOrMissing)}
             error={errors.volume?.message}
-            hint={units.system === 'metric' ? '1 cm³ is 1 mL' : undefined}
           />
           <Field label="Catalyst" registration={form.register('catalystNotes', textOrNull)} error={errors.catalystNotes?.message} hint="What was added, and how much" />
           <Field label="Dye" registration={form.register('dyeNotes', textOrNull)} error={errors.dyeNotes?.message} hint="Leave empty for a clear lot" />

@@ -114,7 +114,7 @@ export function LotsPanel() {
                       <td className="tabular-nums">
                         {l.expiresOn} <LotExpiryMark lot={l} />
                       </td>
-                      <td className="tabular-nums whitespace-nowrap">{units.format(l.volumeMl, 'volume')}</td>
+                      <td className="tabular-nums whitespace-nowrap">{units.format(l.volumeMl, 'liquidVolume')}</td>
                       <td className="tabular-nums">{l.reuseCount}</td>
                       <td>{LOT_STATUS_LABELS[l.status]}</td>
                       <td className="max-w-xs text-xs">

@@ -54,8 +54,8 @@ export function ResinsPanel() {
               <tr>
                 <th scope="col">Name</th>
                 <th scope="col">Kind</th>
-                <th scope="col">Liquid density (g/cm³)</th>
-                <th scope="col">Cured density (g/cm³)</th>
+                <th scope="col">Liquid density ({units.label('density')})</th>
+                <th scope="col">Cured density ({units.label('density')})</th>
                 <th scope="col">Cure window</th>
                 <th scope="col">Shelf life once activated</th>
                 <th scope="col">Usable lots</th>
@@ -73,8 +73,8 @@ export function ResinsPanel() {
                     {r.name}
                   </th>
                   <td>{r.kind}</td>
-                  <td className="tabular-nums">{r.liquidDensityGcm3}</td>
-                  <td className="tabular-nums">{r.curedDensityGcm3}</td>
+                  <td className="tabular-nums">{units.format(r.liquidDensityGcm3 * 1000, 'density', false)}</td>
+                  <td className="tabular-nums">{units.format(r.curedDensityGcm3 * 1000, 'density', false)}</td>
                   <td className="tabular-nums whitespace-nowrap">
                     {units.format(r.cureMinC, 'temperature', false)}–{units.format(r.cureMaxC, 'temperature')}
                   </td>

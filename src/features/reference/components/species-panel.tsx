@@ -6,6 +6,7 @@ import { ErrorNote, Loading } from '../../../components/ui/page';
 import { useRole } from '../../../lib/session';
 import { speciesListQuery } from '../../../lib/queries/reference';
 import { dash } from '../../../lib/form-values';
+import { useUnits } from '../../../lib/use-units';
 import { SpeciesForm } from './species-form';
 import { ORIGIN_LABELS } from './labels';
 
@@ -14,6 +15,7 @@ const sg = (v: number | null) => (v === null ? '—' : v.toLocaleString('en', { 
 
 export function SpeciesPanel() {
   const { can } = useRole();
+  const units = useUnits();
   const [q, setQ] = useState('');
   const [origin, setOrigin] = useState<SpeciesOrigin | ''>('');
   const deferredQ = useDeferredValue(q.trim());
@@ -89,7 +91,7 @@ export function SpeciesPanel() {
                   <th scope="col">Botanical name</th>
                   <th scope="col">Basic SG</th>
                   <th scope="col">SG at 12 % MC</th>
-                  <th scope="col">Side hardness (N)</th>
+                  <th scope="col">Side hardness ({units.label('force')})</th>
                   <th scope="col">Shop-measured density</th>
                   <th scope="col">Origin</th>
                   <th scope="col">Source</th>
@@ -111,9 +113,9 @@ export function SpeciesPanel() {
                     </td>
                     <td className="tabular-nums">{sg(s.basicSg)}</td>
                     <td className="tabular-nums">{sg(s.sg12)}</td>
-                    <td className="tabular-nums">{dash(s.sideHardnessN)}</td>
+                    <td className="tabular-nums">{units.format(s.sideHardnessN, 'force', false)}</td>
                     <td className="tabular-nums">
-                      {s.measuredDensityKgM3 === null ? '—' : `${s.measuredDensityKgM3} kg/m³ at ${dash(s.measuredMoisturePct)} % MC`}
+                      {s.measuredDensityKgM3 === null ? '—' : `${units.format(s.measuredDensityKgM3, 'density')} at ${dash(s.measuredMoisturePct)} % MC`}
                     </td>
                     <td>{ORIGIN_LABELS[s.origin]}</td>
                     <td className="max-w-xs text-xs text-ink-soft">{s.source}</td>

@@ -4,6 +4,8 @@ import { Link, useLocation, useParams, useSearchParams } from 'react-router-dom'
 import { RUN_STAGES, type RunStage } from '../../../../shared/constants/records';
 import type { RunDetail, RunStageOut } from '../../../../shared/schemas/runs';
 import { STAGE_LABELS, stageMinutes } from '../../../../shared/runs/stages';
+import { formatTemperatureRange } from '../../../../shared/runs/format';
+import { DEFAULT_CURE_WINDOW_C } from '../../../../shared/runs/thresholds';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
 import { useRole } from '../../../lib/session';
 import { useUnits } from '../../../lib/use-units';
@@ -80,7 +82,7 @@ function StageFacts({ s, run, now }: { s: RunStageOut; run: RunDetail; now: Date
           <dt className="sr-only">Gauge readings</dt>
           <dd className="col-span-2 mt-2">
             <table className="data-table">
-              <caption className="text-left text-sm font-medium text-ink-soft">Gauge readings at {Math.round(run.altitudeM)} m</caption>
+              <caption className="text-left text-sm font-medium text-ink-soft">Gauge readings at {units.format(run.altitudeM, 'altitude')}</caption>
               <thead>
                 <tr>
                   <th scope="col">Time</th>
@@ -164,6 +166,7 @@ export function RunScreen() {
   const params = useParams();
   const id = Number(params.id);
   const run = useQuery({ ...runQuery(id), enabled: Number.isInteger(id) && id > 0, refetchInterval: 60_000 });
+  const units = useUnits();
   const [search] = useSearchParams();
   const location = useLocation();
   const now = useNow();
@@ -202,10 +205,14 @@ export function RunScreen() {
         </dd>
         <dt className="text-ink-soft">Altitude</dt>
         <dd>
-          {Math.round(r.altitudeM)} m; air pressure there {r.ambientKpa.toFixed(2)} kPa (standard atmosphere)
+          {units.format(r.altitudeM, 'altitude')}; air pressure there {units.format(r.ambientKpa, 'pressure')} (standard atmosphere)
         </dd>
         <dt className="text-ink-soft">Cure window</dt>
-        <dd>{r.lot ? `${r.lot.resin.cureMinC}–${r.lot.resin.cureMaxC} °C` : '93–121 °C (usual; no resin recorded)'}</dd>
+        <dd>
+          {r.lot
+            ? formatTemperatureRange(r.lot.resin.cureMinC, r.lot.resin.cureMaxC, units.prefs)
+            : `${formatTemperatureRange(DEFAULT_CURE_WINDOW_C.min, DEFAULT_CURE_WINDOW_C.max, units.prefs)} (usual; no resin recorded)`}
+        </dd>
         {r.notes && (
           <>
             <dt className="text-ink-soft">Notes</dt>

@@ -128,7 +128,7 @@ function placeIssues(issues: readonly { path: PropertyKey[]; message: string }[]
 export function StageForm({ run, stage, mode, existing, onSaved }: { run: RunDetail; stage: RunStage; mode: 'start' | 'open'; existing?: RunStageOut; onSaved: (message: string) => void }) {
   const units = useUnits();
   const record = useRecordStage(run.id);
-  const defaultUnit: GaugeUnit = units.system === 'us' ? 'inHg' : 'kPa';
+  const defaultUnit: GaugeUnit = units.unit('pressure') === 'inHg' ? 'inHg' : 'kPa';
   const temp = (c: number | null | undefined) => (c == null ? '' : units.toDisplay(c, 'temperature').toFixed(1));
   const now = toLocalInput(new Date());
   const form = useForm<StageFormValues>({

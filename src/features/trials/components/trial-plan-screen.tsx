@@ -131,7 +131,7 @@ function PlanForm({ species, resins, initial, save, cancelTo }: PlanFormProps) {
       {
         speciesName: (id) => speciesById.get(String(id))?.commonName ?? `species ${id}`,
         resin: (id) => resinById.get(String(id)),
-        units: units.system,
+        units: units.prefs,
       },
     );
   })();
