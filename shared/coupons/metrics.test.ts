@@ -94,7 +94,7 @@ describe('anti-swell efficiency against controls', () => {
       { swellingPct: 6, swellingBasis: 'volume' },
       { swellingPct: 30, swellingBasis: 'mass' },
     ]);
-    expect(r).toEqual({ asePct: 80, basis: 'volume', controlSwellingPct: 5, controlCount: 2 });
+    expect(r).toEqual({ asePct: 80, basis: 'volume', measure: 'ase', name: 'Anti-swell efficiency (ASE)', controlSwellingPct: 5, controlCount: 2 });
     expect(antiSwell({ swellingPct: 1, swellingBasis: 'volume' }, [{ swellingPct: 20, swellingBasis: 'mass' }])).toBeNull();
   });
 
@@ -107,5 +107,24 @@ describe('anti-swell efficiency against controls', () => {
       { trialId: 2, speciesId: 1, role: 'control', metrics: m(10) },
     ]);
     expect(out.map((a) => a?.asePct ?? null)).toEqual([80, null, null, null]);
+  });
+});
+
+describe('a cured mass below the dry mass blanks WPG like the other metrics', () => {
+  it('gives no WPG (instead of −3.3 %) and names the contradiction', () => {
+    const m = couponMetrics({ role: 'treated', weighings: [w('dry', 30, 1), w('cured', 29, 2)], checks: [], resin: null });
+    expect(m.wpgPct).toBeNull();
+    expect(m.problems).toContainEqual({ metric: 'wpgPct', message: expect.stringMatching(/below the dry mass/) });
+  });
+});
+
+describe('the mass-basis efficiency is named for what it is', () => {
+  it('calls (U_control − U_treated)/U_control on water uptake by mass a water-repellent effectiveness, not an ASE (Rowell & Ellis 1978, from memory)', () => {
+    // By hand: controls took up 20 % and 30 % water by mass (mean 25 %), the treated coupon 5 %: (25 − 5)/25 = 80 %.
+    const r = antiSwell({ swellingPct: 5, swellingBasis: 'mass' }, [
+      { swellingPct: 20, swellingBasis: 'mass' },
+      { swellingPct: 30, swellingBasis: 'mass' },
+    ]);
+    expect(r).toMatchObject({ asePct: 80, basis: 'mass', measure: 'wre', name: 'Water-repellent effectiveness (WRE)' });
   });
 });

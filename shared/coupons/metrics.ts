@@ -6,6 +6,7 @@ import {
   maxWeightPercentGain,
   moistureContent,
   resinLoading,
+  resinWeightPercentGain,
   voidFill,
   volumetricChange,
   weightPercentGain,
@@ -158,8 +159,9 @@ export function couponMetrics(input: CouponMetricsInput): CouponMetrics {
 
   const drySg = dry !== null && dryVol !== null && dryVol > 0 && dry > 0 ? dry / dryVol : null;
   const dryDensityKgM3 = drySg === null ? null : drySg * 1000;
-  const wpgPct = dry !== null && cured !== null ? attempt('wpgPct', () => weightPercentGain(dry, cured)) : null;
-  const wetUptakePct = dry !== null && soaked !== null ? attempt('wetUptakePct', () => weightPercentGain(dry, soaked)) : null;
+  // Resin only adds mass: a cured or soaked mass below the dry mass blanks the metric with its reason.
+  const wpgPct = dry !== null && cured !== null ? attempt('wpgPct', () => resinWeightPercentGain(dry, cured)) : null;
+  const wetUptakePct = dry !== null && soaked !== null ? attempt('wetUptakePct', () => resinWeightPercentGain(dry, soaked)) : null;
   const resinLoadingKgM3 = dry !== null && cured !== null && dryVol !== null ? attempt('resinLoadingKgM3', () => resinLoading(dry, cured, dryVol)) : null;
   const vf =
     dry !== null && cured !== null && dryVol !== null && resinDensity !== null
@@ -221,17 +223,32 @@ export function couponMetrics(input: CouponMetricsInput): CouponMetrics {
   };
 }
 
+/**
+ * What the efficiency against the controls is called on each basis. On dimensions it is the anti-swell
+ * efficiency (ASE); on mass it measures how much less water the piece took up, the water-repellent
+ * effectiveness (WRE) — not an anti-swell efficiency, since mass says nothing about swelling.
+ * Rowell & Ellis (1978) Wood and Fiber 10(2):104–111 use both terms this way (from memory).
+ */
+export const ANTI_SWELL_MEASURES = {
+  volume: { code: 'ase', name: 'Anti-swell efficiency (ASE)' },
+  mass: { code: 'wre', name: 'Water-repellent effectiveness (WRE)' },
+} as const satisfies Record<SwellingBasis, { code: string; name: string }>;
+
 export interface AntiSwell {
+  /** (S_control − S_treated)/S_control × 100: the ASE on the volume basis, the WRE on the mass basis (see measure). */
   asePct: number;
   basis: SwellingBasis;
+  /** Which of the two the number is, and its name to show beside it. */
+  measure: (typeof ANTI_SWELL_MEASURES)[SwellingBasis]['code'];
+  name: string;
   controlSwellingPct: number;
   controlCount: number;
 }
 
 /**
- * ASE of a treated coupon against the mean swelling of its controls (same species, same trial), on the
- * same basis. On the mass basis the same formula gives the reduction in water taken up, which is what
- * a shop's quick soak-and-reweigh shows. Null when there is no comparable control or it did not swell.
+ * ASE (volume basis) or WRE (mass basis) of a treated coupon against the mean swelling or water uptake of
+ * its controls (same species, same trial), on the same basis; the mass basis is what a shop's quick
+ * soak-and-reweigh shows. Null when there is no comparable control or it did not swell.
  */
 export function antiSwell(
   treated: Pick<CouponMetrics, 'swellingPct' | 'swellingBasis'>,
@@ -241,8 +258,16 @@ export function antiSwell(
   const same = controls.filter((c) => c.swellingBasis === treated.swellingBasis && c.swellingPct !== null).map((c) => c.swellingPct as number);
   if (same.length === 0) return null;
   const mean = same.reduce((a, b) => a + b, 0) / same.length;
+  const measure = ANTI_SWELL_MEASURES[treated.swellingBasis];
   try {
-    return { asePct: antiSwellEfficiency(mean, treated.swellingPct), basis: treated.swellingBasis, controlSwellingPct: mean, controlCount: same.length };
+    return {
+      asePct: antiSwellEfficiency(mean, treated.swellingPct),
+      basis: treated.swellingBasis,
+      measure: measure.code,
+      name: measure.name,
+      controlSwellingPct: mean,
+      controlCount: same.length,
+    };
   } catch (e) {
     if (e instanceof DomainError) return null;
     throw e;

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { DEFAULT_SG_COV, referenceOvenDrySg, sgPlausibility } from './plausibility';
+import { speciesRowProblems } from '../schemas/reference';
+import { DEFAULT_SG_COV, referenceOvenDrySg, sgPlausibility, sgWarningText } from './plausibility';
 
 const none = { basicSg: null, sg12: null, measuredDensityKgM3: null, measuredMoisturePct: null, sgCoefficientOfVariation: null };
 
@@ -26,5 +27,24 @@ describe('the species reference for a dry coupon', () => {
     expect(sgPlausibility(ref + 3.1 * sd, { ...none, basicSg: 0.49 })?.plausible).toBe(false);
     expect(sgPlausibility(ref - 3.1 * sd, { ...none, basicSg: 0.49 })?.z).toBeCloseTo(-3.1, 10);
     expect(sgPlausibility(ref + 3.1 * sd, { ...none, basicSg: 0.49, sgCoefficientOfVariation: 0.2 })?.plausible).toBe(true);
+  });
+});
+
+describe('a species row that describes no possible wood is not skipped in silence', () => {
+  it('a shop-measured density at the schema maximum (1600 kg/m³ at 0 % MC) answers "could not be checked", not null', () => {
+    // 1600 kg/m³ dry is SG 1.6, denser than cell-wall substance (about 1.5): no reference exists.
+    const p = sgPlausibility(0.6, { ...none, measuredDensityKgM3: 1600, measuredMoisturePct: 0 });
+    expect(p).toMatchObject({ plausible: false, referenceSg: null, z: null });
+    expect(sgWarningText(0.6, p!)).toMatch(/could not be checked: the species' reference density describes no possible wood/);
+    // A row without density data still has nothing to say.
+    expect(sgPlausibility(0.6, none)).toBeNull();
+  });
+
+  it('the species form refuses such a row, naming the field', () => {
+    const base = { origin: 'shop-measured' as const };
+    expect(speciesRowProblems({ ...base, measuredDensityKgM3: 1600, measuredMoisturePct: 0 }).measuredDensityKgM3?.[0]).toMatch(/no possible wood/);
+    expect(speciesRowProblems({ ...base, measuredDensityKgM3: 1600, measuredMoisturePct: 12 }).measuredDensityKgM3?.[0]).toMatch(/no possible wood/);
+    expect(speciesRowProblems({ ...base, measuredDensityKgM3: 700, measuredMoisturePct: 12 })).toEqual({});
+    expect(speciesRowProblems({ origin: 'handbook', basicSg: 1.2 }).basicSg?.[0]).toMatch(/no possible wood/);
   });
 });

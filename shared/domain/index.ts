@@ -4,6 +4,7 @@ export {
   basicSpecificGravity,
   densityAtMoisture,
   equilibriumMoistureContent,
+  maxMoistureContent,
   moistureContent,
   specificGravityAtMoisture,
 } from './moisture';
@@ -15,6 +16,7 @@ export {
   maxWeightPercentGain,
   porosity,
   resinLoading,
+  resinWeightPercentGain,
   voidFill,
   volumetricChange,
   weightPercentGain,

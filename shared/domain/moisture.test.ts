@@ -5,6 +5,7 @@ import {
   basicSpecificGravity,
   densityAtMoisture,
   equilibriumMoistureContent,
+  maxMoistureContent,
   moistureContent,
   specificGravityAtMoisture,
 } from './index';
@@ -73,5 +74,26 @@ describe('equilibriumMoistureContent (Wood Handbook ch. 4 eq. 4-5, Table 4-2)', 
   it('accepts the rounded °C edges of the table, −1.1 °C and 132.2 °C (Table 4-2 range 30–270 °F)', () => {
     expect(equilibriumMoistureContent(-1.1, 50)).toBeGreaterThan(0);
     expect(equilibriumMoistureContent(132.2, 50)).toBeGreaterThan(0);
+  });
+});
+
+describe('impossible wood is refused, not computed', () => {
+  // M_max = 100·(1.54 − G_b)/(1.54·G_b), Wood Handbook ch. 4 maximum moisture content (equation from memory);
+  // by hand for G_b 0.5: 100·1.04/0.77 = 135.06 %.
+  it('maxMoistureContent(0.5) = 135.06 % (by hand from the handbook equation)', () => {
+    expect(maxMoistureContent(0.5)).toBeCloseTo(135.065, 3);
+  });
+
+  it('densityAtMoisture and specificGravityAtMoisture refuse a moisture content above the wood\'s maximum (G_b 0.5 at 136 %)', () => {
+    expect(densityAtMoisture(0.5, 135)).toBeCloseTo(1000 * 0.5 * 2.35, 6);
+    expect(() => densityAtMoisture(0.5, 136)).toThrow(expect.objectContaining({ code: 'moisture-out-of-range', field: 'moisturePct' }));
+    expect(() => specificGravityAtMoisture(0.5, 136)).toThrow(expect.objectContaining({ code: 'moisture-out-of-range' }));
+  });
+
+  it('refuses a basic SG whose oven-dry SG would pass the cell-wall density (G_b 1.2 → G_0 = 1.2/(1 − 0.318) = 1.76)', () => {
+    expect(() => specificGravityAtMoisture(1.2, 12)).toThrow(expect.objectContaining({ code: 'sg-out-of-range', field: 'basicSg' }));
+    expect(() => basicSpecificGravity(1.45, 12)).toThrow(expect.objectContaining({ code: 'sg-out-of-range', field: 'sgAtMoisture' }));
+    // The densest woods of the handbook's tables (about 1.05 basic) still pass: 1.05/(1 − 0.278) = 1.45.
+    expect(specificGravityAtMoisture(1.05, 0)).toBeCloseTo(1.4547, 3);
   });
 });

@@ -40,6 +40,50 @@ export function moistureContent(massG: number, ovenDryMassG: number): number {
   return ((massG - ovenDryMassG) / ovenDryMassG) * 100;
 }
 
+/**
+ * Specific gravity of the cell-wall substance in the handbook's maximum-moisture equation (1.54; the
+ * resin functions use the customary round 1.5, see DEFAULT_CELL_WALL_DENSITY). Wood Handbook ch. 4
+ * (from memory).
+ */
+const HANDBOOK_CELL_WALL_SG = 1.54;
+
+/**
+ * Maximum moisture content, %: all cell walls saturated and every void full of water,
+ * M_max = 100·(1.54 − G_b)/(1.54·G_b), G_b basic SG. Wood Handbook FPL-GTR-190 ch. 4, "maximum moisture
+ * content" (equation from memory). A moisture content above it is impossible for that wood.
+ */
+export function maxMoistureContent(basicSg: number): number {
+  requireSg(basicSg, 'basicSg');
+  return (100 * (HANDBOOK_CELL_WALL_SG - basicSg)) / (HANDBOOK_CELL_WALL_SG * basicSg);
+}
+
+function requireAtMostMax(moisturePct: number, basicSg: number): void {
+  const max = maxMoistureContent(basicSg);
+  if (moisturePct > max) {
+    throw new DomainError(
+      'moisture-out-of-range',
+      'moisturePct',
+      `moisturePct ${moisturePct} % is above the most water wood of basic SG ${basicSg} can hold (${max.toFixed(1)} %, every void full)`,
+    );
+  }
+}
+
+/** Oven-dry SG (oven-dry mass / oven-dry volume) from basic SG: the G_M equation at M = 0. */
+function ovenDryFromBasic(basicSg: number): number {
+  return basicSg / (1 - 0.265 * basicSg);
+}
+
+/** Refuses a basic SG whose oven-dry SG would reach the cell-wall substance's (no voids left). */
+function requireBelowCellWall(basicSg: number, field: string): void {
+  if (ovenDryFromBasic(basicSg) >= MAX_WOOD_SG) {
+    throw new DomainError(
+      'sg-out-of-range',
+      field,
+      `${field} ${basicSg} would make the oven-dry wood as dense as its own cell-wall substance (${MAX_WOOD_SG}); no wood is`,
+    );
+  }
+}
+
 /** a = (FSP − M)/FSP, clamped to 0 at and above the fiber saturation point. */
 function belowFspFraction(moisturePct: number): number {
   return moisturePct >= FIBER_SATURATION_PCT ? 0 : (FIBER_SATURATION_PCT - moisturePct) / FIBER_SATURATION_PCT;
@@ -51,11 +95,14 @@ function belowFspFraction(moisturePct: number): number {
  * Valid 0–30 % MC; at or above 30 % the volume is the green volume, so G_M = G_b.
  * Wood Handbook FPL-GTR-190 ch. 4, "Density and specific gravity" (equation number not checked,
  * probably 4-8 — from memory). The 0.265 stands for an average volumetric shrinkage, so single species
- * differ from their tabulated 12 % SG by up to about 0.03.
+ * differ from their tabulated 12 % SG by up to about 0.03. Refuses a basic SG whose oven-dry SG would
+ * reach the cell-wall density, and a moisture content above the wood's maximum (maxMoistureContent).
  */
 export function specificGravityAtMoisture(basicSg: number, moisturePct: number): number {
   requireSg(basicSg, 'basicSg');
   requireMoisture(moisturePct, 'moisturePct');
+  requireBelowCellWall(basicSg, 'basicSg');
+  requireAtMostMax(moisturePct, basicSg);
   return basicSg / (1 - 0.265 * belowFspFraction(moisturePct) * basicSg);
 }
 
@@ -66,7 +113,10 @@ export function specificGravityAtMoisture(basicSg: number, moisturePct: number):
 export function basicSpecificGravity(sgAtMoisture: number, moisturePct: number): number {
   requireSg(sgAtMoisture, 'sgAtMoisture');
   requireMoisture(moisturePct, 'moisturePct');
-  return sgAtMoisture / (1 + 0.265 * belowFspFraction(moisturePct) * sgAtMoisture);
+  const basic = sgAtMoisture / (1 + 0.265 * belowFspFraction(moisturePct) * sgAtMoisture);
+  requireBelowCellWall(basic, 'sgAtMoisture');
+  requireAtMostMax(moisturePct, basic);
+  return basic;
 }
 
 /** Density of water used by the handbook for SG → density, kg/m³ (62.4 lb/ft³). */

@@ -3,6 +3,7 @@ import { describe, expect, it } from 'vitest';
 import {
   absolutePressureFromGauge,
   basicSpecificGravity,
+  maxMoistureContent,
   maxWeightPercentGain,
   moistureContent,
   percentVacuum,
@@ -60,6 +61,8 @@ describe('domain invariants (fast-check)', () => {
     fc.assert(
       // Basic SG up to 1.0: beyond about 1.07 the equation's oven-dry SG reaches the cell-wall density.
       fc.property(fc.double({ min: 0.1, max: 1.0, noNaN: true }), moisture, (gb, m) => {
+        // Above the maximum moisture content (every void full of water) the input is refused.
+        fc.pre(m <= maxMoistureContent(gb));
         const gm = specificGravityAtMoisture(gb, m);
         expect(gm).toBeGreaterThanOrEqual(gb);
         expect(basicSpecificGravity(gm, m)).toBeCloseTo(gb, 12);

@@ -65,6 +65,20 @@ export function weightPercentGain(dryMassG: number, laterMassG: number): number 
   return ((laterMassG - dryMassG) / dryMassG) * 100;
 }
 
+/**
+ * Weight percent gain from resin, %: WPG = (m_later − m_dry)/m_dry × 100 for a soaked or cured piece.
+ * Unlike weightPercentGain (which a water soak may make negative), resin only adds mass, so a later
+ * mass below the dry mass is a weighing error and is refused rather than shown as a negative gain.
+ * Same sources as weightPercentGain.
+ */
+export function resinWeightPercentGain(dryMassG: number, laterMassG: number): number {
+  const wpg = weightPercentGain(dryMassG, laterMassG);
+  if (laterMassG < dryMassG) {
+    throw new DomainError('mass-below-dry', 'laterMassG', 'laterMassG cannot be below dryMassG: resin only adds mass');
+  }
+  return wpg;
+}
+
 function requireCuredNotBelowDry(dryMassG: number, curedMassG: number): void {
   // Cured resin only adds mass, so a cured blank lighter than the dry blank is a weighing error.
   if (curedMassG < dryMassG) {

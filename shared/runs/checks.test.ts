@@ -178,3 +178,12 @@ describe('drying to constant mass says what it compared', () => {
     expect(status(base({ coupons }), 'drying-constant-mass')?.status).toBe('warn');
   });
 });
+
+describe('contradictions are not reported as OK', () => {
+  it('fails a lot activated 10 days after the vacuum started instead of calling it "−10 days old … within shelf life"', () => {
+    const c = status(base({ lot: { code: 'LATE', activatedAt: '2026-03-11', status: 'active' } }), 'lot-shelf-life');
+    expect(c?.status).toBe('fail');
+    expect(c?.reason).toMatch(/activated on 2026-03-11, after the vacuum started \(2026-03-01\)/);
+    expect(c?.reason).not.toMatch(/-\d+ days old/);
+  });
+});

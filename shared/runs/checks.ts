@@ -177,6 +177,15 @@ function lotShelfLife(input: RunCheckInput): RuleCheck {
   const at = usedAt ? Date.parse(usedAt) : input.now.getTime();
   const ageDays = Math.floor((at - Date.parse(input.lot.activatedAt)) / DAY);
   const when = usedAt ? 'when the vacuum started' : 'today';
+  if (ageDays < 0) {
+    // Resin cannot go on the wood before it is activated: one of the two dates is wrong.
+    const day = (ms: number) => new Date(ms).toISOString().slice(0, 10);
+    return {
+      rule,
+      status: 'fail',
+      reason: `Lot ${input.lot.code} is recorded as activated on ${day(Date.parse(input.lot.activatedAt))}, after ${usedAt ? `the vacuum started (${day(at)})` : `today (${day(at)})`}; a run cannot use resin before it is activated, so the lot's activation date or the run's times are wrong.`,
+    };
+  }
   if (ageDays > shelf) {
     return { rule, status: 'fail', reason: `Lot ${input.lot.code} was ${ageDays} days old ${when}, past its ${shelf}-day shelf life.` };
   }

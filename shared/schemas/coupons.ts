@@ -223,8 +223,11 @@ export const couponMetricsSchema = z.object({
 });
 
 export const antiSwellSchema = z.object({
+  /** The ASE on the volume basis, the water-repellent effectiveness (WRE) on the mass basis; see measure. */
   asePct: z.number(),
   basis: z.enum(SWELLING_BASES),
+  measure: z.enum(['ase', 'wre']),
+  name: z.string(),
   controlSwellingPct: z.number(),
   controlCount: z.number().int(),
 });

@@ -1,5 +1,7 @@
 import { z } from 'zod';
 import { LOT_STATUSES, SPECIES_ORIGINS } from '../constants/records';
+import { DomainError } from '../domain/errors';
+import { basicSpecificGravity, specificGravityAtMoisture } from '../domain/moisture';
 import { CURE_TEMPERATURE_RANGE_C } from '../domain/rules-of-thumb';
 import { listQuerySchema, listResponseSchema } from './common';
 
@@ -93,6 +95,22 @@ export function speciesRowProblems(row: SpeciesShape): Record<string, string[]> 
   }
   if (row.measuredDensityKgM3 != null && row.measuredMoisturePct == null) {
     out.measuredMoisturePct = ['Give the moisture content at which the density was measured'];
+  }
+  // Density data that describe no possible wood (denser than cell-wall substance once dry, or wetter than
+  // every void full of water) would leave the coupons' plausibility check without a reference.
+  const impossible = (field: keyof SpeciesShape, f: () => unknown) => {
+    try {
+      f();
+    } catch (e) {
+      if (!(e instanceof DomainError)) throw e;
+      out[field] ??= [`This describes no possible wood: ${e.message}`];
+    }
+  };
+  if (row.basicSg != null) impossible('basicSg', () => specificGravityAtMoisture(row.basicSg as number, 0));
+  if (row.sg12 != null) impossible('sg12', () => basicSpecificGravity(row.sg12 as number, 12));
+  if (row.measuredDensityKgM3 != null && row.measuredMoisturePct != null) {
+    const m = row.measuredMoisturePct;
+    impossible('measuredDensityKgM3', () => basicSpecificGravity((row.measuredDensityKgM3 as number) / (1000 * (1 + m / 100)), m));
   }
   // SG at 12 % is oven-dry mass over the shrunken 12 % volume, so it can never be below the basic SG
   // (oven-dry mass over the larger green volume).

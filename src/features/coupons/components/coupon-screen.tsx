@@ -36,7 +36,8 @@ function Metrics({ coupon }: { coupon: CouponDetail }) {
     ['Bulking', pct(m.bulkingPct)],
     ['Water-soak swelling', m.swellingPct === null ? '—' : `${m.swellingPct.toFixed(1)} % (by ${m.swellingBasis})`],
     [
-      'Anti-swell efficiency',
+      // On the mass basis the number is a water-repellent effectiveness, not an anti-swell efficiency.
+      coupon.antiSwell?.name ?? 'Anti-swell efficiency (ASE) or water-repellent effectiveness (WRE)',
       coupon.antiSwell
         ? `${coupon.antiSwell.asePct.toFixed(0)} % against ${coupon.antiSwell.controlCount} control${coupon.antiSwell.controlCount === 1 ? '' : 's'} swelling ${coupon.antiSwell.controlSwellingPct.toFixed(1)} % (by ${coupon.antiSwell.basis})`
         : coupon.role === 'control'
