@@ -1,0 +1,3 @@
+import { NewFindingScreen } from '../components/new-finding-screen';
+
+export const Component = NewFindingScreen;

@@ -1,0 +1,17 @@
+import { queryOptions } from '@tanstack/react-query';
+import { z } from 'zod';
+import { api } from '../api-client';
+import { verificationSchema } from '../../../shared/schemas/findings';
+import { queryKeys } from './keys';
+
+// Signature verification is shown by the findings screens and by wiki pages alike.
+
+/** Recomputes a signed finding's hash on the server; never cached as fresh, every check is a new one. */
+export const verificationQuery = (findingId: number) =>
+  queryOptions({
+    queryKey: [...queryKeys.findings.all, 'verify', findingId] as const,
+    queryFn: async () => (await api.get(`/findings/${findingId}/verify`, z.object({ verification: verificationSchema }))).verification,
+    enabled: false,
+    staleTime: 0,
+    gcTime: 0,
+  });
