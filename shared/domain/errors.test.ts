@@ -89,7 +89,8 @@ const cases: [string, () => unknown, DomainErrorCode, string][] = [
   ['below −5 km', () => standardPressureAtAltitude(-6000), 'altitude-out-of-range', 'altitudeM'],
   ['negative gauge vacuum', () => absolutePressureFromGauge(-1, 0), 'negative-pressure', 'gaugeVacuumKpa'],
   ['negative absolute pressure', () => percentVacuum(-0.1, 0), 'negative-pressure', 'absoluteKpa'],
-  ['gauge above sea-level ambient', () => absolutePressureFromGauge(101.4, 0), 'vacuum-exceeds-ambient', 'gaugeVacuumKpa'],
+  ['gauge 5 % beyond sea-level ambient', () => absolutePressureFromGauge(106.5, 0), 'vacuum-exceeds-ambient', 'gaugeVacuumKpa'],
+  ['barometer reading outside 50–110 kPa', () => absolutePressureFromGauge(50, 0, 20), 'pressure-out-of-range', 'barometerKpa'],
   ['gauge above ambient at 1500 m', () => absolutePressureFromGauge(90, 1500), 'vacuum-exceeds-ambient', 'gaugeVacuumKpa'],
   // other non-positive values
   ['control did not swell', () => antiSwellEfficiency(0, 5), 'non-positive-value', 'swellingControlPct'],

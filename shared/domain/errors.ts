@@ -17,6 +17,7 @@ export const DOMAIN_ERROR_CODES = [
   'temperature-out-of-range',
   'altitude-out-of-range',
   'negative-pressure',
+  'pressure-out-of-range',
   'vacuum-exceeds-ambient',
   'negative-value',
   'invalid-date',

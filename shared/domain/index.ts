@@ -21,7 +21,17 @@ export {
   volumetricChange,
   weightPercentGain,
 } from './resin';
-export { absolutePressureFromGauge, percentVacuum, standardPressureAtAltitude } from './vacuum';
+export {
+  ALTITUDE_QUESTION_ABOVE_M,
+  BAROMETER_RANGE_KPA,
+  WEATHER_ALLOWANCE,
+  absolutePressureFromGauge,
+  altitudeQuestion,
+  chamberPressure,
+  percentVacuum,
+  standardPressureAtAltitude,
+} from './vacuum';
+export type { ChamberPressure } from './vacuum';
 export { reachedConstantMass } from './drying';
 export type { ConstantMassCriteria, ConstantMassResult, MassReading } from './drying';
 export { HEDGES_G_NOTE, summarize, welchTest } from './statistics';

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { readReferenceCsv } from '../../tests/reference/read-reference';
-import { convertPressure } from '../units';
-import { absolutePressureFromGauge, percentVacuum, standardPressureAtAltitude } from './index';
+import { convertAltitude, convertPressure } from '../units';
+import { absolutePressureFromGauge, altitudeQuestion, chamberPressure, percentVacuum, standardPressureAtAltitude } from './index';
 import { GAUGE_DROP_INHG_PER_1000_FT } from './rules-of-thumb';
 
 const R0 = 6356766; // U.S. Standard Atmosphere 1976 effective Earth radius, m
@@ -64,5 +64,58 @@ describe('absolutePressureFromGauge / percentVacuum', () => {
 
   it('an absolute reading above the standard ambient (a high-pressure day) gives a negative % vacuum, not an error', () => {
     expect(percentVacuum(102, 0)).toBeLessThan(0);
+  });
+});
+
+describe('gauge readings above the standard ambient: the weather allowance, the clamp and the barometer', () => {
+  // Standard ambient (USSA 1976): 101.325 kPa at sea level, 97.72 kPa at 1,000 ft, 84.31 kPa at 5,000 ft.
+  // 1 inHg = 3.386389 kPa (NIST SP 811). Each reading below is above that ambient but within 5 %.
+  const inHg = (v: number) => v * 3.386389;
+  const ft = (v: number) => v * 0.3048;
+  it.each([
+    [29.95, 0, 'sea level'],
+    [29, ft(1000), '1,000 ft'],
+    [25, ft(5000), '5,000 ft'],
+  ])('%d inHg at %d m (%s) is accepted: absolute 0 kPa with a note, 100 %% vacuum', (gauge, altitudeM) => {
+    const p = chamberPressure(inHg(gauge), { altitudeM });
+    expect(p.clamped).toBe(true);
+    expect(p.absoluteKpa).toBe(0);
+    expect(p.percentVacuum).toBe(100);
+    expect(p.note).toMatch(/taken as 0 kPa\. Enter the shop's barometer reading/);
+    expect(absolutePressureFromGauge(inHg(gauge), altitudeM)).toBe(0);
+  });
+
+  it('refuses a reading more than 5 % beyond the ambient (a unit slip or a wrong altitude)', () => {
+    expect(() => chamberPressure(101.325 * 1.051, { altitudeM: 0 })).toThrow(expect.objectContaining({ code: 'vacuum-exceeds-ambient' }));
+    expect(chamberPressure(101.325 * 1.049, { altitudeM: 0 }).clamped).toBe(true);
+  });
+
+  it('uses the shop\'s barometer reading instead of the standard atmosphere when it has one', () => {
+    // A high-pressure day at sea level: the barometer reads 103.5 kPa; the gauge 100 kPa → 3.5 kPa absolute (by hand).
+    const p = chamberPressure(100, { altitudeM: 0, barometerKpa: 103.5 });
+    expect(p).toMatchObject({ ambientKpa: 103.5, ambientSource: 'barometer', clamped: false, note: null });
+    expect(p.absoluteKpa).toBeCloseTo(3.5, 12);
+    expect(p.percentVacuum).toBeCloseTo((100 / 103.5) * 100, 12);
+    expect(percentVacuum(3.5, 0, 103.5)).toBeCloseTo(p.percentVacuum, 12);
+    // Without it, the same gauge at sea level reads 1.325 kPa absolute against the standard 101.325.
+    expect(absolutePressureFromGauge(100, 0)).toBeCloseTo(1.325, 12);
+  });
+});
+
+describe('an altitude that makes every normal reading impossible is questioned', () => {
+  const ft = (v: number) => v * 0.3048;
+  it('questions 5,000 typed as metres by a metric user, offering the feet reading (5,000 ft = 1,524 m)', () => {
+    expect(altitudeQuestion(5000, 'metric')).toMatch(/5,000 m is higher than nearly any workshop: the standard air pressure there is 54\.0 kPa.*If you meant 5,000 ft, that is 1,524 m\./);
+    expect(altitudeQuestion(ft(15000), 'us')).toMatch(/15,000 ft is higher than nearly any workshop.*Is the altitude in feet\?/);
+    expect(altitudeQuestion(1500, 'metric')).toBeNull();
+    expect(altitudeQuestion(ft(1500), 'us')).toBeNull();
+  });
+
+  it('a US shop at 1,500 ft is stored as 457.2 m, not 1,500 m (1 ft = 0.3048 m exactly, NIST SP 811)', () => {
+    expect(convertAltitude(1500, 'ft', 'm')).toBeCloseTo(457.2, 10);
+    expect(convertAltitude(457.2, 'm', 'ft')).toBeCloseTo(1500, 10);
+    // The stored 457.2 m puts the standard ambient at 95.95 kPa; 1,500 m (the slip) would give 84.56 kPa.
+    expect(standardPressureAtAltitude(457.2)).toBeCloseTo(95.95, 2);
+    expect(standardPressureAtAltitude(1500)).toBeCloseTo(84.56, 2);
   });
 });

@@ -266,3 +266,73 @@ export const benchItemSchema = z.object({
 });
 export type BenchItem = z.infer<typeof benchItemSchema>;
 export const benchResponseSchema = z.object({ now: z.string(), withinHours: z.number(), items: z.array(benchItemSchema) });
+
+// ---------------------------------------------------------------------------------------------
+// Corrections of a recorded stage. A recorded time, reading or temperature is never overwritten in
+// passing: changing one takes a correction with a reason, and the version it replaces is kept.
+
+export const runStageParamsSchema = z.strictObject({ id: z.coerce.number().int().positive(), stage: z.enum(RUN_STAGES) });
+
+const correctionReasonSchema = z.string().trim().min(3, 'Say why the record changes (at least 3 characters)').max(500, 'Use at most 500 characters');
+
+/** A recorded gauge reading to change (any of its fields) or to take back (`remove`). */
+export const readingCorrectionSchema = z.union([
+  z.strictObject({ id: idSchema, remove: z.literal(true) }),
+  z.strictObject({
+    id: idSchema,
+    at: timestampSchema.optional(),
+    gaugeValue: z.number().min(0, 'A vacuum gauge reads 0 or more').max(1000).optional(),
+    gaugeUnit: z.enum(GAUGE_UNITS).optional(),
+  }),
+]);
+
+export const correctStageSchema = z
+  .strictObject({
+    startedAt: timestampSchema.optional(),
+    endedAt: timestampSchema.nullable().optional(),
+    plannedMinutes: z.number().int().min(1).max(14 * 24 * 60).nullable().optional(),
+    bubblingStoppedAt: timestampSchema.nullable().optional(),
+    ovenSetC: ovenTempSchema.nullable().optional(),
+    ovenMeasuredC: ovenTempSchema.nullable().optional(),
+    notes: notesSchema.nullable().optional(),
+    readings: z.array(readingCorrectionSchema).max(200).optional(),
+    addReadings: z.array(gaugeReadingInputSchema).max(200).optional(),
+    reason: correctionReasonSchema,
+  })
+  .refine((v) => Object.entries(v).some(([k, x]) => k !== 'reason' && x !== undefined), { message: 'Change at least one value' });
+export type CorrectStageInput = z.infer<typeof correctStageSchema>;
+
+/** One change to a run's record, newest first, with who made it and why. */
+export const runHistoryEntrySchema = z.object({
+  id: z.number().int(),
+  action: z.string(),
+  entity: z.string(),
+  /** The stage the change is about, when it is about one. */
+  stage: z.enum(RUN_STAGES).nullable(),
+  before: z.unknown(),
+  after: z.unknown(),
+  reason: z.string().nullable(),
+  actorName: z.string().nullable(),
+  createdAt: z.string(),
+});
+export type RunHistoryEntry = z.infer<typeof runHistoryEntrySchema>;
+
+/** A stage as it was before a correction replaced it: its values and its gauge readings. */
+export const stageVersionSchema = z.object({
+  id: z.number().int(),
+  stage: z.enum(RUN_STAGES),
+  values: z.record(z.string(), z.unknown()),
+  readings: z.array(z.record(z.string(), z.unknown())),
+  reason: z.string(),
+  replacedAt: z.string(),
+  replacedBy: z.string().nullable(),
+});
+export type StageVersion = z.infer<typeof stageVersionSchema>;
+
+export const runHistorySchema = z.object({
+  runId: z.number().int(),
+  entries: z.array(runHistoryEntrySchema),
+  /** Every replaced version of a stage, newest first. */
+  versions: z.array(stageVersionSchema),
+});
+export type RunHistory = z.infer<typeof runHistorySchema>;

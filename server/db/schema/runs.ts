@@ -64,3 +64,29 @@ export const runReadings = sqliteTable(
   },
   (t) => [index('run_readings_run_idx').on(t.runId)],
 );
+
+/**
+ * A stage as it was before a correction replaced it: its values and gauge readings, with the reason.
+ * `run_stages` and `run_readings` hold the current version; every earlier one stays here, so a
+ * corrected time, reading or temperature is never lost.
+ */
+export const runStageVersions = sqliteTable(
+  'run_stage_versions',
+  {
+    id: id(),
+    runId: integer('run_id')
+      .notNull()
+      .references(() => runs.id, { onDelete: 'cascade' }),
+    stageId: integer('stage_id').notNull(),
+    stage: text('stage', { enum: RUN_STAGES }).notNull(),
+    /** The stage row's values as they were (times, planned length, bubbling, oven temperatures, notes). */
+    values: text('values', { mode: 'json' }).$type<Record<string, unknown>>().notNull(),
+    /** Its gauge readings as they were. */
+    readings: text('readings', { mode: 'json' }).$type<Record<string, unknown>[]>().notNull(),
+    reason: text('reason').notNull(),
+    /** When the correction replaced this version, and (created_by) who made it. */
+    createdAt: createdAt(),
+    createdBy: createdBy().references(() => users.id),
+  },
+  (t) => [index('run_stage_versions_run_idx').on(t.runId, t.stage)],
+);

@@ -2,6 +2,8 @@ import type { FeatureDeps } from '../../deps';
 import { secureRouter } from '../../http/routes';
 import { idParamsSchema } from '../../../shared/schemas/common';
 import { benchQuerySchema, createRunSchema, recordStageSchema, runListQuerySchema, updateRunSchema } from '../../../shared/schemas/runs';
+import { correctStageSchema, runStageParamsSchema } from '../../../shared/schemas/runs';
+import { createStageCorrections } from './stage-corrections';
 import { createBenchService } from './bench.service';
 import { createRunsService } from './runs.service';
 
@@ -9,6 +11,7 @@ import { createRunsService } from './runs.service';
 export function runsRoutes(deps: FeatureDeps) {
   const service = createRunsService(deps);
   const bench = createBenchService(deps);
+  const corrections = createStageCorrections(deps);
   const r = secureRouter();
 
   r.get('/runs', { access: 'viewer', schemas: { query: runListQuerySchema } }, ({ query }) => service.list(query));
@@ -20,6 +23,12 @@ export function runsRoutes(deps: FeatureDeps) {
   r.post('/runs/:id/stages', { access: 'technician', schemas: { params: idParamsSchema, body: recordStageSchema } }, ({ user, params, body }) => ({
     run: service.recordStage(user, params.id, body),
   }));
+  // A recorded stage's times, readings and temperatures change only through a correction with a reason.
+  r.post('/runs/:id/stages/:stage/corrections', { access: 'technician', schemas: { params: runStageParamsSchema, body: correctStageSchema } }, ({ user, params, body }) => {
+    corrections.correct(user, params.id, params.stage, body);
+    return { run: service.get(params.id, user.units) };
+  });
+  r.get('/runs/:id/history', { access: 'viewer', schemas: { params: idParamsSchema } }, ({ params }) => corrections.history(params.id));
   r.get('/runs/:id/checks', { access: 'viewer', schemas: { params: idParamsSchema } }, ({ user, params }) => service.checks(params.id, user.units));
   r.get('/bench', { access: 'viewer', schemas: { query: benchQuerySchema } }, ({ query }) => bench.bench(query));
   return r;

@@ -6,7 +6,7 @@ import { refreshResults, refreshResultsOfRun } from '../../measurements/results'
 import { coupons } from '../../db/schema/coupons';
 import { runReadings, runStages, runs } from '../../db/schema/runs';
 import { Conflict, NotFound, Unprocessable, ValidationFailed } from '../../http/errors';
-import { DomainError, absolutePressureFromGauge, percentVacuum, standardPressureAtAltitude } from '../../../shared/domain/index';
+import { DomainError, WEATHER_ALLOWANCE, absolutePressureFromGauge, percentVacuum, standardPressureAtAltitude } from '../../../shared/domain/index';
 import { convertPressure, type UnitChoice } from '../../../shared/units';
 import type { User } from '../../../shared/schemas/auth';
 import type {
@@ -22,7 +22,7 @@ import type {
 import { RUN_STAGES, type RunStage } from '../../../shared/constants/records';
 import { runChecks, type RuleCheck } from '../../../shared/runs/checks';
 import { cautionsByStage } from '../../../shared/runs/cautions';
-import { checkStage, runProgress, startableStages, type StageTimes } from '../../../shared/runs/stages';
+import { checkStage, runProgress, STAGE_LABELS, startableStages, type StageTimes } from '../../../shared/runs/stages';
 import { dueItems } from '../../../shared/runs/timers';
 import {
   couponsOfRuns,
@@ -59,11 +59,48 @@ export function convertReading(r: Pick<GaugeReadingInput, 'gaugeValue' | 'gaugeU
     if (e.code === 'vacuum-exceeds-ambient') {
       const ambient = standardPressureAtAltitude(altitudeM);
       const message =
-        `${r.gaugeValue} ${r.gaugeUnit} (${gaugeKpa.toFixed(2)} kPa) is more vacuum than the ${ambient.toFixed(2)} kPa ambient pressure ` +
-        `at ${altitudeM} m; check the gauge unit and the run's altitude`;
+        `${r.gaugeValue} ${r.gaugeUnit} (${gaugeKpa.toFixed(2)} kPa) is more vacuum than the ${ambient.toFixed(2)} kPa standard ambient pressure ` +
+        `at ${Math.round(altitudeM)} m (${Math.round(altitudeM / 0.3048)} ft) by more than the ${WEATHER_ALLOWANCE * 100} % the weather can add; check the gauge unit and the run's altitude`;
       throw new Unprocessable(`${field}: ${message}`, { [field]: [message] });
     }
     throw new Unprocessable(`${field}: ${e.message}`, { [field]: [e.message] });
+  }
+}
+
+/** Recorded values that only a correction with a reason may change, and how close a resent value must be to count as the same. */
+const RECORDED = {
+  startedAt: { kind: 'time', words: 'start' },
+  endedAt: { kind: 'time', words: 'end' },
+  bubblingStoppedAt: { kind: 'time', words: 'time bubbling stopped' },
+  ovenSetC: { kind: 'temperature', words: 'oven set point' },
+  ovenMeasuredC: { kind: 'temperature', words: 'oven thermometer reading' },
+} as const;
+// A form shows times to the minute and temperatures to 0.1 °F or °C, so a resent value may differ from
+// the stored one by that rounding; within it, the stored value stands untouched.
+const SAME_TIME_MS = 60_000;
+const SAME_TEMPERATURE_C = 0.1;
+
+/**
+ * Recording a stage again (to end it, add readings or fill a blank) may not change what is already
+ * recorded: a resent value within the form's rounding keeps the stored one, anything else is refused
+ * (409) with the way to change it, a correction with a reason.
+ */
+export function keepRecorded(existing: StageRow, merged: Pick<StageRow, keyof typeof RECORDED>): void {
+  for (const [field, rule] of Object.entries(RECORDED) as [keyof typeof RECORDED, (typeof RECORDED)[keyof typeof RECORDED]][]) {
+    const was = existing[field];
+    const now = merged[field];
+    if (was === null || now === was) continue;
+    const close =
+      now !== null &&
+      (rule.kind === 'time'
+        ? Math.abs(Date.parse(now as string) - Date.parse(was as string)) < SAME_TIME_MS
+        : Math.abs((now as number) - (was as number)) <= SAME_TEMPERATURE_C);
+    if (close) {
+      (merged as Record<string, unknown>)[field] = was;
+      continue;
+    }
+    const msg = `The ${STAGE_LABELS[existing.stage].toLowerCase()} ${rule.words} is already recorded; to change it, correct the stage and give the reason`;
+    throw new Conflict(msg, { [field]: [msg] });
   }
 }
 
@@ -353,6 +390,7 @@ export function createRunsService(deps: FeatureDeps) {
         ovenMeasuredC: pick('ovenMeasuredC'),
         notes: pick('notes'),
       };
+      if (existing) keepRecorded(existing, merged);
       const decision = checkStage(stages.map(toStageTimes), { stage: input.stage, startedAt: merged.startedAt, endedAt: merged.endedAt });
       if (!decision.ok) {
         const Err = decision.impossible ? Unprocessable : Conflict;
@@ -389,7 +427,7 @@ export function createRunsService(deps: FeatureDeps) {
         after: { ...row, readingsAdded: added },
       });
     });
-    return get(id, actor.unitSystem);
+    return get(id, actor.units);
   }
 
   function checks(id: number, units?: UnitChoice): { runId: number; checks: RuleCheck[] } {

@@ -265,9 +265,12 @@ describe('gauge readings at the shop altitude', () => {
     expect(Math.abs(reading.percentVacuum - ((ambient - absolute) / ambient) * 100)).toBeLessThan(0.01);
   });
 
-  it('refuses 25.0 inHg at 1600 m: more vacuum than the air pressure there (422 naming the reading)', async () => {
-    // 25.0 inHg = 84.66 kPa, above the ≈ 83.5 kPa ambient at 1600 m: a gauge cannot read it there.
+  it('accepts 25.0 inHg at 1600 m as 0 kPa absolute (a high-pressure day), refuses 27.0 inHg (beyond the 5 % the weather adds; 422 naming the reading)', async () => {
+    // 25.0 inHg = 84.66 kPa, above the ≈ 83.5 kPa standard ambient at 1600 m but within 5 % of it.
     expect(25.0 * KPA_PER_INHG).toBeGreaterThan(ambientKpa(1600));
+    const ok = await stage(await makeRun(), { stage: 'vacuum', startedAt: hoursFromNow(-2), readings: [{ at: hoursFromNow(-1), gaugeValue: 25.0, gaugeUnit: 'inHg' }] });
+    expect(ok.body.run.stages[0].readings[0]).toMatchObject({ absoluteKpa: 0, percentVacuum: 100 });
+    // 27.0 inHg = 91.43 kPa, more than 1.05 × 83.5 = 87.7 kPa: a unit slip or a wrong altitude.
     const runId = await makeRun();
     const res = await stage(
       runId,
@@ -276,12 +279,12 @@ describe('gauge readings at the shop altitude', () => {
         startedAt: hoursFromNow(-2),
         readings: [
           { at: hoursFromNow(-1.5), gaugeValue: 23.0, gaugeUnit: 'inHg' },
-          { at: hoursFromNow(-1), gaugeValue: 25.0, gaugeUnit: 'inHg' },
+          { at: hoursFromNow(-1), gaugeValue: 27.0, gaugeUnit: 'inHg' },
         ],
       },
       422,
     );
-    expect(res.body.error.fieldErrors['readings.1.gaugeValue'][0]).toMatch(/more vacuum than the .* ambient pressure at 1600 m/);
+    expect(res.body.error.fieldErrors['readings.1.gaugeValue'][0]).toMatch(/more vacuum than the .* ambient pressure at 1600 m \(5249 ft\) by more than the 5 %/);
     // Nothing of the refused request was written.
     expect((await as.viewer.get(`/api/runs/${runId}`)).body.run.stages).toEqual([]);
   });

@@ -38,6 +38,7 @@ export const queryKeys = {
     lists: () => ['runs', 'list'] as const,
     list: (q: Partial<RunListQuery>) => ['runs', 'list', q] as const,
     detail: (id: number) => ['runs', 'detail', id] as const,
+    history: (id: number) => ['runs', 'detail', id, 'history'] as const,
   },
   bench: {
     all: ['bench'] as const,

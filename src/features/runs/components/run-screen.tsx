@@ -14,6 +14,8 @@ import { useNow } from '../hooks/use-now';
 import { RunPhotos } from './run-photos';
 import { CautionNote } from './caution-note';
 import { RuleChecks } from './rule-checks';
+import { CorrectStageForm } from './correct-stage-form';
+import { RunHistoryPanel } from './run-history';
 import { GAUGE_NOTE, StageForm } from './stage-form';
 import { DueTime, dateTime, formatSpan } from './time-text';
 import { paths } from '../../../config/paths';
@@ -116,10 +118,12 @@ function Timeline({ run, now, focusStage }: { run: RunDetail; now: Date; focusSt
   const { can } = useRole();
   const mayWrite = can('technician');
   const [opened, setOpened] = useState<RunStage | null>(focusStage && run.startableStages.includes(focusStage) ? focusStage : null);
+  const [correcting, setCorrecting] = useState<RunStage | null>(null);
   const [notice, setNotice] = useState<string | null>(null);
   const noticeRef = useRef<HTMLParagraphElement>(null);
   const saved = (message: string) => {
     setOpened(null);
+    setCorrecting(null);
     setNotice(message);
     requestAnimationFrame(() => noticeRef.current?.focus());
   };
@@ -140,6 +144,12 @@ function Timeline({ run, now, focusStage }: { run: RunDetail; now: Date; focusSt
               {STAGE_LABELS[stage]} <span className="text-sm font-normal text-ink-soft">— {state}</span>
             </h3>
             {rec && <StageFacts s={rec} run={run} now={now} />}
+            {rec && mayWrite && correcting !== stage && (
+              <button type="button" className="btn-quiet mt-1 px-2 py-0.5 text-xs" onClick={() => setCorrecting(stage)}>
+                Correct<span className="sr-only"> the {STAGE_LABELS[stage].toLowerCase()} stage</span>…
+              </button>
+            )}
+            {rec && correcting === stage && <CorrectStageForm run={run} stage={rec} onDone={saved} onCancel={() => setCorrecting(null)} />}
             {(stage === 'vacuum' || stage === 'cure') && (state === 'in progress' || startable) && <CautionNote cautions={run.cautions[stage] ?? []} />}
             {rec && rec.endedAt === null && mayWrite && <StageForm run={run} stage={stage} mode="open" existing={rec} onSaved={saved} />}
             {!rec && startable && mayWrite && (
@@ -285,6 +295,7 @@ export function RunScreen() {
           <RunPhotos run={r} />
         </div>
       </div>
+      <RunHistoryPanel runId={r.id} />
     </Page>
   );
 }
