@@ -5,7 +5,7 @@ import { Link } from 'react-router-dom';
 import { sgPlausibility, sgWarningText } from '../../../../shared/coupons/plausibility';
 import { batchMeasurementsSchema, type CouponOut } from '../../../../shared/schemas/coupons';
 import { ApiError } from '../../../lib/api-client';
-import { useRole } from '../../../lib/session';
+import { useMe, useRole } from '../../../lib/session';
 import { useUnits } from '../../../lib/use-units';
 import { queryKeys } from '../../../lib/queries/keys';
 import type { GridScope } from '../api/coupons-queries';
@@ -24,6 +24,8 @@ import {
   type RowModel,
 } from './grid-model';
 import { paths } from '../../../config/paths';
+import { useLeaveGuard } from '../../../lib/leave-guard';
+import { draftKey, useLocalDraft } from '../../../lib/local-draft';
 
 type CellErrors = Record<number, Record<string, string>>;
 
@@ -193,6 +195,7 @@ function useColumns(): ColumnDef<RowModel, unknown>[] {
 }
 
 const ENTRY_IDS = new Set(ENTRY_COLUMNS.map((c) => c.id));
+const isEmptyDrafts = (d: Drafts) => Object.values(d).every((row) => Object.values(row ?? {}).every((v) => v === undefined || v === ''));
 
 /**
  * The keyboard-first entry sheet for a set of coupons. Typed values stay in the grid, in display
@@ -422,12 +425,17 @@ export function EntryGrid({ coupons, scope, caption, focus }: { coupons: CouponO
   }, []);
 
   const pending = rows.filter((m) => m.edited).length;
-  useEffect(() => {
-    if (pending === 0) return;
-    const warn = (e: BeforeUnloadEvent) => e.preventDefault();
-    window.addEventListener('beforeunload', warn);
-    return () => window.removeEventListener('beforeunload', warn);
-  }, [pending]);
+  // Typed values survive a reload, a crash or a closed tab (a draft in this browser, per user and grid,
+  // kept only while it was typed in the same units) and leaving asks first.
+  const me = useMe();
+  const restoredAt = useLocalDraft(
+    draftKey(me?.id, `grid:${JSON.stringify(scope)}`),
+    `${units.unit('mass')}|${units.unit('length')}`,
+    drafts,
+    isEmptyDrafts,
+    setDrafts,
+  );
+  const leaveGuard = useLeaveGuard(pending > 0, `${pending} row${pending === 1 ? ' has' : 's have'} typed values that are not saved.`);
 
   const state: GridState = {
     drafts,
@@ -448,6 +456,12 @@ export function EntryGrid({ coupons, scope, caption, focus }: { coupons: CouponO
   const headerRows = headerGroups.length;
   return (
     <GridContext.Provider value={state}>
+      {leaveGuard}
+      {restoredAt && pending > 0 && (
+        <p className="no-print mb-2 text-sm text-amber-ink">
+          Restored values typed here on {new Date(restoredAt).toLocaleString()} and not saved yet; check them and save, or press Esc in a cell to drop one.
+        </p>
+      )}
       <div className="no-print mb-3 flex flex-wrap items-center gap-3">
         {canEdit && (
           <button ref={saveButton} type="button" className="btn-primary" onClick={() => void doSave()} disabled={save.isPending} aria-keyshortcuts="Control+S Meta+S">
