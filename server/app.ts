@@ -24,6 +24,7 @@ import { trialsRoutes } from './features/trials/trials.router';
 import { findingsRoutes } from './features/findings/findings.router';
 import { wikiRoutes } from './features/wiki/wiki.router';
 import { analysisRoutes } from './features/analysis/analysis.router';
+import { importsRoutes } from './features/imports/imports.router';
 
 const here = path.dirname(fileURLToPath(import.meta.url));
 const CLIENT_DIR = path.resolve(here, '../dist/client');
@@ -153,6 +154,7 @@ export function createApp(deps: AppDeps) {
     findingsRoutes(feature, deps.signingRateLimit ?? { windowMs: 15 * 60_000, limit: 5 }),
     wikiRoutes(feature),
     analysisRoutes(feature),
+    importsRoutes(feature),
   ];
   const declared: DeclaredRoute[] = [];
   for (const r of mounted) {

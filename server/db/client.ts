@@ -13,6 +13,7 @@ import * as couponsSchema from './schema/coupons';
 import { storageProblem } from './storage-errors';
 import * as resultsSchema from './schema/results';
 import * as analysisSchema from './schema/analysis';
+import * as importsSchema from './schema/imports';
 import * as findingsSchema from './schema/findings';
 import * as wikiSchema from './schema/wiki';
 
@@ -27,6 +28,7 @@ export const schema = {
   ...findingsSchema,
   ...wikiSchema,
   ...analysisSchema,
+  ...importsSchema,
 };
 export type Db = BetterSQLite3Database<typeof schema>;
 

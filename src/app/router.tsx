@@ -74,7 +74,9 @@ export function appRoutes(qc: QueryClient): RouteObject[] {
             s(paths.trialEdit.path, () => import('../features/trials/routes/trial-edit-route'), 'technician'),
             s(paths.trialLabels.path, () => import('../features/trials/routes/labels-route')),
             s(paths.reference.path, () => import('../features/reference/routes/reference-route')),
-            s(paths.imports.path, () => import('../features/imports/routes/imports-route'), 'technician'),
+            // Viewers read the history; the screen offers uploads to technicians and above.
+            s(paths.imports.path, () => import('../features/imports/routes/imports-route')),
+            s(paths.import.path, () => import('../features/imports/routes/import-route')),
             s(paths.compare.path, () => import('../features/analysis/routes/compare-route')),
             s(paths.compareView.path, () => import('../features/analysis/routes/evidence-route')),
             s(paths.findings.path, () => import('../features/findings/routes/findings-route')),

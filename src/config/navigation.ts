@@ -19,7 +19,7 @@ export const NAVIGATION_GROUPS: readonly { label: string; items: readonly NavIte
     items: [
       { to: paths.bench.href(), label: 'Bench', min: 'viewer' },
       { to: paths.coupons.href(), label: 'Coupons', min: 'viewer' },
-      { to: paths.imports.href(), label: 'Imports', min: 'technician' },
+      { to: paths.imports.href(), label: 'Imports', min: 'viewer' },
       { to: paths.compare.href(), label: 'Compare', min: 'viewer' },
       { to: paths.findings.href(), label: 'Findings', min: 'viewer' },
     ],

@@ -7,7 +7,7 @@ const ROLES = [
   { email: 'admin@demo.test', sees: ['Bench', 'Trials', 'Imports', 'Users', 'Outbox', 'Settings'], hidden: [] },
   { email: 'reviewer@demo.test', sees: ['Bench', 'Trials', 'Imports', 'Findings', 'Wiki'], hidden: ['Users', 'Outbox', 'Settings'] },
   { email: 'tech@demo.test', sees: ['Bench', 'Runs', 'Coupons', 'Imports'], hidden: ['Users', 'Outbox', 'Settings'] },
-  { email: 'viewer@demo.test', sees: ['Bench', 'Trials', 'Compare', 'Wiki'], hidden: ['Imports', 'Users', 'Outbox', 'Settings'] },
+  { email: 'viewer@demo.test', sees: ['Bench', 'Trials', 'Imports', 'Compare', 'Wiki'], hidden: ['Users', 'Outbox', 'Settings'] },
 ];
 
 for (const role of ROLES) {

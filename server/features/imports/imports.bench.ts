@@ -1,0 +1,114 @@
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { monitorEventLoopDelay } from 'node:perf_hooks';
+import Papa from 'papaparse';
+import { afterAll, bench, describe } from 'vitest';
+import { openDatabase, type Database_ } from '../../db/client';
+import { species } from '../../db/schema/reference';
+import { startHarness } from '../../testing/harness';
+
+// The import of a generated 100,000-row scale file, end to end through the API (upload → detect →
+// preview → commit), against the floor: a bare papaparse parse of the same text plus better-sqlite3
+// prepared inserts of the same rows (tag → coupon id through a Map) in one transaction, foreign keys on.
+// Both run once, in this process; the ratio, the peak RSS and the event loop's longest stall are printed.
+
+const N = 100_000;
+const tag = (i: number) => `BX-${String(i).padStart(6, '0')}`;
+const text = ['tag,mass,unit,date,time', ...Array.from({ length: N }, (_, i) => `${tag(i)},${(10 + (i % 997) / 100).toFixed(3)},g,2026-03-02,${String(8 + Math.floor(i / 3600) % 12).padStart(2, '0')}:${String(Math.floor(i / 60) % 60).padStart(2, '0')}:${String(i % 60).padStart(2, '0')}`)].join('\r\n');
+const bytes = Buffer.from(`${text}\r\n`);
+
+function addCoupons(d: Database_) {
+  const sp = d.db.select({ id: species.id }).from(species).limit(1).get()!.id;
+  const ins = d.sqlite.prepare("insert into coupons (tag, species_id, role) values (?, ?, 'treated')");
+  d.sqlite.transaction(() => {
+    for (let i = 0; i < N; i++) ins.run(tag(i), sp);
+  })();
+}
+
+const h = await startHarness();
+addCoupons(h.database);
+const tech = await h.signIn('tech@demo.test');
+const floorDir = fs.mkdtempSync(path.join(os.tmpdir(), 'lumenbook-floor-'));
+const floorDb = openDatabase(path.join(floorDir, 'floor.db'));
+floorDb.sqlite.exec("insert into species (common_name, botanical_name, origin, source) values ('Floor wood', 'Lignum floor', 'shop-measured', 'bench')");
+addCoupons(floorDb);
+const times: Record<string, number> = {};
+const loop = monitorEventLoopDelay({ resolution: 10 });
+
+async function settle(id: number) {
+  for (;;) {
+    const res = await tech.get(`/api/imports/${id}`);
+    if (res.body.status !== 'previewing' && res.body.status !== 'committing') return res.body;
+    await new Promise((r) => setTimeout(r, 25));
+  }
+}
+
+const once = { iterations: 1, time: 0, warmupIterations: 0, warmupTime: 0 };
+
+describe(`import of ${N.toLocaleString('en')} readings`, () => {
+  bench(
+    'floor: papaparse + prepared inserts in one transaction',
+    () => {
+      const t0 = performance.now();
+      const rows = Papa.parse<string[]>(text, { skipEmptyLines: true }).data.slice(1);
+      const ids = new Map(floorDb.sqlite.prepare('select id, tag from coupons').all().map((r) => [(r as { tag: string }).tag, (r as { id: number }).id]));
+      const ins = floorDb.sqlite.prepare("insert into weighings (coupon_id, stage, mass_g, measured_at) values (?, 'dry', ?, ?)");
+      floorDb.sqlite.transaction(() => {
+        for (const r of rows) ins.run(ids.get(r[0] as string), Number(r[1]), `${r[3]}T${r[4]}.000Z`);
+      })();
+      times.floor = performance.now() - t0;
+    },
+    once,
+  );
+
+  bench(
+    'end to end: upload → detect → preview → commit',
+    async () => {
+      loop.enable();
+      const t0 = performance.now();
+      const up = await tech.post('/api/imports').attach('file', bytes, 'bench-100k.csv');
+      if (up.status !== 201) throw new Error(JSON.stringify(up.body));
+      const d = up.body;
+      const s = d.detected.suggested;
+      const mapping = {
+        format: { encoding: 'utf-8', delimiter: ',', hasHeader: true, decimal: '.', dateOrder: 'ymd' },
+        target: { mode: 'tag', tagColumn: s.tagColumn },
+        massColumn: s.massColumn,
+        unitColumn: s.unitColumn,
+        dateColumn: s.dateColumn,
+        timeColumn: s.timeColumn,
+        stage: 'dry',
+      };
+      times.upload = performance.now() - t0;
+      await tech.post(`/api/imports/${d.id}/preview`).send({ mapping }).expect(202);
+      const p = await settle(d.id);
+      times.preview = performance.now() - t0 - times.upload;
+      await tech.post(`/api/imports/${d.id}/commit`).send({ mapping }).expect(202);
+      const c = await settle(d.id);
+      times.total = performance.now() - t0;
+      loop.disable();
+      if (c.status !== 'committed' || c.counts.accepted !== N) throw new Error(`commit ended ${c.status}: ${c.error} ${JSON.stringify(c.counts)} (preview ${JSON.stringify(p.counts)})`);
+    },
+    once,
+  );
+});
+
+afterAll(async () => {
+  const mb = (b: number) => `${(b / 1024 / 1024).toFixed(0)} MB`;
+  const floor = times.floor ?? NaN;
+  const total = times.total ?? NaN;
+  console.log(
+    [
+      `import of ${N} rows (${mb(bytes.length)} file):`,
+      `  floor (parse + prepared inserts, one transaction): ${floor.toFixed(0)} ms`,
+      `  end to end: ${total.toFixed(0)} ms (upload+detect ${times.upload?.toFixed(0)} ms, preview ${times.preview?.toFixed(0)} ms, commit ${(total - (times.upload ?? 0) - (times.preview ?? 0)).toFixed(0)} ms)`,
+      `  ratio end to end / floor: ${(total / floor).toFixed(2)}`,
+      `  peak RSS of this process (server, client and floor together): ${mb(process.resourceUsage().maxRSS * 1024)}`,
+      `  longest event-loop stall during the import: ${(loop.max / 1e6).toFixed(0)} ms`,
+    ].join('\n'),
+  );
+  floorDb.close();
+  fs.rmSync(floorDir, { recursive: true, force: true });
+  await h.close();
+});

@@ -1,0 +1,153 @@
+import { and, asc, count, desc, eq, inArray, isNull, ne } from 'drizzle-orm';
+import { alias } from 'drizzle-orm/sqlite-core';
+import type { Db } from '../../db/client';
+import { users } from '../../db/schema/auth';
+import { coupons, weighings } from '../../db/schema/coupons';
+import { importPresets, importProblems, imports } from '../../db/schema/imports';
+import { runs } from '../../db/schema/runs';
+import type { ImportStatus } from '../../../shared/constants/imports';
+import type { ImportProblem } from '../../../shared/schemas/imports';
+
+export type ImportRow = typeof imports.$inferSelect;
+export type PresetRow = typeof importPresets.$inferSelect;
+
+export interface CouponKey {
+  id: number;
+  tag: string;
+  role: 'treated' | 'control';
+}
+
+/** Every coupon's id, tag and role, for matching a file's tags (one query, however many coupons). */
+export function allCouponKeys(db: Db): CouponKey[] {
+  return db.select({ id: coupons.id, tag: coupons.tag, role: coupons.role }).from(coupons).all();
+}
+
+export function couponKeysByIds(db: Db, ids: number[]): CouponKey[] {
+  if (ids.length === 0) return [];
+  return db.select({ id: coupons.id, tag: coupons.tag, role: coupons.role, runId: coupons.runId }).from(coupons).where(inArray(coupons.id, ids)).all();
+}
+
+export function tagExists(db: Db, tag: string): boolean {
+  return db.select({ id: coupons.id }).from(coupons).where(eq(coupons.tag, tag)).get() !== undefined;
+}
+
+export function findRun(db: Db, id: number) {
+  return db.select({ id: runs.id, code: runs.code }).from(runs).where(eq(runs.id, id)).get();
+}
+
+export function couponIdsOfRun(db: Db, runId: number): number[] {
+  return db.select({ id: coupons.id }).from(coupons).where(eq(coupons.runId, runId)).orderBy(asc(coupons.tag)).all().map((r) => r.id);
+}
+
+export function insertImport(db: Db, values: typeof imports.$inferInsert): ImportRow {
+  return db.insert(imports).values(values).returning().get();
+}
+
+export function updateImport(db: Db, id: number, set: Partial<typeof imports.$inferInsert>): void {
+  db.update(imports).set(set).where(eq(imports.id, id)).run();
+}
+
+export function findImport(db: Db, id: number): ImportRow | undefined {
+  return db.select().from(imports).where(eq(imports.id, id)).get();
+}
+
+/** Imports of the same file that were committed and not undone. */
+export function committedWithSha(db: Db, sha256: string, exceptId: number) {
+  return db
+    .select({ id: imports.id, createdAt: imports.createdAt, status: imports.status })
+    .from(imports)
+    .where(and(eq(imports.sha256, sha256), ne(imports.id, exceptId), inArray(imports.status, ['committed', 'committing'])))
+    .orderBy(asc(imports.id))
+    .all();
+}
+
+export function countFileUses(db: Db, fileName: string): number {
+  return db.select({ n: count() }).from(imports).where(eq(imports.fileName, fileName)).get()?.n ?? 0;
+}
+
+const undoer = alias(users, 'undoer');
+
+export function listImports(db: Db, limit: number, offset: number) {
+  const rows = db
+    .select({ row: imports, createdByName: users.name, undoneByName: undoer.name })
+    .from(imports)
+    .leftJoin(users, eq(imports.createdBy, users.id))
+    .leftJoin(undoer, eq(imports.undoneBy, undoer.id))
+    .orderBy(desc(imports.createdAt), desc(imports.id))
+    .limit(limit)
+    .offset(offset)
+    .all();
+  const total = db.select({ n: count() }).from(imports).get()?.n ?? 0;
+  return { rows, total };
+}
+
+export function importWithNames(db: Db, id: number) {
+  return db
+    .select({ row: imports, createdByName: users.name, undoneByName: undoer.name })
+    .from(imports)
+    .leftJoin(users, eq(imports.createdBy, users.id))
+    .leftJoin(undoer, eq(imports.undoneBy, undoer.id))
+    .where(eq(imports.id, id))
+    .get();
+}
+
+export function markStaleJobsFailed(db: Db): void {
+  db.update(imports)
+    .set({ status: 'failed', error: 'The server stopped while this import was being processed; preview it again' })
+    .where(inArray(imports.status, ['previewing', 'committing'] satisfies ImportStatus[]))
+    .run();
+}
+
+/** Replaces the stored problem rows of an import, in one statement per row through a prepared insert. */
+export function replaceProblems(db: Db, importId: number, problems: ImportProblem[]): void {
+  db.delete(importProblems).where(eq(importProblems.importId, importId)).run();
+  const c = (db as unknown as { session: { client: import('better-sqlite3').Database } }).session.client;
+  const ins = c.prepare('insert into import_problems (import_id, row, "column", code, outcome, message, suggestions, cells) values (?, ?, ?, ?, ?, ?, ?, ?)');
+  for (const p of problems) ins.run(importId, p.row, p.column, p.code, p.outcome, p.message, JSON.stringify(p.suggestions), JSON.stringify(p.cells));
+}
+
+export function problemsOf(db: Db, importId: number, limit: number, offset: number) {
+  const items = db.select().from(importProblems).where(eq(importProblems.importId, importId)).orderBy(asc(importProblems.row), asc(importProblems.id)).limit(limit).offset(offset).all();
+  const total = db.select({ n: count() }).from(importProblems).where(eq(importProblems.importId, importId)).get()?.n ?? 0;
+  return { items, total };
+}
+
+/** Current (not superseded, not deleted) weighings an import wrote. */
+export function currentWeighingIdsOfImport(db: Db, importId: number): number[] {
+  return db
+    .select({ id: weighings.id })
+    .from(weighings)
+    .where(and(eq(weighings.importId, importId), isNull(weighings.supersededBy), isNull(weighings.deletedAt)))
+    .all()
+    .map((r) => r.id);
+}
+
+export function findWeighingState(db: Db, id: number) {
+  return db.select({ id: weighings.id, massG: weighings.massG, measuredAt: weighings.measuredAt, supersededBy: weighings.supersededBy, deletedAt: weighings.deletedAt }).from(weighings).where(eq(weighings.id, id)).get();
+}
+
+/** The current weighing of each coupon at a stage, for corrections. */
+export function currentWeighingAt(db: Db, couponId: number, stage: (typeof weighings.$inferSelect)['stage']) {
+  return db
+    .select({ id: weighings.id })
+    .from(weighings)
+    .where(and(eq(weighings.couponId, couponId), eq(weighings.stage, stage), isNull(weighings.supersededBy), isNull(weighings.deletedAt)))
+    .orderBy(desc(weighings.id))
+    .get();
+}
+
+export function presetsForShape(db: Db, shapeKey: string): PresetRow[] {
+  return db.select().from(importPresets).where(eq(importPresets.shapeKey, shapeKey)).orderBy(desc(importPresets.createdAt), desc(importPresets.id)).all();
+}
+
+export function allPresets(db: Db): PresetRow[] {
+  return db.select().from(importPresets).orderBy(asc(importPresets.name)).all();
+}
+
+export function findPresetByName(db: Db, name: string): PresetRow | undefined {
+  return db.select().from(importPresets).where(eq(importPresets.name, name)).get();
+}
+
+export function insertPreset(db: Db, values: typeof importPresets.$inferInsert): PresetRow {
+  return db.insert(importPresets).values(values).returning().get();
+}
