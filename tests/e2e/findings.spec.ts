@@ -36,8 +36,14 @@ const XSS = '<img src=x onerror="window.__xss=1"><script>window.__xss=2</script>
 test('a finding goes from draft to the wiki across three roles, and its signature verifies', async ({ browser }) => {
   test.setTimeout(180_000);
 
-  // ── technician: the draft ──
+  // ── technician: a saved view of Compare, then the draft ──
   const tech = await person(browser, 'tech@demo.test');
+  const saved = await tech.page.request.post('/api/evidence', {
+    headers: { 'x-lumenbook-csrf': '1' },
+    data: { title: 'Uptake against density, demo trial', view: {} },
+  });
+  expect(saved.status(), await saved.text()).toBe(201);
+
   await tech.page.goto('/findings');
   await expectAccessible(tech.page, 'findings list');
   await tech.page.getByRole('link', { name: 'Write a finding' }).click();
@@ -55,6 +61,10 @@ test('a finding goes from draft to the wiki across three roles, and its signatur
   await expect(draft.getByRole('status')).toContainText('All changes saved');
   await expect(tech.page.getByRole('region', { name: 'Preview' }).locator('strong', { hasText: 'lighter' })).toBeVisible();
 
+  await tech.page.getByLabel('Saved view to attach').selectOption({ index: 1 });
+  await tech.page.getByRole('button', { name: 'Attach (frozen copy)' }).click();
+  const figure = tech.page.getByRole('figure', { name: 'Evidence: Uptake against density, demo trial' });
+  await expect(figure.getByRole('img')).toBeVisible();
   await expectAccessible(tech.page, 'finding draft');
 
   await tech.page.getByRole('button', { name: 'Submit for review' }).click();
@@ -107,6 +117,7 @@ test('a finding goes from draft to the wiki across three roles, and its signatur
   await expect(viewer.page.locator('mark', { hasText: /lighter/i }).first()).toBeVisible();
   await viewer.page.getByRole('link', { name: 'Lighter species took up more resin' }).first().click();
   await expect(viewer.page.getByRole('heading', { level: 1, name: 'Lighter species took up more resin' })).toBeVisible();
+  await expect(viewer.page.getByRole('figure', { name: 'Evidence: Uptake against density, demo trial' }).getByRole('img')).toBeVisible();
   const footer = viewer.page.getByRole('region', { name: 'Electronic signature' });
   await expect(footer).toContainText('Signed by Ilse Marrow (quality) — Approved for the shop wiki');
   await footer.getByRole('button', { name: 'Verify signature' }).click();
