@@ -38,7 +38,14 @@ const NO_DOMAIN_BARREL = {
   regex: '(^|/)domain(/index)?$',
   message: 'Import the domain module itself (shared/domain/vacuum), not the barrel, which pulls the statistics libraries into every page.',
 };
-const CLIENT_LOADED_SHARED = ['shared/runs/**/*.ts', 'shared/coupons/**/*.ts', 'shared/trials/**/*.ts', 'shared/schemas/**/*.ts', 'shared/constants/**/*.ts', 'shared/*.ts'];
+const CLIENT_LOADED_SHARED = [
+  'shared/runs/**/*.ts',
+  'shared/coupons/**/*.ts',
+  'shared/trials/**/*.ts',
+  'shared/schemas/**/*.ts',
+  'shared/constants/**/*.ts',
+  'shared/*.ts',
+];
 
 export default [
   { ignores: ['dist/**', 'node_modules/**', 'data/**', 'drizzle/**', 'test-results/**', 'playwright-report/**', 'coverage/**'] },
@@ -54,7 +61,10 @@ export default [
         babelOptions: {
           babelrc: false,
           configFile: false,
-          presets: [['@babel/preset-typescript', { isTSX: true, allExtensions: true }], ['@babel/preset-react', { runtime: 'automatic' }]],
+          presets: [
+            ['@babel/preset-typescript', { isTSX: true, allExtensions: true }],
+            ['@babel/preset-react', { runtime: 'automatic' }],
+          ],
         },
       },
     },

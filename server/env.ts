@@ -90,9 +90,7 @@ export function loadConfig(source: NodeJS.ProcessEnv = process.env): Config {
     appUrl: env.APP_URL ?? `http://localhost:${env.PORT}`,
     sessionSecret: env.SESSION_SECRET,
     logLevel: env.LOG_LEVEL,
-    smtp: env.SMTP_HOST
-      ? { host: env.SMTP_HOST, port: env.SMTP_PORT, secure: env.SMTP_SECURE === 'true', user: env.SMTP_USER, pass: env.SMTP_PASS }
-      : null,
+    smtp: env.SMTP_HOST ? { host: env.SMTP_HOST, port: env.SMTP_PORT, secure: env.SMTP_SECURE === 'true', user: env.SMTP_USER, pass: env.SMTP_PASS } : null,
     mailFrom: env.MAIL_FROM,
     demoData: env.DEMO_DATA === 'true',
     loginRateLimit: env.LOGIN_RATE_LIMIT,

@@ -68,7 +68,10 @@ export function seedDemo(database: Database_, options: { bcryptCost?: number; no
   if (!isEmpty(database)) return false;
   const hash = bcrypt.hashSync(DEMO_PASSWORD, options.bcryptCost ?? 12);
   database.db.transaction((tx) => {
-    for (const u of DEMO_USERS) tx.insert(users).values({ ...u, passwordHash: hash }).run();
+    for (const u of DEMO_USERS)
+      tx.insert(users)
+        .values({ ...u, passwordHash: hash })
+        .run();
     for (const [key, value] of Object.entries(DEMO_SHOP)) tx.insert(settings).values({ key, value }).run();
     const userIds = Object.fromEntries(
       DEMO_USERS.map((u) => [u.role, tx.select({ id: users.id }).from(users).where(eq(users.email, u.email)).get()!.id]),

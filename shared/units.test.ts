@@ -90,14 +90,21 @@ describe('round trips (fast-check)', () => {
 
   it('mass, length, pressure, volume and temperature convert there and back', () => {
     fc.assert(
-      fc.property(value, pairs(MASS_UNITS), pairs(LENGTH_UNITS), pairs(PRESSURE_UNITS), pairs(VOLUME_UNITS), pairs(TEMPERATURE_UNITS),
+      fc.property(
+        value,
+        pairs(MASS_UNITS),
+        pairs(LENGTH_UNITS),
+        pairs(PRESSURE_UNITS),
+        pairs(VOLUME_UNITS),
+        pairs(TEMPERATURE_UNITS),
         (v, [m1, m2], [l1, l2], [p1, p2], [v1, v2], [t1, t2]) => {
           expect(close(convertMass(convertMass(v, m1, m2), m2, m1), v)).toBe(true);
           expect(close(convertLength(convertLength(v, l1, l2), l2, l1), v)).toBe(true);
           expect(close(convertPressure(convertPressure(v, p1, p2), p2, p1), v)).toBe(true);
           expect(close(convertVolume(convertVolume(v, v1, v2), v2, v1), v)).toBe(true);
           expect(close(convertTemperature(convertTemperature(v, t1, t2), t2, t1), v)).toBe(true);
-        }),
+        },
+      ),
     );
   });
 

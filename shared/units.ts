@@ -45,16 +45,7 @@ export type LiquidVolumeUnit = (typeof LIQUID_VOLUME_UNITS)[number];
 export type DensityUnit = (typeof DENSITY_UNITS)[number];
 export type AltitudeUnit = (typeof ALTITUDE_UNITS)[number];
 export type ForceUnit = (typeof FORCE_UNITS)[number];
-export type Unit =
-  | MassUnit
-  | LengthUnit
-  | TemperatureUnit
-  | PressureUnit
-  | VolumeUnit
-  | LiquidVolumeUnit
-  | DensityUnit
-  | AltitudeUnit
-  | ForceUnit;
+export type Unit = MassUnit | LengthUnit | TemperatureUnit | PressureUnit | VolumeUnit | LiquidVolumeUnit | DensityUnit | AltitudeUnit | ForceUnit;
 
 export interface UnitOf {
   mass: MassUnit;

@@ -30,7 +30,9 @@ const emptyDir = () => {
 
 async function backupWithPhoto() {
   const admin = await h.signIn('admin@demo.test');
-  const jpeg = await sharp({ create: { width: 8, height: 8, channels: 3, background: { r: 120, g: 80, b: 40 } } }).jpeg().toBuffer();
+  const jpeg = await sharp({ create: { width: 8, height: 8, channels: 3, background: { r: 120, g: 80, b: 40 } } })
+    .jpeg()
+    .toBuffer();
   const photo = await admin.post('/api/coupons/1/photos').attach('file', jpeg, 'blank.jpg');
   expect(photo.status).toBe(201);
   const served = (await admin.get(photo.body.photo.url).buffer(true)).body as Buffer;

@@ -31,7 +31,10 @@ function tempDir(dataDir: string, label: string): string {
 
 function photoNames(photosDir: string): string[] {
   if (!fs.existsSync(photosDir)) return [];
-  return fs.readdirSync(photosDir, { withFileTypes: true }).filter((e) => e.isFile()).map((e) => e.name);
+  return fs
+    .readdirSync(photosDir, { withFileTypes: true })
+    .filter((e) => e.isFile())
+    .map((e) => e.name);
 }
 
 /**
@@ -63,7 +66,11 @@ export async function createBackup(sqlite: Database.Database, dataDir: string, n
     }
     const manifest: Manifest = { format: FORMAT, version: 1, createdAt: now.toISOString(), photos: photos.length };
     fs.writeFileSync(path.join(staging, MANIFEST), JSON.stringify(manifest, null, 2), { mode: 0o600 });
-    await tar.c({ gzip: true, file: partial, cwd: staging, portable: true, mode: 0o600 } as tar.TarOptionsWithAliasesAsyncFile, [MANIFEST, DATABASE_FILE, PHOTOS_DIR]);
+    await tar.c({ gzip: true, file: partial, cwd: staging, portable: true, mode: 0o600 } as tar.TarOptionsWithAliasesAsyncFile, [
+      MANIFEST,
+      DATABASE_FILE,
+      PHOTOS_DIR,
+    ]);
     fs.chmodSync(partial, 0o600);
     fs.renameSync(partial, target);
     return { file: path.relative(dataDir, target), bytes: fs.statSync(target).size, photos: photos.length };

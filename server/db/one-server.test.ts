@@ -11,7 +11,8 @@ import { openDatabase } from './client';
 let dataDir: string;
 let first: ChildProcess;
 const env = () => ({ ...process.env, NODE_ENV: 'development', DATA_DIR: dataDir, PORT: '0', HOST: '127.0.0.1', DEMO_DATA: 'false', LOG_LEVEL: 'warn' });
-const tsx = (script: string, args: string[] = []) => spawnSync(process.execPath, ['--import', 'tsx', script, ...args], { env: env(), encoding: 'utf8', timeout: 120_000 });
+const tsx = (script: string, args: string[] = []) =>
+  spawnSync(process.execPath, ['--import', 'tsx', script, ...args], { env: env(), encoding: 'utf8', timeout: 120_000 });
 
 beforeAll(async () => {
   dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'lumenbook-one-server-'));

@@ -14,9 +14,7 @@ try {
   const { replaced, photos } = await restoreBackup(path.resolve(file), config.dataDir);
   // Opening applies any migration newer than the backup, so an old backup comes up to date.
   openDatabase(path.join(config.dataDir, 'lumenbook.db')).close();
-  console.log(
-    `Restored ${file} into ${config.dataDir} (${photos} photos)${replaced ? `; the previous database is kept as ${replaced}` : ''}`,
-  );
+  console.log(`Restored ${file} into ${config.dataDir} (${photos} photos)${replaced ? `; the previous database is kept as ${replaced}` : ''}`);
 } catch (err) {
   if (err instanceof DatabaseInUse) {
     console.error(`Not restored: ${err.message}`);

@@ -8,7 +8,13 @@ import { settings } from './schema/admin';
  * feature. A stored set that no longer validates falls back to the defaults.
  */
 export function readShopSettings(db: Pick<Db, 'select'>): ShopSettings {
-  const stored = Object.fromEntries(db.select().from(settings).all().map((r) => [r.key, r.value]));
+  const stored = Object.fromEntries(
+    db
+      .select()
+      .from(settings)
+      .all()
+      .map((r) => [r.key, r.value]),
+  );
   const parsed = shopSettingsSchema.safeParse({ ...DEFAULT_SHOP_SETTINGS, ...stored });
   return parsed.success ? parsed.data : DEFAULT_SHOP_SETTINGS;
 }

@@ -27,7 +27,7 @@ describe('first start on a full disk', () => {
   });
 });
 
-describe('files and folders are the owner\'s only', () => {
+describe("files and folders are the owner's only", () => {
   it('creates the data folder 0700 and the database 0600', () => {
     const dataDir = path.join(dir, 'data');
     const database = openDatabase(path.join(dataDir, 'lumenbook.db'));

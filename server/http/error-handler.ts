@@ -49,11 +49,11 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
     req.log?.error({ err }, `storage ${storage}`);
     const message =
       storage === 'full'
-        ? 'The disk holding the shop\'s data is full, so nothing was saved. Free some space (or ask whoever runs the server) and try again.'
-        : 'The shop\'s data folder cannot be written (read-only disk or permissions), so nothing was saved. Ask whoever runs the server.';
-    res.status(STATUS_OF[storage === 'full' ? 'storage_full' : 'storage_unavailable']).json(
-      envelope(storage === 'full' ? 'storage_full' : 'storage_unavailable', message, requestId),
-    );
+        ? "The disk holding the shop's data is full, so nothing was saved. Free some space (or ask whoever runs the server) and try again."
+        : "The shop's data folder cannot be written (read-only disk or permissions), so nothing was saved. Ask whoever runs the server.";
+    res
+      .status(STATUS_OF[storage === 'full' ? 'storage_full' : 'storage_unavailable'])
+      .json(envelope(storage === 'full' ? 'storage_full' : 'storage_unavailable', message, requestId));
     return;
   }
   req.log?.error({ err }, 'unhandled error');

@@ -36,7 +36,7 @@ describe('keys named like Object.prototype members', () => {
         let req = admin[method](`${url}?${key}=1`);
         if (d.method !== 'GET') req = req.set('Content-Type', 'application/json').send(`{"${key}":1}`);
         const res = await req;
-        if (res.status >= 500 || !res.body?.error && res.status >= 400) failures.push(`${d.method} ${url} ${key} → ${res.status}`);
+        if (res.status >= 500 || (!res.body?.error && res.status >= 400)) failures.push(`${d.method} ${url} ${key} → ${res.status}`);
       }
     }
     expect(failures).toEqual([]);
@@ -69,12 +69,24 @@ describe('malformed multipart uploads', () => {
   };
   const cases: [string, () => Promise<request.Response>][] = [
     ['missing boundary', raw('--x\r\nContent-Disposition: form-data; name="kind"\r\n\r\ngeneral\r\n--x--\r\n', 'multipart/form-data')],
-    ['truncated body', raw('--xyz\r\nContent-Disposition: form-data; name="file"; filename="a.png"\r\nContent-Type: image/png\r\n\r\n\x89PNG', 'multipart/form-data; boundary=xyz')],
-    ['NUL in the field name', raw('--xyz\r\nContent-Disposition: form-data; name="ki\x00nd"\r\n\r\ngeneral\r\n--xyz--\r\n', 'multipart/form-data; boundary=xyz')],
+    [
+      'truncated body',
+      raw(
+        '--xyz\r\nContent-Disposition: form-data; name="file"; filename="a.png"\r\nContent-Type: image/png\r\n\r\n\x89PNG',
+        'multipart/form-data; boundary=xyz',
+      ),
+    ],
+    [
+      'NUL in the field name',
+      raw('--xyz\r\nContent-Disposition: form-data; name="ki\x00nd"\r\n\r\ngeneral\r\n--xyz--\r\n', 'multipart/form-data; boundary=xyz'),
+    ],
     ['malformed part header', raw('--xyz\r\nContent-Disposition form-data name\r\n\r\ngeneral\r\n--xyz--\r\n', 'multipart/form-data; boundary=xyz')],
   ];
   it('NUL in the file name → a 4xx with the envelope', async () => {
-    const res = await raw('--xyz\r\nContent-Disposition: form-data; name="file"; filename="a\x00.png"\r\nContent-Type: image/png\r\n\r\nnot an image\r\n--xyz--\r\n', 'multipart/form-data; boundary=xyz')();
+    const res = await raw(
+      '--xyz\r\nContent-Disposition: form-data; name="file"; filename="a\x00.png"\r\nContent-Type: image/png\r\n\r\nnot an image\r\n--xyz--\r\n',
+      'multipart/form-data; boundary=xyz',
+    )();
     expect(res.status).toBeGreaterThanOrEqual(400);
     expect(res.status).toBeLessThan(500);
     expect(res.body.error.fieldErrors.file).toBeTruthy();

@@ -48,7 +48,11 @@ describe('access rules', () => {
     const r = express.Router();
     r.get('/sneaky', (_req, res) => res.json({}));
     app.use('/api', r);
-    expect(mountedRoutes(app).filter((x) => x.rule === undefined).map((x) => x.path)).toEqual(['/sneaky']);
+    expect(
+      mountedRoutes(app)
+        .filter((x) => x.rule === undefined)
+        .map((x) => x.path),
+    ).toEqual(['/sneaky']);
   });
 
   it('public routes are exactly the sign-in, reset, invitation and health routes', () => {
@@ -104,13 +108,19 @@ describe('bad input gets the error envelope with the field named', () => {
   });
 
   it('over-long strings', async () => {
-    const res = await h.agent().post('/api/auth/login').send({ email: 'a@demo.test', password: 'x'.repeat(500) });
+    const res = await h
+      .agent()
+      .post('/api/auth/login')
+      .send({ email: 'a@demo.test', password: 'x'.repeat(500) });
     expect(res.status).toBe(400);
     expect(res.body.error.fieldErrors.password).toBeTruthy();
   });
 
   it('oversized bodies', async () => {
-    const res = await h.agent().post('/api/auth/login').send({ email: 'a@demo.test', password: 'x'.repeat(200_000) });
+    const res = await h
+      .agent()
+      .post('/api/auth/login')
+      .send({ email: 'a@demo.test', password: 'x'.repeat(200_000) });
     expect(res.status).toBe(413);
     expect(res.body.error.code).toBe('payload_too_large');
   });

@@ -73,11 +73,7 @@ export function secureRouter() {
   const declared: DeclaredRoute[] = [];
 
   function add(method: 'get' | 'post' | 'patch' | 'put' | 'delete') {
-    return <R extends AccessRule, S extends Schemas = Record<never, never>>(
-      path: string,
-      options: RouteOptions<R, S>,
-      handler: Handler<R, S>,
-    ) => {
+    return <R extends AccessRule, S extends Schemas = Record<never, never>>(path: string, options: RouteOptions<R, S>, handler: Handler<R, S>) => {
       declared.push({ method: method.toUpperCase(), path, access: options.access });
       const run = async (req: Request, res: Response) => {
         const areq = req as AuthedRequest;

@@ -83,7 +83,13 @@ export async function createMailer(config: Pick<Config, 'smtp' | 'mailFrom'>, db
         resolve(typeof addr === 'object' && addr ? addr.port : 0);
       });
     });
-    transport = nodemailer.createTransport({ host: '127.0.0.1', port: fakeSmtpPort, secure: false, ignoreTLS: true, auth: { user: FAKE_SMTP_USER, pass: secret } });
+    transport = nodemailer.createTransport({
+      host: '127.0.0.1',
+      port: fakeSmtpPort,
+      secure: false,
+      ignoreTLS: true,
+      auth: { user: FAKE_SMTP_USER, pass: secret },
+    });
     logger.info({ port: fakeSmtpPort }, 'fake SMTP server files outgoing mail in the outbox');
   }
 

@@ -47,7 +47,8 @@ describe('Markdown rendering is safe', () => {
 
 describe('SVG plots are cleaned', () => {
   it('keeps shapes and text, drops scripts, handlers and links', () => {
-    const svg = '<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 10 10" onload="alert(1)"><script>alert(1)</script><a href="javascript:alert(1)"><circle cx="5" cy="5" r="2" fill="red" onclick="x()"/></a><text x="1" y="9">WPG %</text><foreignObject><div>x</div></foreignObject></svg>';
+    const svg =
+      '<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 10 10" onload="alert(1)"><script>alert(1)</script><a href="javascript:alert(1)"><circle cx="5" cy="5" r="2" fill="red" onclick="x()"/></a><text x="1" y="9">WPG %</text><foreignObject><div>x</div></foreignObject></svg>';
     const out = sanitizeSvg(svg);
     expect(out).toContain('viewBox="0 0 10 10"');
     expect(out).toContain('<circle cx="5" cy="5" r="2" fill="red"');

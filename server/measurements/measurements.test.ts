@@ -28,7 +28,15 @@ function newCoupons(n: number, role: 'treated' | 'control' = 'treated'): number[
   const db = h.database.db;
   const sp = db.select({ id: species.id }).from(species).limit(1).get()!.id;
   return db.transaction((tx) => {
-    const ids = Array.from({ length: n }, (_, i) => tx.insert(coupons).values({ tag: `BULK-${role}-${Date.now()}-${i}-${Math.random()}`, speciesId: sp, role }).returning().get().id);
+    const ids = Array.from(
+      { length: n },
+      (_, i) =>
+        tx
+          .insert(coupons)
+          .values({ tag: `BULK-${role}-${Date.now()}-${i}-${Math.random()}`, speciesId: sp, role })
+          .returning()
+          .get().id,
+    );
     refreshResults(tx, ids);
     return ids;
   });

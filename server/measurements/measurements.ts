@@ -113,7 +113,11 @@ function loadStates(tx: Db, couponIds: number[]): Map<number, CouponState> {
   const ids = JSON.stringify([...new Set(couponIds)]);
   const c = client(tx);
   const states = new Map<number, CouponState>();
-  for (const r of c.prepare('select id, tag, role from coupons where id in (select value from json_each(?))').all(ids) as { id: number; tag: string; role: 'treated' | 'control' }[]) {
+  for (const r of c.prepare('select id, tag, role from coupons where id in (select value from json_each(?))').all(ids) as {
+    id: number;
+    tag: string;
+    role: 'treated' | 'control';
+  }[]) {
     states.set(r.id, { tag: r.tag, role: r.role, weighings: [], dimensionStages: new Set() });
   }
   const ws = c
@@ -123,7 +127,9 @@ function loadStates(tx: Db, couponIds: number[]): Map<number, CouponState> {
     .all(ids) as (WeighingReading & { couponId: number })[];
   for (const w of ws) states.get(w.couponId)?.weighings.push({ stage: w.stage, massG: w.massG, measuredAt: w.measuredAt });
   const dims = c
-    .prepare("select coupon_id as couponId, stage from checks where coupon_id in (select value from json_each(?)) and kind = 'dimension' and superseded_by is null and deleted_at is null")
+    .prepare(
+      "select coupon_id as couponId, stage from checks where coupon_id in (select value from json_each(?)) and kind = 'dimension' and superseded_by is null and deleted_at is null",
+    )
     .all(ids) as { couponId: number; stage: string }[];
   for (const d of dims) states.get(d.couponId)?.dimensionStages.add(d.stage);
   return states;
@@ -148,7 +154,12 @@ function validate(entries: readonly MeasurementEntry[], states: Map<number, Coup
     (e.weighings ?? []).forEach((w, j) => {
       const at = { entry: i, list: 'weighings' as const, index: j };
       if (s.role === 'control' && (w.stage === 'soaked' || w.stage === 'cured')) {
-        problems.push({ ...at, field: 'stage', code: 'unprocessable', message: `${s.tag} is a control: it is never soaked in resin or cured, so it has no ${w.stage} weighing` });
+        problems.push({
+          ...at,
+          field: 'stage',
+          code: 'unprocessable',
+          message: `${s.tag} is a control: it is never soaked in resin or cured, so it has no ${w.stage} weighing`,
+        });
         return;
       }
       if (SINGLE_STAGES.includes(w.stage)) {
@@ -240,7 +251,15 @@ export function createMeasurements(deps: { now: () => Date }) {
     const checkRows: CheckRow[] = [];
     for (const e of entries) {
       for (const w of e.weighings ?? []) {
-        const row = insertWeighing(tx, { couponId: e.couponId, stage: w.stage, massG: w.massG, measuredAt: w.measuredAt, importId: importIdOf(source), source, createdBy: actor.id });
+        const row = insertWeighing(tx, {
+          couponId: e.couponId,
+          stage: w.stage,
+          massG: w.massG,
+          measuredAt: w.measuredAt,
+          importId: importIdOf(source),
+          source,
+          createdBy: actor.id,
+        });
         writeAudit(tx, { actorId: actor.id, action: 'create', entity: 'weighing', entityId: row.id, after: row });
         weighingRows.push(row);
       }
@@ -302,7 +321,9 @@ export function createMeasurements(deps: { now: () => Date }) {
     const insC = c.prepare(
       'insert into checks (coupon_id, kind, stage, measured_at, length_mm, width_mm, thickness_mm, volume_cm3, hardness_value, hardness_scale, moisture_pct, method, import_id, source, created_by) values (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)',
     );
-    const insA = c.prepare("insert into audit_log (actor_id, created_by, action, entity, entity_id, after, reason) values (?, ?, 'add-readings', 'coupon', ?, ?, ?)");
+    const insA = c.prepare(
+      "insert into audit_log (actor_id, created_by, action, entity, entity_id, after, reason) values (?, ?, 'add-readings', 'coupon', ?, ?, ?)",
+    );
     const perCoupon = new Map<number, { weighings: unknown[]; checks: unknown[] }>();
     let nw = 0;
     let nc = 0;
@@ -374,7 +395,10 @@ export function createMeasurements(deps: { now: () => Date }) {
       .filter(([k, v]) => v !== undefined && !['reason', 'measuredAt', 'method'].includes(k) && !allowed.includes(k))
       .map(([k]) => k);
     if (foreign.length) {
-      throw new ValidationFailed(`A ${old.kind} check has no ${foreign.join(', ')}`, Object.fromEntries(foreign.map((f) => [f, [`Not a field of a ${old.kind} check`]])));
+      throw new ValidationFailed(
+        `A ${old.kind} check has no ${foreign.join(', ')}`,
+        Object.fromEntries(foreign.map((f) => [f, [`Not a field of a ${old.kind} check`]])),
+      );
     }
     const next = {
       couponId: old.couponId,

@@ -27,7 +27,13 @@ const pick = <T>(list: readonly T[], n: number): T | undefined => (list.length ?
 
 /** One random change, through the HTTP API as the client sends it, so every write path is exercised. */
 const op = fc.oneof(
-  fc.record({ kind: fc.constant('weigh' as const), c: fc.nat(), stage: fc.constantFrom(...WEIGHING_STAGES), massG: fc.double({ min: 1, max: 60, noNaN: true }), t: fc.nat() }),
+  fc.record({
+    kind: fc.constant('weigh' as const),
+    c: fc.nat(),
+    stage: fc.constantFrom(...WEIGHING_STAGES),
+    massG: fc.double({ min: 1, max: 60, noNaN: true }),
+    t: fc.nat(),
+  }),
   fc.record({
     kind: fc.constant('dims' as const),
     c: fc.nat(),
@@ -37,9 +43,21 @@ const op = fc.oneof(
     th: fc.double({ min: 5, max: 40, noNaN: true }),
     t: fc.nat(),
   }),
-  fc.record({ kind: fc.constant('hardness' as const), c: fc.nat(), stage: fc.constantFrom(...CHECK_STAGES), scale: fc.constantFrom(...HARDNESS_SCALES), v: fc.integer({ min: 1, max: 99 }), t: fc.nat() }),
+  fc.record({
+    kind: fc.constant('hardness' as const),
+    c: fc.nat(),
+    stage: fc.constantFrom(...CHECK_STAGES),
+    scale: fc.constantFrom(...HARDNESS_SCALES),
+    v: fc.integer({ min: 1, max: 99 }),
+    t: fc.nat(),
+  }),
   fc.record({ kind: fc.constant('moisture' as const), c: fc.nat(), v: fc.double({ min: 0, max: 40, noNaN: true }), t: fc.nat() }),
-  fc.record({ kind: fc.constant('batch' as const), cs: fc.array(fc.nat(), { minLength: 1, maxLength: 3 }), massG: fc.double({ min: 1, max: 60, noNaN: true }), t: fc.nat() }),
+  fc.record({
+    kind: fc.constant('batch' as const),
+    cs: fc.array(fc.nat(), { minLength: 1, maxLength: 3 }),
+    massG: fc.double({ min: 1, max: 60, noNaN: true }),
+    t: fc.nat(),
+  }),
   fc.record({ kind: fc.constant('correct-weighing' as const), n: fc.nat(), massG: fc.double({ min: 1, max: 60, noNaN: true }) }),
   fc.record({ kind: fc.constant('correct-check' as const), n: fc.nat(), th: fc.double({ min: 5, max: 40, noNaN: true }) }),
   fc.record({ kind: fc.constant('delete-weighing' as const), n: fc.nat() }),
@@ -52,8 +70,20 @@ type Op = typeof op extends fc.Arbitrary<infer T> ? T : never;
 
 async function apply(o: Op, ids: { coupons: number[]; runs: number[]; lots: number[]; species: number[] }): Promise<number> {
   const db = h.database.db;
-  const liveW = () => db.select({ id: weighings.id }).from(weighings).where(and(isNull(weighings.supersededBy), isNull(weighings.deletedAt))).orderBy(asc(weighings.id)).all();
-  const liveC = () => db.select({ id: checks.id, kind: checks.kind }).from(checks).where(and(isNull(checks.supersededBy), isNull(checks.deletedAt))).orderBy(asc(checks.id)).all();
+  const liveW = () =>
+    db
+      .select({ id: weighings.id })
+      .from(weighings)
+      .where(and(isNull(weighings.supersededBy), isNull(weighings.deletedAt)))
+      .orderBy(asc(weighings.id))
+      .all();
+  const liveC = () =>
+    db
+      .select({ id: checks.id, kind: checks.kind })
+      .from(checks)
+      .where(and(isNull(checks.supersededBy), isNull(checks.deletedAt)))
+      .orderBy(asc(checks.id))
+      .all();
   const coupon = 'c' in o ? pick(ids.coupons, o.c)! : 0;
   let res: { status: number; body: unknown };
   switch (o.kind) {
@@ -61,10 +91,14 @@ async function apply(o: Op, ids: { coupons: number[]; runs: number[]; lots: numb
       res = await tech.post(`/api/coupons/${coupon}/weighings`).send({ stage: o.stage, massG: o.massG, measuredAt: at(o.t) });
       break;
     case 'dims':
-      res = await tech.post(`/api/coupons/${coupon}/checks`).send({ kind: 'dimension', stage: o.stage, measuredAt: at(o.t), lengthMm: o.l, widthMm: o.w, thicknessMm: o.th });
+      res = await tech
+        .post(`/api/coupons/${coupon}/checks`)
+        .send({ kind: 'dimension', stage: o.stage, measuredAt: at(o.t), lengthMm: o.l, widthMm: o.w, thicknessMm: o.th });
       break;
     case 'hardness':
-      res = await tech.post(`/api/coupons/${coupon}/checks`).send({ kind: 'hardness', stage: o.stage, measuredAt: at(o.t), hardnessValue: o.v, hardnessScale: o.scale });
+      res = await tech
+        .post(`/api/coupons/${coupon}/checks`)
+        .send({ kind: 'hardness', stage: o.stage, measuredAt: at(o.t), hardnessValue: o.v, hardnessScale: o.scale });
       break;
     case 'moisture':
       res = await tech.post(`/api/coupons/${coupon}/checks`).send({ kind: 'moisture', stage: 'dry', measuredAt: at(o.t), moisturePct: o.v });
@@ -104,9 +138,10 @@ async function apply(o: Op, ids: { coupons: number[]; runs: number[]; lots: numb
     case 'move': {
       const runId = pick(ids.runs, o.r)!;
       const current = db.select({ runId: coupons.runId }).from(coupons).where(eq(coupons.id, coupon)).get()?.runId ?? null;
-      res = o.out && current !== null
-        ? await tech.patch(`/api/runs/${current}`).send({ removeCouponIds: [coupon] })
-        : await tech.patch(`/api/runs/${runId}`).send({ addCouponIds: [coupon] });
+      res =
+        o.out && current !== null
+          ? await tech.patch(`/api/runs/${current}`).send({ removeCouponIds: [coupon] })
+          : await tech.patch(`/api/runs/${runId}`).send({ addCouponIds: [coupon] });
       break;
     }
     case 'lot':
@@ -153,10 +188,29 @@ describe('coupon_results', () => {
     const db = h.database.db;
     // A small working set keeps collisions (duplicates, corrections of the same coupon) frequent.
     const ids = {
-      coupons: db.select({ id: coupons.id }).from(coupons).orderBy(asc(coupons.id)).limit(12).all().map((r) => r.id),
-      runs: db.select({ id: runs.id }).from(runs).all().map((r) => r.id),
-      lots: db.select({ id: resinLots.id }).from(resinLots).all().map((r) => r.id),
-      species: db.select({ id: species.id }).from(species).limit(4).all().map((r) => r.id),
+      coupons: db
+        .select({ id: coupons.id })
+        .from(coupons)
+        .orderBy(asc(coupons.id))
+        .limit(12)
+        .all()
+        .map((r) => r.id),
+      runs: db
+        .select({ id: runs.id })
+        .from(runs)
+        .all()
+        .map((r) => r.id),
+      lots: db
+        .select({ id: resinLots.id })
+        .from(resinLots)
+        .all()
+        .map((r) => r.id),
+      species: db
+        .select({ id: species.id })
+        .from(species)
+        .limit(4)
+        .all()
+        .map((r) => r.id),
     };
     let accepted = 0;
     await fc.assert(

@@ -143,7 +143,10 @@ interface RawCheck extends Omit<StoredCheck, 'kind' | 'stage' | 'hardnessScale'>
 
 /** better-sqlite3 underneath drizzle: the same connection, so these statements run inside the caller's transaction. */
 function client(tx: Db) {
-  return (tx as unknown as { $client?: import('better-sqlite3').Database }).$client ?? (tx as unknown as { session: { client: import('better-sqlite3').Database } }).session.client;
+  return (
+    (tx as unknown as { $client?: import('better-sqlite3').Database }).$client ??
+    (tx as unknown as { session: { client: import('better-sqlite3').Database } }).session.client
+  );
 }
 
 function groupBy<T extends { couponId: number }>(rows: T[]): Map<number, T[]> {
@@ -201,8 +204,12 @@ export function refreshResults(tx: Db, couponIds: readonly number[]): number {
   const ids = JSON.stringify([...new Set(couponIds)]);
   const c = client(tx);
   const keys = c.prepare(`${KEYS_SQL} where c.id in ${IDS}`).all(ids) as RawKeys[];
-  const ws = c.prepare(`${WEIGHINGS_SQL} where w.coupon_id in ${IDS} and w.superseded_by is null and w.deleted_at is null order by w.measured_at, w.id`).all(ids) as RawWeighing[];
-  const cs = c.prepare(`${CHECKS_SQL} where k.coupon_id in ${IDS} and k.superseded_by is null and k.deleted_at is null order by k.measured_at, k.id`).all(ids) as RawCheck[];
+  const ws = c
+    .prepare(`${WEIGHINGS_SQL} where w.coupon_id in ${IDS} and w.superseded_by is null and w.deleted_at is null order by w.measured_at, w.id`)
+    .all(ids) as RawWeighing[];
+  const cs = c
+    .prepare(`${CHECKS_SQL} where k.coupon_id in ${IDS} and k.superseded_by is null and k.deleted_at is null order by k.measured_at, k.id`)
+    .all(ids) as RawCheck[];
   return writeRows(tx, keys, groupBy(ws), groupBy(cs));
 }
 
@@ -227,7 +234,9 @@ export function rebuildResults(tx: Db): number {
 
 /** True when some coupon has no results row (a database from before the table, or a restored backup). */
 export function resultsIncomplete(tx: Db): boolean {
-  const row = tx.get<{ missing: number }>(sql`select exists (select 1 from coupons c where not exists (select 1 from coupon_results r where r.coupon_id = c.id)) as missing`);
+  const row = tx.get<{ missing: number }>(
+    sql`select exists (select 1 from coupons c where not exists (select 1 from coupon_results r where r.coupon_id = c.id)) as missing`,
+  );
   return row.missing === 1;
 }
 
@@ -246,7 +255,18 @@ export function couponIdsOfResin(tx: Db, resinId: number): number[] {
 }
 
 /** The metrics a change of a coupon's inputs (not of its readings) can move, compared before and after. */
-const MOVABLE = ['wpgPct', 'voidFillPct', 'maxWpgPct', 'resinLoadingKgM3', 'cureLossPct', 'bulkingPct', 'swellingPct', 'dryDensityKgM3', 'drySg', 'mcPct'] as const;
+const MOVABLE = [
+  'wpgPct',
+  'voidFillPct',
+  'maxWpgPct',
+  'resinLoadingKgM3',
+  'cureLossPct',
+  'bulkingPct',
+  'swellingPct',
+  'dryDensityKgM3',
+  'drySg',
+  'mcPct',
+] as const;
 export type MovedResult = { couponId: number; before: Record<string, unknown>; after: Record<string, unknown> };
 
 /**
@@ -257,7 +277,15 @@ export type MovedResult = { couponId: number; before: Record<string, unknown>; a
 export function refreshResultsAround(tx: Db, couponIds: readonly number[], change: () => void): MovedResult[] {
   const ids = JSON.stringify([...new Set(couponIds)]);
   const cols = MOVABLE.map((k) => `${getTableColumns(couponResults)[k].name} as ${k}`).join(', ');
-  const read = () => new Map((client(tx).prepare(`select coupon_id as couponId, ${cols} from coupon_results where coupon_id in ${IDS}`).all(ids) as ({ couponId: number } & Record<string, unknown>)[]).map((r) => [r.couponId, r]));
+  const read = () =>
+    new Map(
+      (
+        client(tx).prepare(`select coupon_id as couponId, ${cols} from coupon_results where coupon_id in ${IDS}`).all(ids) as ({ couponId: number } & Record<
+          string,
+          unknown
+        >)[]
+      ).map((r) => [r.couponId, r]),
+    );
   const before = read();
   change();
   refreshResults(tx, couponIds);
@@ -266,7 +294,8 @@ export function refreshResultsAround(tx: Db, couponIds: readonly number[], chang
   for (const [couponId, a] of after) {
     const b = before.get(couponId);
     const keys = MOVABLE.filter((k) => (b?.[k] ?? null) !== (a[k] ?? null));
-    if (keys.length) moved.push({ couponId, before: Object.fromEntries(keys.map((k) => [k, b?.[k] ?? null])), after: Object.fromEntries(keys.map((k) => [k, a[k] ?? null])) });
+    if (keys.length)
+      moved.push({ couponId, before: Object.fromEntries(keys.map((k) => [k, b?.[k] ?? null])), after: Object.fromEntries(keys.map((k) => [k, a[k] ?? null])) });
   }
   return moved;
 }

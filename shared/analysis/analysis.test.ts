@@ -233,7 +233,13 @@ describe('two-group comparison', () => {
     const c1 = coupon({ sourceBoard: 'X' });
     const c2 = coupon({ sourceBoard: 'X' });
     const c3 = coupon({ sourceBoard: null });
-    expect(boardMeans([{ coupon: c1, value: 2 }, { coupon: c2, value: 4 }, { coupon: c3, value: 10 }]).sort()).toEqual([10, 3]);
+    expect(
+      boardMeans([
+        { coupon: c1, value: 2 },
+        { coupon: c2, value: 4 },
+        { coupon: c3, value: 10 },
+      ]).sort(),
+    ).toEqual([10, 3]);
   });
 });
 
@@ -277,13 +283,16 @@ describe('expected against actual for a run', () => {
 
 describe('CSV export', () => {
   it('neutralises formula-like text cells and leaves numbers alone', () => {
-    const csv = toCsv(['name', 'value'], [
-      ['=HYPERLINK("http://example.invalid","x")', -3.5],
-      ['+1', 2],
-      ['-cmd', 3],
-      ['@SUM(A1)', 4],
-      ['plain', null],
-    ]);
+    const csv = toCsv(
+      ['name', 'value'],
+      [
+        ['=HYPERLINK("http://example.invalid","x")', -3.5],
+        ['+1', 2],
+        ['-cmd', 3],
+        ['@SUM(A1)', 4],
+        ['plain', null],
+      ],
+    );
     const parsed = Papa.parse<string[]>(csv.trim()).data;
     expect(parsed[1]).toEqual(['\'=HYPERLINK("http://example.invalid","x")', '-3.5']);
     expect(parsed[2]![0]).toBe("'+1");

@@ -126,7 +126,9 @@ export function compareGroups(rows: readonly AnalysisCoupon[], a: GroupSpec, b: 
 
   if (xa.length < 2 || xb.length < 2) warnings.push('Each group needs at least 2 coupons with this metric for a test.');
   else if (xa.length < SMALL_GROUP_N || xb.length < SMALL_GROUP_N)
-    warnings.push(`With fewer than ${SMALL_GROUP_N} coupons in a group the interval is wide and a real difference can easily be missed; read this as a first look, not an answer.`);
+    warnings.push(
+      `With fewer than ${SMALL_GROUP_N} coupons in a group the interval is wide and a real difference can easily be missed; read this as a first look, not an answer.`,
+    );
   if (repeats && board && (board.nA < SMALL_GROUP_N || board.nB < SMALL_GROUP_N))
     warnings.push(`Only ${board.nA} and ${board.nB} source boards: the honest n is the number of boards, and it is small.`);
 
@@ -137,7 +139,8 @@ export function compareGroups(rows: readonly AnalysisCoupon[], a: GroupSpec, b: 
   } else {
     const d = used.meanDiff;
     const more = d >= 0 ? 'more' : 'less';
-    const basis = used === board ? ` (compared on the means of ${board.nA} and ${board.nB} source boards, since coupons from one board are not independent)` : '';
+    const basis =
+      used === board ? ` (compared on the means of ${board.nA} and ${board.nB} source boards, since coupons from one board are not independent)` : '';
     const clear = used.ci95[0] > 0 || used.ci95[1] < 0;
     sentence =
       `${labelA} averaged ${fmt(Math.abs(d))}${u} ${metricLabel} ${more} than ${labelB}, from ${nText}${basis}; ` +

@@ -53,7 +53,13 @@ export function expectedForRun(runId: number, runCoupons: readonly AnalysisCoupo
   const coupons: RunExpected['coupons'] = treated.map((c) => {
     const f = fractions.get(groupKey(c));
     const base = { id: c.id, tag: c.tag, species: c.speciesName, resin: c.resinName ?? '—', actualWpgPct: c.wpgPct };
-    if (!f) return { ...base, expectedWpgPct: null, differencePct: null, note: `No history: fewer than ${MIN_HISTORY} coupons of this species and resin in other runs` };
+    if (!f)
+      return {
+        ...base,
+        expectedWpgPct: null,
+        differencePct: null,
+        note: `No history: fewer than ${MIN_HISTORY} coupons of this species and resin in other runs`,
+      };
     used.set(groupKey(c), f);
     if (c.maxWpgPct === null) return { ...base, expectedWpgPct: null, differencePct: null, note: 'No measured SG, so no theoretical maximum to scale' };
     const expected = f.fillFraction * c.maxWpgPct;

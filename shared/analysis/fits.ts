@@ -38,10 +38,7 @@ export interface SimpleFitResult {
  * ŷ(x) ± t₀.₉₇₅,ₙ₋₂ · s · √(1/n + (x − x̄)²/Sxx) (e.g. NIST/SEMATECH e-Handbook §4.5.2, section from memory).
  * `per` is the step the sentence speaks in (0.1 of SG, 1 mm). Null with a reason when no line can be fitted.
  */
-export function simpleFit(
-  model: 'density' | 'thickness',
-  pts: readonly XY[],
-): SimpleFitResult | { note: string } {
+export function simpleFit(model: 'density' | 'thickness', pts: readonly XY[]): SimpleFitResult | { note: string } {
   const what = model === 'density' ? 'oven-dry SG' : 'thickness';
   if (pts.length < 3) return { note: `No WPG–${what} line: it needs at least 3 coupons, and ${pts.length} have both values.` };
   const x = pts.map((p) => p.x);
@@ -163,7 +160,13 @@ export function findOutliers(pts: readonly XY[], fit: SimpleFitResult | null, al
     const cov = c.referenceSgCov ?? DEFAULT_SG_COV;
     const z = (c.drySg - c.referenceSg) / (cov * c.referenceSg);
     if (Math.abs(z) > SG_WARNING_SDS) {
-      out.push({ id: c.id, tag: c.tag, kind: 'sg', value: z, reason: sgWarningText(c.drySg, { referenceSg: c.referenceSg, coefficientOfVariation: cov, z, plausible: false }) });
+      out.push({
+        id: c.id,
+        tag: c.tag,
+        kind: 'sg',
+        value: z,
+        reason: sgWarningText(c.drySg, { referenceSg: c.referenceSg, coefficientOfVariation: cov, z, plausible: false }),
+      });
     }
   }
   return out;

@@ -61,9 +61,25 @@ export function buildOverview(rows: readonly AnalysisCoupon[], sgBasis: SgBasis,
   const swelling: Overview['plots']['swelling'] = [];
   for (const c of rows) {
     if (c.hardnessValue !== null && c.hardnessScale !== null)
-      hardness.push({ id: c.id, tag: c.tag, species: c.speciesName, resin: c.role === 'control' ? 'control' : (c.resinName ?? '—'), role: c.role, scale: c.hardnessScale, value: c.hardnessValue });
+      hardness.push({
+        id: c.id,
+        tag: c.tag,
+        species: c.speciesName,
+        resin: c.role === 'control' ? 'control' : (c.resinName ?? '—'),
+        role: c.role,
+        scale: c.hardnessScale,
+        value: c.hardnessValue,
+      });
     if (c.swellingPct !== null)
-      swelling.push({ id: c.id, tag: c.tag, species: c.speciesName, resin: c.role === 'control' ? 'control' : (c.resinName ?? '—'), role: c.role, swellingPct: c.swellingPct, asePct: c.asePct });
+      swelling.push({
+        id: c.id,
+        tag: c.tag,
+        species: c.speciesName,
+        resin: c.role === 'control' ? 'control' : (c.resinName ?? '—'),
+        role: c.role,
+        swellingPct: c.swellingPct,
+        asePct: c.asePct,
+      });
   }
 
   return {
@@ -78,8 +94,16 @@ export function buildOverview(rows: readonly AnalysisCoupon[], sgBasis: SgBasis,
     theoreticalMax: theoreticalMax(sgPts),
     outliers,
     plots: {
-      wpgVsSg: thinPoints(sgPts.map((p) => point(p.c, p.x, p.y)), maxPoints, keep),
-      wpgVsThickness: thinPoints(thickPts.map((p) => point(p.c, p.x, p.y)), maxPoints, keep),
+      wpgVsSg: thinPoints(
+        sgPts.map((p) => point(p.c, p.x, p.y)),
+        maxPoints,
+        keep,
+      ),
+      wpgVsThickness: thinPoints(
+        thickPts.map((p) => point(p.c, p.x, p.y)),
+        maxPoints,
+        keep,
+      ),
       residuals: thinPoints(residualPts, maxPoints, keep),
       hardness: hardness.length > maxPoints ? hardness.filter((_, i) => i % Math.ceil(hardness.length / maxPoints) === 0) : hardness,
       swelling: swelling.length > maxPoints ? swelling.filter((_, i) => i % Math.ceil(swelling.length / maxPoints) === 0) : swelling,

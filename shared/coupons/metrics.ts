@@ -3,7 +3,16 @@ import type { CheckKind, CheckStage, CouponRole, HardnessScale, WeighingStage } 
 // would bring the statistics libraries with it.
 import { DomainError } from '../domain/errors';
 import { moistureContent } from '../domain/moisture';
-import { antiSwellEfficiency, cureLoss, maxWeightPercentGain, resinLoading, resinWeightPercentGain, voidFill, volumetricChange, weightPercentGain } from '../domain/resin';
+import {
+  antiSwellEfficiency,
+  cureLoss,
+  maxWeightPercentGain,
+  resinLoading,
+  resinWeightPercentGain,
+  voidFill,
+  volumetricChange,
+  weightPercentGain,
+} from '../domain/resin';
 
 /** A mass reading as the grid or the server holds it (current readings only: not superseded, not deleted). */
 export interface WeighingReading {

@@ -10,12 +10,69 @@ describe('reachedConstantMass (ASTM D4442 "to constant mass"; criteria set by th
   const rows: [string, [number, number][], boolean, number | null, number | null][] = [
     ['no readings', [], false, null, null],
     ['one reading', [[0, 100]], false, null, null],
-    ['two readings only 1 h apart', [[0, 100], [1, 99.99]], false, null, null],
-    ['still losing 1 % in 2 h', [[0, 100], [2, 99]], false, -1, 2],
-    ['0.05 % in 2 h: constant', [[0, 100], [2, 99.95]], true, -0.05, 2],
-    ['exactly 0.1 % is not less than 0.1 %, so not constant', [[0, 100], [2, 99.9]], false, -0.1, 2],
-    ['compares with the latest reading at least 2 h earlier', [[0, 110], [3, 100], [4, 99.99], [5, 99.98]], true, -0.02, 2],
-    ['readings out of order are sorted', [[5, 99.98], [0, 110], [3, 100]], true, -0.02, 2],
+    [
+      'two readings only 1 h apart',
+      [
+        [0, 100],
+        [1, 99.99],
+      ],
+      false,
+      null,
+      null,
+    ],
+    [
+      'still losing 1 % in 2 h',
+      [
+        [0, 100],
+        [2, 99],
+      ],
+      false,
+      -1,
+      2,
+    ],
+    [
+      '0.05 % in 2 h: constant',
+      [
+        [0, 100],
+        [2, 99.95],
+      ],
+      true,
+      -0.05,
+      2,
+    ],
+    [
+      'exactly 0.1 % is not less than 0.1 %, so not constant',
+      [
+        [0, 100],
+        [2, 99.9],
+      ],
+      false,
+      -0.1,
+      2,
+    ],
+    [
+      'compares with the latest reading at least 2 h earlier',
+      [
+        [0, 110],
+        [3, 100],
+        [4, 99.99],
+        [5, 99.98],
+      ],
+      true,
+      -0.02,
+      2,
+    ],
+    [
+      'readings out of order are sorted',
+      [
+        [5, 99.98],
+        [0, 110],
+        [3, 100],
+      ],
+      true,
+      -0.02,
+      2,
+    ],
   ];
   it.each(rows)('%s', (_case, readings, reached, change, interval) => {
     const result = reachedConstantMass(
@@ -42,7 +99,11 @@ describe('reachedConstantMass (ASTM D4442 "to constant mass"; criteria set by th
 
 describe('reachedConstantMass at its edges: "less than", roundoff at the limit, the weighings in between', () => {
   const criteria = { minIntervalHours: 2, maxChangePct: 0.1 };
-  const run = (readings: [number, number][]) => reachedConstantMass(readings.map(([h, m]) => ({ at: at(h), massG: m })), criteria);
+  const run = (readings: [number, number][]) =>
+    reachedConstantMass(
+      readings.map(([h, m]) => ({ at: at(h), massG: m })),
+      criteria,
+    );
 
   it.each([
     // By hand: each change is exactly 0.1 % in decimal, but the quotient rounds to just under or just over it.
@@ -51,18 +112,32 @@ describe('reachedConstantMass at its edges: "less than", roundoff at the limit, 
     [[1000, 999]],
     [[20, 20.02]],
   ])('a change of exactly 0.1 %% (%j) is not less than 0.1 %%, however the division rounds', ([a, b]) => {
-    expect(run([[0, a as number], [2, b as number]]).reached).toBe(false);
+    expect(
+      run([
+        [0, a as number],
+        [2, b as number],
+      ]).reached,
+    ).toBe(false);
   });
 
   it('a weighing in between that moved more than the limit keeps the pair from counting (0 h 50, 1 h 49.9, 2 h 50)', () => {
-    const r = run([[0, 50], [1, 49.9], [2, 50]]);
+    const r = run([
+      [0, 50],
+      [1, 49.9],
+      [2, 50],
+    ]);
     expect(r.lastChangePct).toBe(0);
     expect(r.largestChangePct).toBeCloseTo(-0.2, 10);
     expect(r.reached).toBe(false);
   });
 
   it('says what it compared: the two weighings, their times, and how many readings lay between', () => {
-    const r = run([[0, 110], [3, 100], [4, 99.99], [5, 99.98]]);
+    const r = run([
+      [0, 110],
+      [3, 100],
+      [4, 99.99],
+      [5, 99.98],
+    ]);
     expect(r.compared).toEqual({
       from: { at: at(3).toISOString(), massG: 100 },
       to: { at: at(5).toISOString(), massG: 99.98 },

@@ -53,10 +53,7 @@ const LIMIT_ROUNDOFF = 1e-9;
  * both criteria. Readings may come in any order. Fewer than two usable weighings gives reached = false
  * with nulls.
  */
-export function reachedConstantMass(
-  readings: readonly MassReading[],
-  { minIntervalHours, maxChangePct }: ConstantMassCriteria,
-): ConstantMassResult {
+export function reachedConstantMass(readings: readonly MassReading[], { minIntervalHours, maxChangePct }: ConstantMassCriteria): ConstantMassResult {
   requireFinite(minIntervalHours, 'minIntervalHours');
   requireFinite(maxChangePct, 'maxChangePct');
   if (minIntervalHours < 0) {

@@ -109,7 +109,20 @@ const cases: [string, () => unknown, DomainErrorCode, string][] = [
   ['two points for a line', () => fitLinear([1, 2], [1, 2]), 'too-few-points', 'x'],
   ['no rows', () => fitMultiple([], []), 'too-few-points', 'rows'],
   ['empty rows', () => fitMultiple([[], [], []], [1, 2, 3]), 'too-few-points', 'rows'],
-  ['three rows for two predictors', () => fitMultiple([[1, 2], [2, 1], [3, 5]], [1, 2, 3]), 'too-few-points', 'rows'],
+  [
+    'three rows for two predictors',
+    () =>
+      fitMultiple(
+        [
+          [1, 2],
+          [2, 1],
+          [3, 5],
+        ],
+        [1, 2, 3],
+      ),
+    'too-few-points',
+    'rows',
+  ],
   ['no hardness values', () => hardnessGain([], [1000]), 'too-few-points', 'treated'],
   // shapes
   ['x and y of different length', () => fitLinear([1, 2, 3], [1, 2]), 'length-mismatch', 'y'],
@@ -120,8 +133,37 @@ const cases: [string, () => unknown, DomainErrorCode, string][] = [
   ['constant y (line)', () => fitLinear([1, 2, 3], [5, 5, 5]), 'no-variation', 'y'],
   ['constant y (multiple)', () => fitMultiple([[1], [2], [3], [4]], [5, 5, 5, 5]), 'no-variation', 'y'],
   ['both groups without spread', () => welchTest([3, 3], [4, 4, 4]), 'no-variation', 'a'],
-  ['constant predictor', () => fitMultiple([[1, 7], [2, 7], [3, 7], [4, 7]], [1, 3, 2, 5]), 'rank-deficient', 'rows'],
-  ['collinear predictors', () => fitMultiple([[1, 2], [2, 4], [3, 6], [4, 8], [5, 10]], [1, 3, 2, 5, 4]), 'rank-deficient', 'rows'],
+  [
+    'constant predictor',
+    () =>
+      fitMultiple(
+        [
+          [1, 7],
+          [2, 7],
+          [3, 7],
+          [4, 7],
+        ],
+        [1, 3, 2, 5],
+      ),
+    'rank-deficient',
+    'rows',
+  ],
+  [
+    'collinear predictors',
+    () =>
+      fitMultiple(
+        [
+          [1, 2],
+          [2, 4],
+          [3, 6],
+          [4, 8],
+          [5, 10],
+        ],
+        [1, 3, 2, 5, 4],
+      ),
+    'rank-deficient',
+    'rows',
+  ],
 ];
 
 describe('DomainError: every refusal carries a machine code and the offending field', () => {

@@ -1,14 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { readReferenceCsv } from '../../tests/reference/read-reference';
 import { convertTemperature } from '../units';
-import {
-  basicSpecificGravity,
-  densityAtMoisture,
-  equilibriumMoistureContent,
-  maxMoistureContent,
-  moistureContent,
-  specificGravityAtMoisture,
-} from './index';
+import { basicSpecificGravity, densityAtMoisture, equilibriumMoistureContent, maxMoistureContent, moistureContent, specificGravityAtMoisture } from './index';
 
 describe('moistureContent (oven-dry basis)', () => {
   // [mass g, oven-dry mass g, MC %, source]
@@ -84,7 +77,7 @@ describe('impossible wood is refused, not computed', () => {
     expect(maxMoistureContent(0.5)).toBeCloseTo(135.065, 3);
   });
 
-  it('densityAtMoisture and specificGravityAtMoisture refuse a moisture content above the wood\'s maximum (G_b 0.5 at 136 %)', () => {
+  it("densityAtMoisture and specificGravityAtMoisture refuse a moisture content above the wood's maximum (G_b 0.5 at 136 %)", () => {
     expect(densityAtMoisture(0.5, 135)).toBeCloseTo(1000 * 0.5 * 2.35, 6);
     expect(() => densityAtMoisture(0.5, 136)).toThrow(expect.objectContaining({ code: 'moisture-out-of-range', field: 'moisturePct' }));
     expect(() => specificGravityAtMoisture(0.5, 136)).toThrow(expect.objectContaining({ code: 'moisture-out-of-range' }));

@@ -154,11 +154,7 @@ export function equilibriumMoistureContent(tempC: number, relativeHumidityPct: n
   const t = (tempC * 9) / 5 + 32;
   // The small margin lets the table's rounded °C edges (−1.1 °C, 132.2 °C) through.
   if (t < EMC_MIN_F - 0.1 || t > EMC_MAX_F + 0.1) {
-    throw new DomainError(
-      'temperature-out-of-range',
-      'tempC',
-      'tempC must be within −1.1 to 132.2 °C, the range of the handbook EMC equation',
-    );
+    throw new DomainError('temperature-out-of-range', 'tempC', 'tempC must be within −1.1 to 132.2 °C, the range of the handbook EMC equation');
   }
   const h = relativeHumidityPct / 100;
   const w = 330 + 0.452 * t + 0.00415 * t * t;
@@ -166,7 +162,5 @@ export function equilibriumMoistureContent(tempC: number, relativeHumidityPct: n
   const k1 = 6.34 + 7.75e-4 * t - 9.35e-5 * t * t;
   const k2 = 1.09 + 0.0284 * t - 9.04e-5 * t * t;
   const kh = k * h;
-  return (
-    (1800 / w) * (kh / (1 - kh) + (k1 * kh + 2 * k1 * k2 * kh * kh) / (1 + k1 * kh + k1 * k2 * kh * kh))
-  );
+  return (1800 / w) * (kh / (1 - kh) + (k1 * kh + 2 * k1 * k2 * kh * kh) / (1 + k1 * kh + k1 * k2 * kh * kh));
 }

@@ -5,8 +5,7 @@ import { readNistData, readReferenceCsv } from '../../tests/reference/read-refer
 import { fitLinear, fitMultiple } from './index';
 
 /** NIST's log relative error: the number of correct significant digits. */
-const lre = (computed: number, certified: number) =>
-  computed === certified ? Infinity : -Math.log10(Math.abs(computed - certified) / Math.abs(certified));
+const lre = (computed: number, certified: number) => (computed === certified ? Infinity : -Math.log10(Math.abs(computed - certified) / Math.abs(certified)));
 
 interface Certified {
   estimates: number[];
@@ -122,43 +121,56 @@ describe('"no spread" is decided relative to the data\'s size, not by an exact z
   // The mean of three copies of 0.35 is 0.34999999999999990 in binary floating point, so the centred
   // sums are roundoff (~1e-33), not zero; the fits must still refuse (by hand: a constant has no slope).
   it('fitLinear refuses a constant predictor that centres to roundoff: x = [0.35, 0.35, 0.35]', () => {
-    expect(() => fitLinear([0.35, 0.35, 0.35], [0, 1, 2])).toThrow(
-      expect.objectContaining({ code: 'no-variation', field: 'x' }),
-    );
+    expect(() => fitLinear([0.35, 0.35, 0.35], [0, 1, 2])).toThrow(expect.objectContaining({ code: 'no-variation', field: 'x' }));
   });
 
   it('fitLinear refuses a constant response that centres to roundoff: y = [0.35, 0.35, 0.35]', () => {
-    expect(() => fitLinear([0, 1, 2], [0.35, 0.35, 0.35])).toThrow(
-      expect.objectContaining({ code: 'no-variation', field: 'y' }),
-    );
+    expect(() => fitLinear([0, 1, 2], [0.35, 0.35, 0.35])).toThrow(expect.objectContaining({ code: 'no-variation', field: 'y' }));
   });
 
-  it.each([6.35, 12.7, 25.4, 50.8])(
-    'fitMultiple refuses a first column of constant thickness %d mm (its own-norm rank test could never fire)',
-    (thickness) => {
-      // n where the mean of n equal values is not the value itself (the mean rounds by one ulp).
-      for (const n of [6, 12, 24, 41, 96]) {
-        const rows = Array.from({ length: n }, (_, i) => [thickness, 0.3 + 0.01 * i]);
-        const y = rows.map(([, g], i) => 180 - 150 * (g as number) + (i % 3));
-        expect(() => fitMultiple(rows, y)).toThrow(expect.objectContaining({ code: 'rank-deficient', field: 'rows' }));
-      }
-    },
-  );
+  it.each([6.35, 12.7, 25.4, 50.8])('fitMultiple refuses a first column of constant thickness %d mm (its own-norm rank test could never fire)', (thickness) => {
+    // n where the mean of n equal values is not the value itself (the mean rounds by one ulp).
+    for (const n of [6, 12, 24, 41, 96]) {
+      const rows = Array.from({ length: n }, (_, i) => [thickness, 0.3 + 0.01 * i]);
+      const y = rows.map(([, g], i) => 180 - 150 * (g as number) + (i % 3));
+      expect(() => fitMultiple(rows, y)).toThrow(expect.objectContaining({ code: 'rank-deficient', field: 'rows' }));
+    }
+  });
 
   it('fitMultiple refuses a constant thickness in the second column too, and a constant y', () => {
     const rows = Array.from({ length: 12 }, (_, i) => [0.3 + 0.01 * i, 12.7]);
-    expect(() => fitMultiple(rows, rows.map((_, i) => i))).toThrow(expect.objectContaining({ code: 'rank-deficient' }));
+    expect(() =>
+      fitMultiple(
+        rows,
+        rows.map((_, i) => i),
+      ),
+    ).toThrow(expect.objectContaining({ code: 'rank-deficient' }));
     // Thicknesses one ulp apart (0.5 in converted two ways) are no spread either.
     const ulp = Array.from({ length: 12 }, (_, i) => [0.3 + 0.01 * i, i % 2 === 0 ? 12.7 : 12.700000000000001]);
-    expect(() => fitMultiple(ulp, ulp.map((_, i) => i))).toThrow(expect.objectContaining({ code: 'rank-deficient' }));
+    expect(() =>
+      fitMultiple(
+        ulp,
+        ulp.map((_, i) => i),
+      ),
+    ).toThrow(expect.objectContaining({ code: 'rank-deficient' }));
     const ok = Array.from({ length: 12 }, (_, i) => [0.3 + 0.01 * i, 10 + (i % 4)]);
-    expect(() => fitMultiple(ok, ok.map(() => 0.35))).toThrow(expect.objectContaining({ code: 'no-variation', field: 'y' }));
+    expect(() =>
+      fitMultiple(
+        ok,
+        ok.map(() => 0.35),
+      ),
+    ).toThrow(expect.objectContaining({ code: 'no-variation', field: 'y' }));
   });
 
   it('still fits a genuinely small spread: x = 10000000.1 … 10000000.3 (the scale of NIST StRD NumAcc4)', () => {
     const x = [10000000.1, 10000000.2, 10000000.3, 10000000.2];
     const fit = fitLinear(x, [1, 2, 3, 2.1]);
     expect(fit.slope).toBeGreaterThan(5);
-    expect(fitMultiple(x.map((v) => [v]), [1, 2, 3, 2.1]).coefficients[1]).toBeCloseTo(fit.slope, 4);
+    expect(
+      fitMultiple(
+        x.map((v) => [v]),
+        [1, 2, 3, 2.1],
+      ).coefficients[1],
+    ).toBeCloseTo(fit.slope, 4);
   });
 });

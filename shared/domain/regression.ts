@@ -161,11 +161,7 @@ export function fitMultiple(rows: readonly (readonly number[])[], y: readonly nu
     const akk = a[base + k] as number;
     const alpha = akk > 0 ? -norm : norm;
     if (Math.abs(alpha) <= NO_SPREAD_RELATIVE * (rawNorms[k] as number)) {
-      throw new DomainError(
-        'rank-deficient',
-        'rows',
-        `predictor ${k + 1} is constant or a linear combination of the others`,
-      );
+      throw new DomainError('rank-deficient', 'rows', `predictor ${k + 1} is constant or a linear combination of the others`);
     }
     // v = (akk − alpha, a[k+1…]); vᵀv = 2·norm·(norm + |akk|); H = I − 2vvᵀ/vᵀv.
     const v0 = akk - alpha;

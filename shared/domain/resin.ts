@@ -1,11 +1,4 @@
-import {
-  DomainError,
-  requireFinite,
-  requireFiniteArray,
-  requirePositiveDensity,
-  requirePositiveMass,
-  requirePositiveVolume,
-} from './errors';
+import { DomainError, requireFinite, requireFiniteArray, requirePositiveDensity, requirePositiveMass, requirePositiveVolume } from './errors';
 
 /**
  * Density of dry cell-wall substance, g/cm³, nearly species-independent. Literature spans about
@@ -18,11 +11,7 @@ export const DEFAULT_CELL_WALL_DENSITY = 1.5;
 function requireOvenDrySg(ovenDrySg: number, cellWallDensity: number, field: string): void {
   requireFinite(ovenDrySg, field);
   if (ovenDrySg <= 0 || ovenDrySg >= cellWallDensity) {
-    throw new DomainError(
-      'sg-out-of-range',
-      field,
-      `${field} must be greater than 0 and below the cell-wall density (${cellWallDensity})`,
-    );
+    throw new DomainError('sg-out-of-range', field, `${field} must be greater than 0 and below the cell-wall density (${cellWallDensity})`);
   }
 }
 
@@ -41,11 +30,7 @@ export function porosity(ovenDrySg: number, cellWallDensity: number = DEFAULT_CE
  * WPG_max = (1/G_od − 1/ρ_cw)·ρ_resin·100 (= φ·ρ_resin/G_od·100). Densities in g/cm³.
  * Follows from porosity() and weightPercentGain(); no separate published source.
  */
-export function maxWeightPercentGain(
-  ovenDrySg: number,
-  resinDensityGcm3: number,
-  cellWallDensity: number = DEFAULT_CELL_WALL_DENSITY,
-): number {
+export function maxWeightPercentGain(ovenDrySg: number, resinDensityGcm3: number, cellWallDensity: number = DEFAULT_CELL_WALL_DENSITY): number {
   requirePositiveDensity(resinDensityGcm3, 'resinDensityGcm3');
   requirePositiveDensity(cellWallDensity, 'cellWallDensity');
   requireOvenDrySg(ovenDrySg, cellWallDensity, 'ovenDrySg');

@@ -14,10 +14,7 @@ export const CURE_TEMPERATURE_RANGE_F = [200, 250] as const;
  * uses, so an oven typed as 250 °F is stored as exactly this upper end): 93.33… to 121.11… °C. The
  * rounded 93–121 °C would fail an oven at 250 °F and pass one at 199.5 °F.
  */
-export const CURE_TEMPERATURE_RANGE_C: readonly [number, number] = [
-  ((CURE_TEMPERATURE_RANGE_F[0] - 32) * 5) / 9,
-  ((CURE_TEMPERATURE_RANGE_F[1] - 32) * 5) / 9,
-];
+export const CURE_TEMPERATURE_RANGE_C: readonly [number, number] = [((CURE_TEMPERATURE_RANGE_F[0] - 32) * 5) / 9, ((CURE_TEMPERATURE_RANGE_F[1] - 32) * 5) / 9];
 
 /**
  * Slack at both ends of a cure window, °C: half the 0.1 °C step temperatures are shown in, so a metric

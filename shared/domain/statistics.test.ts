@@ -5,8 +5,7 @@ import { readNistData } from '../../tests/reference/read-reference';
 import { HEDGES_G_NOTE, hasSpread, summarize, welchTest } from './index';
 
 /** NIST's log relative error: the number of correct significant digits. */
-const lre = (computed: number, certified: number) =>
-  computed === certified ? Infinity : -Math.log10(Math.abs(computed - certified) / Math.abs(certified));
+const lre = (computed: number, certified: number) => (computed === certified ? Infinity : -Math.log10(Math.abs(computed - certified) / Math.abs(certified)));
 
 describe('summarize against NIST StRD univariate certified values', () => {
   // [dataset file, certified mean, certified SD (n − 1), min digits required, source]
@@ -62,7 +61,7 @@ describe('summarize: Student t interval', () => {
   });
 });
 
-describe('welchTest on Student\'s sleep data', () => {
+describe("welchTest on Student's sleep data", () => {
   // Cushny & Peebles (1905) J. Physiol. 32:501–510, as tabulated by Student (1908) Biometrika 6(1):1–25:
   // extra hours of sleep under two drugs. Reference results: R stats::t.test (Welch), as printed in the
   // documentation example of the R package afex, compare.2.vectors: t = −1.860813, df = 17.77647,
@@ -120,9 +119,7 @@ describe('the incomplete beta from jstat that welchTest uses for p, verified whe
 describe('welchTest: "no spread" relative to the data\'s size', () => {
   it('refuses two constant groups whose variances are roundoff: [0.3, 0.3, 0.3] vs [0.35, 0.35, 0.35]', () => {
     // By hand: both groups are constant, so the t statistic is 0/0; the old exact-zero test gave t = −1.27e15.
-    expect(() => welchTest([0.3, 0.3, 0.3], [0.35, 0.35, 0.35])).toThrow(
-      expect.objectContaining({ code: 'no-variation' }),
-    );
+    expect(() => welchTest([0.3, 0.3, 0.3], [0.35, 0.35, 0.35])).toThrow(expect.objectContaining({ code: 'no-variation' }));
   });
 
   it('treats a roundoff-only variance as exactly zero when the other group has spread', () => {

@@ -98,11 +98,7 @@ export function welchTest(a: readonly number[], b: readonly number[]): WelchResu
   const va = isNegligibleSpread(sa.centredSumSq, sa.rawSumSq) ? 0 : sampleVariance(xa);
   const vb = isNegligibleSpread(sb.centredSumSq, sb.rawSumSq) ? 0 : sampleVariance(xb);
   if (va === 0 && vb === 0) {
-    throw new DomainError(
-      'no-variation',
-      'a',
-      'neither group has any spread (all values equal to within roundoff), so the t test is undefined',
-    );
+    throw new DomainError('no-variation', 'a', 'neither group has any spread (all values equal to within roundoff), so the t test is undefined');
   }
   const meanDiff = mean(xa) - mean(xb);
   const qa = va / na;

@@ -33,11 +33,7 @@ describe('standardPressureAtAltitude (U.S. Standard Atmosphere 1976 / ISO 2533 t
   it(`a gauge reads about ${GAUGE_DROP_INHG_PER_1000_FT} inHg less per 1,000 ft (common practice, no published source; ±0.15 inHg)`, () => {
     const ft = 0.3048;
     for (const startFt of [0, 1000, 3000, 5000]) {
-      const drop = convertPressure(
-        standardPressureAtAltitude(startFt * ft) - standardPressureAtAltitude((startFt + 1000) * ft),
-        'kPa',
-        'inHg',
-      );
+      const drop = convertPressure(standardPressureAtAltitude(startFt * ft) - standardPressureAtAltitude((startFt + 1000) * ft), 'kPa', 'inHg');
       expect(Math.abs(drop - GAUGE_DROP_INHG_PER_1000_FT)).toBeLessThanOrEqual(0.15);
     }
   });
@@ -90,7 +86,7 @@ describe('gauge readings above the standard ambient: the weather allowance, the 
     expect(chamberPressure(101.325 * 1.049, { altitudeM: 0 }).clamped).toBe(true);
   });
 
-  it('uses the shop\'s barometer reading instead of the standard atmosphere when it has one', () => {
+  it("uses the shop's barometer reading instead of the standard atmosphere when it has one", () => {
     // A high-pressure day at sea level: the barometer reads 103.5 kPa; the gauge 100 kPa → 3.5 kPa absolute (by hand).
     const p = chamberPressure(100, { altitudeM: 0, barometerKpa: 103.5 });
     expect(p).toMatchObject({ ambientKpa: 103.5, ambientSource: 'barometer', clamped: false, note: null });
@@ -105,7 +101,9 @@ describe('gauge readings above the standard ambient: the weather allowance, the 
 describe('an altitude that makes every normal reading impossible is questioned', () => {
   const ft = (v: number) => v * 0.3048;
   it('questions 5,000 typed as metres by a metric user, offering the feet reading (5,000 ft = 1,524 m)', () => {
-    expect(altitudeQuestion(5000, 'metric')).toMatch(/5,000 m is higher than nearly any workshop: the standard air pressure there is 54\.0 kPa.*If you meant 5,000 ft, that is 1,524 m\./);
+    expect(altitudeQuestion(5000, 'metric')).toMatch(
+      /5,000 m is higher than nearly any workshop: the standard air pressure there is 54\.0 kPa.*If you meant 5,000 ft, that is 1,524 m\./,
+    );
     expect(altitudeQuestion(ft(15000), 'us')).toMatch(/15,000 ft is higher than nearly any workshop.*Is the altitude in feet\?/);
     expect(altitudeQuestion(1500, 'metric')).toBeNull();
     expect(altitudeQuestion(ft(1500), 'us')).toBeNull();

@@ -28,11 +28,7 @@ export function standardPressureAtAltitude(altitudeM: number): number {
   const geopotential = (EARTH_RADIUS_M * altitudeM) / (EARTH_RADIUS_M + altitudeM);
   // The millimetre of slack keeps the layer edges reachable after the geometric round trip.
   if (geopotential < MIN_GEOPOTENTIAL_M - 1e-3 || geopotential > MAX_GEOPOTENTIAL_M + 1e-3) {
-    throw new DomainError(
-      'altitude-out-of-range',
-      'altitudeM',
-      'altitudeM must lie in the troposphere of the standard atmosphere (−5 km to 11 km)',
-    );
+    throw new DomainError('altitude-out-of-range', 'altitudeM', 'altitudeM must lie in the troposphere of the standard atmosphere (−5 km to 11 km)');
   }
   const ratio = 1 - (LAPSE_RATE_K_PER_M * geopotential) / SEA_LEVEL_TEMPERATURE_K;
   return (SEA_LEVEL_PRESSURE_PA * Math.pow(ratio, PRESSURE_EXPONENT)) / 1000;

@@ -6,7 +6,10 @@ import { neutraliseCell, toSafeCsv } from './csv-safety';
 describe('formula neutralising for CSV exports', () => {
   it.each(['=HYPERLINK("http://example.invalid","x")', '+cmd|" /C calc"!A0', '-2+3', '@SUM(A1:A2)', '\t=1', '\r=1'])('%j is made inert', (cell) => {
     expect(neutraliseCell(cell)).toBe(`'${cell}`);
-    const csv = toSafeCsv([['tag', 'note'], ['A-1', cell]]);
+    const csv = toSafeCsv([
+      ['tag', 'note'],
+      ['A-1', cell],
+    ]);
     const back = Papa.parse<string[]>(csv).data[1]?.[1];
     expect(back).toBe(`'${cell}`);
   });

@@ -16,5 +16,8 @@ export function neutraliseCell(value: string): string {
  * `escapeFormulae`, prefixes every text cell that starts like a formula. Numbers stay numbers.
  */
 export function toSafeCsv(rows: (string | number | null)[][]): string {
-  return Papa.unparse(rows.map((r) => r.map((c) => c ?? '')), { escapeFormulae: true, newline: '\r\n' });
+  return Papa.unparse(
+    rows.map((r) => r.map((c) => c ?? '')),
+    { escapeFormulae: true, newline: '\r\n' },
+  );
 }

@@ -199,7 +199,21 @@ export function inferDateOrder(samples: { date: string; time?: string | null }[]
     };
   }
   const sep = (NUMERIC_DATE.exec(numeric[0]!.date) as RegExpExecArray)[2];
-  if (sep === '.') return { order: 'dmy', assumed: true, reason: 'Every date reads both ways; day-first was assumed because the dates are written with dots (01.03.2026), the usual day-first style' };
-  if (hints.decimalComma) return { order: 'dmy', assumed: true, reason: 'Every date reads both ways; day-first was assumed because the file writes decimal commas, as places with day-first dates do' };
-  return { order: 'mdy', assumed: true, reason: 'Every date reads both ways and nothing else in the file tells; month-first was assumed. Check a date you know' };
+  if (sep === '.')
+    return {
+      order: 'dmy',
+      assumed: true,
+      reason: 'Every date reads both ways; day-first was assumed because the dates are written with dots (01.03.2026), the usual day-first style',
+    };
+  if (hints.decimalComma)
+    return {
+      order: 'dmy',
+      assumed: true,
+      reason: 'Every date reads both ways; day-first was assumed because the file writes decimal commas, as places with day-first dates do',
+    };
+  return {
+    order: 'mdy',
+    assumed: true,
+    reason: 'Every date reads both ways and nothing else in the file tells; month-first was assumed. Check a date you know',
+  };
 }

@@ -26,7 +26,11 @@ export function sampleLines(text: string, truncated: boolean): string[] {
 }
 
 /** The sample read with a given format (detected or chosen by the user). */
-export function viewSample(lines: string[], format: Pick<ImportFormat, 'delimiter' | 'hasHeader' | 'decimal'>, knownTag?: (tag: string) => boolean): SampleView {
+export function viewSample(
+  lines: string[],
+  format: Pick<ImportFormat, 'delimiter' | 'hasHeader' | 'decimal'>,
+  knownTag?: (tag: string) => boolean,
+): SampleView {
   const all = splitRows(lines.join('\n'), format.delimiter);
   const header = format.hasHeader ? (all[0] ?? null) : null;
   const rows = format.hasHeader ? all.slice(1) : all;
@@ -35,8 +39,11 @@ export function viewSample(lines: string[], format: Pick<ImportFormat, 'delimite
 
 /** The order of day and month, from the mapped date (and time) columns of the sample. */
 export function dateOrderOf(rows: string[][], dateColumn: number | null, timeColumn: number | null, decimalComma: boolean): DateOrderGuess {
-  if (dateColumn === null) return { order: 'ymd', assumed: true, reason: 'No date column was found; the readings take the time of the upload unless you map one' };
-  const samples = rows.map((r) => ({ date: r[dateColumn] ?? '', time: timeColumn === null ? null : (r[timeColumn] ?? null) })).filter((s) => s.date.trim() !== '');
+  if (dateColumn === null)
+    return { order: 'ymd', assumed: true, reason: 'No date column was found; the readings take the time of the upload unless you map one' };
+  const samples = rows
+    .map((r) => ({ date: r[dateColumn] ?? '', time: timeColumn === null ? null : (r[timeColumn] ?? null) }))
+    .filter((s) => s.date.trim() !== '');
   return inferDateOrder(samples, { decimalComma });
 }
 
@@ -44,7 +51,12 @@ export function dateOrderOf(rows: string[][], dateColumn: number | null, timeCol
  * Everything detection finds in a decoded sample of the file, each choice with its reason, plus the
  * sample as read with those choices.
  */
-export function detectSample(text: string, encoding: EncodingGuess, truncated: boolean, knownTag?: (tag: string) => boolean): { detected: ImportDetected; view: SampleView; lines: string[] } {
+export function detectSample(
+  text: string,
+  encoding: EncodingGuess,
+  truncated: boolean,
+  knownTag?: (tag: string) => boolean,
+): { detected: ImportDetected; view: SampleView; lines: string[] } {
   const lines = sampleLines(text, truncated);
   const delimiter = detectDelimiter(lines);
   const firstRows = splitRows(lines.slice(0, 200).join('\n'), delimiter.delimiter);

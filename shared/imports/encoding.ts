@@ -73,5 +73,7 @@ export function binaryReason(bytes: Uint8Array, encoding: ImportEncoding): strin
     if (b === 0) return 'This file contains zero bytes, so it is a binary file, not a text file of readings';
     if (b < 0x20 && b !== 0x09 && b !== 0x0a && b !== 0x0d && b !== 0x0c) control++;
   }
-  return bytes.length > 0 && control / bytes.length > 0.05 ? 'This file is full of control characters, so it is a binary file, not a text file of readings' : null;
+  return bytes.length > 0 && control / bytes.length > 0.05
+    ? 'This file is full of control characters, so it is a binary file, not a text file of readings'
+    : null;
 }

@@ -28,8 +28,24 @@ describe('delimiter detection', () => {
 
 describe('header, decimal mark and line endings', () => {
   it('finds a header of names over rows of values', () => {
-    expect(detectHeader([['Tag', 'Mass'], ['A-1', '12.3 g']], '.').hasHeader).toBe(true);
-    expect(detectHeader([['A-1', '12.3 g'], ['A-2', '12.4 g']], '.').hasHeader).toBe(false);
+    expect(
+      detectHeader(
+        [
+          ['Tag', 'Mass'],
+          ['A-1', '12.3 g'],
+        ],
+        '.',
+      ).hasHeader,
+    ).toBe(true);
+    expect(
+      detectHeader(
+        [
+          ['A-1', '12.3 g'],
+          ['A-2', '12.4 g'],
+        ],
+        '.',
+      ).hasHeader,
+    ).toBe(false);
     expect(detectHeader([['Tag', 'Mass']], '.')).toMatchObject({ hasHeader: true });
   });
 
@@ -67,7 +83,15 @@ describe('column guesses and the first mapping', () => {
 
   it('uses known tags when given', () => {
     const known = new Set(['OAK-1']);
-    const cols = guessColumns(null, [['OAK-1', 'note'], ['OAK-1', 'other']], '.', (t) => known.has(t));
+    const cols = guessColumns(
+      null,
+      [
+        ['OAK-1', 'note'],
+        ['OAK-1', 'other'],
+      ],
+      '.',
+      (t) => known.has(t),
+    );
     expect(cols[0]?.kind).toBe('tag');
   });
 });

@@ -28,7 +28,6 @@ export function detectLineEnding(text: string): LineEnding {
 
 const SIGN_ONLY = /^[+-]$/;
 
-
 /**
  * With `spaces` as the separator a reading such as `+   12.345 g` falls apart into `+`, `12.345`, `g`;
  * this joins a lone sign to the number after it and a unit to the number before it, and drops the
@@ -92,7 +91,12 @@ export function detectDelimiter(lines: string[]): DelimiterGuess {
     // Consistency first; among equally consistent separators, the one giving more columns.
     const score = m.share * 100 + Math.min(m.value, 20) / 10 - (d === 'spaces' ? 1 : 0);
     if (!best || score > best.score) {
-      best = { delimiter: d, columns: m.value, score, reason: `${DELIMITER_LABELS[d]} splits ${Math.round(m.share * 100)} % of the sampled lines into ${m.value} fields` };
+      best = {
+        delimiter: d,
+        columns: m.value,
+        score,
+        reason: `${DELIMITER_LABELS[d]} splits ${Math.round(m.share * 100)} % of the sampled lines into ${m.value} fields`,
+      };
     }
   }
   if (!best) return { delimiter: ',', columns: 1, reason: 'No separator splits the lines into fields: the file has one column' };
@@ -119,16 +123,15 @@ export function detectHeader(rows: string[][], decimal: DecimalMark): { hasHeade
   if (!first) return { hasHeader: false, reason: 'The file is empty' };
   if (rest.length === 0) {
     const names = first.every((c) => c.trim() !== '' && !valueLike(c, decimal));
-    return names
-      ? { hasHeader: true, reason: 'The only line holds names, not values' }
-      : { hasHeader: false, reason: 'The only line holds values' };
+    return names ? { hasHeader: true, reason: 'The only line holds names, not values' } : { hasHeader: false, reason: 'The only line holds values' };
   }
   const firstValues = first.filter((c) => valueLike(c, decimal)).length;
-  const columnsWithValues = first
-    .map((_, i) => rest.filter((r) => valueLike(r[i] ?? '', decimal)).length / rest.length)
-    .filter((share) => share >= 0.5).length;
+  const columnsWithValues = first.map((_, i) => rest.filter((r) => valueLike(r[i] ?? '', decimal)).length / rest.length).filter((share) => share >= 0.5).length;
   if (firstValues === 0 && columnsWithValues > 0) return { hasHeader: true, reason: 'The first line holds names where the lines below hold numbers and dates' };
-  return { hasHeader: false, reason: firstValues > 0 ? 'The first line already holds values, so the file has no header' : 'The first line looks like the others' };
+  return {
+    hasHeader: false,
+    reason: firstValues > 0 ? 'The first line already holds values, so the file has no header' : 'The first line looks like the others',
+  };
 }
 
 /**
@@ -183,10 +186,13 @@ export function guessColumns(header: string[] | null, rows: string[][], decimal:
       ['stability', share((v) => readStabilityFlag(v) !== null)],
       ['unit', share((v) => readMassUnit(v) !== null)],
       ['number', share((v) => parseDecimal(v.replace(/^[+-]\s*/, ''), decimal) !== null)],
-      ['reading', share((v) => {
-        const r = parseReading(v, decimal);
-        return r.ok && (r.unit !== null || r.stable !== null || /^[+-]|\s{2,}/.test(v));
-      })],
+      [
+        'reading',
+        share((v) => {
+          const r = parseReading(v, decimal);
+          return r.ok && (r.unit !== null || r.stable !== null || /^[+-]|\s{2,}/.test(v));
+        }),
+      ],
       ['tag', knownTags ? share((v) => knownTags(v)) : share((v) => /^[A-Za-z][A-Za-z0-9._/-]*\d[A-Za-z0-9._/-]*$/.test(v) && !readMassUnit(v))],
     ];
     let kind: ColumnKind = values.length ? 'text' : 'empty';

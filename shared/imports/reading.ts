@@ -9,8 +9,7 @@ export const READING_FAILURES = ['empty', 'not-a-number', 'unknown-unit', 'overl
 export type ReadingFailure = (typeof READING_FAILURES)[number];
 
 export type Reading =
-  | { ok: true; value: number; unit: ImportMassUnit | null; stable: boolean | null }
-  | { ok: false; reason: ReadingFailure; message: string; unitText?: string };
+  { ok: true; value: number; unit: ImportMassUnit | null; stable: boolean | null } | { ok: false; reason: ReadingFailure; message: string; unitText?: string };
 
 /**
  * Stability markers as balances print them, upper-cased. A balance that marks a reading as still
@@ -81,7 +80,8 @@ export function parseReading(text: string, decimal: DecimalMark = '.'): Reading 
     if (flag !== null) stable = stable === null ? flag : stable && flag;
     s = s.slice(0, trail.index).trim();
   }
-  if (OVERLOAD.test(s)) return { ok: false, reason: 'overload', message: `The balance reported "${s}" (over or under its range, or an error) instead of a mass` };
+  if (OVERLOAD.test(s))
+    return { ok: false, reason: 'overload', message: `The balance reported "${s}" (over or under its range, or an error) instead of a mass` };
   const m = BODY.exec(s);
   if (!m) return { ok: false, reason: 'not-a-number', message: `"${clip(text)}" is not a number` };
   const value = parseDecimal((m[2] as string).replace(/\s+/g, ' '), decimal);

@@ -49,7 +49,14 @@ export function readRow(cells: string[], mapping: ImportMapping, ctx: RowContext
   let massG: number | null = null;
   let stable: boolean | null = null;
   if (!reading.ok) {
-    const code: ImportProblemCode = reading.reason === 'empty' ? 'mass-empty' : reading.reason === 'unknown-unit' ? 'unknown-unit' : reading.reason === 'overload' ? 'overload' : 'mass-not-a-number';
+    const code: ImportProblemCode =
+      reading.reason === 'empty'
+        ? 'mass-empty'
+        : reading.reason === 'unknown-unit'
+          ? 'unknown-unit'
+          : reading.reason === 'overload'
+            ? 'overload'
+            : 'mass-not-a-number';
     problems.push({ code, column: massCol, message: reading.reason === 'empty' ? 'No mass in this row' : reading.message });
   } else {
     stable = reading.stable;
@@ -57,7 +64,12 @@ export function readRow(cells: string[], mapping: ImportMapping, ctx: RowContext
     if (!unit && mapping.unitColumn !== null) {
       const u = cell(cells, mapping.unitColumn);
       unit = u ? readMassUnit(u) : mapping.fixedUnit;
-      if (!unit) problems.push({ code: 'unknown-unit', column: nameOf(ctx, mapping.unitColumn), message: `"${u.slice(0, 20)}" is not a mass unit Lumenbook knows (g, kg, oz, lb, ct, dwt)` });
+      if (!unit)
+        problems.push({
+          code: 'unknown-unit',
+          column: nameOf(ctx, mapping.unitColumn),
+          message: `"${u.slice(0, 20)}" is not a mass unit Lumenbook knows (g, kg, oz, lb, ct, dwt)`,
+        });
     } else unit ??= mapping.fixedUnit;
     if (unit) {
       const g = toGrams(reading.value, unit);
@@ -81,7 +93,9 @@ export function readRow(cells: string[], mapping: ImportMapping, ctx: RowContext
     const w = d ? parseWallTime(d, t, mapping.format.dateOrder) : null;
     if (!w) {
       const col = nameOf(ctx, mapping.dateColumn);
-      const what = d ? `"${d.slice(0, 30)}${t ? ` ${t.slice(0, 20)}` : ''}" is not a date and time that can be read ${ORDER_WORDS[mapping.format.dateOrder]}` : 'No date in this row';
+      const what = d
+        ? `"${d.slice(0, 30)}${t ? ` ${t.slice(0, 20)}` : ''}" is not a date and time that can be read ${ORDER_WORDS[mapping.format.dateOrder]}`
+        : 'No date in this row';
       problems.push({ code: 'bad-date', column: col, message: what });
       measuredAt = null;
     } else measuredAt = wallTimeToIso(w, mapping.utcOffsetMinutes);
@@ -91,7 +105,11 @@ export function readRow(cells: string[], mapping: ImportMapping, ctx: RowContext
     const day = ctx.fallbackIso.slice(0, 10);
     const w = t ? parseWallTime(day, t, 'ymd') : null;
     if (!w) {
-      problems.push({ code: 'bad-date', column: nameOf(ctx, mapping.timeColumn), message: t ? `"${t.slice(0, 20)}" is not a time of day` : 'No time in this row' });
+      problems.push({
+        code: 'bad-date',
+        column: nameOf(ctx, mapping.timeColumn),
+        message: t ? `"${t.slice(0, 20)}" is not a time of day` : 'No time in this row',
+      });
       measuredAt = null;
     } else measuredAt = wallTimeToIso(w, mapping.utcOffsetMinutes);
   }

@@ -35,8 +35,7 @@ export const ALWAYS_CAUTION: Caution = {
   id: 'governing-rules',
   title: 'What governs',
   text:
-    "Follow the resin's safety data sheet, local fire and building codes and licensed practice. " +
-    'This app only reminds; it does not make the work safe.',
+    "Follow the resin's safety data sheet, local fire and building codes and licensed practice. " + 'This app only reminds; it does not make the work safe.',
 };
 
 const BY_STAGE: Record<RunStage, Caution[]> = {

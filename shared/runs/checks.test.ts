@@ -17,7 +17,16 @@ function base(over: Partial<RunCheckInput> = {}): RunCheckInput {
     resin: { name: 'Test resin', cureMinC: 93, cureMaxC: 121, shelfLifeDays: 365 },
     lot: { code: 'L1', activatedAt: '2026-01-01', status: 'active' },
     coupons: [
-      { id: 1, tag: 'A', thicknessMm: 20, hasDryWeighing: true, dryingChecks: [{ at: T(-10), massG: 50.0 }, { at: T(-6), massG: 49.98 }] },
+      {
+        id: 1,
+        tag: 'A',
+        thicknessMm: 20,
+        hasDryWeighing: true,
+        dryingChecks: [
+          { at: T(-10), massG: 50.0 },
+          { at: T(-6), massG: 49.98 },
+        ],
+      },
     ],
     dryingRule: { minIntervalHours: 2, maxChangePct: 0.1 },
     now: new Date(T(20)),
@@ -68,7 +77,18 @@ describe('run rule checks on crafted runs', () => {
   });
 
   it('warns when drying did not reach constant mass, and waits while drying is still open', () => {
-    const notDry = [{ id: 1, tag: 'A', thicknessMm: 20, hasDryWeighing: true, dryingChecks: [{ at: T(-10), massG: 50.0 }, { at: T(-6), massG: 49.5 }] }];
+    const notDry = [
+      {
+        id: 1,
+        tag: 'A',
+        thicknessMm: 20,
+        hasDryWeighing: true,
+        dryingChecks: [
+          { at: T(-10), massG: 50.0 },
+          { at: T(-6), massG: 49.5 },
+        ],
+      },
+    ];
     const c = status(base({ coupons: notDry }), 'drying-constant-mass');
     expect(c).toMatchObject({ status: 'warn', couponIds: [1] });
     const open = [{ stage: 'drying' as const, startedAt: T(-30), endedAt: null }];
@@ -118,7 +138,7 @@ describe('the cure window is 200–250 °F as the trade states it, checked at it
     }
   });
 
-  it('shows the window and the reading in the reader\'s units with sensible rounding', () => {
+  it("shows the window and the reading in the reader's units with sensible rounding", () => {
     const us = status(base({ stages: at(F(250)), ...noResin, units: 'us' }), 'cure-temperature')?.reason;
     expect(us).toBe('The thermometer in the oven read 250 °F, inside 200–250 °F (the usual window; no resin is recorded).');
     const metric = status(base({ stages: at(F(250)), ...noResin, units: 'metric' }), 'cure-temperature')?.reason;
@@ -166,7 +186,19 @@ describe('durations in words show what was compared', () => {
 
 describe('drying to constant mass says what it compared', () => {
   it('shows the change, the two times and the largest change in between for a coupon that did not make it', () => {
-    const coupons = [{ id: 1, tag: 'A', thicknessMm: 20, hasDryWeighing: true, dryingChecks: [{ at: T(-10), massG: 50 }, { at: T(-9), massG: 49.9 }, { at: T(-8), massG: 50 }] }];
+    const coupons = [
+      {
+        id: 1,
+        tag: 'A',
+        thicknessMm: 20,
+        hasDryWeighing: true,
+        dryingChecks: [
+          { at: T(-10), massG: 50 },
+          { at: T(-9), massG: 49.9 },
+          { at: T(-8), massG: 50 },
+        ],
+      },
+    ];
     const c = status(base({ coupons }), 'drying-constant-mass');
     expect(c?.status).toBe('warn');
     expect(c?.reason).toContain(`A changed 0 % from ${T(-10)} to ${T(-8)} (2 h, -0.2 % at most in between)`);
@@ -174,7 +206,18 @@ describe('drying to constant mass says what it compared', () => {
   });
 
   it('does not count a change of exactly 0.1 % as constant (the rule says "less than")', () => {
-    const coupons = [{ id: 1, tag: 'A', thicknessMm: 20, hasDryWeighing: true, dryingChecks: [{ at: T(-10), massG: 50 }, { at: T(-6), massG: 49.95 }] }];
+    const coupons = [
+      {
+        id: 1,
+        tag: 'A',
+        thicknessMm: 20,
+        hasDryWeighing: true,
+        dryingChecks: [
+          { at: T(-10), massG: 50 },
+          { at: T(-6), massG: 49.95 },
+        ],
+      },
+    ];
     expect(status(base({ coupons }), 'drying-constant-mass')?.status).toBe('warn');
   });
 });

@@ -6,13 +6,7 @@ import type { UnitChoice } from '../units';
 import { durationSeconds, formatDuration, formatTemperature, formatTemperatureRange } from './format';
 import { soakRequirement } from './timers';
 import { stageMinutes, type StageTimes } from './stages';
-import {
-  DEFAULT_CURE_WINDOW_C,
-  DEFAULT_SHELF_LIFE_DAYS,
-  LOT_NEAR_EXPIRY_DAYS,
-  MIN_CURE_MINUTES,
-  THIN_COUPON_MAX_MM,
-} from './thresholds';
+import { DEFAULT_CURE_WINDOW_C, DEFAULT_SHELF_LIFE_DAYS, LOT_NEAR_EXPIRY_DAYS, MIN_CURE_MINUTES, THIN_COUPON_MAX_MM } from './thresholds';
 
 export const RUN_RULES = ['soak-time', 'cure-temperature', 'drying-constant-mass', 'lot-shelf-life', 'dry-weighings', 'cure-time'] as const;
 export type RunRule = (typeof RUN_RULES)[number];
@@ -160,7 +154,12 @@ function dryingConstantMass(input: RunCheckInput): RuleCheck {
   if (withChecks === 0) {
     return stillDrying
       ? { rule, status: 'pending', reason: `No drying-check weighings yet; constant mass means ${criterion}.`, couponIds: ids }
-      : { rule, status: 'warn', reason: `No drying-check weighings were recorded, so the run does not show that the coupons were dry (${criterion}).`, couponIds: ids };
+      : {
+          rule,
+          status: 'warn',
+          reason: `No drying-check weighings were recorded, so the run does not show that the coupons were dry (${criterion}).`,
+          couponIds: ids,
+        };
   }
   const details = notReached.flatMap((c) => (c.compared ? [c.compared] : []));
   const shown = details.slice(0, 3).join('; ') + (details.length > 3 ? `; and ${details.length - 3} more` : '');
@@ -172,7 +171,8 @@ function dryingConstantMass(input: RunCheckInput): RuleCheck {
 
 function lotShelfLife(input: RunCheckInput): RuleCheck {
   const rule = 'lot-shelf-life';
-  if (!input.lot) return { rule, status: input.stages.some((s) => s.stage !== 'drying') ? 'warn' : 'pending', reason: 'No resin lot is recorded for this run.' };
+  if (!input.lot)
+    return { rule, status: input.stages.some((s) => s.stage !== 'drying') ? 'warn' : 'pending', reason: 'No resin lot is recorded for this run.' };
   const shelf = input.resin?.shelfLifeDays ?? DEFAULT_SHELF_LIFE_DAYS;
   // The lot's age when the resin went on the wood, or today while the run has not reached the resin yet.
   const usedAt = stageOf(input, 'vacuum')?.startedAt;
@@ -195,7 +195,11 @@ function lotShelfLife(input: RunCheckInput): RuleCheck {
     return { rule, status: 'warn', reason: `Lot ${input.lot.code} is marked ${input.lot.status}.` };
   }
   if (shelf - ageDays <= LOT_NEAR_EXPIRY_DAYS) {
-    return { rule, status: 'warn', reason: `Lot ${input.lot.code} was ${ageDays} days old ${when}, within ${LOT_NEAR_EXPIRY_DAYS} days of its ${shelf}-day shelf life.` };
+    return {
+      rule,
+      status: 'warn',
+      reason: `Lot ${input.lot.code} was ${ageDays} days old ${when}, within ${LOT_NEAR_EXPIRY_DAYS} days of its ${shelf}-day shelf life.`,
+    };
   }
   return { rule, status: 'ok', reason: `Lot ${input.lot.code} was ${ageDays} days old ${when}, within its ${shelf}-day shelf life.` };
 }
@@ -208,8 +212,18 @@ function dryWeighings(input: RunCheckInput): RuleCheck {
   const vacuumStarted = stageOf(input, 'vacuum') !== undefined;
   const tags = listTags(missing.map((c) => c.tag));
   return vacuumStarted
-    ? { rule, status: 'fail', reason: `${missing.length} coupons went under vacuum without a dry weighing, so their uptake cannot be worked out: ${tags}.`, couponIds: missing.map((c) => c.id) }
-    : { rule, status: 'pending', reason: `${missing.length} coupons still need a dry weighing before the vacuum: ${tags}.`, couponIds: missing.map((c) => c.id) };
+    ? {
+        rule,
+        status: 'fail',
+        reason: `${missing.length} coupons went under vacuum without a dry weighing, so their uptake cannot be worked out: ${tags}.`,
+        couponIds: missing.map((c) => c.id),
+      }
+    : {
+        rule,
+        status: 'pending',
+        reason: `${missing.length} coupons still need a dry weighing before the vacuum: ${tags}.`,
+        couponIds: missing.map((c) => c.id),
+      };
 }
 
 function cureTime(input: RunCheckInput): RuleCheck {

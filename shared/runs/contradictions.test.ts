@@ -36,7 +36,12 @@ describe("a run's lot against the resin the trial planned", () => {
   });
 
   it('is silent when the lot matches, when there is no lot, and for coupons without a plan', () => {
-    expect(lotResinWarnings({ code: 'L-7', resin: amber }, coupons.filter((c) => c.id !== 12 && c.id !== 13))).toEqual([]);
+    expect(
+      lotResinWarnings(
+        { code: 'L-7', resin: amber },
+        coupons.filter((c) => c.id !== 12 && c.id !== 13),
+      ),
+    ).toEqual([]);
     expect(lotResinWarnings(null, coupons)).toEqual([]);
   });
 });

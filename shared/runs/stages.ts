@@ -61,10 +61,7 @@ export type StageDecision = { ok: true } | { ok: false; reason: string; field: s
  * must have ended; it cannot start before the previous recorded stage ended; it cannot end before it
  * started. Updating a recorded stage is checked against its neighbours the same way.
  */
-export function checkStage(
-  recorded: readonly StageTimes[],
-  next: { stage: RunStage; startedAt: string; endedAt: string | null },
-): StageDecision {
+export function checkStage(recorded: readonly StageTimes[], next: { stage: RunStage; startedAt: string; endedAt: string | null }): StageDecision {
   const map = byStage(recorded);
   const idx = order(next.stage);
   const label = STAGE_LABELS[next.stage];
@@ -113,7 +110,11 @@ export function checkStage(
       .find((s): s is StageTimes => s !== undefined);
     if (following) {
       if (next.endedAt === null) {
-        return { ok: false, field: 'endedAt', reason: `${label} needs an end time: the ${STAGE_LABELS[following.stage].toLowerCase()} stage has already started` };
+        return {
+          ok: false,
+          field: 'endedAt',
+          reason: `${label} needs an end time: the ${STAGE_LABELS[following.stage].toLowerCase()} stage has already started`,
+        };
       }
       if (Date.parse(next.endedAt) > Date.parse(following.startedAt)) {
         return {

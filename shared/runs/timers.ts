@@ -76,7 +76,10 @@ export function dueItems(stages: readonly StageTimes[], now: Date): DueSummary {
   }
   const soak = stages.find((s) => s.stage === 'soak');
   if (soak && soak.endedAt === null) {
-    const min = soakMinimumEnd(stages.find((s) => s.stage === 'vacuum'), soak);
+    const min = soakMinimumEnd(
+      stages.find((s) => s.stage === 'vacuum'),
+      soak,
+    );
     if (min !== null) {
       push(
         'soak-minimum',

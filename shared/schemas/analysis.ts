@@ -39,7 +39,10 @@ export const analysisFiltersObject = z.object({
   from: dateText.optional(),
   to: dateText.optional(),
 });
-function checkRanges(v: { thicknessMinMm?: number | undefined; thicknessMaxMm?: number | undefined; from?: string | undefined; to?: string | undefined }, ctx: z.RefinementCtx) {
+function checkRanges(
+  v: { thicknessMinMm?: number | undefined; thicknessMaxMm?: number | undefined; from?: string | undefined; to?: string | undefined },
+  ctx: z.RefinementCtx,
+) {
   if (v.thicknessMinMm !== undefined && v.thicknessMaxMm !== undefined && v.thicknessMinMm > v.thicknessMaxMm) {
     ctx.addIssue({ code: 'custom', path: ['thicknessMaxMm'], message: 'The largest thickness is below the smallest' });
   }
@@ -269,8 +272,28 @@ export const overviewSchema = z.object({
     wpgVsSg: pointSetSchema,
     wpgVsThickness: pointSetSchema,
     residuals: pointSetSchema,
-    hardness: z.array(z.object({ id: z.number().int(), tag: z.string(), species: z.string(), resin: z.string(), role: z.enum(COUPON_ROLES), scale: z.enum(HARDNESS_SCALES), value: num })),
-    swelling: z.array(z.object({ id: z.number().int(), tag: z.string(), species: z.string(), resin: z.string(), role: z.enum(COUPON_ROLES), swellingPct: num, asePct: nullableNum })),
+    hardness: z.array(
+      z.object({
+        id: z.number().int(),
+        tag: z.string(),
+        species: z.string(),
+        resin: z.string(),
+        role: z.enum(COUPON_ROLES),
+        scale: z.enum(HARDNESS_SCALES),
+        value: num,
+      }),
+    ),
+    swelling: z.array(
+      z.object({
+        id: z.number().int(),
+        tag: z.string(),
+        species: z.string(),
+        resin: z.string(),
+        role: z.enum(COUPON_ROLES),
+        swellingPct: num,
+        asePct: nullableNum,
+      }),
+    ),
   }),
 });
 export type Overview = z.infer<typeof overviewSchema>;
@@ -281,13 +304,9 @@ export const compareResultSchema = z.object({
   unit: z.string(),
   a: compareSideSchema,
   b: compareSideSchema,
-  welch: z
-    .object({ t: num, df: num, p: num, meanDiff: num, ci95: interval, hedgesG: num })
-    .nullable(),
+  welch: z.object({ t: num, df: num, p: num, meanDiff: num, ci95: interval, hedgesG: num }).nullable(),
   /** Same test on source-board means, when boards repeat within a group. */
-  boardMeans: z
-    .object({ nA: z.number().int(), nB: z.number().int(), t: num, df: num, p: num, meanDiff: num, ci95: interval, hedgesG: num })
-    .nullable(),
+  boardMeans: z.object({ nA: z.number().int(), nB: z.number().int(), t: num, df: num, p: num, meanDiff: num, ci95: interval, hedgesG: num }).nullable(),
   /** Which result to read: 'coupons' when each coupon has its own board, else 'board-means'. */
   trust: z.enum(['coupons', 'board-means']),
   sentence: z.string(),

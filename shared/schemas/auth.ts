@@ -52,7 +52,11 @@ export type LoginInput = z.infer<typeof loginSchema>;
 export const passwordResetRequestSchema = z.strictObject({ email: emailSchema });
 export type PasswordResetRequestInput = z.infer<typeof passwordResetRequestSchema>;
 
-export const tokenSchema = z.string().min(20).max(200).regex(/^[A-Za-z0-9_-]+$/, 'Malformed token');
+export const tokenSchema = z
+  .string()
+  .min(20)
+  .max(200)
+  .regex(/^[A-Za-z0-9_-]+$/, 'Malformed token');
 
 export const passwordResetConfirmSchema = z.strictObject({ token: tokenSchema, password: passwordSchema });
 export type PasswordResetConfirmInput = z.infer<typeof passwordResetConfirmSchema>;

@@ -34,7 +34,10 @@ export function listResponseSchema<T extends z.ZodType>(item: T) {
 
 export const idParamsSchema = z.strictObject({ id: z.coerce.number().int().positive() });
 
-export const emailSchema = z.email('Enter a valid e-mail address').max(254).transform((s) => s.toLowerCase());
+export const emailSchema = z
+  .email('Enter a valid e-mail address')
+  .max(254)
+  .transform((s) => s.toLowerCase());
 /** UTF-8 length of a string, counted by code point (no TextEncoder: shared code uses no platform globals). */
 export function utf8Bytes(s: string): number {
   let n = 0;

@@ -1,12 +1,5 @@
 import { z } from 'zod';
-import {
-  CANONICAL_FORM,
-  FINDING_ACTIONS,
-  FINDING_STATES,
-  SIGNATURE_ALGORITHM,
-  SIGNATURE_MEANINGS,
-  THREAD_ENTRY_KINDS,
-} from '../constants/findings';
+import { CANONICAL_FORM, FINDING_ACTIONS, FINDING_STATES, SIGNATURE_ALGORITHM, SIGNATURE_MEANINGS, THREAD_ENTRY_KINDS } from '../constants/findings';
 import { listQuerySchema, listResponseSchema } from './common';
 
 export const TITLE_MAX = 200;

@@ -1,11 +1,5 @@
 import { z } from 'zod';
-import {
-  IMPORT_COMMIT_CHOICES,
-  IMPORT_EXISTING_CHOICES,
-  IMPORT_PROBLEM_CODES,
-  IMPORT_ROW_OUTCOMES,
-  IMPORT_STATUSES,
-} from '../constants/imports';
+import { IMPORT_COMMIT_CHOICES, IMPORT_EXISTING_CHOICES, IMPORT_PROBLEM_CODES, IMPORT_ROW_OUTCOMES, IMPORT_STATUSES } from '../constants/imports';
 import { WEIGHING_STAGES } from '../constants/records';
 import { DATE_ORDERS } from '../imports/dates';
 import { IMPORT_ENCODINGS } from '../imports/encoding';

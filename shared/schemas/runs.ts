@@ -84,7 +84,13 @@ export const recordStageSchema = z
     stage: z.enum(RUN_STAGES),
     startedAt: timestampSchema,
     endedAt: timestampSchema.nullable().optional(),
-    plannedMinutes: z.number().int().min(1).max(14 * 24 * 60).nullable().optional(),
+    plannedMinutes: z
+      .number()
+      .int()
+      .min(1)
+      .max(14 * 24 * 60)
+      .nullable()
+      .optional(),
     bubblingStoppedAt: timestampSchema.nullable().optional(),
     ovenSetC: ovenTempSchema.nullable().optional(),
     ovenMeasuredC: ovenTempSchema.nullable().optional(),
@@ -293,7 +299,13 @@ export const correctStageSchema = z
   .strictObject({
     startedAt: timestampSchema.optional(),
     endedAt: timestampSchema.nullable().optional(),
-    plannedMinutes: z.number().int().min(1).max(14 * 24 * 60).nullable().optional(),
+    plannedMinutes: z
+      .number()
+      .int()
+      .min(1)
+      .max(14 * 24 * 60)
+      .nullable()
+      .optional(),
     bubblingStoppedAt: timestampSchema.nullable().optional(),
     ovenSetC: ovenTempSchema.nullable().optional(),
     ovenMeasuredC: ovenTempSchema.nullable().optional(),

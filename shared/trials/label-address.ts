@@ -17,7 +17,10 @@ export interface LabelAddress {
 
 /** Host names that always mean "this computer": localhost and its subdomains, 127.0.0.0/8, ::1, and the unspecified 0.0.0.0 and ::. */
 export function isLoopbackHost(hostname: string): boolean {
-  const h = hostname.toLowerCase().replace(/^\[|\]$/g, '').replace(/\.$/, '');
+  const h = hostname
+    .toLowerCase()
+    .replace(/^\[|\]$/g, '')
+    .replace(/\.$/, '');
   if (h === 'localhost' || h.endsWith('.localhost')) return true;
   if (/^127(\.\d{1,3}){3}$/.test(h) || h === '0.0.0.0') return true;
   if (h === '::1' || h === '::' || h === '0:0:0:0:0:0:0:1') return true;

@@ -44,7 +44,7 @@ describe('planning warnings', () => {
   });
 });
 
-describe('planning warnings speak the reader\'s units', () => {
+describe("planning warnings speak the reader's units", () => {
   it('a US-units plan at 260 °F reads "260 °F … 200–250 °F", never "126.66666666666667 °C"', () => {
     const resin = { name: 'Clear', cureMinC: ((200 - 32) * 5) / 9, cureMaxC: ((250 - 32) * 5) / 9 };
     const us = { ...ctx, resin: () => resin, units: 'us' as const };

@@ -39,10 +39,7 @@ export interface PlanContext {
   units?: UnitChoice;
 }
 
-export function planningWarnings(
-  plan: { controlsPerSpecies: number; conditions: readonly PlannedCondition[] },
-  ctx: PlanContext,
-): PlanningWarning[] {
+export function planningWarnings(plan: { controlsPerSpecies: number; conditions: readonly PlannedCondition[] }, ctx: PlanContext): PlanningWarning[] {
   const out: PlanningWarning[] = [];
   const describe = (c: PlannedCondition) => `${ctx.speciesName(c.speciesId)} · ${ctx.resin(c.resinId)?.name ?? `resin ${c.resinId}`} · ${c.processLabel}`;
 

@@ -41,7 +41,13 @@ export function speciesCode(commonName: string): string {
   if (ordered.length === 0) return 'SP';
   const last = ordered[ordered.length - 1]!;
   const code =
-    ordered.length === 1 ? last.slice(0, 3) : ordered.slice(0, -1).slice(0, 3).map((w) => w[0]).join('') + last.slice(0, 2);
+    ordered.length === 1
+      ? last.slice(0, 3)
+      : ordered
+          .slice(0, -1)
+          .slice(0, 3)
+          .map((w) => w[0])
+          .join('') + last.slice(0, 2);
   return code.toUpperCase().slice(0, 5);
 }
 
@@ -51,7 +57,13 @@ export function resinCode(name: string): string {
   if (ws.length === 0) return 'RS';
   const letters = ws.filter((w) => !/^\d+$/.test(w));
   const numbers = ws.filter((w) => /^\d+$/.test(w));
-  const code = ws.length === 1 ? ws[0]!.slice(0, 3) : letters.map((w) => w[0]).join('').slice(0, 3) + numbers.join('');
+  const code =
+    ws.length === 1
+      ? ws[0]!.slice(0, 3)
+      : letters
+          .map((w) => w[0])
+          .join('')
+          .slice(0, 3) + numbers.join('');
   return code.toUpperCase().slice(0, 6);
 }
 
@@ -94,9 +106,7 @@ export function controlTag(trial: string, species: string, n: number): string {
   return `${trial}-${species}-C${nn(n)}`;
 }
 
-export type ParsedTag =
-  | { role: 'treated'; species: string; resin: string; n: number }
-  | { role: 'control'; species: string; n: number };
+export type ParsedTag = { role: 'treated'; species: string; resin: string; n: number } | { role: 'control'; species: string; n: number };
 
 /** Reads a tag of this scheme back; null for a tag of another trial or another scheme. */
 export function parseTag(trial: string, tag: string): ParsedTag | null {

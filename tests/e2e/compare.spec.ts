@@ -15,7 +15,10 @@ async function signIn(page: Page, email: string) {
 
 async function openCompareFromTrial(page: Page) {
   await page.goto('/trials');
-  await page.getByRole('link', { name: new RegExp(DEMO_TRIAL) }).first().click();
+  await page
+    .getByRole('link', { name: new RegExp(DEMO_TRIAL) })
+    .first()
+    .click();
   await page.getByRole('link', { name: 'Results in Compare' }).click();
   await expect(page).toHaveURL(/\/compare\?trialId=\d+/);
   await expect(page.getByTestId('plot-wpg-sg').locator('svg[role="img"]')).toBeVisible({ timeout: 20_000 });

@@ -54,7 +54,9 @@ test('a technician imports a scale file, sees every problem row, commits, sees W
   const preview = page.getByRole('region', { name: 'Preview' });
   await expect(preview.getByText(/5 rows read: 3 accepted, 1 skipped, 1 with problems/)).toBeVisible({ timeout: 30_000 });
   const problems = preview.getByRole('table', { name: /Each row with its column and the reason/ });
-  await expect(problems.getByRole('row').filter({ hasText: 'No coupon is tagged "T26-001-YBU-EPD9-03"; did you mean T26-001-YBU-EPD90-03' })).toContainText('Sample');
+  await expect(problems.getByRole('row').filter({ hasText: 'No coupon is tagged "T26-001-YBU-EPD9-03"; did you mean T26-001-YBU-EPD90-03' })).toContainText(
+    'Sample',
+  );
   await expect(problems.getByRole('row').filter({ hasText: 'unstable' })).toContainText('5');
   await expect(preview.getByRole('cell', { name: '57.6 g' })).toBeVisible();
   await expectNoSeriousViolations(page);

@@ -6,7 +6,6 @@ test.use({ signedInAs: 'technician' });
 // What the browser's fetch wrapper sends with every write (CSRF defence beside the SameSite cookie).
 const WRITE_HEADERS = { 'x-lumenbook-csrf': '1' };
 
-
 /** Three fresh treated coupons in a new run, so the grid starts empty whatever else the demo holds. */
 async function freshRun(request: APIRequestContext): Promise<{ runId: number; tags: string[] }> {
   const species = await request.get('/api/species?pageSize=5');

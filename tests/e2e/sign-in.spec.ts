@@ -1,7 +1,5 @@
 import { expect, seriousViolations, signIn, test } from './fixtures';
 
-
-
 // What each demo role should and should not see in the main navigation.
 const ROLES = [
   { email: 'admin@demo.test', sees: ['Bench', 'Trials', 'Imports', 'Users', 'Outbox', 'Settings'], hidden: [] },

@@ -49,6 +49,9 @@ test('a technician corrects a recorded cure temperature with a reason, and the r
   await expect(newest).toContainText('Reason: “Second thermometer read 107.5, the first was off the shelf”');
 
   // Sending the stage form again with another value is refused; the correction is the way.
-  const resend = await page.request.post(`/api/runs/${runId}/stages`, { headers: WRITE_HEADERS, data: { stage: 'cure', startedAt: at(14), ovenMeasuredC: 99 } });
+  const resend = await page.request.post(`/api/runs/${runId}/stages`, {
+    headers: WRITE_HEADERS,
+    data: { stage: 'cure', startedAt: at(14), ovenMeasuredC: 99 },
+  });
   expect(resend.status()).toBe(409);
 });

@@ -17,7 +17,10 @@ test('typed grid values survive a click on another menu item and a reload, and l
   const tag = `E2E-DRAFT-${Date.now().toString(36).toUpperCase()}`;
   const coupon = await page.request.post('/api/coupons', { headers: WRITE_HEADERS, data: { tag, speciesId, role: 'treated' } });
   expect(coupon.status(), await coupon.text()).toBe(201);
-  const run = await page.request.post('/api/runs', { headers: WRITE_HEADERS, data: { chamber: 'Draft test pot', couponIds: [(await coupon.json()).coupon.id] } });
+  const run = await page.request.post('/api/runs', {
+    headers: WRITE_HEADERS,
+    data: { chamber: 'Draft test pot', couponIds: [(await coupon.json()).coupon.id] },
+  });
   const runId: number = (await run.json()).run.id;
 
   await page.goto(`/runs/${runId}/coupons`);

@@ -1,5 +1,13 @@
 import { index, integer, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
-import { CHECK_KINDS, CHECK_STAGES, COUPON_ROLES, HARDNESS_SCALES, PHOTO_KINDS, WEIGHING_STAGES, type MeasurementSource } from '../../../shared/constants/records';
+import {
+  CHECK_KINDS,
+  CHECK_STAGES,
+  COUPON_ROLES,
+  HARDNESS_SCALES,
+  PHOTO_KINDS,
+  WEIGHING_STAGES,
+  type MeasurementSource,
+} from '../../../shared/constants/records';
 import { users } from './auth';
 import { createdAt, createdBy, id } from './columns';
 import { species } from './reference';

@@ -40,7 +40,12 @@ export const imports = sqliteTable(
     createdAt: createdAt(),
     createdBy: createdBy().references(() => users.id),
   },
-  (t) => [index('imports_sha_idx').on(t.sha256), index('imports_status_idx').on(t.status), index('imports_created_idx').on(t.createdAt, t.id), index('imports_shape_idx').on(t.shapeKey)],
+  (t) => [
+    index('imports_sha_idx').on(t.sha256),
+    index('imports_status_idx').on(t.status),
+    index('imports_created_idx').on(t.createdAt, t.id),
+    index('imports_shape_idx').on(t.shapeKey),
+  ],
 );
 
 /** Every row of a file that was not imported as it stands, with its row number, column and reason. */

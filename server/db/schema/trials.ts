@@ -48,5 +48,9 @@ export const trialConditions = sqliteTable(
     createdAt: createdAt(),
     createdBy: createdBy().references(() => users.id),
   },
-  (t) => [index('trial_conditions_trial_idx').on(t.trialId), index('trial_conditions_species_idx').on(t.speciesId), index('trial_conditions_resin_idx').on(t.resinId)],
+  (t) => [
+    index('trial_conditions_trial_idx').on(t.trialId),
+    index('trial_conditions_species_idx').on(t.speciesId),
+    index('trial_conditions_resin_idx').on(t.resinId),
+  ],
 );

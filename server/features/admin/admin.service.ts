@@ -7,12 +7,7 @@ import { outbox, settings } from '../../db/schema/admin';
 import type { ListQuery } from '../../../shared/schemas/common';
 import { readShopSettings } from '../../db/shop-settings';
 import { labelAddress } from '../../../shared/trials/label-address';
-import {
-  type OutboxMessage,
-  type SettingsResponse,
-  type ShopSettings,
-  type UpdateShopSettingsInput,
-} from '../../../shared/schemas/admin';
+import { type OutboxMessage, type SettingsResponse, type ShopSettings, type UpdateShopSettingsInput } from '../../../shared/schemas/admin';
 import type { User } from '../../../shared/schemas/auth';
 
 export function createAdminService(deps: FeatureDeps) {
@@ -56,10 +51,7 @@ export function createAdminService(deps: FeatureDeps) {
           tx.delete(settings).where(eq(settings.key, key)).run();
           continue;
         }
-        tx.insert(settings)
-          .values({ key, value, createdBy: actor.id })
-          .onConflictDoUpdate({ target: settings.key, set: { value } })
-          .run();
+        tx.insert(settings).values({ key, value, createdBy: actor.id }).onConflictDoUpdate({ target: settings.key, set: { value } }).run();
       }
       writeAudit(tx, { actorId: actor.id, action: 'update', entity: 'settings', entityId: null, before, after: { ...before, ...input } });
     });

@@ -29,7 +29,7 @@ function generatedShop(n: number): { database: Database_; dir: string; resinIds:
   const insResin = s.prepare("insert into resins (name, kind, liquid_density_g_cm3, cured_density_g_cm3) values (?, 'methacrylate', 1.02, ?)");
   const resinIds = [0, 1, 2, 3].map((i) => Number(insResin.run(`Bench resin ${i + 1}`, 1.1 + 0.03 * i).lastInsertRowid));
   const next = stream(7);
-  const insCoupon = s.prepare("insert into coupons (tag, species_id, role, source_board) values (?, ?, ?, ?)");
+  const insCoupon = s.prepare('insert into coupons (tag, species_id, role, source_board) values (?, ?, ?, ?)');
   const insResult = s.prepare(
     `insert into coupon_results (coupon_id, tag, species_id, resin_id, role, source_board, dry_mass_g, cured_mass_g, thickness_mm, dry_sg, wpg_pct,
        resin_loading_kg_m3, void_fill_pct, max_wpg_pct, swelling_pct, swelling_basis, hardness_cured_shore_d, hardness_dry_shore_d, hardness, problems, problem_count)
@@ -51,9 +51,24 @@ function generatedShop(n: number): { database: Database_; dir: string; resinIds:
       const wpg = cured ? Math.max(1, maxWpg * (0.55 + 0.1 * next()) - 0.2 * thickness) : null;
       const dry = 20 + 10 * next();
       insResult.run(
-        id, tag, sp.id, treated ? resinIds[i % 4]! : null, role, board, dry, wpg === null ? null : dry * (1 + wpg / 100), thickness, sg, wpg,
-        wpg === null ? null : (wpg / 100) * sg * 1000, wpg === null ? null : (wpg / maxWpg) * 100, maxWpg,
-        treated ? 2 + 3 * next() : 10 + 4 * next(), 'volume', treated ? 70 + 5 * next() : null, treated ? null : 55 + 5 * next(),
+        id,
+        tag,
+        sp.id,
+        treated ? resinIds[i % 4]! : null,
+        role,
+        board,
+        dry,
+        wpg === null ? null : dry * (1 + wpg / 100),
+        thickness,
+        sg,
+        wpg,
+        wpg === null ? null : (wpg / 100) * sg * 1000,
+        wpg === null ? null : (wpg / maxWpg) * 100,
+        maxWpg,
+        treated ? 2 + 3 * next() : 10 + 4 * next(),
+        'volume',
+        treated ? 70 + 5 * next() : null,
+        treated ? null : 55 + 5 * next(),
       );
     }
   })();

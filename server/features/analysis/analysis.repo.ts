@@ -29,7 +29,6 @@ function speciesInfo(db: Db): Map<number, SpeciesInfo> {
   return out;
 }
 
-
 interface Selected {
   id: number;
   tag: string;
@@ -119,10 +118,38 @@ function rawWhere(f: AnalysisFilters): { clause: string; params: (string | numbe
 }
 
 type RawRow = [
-  number, string, number | null, number | null, number | null, string | null, number, number | null, string | null, number | null,
-  number | null, 'treated' | 'control', string | null, number | null, number | null, number | null, number | null, number | null, number | null,
-  number | null, number | null, number | null, 'volume' | 'mass' | null, number | null, number | null, number | null,
-  number | null, number | null, number | null, number, string, string,
+  number,
+  string,
+  number | null,
+  number | null,
+  number | null,
+  string | null,
+  number,
+  number | null,
+  string | null,
+  number | null,
+  number | null,
+  'treated' | 'control',
+  string | null,
+  number | null,
+  number | null,
+  number | null,
+  number | null,
+  number | null,
+  number | null,
+  number | null,
+  number | null,
+  number | null,
+  'volume' | 'mass' | null,
+  number | null,
+  number | null,
+  number | null,
+  number | null,
+  number | null,
+  number | null,
+  number,
+  string,
+  string,
 ];
 
 /**
@@ -142,10 +169,36 @@ export function loadAnalysisCoupons(db: Db, f: AnalysisFilters): AnalysisCoupon[
     .raw(true)
     .all(...params) as RawRow[];
   const rows: Selected[] = raw.map((x) => ({
-    id: x[0], tag: x[1], trialId: x[2], conditionId: x[3], runId: x[4], runCode: x[5], speciesId: x[6], resinId: x[7], resinName: x[8],
-    resinDensityGcm3: x[9], lotId: x[10], role: x[11], sourceBoard: x[12], thicknessMm: x[13], dryMassG: x[14], curedMassG: x[15], drySg: x[16],
-    wpgPct: x[17], resinLoadingKgM3: x[18], voidFillPct: x[19], maxWpgPct: x[20], swellingPct: x[21], swellingBasis: x[22], hDryShore: x[23],
-    hDryJanka: x[24], hDryBrinell: x[25], hCuredShore: x[26], hCuredJanka: x[27], hCuredBrinell: x[28], problemCount: x[29],
+    id: x[0],
+    tag: x[1],
+    trialId: x[2],
+    conditionId: x[3],
+    runId: x[4],
+    runCode: x[5],
+    speciesId: x[6],
+    resinId: x[7],
+    resinName: x[8],
+    resinDensityGcm3: x[9],
+    lotId: x[10],
+    role: x[11],
+    sourceBoard: x[12],
+    thicknessMm: x[13],
+    dryMassG: x[14],
+    curedMassG: x[15],
+    drySg: x[16],
+    wpgPct: x[17],
+    resinLoadingKgM3: x[18],
+    voidFillPct: x[19],
+    maxWpgPct: x[20],
+    swellingPct: x[21],
+    swellingBasis: x[22],
+    hDryShore: x[23],
+    hDryJanka: x[24],
+    hDryBrinell: x[25],
+    hCuredShore: x[26],
+    hCuredJanka: x[27],
+    hCuredBrinell: x[28],
+    problemCount: x[29],
     // The blank reasons are read only where there are some.
     problems: x[29] > 0 ? (JSON.parse(x[30]) as Selected['problems']) : [],
     createdAt: x[31],
@@ -221,9 +274,11 @@ function toAnalysisCoupons(db: Db, rows: Selected[]): AnalysisCoupon[] {
 export function loadHistory(db: Db, pairs: { speciesId: number; resinId: number }[], runId: number): AnalysisCoupon[] {
   if (pairs.length === 0) return [];
   const wanted = new Set(pairs.map((p) => `${p.speciesId}|${p.resinId}`));
-  return loadAnalysisCoupons(db, { speciesId: [...new Set(pairs.map((p) => p.speciesId))], resinId: [...new Set(pairs.map((p) => p.resinId))], role: 'treated' }).filter(
-    (c) => c.runId !== runId && wanted.has(`${c.speciesId}|${c.resinId}`),
-  );
+  return loadAnalysisCoupons(db, {
+    speciesId: [...new Set(pairs.map((p) => p.speciesId))],
+    resinId: [...new Set(pairs.map((p) => p.resinId))],
+    role: 'treated',
+  }).filter((c) => c.runId !== runId && wanted.has(`${c.speciesId}|${c.resinId}`));
 }
 
 export function runExists(db: Db, id: number): boolean {
@@ -250,12 +305,7 @@ export function insertEvidence(db: Db, values: typeof evidence.$inferInsert): Ev
 }
 
 export function findEvidence(db: Db, id: number) {
-  return db
-    .select({ e: evidence, authorName: users.name })
-    .from(evidence)
-    .leftJoin(users, eq(users.id, evidence.createdBy))
-    .where(eq(evidence.id, id))
-    .get();
+  return db.select({ e: evidence, authorName: users.name }).from(evidence).leftJoin(users, eq(users.id, evidence.createdBy)).where(eq(evidence.id, id)).get();
 }
 
 export function listEvidence(db: Db, page: number, pageSize: number) {
@@ -266,6 +316,10 @@ export function listEvidence(db: Db, page: number, pageSize: number) {
     .limit(pageSize)
     .offset((page - 1) * pageSize)
     .all();
-  const total = db.select({ n: sql<number>`count(*)` }).from(evidence).get()?.n ?? 0;
+  const total =
+    db
+      .select({ n: sql<number>`count(*)` })
+      .from(evidence)
+      .get()?.n ?? 0;
   return { items, total };
 }

@@ -35,7 +35,9 @@ export const DEFAULT_WPG_SD = 8;
 /** SHA-256 of the numbers in a canonical form (object keys sorted), so equal numbers give equal prints. */
 export function fingerprintOf(value: unknown): string {
   const canonical = JSON.stringify(value, (_k, v: unknown) =>
-    v && typeof v === 'object' && !Array.isArray(v) ? Object.fromEntries(Object.entries(v as Record<string, unknown>).sort(([a], [b]) => a.localeCompare(b))) : v,
+    v && typeof v === 'object' && !Array.isArray(v)
+      ? Object.fromEntries(Object.entries(v as Record<string, unknown>).sort(([a], [b]) => a.localeCompare(b)))
+      : v,
   );
   return crypto.createHash('sha256').update(canonical).digest('hex');
 }
@@ -97,7 +99,16 @@ export function createAnalysisService(deps: { db: Db; now: () => Date }) {
       q.planned !== undefined && q.planned < r.nPerGroup
         ? `The plan has ${q.planned} coupon${q.planned === 1 ? '' : 's'} per condition; a difference of ${q.differencePct} points needs ${r.nPerGroup} to be found 8 times in 10.`
         : null;
-    return { nPerCondition: r.nPerGroup, differencePct: q.differencePct, sd, sdSource: shop ? 'shop' : 'default', sdNote, power: r.power, alpha: 0.05, warning };
+    return {
+      nPerCondition: r.nPerGroup,
+      differencePct: q.differencePct,
+      sd,
+      sdSource: shop ? 'shop' : 'default',
+      sdNote,
+      power: r.power,
+      alpha: 0.05,
+      warning,
+    };
   }
 
   /** The numbers and plot of a view, computed now from the results table. */
@@ -114,7 +125,14 @@ export function createAnalysisService(deps: { db: Db; now: () => Date }) {
         computedAt: deps.now().toISOString(),
         numbers,
         plot: {
-          spec: { kind: 'wpg-vs-sg', x: { label: sgLabel }, y: { label: 'WPG (%)' }, colorBy: 'species', symbolBy: 'resin', caption: o.densityFit?.sentence ?? o.fitNotes.join(' ') },
+          spec: {
+            kind: 'wpg-vs-sg',
+            x: { label: sgLabel },
+            y: { label: 'WPG (%)' },
+            colorBy: 'species',
+            symbolBy: 'resin',
+            caption: o.densityFit?.sentence ?? o.fitNotes.join(' '),
+          },
           data: o.plots.wpgVsSg,
         },
       },

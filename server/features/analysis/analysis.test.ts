@@ -134,7 +134,9 @@ describe('analysis numbers equal the domain core on the demo data', () => {
     const maple = speciesId('Maple, red');
     const clear = resinId(DEMO_RESINS.clear);
     const dyed = resinId(DEMO_RESINS.dyed);
-    const res = await as.viewer.post('/api/analysis/compare').send({ filters: { trialId: [trialId] }, a: { speciesId: maple, resinId: clear }, b: { speciesId: maple, resinId: dyed }, metric: 'wpgPct' });
+    const res = await as.viewer
+      .post('/api/analysis/compare')
+      .send({ filters: { trialId: [trialId] }, a: { speciesId: maple, resinId: clear }, b: { speciesId: maple, resinId: dyed }, metric: 'wpgPct' });
     expect(res.status).toBe(200);
     const rows = treatedRows();
     const a = rows.filter((r) => r.speciesId === maple && r.resinId === clear).map((r) => r.wpgPct!);
@@ -148,7 +150,11 @@ describe('analysis numbers equal the domain core on the demo data', () => {
 
   it('lists coupons with missing stages as excluded, with the reason', async () => {
     const res = await as.viewer.get(`/api/analysis/overview?trialId=${trialId}`);
-    const all = h.database.db.select().from(couponResults).where(and(eq(couponResults.trialId, trialId), eq(couponResults.role, 'treated'))).all();
+    const all = h.database.db
+      .select()
+      .from(couponResults)
+      .where(and(eq(couponResults.trialId, trialId), eq(couponResults.role, 'treated')))
+      .all();
     const included = treatedRows().length;
     expect(res.body.excluded.length).toBe(all.length - included);
     expect(res.body.excluded.length).toBeGreaterThan(0);

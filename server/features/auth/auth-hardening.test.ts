@@ -57,18 +57,27 @@ describe('sign-in limit per account and per address, kept in SQLite', () => {
     await h.close();
     h = await startHarness({ loginLimit: 3, env: { TRUST_PROXY: 'loopback' } });
     for (let i = 0; i < 3; i++) expect((await wrong(h.agent().set('X-Forwarded-For', '203.0.113.7'))).status).toBe(401);
-    const elsewhere = await h.agent().set('X-Forwarded-For', '198.51.100.9').post('/api/auth/login').send({ email: 'tech@demo.test', password: 'lumenbook-demo' });
+    const elsewhere = await h
+      .agent()
+      .set('X-Forwarded-For', '198.51.100.9')
+      .post('/api/auth/login')
+      .send({ email: 'tech@demo.test', password: 'lumenbook-demo' });
     expect(elsewhere.status).toBe(429);
     expect(elsewhere.body.error.code).toBe('rate_limited');
     // Another account from the first address is still open: the address has failures left.
-    expect((await h.agent().set('X-Forwarded-For', '203.0.113.7').post('/api/auth/login').send({ email: 'viewer@demo.test', password: 'lumenbook-demo' })).status).toBe(200);
+    expect(
+      (await h.agent().set('X-Forwarded-For', '203.0.113.7').post('/api/auth/login').send({ email: 'viewer@demo.test', password: 'lumenbook-demo' })).status,
+    ).toBe(200);
   });
 
   it('correct sign-ins do not use up the allowance', async () => {
     await h.close();
     h = await startHarness({ loginLimit: 2 });
     for (let i = 0; i < 6; i++) {
-      const res = await h.agent().post('/api/auth/login').send({ email: i % 2 ? 'tech@demo.test' : 'viewer@demo.test', password: 'lumenbook-demo' });
+      const res = await h
+        .agent()
+        .post('/api/auth/login')
+        .send({ email: i % 2 ? 'tech@demo.test' : 'viewer@demo.test', password: 'lumenbook-demo' });
       expect(res.status).toBe(200);
     }
   });
@@ -145,14 +154,19 @@ describe('invitations, passwords and the local mail server', () => {
     // 24 three-byte letters are 72 bytes: allowed; one more is not.
     expect(passwordSchema.safeParse('€'.repeat(24)).success).toBe(true);
     expect(passwordSchema.safeParse('€'.repeat(25)).success).toBe(false);
-    const ok = await h.agent().post('/api/auth/password-reset/confirm').send({ token, password: 'a'.repeat(72) });
+    const ok = await h
+      .agent()
+      .post('/api/auth/password-reset/confirm')
+      .send({ token, password: 'a'.repeat(72) });
     expect(ok.status).toBe(200);
   });
 
-  it('the local SMTP server files the app\'s own mail only', async () => {
+  it("the local SMTP server files the app's own mail only", async () => {
     const port = h.mailer.fakeSmtpPort!;
     const stranger = nodemailer.createTransport({ host: '127.0.0.1', port, secure: false, ignoreTLS: true });
-    await expect(stranger.sendMail({ from: 'x@local.test', to: 'admin@demo.test', subject: 'Reset your Lumenbook password', text: 'token=forged-forged-forged-forged' })).rejects.toThrow();
+    await expect(
+      stranger.sendMail({ from: 'x@local.test', to: 'admin@demo.test', subject: 'Reset your Lumenbook password', text: 'token=forged-forged-forged-forged' }),
+    ).rejects.toThrow();
     const guesser = nodemailer.createTransport({ host: '127.0.0.1', port, secure: false, ignoreTLS: true, auth: { user: 'lumenbook', pass: 'guess' } });
     await expect(guesser.sendMail({ from: 'x@local.test', to: 'admin@demo.test', subject: 'Hi', text: 'x' })).rejects.toThrow();
     stranger.close();

@@ -85,10 +85,15 @@ export function countLoginFailures(db: Db, scope: LoginFailureScope, key: string
 export function recordLoginFailure(db: Db, entries: { scope: LoginFailureScope; key: string }[], atIso: string, pruneBeforeIso: string): void {
   db.transaction((tx) => {
     tx.delete(loginFailures).where(lte(loginFailures.at, pruneBeforeIso)).run();
-    for (const e of entries) tx.insert(loginFailures).values({ ...e, at: atIso }).run();
+    for (const e of entries)
+      tx.insert(loginFailures)
+        .values({ ...e, at: atIso })
+        .run();
   });
 }
 
 export function clearLoginFailures(db: Db, scope: LoginFailureScope, key: string): void {
-  db.delete(loginFailures).where(and(eq(loginFailures.scope, scope), eq(loginFailures.key, key))).run();
+  db.delete(loginFailures)
+    .where(and(eq(loginFailures.scope, scope), eq(loginFailures.key, key)))
+    .run();
 }

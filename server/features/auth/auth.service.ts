@@ -73,7 +73,8 @@ export function createAuthService(deps: FeatureDeps) {
 
   async function acceptInvitation(token: string, password: string, name: string): Promise<User> {
     const found = findLiveToken(db, hashToken(token), 'invitation', iso());
-    if (!found) throw new ValidationFailed('This invitation link is not valid any more; ask the admin for a new one', { token: ['Link expired or already used'] });
+    if (!found)
+      throw new ValidationFailed('This invitation link is not valid any more; ask the admin for a new one', { token: ['Link expired or already used'] });
     // A disabled account cannot take the invitation, and the link is not used up by trying: if the
     // admin enables the account again, the same link still works.
     if (findUserById(db, found.userId)?.disabled) throw new Unauthenticated('This account is disabled; ask the admin to enable it, then open the link again');
@@ -147,11 +148,7 @@ export function createAuthService(deps: FeatureDeps) {
         retireTokens(tx, existing.id, 'invitation', iso());
         userId = existing.id;
       } else {
-        userId = tx
-          .insert(users)
-          .values({ email: input.email, name: input.name, role: input.role, createdBy: actor.id })
-          .returning({ id: users.id })
-          .get().id;
+        userId = tx.insert(users).values({ email: input.email, name: input.name, role: input.role, createdBy: actor.id }).returning({ id: users.id }).get().id;
       }
       insertToken(tx, { userId, kind: 'invitation', tokenHash: hash, expiresAt: later(INVITATION_HOURS), createdBy: actor.id });
       writeAudit(tx, { actorId: actor.id, action: 'invite', entity: 'user', entityId: userId, after: { email: input.email, role: input.role } });
@@ -170,7 +167,9 @@ export function createAuthService(deps: FeatureDeps) {
     const before = findUserById(db, id);
     if (!before) throw new NotFound('User');
     if (id === actor.id && (input.disabled === true || (input.role && input.role !== 'admin'))) {
-      throw new Conflict('You cannot disable yourself or take away your own admin role', { [input.disabled ? 'disabled' : 'role']: ['Not on your own account'] });
+      throw new Conflict('You cannot disable yourself or take away your own admin role', {
+        [input.disabled ? 'disabled' : 'role']: ['Not on your own account'],
+      });
     }
     const row = db.transaction((tx) => {
       tx.update(users).set(input).where(eq(users.id, id)).run();
@@ -190,9 +189,26 @@ export function createAuthService(deps: FeatureDeps) {
   }
 
   function pendingTokenCount(): number {
-    return db.select({ n: count() }).from(authTokens).where(sql`${authTokens.usedAt} IS NULL`).get()?.n ?? 0;
+    return (
+      db
+        .select({ n: count() })
+        .from(authTokens)
+        .where(sql`${authTokens.usedAt} IS NULL`)
+        .get()?.n ?? 0
+    );
   }
 
-  return { verifyLogin, requestPasswordReset, confirmPasswordReset, acceptInvitation, previewInvitation, updatePreferences, listUsers, invite, updateUser, pendingTokenCount };
+  return {
+    verifyLogin,
+    requestPasswordReset,
+    confirmPasswordReset,
+    acceptInvitation,
+    previewInvitation,
+    updatePreferences,
+    listUsers,
+    invite,
+    updateUser,
+    pendingTokenCount,
+  };
 }
 export type AuthService = ReturnType<typeof createAuthService>;

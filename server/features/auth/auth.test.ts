@@ -170,7 +170,10 @@ describe('password reset', () => {
   });
 
   it('refuses a short new password with the field named', async () => {
-    const res = await h.agent().post('/api/auth/password-reset/confirm').send({ token: 'x'.repeat(40), password: 'short' });
+    const res = await h
+      .agent()
+      .post('/api/auth/password-reset/confirm')
+      .send({ token: 'x'.repeat(40), password: 'short' });
     expect(res.status).toBe(400);
     expect(res.body.error.fieldErrors.password[0]).toMatch(/12 characters/);
   });
@@ -223,7 +226,11 @@ describe('invitations and users (admin)', () => {
     const res = await admin.patch(`/api/users/${viewer.id}`).send({ role: 'technician' });
     expect(res.status).toBe(200);
     expect(res.body.user.role).toBe('technician');
-    const audit = h.database.db.select().from(auditLog).where(eq(auditLog.entityId, String(viewer.id))).all();
+    const audit = h.database.db
+      .select()
+      .from(auditLog)
+      .where(eq(auditLog.entityId, String(viewer.id)))
+      .all();
     expect(audit.at(-1)).toMatchObject({ action: 'update', entity: 'user', before: { role: 'viewer' } });
   });
 
@@ -272,7 +279,11 @@ describe('CSRF header variants', () => {
   });
 
   it('refuses a write whose Origin is another site', async () => {
-    const res = await h.agent().post('/api/auth/login').set('Origin', 'https://elsewhere.example').send({ email: 'tech@demo.test', password: 'lumenbook-demo' });
+    const res = await h
+      .agent()
+      .post('/api/auth/login')
+      .set('Origin', 'https://elsewhere.example')
+      .send({ email: 'tech@demo.test', password: 'lumenbook-demo' });
     expect(res.status).toBe(403);
   });
 });

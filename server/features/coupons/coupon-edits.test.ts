@@ -20,7 +20,11 @@ beforeAll(async () => {
   h = await startHarness();
   tech = await h.signIn('tech@demo.test');
   admin = await h.signIn('admin@demo.test');
-  mapleId = h.database.db.select().from(species).all().find((s) => s.commonName === 'Maple, red')!.id;
+  mapleId = h.database.db
+    .select()
+    .from(species)
+    .all()
+    .find((s) => s.commonName === 'Maple, red')!.id;
 });
 afterAll(async () => {
   await h.close();
@@ -90,7 +94,11 @@ describe('history keeps who did it, as they were named then', () => {
 describe('changes to a resin or a run that move recorded results', () => {
   it('a new cured density asks for a reason, recomputes the results and writes it on every affected coupon', async () => {
     // A demo resin whose coupons have a void fill (cured and measured).
-    const measured = h.database.db.select().from(couponResults).all().filter((r) => r.voidFillPct !== null && r.resinId !== null);
+    const measured = h.database.db
+      .select()
+      .from(couponResults)
+      .all()
+      .filter((r) => r.voidFillPct !== null && r.resinId !== null);
     expect(measured.length).toBeGreaterThan(0);
     const resinId = measured[0]!.resinId!;
     const affected = measured.filter((r) => r.resinId === resinId);
@@ -112,11 +120,15 @@ describe('changes to a resin or a run that move recorded results', () => {
     expect(entry).toMatchObject({ reason: 'density measured again on a cured puck', actorEmail: 'admin@demo.test' });
     expect(entry.before).toMatchObject({ voidFillPct: one.voidFillPct, resin: { id: resinId, curedDensityGcm3: resin.curedDensityGcm3 } });
     expect(entry.after).toMatchObject({ voidFillPct: now.voidFillPct, resin: { id: resinId, curedDensityGcm3: density } });
-    const recorded = h.database.db.select().from(auditLog).where(and(eq(auditLog.action, 'results-recomputed'), eq(auditLog.entity, 'coupon'))).all();
+    const recorded = h.database.db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.action, 'results-recomputed'), eq(auditLog.entity, 'coupon')))
+      .all();
     expect(new Set(recorded.map((r) => r.entityId))).toEqual(new Set(affected.map((r) => String(r.couponId))));
   });
 
-  it('a new altitude asks for a reason when it moves recorded gauge readings, and the run\'s history says what moved', async () => {
+  it("a new altitude asks for a reason when it moves recorded gauge readings, and the run's history says what moved", async () => {
     const withReadings = h.database.db.select().from(runReadings).all();
     const runId = withReadings[0]!.runId;
     const run = (await tech.get(`/api/runs/${runId}`)).body.run;
@@ -147,6 +159,8 @@ describe('impossible and questionable dates', () => {
     const future = new Date(Date.now() + 3 * 24 * HOUR).toISOString();
     const res = await tech.post(`/api/coupons/${c.id}/weighings`).send({ stage: 'dry', massG: 20, measuredAt: future });
     expect(res.status).toBe(201);
-    expect(res.body.warnings).toEqual(expect.arrayContaining([expect.objectContaining({ field: 'measuredAt', message: expect.stringMatching(/in the future/) })]));
+    expect(res.body.warnings).toEqual(
+      expect.arrayContaining([expect.objectContaining({ field: 'measuredAt', message: expect.stringMatching(/in the future/) })]),
+    );
   });
 });

@@ -41,14 +41,21 @@ export function findCouponByTag(db: Db, tag: string): CouponRow | undefined {
 }
 
 export function listCouponRows(db: Db, where: SQL | undefined, order: SQL[], limit: number, offset: number): CouponWithNames[] {
-  return withNames(db).where(where).orderBy(...order).limit(limit).offset(offset).all();
+  return withNames(db)
+    .where(where)
+    .orderBy(...order)
+    .limit(limit)
+    .offset(offset)
+    .all();
 }
 
 /** Control coupons of these trial × species pairs, for the anti-swell comparison. */
 export function controlsFor(db: Db, pairs: { trialId: number; speciesId: number }[]): CouponWithNames[] {
   if (pairs.length === 0) return [];
   const cond = or(...pairs.map((p) => and(eq(coupons.trialId, p.trialId), eq(coupons.speciesId, p.speciesId))));
-  return withNames(db).where(and(eq(coupons.role, 'control'), cond)).all();
+  return withNames(db)
+    .where(and(eq(coupons.role, 'control'), cond))
+    .all();
 }
 
 const currentWeighing = and(isNull(weighings.supersededBy), isNull(weighings.deletedAt));
@@ -56,12 +63,22 @@ const currentCheck = and(isNull(checks.supersededBy), isNull(checks.deletedAt));
 
 export function currentWeighings(db: Db, couponIds: number[]): WeighingRow[] {
   if (couponIds.length === 0) return [];
-  return db.select().from(weighings).where(and(inArray(weighings.couponId, couponIds), currentWeighing)).orderBy(asc(weighings.measuredAt), asc(weighings.id)).all();
+  return db
+    .select()
+    .from(weighings)
+    .where(and(inArray(weighings.couponId, couponIds), currentWeighing))
+    .orderBy(asc(weighings.measuredAt), asc(weighings.id))
+    .all();
 }
 
 export function currentChecks(db: Db, couponIds: number[]): CheckRow[] {
   if (couponIds.length === 0) return [];
-  return db.select().from(checks).where(and(inArray(checks.couponId, couponIds), currentCheck)).orderBy(asc(checks.measuredAt), asc(checks.id)).all();
+  return db
+    .select()
+    .from(checks)
+    .where(and(inArray(checks.couponId, couponIds), currentCheck))
+    .orderBy(asc(checks.measuredAt), asc(checks.id))
+    .all();
 }
 
 export function allWeighings(db: Db, couponId: number): WeighingRow[] {
@@ -82,7 +99,14 @@ export function findCheck(db: Db, id: number): CheckRow | undefined {
 
 export function speciesByIds(db: Db, ids: number[]): Map<number, SpeciesRow> {
   if (ids.length === 0) return new Map();
-  return new Map(db.select().from(species).where(inArray(species.id, ids)).all().map((s) => [s.id, s]));
+  return new Map(
+    db
+      .select()
+      .from(species)
+      .where(inArray(species.id, ids))
+      .all()
+      .map((s) => [s.id, s]),
+  );
 }
 
 export function findSpecies(db: Db, id: number): SpeciesRow | undefined {
@@ -141,7 +165,6 @@ export function photosOf(db: Db, couponId: number): PhotoOut[] {
   return db.select().from(photos).where(eq(photos.couponId, couponId)).orderBy(asc(photos.id)).all().map(toPhotoOut);
 }
 
-
 export function findPhoto(db: Db, id: number): PhotoRow | undefined {
   return db.select().from(photos).where(eq(photos.id, id)).get();
 }
@@ -149,11 +172,18 @@ export function findPhoto(db: Db, id: number): PhotoRow | undefined {
 /** Audit entries about a coupon, its readings and its photos, oldest first, with the actor's name and e-mail at the time. */
 export function auditFor(db: Db, couponId: number, weighingIds: number[], checkIds: number[], photoIds: number[]) {
   const of = (entity: string, ids: number[]) => (ids.length ? and(eq(auditLog.entity, entity), inArray(auditLog.entityId, ids.map(String))) : undefined);
-  const conds = [and(eq(auditLog.entity, 'coupon'), eq(auditLog.entityId, String(couponId))), of('weighing', weighingIds), of('check', checkIds), of('photo', photoIds)].filter(
-    (c): c is SQL => c !== undefined,
-  );
+  const conds = [
+    and(eq(auditLog.entity, 'coupon'), eq(auditLog.entityId, String(couponId))),
+    of('weighing', weighingIds),
+    of('check', checkIds),
+    of('photo', photoIds),
+  ].filter((c): c is SQL => c !== undefined);
   return db
-    .select({ entry: auditLog, actorName: sql<string | null>`coalesce(${auditLog.actorName}, ${users.name})`, actorEmail: sql<string | null>`coalesce(${auditLog.actorEmail}, ${users.email})` })
+    .select({
+      entry: auditLog,
+      actorName: sql<string | null>`coalesce(${auditLog.actorName}, ${users.name})`,
+      actorEmail: sql<string | null>`coalesce(${auditLog.actorEmail}, ${users.email})`,
+    })
     .from(auditLog)
     .leftJoin(users, eq(auditLog.actorId, users.id))
     .where(or(...conds))
@@ -163,5 +193,10 @@ export function auditFor(db: Db, couponId: number, weighingIds: number[], checkI
 
 /** When the shop's first record was made: its first account (the installation). */
 export function shopFirstRecordAt(db: Db): string | null {
-  return db.select({ at: sql<string | null>`min(${users.createdAt})` }).from(users).get()?.at ?? null;
+  return (
+    db
+      .select({ at: sql<string | null>`min(${users.createdAt})` })
+      .from(users)
+      .get()?.at ?? null
+  );
 }

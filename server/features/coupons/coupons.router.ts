@@ -23,9 +23,13 @@ export function couponsRoutes(deps: FeatureDeps) {
   const id = { params: idParamsSchema };
 
   r.get('/coupons', { access: 'viewer', schemas: { query: couponListQuerySchema } }, ({ query }) => service.list(query));
-  r.post('/coupons', { access: 'technician', status: 201, schemas: { body: createCouponSchema } }, ({ user, body }) => ({ coupon: service.create(user, body) }));
+  r.post('/coupons', { access: 'technician', status: 201, schemas: { body: createCouponSchema } }, ({ user, body }) => ({
+    coupon: service.create(user, body),
+  }));
   // Declared before /coupons/:id so "measurements" is never taken for an id.
-  r.post('/coupons/measurements', { access: 'technician', status: 201, schemas: { body: batchMeasurementsSchema } }, ({ user, body }) => service.batch(user, body));
+  r.post('/coupons/measurements', { access: 'technician', status: 201, schemas: { body: batchMeasurementsSchema } }, ({ user, body }) =>
+    service.batch(user, body),
+  );
   r.get('/coupons/:id', { access: 'viewer', schemas: id }, ({ params }) => ({ coupon: service.get(params.id) }));
   r.patch('/coupons/:id', { access: 'technician', schemas: { ...id, body: updateCouponSchema } }, ({ user, params, body }) => ({
     coupon: service.update(user, params.id, body),
@@ -55,7 +59,9 @@ export function couponsRoutes(deps: FeatureDeps) {
   r.post('/coupons/:id/photos', { access: 'technician', status: 201, schemas: id }, ({ user, params, req, res }) =>
     photos.upload(user, { couponId: params.id }, req, res),
   );
-  r.post('/runs/:id/photos', { access: 'technician', status: 201, schemas: id }, ({ user, params, req, res }) => photos.upload(user, { runId: params.id }, req, res));
+  r.post('/runs/:id/photos', { access: 'technician', status: 201, schemas: id }, ({ user, params, req, res }) =>
+    photos.upload(user, { runId: params.id }, req, res),
+  );
   r.get('/photos/:id', { access: 'viewer', schemas: id }, async ({ params, res }) => {
     await photos.serve(params.id, res);
   });

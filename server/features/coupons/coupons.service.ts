@@ -148,7 +148,10 @@ export function createCouponsService(deps: FeatureDeps) {
     const ids = all.map((r) => r.coupon.id);
     const ws = currentWeighings(tx, ids);
     const cs = currentChecks(tx, ids);
-    const resinMap = resinsFor(tx, all.map((r) => r.coupon));
+    const resinMap = resinsFor(
+      tx,
+      all.map((r) => r.coupon),
+    );
     const spMap = speciesByIds(tx, [...new Set(all.map((r) => r.coupon.speciesId))]);
     const computed = all.map((r) => {
       const mineW = ws.filter((w) => w.couponId === r.coupon.id);
@@ -162,7 +165,9 @@ export function createCouponsService(deps: FeatureDeps) {
         const q = readingDateQuestion(r.measuredAt, deps.now(), firstRecordAt);
         return q ? [{ field: 'measuredAt', message: q }] : [];
       });
-    const ase = antiSwellForList(computed.map((c) => ({ trialId: c.r.coupon.trialId, speciesId: c.r.coupon.speciesId, role: c.r.coupon.role, metrics: c.metrics })));
+    const ase = antiSwellForList(
+      computed.map((c) => ({ trialId: c.r.coupon.trialId, speciesId: c.r.coupon.speciesId, role: c.r.coupon.role, metrics: c.metrics })),
+    );
     return computed.slice(0, rows.length).map((c, i) => ({
       id: c.r.coupon.id,
       tag: c.r.coupon.tag,
@@ -222,7 +227,8 @@ export function createCouponsService(deps: FeatureDeps) {
 
   function validateLinks(tx: Db, v: { speciesId: number; role: 'treated' | 'control'; trialId: number | null; conditionId: number | null }) {
     if (!findSpecies(tx, v.speciesId)) throw new Unprocessable(`No species with id ${v.speciesId}`, { speciesId: [`No species with id ${v.speciesId}`] });
-    if (v.trialId !== null && !findTrial(tx, v.trialId)) throw new Unprocessable(`No trial with id ${v.trialId}`, { trialId: [`No trial with id ${v.trialId}`] });
+    if (v.trialId !== null && !findTrial(tx, v.trialId))
+      throw new Unprocessable(`No trial with id ${v.trialId}`, { trialId: [`No trial with id ${v.trialId}`] });
     if (v.conditionId !== null) {
       if (v.role === 'control') {
         const msg = 'A control coupon belongs to its trial and species, not to a treated condition';
@@ -285,7 +291,13 @@ export function createCouponsService(deps: FeatureDeps) {
       if (next.role === 'control' && before.role !== 'control') {
         // A control is never soaked or cured: with resin weighings it would show a WPG it cannot have,
         // and be compared as untreated wood. Its readings stay as they are; the change is refused.
-        const resinStages = [...new Set(currentWeighings(tx, [id]).filter((w) => w.stage === 'soaked' || w.stage === 'cured').map((w) => w.stage))];
+        const resinStages = [
+          ...new Set(
+            currentWeighings(tx, [id])
+              .filter((w) => w.stage === 'soaked' || w.stage === 'cured')
+              .map((w) => w.stage),
+          ),
+        ];
         if (resinStages.length > 0) {
           const msg = `This coupon has ${resinStages.join(' and ')} weighings, so it took up resin; a control never does. Delete those readings (with a reason) first if the coupon really was never treated`;
           throw new Conflict(msg, { role: [msg] });

@@ -68,7 +68,12 @@ function tinyPng(): Buffer {
   ihdr[8] = 8; // bit depth
   ihdr[9] = 2; // truecolour
   const pixels = zlib.deflateSync(Buffer.from([0, 200, 150, 90])); // filter byte + one RGB pixel
-  return Buffer.concat([Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]), chunk('IHDR', ihdr), chunk('IDAT', pixels), chunk('IEND', Buffer.alloc(0))]);
+  return Buffer.concat([
+    Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]),
+    chunk('IHDR', ihdr),
+    chunk('IDAT', pixels),
+    chunk('IEND', Buffer.alloc(0)),
+  ]);
 }
 
 describe('coupon routes: who may do what', () => {
@@ -112,7 +117,9 @@ describe('coupon routes: who may do what', () => {
       const c = await a.post(`/api/coupons/${own}/checks`).send({ kind: 'moisture', stage: 'dry', measuredAt: t(i), moisturePct: 3 });
       const created = await a.post('/api/coupons').send({ tag: `ROLE-${role}`, speciesId: mapleId, role: 'control' });
       const patched = await a.patch(`/api/coupons/${own}`).send({ notes: `by ${role}`, version: 1 });
-      const batch = await a.post('/api/coupons/measurements').send({ entries: [{ couponId: own, weighings: [{ stage: 'drying-check', massG: 21, measuredAt: t(i) }] }] });
+      const batch = await a
+        .post('/api/coupons/measurements')
+        .send({ entries: [{ couponId: own, weighings: [{ stage: 'drying-check', massG: 21, measuredAt: t(i) }] }] });
       const photo = await a.post(`/api/coupons/${own}/photos`).attach('file', tinyPng(), 'tiny.png');
       const answers = [w, c, created, patched, batch, photo];
       if (role === 'viewer') {
@@ -146,7 +153,15 @@ describe('coupons', () => {
   it('creates a coupon, refuses a taken tag with 409 and names the bad field', async () => {
     const res = await as.technician.post('/api/coupons').send({ tag: 'CT-NEW-1', speciesId: mapleId, role: 'treated', sourceBoard: 'board 7' });
     expect(res.status).toBe(201);
-    expect(res.body.coupon).toMatchObject({ tag: 'CT-NEW-1', speciesName: 'Maple, red', role: 'treated', sourceBoard: 'board 7', runId: null, weighings: [], photos: [] });
+    expect(res.body.coupon).toMatchObject({
+      tag: 'CT-NEW-1',
+      speciesName: 'Maple, red',
+      role: 'treated',
+      sourceBoard: 'board 7',
+      runId: null,
+      weighings: [],
+      photos: [],
+    });
     const dup = await as.technician.post('/api/coupons').send({ tag: 'CT-NEW-1', speciesId: mapleId, role: 'treated' });
     expect(dup.status).toBe(409);
     expect(dup.body.error.fieldErrors.tag).toBeTruthy();
@@ -180,7 +195,11 @@ describe('coupons', () => {
     const id = await makeCoupon();
     const res = await as.technician.patch(`/api/coupons/${id}`).send({ sourceBoard: 'board 2', reason: 'label read wrong', version: 1 });
     expect(res.status).toBe(200);
-    const entry = h.database.db.select().from(auditLog).where(and(eq(auditLog.entity, 'coupon'), eq(auditLog.entityId, String(id)), eq(auditLog.action, 'update'))).get();
+    const entry = h.database.db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entity, 'coupon'), eq(auditLog.entityId, String(id)), eq(auditLog.action, 'update')))
+      .get();
     expect(entry).toMatchObject({ reason: 'label read wrong' });
     expect((entry?.after as { sourceBoard: string }).sourceBoard).toBe('board 2');
   });
@@ -202,7 +221,9 @@ describe('weighings and checks', () => {
     const moisture = await as.technician.post(`/api/coupons/${id}/checks`).send({ kind: 'moisture', stage: 'dry', measuredAt: t(0), moisturePct: 301 });
     expect(moisture.status).toBe(422);
     expect(moisture.body.error.fieldErrors.moisturePct[0]).toMatch(/0 and 300/);
-    const shore = await as.technician.post(`/api/coupons/${id}/checks`).send({ kind: 'hardness', stage: 'cured', measuredAt: t(0), hardnessValue: 104, hardnessScale: 'shore-d' });
+    const shore = await as.technician
+      .post(`/api/coupons/${id}/checks`)
+      .send({ kind: 'hardness', stage: 'cured', measuredAt: t(0), hardnessValue: 104, hardnessScale: 'shore-d' });
     expect(shore.status).toBe(422);
     expect(shore.body.error.fieldErrors.hardnessValue[0]).toMatch(/Shore D/);
     const size = await dims(id, 'dry', 100, 0, 10);
@@ -222,15 +243,21 @@ describe('weighings and checks', () => {
     const partial = await as.technician.post(`/api/coupons/${id}/checks`).send({ kind: 'dimension', stage: 'dry', measuredAt: t(0), lengthMm: 100 });
     expect(partial.status).toBe(400);
     expect(Object.keys(partial.body.error.fieldErrors).sort()).toEqual(['thicknessMm', 'widthMm']);
-    const mixed = await as.technician.post(`/api/coupons/${id}/checks`).send({ kind: 'moisture', stage: 'dry', measuredAt: t(0), moisturePct: 5, hardnessValue: 3 });
+    const mixed = await as.technician
+      .post(`/api/coupons/${id}/checks`)
+      .send({ kind: 'moisture', stage: 'dry', measuredAt: t(0), moisturePct: 5, hardnessValue: 3 });
     expect(mixed.body.error.fieldErrors.hardnessValue).toEqual(['Unknown field']);
-    const scale = await as.technician.post(`/api/coupons/${id}/checks`).send({ kind: 'hardness', stage: 'dry', measuredAt: t(0), hardnessValue: 50, hardnessScale: 'rockwell' });
+    const scale = await as.technician
+      .post(`/api/coupons/${id}/checks`)
+      .send({ kind: 'hardness', stage: 'dry', measuredAt: t(0), hardnessValue: 50, hardnessScale: 'rockwell' });
     expect(scale.body.error.fieldErrors.hardnessScale).toBeTruthy();
   });
 
   it('keeps hardness on the scale it was read in', async () => {
     const id = await makeCoupon();
-    const res = await as.technician.post(`/api/coupons/${id}/checks`).send({ kind: 'hardness', stage: 'cured', measuredAt: t(0), hardnessValue: 4800, hardnessScale: 'janka-n' });
+    const res = await as.technician
+      .post(`/api/coupons/${id}/checks`)
+      .send({ kind: 'hardness', stage: 'cured', measuredAt: t(0), hardnessValue: 4800, hardnessScale: 'janka-n' });
     expect(res.status).toBe(201);
     expect(res.body.check).toMatchObject({ hardnessValue: 4800, hardnessScale: 'janka-n' });
     expect(res.body.coupon.metrics.hardness).toEqual([{ stage: 'cured', scale: 'janka-n', value: 4800 }]);
@@ -333,7 +360,11 @@ describe('corrections, deletions and history', () => {
     expect(res.body.coupon.metrics.dryMassG).toBe(42.1);
     const old = h.database.db.select().from(weighings).where(eq(weighings.id, oldId)).get();
     expect(old).toMatchObject({ massG: 41.2, supersededBy: newId });
-    const entry = h.database.db.select().from(auditLog).where(and(eq(auditLog.entity, 'weighing'), eq(auditLog.entityId, String(oldId)), eq(auditLog.action, 'correct'))).get();
+    const entry = h.database.db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entity, 'weighing'), eq(auditLog.entityId, String(oldId)), eq(auditLog.action, 'correct')))
+      .get();
     expect(entry).toMatchObject({ reason: 'digits swapped when typing', actorId: expect.any(Number) });
     expect((entry?.before as { massG: number }).massG).toBe(41.2);
     expect((entry?.after as { massG: number; id: number }).massG).toBe(42.1);
@@ -402,7 +433,14 @@ describe('the entry grid’s batch save', () => {
     const b = await makeCoupon();
     const res = await as.technician.post('/api/coupons/measurements').send({
       entries: [
-        { couponId: a, weighings: [{ stage: 'dry', massG: 10, measuredAt: t(0) }, { stage: 'cured', massG: 15, measuredAt: t(30) }], checks: [{ kind: 'dimension', stage: 'dry', measuredAt: t(0), lengthMm: 100, widthMm: 20, thicknessMm: 10 }] },
+        {
+          couponId: a,
+          weighings: [
+            { stage: 'dry', massG: 10, measuredAt: t(0) },
+            { stage: 'cured', massG: 15, measuredAt: t(30) },
+          ],
+          checks: [{ kind: 'dimension', stage: 'dry', measuredAt: t(0), lengthMm: 100, widthMm: 20, thicknessMm: 10 }],
+        },
         { couponId: b, weighings: [{ stage: 'dry', massG: 11, measuredAt: t(0) }] },
       ],
     });
@@ -411,7 +449,13 @@ describe('the entry grid’s batch save', () => {
     const ca = res.body.coupons.find((c: { id: number }) => c.id === a);
     expect(ca.metrics.wpgPct).toBeCloseTo(50, 10);
     expect(ca.metrics.resinLoadingKgM3).toBeCloseTo(250, 8);
-    expect(h.database.db.select({ n: count() }).from(auditLog).where(and(eq(auditLog.entity, 'weighing'), eq(auditLog.action, 'create'))).get()!.n).toBeGreaterThan(2);
+    expect(
+      h.database.db
+        .select({ n: count() })
+        .from(auditLog)
+        .where(and(eq(auditLog.entity, 'weighing'), eq(auditLog.action, 'create')))
+        .get()!.n,
+    ).toBeGreaterThan(2);
   });
 
   it('writes nothing when one entry is bad, and names the entry and field', async () => {
@@ -419,7 +463,11 @@ describe('the entry grid’s batch save', () => {
     const before = h.database.db.select({ n: count() }).from(weighings).get()!.n;
     const beforeChecks = h.database.db.select({ n: count() }).from(checks).get()!.n;
     const beforeAudit = h.database.db.select({ n: count() }).from(auditLog).get()!.n;
-    const entries = ids.map((couponId) => ({ couponId, weighings: [{ stage: 'dry', massG: 20, measuredAt: t(0) }], checks: [{ kind: 'moisture', stage: 'dry', measuredAt: t(0), moisturePct: 2 }] }));
+    const entries = ids.map((couponId) => ({
+      couponId,
+      weighings: [{ stage: 'dry', massG: 20, measuredAt: t(0) }],
+      checks: [{ kind: 'moisture', stage: 'dry', measuredAt: t(0), moisturePct: 2 }],
+    }));
     entries[3]!.weighings.push({ stage: 'cured', massG: 19, measuredAt: t(30) });
     const res = await as.technician.post('/api/coupons/measurements').send({ entries });
     expect(res.status).toBe(422);
@@ -429,7 +477,9 @@ describe('the entry grid’s batch save', () => {
     expect(h.database.db.select({ n: count() }).from(checks).get()!.n).toBe(beforeChecks);
     expect(h.database.db.select({ n: count() }).from(auditLog).get()!.n).toBe(beforeAudit);
 
-    const shape = await as.technician.post('/api/coupons/measurements').send({ entries: [{ couponId: ids[0], weighings: [{ stage: 'dry', massG: 'heavy', measuredAt: t(0) }] }] });
+    const shape = await as.technician
+      .post('/api/coupons/measurements')
+      .send({ entries: [{ couponId: ids[0], weighings: [{ stage: 'dry', massG: 'heavy', measuredAt: t(0) }] }] });
     expect(shape.status).toBe(400);
     expect(shape.body.error.fieldErrors['entries.0.weighings.0.massG']).toBeTruthy();
     const missing = await as.technician.post('/api/coupons/measurements').send({ entries: [{ couponId: 999999 }] });
@@ -442,9 +492,21 @@ describe('the entry grid’s batch save', () => {
     const before = h.database.db.select({ n: count() }).from(weighings).get()!.n;
     const res = await as.technician.post('/api/coupons/measurements').send({
       entries: [
-        { couponId: ids[0], weighings: [{ stage: 'dry', massG: 20, measuredAt: t(0) }, { stage: 'cured', massG: 18, measuredAt: t(30) }] },
+        {
+          couponId: ids[0],
+          weighings: [
+            { stage: 'dry', massG: 20, measuredAt: t(0) },
+            { stage: 'cured', massG: 18, measuredAt: t(30) },
+          ],
+        },
         { couponId: ids[1], weighings: [{ stage: 'dry', massG: 20, measuredAt: t(0) }] },
-        { couponId: ids[2], weighings: [{ stage: 'dry', massG: 20, measuredAt: t(0) }, { stage: 'soaked', massG: 5, measuredAt: t(30) }] },
+        {
+          couponId: ids[2],
+          weighings: [
+            { stage: 'dry', massG: 20, measuredAt: t(0) },
+            { stage: 'soaked', massG: 5, measuredAt: t(30) },
+          ],
+        },
       ],
     });
     expect(res.status).toBe(422);
@@ -472,7 +534,11 @@ describe('photos', () => {
     expect(got.headers['x-content-type-options']).toBe('nosniff');
     // Stored re-encoded (photo-safety.test.ts): the same one pixel, not necessarily the same bytes.
     expect((got.body as Buffer).length).toBe(res.body.photo.bytes);
-    expect([...(await sharp(got.body as Buffer).raw().toBuffer())]).toEqual([200, 150, 90]);
+    expect([
+      ...(await sharp(got.body as Buffer)
+        .raw()
+        .toBuffer()),
+    ]).toEqual([200, 150, 90]);
     expect((await h.agent().get(res.body.photo.url)).status).toBe(401);
     const detail = await as.viewer.get(`/api/coupons/${id}`);
     expect(detail.body.coupon.photos.map((p: { id: number }) => p.id)).toEqual([res.body.photo.id]);
@@ -484,7 +550,9 @@ describe('photos', () => {
 
   it('refuses a text file renamed .png, judging by content', async () => {
     const id = await makeCoupon();
-    const res = await as.technician.post(`/api/coupons/${id}/photos`).attach('file', Buffer.from('just some notes, not a picture\n'), { filename: 'notes.png', contentType: 'image/png' });
+    const res = await as.technician
+      .post(`/api/coupons/${id}/photos`)
+      .attach('file', Buffer.from('just some notes, not a picture\n'), { filename: 'notes.png', contentType: 'image/png' });
     expect(res.status).toBe(422);
     expect(res.body.error.fieldErrors.file[0]).toMatch(/notes\.png is not a JPEG, PNG or WebP image/);
   });

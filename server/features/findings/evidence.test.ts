@@ -27,7 +27,7 @@ afterAll(async () => {
 });
 
 describe('evidence on findings', () => {
-  it('copies the saved view\'s snapshot when attached, draws its plot as SVG, and never follows the saved view again', async () => {
+  it("copies the saved view's snapshot when attached, draws its plot as SVG, and never follows the saved view again", async () => {
     const viewId = await saveView('Uptake against density, demo');
     const f = (await tech.post('/api/findings').send({ title: 'With evidence', bodyMd: 'See the plot.' })).body.finding;
     const views = await tech.get('/api/findings/attachable-views');

@@ -66,10 +66,21 @@ export function editorIds(db: Db, findingId: number): number[] {
 }
 
 export function listEvidence(db: Db, findingId: number): EvidenceRow[] {
-  return db.select().from(findingEvidence).where(eq(findingEvidence.findingId, findingId)).orderBy(asc(findingEvidence.position), asc(findingEvidence.id)).all();
+  return db
+    .select()
+    .from(findingEvidence)
+    .where(eq(findingEvidence.findingId, findingId))
+    .orderBy(asc(findingEvidence.position), asc(findingEvidence.id))
+    .all();
 }
 export function nextEvidencePosition(db: Db, findingId: number): number {
-  return (db.select({ p: max(findingEvidence.position) }).from(findingEvidence).where(eq(findingEvidence.findingId, findingId)).get()?.p ?? 0) + 1;
+  return (
+    (db
+      .select({ p: max(findingEvidence.position) })
+      .from(findingEvidence)
+      .where(eq(findingEvidence.findingId, findingId))
+      .get()?.p ?? 0) + 1
+  );
 }
 
 export function listThread(db: Db, findingId: number): CommentRow[] {
@@ -100,7 +111,14 @@ export function slugTaken(db: Db, slug: string): boolean {
 /** Names of people, read through this feature's own query (features never import each other). */
 export function userNames(db: Db, ids: number[]): Map<number, string> {
   if (ids.length === 0) return new Map();
-  return new Map(db.select({ id: users.id, name: users.name }).from(users).where(inArray(users.id, ids)).all().map((u) => [u.id, u.name]));
+  return new Map(
+    db
+      .select({ id: users.id, name: users.name })
+      .from(users)
+      .where(inArray(users.id, ids))
+      .all()
+      .map((u) => [u.id, u.name]),
+  );
 }
 export function findUser(db: Db, id: number) {
   return db.select().from(users).where(eq(users.id, id)).get();
@@ -150,9 +168,16 @@ export interface SavedViewCopy {
  */
 export function readSavedView(db: Db, id: number): SavedViewCopy | undefined {
   if (!savedViewsExist(db)) return undefined;
-  const row = db.get<{ id: number; title: string; note: string | null; view: string; snapshot: string; fingerprint: string; created_at: string; created_by: number | null }>(
-    sql`select id, title, note, view, snapshot, fingerprint, created_at, created_by from evidence where id = ${id}`,
-  );
+  const row = db.get<{
+    id: number;
+    title: string;
+    note: string | null;
+    view: string;
+    snapshot: string;
+    fingerprint: string;
+    created_at: string;
+    created_by: number | null;
+  }>(sql`select id, title, note, view, snapshot, fingerprint, created_at, created_by from evidence where id = ${id}`);
   if (!row) return undefined;
   return {
     id: row.id,
@@ -177,7 +202,17 @@ export function listSavedViews(db: Db) {
 
 /** A signing attempt refused for a wrong password, kept in the audit log (which is also what the limit counts). */
 export function recordRefusedSignature(db: Db, signerId: number, findingId: number, at: string) {
-  db.insert(auditLog).values({ actorId: signerId, createdBy: signerId, action: 'signature-refused', entity: 'finding', entityId: String(findingId), reason: 'wrong password', createdAt: at }).run();
+  db.insert(auditLog)
+    .values({
+      actorId: signerId,
+      createdBy: signerId,
+      action: 'signature-refused',
+      entity: 'finding',
+      entityId: String(findingId),
+      reason: 'wrong password',
+      createdAt: at,
+    })
+    .run();
 }
 export function countRefusedSignatures(db: Db, signerId: number, since: string): number {
   return (

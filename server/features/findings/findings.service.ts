@@ -8,13 +8,7 @@ import { wikiPages, wikiPageTags } from '../../db/schema/wiki';
 import { AppError, Conflict, Forbidden, NotFound, ValidationFailed } from '../../http/errors';
 import { markdownToText, renderMarkdown } from '../../markdown/render';
 import type { User } from '../../../shared/schemas/auth';
-import {
-  CANONICAL_FORM,
-  SIGNATURE_ALGORITHM,
-  SIGNATURE_MEANING_LABELS,
-  type FindingAction,
-  type ThreadEntryKind,
-} from '../../../shared/constants/findings';
+import { CANONICAL_FORM, SIGNATURE_ALGORITHM, SIGNATURE_MEANING_LABELS, type FindingAction, type ThreadEntryKind } from '../../../shared/constants/findings';
 import { allowedActions, decide, type ReviewSubject } from '../../../shared/findings/review';
 import type {
   ApproveFindingInput,
@@ -124,7 +118,13 @@ export function createFindingsService(deps: FeatureDeps, signingLimit: { windowM
     const editors = repo.editorIds(db, row.id);
     const sig = repo.findSignature(db, row.id);
     const rev = repo.latestRevision(db, row.id);
-    const names = repo.userNames(db, [row.createdBy, ...editors, ...evidence.map((e) => e.createdBy), ...thread.map((c) => c.createdBy), ...(sig ? [sig.signerId] : [])]);
+    const names = repo.userNames(db, [
+      row.createdBy,
+      ...editors,
+      ...evidence.map((e) => e.createdBy),
+      ...thread.map((c) => c.createdBy),
+      ...(sig ? [sig.signerId] : []),
+    ]);
     const next = repo.nextVersionOf(db, row.id);
     const prev = row.supersedesId ? repo.findFinding(db, row.supersedesId) : undefined;
     const page = repo.findPageOfFinding(db, row.id);
@@ -146,14 +146,22 @@ export function createFindingsService(deps: FeatureDeps, signingLimit: { windowM
       createdAt: row.createdAt,
       submittedAt: row.submittedAt,
       evidence: evidence.map((e) => toEvidence(e, names)),
-      thread: thread.map(
-        (c): ThreadEntry => ({ id: c.id, kind: c.kind, author: person(c.createdBy, names), bodyMd: c.bodyMd, bodyHtml: renderMarkdown(c.bodyMd), createdAt: c.createdAt }),
-      ),
+      thread: thread.map((c): ThreadEntry => ({
+        id: c.id,
+        kind: c.kind,
+        author: person(c.createdBy, names),
+        bodyMd: c.bodyMd,
+        bodyHtml: renderMarkdown(c.bodyMd),
+        createdAt: c.createdAt,
+      })),
       signature: sig ? toSignature(sig, names) : null,
       wikiSlug: page?.slug ?? null,
       previousVersion: prev ? { id: prev.id, version: prev.version } : null,
       nextVersion: next ? { id: next.id, version: next.version, state: next.state } : null,
-      actions: allowedActions({ state: row.state, authorId: row.createdBy, editorIds: editors, hasNewerVersion: next !== undefined }, { id: user.id, role: user.role }),
+      actions: allowedActions(
+        { state: row.state, authorId: row.createdBy, editorIds: editors, hasNewerVersion: next !== undefined },
+        { id: user.id, role: user.role },
+      ),
     };
   }
 
@@ -185,7 +193,10 @@ export function createFindingsService(deps: FeatureDeps, signingLimit: { windowM
 
   function list(query: FindingListQuery, user: User): FindingList {
     const { rows, total } = repo.listFindings(db, query, user.id);
-    const names = repo.userNames(db, rows.map((r) => r.createdBy));
+    const names = repo.userNames(
+      db,
+      rows.map((r) => r.createdBy),
+    );
     return {
       items: rows.map((r) => ({
         id: r.id,
@@ -216,12 +227,32 @@ export function createFindingsService(deps: FeatureDeps, signingLimit: { windowM
     const id = db.transaction((tx) => {
       const row = tx
         .insert(findings)
-        .values({ seriesId: 0, version: 1, title: input.title, bodyMd: input.bodyMd, trialIds: input.trialIds, speciesIds: input.speciesIds, resinIds: input.resinIds, savedAt: now, createdBy: user.id })
+        .values({
+          seriesId: 0,
+          version: 1,
+          title: input.title,
+          bodyMd: input.bodyMd,
+          trialIds: input.trialIds,
+          speciesIds: input.speciesIds,
+          resinIds: input.resinIds,
+          savedAt: now,
+          createdBy: user.id,
+        })
         .returning({ id: findings.id })
         .get();
       tx.update(findings).set({ seriesId: row.id }).where(eq(findings.id, row.id)).run();
       tx.insert(findingRevisions)
-        .values({ findingId: row.id, revision: 1, title: input.title, bodyMd: input.bodyMd, trialIds: input.trialIds, speciesIds: input.speciesIds, resinIds: input.resinIds, savedAt: now, createdBy: user.id })
+        .values({
+          findingId: row.id,
+          revision: 1,
+          title: input.title,
+          bodyMd: input.bodyMd,
+          trialIds: input.trialIds,
+          speciesIds: input.speciesIds,
+          resinIds: input.resinIds,
+          savedAt: now,
+          createdBy: user.id,
+        })
         .run();
       writeAudit(tx, { actorId: user.id, action: 'finding-created', entity: 'finding', entityId: row.id, after: { title: input.title } });
       return row.id;
@@ -249,7 +280,9 @@ export function createFindingsService(deps: FeatureDeps, signingLimit: { windowM
       speciesIds: input.speciesIds ?? row.speciesIds,
       resinIds: input.resinIds ?? row.resinIds,
     };
-    const unchanged = JSON.stringify(next) === JSON.stringify({ title: row.title, bodyMd: row.bodyMd, trialIds: row.trialIds, speciesIds: row.speciesIds, resinIds: row.resinIds });
+    const unchanged =
+      JSON.stringify(next) ===
+      JSON.stringify({ title: row.title, bodyMd: row.bodyMd, trialIds: row.trialIds, speciesIds: row.speciesIds, resinIds: row.resinIds });
     if (unchanged) return toFinding(row, user);
     const fold =
       latest !== undefined &&
@@ -259,12 +292,20 @@ export function createFindingsService(deps: FeatureDeps, signingLimit: { windowM
     db.transaction((tx) => {
       let revision = current;
       if (fold && latest) {
-        tx.update(findingRevisions).set({ ...next, savedAt: now }).where(eq(findingRevisions.id, latest.id)).run();
+        tx.update(findingRevisions)
+          .set({ ...next, savedAt: now })
+          .where(eq(findingRevisions.id, latest.id))
+          .run();
       } else {
         revision = current + 1;
-        tx.insert(findingRevisions).values({ findingId: id, revision, ...next, savedAt: now, createdBy: user.id }).run();
+        tx.insert(findingRevisions)
+          .values({ findingId: id, revision, ...next, savedAt: now, createdBy: user.id })
+          .run();
       }
-      tx.update(findings).set({ ...next, revision, savedAt: now }).where(eq(findings.id, id)).run();
+      tx.update(findings)
+        .set({ ...next, revision, savedAt: now })
+        .where(eq(findings.id, id))
+        .run();
     });
     return get(id, user);
   }
@@ -272,7 +313,10 @@ export function createFindingsService(deps: FeatureDeps, signingLimit: { windowM
   function revisions(id: number): { items: RevisionSummary[] } {
     load(id);
     const rows = repo.listRevisions(db, id);
-    const names = repo.userNames(db, rows.map((r) => r.createdBy));
+    const names = repo.userNames(
+      db,
+      rows.map((r) => r.createdBy),
+    );
     return { items: rows.map((r) => ({ revision: r.revision, editor: person(r.createdBy, names), savedAt: r.savedAt, title: r.title })) };
   }
 
@@ -300,7 +344,10 @@ export function createFindingsService(deps: FeatureDeps, signingLimit: { windowM
 
   function attachable(): { items: AttachableView[] } {
     const rows = repo.listSavedViews(db);
-    const names = repo.userNames(db, rows.flatMap((r) => (r.created_by === null ? [] : [r.created_by])));
+    const names = repo.userNames(
+      db,
+      rows.flatMap((r) => (r.created_by === null ? [] : [r.created_by])),
+    );
     return {
       items: rows.map((r) => ({
         id: r.id,
@@ -321,7 +368,9 @@ export function createFindingsService(deps: FeatureDeps, signingLimit: { windowM
     const svg = plotSvgFromSnapshot(view.snapshot);
     db.transaction((tx) => {
       const position = repo.nextEvidencePosition(tx, id);
-      tx.insert(findingEvidence).values({ findingId: id, position, savedViewId, title: view.title, kind: 'saved-view', snapshot: view.snapshot, svg, createdBy: user.id }).run();
+      tx.insert(findingEvidence)
+        .values({ findingId: id, position, savedViewId, title: view.title, kind: 'saved-view', snapshot: view.snapshot, svg, createdBy: user.id })
+        .run();
       tx.update(findings).set({ savedAt: iso() }).where(eq(findings.id, id)).run();
       writeAudit(tx, { actorId: user.id, action: 'evidence-attached', entity: 'finding', entityId: id, after: { savedViewId, position } });
     });
@@ -335,7 +384,13 @@ export function createFindingsService(deps: FeatureDeps, signingLimit: { windowM
     if (!ev) throw new NotFound('Evidence');
     db.transaction((tx) => {
       tx.delete(findingEvidence).where(eq(findingEvidence.id, evidenceId)).run();
-      writeAudit(tx, { actorId: user.id, action: 'evidence-detached', entity: 'finding', entityId: id, before: { savedViewId: ev.savedViewId, title: ev.title } });
+      writeAudit(tx, {
+        actorId: user.id,
+        action: 'evidence-detached',
+        entity: 'finding',
+        entityId: id,
+        before: { savedViewId: ev.savedViewId, title: ev.title },
+      });
     });
     return get(id, user);
   }
@@ -345,7 +400,8 @@ export function createFindingsService(deps: FeatureDeps, signingLimit: { windowM
   async function submit(user: User, id: number): Promise<Finding> {
     const row = load(id);
     const next = enforce(row, user, 'submit');
-    if (!row.title.trim() || !row.bodyMd.trim()) throw new ValidationFailed('Write a title and a body before submitting', { bodyMd: ['Write what the trial showed'] });
+    if (!row.title.trim() || !row.bodyMd.trim())
+      throw new ValidationFailed('Write a title and a body before submitting', { bodyMd: ['Write what the trial showed'] });
     const now = iso();
     db.transaction((tx) => {
       tx.update(findings).set({ state: next, submittedAt: now }).where(eq(findings.id, id)).run();
@@ -367,7 +423,11 @@ export function createFindingsService(deps: FeatureDeps, signingLimit: { windowM
     enforce(row, user, 'comment');
     db.transaction((tx) => addThread(tx, id, 'comment', bodyMd, user.id));
     const excerpt = markdownToText(bodyMd).slice(0, 500);
-    await mail(participants(row, user.id), `New comment on: ${row.title}`, `${user.name} commented on the finding "${row.title}":\n\n${excerpt}\n\nReply or read the thread here:\n${link(`/findings/${id}`)}\n`);
+    await mail(
+      participants(row, user.id),
+      `New comment on: ${row.title}`,
+      `${user.name} commented on the finding "${row.title}":\n\n${excerpt}\n\nReply or read the thread here:\n${link(`/findings/${id}`)}\n`,
+    );
     return get(id, user);
   }
 
@@ -379,7 +439,10 @@ export function createFindingsService(deps: FeatureDeps, signingLimit: { windowM
       addThread(tx, id, 'returned', reason, user.id);
       writeAudit(tx, { actorId: user.id, action: 'finding-returned', entity: 'finding', entityId: id, reason });
     });
-    const to = repo.emailsOf(db, [...new Set([row.createdBy, ...repo.editorIds(db, id)])].filter((i) => i !== user.id));
+    const to = repo.emailsOf(
+      db,
+      [...new Set([row.createdBy, ...repo.editorIds(db, id)])].filter((i) => i !== user.id),
+    );
     await mail(
       to,
       `Returned for changes: ${row.title}`,
@@ -433,18 +496,48 @@ export function createFindingsService(deps: FeatureDeps, signingLimit: { windowM
         .returning({ id: findings.id })
         .get();
       tx.insert(findingRevisions)
-        .values({ findingId: created.id, revision: 1, title: row.title, bodyMd: row.bodyMd, trialIds: row.trialIds, speciesIds: row.speciesIds, resinIds: row.resinIds, savedAt: now, createdBy: user.id })
+        .values({
+          findingId: created.id,
+          revision: 1,
+          title: row.title,
+          bodyMd: row.bodyMd,
+          trialIds: row.trialIds,
+          speciesIds: row.speciesIds,
+          resinIds: row.resinIds,
+          savedAt: now,
+          createdBy: user.id,
+        })
         .run();
       for (const e of repo.listEvidence(tx, row.id)) {
-        tx.insert(findingEvidence).values({ findingId: created.id, position: e.position, savedViewId: e.savedViewId, title: e.title, kind: e.kind, snapshot: e.snapshot, svg: e.svg, createdBy: user.id }).run();
+        tx.insert(findingEvidence)
+          .values({
+            findingId: created.id,
+            position: e.position,
+            savedViewId: e.savedViewId,
+            title: e.title,
+            kind: e.kind,
+            snapshot: e.snapshot,
+            svg: e.svg,
+            createdBy: user.id,
+          })
+          .run();
       }
-      writeAudit(tx, { actorId: user.id, action: 'finding-revised', entity: 'finding', entityId: created.id, after: { supersedes: row.id, version: row.version + 1 } });
+      writeAudit(tx, {
+        actorId: user.id,
+        action: 'finding-revised',
+        entity: 'finding',
+        entityId: created.id,
+        after: { supersedes: row.id, version: row.version + 1 },
+      });
       return created.id;
     });
     return get(newId, user);
   }
 
-  function contentFromFinding(row: repo.FindingRow, sig: { signerId: number; signerName: string; meaning: repo.SignatureRow['meaning']; signedAt: string }): SignedContent {
+  function contentFromFinding(
+    row: repo.FindingRow,
+    sig: { signerId: number; signerName: string; meaning: repo.SignatureRow['meaning']; signedAt: string },
+  ): SignedContent {
     return {
       finding: {
         id: row.id,
@@ -457,7 +550,9 @@ export function createFindingsService(deps: FeatureDeps, signingLimit: { windowM
         speciesIds: row.speciesIds,
         resinIds: row.resinIds,
       },
-      evidence: repo.listEvidence(db, row.id).map((e) => ({ position: e.position, savedViewId: e.savedViewId, title: e.title, kind: e.kind, snapshot: e.snapshot, svg: e.svg })),
+      evidence: repo
+        .listEvidence(db, row.id)
+        .map((e) => ({ position: e.position, savedViewId: e.savedViewId, title: e.title, kind: e.kind, snapshot: e.snapshot, svg: e.svg })),
       signature: sig,
     };
   }
@@ -476,7 +571,9 @@ export function createFindingsService(deps: FeatureDeps, signingLimit: { windowM
         speciesIds: tags.filter((t) => t.kind === 'species').map((t) => t.refId),
         resinIds: tags.filter((t) => t.kind === 'resin').map((t) => t.refId),
       },
-      evidence: repo.listEvidence(db, page.findingId).map((e) => ({ position: e.position, savedViewId: e.savedViewId, title: e.title, kind: e.kind, snapshot: e.snapshot, svg: e.svg })),
+      evidence: repo
+        .listEvidence(db, page.findingId)
+        .map((e) => ({ position: e.position, savedViewId: e.savedViewId, title: e.title, kind: e.kind, snapshot: e.snapshot, svg: e.svg })),
       signature: { signerId: sig.signerId, signerName: sig.signerName, meaning: sig.meaning, signedAt: sig.signedAt },
     };
   }
@@ -513,12 +610,21 @@ export function createFindingsService(deps: FeatureDeps, signingLimit: { windowM
     const page = db.transaction((tx) => {
       // Re-read inside the transaction: nothing may change between what is hashed and what is stored.
       const fresh = repo.findFinding(tx, id)!;
-      if (fresh.state !== 'in-review' || fresh.savedAt !== row.savedAt) throw new Conflict('The finding changed while you were signing; read it again and sign again');
+      if (fresh.state !== 'in-review' || fresh.savedAt !== row.savedAt)
+        throw new Conflict('The finding changed while you were signing; read it again and sign again');
       const content = contentFromFinding(fresh, sigFields);
       const { canonical, hash } = hashContent(content);
       const sig = tx
         .insert(signatures)
-        .values({ findingId: id, ...sigFields, algorithm: SIGNATURE_ALGORITHM, canonicalForm: CANONICAL_FORM, contentHash: hash, signedContent: canonical, createdBy: user.id })
+        .values({
+          findingId: id,
+          ...sigFields,
+          algorithm: SIGNATURE_ALGORITHM,
+          canonicalForm: CANONICAL_FORM,
+          contentHash: hash,
+          signedContent: canonical,
+          createdBy: user.id,
+        })
         .returning()
         .get();
       tx.update(findings).set({ state: next, approvedAt: signedAt }).where(eq(findings.id, id)).run();
@@ -546,18 +652,33 @@ export function createFindingsService(deps: FeatureDeps, signingLimit: { windowM
         .get();
       const sp = repo.speciesNames(tx, fresh.speciesIds);
       const rs = repo.resinNames(tx, fresh.resinIds);
-      for (const sid of fresh.speciesIds) tx.insert(wikiPageTags).values({ pageId: created.id, kind: 'species', refId: sid, name: sp.find((s) => s.id === sid)?.name ?? '' }).run();
-      for (const rid of fresh.resinIds) tx.insert(wikiPageTags).values({ pageId: created.id, kind: 'resin', refId: rid, name: rs.find((r) => r.id === rid)?.name ?? '' }).run();
+      for (const sid of fresh.speciesIds)
+        tx.insert(wikiPageTags)
+          .values({ pageId: created.id, kind: 'species', refId: sid, name: sp.find((s) => s.id === sid)?.name ?? '' })
+          .run();
+      for (const rid of fresh.resinIds)
+        tx.insert(wikiPageTags)
+          .values({ pageId: created.id, kind: 'resin', refId: rid, name: rs.find((r) => r.id === rid)?.name ?? '' })
+          .run();
       tx.run(
         sql`insert into wiki_fts (rowid, title, body, tags) values (${created.id}, ${fresh.title}, ${markdownToText(fresh.bodyMd)}, ${[...sp.map((s) => s.name), ...rs.map((r) => r.name)].join(' ')})`,
       );
       const older = repo.currentPageOfSeries(tx, fresh.seriesId, created.id);
       if (older) tx.update(wikiPages).set({ supersededById: created.id }).where(eq(wikiPages.id, older.id)).run();
-      writeAudit(tx, { actorId: user.id, action: 'finding-approved', entity: 'finding', entityId: id, after: { signatureId: sig.id, hash, meaning: input.meaning, page: created.slug } });
+      writeAudit(tx, {
+        actorId: user.id,
+        action: 'finding-approved',
+        entity: 'finding',
+        entityId: id,
+        after: { signatureId: sig.id, hash, meaning: input.meaning, page: created.slug },
+      });
       return created;
     });
     await mail(
-      repo.emailsOf(db, [...new Set([row.createdBy, ...repo.editorIds(db, id)])].filter((i) => i !== user.id)),
+      repo.emailsOf(
+        db,
+        [...new Set([row.createdBy, ...repo.editorIds(db, id)])].filter((i) => i !== user.id),
+      ),
       `Approved: ${row.title}`,
       `${account!.name} approved the finding "${row.title}" (${SIGNATURE_MEANING_LABELS[input.meaning]}).\n\nIt is now a page of the shop wiki:\n${link(`/wiki/${page.slug}`)}\n`,
     );
@@ -586,5 +707,23 @@ export function createFindingsService(deps: FeatureDeps, signingLimit: { windowM
     return { status: intact ? 'intact' : 'altered', checkedAt: iso(), signedHash: sig.contentHash, findingHash, pageHash, differences };
   }
 
-  return { list, get, create, update, revisions, revision, attachable, attach, detach, submit, comment, returnFinding, reopen, withdraw, revise, approve, verify };
+  return {
+    list,
+    get,
+    create,
+    update,
+    revisions,
+    revision,
+    attachable,
+    attach,
+    detach,
+    submit,
+    comment,
+    returnFinding,
+    reopen,
+    withdraw,
+    revise,
+    approve,
+    verify,
+  };
 }

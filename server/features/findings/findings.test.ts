@@ -86,7 +86,9 @@ describe('findings: who may do what', () => {
     expect(ret.body.finding.state).toBe('returned');
     expect((await as.reviewer.post(`/api/findings/${f.id}/reopen`)).status).toBe(403);
     expect((await as.technician.post(`/api/findings/${f.id}/reopen`)).body.finding.state).toBe('draft');
-    const edited = await as.technician.patch(`/api/findings/${f.id}`).send({ baseRevision: f.revision, bodyMd: 'Six coupons per species. Red maple gained more.' });
+    const edited = await as.technician
+      .patch(`/api/findings/${f.id}`)
+      .send({ baseRevision: f.revision, bodyMd: 'Six coupons per species. Red maple gained more.' });
     expect(edited.status, JSON.stringify(edited.body)).toBe(200);
     expect((await as.technician.post(`/api/findings/${f.id}/submit`)).status).toBe(200);
     const ok = await as.reviewer.post(`/api/findings/${f.id}/approve`).send({ password: DEMO_PASSWORD, meaning: 'approved-for-wiki' });
@@ -136,7 +138,11 @@ describe('findings: who may do what', () => {
     expect(res.body.error.fieldErrors.password).toBeDefined();
     expect(h.database.db.select().from(signatures).where(eq(signatures.findingId, f.id)).get()).toBeUndefined();
     expect(h.database.db.select().from(findings).where(eq(findings.id, f.id)).get()!.state).toBe('in-review');
-    const refused = h.database.db.select().from(auditLog).where(and(eq(auditLog.action, 'signature-refused'), eq(auditLog.entityId, String(f.id)))).all();
+    const refused = h.database.db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.action, 'signature-refused'), eq(auditLog.entityId, String(f.id))))
+      .all();
     expect(refused).toHaveLength(1);
   });
 
@@ -202,7 +208,12 @@ describe('signatures', () => {
     const f = await inReview();
     const res = await as.reviewer.post(`/api/findings/${f.id}/approve`).send({ password: DEMO_PASSWORD, meaning: 'reviewed-no-objection' });
     const sig = res.body.finding.signature;
-    expect(sig).toMatchObject({ signerName: 'Ilse Marrow (quality)', meaning: 'reviewed-no-objection', meaningLabel: 'Reviewed, no objection', algorithm: 'SHA-256' });
+    expect(sig).toMatchObject({
+      signerName: 'Ilse Marrow (quality)',
+      meaning: 'reviewed-no-objection',
+      meaningLabel: 'Reviewed, no objection',
+      algorithm: 'SHA-256',
+    });
     expect(sig.contentHash).toMatch(/^[0-9a-f]{64}$/);
     const row = h.database.db.select().from(signatures).where(eq(signatures.findingId, f.id)).get()!;
     expect(sha256Hex(row.signedContent)).toBe(row.contentHash);
@@ -212,7 +223,7 @@ describe('signatures', () => {
     expect(v.body.verification.pageHash).toBe(sig.contentHash);
   });
 
-  it('detects a row changed behind the app\'s back, and says what differs', async () => {
+  it("detects a row changed behind the app's back, and says what differs", async () => {
     const f = await inReview();
     await as.reviewer.post(`/api/findings/${f.id}/approve`).send({ password: DEMO_PASSWORD, meaning: 'approved-for-wiki' });
     // Someone edits the SQLite file directly.

@@ -15,7 +15,14 @@ import { startHarness } from '../../testing/harness';
 
 const N = 100_000;
 const tag = (i: number) => `BX-${String(i).padStart(6, '0')}`;
-const text = ['tag,mass,unit,date,time', ...Array.from({ length: N }, (_, i) => `${tag(i)},${(10 + (i % 997) / 100).toFixed(3)},g,2026-03-02,${String(8 + Math.floor(i / 3600) % 12).padStart(2, '0')}:${String(Math.floor(i / 60) % 60).padStart(2, '0')}:${String(i % 60).padStart(2, '0')}`)].join('\r\n');
+const text = [
+  'tag,mass,unit,date,time',
+  ...Array.from(
+    { length: N },
+    (_, i) =>
+      `${tag(i)},${(10 + (i % 997) / 100).toFixed(3)},g,2026-03-02,${String(8 + (Math.floor(i / 3600) % 12)).padStart(2, '0')}:${String(Math.floor(i / 60) % 60).padStart(2, '0')}:${String(i % 60).padStart(2, '0')}`,
+  ),
+].join('\r\n');
 const bytes = Buffer.from(`${text}\r\n`);
 
 function addCoupons(d: Database_) {
@@ -52,7 +59,12 @@ describe(`import of ${N.toLocaleString('en')} readings`, () => {
     () => {
       const t0 = performance.now();
       const rows = Papa.parse<string[]>(text, { skipEmptyLines: true }).data.slice(1);
-      const ids = new Map(floorDb.sqlite.prepare('select id, tag from coupons').all().map((r) => [(r as { tag: string }).tag, (r as { id: number }).id]));
+      const ids = new Map(
+        floorDb.sqlite
+          .prepare('select id, tag from coupons')
+          .all()
+          .map((r) => [(r as { tag: string }).tag, (r as { id: number }).id]),
+      );
       const ins = floorDb.sqlite.prepare("insert into weighings (coupon_id, stage, mass_g, measured_at) values (?, 'dry', ?, ?)");
       floorDb.sqlite.transaction(() => {
         for (const r of rows) ins.run(ids.get(r[0] as string), Number(r[1]), `${r[3]}T${r[4]}.000Z`);
@@ -88,7 +100,8 @@ describe(`import of ${N.toLocaleString('en')} readings`, () => {
       const c = await settle(d.id);
       times.total = performance.now() - t0;
       loop.disable();
-      if (c.status !== 'committed' || c.counts.accepted !== N) throw new Error(`commit ended ${c.status}: ${c.error} ${JSON.stringify(c.counts)} (preview ${JSON.stringify(p.counts)})`);
+      if (c.status !== 'committed' || c.counts.accepted !== N)
+        throw new Error(`commit ended ${c.status}: ${c.error} ${JSON.stringify(c.counts)} (preview ${JSON.stringify(p.counts)})`);
     },
     once,
   );

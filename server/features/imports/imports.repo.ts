@@ -36,7 +36,13 @@ export function findRun(db: Db, id: number) {
 }
 
 export function couponIdsOfRun(db: Db, runId: number): number[] {
-  return db.select({ id: coupons.id }).from(coupons).where(eq(coupons.runId, runId)).orderBy(asc(coupons.tag)).all().map((r) => r.id);
+  return db
+    .select({ id: coupons.id })
+    .from(coupons)
+    .where(eq(coupons.runId, runId))
+    .orderBy(asc(coupons.tag))
+    .all()
+    .map((r) => r.id);
 }
 
 export function insertImport(db: Db, values: typeof imports.$inferInsert): ImportRow {
@@ -107,7 +113,14 @@ export function replaceProblems(db: Db, importId: number, problems: ImportProble
 }
 
 export function problemsOf(db: Db, importId: number, limit: number, offset: number) {
-  const items = db.select().from(importProblems).where(eq(importProblems.importId, importId)).orderBy(asc(importProblems.row), asc(importProblems.id)).limit(limit).offset(offset).all();
+  const items = db
+    .select()
+    .from(importProblems)
+    .where(eq(importProblems.importId, importId))
+    .orderBy(asc(importProblems.row), asc(importProblems.id))
+    .limit(limit)
+    .offset(offset)
+    .all();
   const total = db.select({ n: count() }).from(importProblems).where(eq(importProblems.importId, importId)).get()?.n ?? 0;
   return { items, total };
 }
@@ -123,7 +136,17 @@ export function currentWeighingIdsOfImport(db: Db, importId: number): number[] {
 }
 
 export function findWeighingState(db: Db, id: number) {
-  return db.select({ id: weighings.id, massG: weighings.massG, measuredAt: weighings.measuredAt, supersededBy: weighings.supersededBy, deletedAt: weighings.deletedAt }).from(weighings).where(eq(weighings.id, id)).get();
+  return db
+    .select({
+      id: weighings.id,
+      massG: weighings.massG,
+      measuredAt: weighings.measuredAt,
+      supersededBy: weighings.supersededBy,
+      deletedAt: weighings.deletedAt,
+    })
+    .from(weighings)
+    .where(eq(weighings.id, id))
+    .get();
 }
 
 /** The current weighing of each coupon at a stage, for corrections. */

@@ -1,7 +1,14 @@
 import type { FeatureDeps } from '../../deps';
 import { secureRouter } from '../../http/routes';
 import { idParamsSchema, listQuerySchema } from '../../../shared/schemas/common';
-import { commitImportSchema, createPresetSchema, importProblemsQuerySchema, previewImportSchema, sampleImportSchema, undoImportSchema } from '../../../shared/schemas/imports';
+import {
+  commitImportSchema,
+  createPresetSchema,
+  importProblemsQuerySchema,
+  previewImportSchema,
+  sampleImportSchema,
+  undoImportSchema,
+} from '../../../shared/schemas/imports';
 import { templateCsv } from '../../../shared/imports/template';
 import { createImportsService } from './imports.service';
 
@@ -20,9 +27,13 @@ export function importsRoutes(deps: FeatureDeps) {
     res.status(200).send(templateCsv());
   });
   r.get('/imports/presets', { access: 'viewer' }, () => service.presets());
-  r.post('/imports/presets', { access: 'technician', status: 201, schemas: { body: createPresetSchema } }, ({ user, body }) => service.createPreset(user, body));
+  r.post('/imports/presets', { access: 'technician', status: 201, schemas: { body: createPresetSchema } }, ({ user, body }) =>
+    service.createPreset(user, body),
+  );
   r.get('/imports/:id', { access: 'viewer', schemas: id }, ({ params }) => service.detail(params.id));
-  r.get('/imports/:id/problems', { access: 'viewer', schemas: { ...id, query: importProblemsQuerySchema } }, ({ params, query }) => service.problems(params.id, query));
+  r.get('/imports/:id/problems', { access: 'viewer', schemas: { ...id, query: importProblemsQuerySchema } }, ({ params, query }) =>
+    service.problems(params.id, query),
+  );
   r.get('/imports/:id/problems.csv', { access: 'viewer', schemas: id }, ({ params, res }) => {
     // Built before any header is set, so a missing import still gets the JSON error envelope.
     const csv = service.problemsCsv(params.id);
@@ -30,9 +41,17 @@ export function importsRoutes(deps: FeatureDeps) {
     res.setHeader('Content-Disposition', `attachment; filename="import-${params.id}-problems.csv"`);
     res.status(200).send(csv);
   });
-  r.post('/imports/:id/sample', { access: 'technician', schemas: { ...id, body: sampleImportSchema } }, ({ params, body }) => service.sample(params.id, body.format));
-  r.post('/imports/:id/preview', { access: 'technician', status: 202, schemas: { ...id, body: previewImportSchema } }, ({ params, body }) => service.preview(params.id, body.mapping));
-  r.post('/imports/:id/commit', { access: 'technician', status: 202, schemas: { ...id, body: commitImportSchema } }, ({ user, params, body }) => service.commit(user, params.id, body));
-  r.post('/imports/:id/undo', { access: 'technician', schemas: { ...id, body: undoImportSchema } }, ({ user, params, body }) => service.undo(user, params.id, body.reason));
+  r.post('/imports/:id/sample', { access: 'technician', schemas: { ...id, body: sampleImportSchema } }, ({ params, body }) =>
+    service.sample(params.id, body.format),
+  );
+  r.post('/imports/:id/preview', { access: 'technician', status: 202, schemas: { ...id, body: previewImportSchema } }, ({ params, body }) =>
+    service.preview(params.id, body.mapping),
+  );
+  r.post('/imports/:id/commit', { access: 'technician', status: 202, schemas: { ...id, body: commitImportSchema } }, ({ user, params, body }) =>
+    service.commit(user, params.id, body),
+  );
+  r.post('/imports/:id/undo', { access: 'technician', schemas: { ...id, body: undoImportSchema } }, ({ user, params, body }) =>
+    service.undo(user, params.id, body.reason),
+  );
   return r;
 }

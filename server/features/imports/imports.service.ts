@@ -153,7 +153,15 @@ export function createImportsService(deps: FeatureDeps) {
     requireImport(id);
     const { items, total } = problemsOf(db, id, q.pageSize, (q.page - 1) * q.pageSize);
     return {
-      items: items.map((p) => ({ row: p.row, column: p.column, code: p.code, outcome: p.outcome, message: p.message, suggestions: p.suggestions, cells: p.cells })),
+      items: items.map((p) => ({
+        row: p.row,
+        column: p.column,
+        code: p.code,
+        outcome: p.outcome,
+        message: p.message,
+        suggestions: p.suggestions,
+        cells: p.cells,
+      })),
       page: q.page,
       pageSize: q.pageSize,
       total,
@@ -167,7 +175,10 @@ export function createImportsService(deps: FeatureDeps) {
   function problemsCsv(id: number): string {
     requireImport(id);
     const { items } = problemsOf(db, id, 1_000_000, 0);
-    return toSafeCsv([['row', 'column', 'outcome', 'problem', 'reason', 'cells'], ...items.map((p) => [p.row, p.column ?? '', p.outcome, p.code, p.message, p.cells.join(' | ')])]);
+    return toSafeCsv([
+      ['row', 'column', 'outcome', 'problem', 'reason', 'cells'],
+      ...items.map((p) => [p.row, p.column ?? '', p.outcome, p.code, p.message, p.cells.join(' | ')]),
+    ]);
   }
 
   /** Reads the head of the stored file with a format and answers its columns and first rows. */
@@ -223,7 +234,13 @@ export function createImportsService(deps: FeatureDeps) {
           sample: { columns: view.columns, sampleRows: view.sampleRows },
           createdBy: actor.id,
         });
-        writeAudit(tx, { actorId: actor.id, action: 'upload', entity: 'import', entityId: r.id, after: { originalName: r.originalName, sha256: r.sha256, bytes: r.bytes } });
+        writeAudit(tx, {
+          actorId: actor.id,
+          action: 'upload',
+          entity: 'import',
+          entityId: r.id,
+          after: { originalName: r.originalName, sha256: r.sha256, bytes: r.bytes },
+        });
         return r;
       });
       return detail(row.id);
@@ -254,7 +271,8 @@ export function createImportsService(deps: FeatureDeps) {
       if (!run) throw new Unprocessable(`No run with id ${mapping.target.runId}`, { 'mapping.target.runId': ['No such run'] });
       const keys = new Map(couponKeysByIds(db, mapping.target.couponIds).map((k) => [k.id, k]));
       const missing = mapping.target.couponIds.filter((id) => !keys.has(id));
-      if (missing.length) throw new Unprocessable(`No coupon with id ${missing[0]}`, { 'mapping.target.couponIds': [`No coupon with id ${missing.join(', ')}`] });
+      if (missing.length)
+        throw new Unprocessable(`No coupon with id ${missing[0]}`, { 'mapping.target.couponIds': [`No coupon with id ${missing.join(', ')}`] });
       sequence = mapping.target.couponIds.map((id) => keys.get(id) as CouponKey);
     }
     const ctx = { columnNames: [] as string[], fallbackIso: r.createdAt };
@@ -266,8 +284,15 @@ export function createImportsService(deps: FeatureDeps) {
     let dataRows = 0;
     let seenHeader = !mapping.format.hasHeader;
     const columnName = (i: number) => ctx.columnNames[i] ?? `Column ${i + 1}`;
-    const add = (row: number, cells: string[], code: ImportProblemCode, column: string | null, message: string, outcome: ImportRowOutcome, suggestions: string[] = []) =>
-      problems.push({ row, column, code, outcome, message, suggestions, cells: clipCells(cells) });
+    const add = (
+      row: number,
+      cells: string[],
+      code: ImportProblemCode,
+      column: string | null,
+      message: string,
+      outcome: ImportRowOutcome,
+      suggestions: string[] = [],
+    ) => problems.push({ row, column, code, outcome, message, suggestions, cells: clipCells(cells) });
 
     await streamRows(
       path.join(dir, r.fileName),
@@ -304,7 +329,14 @@ export function createImportsService(deps: FeatureDeps) {
         if (mapping.target.mode === 'sequence') {
           coupon = sequence[next++];
           if (!coupon) {
-            add(row, cells, 'sequence-extra-reading', null, `Reading ${next} of the file has no coupon: the weighing order lists ${sequence.length}`, 'problem');
+            add(
+              row,
+              cells,
+              'sequence-extra-reading',
+              null,
+              `Reading ${next} of the file has no coupon: the weighing order lists ${sequence.length}`,
+              'problem',
+            );
             return;
           }
         }
@@ -324,7 +356,8 @@ export function createImportsService(deps: FeatureDeps) {
       add(0, [], 'sequence-missing-reading', null, msg, 'problem');
     }
     for (const c of candidates) {
-      if (c.replacedBy !== undefined) add(c.row, c.cells, 'duplicate-in-file', null, `${c.tag} is weighed again at row ${c.replacedBy}; the later reading is kept`, 'skipped');
+      if (c.replacedBy !== undefined)
+        add(c.row, c.cells, 'duplicate-in-file', null, `${c.tag} is weighed again at row ${c.replacedBy}; the later reading is kept`, 'skipped');
     }
     return { dataRows, problems, massColumn: columnName(mapping.massColumn), candidates: candidates.filter((c) => c.replacedBy === undefined) };
   }
@@ -333,7 +366,10 @@ export function createImportsService(deps: FeatureDeps) {
   function judge(tx: Db, mapping: ImportMapping, collected: Awaited<ReturnType<typeof collect>>): Analysis {
     const { candidates } = collected;
     const problemsFound = [...collected.problems];
-    const entries: MeasurementEntry[] = candidates.map((c) => ({ couponId: c.couponId, weighings: [{ stage: mapping.stage, massG: c.massG, measuredAt: c.measuredAt }] }));
+    const entries: MeasurementEntry[] = candidates.map((c) => ({
+      couponId: c.couponId,
+      weighings: [{ stage: mapping.stage, massG: c.massG, measuredAt: c.measuredAt }],
+    }));
     const refused = measurements.checkBulk(tx, entries);
     const refusedAt = new Map<number, ReadingProblem>();
     for (const p of refused) if (!refusedAt.has(p.entry)) refusedAt.set(p.entry, p);
@@ -345,7 +381,15 @@ export function createImportsService(deps: FeatureDeps) {
       const code = classify(p);
       if (code === 'existing-reading') {
         if (mapping.existing === 'correct') return corrections.push(c);
-        problemsFound.push({ row: c.row, column: null, code, outcome: 'skipped', message: `${p.message.replace(/; correct that one.*$/, '')}; it is left as it is (choose to correct existing readings, with a reason, to replace it)`, suggestions: [], cells: clipCells(c.cells) });
+        problemsFound.push({
+          row: c.row,
+          column: null,
+          code,
+          outcome: 'skipped',
+          message: `${p.message.replace(/; correct that one.*$/, '')}; it is left as it is (choose to correct existing readings, with a reason, to replace it)`,
+          suggestions: [],
+          cells: clipCells(c.cells),
+        });
         return;
       }
       const massCol = code === 'impossible-mass' ? collected.massColumn : null;
@@ -364,7 +408,15 @@ export function createImportsService(deps: FeatureDeps) {
     const previewRows = [...accepted.map((c) => ({ c, correction: false })), ...corrections.map((c) => ({ c, correction: true }))]
       .sort((a, b) => a.c.row - b.c.row)
       .slice(0, PREVIEW_ROWS)
-      .map(({ c, correction }) => ({ row: c.row, couponId: c.couponId, tag: c.tag, stage: mapping.stage, massG: c.massG, measuredAt: c.measuredAt, correction }));
+      .map(({ c, correction }) => ({
+        row: c.row,
+        couponId: c.couponId,
+        tag: c.tag,
+        stage: mapping.stage,
+        massG: c.massG,
+        measuredAt: c.measuredAt,
+        correction,
+      }));
     return { counts, problems: problemsFound, accepted, corrections, previewRows };
   }
 
@@ -452,12 +504,28 @@ export function createImportsService(deps: FeatureDeps) {
           corrections.push({ oldId: current.id, newId: out.row.id });
         }
         const committedAt = deps.now().toISOString();
-        updateImport(tx, id, { status: 'committed', counts: a.counts, previewRows: a.previewRows, corrections, committedAt, committedBy: actor.id, error: null });
-        writeAudit(tx, { actorId: actor.id, action: 'commit', entity: 'import', entityId: id, after: { stage: mapping.stage, counts: a.counts, choice: input.choice } });
+        updateImport(tx, id, {
+          status: 'committed',
+          counts: a.counts,
+          previewRows: a.previewRows,
+          corrections,
+          committedAt,
+          committedBy: actor.id,
+          error: null,
+        });
+        writeAudit(tx, {
+          actorId: actor.id,
+          action: 'commit',
+          entity: 'import',
+          entityId: id,
+          after: { stage: mapping.stage, counts: a.counts, choice: input.choice },
+        });
       });
       if (blocked) {
         const after = requireImport(id);
-        updateImport(db, id, { error: `${after.counts?.problems ?? 0} rows still have problems, so nothing was imported (you chose nothing until every problem is fixed)` });
+        updateImport(db, id, {
+          error: `${after.counts?.problems ?? 0} rows still have problems, so nothing was imported (you chose nothing until every problem is fixed)`,
+        });
       }
     });
     return detail(id);

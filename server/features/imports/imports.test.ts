@@ -20,7 +20,11 @@ async function shop() {
   const h = await startHarness();
   const tech = await h.signIn('tech@demo.test');
   const viewer = await h.signIn('viewer@demo.test');
-  const sp = h.database.db.select().from(species).all().find((s) => s.basicSg !== null)!;
+  const sp = h.database.db
+    .select()
+    .from(species)
+    .all()
+    .find((s) => s.basicSg !== null)!;
   const ids: Record<string, number> = {};
   for (const tag of ['FX-01', 'FX-02', 'FX-03', 'FX-04', 'FX-05', 'FX-06', 'FX-C1']) {
     const res = await tech.post('/api/coupons').send({ tag, speciesId: sp.id, role: tag === 'FX-C1' ? 'control' : 'treated' });
@@ -47,7 +51,13 @@ async function settle(agent: Agent, id: number): Promise<ImportDetail> {
 function mappingFor(d: ImportDetail, over: Partial<ImportMappingInput> = {}): ImportMappingInput {
   const s = d.detected.suggested;
   return {
-    format: { encoding: d.detected.encoding.value, delimiter: d.detected.delimiter.value, hasHeader: d.detected.hasHeader.value, decimal: d.detected.decimal.value, dateOrder: d.detected.dateOrder.value },
+    format: {
+      encoding: d.detected.encoding.value,
+      delimiter: d.detected.delimiter.value,
+      hasHeader: d.detected.hasHeader.value,
+      decimal: d.detected.decimal.value,
+      dateOrder: d.detected.dateOrder.value,
+    },
     target: { mode: 'tag', tagColumn: s.tagColumn ?? 0 },
     massColumn: s.massColumn ?? 1,
     unitColumn: s.unitColumn,
@@ -145,7 +155,11 @@ describe('imports: upload, detect, preview, commit, undo', () => {
     const kept = s.h.database.db.select().from(weighings).where(eq(weighings.importId, d.id)).all();
     expect(kept).toHaveLength(3);
     expect(kept.every((k) => k.deletedAt !== null)).toBe(true);
-    const audit = s.h.database.db.select().from(auditLog).where(and(eq(auditLog.entity, 'import'), eq(auditLog.entityId, String(d.id)), eq(auditLog.action, 'undo'))).get();
+    const audit = s.h.database.db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entity, 'import'), eq(auditLog.entityId, String(d.id)), eq(auditLog.action, 'undo')))
+      .get();
     expect(audit).toMatchObject({ reason: 'wrong stage picked' });
     expect((await s.tech.post(`/api/imports/${d.id}/undo`).send({ reason: 'again' })).status).toBe(409);
   });
@@ -173,7 +187,9 @@ describe('imports: every problem class explained by row and column', () => {
   beforeAll(async () => {
     s = await shop();
     // FX-01 has a dry mass above what the file says it weighed soaked: impossible.
-    expect((await s.tech.post(`/api/coupons/${s.ids['FX-01']}/weighings`).send({ stage: 'dry', massG: 12.5, measuredAt: '2026-03-01T08:00:00.000Z' })).status).toBe(201);
+    expect(
+      (await s.tech.post(`/api/coupons/${s.ids['FX-01']}/weighings`).send({ stage: 'dry', massG: 12.5, measuredAt: '2026-03-01T08:00:00.000Z' })).status,
+    ).toBe(201);
   });
   afterAll(async () => {
     await s.h.close();
@@ -323,7 +339,9 @@ describe('imports: files refused with a clear answer, nothing left behind', () =
   it('leaves no weighing when the database fails in the middle of a commit', async () => {
     const d = (await upload(s.tech, 'comma-header.csv')).body as ImportDetail;
     // A real failure inside SQLite on the second row's insert, not a mock.
-    s.h.database.sqlite.exec("create trigger fail_mid_import before insert on weighings when new.mass_g = 11.902 begin select raise(abort, 'disk trouble'); end");
+    s.h.database.sqlite.exec(
+      "create trigger fail_mid_import before insert on weighings when new.mass_g = 11.902 begin select raise(abort, 'disk trouble'); end",
+    );
     try {
       const c = await committed(s.tech, d);
       expect(c.status).toBe('failed');

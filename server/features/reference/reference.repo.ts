@@ -66,7 +66,11 @@ export function findSpecies(db: Db, id: number): SpeciesRow | undefined {
   return db.select().from(species).where(eq(species.id, id)).get();
 }
 export function findSpeciesByName(db: Db, commonName: string): SpeciesRow | undefined {
-  return db.select().from(species).where(sql`${species.commonName} = ${commonName} collate nocase`).get();
+  return db
+    .select()
+    .from(species)
+    .where(sql`${species.commonName} = ${commonName} collate nocase`)
+    .get();
 }
 export function countSpecies(db: Db): number {
   return db.select({ n: count() }).from(species).get()?.n ?? 0;
@@ -97,7 +101,11 @@ export function findResin(db: Db, id: number): ResinRow | undefined {
   return db.select().from(resins).where(eq(resins.id, id)).get();
 }
 export function findResinByName(db: Db, name: string): ResinRow | undefined {
-  return db.select().from(resins).where(sql`${resins.name} = ${name} collate nocase`).get();
+  return db
+    .select()
+    .from(resins)
+    .where(sql`${resins.name} = ${name} collate nocase`)
+    .get();
 }
 export function insertResin(db: Db, values: typeof resins.$inferInsert): ResinRow {
   return db.insert(resins).values(values).returning().get();
@@ -147,7 +155,11 @@ export function findLot(db: Db, id: number): LotWithResin | undefined {
   return db.select(lotWithResin).from(resinLots).innerJoin(resins, eq(resins.id, resinLots.resinId)).where(eq(resinLots.id, id)).get();
 }
 export function findLotByCode(db: Db, code: string): ResinLotRow | undefined {
-  return db.select().from(resinLots).where(sql`${resinLots.code} = ${code} collate nocase`).get();
+  return db
+    .select()
+    .from(resinLots)
+    .where(sql`${resinLots.code} = ${code} collate nocase`)
+    .get();
 }
 export function insertLot(db: Db, values: typeof resinLots.$inferInsert): ResinLotRow {
   return db.insert(resinLots).values(values).returning().get();

@@ -76,10 +76,43 @@ export function seedReferenceDemo({ tx, userIds, now }: DemoContext): void {
   });
 
   const lots = [
-    { resinId: clear.id, code: DEMO_LOTS.clearCurrent, activatedAt: daysBefore(now, 42), volumeMl: 3800, reuseCount: 3, status: 'active' as const, catalystNotes: 'Catalyst premixed by the supplier' },
-    { resinId: clear.id, code: DEMO_LOTS.clearOld, activatedAt: daysBefore(now, 360), volumeMl: 2100, reuseCount: 9, status: 'active' as const, catalystNotes: 'Catalyst premixed by the supplier', notes: 'Drained back after every run; darkening' },
-    { resinId: dyed.id, code: DEMO_LOTS.dyedCurrent, activatedAt: daysBefore(now, 18), volumeMl: 1900, reuseCount: 1, status: 'active' as const, dyeNotes: 'Amber dye, 2 mL per litre' },
-    { resinId: clear.id, code: DEMO_LOTS.clearSpent, activatedAt: daysBefore(now, 420), volumeMl: 300, reuseCount: 14, status: 'spent' as const, notes: 'Used up' },
+    {
+      resinId: clear.id,
+      code: DEMO_LOTS.clearCurrent,
+      activatedAt: daysBefore(now, 42),
+      volumeMl: 3800,
+      reuseCount: 3,
+      status: 'active' as const,
+      catalystNotes: 'Catalyst premixed by the supplier',
+    },
+    {
+      resinId: clear.id,
+      code: DEMO_LOTS.clearOld,
+      activatedAt: daysBefore(now, 360),
+      volumeMl: 2100,
+      reuseCount: 9,
+      status: 'active' as const,
+      catalystNotes: 'Catalyst premixed by the supplier',
+      notes: 'Drained back after every run; darkening',
+    },
+    {
+      resinId: dyed.id,
+      code: DEMO_LOTS.dyedCurrent,
+      activatedAt: daysBefore(now, 18),
+      volumeMl: 1900,
+      reuseCount: 1,
+      status: 'active' as const,
+      dyeNotes: 'Amber dye, 2 mL per litre',
+    },
+    {
+      resinId: clear.id,
+      code: DEMO_LOTS.clearSpent,
+      activatedAt: daysBefore(now, 420),
+      volumeMl: 300,
+      reuseCount: 14,
+      status: 'spent' as const,
+      notes: 'Used up',
+    },
   ];
   for (const lot of lots) repo.insertLot(tx, { ...lot, createdBy: tech });
 }

@@ -291,7 +291,10 @@ export function createReferenceService(deps: Pick<FeatureDeps, 'database' | 'now
 export type ReferenceService = ReturnType<typeof createReferenceService>;
 
 /** Writes the handbook species when the table is empty (a fresh install, demo or not). */
-export function seedHandbookSpecies(db: Db, rows: readonly { commonName: string; botanicalName: string; basicSg: number; sg12: number; sideHardnessN: number | null; source: string; notes: string }[]): void {
+export function seedHandbookSpecies(
+  db: Db,
+  rows: readonly { commonName: string; botanicalName: string; basicSg: number; sg12: number; sideHardnessN: number | null; source: string; notes: string }[],
+): void {
   if (repo.countSpecies(db) > 0) return;
   for (const r of rows) {
     repo.insertSpecies(db, {

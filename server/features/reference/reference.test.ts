@@ -277,7 +277,11 @@ describe('resins', () => {
     expect(bad.body.error.fieldErrors.cureMaxC).toBeTruthy();
     const ok = await as.admin.patch(`/api/resins/${created.id}`).send({ cureMinC: 95, cureMaxC: 115 });
     expect(ok.body.resin).toMatchObject({ cureMinC: 95, cureMaxC: 115 });
-    const audit = h.database.db.select().from(auditLog).where(and(eq(auditLog.entity, 'resin'), eq(auditLog.action, 'update'))).all();
+    const audit = h.database.db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entity, 'resin'), eq(auditLog.action, 'update')))
+      .all();
     expect(audit.at(-1)?.after).toEqual({ cureMinC: 95, cureMaxC: 115 });
   });
 
@@ -413,7 +417,8 @@ describe('resin lots', () => {
     const db = h.database.db;
     // Fresh lots, so that demo runs seeded on the demo lots do not change the answer.
     const make = async (code: string) =>
-      (await as.technician.post('/api/resin-lots').send({ resinId: resinIdByName('Crystal Pane 90'), code, activatedAt: daysAgo(2), volumeMl: 900 })).body.lot as {
+      (await as.technician.post('/api/resin-lots').send({ resinId: resinIdByName('Crystal Pane 90'), code, activatedAt: daysAgo(2), volumeMl: 900 })).body
+        .lot as {
         id: number;
       };
     const lot = await make('THRU-1');
@@ -480,10 +485,30 @@ describe('handbook species seed', () => {
     expect(HANDBOOK_SPECIES.length).toBeGreaterThanOrEqual(20);
     const names = HANDBOOK_SPECIES.map((r) => r.commonName);
     for (const wanted of [
-      'Maple, sugar', 'Maple, red', 'Maple, silver', 'Maple, bigleaf', 'Box elder', 'Buckeye, yellow', 'Walnut, black',
-      'Cherry, black', 'Ash, white', 'Birch, yellow', 'Birch, paper', 'Oak, northern red', 'Oak, white', 'Yellow-poplar',
-      'Alder, red', 'Basswood, American', 'Aspen, quaking', 'Pine, eastern white', 'Pine, ponderosa', 'Redwood, old-growth',
-      'Redwood, second-growth', 'Sweetgum', 'Hackberry', 'Cottonwood, eastern',
+      'Maple, sugar',
+      'Maple, red',
+      'Maple, silver',
+      'Maple, bigleaf',
+      'Box elder',
+      'Buckeye, yellow',
+      'Walnut, black',
+      'Cherry, black',
+      'Ash, white',
+      'Birch, yellow',
+      'Birch, paper',
+      'Oak, northern red',
+      'Oak, white',
+      'Yellow-poplar',
+      'Alder, red',
+      'Basswood, American',
+      'Aspen, quaking',
+      'Pine, eastern white',
+      'Pine, ponderosa',
+      'Redwood, old-growth',
+      'Redwood, second-growth',
+      'Sweetgum',
+      'Hackberry',
+      'Cottonwood, eastern',
     ]) {
       expect(names, wanted).toContain(wanted);
     }
@@ -566,7 +591,13 @@ describe('handbook species seed', () => {
       try {
         other.database.db.insert(species).values({ commonName: 'Our own wood', botanicalName: 'Unknown', source: 'shop', origin: 'shop-measured' }).run();
         seedReference(other.database);
-        expect(other.database.db.select().from(species).all().map((r) => r.commonName)).toEqual(['Our own wood']);
+        expect(
+          other.database.db
+            .select()
+            .from(species)
+            .all()
+            .map((r) => r.commonName),
+        ).toEqual(['Our own wood']);
       } finally {
         await other.close();
       }

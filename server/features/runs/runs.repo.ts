@@ -41,13 +41,23 @@ export interface LotWithResin {
 }
 
 export function findLot(db: Db, lotId: number): LotWithResin | undefined {
-  const row = db.select({ lot: resinLots, resin: resins }).from(resinLots).innerJoin(resins, eq(resinLots.resinId, resins.id)).where(eq(resinLots.id, lotId)).get();
+  const row = db
+    .select({ lot: resinLots, resin: resins })
+    .from(resinLots)
+    .innerJoin(resins, eq(resinLots.resinId, resins.id))
+    .where(eq(resinLots.id, lotId))
+    .get();
   return row ?? undefined;
 }
 
 export function lotsByIds(db: Db, ids: number[]): Map<number, LotWithResin> {
   if (ids.length === 0) return new Map();
-  const rows = db.select({ lot: resinLots, resin: resins }).from(resinLots).innerJoin(resins, eq(resinLots.resinId, resins.id)).where(inArray(resinLots.id, ids)).all();
+  const rows = db
+    .select({ lot: resinLots, resin: resins })
+    .from(resinLots)
+    .innerJoin(resins, eq(resinLots.resinId, resins.id))
+    .where(inArray(resinLots.id, ids))
+    .all();
   return new Map(rows.map((r) => [r.lot.id, r]));
 }
 
@@ -116,11 +126,5 @@ export function couponsWithTreatmentWeighings(db: Db, ids: number[]): Set<number
 }
 
 export function photosOfRun(db: Db, runId: number): PhotoOut[] {
-  return db
-    .select()
-    .from(photos)
-    .where(eq(photos.runId, runId))
-    .orderBy(asc(photos.id))
-    .all()
-    .map(toPhotoOut);
+  return db.select().from(photos).where(eq(photos.runId, runId)).orderBy(asc(photos.id)).all().map(toPhotoOut);
 }

@@ -24,10 +24,14 @@ export function runsRoutes(deps: FeatureDeps) {
     run: service.recordStage(user, params.id, body),
   }));
   // A recorded stage's times, readings and temperatures change only through a correction with a reason.
-  r.post('/runs/:id/stages/:stage/corrections', { access: 'technician', schemas: { params: runStageParamsSchema, body: correctStageSchema } }, ({ user, params, body }) => {
-    corrections.correct(user, params.id, params.stage, body);
-    return { run: service.get(params.id, user.units) };
-  });
+  r.post(
+    '/runs/:id/stages/:stage/corrections',
+    { access: 'technician', schemas: { params: runStageParamsSchema, body: correctStageSchema } },
+    ({ user, params, body }) => {
+      corrections.correct(user, params.id, params.stage, body);
+      return { run: service.get(params.id, user.units) };
+    },
+  );
   r.get('/runs/:id/history', { access: 'viewer', schemas: { params: idParamsSchema } }, ({ params }) => corrections.history(params.id));
   r.get('/runs/:id/checks', { access: 'viewer', schemas: { params: idParamsSchema } }, ({ user, params }) => service.checks(params.id, user.units));
   r.get('/bench', { access: 'viewer', schemas: { query: benchQuerySchema } }, ({ query }) => bench.bench(query));

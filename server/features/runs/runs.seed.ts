@@ -98,22 +98,48 @@ export function seedRunsDemo({ tx, userIds, now }: DemoContext): void {
   const resinRows = tx.select().from(resins).all();
   const resinById = new Map(resinRows.map((r) => [r.id, r]));
   const lotFor = (resinId: number) =>
-    tx.select().from(resinLots).where(and(eq(resinLots.resinId, resinId), eq(resinLots.status, 'active'))).orderBy(desc(resinLots.activatedAt)).limit(1).get();
+    tx
+      .select()
+      .from(resinLots)
+      .where(and(eq(resinLots.resinId, resinId), eq(resinLots.status, 'active')))
+      .orderBy(desc(resinLots.activatedAt))
+      .limit(1)
+      .get();
 
   const weigh = (couponId: number, stage: WeighingStage, massG: number, when: string) => {
-    const row = tx.insert(weighings).values({ couponId, stage, massG: round(massG, 2), measuredAt: when, createdBy: tech }).returning().get();
+    const row = tx
+      .insert(weighings)
+      .values({ couponId, stage, massG: round(massG, 2), measuredAt: when, createdBy: tech })
+      .returning()
+      .get();
     writeAudit(tx, { actorId: tech, action: 'create', entity: 'weighing', entityId: row.id, after: row, reason: 'demo seed' });
   };
   const check = (couponId: number, values: Omit<typeof checks.$inferInsert, 'couponId' | 'createdBy'> & { stage: CheckStage }) => {
-    const row = tx.insert(checks).values({ ...values, couponId, createdBy: tech }).returning().get();
+    const row = tx
+      .insert(checks)
+      .values({ ...values, couponId, createdBy: tech })
+      .returning()
+      .get();
     writeAudit(tx, { actorId: tech, action: 'create', entity: 'check', entityId: row.id, after: row, reason: 'demo seed' });
   };
   const stage = (runId: number, s: RunStage, values: Partial<typeof runStages.$inferInsert> & { startedAt: string }) =>
-    tx.insert(runStages).values({ runId, stage: s, createdBy: tech, ...values }).run();
+    tx
+      .insert(runStages)
+      .values({ runId, stage: s, createdBy: tech, ...values })
+      .run();
   const reading = (runId: number, s: RunStage, when: string, inHg: number) => {
     const absoluteKpa = absolutePressureFromGauge(convertPressure(inHg, 'inHg', 'kPa'), altitudeM);
     tx.insert(runReadings)
-      .values({ runId, stage: s, at: when, gaugeValue: inHg, gaugeUnit: 'inHg', absoluteKpa, percentVacuum: percentVacuum(absoluteKpa, altitudeM), createdBy: tech })
+      .values({
+        runId,
+        stage: s,
+        at: when,
+        gaugeValue: inHg,
+        gaugeUnit: 'inHg',
+        absoluteKpa,
+        percentVacuum: percentVacuum(absoluteKpa, altitudeM),
+        createdBy: tech,
+      })
       .run();
   };
 
@@ -154,9 +180,20 @@ export function seedRunsDemo({ tx, userIds, now }: DemoContext): void {
     const cured = dry + uptakeG * (1 - cureLoss);
     weigh(c.id, 'cured', cured, at(curedH));
     const bulk = 1 + (0.004 + 0.003 * rnd()) / 3;
-    const curedDims = { lengthMm: round(b.dims.lengthMm * bulk, 2), widthMm: round(b.dims.widthMm * bulk, 2), thicknessMm: round(b.dims.thicknessMm * bulk, 2) };
+    const curedDims = {
+      lengthMm: round(b.dims.lengthMm * bulk, 2),
+      widthMm: round(b.dims.widthMm * bulk, 2),
+      thicknessMm: round(b.dims.thicknessMm * bulk, 2),
+    };
     check(c.id, { kind: 'dimension', stage: 'cured', measuredAt: at(curedH), ...curedDims, method: 'calipers' });
-    check(c.id, { kind: 'hardness', stage: 'cured', measuredAt: at(curedH + 1), hardnessValue: round(72 + 3 * normal(), 0), hardnessScale: 'shore-d', method: 'durometer, 3 readings averaged' });
+    check(c.id, {
+      kind: 'hardness',
+      stage: 'cured',
+      measuredAt: at(curedH + 1),
+      hardnessValue: round(72 + 3 * normal(), 0),
+      hardnessScale: 'shore-d',
+      method: 'durometer, 3 readings averaged',
+    });
     if (wetTest) {
       // A short water soak: a well-stabilized blank gains only a few percent.
       const swell = 1 + (0.006 + 0.004 * rnd()) / 3;
@@ -239,7 +276,13 @@ export function seedRunsDemo({ tx, userIds, now }: DemoContext): void {
   if (dyedId !== null) {
     const dyed = ofResin(dyedId);
     // Run 2: half of the dyed-resin coupons (two per species), finished.
-    finishedRun('R26-002', dyedId, bySpeciesIndex(dyed, (i) => i < 2), -24 * 5, { set: 110, measured: 106 });
+    finishedRun(
+      'R26-002',
+      dyedId,
+      bySpeciesIndex(dyed, (i) => i < 2),
+      -24 * 5,
+      { set: 110, measured: 106 },
+    );
 
     // Run 3: soaking now. Dried and weighed dry; the vacuum ended three hours ago.
     const soaking = bySpeciesIndex(dyed, (i) => i === 2);
@@ -268,7 +311,14 @@ export function seedRunsDemo({ tx, userIds, now }: DemoContext): void {
     const b = blanks.get(c.id)!;
     dryingChecks(c, ctrlStart, [0, 4, 8, 20, 24]);
     dryRecords(c, ctrlStart + 24);
-    check(c.id, { kind: 'hardness', stage: 'dry', measuredAt: at(ctrlStart + 25), hardnessValue: round(58 + 3 * normal(), 0), hardnessScale: 'shore-d', method: 'durometer, 3 readings averaged' });
+    check(c.id, {
+      kind: 'hardness',
+      stage: 'dry',
+      measuredAt: at(ctrlStart + 25),
+      hardnessValue: round(58 + 3 * normal(), 0),
+      hardnessScale: 'shore-d',
+      method: 'durometer, 3 readings averaged',
+    });
     const swell = 1 + (0.04 + 0.02 * rnd()) / 3;
     const when = at(ctrlStart + 24 + 60);
     check(c.id, {

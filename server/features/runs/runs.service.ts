@@ -113,7 +113,13 @@ export function createRunsService(deps: FeatureDeps) {
       stages: stages.map(toStageTimes),
       resin: lot ? { name: lot.resin.name, cureMinC: lot.resin.cureMinC, cureMaxC: lot.resin.cureMaxC, shelfLifeDays: lot.resin.shelfLifeDays } : null,
       lot: lot ? { code: lot.lot.code, activatedAt: lot.lot.activatedAt, status: lot.lot.status } : null,
-      coupons: couponInfo.map((c) => ({ id: c.id, tag: c.tag, thicknessMm: c.thicknessMm, hasDryWeighing: c.stagesWeighed.includes('dry'), dryingChecks: c.dryingChecks })),
+      coupons: couponInfo.map((c) => ({
+        id: c.id,
+        tag: c.tag,
+        thicknessMm: c.thicknessMm,
+        hasDryWeighing: c.stagesWeighed.includes('dry'),
+        dryingChecks: c.dryingChecks,
+      })),
       dryingRule: { minIntervalHours: s.dryingMinIntervalHours, maxChangePct: s.dryingMaxChangePct },
       now,
       units,
@@ -143,7 +149,15 @@ export function createRunsService(deps: FeatureDeps) {
         notes: s.notes,
         readings: readings
           .filter((r) => r.stage === s.stage)
-          .map((r) => ({ id: r.id, stage: r.stage, at: r.at, gaugeValue: r.gaugeValue, gaugeUnit: r.gaugeUnit, absoluteKpa: r.absoluteKpa, percentVacuum: r.percentVacuum })),
+          .map((r) => ({
+            id: r.id,
+            stage: r.stage,
+            at: r.at,
+            gaugeValue: r.gaugeValue,
+            gaugeUnit: r.gaugeUnit,
+            absoluteKpa: r.absoluteKpa,
+            percentVacuum: r.percentVacuum,
+          })),
       }));
     return {
       id: run.id,
@@ -176,7 +190,14 @@ export function createRunsService(deps: FeatureDeps) {
       stages: stageOut,
       progress: runProgress(times),
       startableStages: startableStages(times, now.toISOString()),
-      coupons: couponInfo.map((c) => ({ id: c.id, tag: c.tag, role: c.role, speciesId: c.speciesId, speciesName: c.speciesName, stagesWeighed: c.stagesWeighed })),
+      coupons: couponInfo.map((c) => ({
+        id: c.id,
+        tag: c.tag,
+        role: c.role,
+        speciesId: c.speciesId,
+        speciesName: c.speciesName,
+        stagesWeighed: c.stagesWeighed,
+      })),
       checks: checksFor(run, stages, lot, couponInfo, now, units),
       due: dueItems(times, now),
       cautions: cautionsByStage(),
@@ -197,7 +218,12 @@ export function createRunsService(deps: FeatureDeps) {
   function nextCode(tx: Db): string {
     const yy = String(deps.now().getUTCFullYear() % 100).padStart(2, '0');
     const prefix = `R${yy}-`;
-    let n = (tx.select({ n: count() }).from(runs).where(like(runs.code, `${prefix}%`)).get()?.n ?? 0) + 1;
+    let n =
+      (tx
+        .select({ n: count() })
+        .from(runs)
+        .where(like(runs.code, `${prefix}%`))
+        .get()?.n ?? 0) + 1;
     while (findRunByCode(tx, `${prefix}${String(n).padStart(3, '0')}`)) n++;
     return `${prefix}${String(n).padStart(3, '0')}`;
   }
@@ -222,7 +248,14 @@ export function createRunsService(deps: FeatureDeps) {
     for (const c of found) {
       if (c.runId === run.id) continue;
       tx.update(coupons).set({ runId: run.id }).where(eq(coupons.id, c.id)).run();
-      writeAudit(tx, { actorId: actor.id, action: 'assign-run', entity: 'coupon', entityId: c.id, before: { runId: null }, after: { runId: run.id, runCode: run.code } });
+      writeAudit(tx, {
+        actorId: actor.id,
+        action: 'assign-run',
+        entity: 'coupon',
+        entityId: c.id,
+        before: { runId: null },
+        after: { runId: run.id, runCode: run.code },
+      });
     }
     // The run's lot decides the resin of each coupon's results row.
     refreshResults(
@@ -247,7 +280,14 @@ export function createRunsService(deps: FeatureDeps) {
     }
     for (const c of found) {
       tx.update(coupons).set({ runId: null }).where(eq(coupons.id, c.id)).run();
-      writeAudit(tx, { actorId: actor.id, action: 'remove-from-run', entity: 'coupon', entityId: c.id, before: { runId: run.id, runCode: run.code }, after: { runId: null } });
+      writeAudit(tx, {
+        actorId: actor.id,
+        action: 'remove-from-run',
+        entity: 'coupon',
+        entityId: c.id,
+        before: { runId: run.id, runCode: run.code },
+        after: { runId: null },
+      });
     }
     refreshResults(
       tx,
@@ -262,10 +302,16 @@ export function createRunsService(deps: FeatureDeps) {
     const direction = q.sort?.startsWith('-') || q.sort === undefined ? desc : asc;
     const anyStage = exists(db.select({ one: runStages.id }).from(runStages).where(eq(runStages.runId, runs.id)));
     const cureEnded = exists(
-      db.select({ one: runStages.id }).from(runStages).where(and(eq(runStages.runId, runs.id), eq(runStages.stage, 'cure'), isNotNull(runStages.endedAt))),
+      db
+        .select({ one: runStages.id })
+        .from(runStages)
+        .where(and(eq(runStages.runId, runs.id), eq(runStages.stage, 'cure'), isNotNull(runStages.endedAt))),
     );
     const cureNotEnded = notExists(
-      db.select({ one: runStages.id }).from(runStages).where(and(eq(runStages.runId, runs.id), eq(runStages.stage, 'cure'), isNotNull(runStages.endedAt))),
+      db
+        .select({ one: runStages.id })
+        .from(runStages)
+        .where(and(eq(runStages.runId, runs.id), eq(runStages.stage, 'cure'), isNotNull(runStages.endedAt))),
     );
     const filters = [
       q.resinLotId === undefined ? undefined : eq(runs.resinLotId, q.resinLotId),
@@ -287,7 +333,10 @@ export function createRunsService(deps: FeatureDeps) {
     const ids = rows.map((r) => r.id);
     const allStages = stagesOf(db, ids);
     const allCoupons = couponsOfRuns(db, ids);
-    const lots = lotsByIds(db, rows.map((r) => r.resinLotId).filter((x): x is number => x !== null));
+    const lots = lotsByIds(
+      db,
+      rows.map((r) => r.resinLotId).filter((x): x is number => x !== null),
+    );
     const now = deps.now();
     const items = rows.map((run): RunSummary => {
       const stages = allStages.filter((s) => s.runId === run.id);
@@ -400,8 +449,7 @@ export function createRunsService(deps: FeatureDeps) {
       const run = requireRun(tx, id);
       const stages = stagesOf(tx, [id]);
       const existing = stages.find((s) => s.stage === input.stage);
-      const pick = <K extends keyof RecordStageInput & keyof StageRow>(k: K) =>
-        (input[k] !== undefined ? input[k] : (existing?.[k] ?? null)) as StageRow[K];
+      const pick = <K extends keyof RecordStageInput & keyof StageRow>(k: K) => (input[k] !== undefined ? input[k] : (existing?.[k] ?? null)) as StageRow[K];
       const merged = {
         startedAt: input.startedAt,
         endedAt: pick('endedAt'),
@@ -430,14 +478,24 @@ export function createRunsService(deps: FeatureDeps) {
       if (existing) {
         row = tx.update(runStages).set(merged).where(eq(runStages.id, existing.id)).returning().get();
       } else {
-        row = tx.insert(runStages).values({ ...merged, runId: id, stage: input.stage, createdBy: actor.id }).returning().get();
+        row = tx
+          .insert(runStages)
+          .values({ ...merged, runId: id, stage: input.stage, createdBy: actor.id })
+          .returning()
+          .get();
       }
       const known = readingsOf(tx, id).filter((r) => r.stage === input.stage);
       const added = [];
       for (const r of converted) {
         // A resent form must not double the readings.
         if (known.some((k) => k.at === r.at && k.gaugeValue === r.gaugeValue && k.gaugeUnit === r.gaugeUnit)) continue;
-        added.push(tx.insert(runReadings).values({ runId: id, stage: input.stage, createdBy: actor.id, ...r }).returning().get());
+        added.push(
+          tx
+            .insert(runReadings)
+            .values({ runId: id, stage: input.stage, createdBy: actor.id, ...r })
+            .returning()
+            .get(),
+        );
       }
       writeAudit(tx, {
         actorId: actor.id,

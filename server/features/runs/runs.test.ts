@@ -207,7 +207,13 @@ describe('creating and editing a run', () => {
     await stage(runId, { stage: 'vacuum', startedAt: hoursFromNow(-2) });
     const entries = h.database.db.select().from(auditLog).where(eq(auditLog.entity, 'run_stage')).all();
     expect(entries.some((e) => (e.after as { runId: number }).runId === runId && e.action === 'create')).toBe(true);
-    expect(h.database.db.select().from(auditLog).where(and(eq(auditLog.entity, 'run'), eq(auditLog.entityId, String(runId)))).all()).toHaveLength(1);
+    expect(
+      h.database.db
+        .select()
+        .from(auditLog)
+        .where(and(eq(auditLog.entity, 'run'), eq(auditLog.entityId, String(runId))))
+        .all(),
+    ).toHaveLength(1);
   });
 });
 
@@ -268,7 +274,11 @@ describe('gauge readings at the shop altitude', () => {
   it('accepts 25.0 inHg at 1600 m as 0 kPa absolute (a high-pressure day), refuses 27.0 inHg (beyond the 5 % the weather adds; 422 naming the reading)', async () => {
     // 25.0 inHg = 84.66 kPa, above the ≈ 83.5 kPa standard ambient at 1600 m but within 5 % of it.
     expect(25.0 * KPA_PER_INHG).toBeGreaterThan(ambientKpa(1600));
-    const ok = await stage(await makeRun(), { stage: 'vacuum', startedAt: hoursFromNow(-2), readings: [{ at: hoursFromNow(-1), gaugeValue: 25.0, gaugeUnit: 'inHg' }] });
+    const ok = await stage(await makeRun(), {
+      stage: 'vacuum',
+      startedAt: hoursFromNow(-2),
+      readings: [{ at: hoursFromNow(-1), gaugeValue: 25.0, gaugeUnit: 'inHg' }],
+    });
     expect(ok.body.run.stages[0].readings[0]).toMatchObject({ absoluteKpa: 0, percentVacuum: 100 });
     // 27.0 inHg = 91.43 kPa, more than 1.05 × 83.5 = 87.7 kPa: a unit slip or a wrong altitude.
     const runId = await makeRun();
@@ -284,7 +294,9 @@ describe('gauge readings at the shop altitude', () => {
       },
       422,
     );
-    expect(res.body.error.fieldErrors['readings.1.gaugeValue'][0]).toMatch(/more vacuum than the .* ambient pressure at 1600 m \(5249 ft\) by more than the 5 %/);
+    expect(res.body.error.fieldErrors['readings.1.gaugeValue'][0]).toMatch(
+      /more vacuum than the .* ambient pressure at 1600 m \(5249 ft\) by more than the 5 %/,
+    );
     // Nothing of the refused request was written.
     expect((await as.viewer.get(`/api/runs/${runId}`)).body.run.stages).toEqual([]);
   });
@@ -324,7 +336,9 @@ describe('rule checks on crafted runs', () => {
     const coupon = await makeCoupon();
     // Drying checks 4 h apart: 50.00 → 49.98 g is a 0.04 % change (constant under 2 h / 0.1 %).
     await as.technician.post(`/api/coupons/${coupon}/weighings`).send({ stage: 'drying-check', massG: 50.0, measuredAt: hoursFromNow(-60) });
-    await as.technician.post(`/api/coupons/${coupon}/weighings`).send({ stage: 'drying-check', massG: opts.dryingEndMass ?? 49.98, measuredAt: hoursFromNow(-56) });
+    await as.technician
+      .post(`/api/coupons/${coupon}/weighings`)
+      .send({ stage: 'drying-check', massG: opts.dryingEndMass ?? 49.98, measuredAt: hoursFromNow(-56) });
     await as.technician.post(`/api/coupons/${coupon}/weighings`).send({ stage: 'dry', massG: opts.dryingEndMass ?? 49.98, measuredAt: hoursFromNow(-55) });
     const runId = await makeRun({ resinLotId: lot.id, couponIds: [coupon] });
     let t = -54;
@@ -333,7 +347,13 @@ describe('rule checks on crafted runs', () => {
     t += opts.vacuumH;
     await stage(runId, { stage: 'soak', startedAt: hoursFromNow(t), endedAt: hoursFromNow(t + opts.soakH) });
     t += opts.soakH;
-    await stage(runId, { stage: 'cure', startedAt: hoursFromNow(t + 1), endedAt: hoursFromNow(t + 1 + (opts.cureH ?? 3)), ovenSetC: 110, ovenMeasuredC: opts.cureC });
+    await stage(runId, {
+      stage: 'cure',
+      startedAt: hoursFromNow(t + 1),
+      endedAt: hoursFromNow(t + 1 + (opts.cureH ?? 3)),
+      ovenSetC: 110,
+      ovenMeasuredC: opts.cureC,
+    });
     const res = await as.viewer.get(`/api/runs/${runId}/checks`);
     expect(res.status).toBe(200);
     return Object.fromEntries(res.body.checks.map((c: { rule: string; status: string; reason: string }) => [c.rule, c]));
@@ -363,7 +383,7 @@ describe('rule checks on crafted runs', () => {
     expect(c['cure-temperature'].reason).toMatch(/130 °C/);
   });
 
-  it('passes an oven at exactly 250 °F and words the window in the reader\'s units', async () => {
+  it("passes an oven at exactly 250 °F and words the window in the reader's units", async () => {
     const c = await fullRun({ vacuumH: 4, soakH: 10, cureC: ((250 - 32) * 5) / 9 });
     expect(c['cure-temperature'].status).toBe('ok');
     expect(c['cure-temperature'].reason).toMatch(/read 121\.11 °C, inside 93\.3–121\.1 °C/);
@@ -450,7 +470,9 @@ describe('timers, cautions and the bench', () => {
     await stage(runId, { stage: 'vacuum', startedAt: hoursFromNow(-20), endedAt: hoursFromNow(-16) });
     await stage(runId, { stage: 'soak', startedAt: hoursFromNow(-16), endedAt: hoursFromNow(-6) });
     const wanted = async () =>
-      (await as.viewer.get('/api/bench')).body.items.filter((i: { runId: number; kind: string }) => i.runId === runId && i.kind === 'weighing-due').map((i: { weighingStage: string }) => i.weighingStage);
+      (await as.viewer.get('/api/bench')).body.items
+        .filter((i: { runId: number; kind: string }) => i.runId === runId && i.kind === 'weighing-due')
+        .map((i: { weighingStage: string }) => i.weighingStage);
     expect(await wanted()).toEqual(['soaked']);
     await as.technician.post(`/api/coupons/${c}/weighings`).send({ stage: 'soaked', massG: 50, measuredAt: hoursFromNow(-5.5) });
     await stage(runId, { stage: 'cure', startedAt: hoursFromNow(-5), endedAt: hoursFromNow(-2), ovenMeasuredC: 105 });
@@ -475,7 +497,11 @@ describe('listing runs', () => {
 describe('the demo', () => {
   it('writes runs in different stages with gauge readings in inHg and weighings, the same every time', async () => {
     const db = h.database.db;
-    const codes = db.select().from(runs).all().filter((r) => /^R26-00\d$/.test(r.code));
+    const codes = db
+      .select()
+      .from(runs)
+      .all()
+      .filter((r) => /^R26-00\d$/.test(r.code));
     expect(codes.length).toBeGreaterThanOrEqual(3);
     const list = (await as.viewer.get('/api/runs?pageSize=200')).body.items.filter((r: { code: string }) => /^R26-00\d$/.test(r.code));
     const statuses = new Set(list.map((r: { progress: { current: string; status: string } }) => `${r.progress.status}:${r.progress.current}`));

@@ -47,7 +47,8 @@ async function runWithStages(): Promise<{ id: number; readingIds: number[] }> {
   return { id, readingIds: vacuum.readings.map((r: { id: number }) => r.id) };
 }
 
-const stageOf = (run: { stages: { stage: string }[] }, stage: string) => run.stages.find((s) => s.stage === stage) as unknown as Record<string, unknown> & { readings: Record<string, unknown>[] };
+const stageOf = (run: { stages: { stage: string }[] }, stage: string) =>
+  run.stages.find((s) => s.stage === stage) as unknown as Record<string, unknown> & { readings: Record<string, unknown>[] };
 
 describe('recording a stage again does not change what is recorded', () => {
   it('refuses a different start or oven reading with 409 and the way to change it', async () => {
@@ -99,12 +100,22 @@ describe('correcting a recorded stage', () => {
     expect(versions[0]?.values).toMatchObject({ startedAt: at(0), endedAt: at(4) });
     expect(versions[0]?.readings.map((r) => r.gaugeValue)).toEqual([28, 29]);
 
-    const audit = h.database.db.select().from(auditLog).where(eq(auditLog.action, 'correct')).all().filter((a) => a.entity === 'run_stage');
+    const audit = h.database.db
+      .select()
+      .from(auditLog)
+      .where(eq(auditLog.action, 'correct'))
+      .all()
+      .filter((a) => a.entity === 'run_stage');
     expect(audit.at(-1)).toMatchObject({ reason: 'End time and first reading copied wrongly from the paper log' });
 
     const history = await viewer.get(`/api/runs/${id}/history`);
     expect(history.status).toBe(200);
-    expect(history.body.entries[0]).toMatchObject({ action: 'correct', stage: 'vacuum', actorName: expect.any(String), reason: expect.stringContaining('paper log') });
+    expect(history.body.entries[0]).toMatchObject({
+      action: 'correct',
+      stage: 'vacuum',
+      actorName: expect.any(String),
+      reason: expect.stringContaining('paper log'),
+    });
     expect(history.body.versions[0]).toMatchObject({ stage: 'vacuum', reason: expect.stringContaining('paper log') });
     // Newest first.
     const ids = history.body.entries.map((e: { id: number }) => e.id);

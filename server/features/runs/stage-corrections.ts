@@ -78,7 +78,8 @@ export function createStageCorrections(deps: FeatureDeps) {
       const planned: { remove: number[]; change: { id: number; values: Partial<ReadingRow> }[] } = { remove: [], change: [] };
       (input.readings ?? []).forEach((c, i) => {
         const row = byId.get(c.id);
-        if (!row) throw new Unprocessable(`No ${label.toLowerCase()} reading with id ${c.id} in this run`, { [`readings.${i}.id`]: ['Not a reading of this stage'] });
+        if (!row)
+          throw new Unprocessable(`No ${label.toLowerCase()} reading with id ${c.id} in this run`, { [`readings.${i}.id`]: ['Not a reading of this stage'] });
         if ('remove' in c) {
           planned.remove.push(c.id);
           return;

@@ -32,8 +32,7 @@ export interface TrialsServiceDeps {
 type List<T> = { items: T[]; page: number; pageSize: number; total: number };
 
 const emptyProgress = (planned: number): Progress => ({ planned, created: 0, dryWeighed: 0, curedWeighed: 0 });
-const conditionKey = (c: { speciesId: number; resinId: number; processLabel: string }) =>
-  `${c.speciesId}:${c.resinId}:${c.processLabel.trim().toLowerCase()}`;
+const conditionKey = (c: { speciesId: number; resinId: number; processLabel: string }) => `${c.speciesId}:${c.resinId}:${c.processLabel.trim().toLowerCase()}`;
 
 function conditionValues(c: ConditionInput) {
   return {
@@ -130,8 +129,7 @@ export function createTrialsService(deps: TrialsServiceDeps) {
       resinCount: new Set(conditions.map((c) => c.resinId)).size,
       plannedCount: totals.planned,
       // A treated coupon is done once weighed after cure; a control once weighed dry (it never sees resin).
-      doneCount:
-        [...conditionProgress.values()].reduce((n, p) => n + p.curedWeighed, 0) + [...controlProgress.values()].reduce((n, p) => n + p.dryWeighed, 0),
+      doneCount: [...conditionProgress.values()].reduce((n, p) => n + p.curedWeighed, 0) + [...controlProgress.values()].reduce((n, p) => n + p.dryWeighed, 0),
       conditions: conditions.map((c) => ({
         id: c.id,
         speciesId: c.speciesId,
@@ -186,7 +184,6 @@ export function createTrialsService(deps: TrialsServiceDeps) {
       total,
     };
   }
-
 
   function createTrial(actor: Pick<User, 'id'>, input: CreateTrialInput): Trial {
     return db.transaction((tx) => {

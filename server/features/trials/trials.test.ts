@@ -38,7 +38,15 @@ function plan(overrides: Record<string, unknown> = {}) {
     question: 'Does the dyed blend change uptake?',
     controlsPerSpecies: 2,
     conditions: sp.flatMap((s) =>
-      rs.map((r) => ({ speciesId: s, resinId: r, processLabel: '4 h vacuum, overnight soak', vacuumMinutes: 240, soakMinutes: 720, cureTempC: 107, couponsWanted: 3 })),
+      rs.map((r) => ({
+        speciesId: s,
+        resinId: r,
+        processLabel: '4 h vacuum, overnight soak',
+        vacuumMinutes: 240,
+        soakMinutes: 720,
+        cureTempC: 107,
+        couponsWanted: 3,
+      })),
     ),
     ...overrides,
   };
@@ -47,7 +55,12 @@ function plan(overrides: Record<string, unknown> = {}) {
 async function createTrial(body: Record<string, unknown> = plan()) {
   const res = await as.technician.post('/api/trials').send(body);
   expect(res.status, JSON.stringify(res.body)).toBe(201);
-  return res.body.trial as { id: number; code: string; conditions: { id: number; progress: Record<string, number> }[]; warnings: { code: string; message: string }[] };
+  return res.body.trial as {
+    id: number;
+    code: string;
+    conditions: { id: number; progress: Record<string, number> }[];
+    warnings: { code: string; message: string }[];
+  };
 }
 
 describe('trial routes: who may do what', () => {
@@ -157,7 +170,12 @@ describe('planning a trial', () => {
     const missing = weak.warnings.find((w) => w.code === 'missing-cell')!;
     expect(missing).toMatchObject({ speciesId: speciesId('Buckeye, yellow'), resinId: resinId('Ember Pane 90 (dyed)') });
     expect(missing.message).toMatch(/Buckeye, yellow is never treated with Ember Pane 90/);
-    expect(weak.warnings.filter((w) => w.code === 'no-controls').map((w) => w.message).join(' ')).toMatch(/Maple, red has no untreated controls/);
+    expect(
+      weak.warnings
+        .filter((w) => w.code === 'no-controls')
+        .map((w) => w.message)
+        .join(' '),
+    ).toMatch(/Maple, red has no untreated controls/);
 
     const hot = await createTrial({ ...base, conditions: [{ ...base.conditions[0]!, cureTempC: 130, soakMinutes: 60 }] });
     expect(hot.warnings.map((w) => w.code).sort()).toEqual(['cure-outside-window', 'short-soak']);
@@ -167,7 +185,15 @@ describe('planning a trial', () => {
     await createTrial(plan({ title: 'Needle in a haystack' }));
     const all = await as.viewer.get('/api/trials?pageSize=2&sort=code');
     expect(all.body).toMatchObject({ page: 1, pageSize: 2, total: 3 });
-    expect(all.body.items[0]).toMatchObject({ code: DEMO_TRIAL_CODE, conditionCount: 6, couponCount: 30, speciesCount: 3, resinCount: 2, plannedCount: 30, status: 'running' });
+    expect(all.body.items[0]).toMatchObject({
+      code: DEMO_TRIAL_CODE,
+      conditionCount: 6,
+      couponCount: 30,
+      speciesCount: 3,
+      resinCount: 2,
+      plannedCount: 30,
+      status: 'running',
+    });
     expect(all.body.items[0].doneCount).toBeGreaterThan(0);
     const found = await as.viewer.get('/api/trials?q=haystack');
     expect(found.body.items.map((t: { title: string }) => t.title)).toEqual(['Needle in a haystack']);
@@ -199,7 +225,11 @@ describe('planning a trial', () => {
     expect(removed.status).toBe(200);
     expect(removed.body.trial.conditions).toHaveLength(3);
 
-    const audit = h.database.db.select().from(auditLog).where(and(eq(auditLog.entity, 'trial'), eq(auditLog.action, 'update'))).all();
+    const audit = h.database.db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entity, 'trial'), eq(auditLog.action, 'update')))
+      .all();
     expect(audit.length).toBeGreaterThanOrEqual(2);
   });
 
@@ -240,7 +270,11 @@ describe('creating the planned coupons', () => {
     expect(tags).toContain(`${t.code}-YBU-EPD90-02`);
     expect(tags).toContain(`${t.code}-YBU-C02`);
 
-    const all = h.database.db.select({ tag: coupons.tag }).from(coupons).all().map((r) => r.tag);
+    const all = h.database.db
+      .select({ tag: coupons.tag })
+      .from(coupons)
+      .all()
+      .map((r) => r.tag);
     expect(new Set(all).size).toBe(all.length);
   });
 
@@ -256,7 +290,10 @@ describe('creating the planned coupons', () => {
     await as.technician.patch(`/api/trials/${t.id}`).send({ conditions: grown, controlsPerSpecies: 3 });
     const more = await as.technician.post(`/api/trials/${t.id}/coupons`);
     expect(more.body.created).toBe(2 + 2);
-    const newTags = more.body.coupons.slice(first.body.coupons.length).map((c: { tag: string }) => c.tag).sort();
+    const newTags = more.body.coupons
+      .slice(first.body.coupons.length)
+      .map((c: { tag: string }) => c.tag)
+      .sort();
     expect(newTags).toEqual([`${t.code}-RMA-C03`, `${t.code}-RMA-CP90-04`, `${t.code}-RMA-CP90-05`, `${t.code}-YBU-C03`].sort());
     expect(more.body.trial.totals).toMatchObject({ planned: 5 + 3 * 3 + 2 * 3, created: 5 + 3 * 3 + 2 * 3 });
   });
@@ -266,7 +303,14 @@ describe('creating the planned coupons', () => {
     // A shop wood "Red maple" (a later id than the handbook's "Maple, red") codes to RMA as well.
     const wood = await as.admin
       .post('/api/species')
-      .send({ commonName: 'Red maple', botanicalName: 'Acer rubrum', measuredDensityKgM3: 520, measuredMoisturePct: 6, source: 'shop', origin: 'shop-measured' });
+      .send({
+        commonName: 'Red maple',
+        botanicalName: 'Acer rubrum',
+        measuredDensityKgM3: 520,
+        measuredMoisturePct: 6,
+        source: 'shop',
+        origin: 'shop-measured',
+      });
     const shopId = wood.body.species.id as number;
     const handbookId = speciesId('Maple, red');
     expect(handbookId).toBeLessThan(shopId);
@@ -275,7 +319,12 @@ describe('creating the planned coupons', () => {
     expect(first.body.coupons.map((c: { tag: string }) => c.tag)).toContain(`${t.code}-RMA-CP90-01`);
 
     // The handbook maple joins: by id it would win RMA, but the shop wood's tags are already printed.
-    await as.technician.patch(`/api/trials/${t.id}`).send({ conditions: [{ ...base.conditions[0]!, speciesId: shopId }, { ...base.conditions[0]!, speciesId: handbookId }] });
+    await as.technician.patch(`/api/trials/${t.id}`).send({
+      conditions: [
+        { ...base.conditions[0]!, speciesId: shopId },
+        { ...base.conditions[0]!, speciesId: handbookId },
+      ],
+    });
     const res = await as.technician.post(`/api/trials/${t.id}/coupons`);
     expect(res.status).toBe(200);
     const bySpecies = (id: number) => res.body.coupons.filter((c: { speciesId: number }) => c.speciesId === id).map((c: { tag: string }) => c.tag);
@@ -294,12 +343,22 @@ describe('creating the planned coupons', () => {
     const failed = await as.technician.post(`/api/trials/${t.id}/coupons`);
     expect(failed.status).toBe(500);
     expect(h.database.db.select().from(coupons).where(eq(coupons.trialId, t.id)).all()).toHaveLength(0);
-    expect(h.database.db.select().from(auditLog).where(and(eq(auditLog.entity, 'trial'), eq(auditLog.action, 'create-coupons'), eq(auditLog.entityId, String(t.id)))).all()).toHaveLength(0);
+    expect(
+      h.database.db
+        .select()
+        .from(auditLog)
+        .where(and(eq(auditLog.entity, 'trial'), eq(auditLog.action, 'create-coupons'), eq(auditLog.entityId, String(t.id))))
+        .all(),
+    ).toHaveLength(0);
 
     sqlite.exec('DROP TRIGGER fail_fifth');
     const ok = await as.technician.post(`/api/trials/${t.id}/coupons`);
     expect(ok.body.created).toBe(16);
-    const audit = h.database.db.select().from(auditLog).where(and(eq(auditLog.action, 'create-coupons'), eq(auditLog.entityId, String(t.id)))).all();
+    const audit = h.database.db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.action, 'create-coupons'), eq(auditLog.entityId, String(t.id))))
+      .all();
     expect(audit).toHaveLength(1);
     expect(audit[0]!.after).toMatchObject({ created: 16 });
   });
@@ -324,7 +383,12 @@ describe('progress and labels', () => {
     const control = made.coupons.find((c: { role: string }) => c.role === 'control');
     const db = h.database.db;
     const at = new Date().toISOString();
-    const w = (values: Omit<typeof weighings.$inferInsert, 'measuredAt'>) => db.insert(weighings).values({ ...values, measuredAt: at }).returning().get();
+    const w = (values: Omit<typeof weighings.$inferInsert, 'measuredAt'>) =>
+      db
+        .insert(weighings)
+        .values({ ...values, measuredAt: at })
+        .returning()
+        .get();
     // Coupon 0: a reading corrected by a later one (counts once), and a cured reading.
     const corrected = w({ couponId: inCell[0], stage: 'dry', massG: 10.4 });
     w({ couponId: inCell[0], stage: 'dry', massG: 10, supersededBy: corrected.id });

@@ -25,14 +25,26 @@ export function tagsOf(db: Db, pageIds: number[]): TagRow[] {
 
 /** Evidence of the page's finding (the findings feature's frozen copies), read through our own query. */
 export function evidenceOf(db: Db, findingId: number) {
-  return db.select().from(findingEvidence).where(eq(findingEvidence.findingId, findingId)).orderBy(asc(findingEvidence.position), asc(findingEvidence.id)).all();
+  return db
+    .select()
+    .from(findingEvidence)
+    .where(eq(findingEvidence.findingId, findingId))
+    .orderBy(asc(findingEvidence.position), asc(findingEvidence.id))
+    .all();
 }
 export function signatureOf(db: Db, id: number) {
   return db.select().from(signatures).where(eq(signatures.id, id)).get();
 }
 export function userNames(db: Db, ids: number[]): Map<number, string> {
   if (ids.length === 0) return new Map();
-  return new Map(db.select({ id: users.id, name: users.name }).from(users).where(inArray(users.id, ids)).all().map((u) => [u.id, u.name]));
+  return new Map(
+    db
+      .select({ id: users.id, name: users.name })
+      .from(users)
+      .where(inArray(users.id, ids))
+      .all()
+      .map((u) => [u.id, u.name]),
+  );
 }
 
 interface ListFilters {
@@ -70,7 +82,13 @@ export function listPages(db: Db, f: ListFilters) {
       .limit(f.pageSize)
       .offset((f.page - 1) * f.pageSize)
       .all();
-    const total = db.select({ n: count() }).from(wikiPages).innerJoin(sql`wiki_fts`, sql`wiki_fts.rowid = "wiki_pages"."id"`).where(cond).get()?.n ?? 0;
+    const total =
+      db
+        .select({ n: count() })
+        .from(wikiPages)
+        .innerJoin(sql`wiki_fts`, sql`wiki_fts.rowid = "wiki_pages"."id"`)
+        .where(cond)
+        .get()?.n ?? 0;
     return { rows, total };
   }
   const cond = and(...where);
@@ -94,5 +112,11 @@ export function currentPagesWithTags(db: Db) {
     .where(isNull(wikiPages.supersededById))
     .orderBy(asc(wikiPages.title))
     .all();
-  return { pages, tags: tagsOf(db, pages.map((p) => p.id)) };
+  return {
+    pages,
+    tags: tagsOf(
+      db,
+      pages.map((p) => p.id),
+    ),
+  };
 }

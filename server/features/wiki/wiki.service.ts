@@ -63,7 +63,10 @@ export function createWikiService(deps: FeatureDeps) {
       page: q.page,
       pageSize: q.pageSize,
     });
-    const tags = repo.tagsOf(db, rows.map((r) => r.page.id));
+    const tags = repo.tagsOf(
+      db,
+      rows.map((r) => r.page.id),
+    );
     return {
       items: rows.map(({ page, snippet }) => {
         const mine = tags.filter((t) => t.pageId === page.id);
@@ -126,19 +129,17 @@ export function createWikiService(deps: FeatureDeps) {
       resins: tags.filter((t) => t.kind === 'resin').map((t) => ({ id: t.refId, name: t.name })),
       trials: page.trials,
       author: { id: page.authorId, name: page.authorName },
-      evidence: evidence.map(
-        (e): Evidence => ({
-          id: e.id,
-          position: e.position,
-          savedViewId: e.savedViewId,
-          title: e.title,
-          kind: e.kind,
-          snapshot: e.snapshot,
-          svg: e.svg,
-          attachedAt: e.createdAt,
-          attachedBy: { id: e.createdBy, name: names.get(e.createdBy) ?? `user ${e.createdBy}` },
-        }),
-      ),
+      evidence: evidence.map((e): Evidence => ({
+        id: e.id,
+        position: e.position,
+        savedViewId: e.savedViewId,
+        title: e.title,
+        kind: e.kind,
+        snapshot: e.snapshot,
+        svg: e.svg,
+        attachedAt: e.createdAt,
+        attachedBy: { id: e.createdBy, name: names.get(e.createdBy) ?? `user ${e.createdBy}` },
+      })),
       signature: {
         id: sig.id,
         signer: { id: sig.signerId, name: names.get(sig.signerId) ?? sig.signerName },

@@ -122,11 +122,14 @@ describe('wiki', () => {
   });
 
   it('exports a page as one .tar.gz with the Markdown, front matter and signature', async () => {
-    const res = await viewer.get(`/api/wiki/${mapleSlug}/export`).buffer(true).parse((r, cb) => {
-      const chunks: Buffer[] = [];
-      r.on('data', (c: Buffer) => chunks.push(c));
-      r.on('end', () => cb(null, Buffer.concat(chunks)));
-    });
+    const res = await viewer
+      .get(`/api/wiki/${mapleSlug}/export`)
+      .buffer(true)
+      .parse((r, cb) => {
+        const chunks: Buffer[] = [];
+        r.on('data', (c: Buffer) => chunks.push(c));
+        r.on('end', () => cb(null, Buffer.concat(chunks)));
+      });
     expect(res.status).toBe(200);
     expect(res.headers['content-type']).toBe('application/gzip');
     expect(res.headers['content-disposition']).toBe(`attachment; filename="${mapleSlug}.tar.gz"`);

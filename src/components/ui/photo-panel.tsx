@@ -47,7 +47,11 @@ export function PhotoPanel({ title, subject, photos, canUpload, upload, uploadin
       setDone(`Uploaded ${file.name}.`);
       formEl.reset();
     } catch (err) {
-      setError(err instanceof ApiError ? (err.fieldErrors.file?.[0] ?? err.fieldErrors.kind?.[0] ?? err.fieldErrors.caption?.[0] ?? err.message) : 'The upload failed; try again');
+      setError(
+        err instanceof ApiError
+          ? (err.fieldErrors.file?.[0] ?? err.fieldErrors.kind?.[0] ?? err.fieldErrors.caption?.[0] ?? err.message)
+          : 'The upload failed; try again',
+      );
     }
   };
 
@@ -63,7 +67,12 @@ export function PhotoPanel({ title, subject, photos, canUpload, upload, uploadin
           {photos.map((p) => (
             <li key={p.id}>
               <a href={p.url} target="_blank" rel="noreferrer">
-                <img src={p.url} alt={p.caption ?? `${PHOTO_KIND_LABELS[p.kind]} photo of ${subject}`} loading="lazy" className="aspect-square w-full rounded border border-paper-edge object-cover" />
+                <img
+                  src={p.url}
+                  alt={p.caption ?? `${PHOTO_KIND_LABELS[p.kind]} photo of ${subject}`}
+                  loading="lazy"
+                  className="aspect-square w-full rounded border border-paper-edge object-cover"
+                />
               </a>
               <p className="text-xs text-ink-soft">
                 {PHOTO_KIND_LABELS[p.kind]}
@@ -80,7 +89,14 @@ export function PhotoPanel({ title, subject, photos, canUpload, upload, uploadin
             <label htmlFor={`${id}-file`} className="field-label">
               Image (JPEG, PNG or WebP, up to 8 MB)
             </label>
-            <input id={`${id}-file`} name="file" type="file" accept="image/*" className="mt-1 block w-full text-sm" aria-describedby={error ? `${id}-err` : undefined} />
+            <input
+              id={`${id}-file`}
+              name="file"
+              type="file"
+              accept="image/*"
+              className="mt-1 block w-full text-sm"
+              aria-describedby={error ? `${id}-err` : undefined}
+            />
           </div>
           <div className="flex gap-2">
             <div>

@@ -104,9 +104,7 @@ export function SignatureFooter({ signature, findingId }: { signature: Signature
               Intact: the content recomputes to the signed hash (checked {new Date(v.checkedAt).toLocaleTimeString()}).
             </span>
           )}
-          {v && v.status === 'altered' && (
-            <span className="font-semibold text-margin">Altered: the content no longer matches what was signed.</span>
-          )}
+          {v && v.status === 'altered' && <span className="font-semibold text-margin">Altered: the content no longer matches what was signed.</span>}
         </div>
       </div>
       {v && v.status === 'altered' && (

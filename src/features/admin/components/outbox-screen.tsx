@@ -32,8 +32,7 @@ export function OutboxScreen() {
   return (
     <Page title="Outbox">
       <p className="mb-4 max-w-2xl text-sm text-ink-soft">
-        Without mail-server settings, Lumenbook keeps its e-mail here instead of sending it. Invitation and reset links in these messages
-        open with a click.
+        Without mail-server settings, Lumenbook keeps its e-mail here instead of sending it. Invitation and reset links in these messages open with a click.
       </p>
       {outbox.isPending ? (
         <Loading />

@@ -27,7 +27,10 @@ function LabelAddressNote() {
   if (!address.data) return null;
   const a = address.data;
   return (
-    <div className={`mb-4 rounded border px-3 py-2 text-sm ${a.warning ? 'border-margin text-margin' : 'border-rule text-ink-soft'}`} role={a.warning ? 'alert' : undefined}>
+    <div
+      className={`mb-4 rounded border px-3 py-2 text-sm ${a.warning ? 'border-margin text-margin' : 'border-rule text-ink-soft'}`}
+      role={a.warning ? 'alert' : undefined}
+    >
       <p>
         Labels now open <code className="break-all">{a.url}/coupons/…</code> ({a.source === 'setting' ? 'set here' : 'from APP_URL'}).
       </p>

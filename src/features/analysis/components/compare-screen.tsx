@@ -21,7 +21,21 @@ import { GroupTable } from './group-table';
 import { PlotFigure } from './plot-figure';
 import { TwoGroupCompare } from './two-group';
 
-const FILTER_KEYS = ['trialId', 'conditionId', 'speciesId', 'speciesOrigin', 'resinId', 'lotId', 'runId', 'role', 'sourceBoard', 'thicknessMinMm', 'thicknessMaxMm', 'from', 'to'] as const;
+const FILTER_KEYS = [
+  'trialId',
+  'conditionId',
+  'speciesId',
+  'speciesOrigin',
+  'resinId',
+  'lotId',
+  'runId',
+  'role',
+  'sourceBoard',
+  'thicknessMinMm',
+  'thicknessMaxMm',
+  'from',
+  'to',
+] as const;
 
 /** The filters from the address, so a link from a trial, run, species or resin page opens its results. */
 export function filtersFromSearch(params: URLSearchParams): AnalysisFilters {
@@ -170,7 +184,9 @@ function TextFilter({ label, value, onCommit, type = 'text' }: { label: string; 
 }
 
 const shownText = (p: PointSet) =>
-  p.method === 'all' ? `${p.total} coupon${p.total === 1 ? '' : 's'} shown.` : `${p.shown} of ${p.total} coupons shown (thinned evenly within each species × resin; outliers always shown); the fit uses all ${p.total}.`;
+  p.method === 'all'
+    ? `${p.total} coupon${p.total === 1 ? '' : 's'} shown.`
+    : `${p.shown} of ${p.total} coupons shown (thinned evenly within each species × resin; outliers always shown); the fit uses all ${p.total}.`;
 
 function fillText(o: Overview): string {
   return o.theoreticalMax
@@ -203,8 +219,8 @@ function Results({ o, filters, sgBasis }: { o: Overview; filters: AnalysisFilter
   return (
     <>
       <p className="mb-4 text-sm" role="status">
-        {o.counts.matched} coupons match: {o.counts.treatedIncluded} treated coupons in the uptake analysis, {o.counts.controls} controls, {o.counts.excluded} excluded (listed below with the
-        reason).
+        {o.counts.matched} coupons match: {o.counts.treatedIncluded} treated coupons in the uptake analysis, {o.counts.controls} controls, {o.counts.excluded}{' '}
+        excluded (listed below with the reason).
       </p>
 
       <h2 className="mb-3">Uptake</h2>
@@ -323,7 +339,9 @@ function Outliers({ o }: { o: Overview }) {
     <section aria-labelledby="outliers-h" className="mb-8">
       <h2 id="outliers-h">Outliers</h2>
       {o.outliers.length === 0 ? (
-        <p className="text-ink-soft">No coupon lies more than 3 residual SDs from the line, and no measured SG is more than 3 species SDs from its reference.</p>
+        <p className="text-ink-soft">
+          No coupon lies more than 3 residual SDs from the line, and no measured SG is more than 3 species SDs from its reference.
+        </p>
       ) : (
         <ul className="list-disc pl-5">
           {o.outliers.map((x) => (
@@ -357,7 +375,15 @@ function Excluded({ o }: { o: Overview }) {
   );
 }
 
-function SaveView({ filters, sgBasis, compare }: { filters: AnalysisFilters; sgBasis: SgBasis; compare: { a: GroupSpec; b: GroupSpec; metric: CompareMetric } | null }) {
+function SaveView({
+  filters,
+  sgBasis,
+  compare,
+}: {
+  filters: AnalysisFilters;
+  sgBasis: SgBasis;
+  compare: { a: GroupSpec; b: GroupSpec; metric: CompareMetric } | null;
+}) {
   const { can } = useRole();
   const save = useSaveEvidence();
   const [title, setTitle] = useState('');
@@ -366,8 +392,8 @@ function SaveView({ filters, sgBasis, compare }: { filters: AnalysisFilters; sgB
     <section aria-labelledby="save-h" className="sheet mb-8 p-4">
       <h2 id="save-h">Save this view as evidence</h2>
       <p className="mb-2 text-sm text-ink-soft">
-        Saves the filters with a frozen copy of the numbers and the plot{compare ? ', including the two-group comparison' : ''}. The saved numbers never change; if readings are corrected later,
-        the saved view says that a newer answer exists. Findings attach saved views by their number.
+        Saves the filters with a frozen copy of the numbers and the plot{compare ? ', including the two-group comparison' : ''}. The saved numbers never change;
+        if readings are corrected later, the saved view says that a newer answer exists. Findings attach saved views by their number.
       </p>
       <form
         className="flex flex-wrap items-end gap-3"

@@ -70,7 +70,11 @@ export function GroupTable({ groups }: { groups: GroupRow[] }) {
 
   const header = (key: SortKey, label: string, sub?: string) => (
     <th scope="col" aria-sort={sort.key === key ? (sort.desc ? 'descending' : 'ascending') : 'none'}>
-      <button type="button" className="font-semibold underline-offset-2 hover:underline" onClick={() => setSort((s) => ({ key, desc: s.key === key ? !s.desc : false }))}>
+      <button
+        type="button"
+        className="font-semibold underline-offset-2 hover:underline"
+        onClick={() => setSort((s) => ({ key, desc: s.key === key ? !s.desc : false }))}
+      >
         {label}
         {sort.key === key ? (sort.desc ? ' ▼' : ' ▲') : ''}
       </button>

@@ -21,7 +21,15 @@ function spec(groups: GroupRow[], key: string): GroupSpec | null {
 const f = (v: number, d = 2) => (v < 0 ? `−${Math.abs(v).toFixed(d)}` : v.toFixed(d));
 const p = (v: number) => (v < 0.001 ? '< 0.001' : v.toPrecision(2));
 
-export function TwoGroupCompare({ groups, filters, onResult }: { groups: GroupRow[]; filters: AnalysisFilters; onResult?: (r: { a: GroupSpec; b: GroupSpec; metric: CompareMetric } | null) => void }) {
+export function TwoGroupCompare({
+  groups,
+  filters,
+  onResult,
+}: {
+  groups: GroupRow[];
+  filters: AnalysisFilters;
+  onResult?: (r: { a: GroupSpec; b: GroupSpec; metric: CompareMetric } | null) => void;
+}) {
   const [initialA, initialB] = defaultPair(groups);
   const [a, setA] = useState(initialA);
   const [b, setB] = useState(initialB);

@@ -79,7 +79,14 @@ export function ResetPasswordScreen() {
       ) : (
         <form onSubmit={onSubmit} noValidate aria-label="Choose a new password">
           <FormError message={errors.root?.message ?? errors.token?.message} />
-          <Field label="New password" type="password" autoComplete="new-password" hint="At least 12 characters; a short sentence is easy to remember." registration={form.register('password')} error={errors.password?.message} />
+          <Field
+            label="New password"
+            type="password"
+            autoComplete="new-password"
+            hint="At least 12 characters; a short sentence is easy to remember."
+            registration={form.register('password')}
+            error={errors.password?.message}
+          />
           <button className="btn-primary" type="submit" disabled={form.formState.isSubmitting}>
             Save the password
           </button>
@@ -134,7 +141,14 @@ function AcceptInvitationForm({ token, invitation, invalid }: { token: string; i
       <form onSubmit={onSubmit} noValidate aria-label="Accept the invitation">
         <FormError message={errors.root?.message ?? errors.token?.message} />
         <Field label="Your name" autoComplete="name" registration={form.register('name')} error={errors.name?.message} />
-        <Field label="Password" type="password" autoComplete="new-password" hint="At least 12 characters." registration={form.register('password')} error={errors.password?.message} />
+        <Field
+          label="Password"
+          type="password"
+          autoComplete="new-password"
+          hint="At least 12 characters."
+          registration={form.register('password')}
+          error={errors.password?.message}
+        />
         <button className="btn-primary" type="submit" disabled={form.formState.isSubmitting}>
           Set the password and sign in
         </button>

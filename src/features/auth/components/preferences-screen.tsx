@@ -45,8 +45,8 @@ export function PreferencesScreen() {
         <fieldset className="mb-5">
           <legend className="field-label mb-2">Display units: start from</legend>
           <p className="mb-3 text-xs text-ink-faint">
-            Measurements are stored in SI units; this only changes how they are shown, typed, exported and mailed. Choosing a preset sets every
-            quantity below; then change any single one (a US shop with a gram scale: US customary, then mass in g).
+            Measurements are stored in SI units; this only changes how they are shown, typed, exported and mailed. Choosing a preset sets every quantity below;
+            then change any single one (a US shop with a gram scale: US customary, then mass in g).
           </p>
           {UNIT_SYSTEMS_LIST.map((s) => (
             <label key={s} className="mb-2 flex items-center gap-2">
@@ -78,13 +78,16 @@ export function PreferencesScreen() {
           </thead>
           <tbody>
             {QUANTITIES.map((q) => (
-              <QuantityRow key={q} quantity={q} prefs={me.units} onChange={(unit) => void save({ units: { [q]: unit } }, `${QUANTITY_LABELS[q]} now in ${UNIT_LABELS[unit]}.`)} />
+              <QuantityRow
+                key={q}
+                quantity={q}
+                prefs={me.units}
+                onChange={(unit) => void save({ units: { [q]: unit } }, `${QUANTITY_LABELS[q]} now in ${UNIT_LABELS[unit]}.`)}
+              />
             ))}
           </tbody>
         </table>
-        <p className="mt-3 text-xs text-ink-faint">
-          Shore D and Brinell hardness are shown as measured: they are scales, never converted into one another.
-        </p>
+        <p className="mt-3 text-xs text-ink-faint">Shore D and Brinell hardness are shown as measured: they are scales, never converted into one another.</p>
         {update.isError && <ErrorNote error={update.error} />}
         {saved && (
           <p role="status" className="mt-2 text-sm text-moss">

@@ -16,7 +16,12 @@ import {
 import { photoSchema } from '../../../../shared/schemas/runs';
 import { useInvalidate } from '../../../lib/queries/invalidate';
 
-const correctedWeighingSchema = z.object({ weighing: weighingSchema, superseded: weighingSchema, coupon: couponSchema, warnings: z.array(measurementWarningSchema) });
+const correctedWeighingSchema = z.object({
+  weighing: weighingSchema,
+  superseded: weighingSchema,
+  coupon: couponSchema,
+  warnings: z.array(measurementWarningSchema),
+});
 const correctedCheckSchema = z.object({ check: checkSchema, superseded: checkSchema, coupon: couponSchema, warnings: z.array(measurementWarningSchema) });
 const photoResponseSchema = z.object({ photo: photoSchema });
 

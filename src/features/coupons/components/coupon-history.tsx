@@ -70,7 +70,9 @@ function Entry({ e }: { e: AuditEntry }) {
   return (
     <li className="py-2 text-sm">
       <p>
-        <time dateTime={e.createdAt}>{when(e.createdAt)}</time> · {e.actorName ?? 'someone'}{e.actorEmail ? ` (${e.actorEmail})` : ''} {ACTION_WORDS[e.action] ?? e.action} {e.entity === 'coupon' ? 'the coupon' : `a ${typeof stage === 'string' ? `${stage} ` : ''}${what}`}
+        <time dateTime={e.createdAt}>{when(e.createdAt)}</time> · {e.actorName ?? 'someone'}
+        {e.actorEmail ? ` (${e.actorEmail})` : ''} {ACTION_WORDS[e.action] ?? e.action}{' '}
+        {e.entity === 'coupon' ? 'the coupon' : `a ${typeof stage === 'string' ? `${stage} ` : ''}${what}`}
       </p>
       {(before || after) && (
         <p className="text-ink-soft">
@@ -92,7 +94,9 @@ function Superseded({ weighings, checks, audit }: { weighings: WeighingOut[]; ch
   const u = useUnits();
   const reason = (entity: string, id: number) => audit.filter((a) => a.entity === entity && a.entityId === String(id) && a.reason).at(-1)?.reason ?? null;
   const old = [
-    ...weighings.filter((w) => w.supersededBy !== null || w.deletedAt !== null).map((w) => ({ key: `w${w.id}`, what: `${w.stage} weighing ${u.format(w.massG, 'mass')}`, w, reason: reason('weighing', w.id) })),
+    ...weighings
+      .filter((w) => w.supersededBy !== null || w.deletedAt !== null)
+      .map((w) => ({ key: `w${w.id}`, what: `${w.stage} weighing ${u.format(w.massG, 'mass')}`, w, reason: reason('weighing', w.id) })),
     ...checks
       .filter((c) => c.supersededBy !== null || c.deletedAt !== null)
       .map((c) => ({ key: `c${c.id}`, what: `${c.stage} ${c.kind} check ${valuesOf(c, u)}`, w: c, reason: reason('check', c.id) })),

@@ -9,9 +9,9 @@ function DustCaution() {
     <aside aria-label="Caution" className="my-3 rounded border-2 border-amber-ink bg-amber-light/40 px-4 py-3 text-sm">
       <p className="font-semibold">Caution</p>
       <p>
-        Cutting or sanding a coupon to show its section makes fine dust, from the wood and from cured resin. Work with dust extraction and wear a respirator; some species
-        (many exotics among them) are sensitizers, and reactions can grow worse with every exposure. The resin maker's safety data sheet and local rules govern; this is only a
-        reminder.
+        Cutting or sanding a coupon to show its section makes fine dust, from the wood and from cured resin. Work with dust extraction and wear a respirator;
+        some species (many exotics among them) are sensitizers, and reactions can grow worse with every exposure. The resin maker's safety data sheet and local
+        rules govern; this is only a reminder.
       </p>
     </aside>
   );

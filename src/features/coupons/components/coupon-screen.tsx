@@ -7,7 +7,17 @@ import { ErrorNote, Loading, Page } from '../../../components/ui/page';
 import { useRole } from '../../../lib/session';
 import { useUnits } from '../../../lib/use-units';
 import { couponQuery } from '../api/coupons-queries';
-import { CHECK_STAGE_LABELS, CorrectCheckForm, CorrectWeighingForm, DimensionForm, HardnessForm, MoistureForm, SoakTestForm, WEIGHING_STAGE_LABELS, WeighingForm } from './coupon-forms';
+import {
+  CHECK_STAGE_LABELS,
+  CorrectCheckForm,
+  CorrectWeighingForm,
+  DimensionForm,
+  HardnessForm,
+  MoistureForm,
+  SoakTestForm,
+  WEIGHING_STAGE_LABELS,
+  WeighingForm,
+} from './coupon-forms';
 import { CouponHistoryPanel } from './coupon-history';
 import { CouponPhotos } from './coupon-photos';
 import { paths } from '../../../config/paths';
@@ -25,7 +35,12 @@ function Metrics({ coupon }: { coupon: CouponDetail }) {
     ['Cured mass', u.format(m.curedMassG, 'mass')],
     ['Dry volume', u.format(m.dryVolumeCm3, 'volume')],
     ['Cured volume', u.format(m.curedVolumeCm3, 'volume')],
-    ['Moisture content', m.mcPct === null ? '—' : `${m.mcPct.toFixed(1)} % (${m.mcSource === 'moisture-check' ? 'meter or oven reading' : 'first drying check against the dry mass'})`],
+    [
+      'Moisture content',
+      m.mcPct === null
+        ? '—'
+        : `${m.mcPct.toFixed(1)} % (${m.mcSource === 'moisture-check' ? 'meter or oven reading' : 'first drying check against the dry mass'})`,
+    ],
     ['Dry density', u.format(m.dryDensityKgM3, 'density')],
     ['Dry SG', m.drySg === null ? '—' : m.drySg.toFixed(3)],
     ['Wet uptake after the soak', pct(m.wetUptakePct)],
@@ -57,9 +72,7 @@ function Metrics({ coupon }: { coupon: CouponDetail }) {
         ))}
         <dt className="text-ink-soft">Hardness</dt>
         <dd>
-          {m.hardness.length === 0
-            ? '—'
-            : m.hardness.map((h) => `${u.hardness(h.value, h.scale)} (${CHECK_STAGE_LABELS[h.stage].toLowerCase()})`).join('; ')}
+          {m.hardness.length === 0 ? '—' : m.hardness.map((h) => `${u.hardness(h.value, h.scale)} (${CHECK_STAGE_LABELS[h.stage].toLowerCase()})`).join('; ')}
         </dd>
       </dl>
       {coupon.warnings.length > 0 && (
@@ -77,7 +90,10 @@ function Metrics({ coupon }: { coupon: CouponDetail }) {
 
 function checkValues(c: CheckOut, u: ReturnType<typeof useUnits>): string {
   if (c.kind === 'dimension') {
-    const size = c.lengthMm !== null && c.widthMm !== null && c.thicknessMm !== null ? `${u.format(c.lengthMm, 'length', false)} × ${u.format(c.widthMm, 'length', false)} × ${u.format(c.thicknessMm, 'length')}` : null;
+    const size =
+      c.lengthMm !== null && c.widthMm !== null && c.thicknessMm !== null
+        ? `${u.format(c.lengthMm, 'length', false)} × ${u.format(c.widthMm, 'length', false)} × ${u.format(c.thicknessMm, 'length')}`
+        : null;
     const vol = c.volumeCm3 !== null ? `${u.format(c.volumeCm3, 'volume')} by immersion` : null;
     return [size, vol].filter(Boolean).join('; ');
   }
@@ -93,7 +109,11 @@ function Readings({ coupon }: { coupon: CouponDetail }) {
   if (stages.length === 0) return <p className="text-ink-soft">No readings yet.</p>;
   const weighingRow = (w: WeighingOut) => (
     <li key={`w${w.id}`} className="py-1">
-      <span className="tabular-nums">{u.format(w.massG, 'mass')}</span> <span className="text-ink-soft">weighed {when(w.measuredAt)}{w.importId !== null ? ' (from an import)' : ''}</span>
+      <span className="tabular-nums">{u.format(w.massG, 'mass')}</span>{' '}
+      <span className="text-ink-soft">
+        weighed {when(w.measuredAt)}
+        {w.importId !== null ? ' (from an import)' : ''}
+      </span>
       {can('technician') && editing !== `w${w.id}` && (
         <button type="button" className="btn-quiet ml-2 px-2 py-0.5 text-xs" onClick={() => setEditing(`w${w.id}`)}>
           Correct<span className="sr-only"> the {w.stage} weighing</span>
@@ -104,10 +124,18 @@ function Readings({ coupon }: { coupon: CouponDetail }) {
   );
   const checkRow = (c: CheckOut) => (
     <li key={`c${c.id}`} className="py-1">
-      <span className="text-ink-soft">{c.kind}:</span> <span className="tabular-nums">{checkValues(c, u)}</span> <span className="text-ink-soft">{when(c.measuredAt)}{c.method ? ` · ${c.method}` : ''}</span>
+      <span className="text-ink-soft">{c.kind}:</span> <span className="tabular-nums">{checkValues(c, u)}</span>{' '}
+      <span className="text-ink-soft">
+        {when(c.measuredAt)}
+        {c.method ? ` · ${c.method}` : ''}
+      </span>
       {can('technician') && editing !== `c${c.id}` && (
         <button type="button" className="btn-quiet ml-2 px-2 py-0.5 text-xs" onClick={() => setEditing(`c${c.id}`)}>
-          Correct<span className="sr-only"> the {c.stage} {c.kind} check</span>
+          Correct
+          <span className="sr-only">
+            {' '}
+            the {c.stage} {c.kind} check
+          </span>
         </button>
       )}
       {editing === `c${c.id}` && <CorrectCheckForm check={c} onDone={() => setEditing(null)} />}
@@ -146,9 +174,24 @@ export function CouponScreen() {
     el?.focus({ preventScroll: true });
   }, [loadedId, location.hash]);
 
-  if (!Number.isInteger(id) || id <= 0) return <Page title="Coupon"><ErrorNote error={new Error('There is no coupon at this address.')} /></Page>;
-  if (coupon.isPending) return <Page title="Coupon"><Loading /></Page>;
-  if (coupon.isError) return <Page title="Coupon"><ErrorNote error={coupon.error} /></Page>;
+  if (!Number.isInteger(id) || id <= 0)
+    return (
+      <Page title="Coupon">
+        <ErrorNote error={new Error('There is no coupon at this address.')} />
+      </Page>
+    );
+  if (coupon.isPending)
+    return (
+      <Page title="Coupon">
+        <Loading />
+      </Page>
+    );
+  if (coupon.isError)
+    return (
+      <Page title="Coupon">
+        <ErrorNote error={coupon.error} />
+      </Page>
+    );
   const c = coupon.data;
   return (
     <Page

@@ -30,7 +30,12 @@ export function RunCouponsScreen() {
   const coupons = useQuery({ ...gridCouponsQuery({ runId }), enabled: Number.isInteger(runId) && runId > 0 });
   const code = coupons.data?.[0]?.runCode ?? null;
   const title = code ? `Coupons of run ${code}` : 'Coupons of the run';
-  if (!Number.isInteger(runId) || runId <= 0) return <Page title="Coupons"><ErrorNote error={new Error('There is no run at this address.')} /></Page>;
+  if (!Number.isInteger(runId) || runId <= 0)
+    return (
+      <Page title="Coupons">
+        <ErrorNote error={new Error('There is no run at this address.')} />
+      </Page>
+    );
   return (
     <Page
       title={title}

@@ -83,7 +83,13 @@ function EntryCell({ model, r, c }: { model: RowModel; r: number; c: number }) {
       aria-invalid={error ? true : undefined}
       aria-describedby={error ? `${id}-reason` : undefined}
       className={`w-[4.75rem] rounded-sm border px-1.5 py-1 text-right tabular-nums focus:outline-3 focus:outline-offset-0 focus:outline-amber-ink ${
-        error ? 'border-margin bg-margin/10' : readOnly ? 'border-transparent bg-paper-deep text-ink-soft' : draft ? 'border-amber-ink bg-amber-light/40' : 'border-rule bg-white/70'
+        error
+          ? 'border-margin bg-margin/10'
+          : readOnly
+            ? 'border-transparent bg-paper-deep text-ink-soft'
+            : draft
+              ? 'border-amber-ink bg-amber-light/40'
+              : 'border-rule bg-white/70'
       }`}
       onChange={(e) => g.setDraft(coupon.id, col.id, e.target.value)}
       onKeyDown={(e) => g.onKey(e, r, c)}
@@ -124,7 +130,8 @@ function RowCheck({ model }: { model: RowModel }) {
     <ul className="w-[26rem] space-y-0.5 text-xs">
       {lines.map((l, i) => (
         <li key={i} id={l.id} className={l.kind === 'error' ? 'text-margin' : l.kind === 'warn' ? 'text-amber-ink' : 'text-ink-soft'}>
-          <strong>{l.kind === 'error' ? 'Not saved' : l.kind === 'warn' ? 'Warning' : l.kind === 'wait' ? 'Waiting' : 'Typed'}:</strong> {l.kind === 'ok' ? 'not saved yet' : l.text}
+          <strong>{l.kind === 'error' ? 'Not saved' : l.kind === 'warn' ? 'Warning' : l.kind === 'wait' ? 'Waiting' : 'Typed'}:</strong>{' '}
+          {l.kind === 'ok' ? 'not saved yet' : l.text}
         </li>
       ))}
     </ul>
@@ -203,7 +210,17 @@ const isEmptyDrafts = (d: Drafts) => Object.values(d).every((row) => Object.valu
  * units, until Save (or Ctrl+S / Cmd+S) sends every edited row in one request; the computed columns
  * follow every keystroke through the same metric functions the server uses.
  */
-export function EntryGrid({ coupons, scope, caption, focus }: { coupons: CouponOut[]; scope: GridScope; caption: string; focus?: { couponId: number; col: number } | null }) {
+export function EntryGrid({
+  coupons,
+  scope,
+  caption,
+  focus,
+}: {
+  coupons: CouponOut[];
+  scope: GridScope;
+  caption: string;
+  focus?: { couponId: number; col: number } | null;
+}) {
   const units = useUnits();
   const { can } = useRole();
   const canEdit = can('technician');
@@ -213,7 +230,12 @@ export function EntryGrid({ coupons, scope, caption, focus }: { coupons: CouponO
   const [errors, setErrors] = useState<CellErrors>({});
   const [rowErrors, setRowErrors] = useState<Record<number, string>>({});
   const [status, setStatus] = useState<{ text: string; bad: boolean } | null>(null);
-  const initialRow = focus ? Math.max(0, coupons.findIndex((c) => c.id === focus.couponId)) : 0;
+  const initialRow = focus
+    ? Math.max(
+        0,
+        coupons.findIndex((c) => c.id === focus.couponId),
+      )
+    : 0;
   const [active, setActiveState] = useState({ r: initialRow, c: focus?.col ?? 0 });
   const inputs = useRef(new Map<string, HTMLInputElement>());
   const saveButton = useRef<HTMLButtonElement>(null);
@@ -346,7 +368,10 @@ export function EntryGrid({ coupons, scope, caption, focus }: { coupons: CouponO
     let refused = { cells: {} as CellErrors, rows: {} as Record<number, string> };
     let refusedRows = 0;
     if (!parsed.success && plan.entries.length > 0) {
-      refused = collectErrors(parsed.error.issues.map((i) => [i.path.join('.'), i.message]), plan);
+      refused = collectErrors(
+        parsed.error.issues.map((i) => [i.path.join('.'), i.message]),
+        plan,
+      );
       const bad = new Set(parsed.error.issues.map((i) => i.path[1]).filter((x): x is number => typeof x === 'number'));
       refusedRows = bad.size;
       plan = { entries: plan.entries.filter((_, i) => !bad.has(i)), cells: plan.cells.filter((_, i) => !bad.has(i)) };
@@ -357,7 +382,9 @@ export function EntryGrid({ coupons, scope, caption, focus }: { coupons: CouponO
     const held = blocked + refusedRows;
     if (plan.entries.length === 0 || !parsed.success) {
       setStatus({
-        text: held ? `Nothing saved: ${held} row${held === 1 ? ' has' : 's have'} problems, marked in the Check column.` : 'Nothing to save: no new values typed.',
+        text: held
+          ? `Nothing saved: ${held} row${held === 1 ? ' has' : 's have'} problems, marked in the Check column.`
+          : 'Nothing to save: no new values typed.',
         bad: held > 0,
       });
       return;
@@ -372,14 +399,19 @@ export function EntryGrid({ coupons, scope, caption, focus }: { coupons: CouponO
         return next;
       });
       const warned = new Set(res.warnings.map((w) => w.couponId)).size;
-      const parts = [`Saved ${res.written.weighings} weighing${res.written.weighings === 1 ? '' : 's'} and ${res.written.checks} size set${res.written.checks === 1 ? '' : 's'} for ${plan.entries.length} coupon${plan.entries.length === 1 ? '' : 's'}.`];
+      const parts = [
+        `Saved ${res.written.weighings} weighing${res.written.weighings === 1 ? '' : 's'} and ${res.written.checks} size set${res.written.checks === 1 ? '' : 's'} for ${plan.entries.length} coupon${plan.entries.length === 1 ? '' : 's'}.`,
+      ];
       if (held) parts.push(`${held} row${held === 1 ? '' : 's'} with problems not saved.`);
       if (warned) parts.push(`${warned} coupon${warned === 1 ? ' has' : 's have'} a warning in the Check column.`);
       setStatus({ text: parts.join(' '), bad: held > 0 });
     } catch (err) {
       // The server writes all of a save or none of it, so nothing here was kept.
       if (err instanceof ApiError) {
-        const found = collectErrors(Object.entries(err.fieldErrors).map(([k, v]) => [k, v[0] ?? err.message]), plan);
+        const found = collectErrors(
+          Object.entries(err.fieldErrors).map(([k, v]) => [k, v[0] ?? err.message]),
+          plan,
+        );
         setErrors({ ...refused.cells, ...found.cells });
         setRowErrors({ ...refused.rows, ...found.rows });
         setStatus({ text: `Nothing saved: ${err.message.replace(/entries\.\d+(\.\w+\.\d+)?(\.\w+)?:\s*/g, '')}`, bad: true });
@@ -444,25 +476,38 @@ export function EntryGrid({ coupons, scope, caption, focus }: { coupons: CouponO
       )}
       <div className="no-print mb-3 flex flex-wrap items-center gap-3">
         {canEdit && (
-          <button ref={saveButton} type="button" className="btn-primary" onClick={() => void doSave()} disabled={save.isPending} aria-keyshortcuts="Control+S Meta+S">
+          <button
+            ref={saveButton}
+            type="button"
+            className="btn-primary"
+            onClick={() => void doSave()}
+            disabled={save.isPending}
+            aria-keyshortcuts="Control+S Meta+S"
+          >
             {save.isPending ? 'Saving…' : 'Save'}
           </button>
         )}
-        <p className="text-sm text-ink-soft">
-          {pending > 0 ? `${pending} row${pending === 1 ? '' : 's'} typed, not saved.` : 'No unsaved values.'}
-        </p>
+        <p className="text-sm text-ink-soft">{pending > 0 ? `${pending} row${pending === 1 ? '' : 's'} typed, not saved.` : 'No unsaved values.'}</p>
         <p role="status" className={`text-sm ${status?.bad ? 'text-margin' : 'text-moss'}`}>
           {status?.text}
         </p>
       </div>
       <ProblemList rows={rows} errors={errors} rowErrors={rowErrors} onGo={focusCell} />
       <p id="grid-help" className="mb-2 text-xs text-ink-faint">
-        Tab and Shift+Tab move across, Enter and Shift+Enter down and up, arrow keys at the edge of the text; paste a column copied from a spreadsheet into a cell to fill it and the
-        cells below; Ctrl+S (⌘S) saves; Esc undoes a typed cell, or leaves the grid for the Save button. Values already saved are corrected on the coupon's page, with a reason.
+        Tab and Shift+Tab move across, Enter and Shift+Enter down and up, arrow keys at the edge of the text; paste a column copied from a spreadsheet into a
+        cell to fill it and the cells below; Ctrl+S (⌘S) saves; Esc undoes a typed cell, or leaves the grid for the Save button. Values already saved are
+        corrected on the coupon's page, with a reason.
       </p>
       {/* Wider than the page column: the grid takes the window's width so more of it shows without scrolling. */}
       <div className="relative left-1/2 w-[calc(100vw-2rem)] max-w-[120rem] -translate-x-1/2 overflow-x-auto rounded border border-paper-edge">
-        <table role="grid" aria-label={caption} aria-describedby="grid-help" aria-rowcount={rows.length + headerRows} aria-colcount={leafCount} className="data-table">
+        <table
+          role="grid"
+          aria-label={caption}
+          aria-describedby="grid-help"
+          aria-rowcount={rows.length + headerRows}
+          aria-colcount={leafCount}
+          className="data-table"
+        >
           <thead>
             {headerGroups.map((hg, depth) => (
               <tr key={hg.id} aria-rowindex={depth + 1}>
@@ -493,11 +538,23 @@ export function EntryGrid({ coupons, scope, caption, focus }: { coupons: CouponO
               <tr key={row.id} aria-rowindex={row.index + headerRows + 1} className={row.original.edited ? 'bg-amber-light/20' : undefined}>
                 {row.getVisibleCells().map((cell, i) =>
                   cell.column.id === 'tag' ? (
-                    <th key={cell.id} scope="row" role="rowheader" aria-colindex={i + 1} className="sticky left-0 z-10 border-b border-paper-edge bg-paper align-top font-normal">
+                    <th
+                      key={cell.id}
+                      scope="row"
+                      role="rowheader"
+                      aria-colindex={i + 1}
+                      className="sticky left-0 z-10 border-b border-paper-edge bg-paper align-top font-normal"
+                    >
                       {flexRender(cell.column.columnDef.cell, cell.getContext())}
                     </th>
                   ) : (
-                    <td key={cell.id} role="gridcell" aria-colindex={i + 1} data-col={cell.column.id} className={`align-top ${ENTRY_IDS.has(cell.column.id) ? 'p-0.5' : ''}`}>
+                    <td
+                      key={cell.id}
+                      role="gridcell"
+                      aria-colindex={i + 1}
+                      data-col={cell.column.id}
+                      className={`align-top ${ENTRY_IDS.has(cell.column.id) ? 'p-0.5' : ''}`}
+                    >
                       {flexRender(cell.column.columnDef.cell, cell.getContext())}
                     </td>
                   ),
@@ -512,7 +569,17 @@ export function EntryGrid({ coupons, scope, caption, focus }: { coupons: CouponO
 }
 
 /** Every value that stops a row from saving, above the grid, each one a button to its cell. */
-function ProblemList({ rows, errors, rowErrors, onGo }: { rows: RowModel[]; errors: CellErrors; rowErrors: Record<number, string>; onGo: (r: number, c: number) => void }) {
+function ProblemList({
+  rows,
+  errors,
+  rowErrors,
+  onGo,
+}: {
+  rows: RowModel[];
+  errors: CellErrors;
+  rowErrors: Record<number, string>;
+  onGo: (r: number, c: number) => void;
+}) {
   const items: { key: string; text: string; r: number; c: number }[] = [];
   rows.forEach((m, r) => {
     ENTRY_COLUMNS.forEach((col, c) => {

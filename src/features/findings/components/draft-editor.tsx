@@ -110,7 +110,14 @@ export function DraftEditor({ finding }: { finding: Finding }) {
           <label htmlFor={`${ids}-species`} className="field-label">
             Species
           </label>
-          <select id={`${ids}-species`} multiple size={6} className="field-input" value={content.speciesIds.map(String)} onChange={(e) => change({ speciesIds: picked(e) })}>
+          <select
+            id={`${ids}-species`}
+            multiple
+            size={6}
+            className="field-input"
+            value={content.speciesIds.map(String)}
+            onChange={(e) => change({ speciesIds: picked(e) })}
+          >
             {species.data?.items.map((s) => (
               <option key={s.id} value={s.id}>
                 {s.commonName}
@@ -122,7 +129,14 @@ export function DraftEditor({ finding }: { finding: Finding }) {
           <label htmlFor={`${ids}-resins`} className="field-label">
             Resins
           </label>
-          <select id={`${ids}-resins`} multiple size={6} className="field-input" value={content.resinIds.map(String)} onChange={(e) => change({ resinIds: picked(e) })}>
+          <select
+            id={`${ids}-resins`}
+            multiple
+            size={6}
+            className="field-input"
+            value={content.resinIds.map(String)}
+            onChange={(e) => change({ resinIds: picked(e) })}
+          >
             {resins.data?.items.map((r) => (
               <option key={r.id} value={r.id}>
                 {r.name}
@@ -134,7 +148,14 @@ export function DraftEditor({ finding }: { finding: Finding }) {
           <label htmlFor={`${ids}-trials`} className="field-label">
             Linked trials
           </label>
-          <select id={`${ids}-trials`} multiple size={6} className="field-input" value={content.trialIds.map(String)} onChange={(e) => change({ trialIds: picked(e) })}>
+          <select
+            id={`${ids}-trials`}
+            multiple
+            size={6}
+            className="field-input"
+            value={content.trialIds.map(String)}
+            onChange={(e) => change({ trialIds: picked(e) })}
+          >
             {trials.data?.items.map((t) => (
               <option key={t.id} value={t.id}>
                 {t.code} {t.title}

@@ -9,14 +9,7 @@ import { paths } from '../../../config/paths';
 import { ApiError } from '../../../lib/api-client';
 import { idParam } from '../../../lib/routing';
 import { attachableViewsQuery, findingQuery, revisionQuery, revisionsQuery } from '../api/findings-queries';
-import {
-  useApproveFinding,
-  useAttachEvidence,
-  useComment,
-  useDetachEvidence,
-  useFindingStep,
-  useReturnFinding,
-} from '../api/use-finding-mutations';
+import { useApproveFinding, useAttachEvidence, useComment, useDetachEvidence, useFindingStep, useReturnFinding } from '../api/use-finding-mutations';
 import { DraftEditor } from './draft-editor';
 import { StateBadge } from './state-badge';
 
@@ -30,8 +23,18 @@ export function FindingScreen() {
       </Page>
     );
   }
-  if (finding.isPending) return <Page title="Finding"><Loading /></Page>;
-  if (finding.isError) return <Page title="Finding"><ErrorNote error={finding.error} /></Page>;
+  if (finding.isPending)
+    return (
+      <Page title="Finding">
+        <Loading />
+      </Page>
+    );
+  if (finding.isError)
+    return (
+      <Page title="Finding">
+        <ErrorNote error={finding.error} />
+      </Page>
+    );
   return <FindingView finding={finding.data} />;
 }
 
@@ -43,7 +46,15 @@ function FindingView({ finding: f }: { finding: Finding }) {
         <StateBadge state={f.state} />
         <span>Version {f.version}</span>
         <span>· by {f.author.name}</span>
-        {f.editors.some((e) => e.id !== f.author.id) && <span>· edited by {f.editors.filter((e) => e.id !== f.author.id).map((e) => e.name).join(', ')}</span>}
+        {f.editors.some((e) => e.id !== f.author.id) && (
+          <span>
+            · edited by{' '}
+            {f.editors
+              .filter((e) => e.id !== f.author.id)
+              .map((e) => e.name)
+              .join(', ')}
+          </span>
+        )}
         <span>
           · last saved <time dateTime={f.savedAt}>{new Date(f.savedAt).toLocaleString()}</time>
         </span>
@@ -51,8 +62,8 @@ function FindingView({ finding: f }: { finding: Finding }) {
       <VersionLinks finding={f} />
       {f.state === 'approved' && f.wikiSlug && (
         <p className="mb-4 rounded border border-moss/40 bg-moss/10 px-3 py-2 text-sm">
-          Approved and published: <Link to={paths.wikiPage.href({ slug: f.wikiSlug })}>read the wiki page</Link>. Approved content cannot change; a change is
-          a new version, reviewed again.
+          Approved and published: <Link to={paths.wikiPage.href({ slug: f.wikiSlug })}>read the wiki page</Link>. Approved content cannot change; a change is a
+          new version, reviewed again.
         </p>
       )}
       {can('edit') ? <DraftEditor key={f.id} finding={f} /> : null}
@@ -223,8 +234,8 @@ function ApprovePanel({ finding: f }: { finding: Finding }) {
     <section aria-labelledby={`${id}-h`} className="sheet mt-6 p-4">
       <h2 id={`${id}-h`}>Approve with your signature</h2>
       <p className="mt-1 max-w-3xl text-sm text-ink-soft">
-        Your signature covers this version's text, tags and every piece of evidence as frozen above. It records your name, the time and what it means,
-        and cannot be changed afterwards.
+        Your signature covers this version's text, tags and every piece of evidence as frozen above. It records your name, the time and what it means, and
+        cannot be changed afterwards.
       </p>
       <form
         className="mt-3 max-w-md"
@@ -328,7 +339,8 @@ function Thread({ finding: f }: { finding: Finding }) {
         {f.thread.map((c) => (
           <li key={c.id} className="sheet p-3">
             <p className="text-xs text-ink-faint">
-              <strong className="text-ink-soft">{c.author.name}</strong> {KIND_WORDS[c.kind]} · <time dateTime={c.createdAt}>{new Date(c.createdAt).toLocaleString()}</time>
+              <strong className="text-ink-soft">{c.author.name}</strong> {KIND_WORDS[c.kind]} ·{' '}
+              <time dateTime={c.createdAt}>{new Date(c.createdAt).toLocaleString()}</time>
             </p>
             <RenderedMarkdown html={c.bodyHtml} />
           </li>

@@ -26,8 +26,8 @@ export function FindingsScreen() {
       }
     >
       <p className="mb-4 max-w-3xl text-sm text-ink-soft">
-        A finding is a written conclusion with the evidence it stands on. A reviewer who did not write or edit it approves it with a signature, and it
-        becomes a page of the shop wiki.
+        A finding is a written conclusion with the evidence it stands on. A reviewer who did not write or edit it approves it with a signature, and it becomes a
+        page of the shop wiki.
       </p>
       <div className="mb-4 flex flex-wrap items-end gap-4">
         <div>

@@ -13,7 +13,10 @@ import { useCreateFinding } from '../api/use-finding-mutations';
 export function NewFindingScreen() {
   const navigate = useNavigate();
   const create = useCreateFinding();
-  const form = useForm<z.input<typeof createFindingSchema>, unknown, CreateFindingInput>({ resolver: zodResolver(createFindingSchema), defaultValues: { title: '', bodyMd: '', trialIds: [], speciesIds: [], resinIds: [] } });
+  const form = useForm<z.input<typeof createFindingSchema>, unknown, CreateFindingInput>({
+    resolver: zodResolver(createFindingSchema),
+    defaultValues: { title: '', bodyMd: '', trialIds: [], speciesIds: [], resinIds: [] },
+  });
   const onSubmit = form.handleSubmit(async (values) => {
     try {
       const f = await create.mutateAsync(values);

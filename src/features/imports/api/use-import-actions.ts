@@ -23,7 +23,8 @@ function useJob(id: number, path: 'preview' | 'commit') {
   const qc = useQueryClient();
   const invalidate = useInvalidate();
   return useMutation({
-    mutationFn: (body: { mapping: ImportMapping } & Partial<Omit<CommitImportInput, 'mapping'>>) => api.post(`/imports/${id}/${path}`, body, importDetailSchema),
+    mutationFn: (body: { mapping: ImportMapping } & Partial<Omit<CommitImportInput, 'mapping'>>) =>
+      api.post(`/imports/${id}/${path}`, body, importDetailSchema),
     onSuccess: (d) => {
       qc.setQueryData(importKeys.detail(id), d);
       void invalidate('imports');

@@ -185,7 +185,14 @@ export function ImportScreen() {
   const d = q.data;
   const editable = can('technician') && (d.status === 'uploaded' || d.status === 'previewed' || d.status === 'failed' || isBusy(d));
   return (
-    <Page title={`Import: ${d.originalName}`} actions={<Link to={paths.imports.href()} className="btn-quiet no-underline">All imports</Link>}>
+    <Page
+      title={`Import: ${d.originalName}`}
+      actions={
+        <Link to={paths.imports.href()} className="btn-quiet no-underline">
+          All imports
+        </Link>
+      }
+    >
       <Facts d={d} />
       {d.sameFile.length > 0 && d.status !== 'committed' && (
         <p role="note" className="mb-4 rounded border border-margin/40 bg-margin/10 px-3 py-2 text-sm">

@@ -42,7 +42,8 @@ function UploadForm() {
     setError(null);
     const file = input.current?.files?.[0];
     if (!file) return setError(new Error('Choose the file your scale wrote (.csv, .txt or .tsv)'));
-    if (file.size > MAX_IMPORT_BYTES) return setError(new Error(`${file.name} is larger than the ${MAX_IMPORT_BYTES / 1024 / 1024} MB limit for an import; split it into smaller files`));
+    if (file.size > MAX_IMPORT_BYTES)
+      return setError(new Error(`${file.name} is larger than the ${MAX_IMPORT_BYTES / 1024 / 1024} MB limit for an import; split it into smaller files`));
     setProgress(0);
     try {
       const d = await uploadImport(file, setProgress);
@@ -62,8 +63,8 @@ function UploadForm() {
         Upload a file of readings
       </h2>
       <p className="mb-4 text-sm text-ink-soft">
-        The file your balance or scale software writes ({IMPORT_EXTENSIONS.join(', ')}, up to {MAX_IMPORT_BYTES / 1024 / 1024} MB). Lumenbook works out how it is written;
-        you check the columns, see every row it cannot use and why, and only then import. Scale writes nothing usable?{' '}
+        The file your balance or scale software writes ({IMPORT_EXTENSIONS.join(', ')}, up to {MAX_IMPORT_BYTES / 1024 / 1024} MB). Lumenbook works out how it
+        is written; you check the columns, see every row it cannot use and why, and only then import. Scale writes nothing usable?{' '}
         <a href="/api/imports/template.csv" download>
           Download the template CSV
         </a>

@@ -15,7 +15,12 @@ import { isBusy } from '../api/imports-queries';
 import { useCommit, usePreview, useSample, useSavePreset } from '../api/use-import-actions';
 
 const ORDER_LABELS = { ymd: 'year first (2026-03-01)', dmy: 'day first (01/03/2026)', mdy: 'month first (03/01/2026)' } as const;
-const ENCODING_LABELS = { 'utf-8': 'UTF-8', 'utf-16le': 'UTF-16 little-endian', 'utf-16be': 'UTF-16 big-endian', 'windows-1252': 'Windows-1252 (Western European)' } as const;
+const ENCODING_LABELS = {
+  'utf-8': 'UTF-8',
+  'utf-16le': 'UTF-16 little-endian',
+  'utf-16be': 'UTF-16 big-endian',
+  'windows-1252': 'Windows-1252 (Western European)',
+} as const;
 const STAGE_LABELS: Record<WeighingStage, string> = { dry: 'Dry', soaked: 'Soaked', cured: 'Cured', 'wet-test': 'Wet test', 'drying-check': 'Drying check' };
 
 interface FormValues {
@@ -62,7 +67,21 @@ function valuesOf(d: ImportDetail, m: ImportMapping | null): FormValues {
   };
 }
 
-function ColumnSelect({ id, label, columns, optional, register, error }: { id: string; label: string; columns: ImportColumn[]; optional: boolean; register: object; error?: string }) {
+function ColumnSelect({
+  id,
+  label,
+  columns,
+  optional,
+  register,
+  error,
+}: {
+  id: string;
+  label: string;
+  columns: ImportColumn[];
+  optional: boolean;
+  register: object;
+  error?: string;
+}) {
   return (
     <div className="mb-3">
       <label htmlFor={id} className="field-label">
@@ -114,10 +133,22 @@ function SequenceOrder({ runId, order, setOrder }: { runId: number; order: numbe
               {i + 1}. {tagOf.get(id) ?? `coupon ${id}`}
             </span>
             <span className="flex gap-1">
-              <button type="button" className="btn-quiet px-2 py-0.5 text-xs" disabled={i === 0} onClick={() => move(i, -1)} aria-label={`Move ${tagOf.get(id)} earlier`}>
+              <button
+                type="button"
+                className="btn-quiet px-2 py-0.5 text-xs"
+                disabled={i === 0}
+                onClick={() => move(i, -1)}
+                aria-label={`Move ${tagOf.get(id)} earlier`}
+              >
                 ↑
               </button>
-              <button type="button" className="btn-quiet px-2 py-0.5 text-xs" disabled={i === order.length - 1} onClick={() => move(i, 1)} aria-label={`Move ${tagOf.get(id)} later`}>
+              <button
+                type="button"
+                className="btn-quiet px-2 py-0.5 text-xs"
+                disabled={i === order.length - 1}
+                onClick={() => move(i, 1)}
+                aria-label={`Move ${tagOf.get(id)} later`}
+              >
                 ↓
               </button>
             </span>
@@ -182,7 +213,8 @@ export function MappingForm({ d }: { d: ImportDetail }) {
   }
 
   function mappingOf(v: FormValues): ImportMapping | null {
-    const target = v.mode === 'tag' ? { mode: 'tag' as const, tagColumn: num(v.tagColumn) } : { mode: 'sequence' as const, runId: num(v.runId), couponIds: order };
+    const target =
+      v.mode === 'tag' ? { mode: 'tag' as const, tagColumn: num(v.tagColumn) } : { mode: 'sequence' as const, runId: num(v.runId), couponIds: order };
     const parsed = importMappingSchema.safeParse({
       format,
       target,
@@ -209,7 +241,14 @@ export function MappingForm({ d }: { d: ImportDetail }) {
     };
     for (const issue of parsed.error.issues) {
       const field = names[issue.path.join('.')];
-      const message = field === 'stage' ? 'Choose the stage these readings were taken at' : field === 'massColumn' || field === 'tagColumn' ? 'Choose a column' : field === 'runId' ? 'Choose the run whose coupons were weighed' : issue.message;
+      const message =
+        field === 'stage'
+          ? 'Choose the stage these readings were taken at'
+          : field === 'massColumn' || field === 'tagColumn'
+            ? 'Choose a column'
+            : field === 'runId'
+              ? 'Choose the run whose coupons were weighed'
+              : issue.message;
       if (field) setError(field, { message });
     }
     return null;
@@ -247,7 +286,12 @@ export function MappingForm({ d }: { d: ImportDetail }) {
         <p className="mb-4 text-sm text-ink-soft">What Lumenbook found, and why. Change any choice that is wrong; the sample below follows.</p>
         <div className="grid gap-x-6 sm:grid-cols-2">
           <Choice id="fmt-encoding" label="Encoding" reason={d.detected.encoding}>
-            <select id="fmt-encoding" className="field-input" value={format.encoding} onChange={(e) => changeFormat({ ...format, encoding: e.target.value as ImportFormat['encoding'] })}>
+            <select
+              id="fmt-encoding"
+              className="field-input"
+              value={format.encoding}
+              onChange={(e) => changeFormat({ ...format, encoding: e.target.value as ImportFormat['encoding'] })}
+            >
               {IMPORT_ENCODINGS.map((x) => (
                 <option key={x} value={x}>
                   {ENCODING_LABELS[x]}
@@ -256,7 +300,12 @@ export function MappingForm({ d }: { d: ImportDetail }) {
             </select>
           </Choice>
           <Choice id="fmt-delimiter" label="Columns separated by" reason={d.detected.delimiter}>
-            <select id="fmt-delimiter" className="field-input" value={format.delimiter} onChange={(e) => changeFormat({ ...format, delimiter: e.target.value as ImportFormat['delimiter'] })}>
+            <select
+              id="fmt-delimiter"
+              className="field-input"
+              value={format.delimiter}
+              onChange={(e) => changeFormat({ ...format, delimiter: e.target.value as ImportFormat['delimiter'] })}
+            >
               {IMPORT_DELIMITERS.map((x) => (
                 <option key={x} value={x}>
                   {DELIMITER_LABELS[x]}
@@ -265,19 +314,34 @@ export function MappingForm({ d }: { d: ImportDetail }) {
             </select>
           </Choice>
           <Choice id="fmt-header" label="First line" reason={d.detected.hasHeader}>
-            <select id="fmt-header" className="field-input" value={format.hasHeader ? 'yes' : 'no'} onChange={(e) => changeFormat({ ...format, hasHeader: e.target.value === 'yes' })}>
+            <select
+              id="fmt-header"
+              className="field-input"
+              value={format.hasHeader ? 'yes' : 'no'}
+              onChange={(e) => changeFormat({ ...format, hasHeader: e.target.value === 'yes' })}
+            >
               <option value="yes">is a header of column names</option>
               <option value="no">is already a reading</option>
             </select>
           </Choice>
           <Choice id="fmt-decimal" label="Decimal mark" reason={d.detected.decimal}>
-            <select id="fmt-decimal" className="field-input" value={format.decimal} onChange={(e) => changeFormat({ ...format, decimal: e.target.value as ImportFormat['decimal'] })}>
+            <select
+              id="fmt-decimal"
+              className="field-input"
+              value={format.decimal}
+              onChange={(e) => changeFormat({ ...format, decimal: e.target.value as ImportFormat['decimal'] })}
+            >
               <option value=".">point (12.345)</option>
               <option value=",">comma (12,345)</option>
             </select>
           </Choice>
           <Choice id="fmt-dates" label="Dates are written" reason={d.detected.dateOrder}>
-            <select id="fmt-dates" className="field-input" value={format.dateOrder} onChange={(e) => changeFormat({ ...format, dateOrder: e.target.value as ImportFormat['dateOrder'] })}>
+            <select
+              id="fmt-dates"
+              className="field-input"
+              value={format.dateOrder}
+              onChange={(e) => changeFormat({ ...format, dateOrder: e.target.value as ImportFormat['dateOrder'] })}
+            >
               {DATE_ORDERS.map((x) => (
                 <option key={x} value={x}>
                   {ORDER_LABELS[x]}
@@ -327,7 +391,12 @@ export function MappingForm({ d }: { d: ImportDetail }) {
               <label htmlFor="map-run" className="field-label">
                 Run
               </label>
-              <select id="map-run" className="field-input mb-3" {...register('runId', { onChange: () => setOrder([]) })} aria-invalid={err('runId') ? true : undefined}>
+              <select
+                id="map-run"
+                className="field-input mb-3"
+                {...register('runId', { onChange: () => setOrder([]) })}
+                aria-invalid={err('runId') ? true : undefined}
+              >
                 <option value="">— choose the run —</option>
                 {runs.data?.items.map((r) => (
                   <option key={r.id} value={r.id}>
@@ -343,7 +412,14 @@ export function MappingForm({ d }: { d: ImportDetail }) {
               {runId && <SequenceOrder runId={Number(runId)} order={order} setOrder={setOrder} />}
             </div>
           )}
-          <ColumnSelect id="map-mass" label="Mass (the reading)" columns={columns} optional={false} register={register('massColumn')} error={err('massColumn')} />
+          <ColumnSelect
+            id="map-mass"
+            label="Mass (the reading)"
+            columns={columns}
+            optional={false}
+            register={register('massColumn')}
+            error={err('massColumn')}
+          />
           <ColumnSelect id="map-unit" label="Unit column" columns={columns} optional register={register('unitColumn')} />
           <div className="mb-3">
             <label htmlFor="map-fixed-unit" className="field-label">
@@ -364,7 +440,13 @@ export function MappingForm({ d }: { d: ImportDetail }) {
             <label htmlFor="map-stage" className="field-label">
               Stage these readings were taken at
             </label>
-            <select id="map-stage" className="field-input" {...register('stage')} aria-invalid={err('stage') ? true : undefined} aria-describedby={err('stage') ? 'map-stage-error' : undefined}>
+            <select
+              id="map-stage"
+              className="field-input"
+              {...register('stage')}
+              aria-invalid={err('stage') ? true : undefined}
+              aria-describedby={err('stage') ? 'map-stage-error' : undefined}
+            >
               <option value="">— choose the stage —</option>
               {WEIGHING_STAGES.map((s) => (
                 <option key={s} value={s}>
@@ -445,7 +527,9 @@ export function MappingForm({ d }: { d: ImportDetail }) {
             {IMPORT_COMMIT_CHOICES.map((c) => (
               <label key={c} className="mr-6 inline-flex items-center gap-2 text-sm">
                 <input type="radio" value={c} {...register('choice')} />
-                {c === 'accepted-only' ? `import the ${d.counts?.accepted ?? 0} accepted readings, leave the rest` : 'import nothing until every problem is fixed'}
+                {c === 'accepted-only'
+                  ? `import the ${d.counts?.accepted ?? 0} accepted readings, leave the rest`
+                  : 'import nothing until every problem is fixed'}
               </label>
             ))}
           </fieldset>

@@ -90,7 +90,12 @@ export function ActivateLotForm({ onDone, onCancel }: { onDone: (code: string) =
             hint={keepsUntil ? `At ${resin?.shelfLifeDays} days' shelf life it keeps until about ${keepsUntil}, stored cool.` : undefined}
           />
           <NumberField form={form} name="volume" label="Volume" quantity="liquidVolume" required />
-          <Field label="Catalyst" registration={form.register('catalystNotes', textOrNull)} error={errors.catalystNotes?.message} hint="What was added, and how much" />
+          <Field
+            label="Catalyst"
+            registration={form.register('catalystNotes', textOrNull)}
+            error={errors.catalystNotes?.message}
+            hint="What was added, and how much"
+          />
           <Field label="Dye" registration={form.register('dyeNotes', textOrNull)} error={errors.dyeNotes?.message} hint="Leave empty for a clear lot" />
         </div>
         <TextAreaField label="Notes" registration={form.register('notes', textOrNull)} error={errors.notes?.message} />

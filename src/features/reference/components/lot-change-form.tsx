@@ -116,7 +116,12 @@ export function LotChangeForm({
           </div>
           <SelectField label="Status" registration={form.register('status')} options={statusOptions} error={errors.status?.message} />
         </div>
-        <Field label="Why (kept with the change)" registration={form.register('reason')} error={errors.reason?.message} hint='e.g. "drained back after the maple run"' />
+        <Field
+          label="Why (kept with the change)"
+          registration={form.register('reason')}
+          error={errors.reason?.message}
+          hint='e.g. "drained back after the maple run"'
+        />
         <div className="flex gap-2">
           <button type="submit" className="btn-primary" disabled={form.formState.isSubmitting}>
             Save the change

@@ -39,7 +39,14 @@ export function LotsPanel() {
             </select>
           </div>
           {can('technician') && !activating && (
-            <button type="button" className="btn-primary" onClick={() => { setSaved(null); setActivating(true); }}>
+            <button
+              type="button"
+              className="btn-primary"
+              onClick={() => {
+                setSaved(null);
+                setActivating(true);
+              }}
+            >
               Activate a new lot
             </button>
           )}
@@ -125,7 +132,14 @@ export function LotsPanel() {
                       <td className="max-w-xs text-xs">{l.speciesThroughLot.length ? l.speciesThroughLot.join(', ') : 'None yet'}</td>
                       {can('technician') && (
                         <td>
-                          <button type="button" className="btn-quiet" onClick={() => { setSaved(null); setChanging(l.id); }}>
+                          <button
+                            type="button"
+                            className="btn-quiet"
+                            onClick={() => {
+                              setSaved(null);
+                              setChanging(l.id);
+                            }}
+                          >
                             Change<span className="sr-only"> lot {l.code}</span>
                           </button>
                         </td>

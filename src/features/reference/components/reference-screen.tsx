@@ -19,11 +19,14 @@ export function ReferenceScreen() {
   const tabRefs = useRef<Record<string, HTMLButtonElement | null>>({});
 
   const select = (id: TabId, focus = false) => {
-    setParams((p) => {
-      const next = new URLSearchParams(p);
-      next.set('tab', id);
-      return next;
-    }, { replace: true });
+    setParams(
+      (p) => {
+        const next = new URLSearchParams(p);
+        next.set('tab', id);
+        return next;
+      },
+      { replace: true },
+    );
     if (focus) tabRefs.current[id]?.focus();
   };
 
@@ -33,7 +36,15 @@ export function ReferenceScreen() {
     const focused = TABS.findIndex((t) => tabRefs.current[t.id] === e.target);
     const i = focused >= 0 ? focused : TABS.findIndex((t) => t.id === current);
     const to =
-      e.key === 'ArrowRight' ? (i + 1) % TABS.length : e.key === 'ArrowLeft' ? (i - 1 + TABS.length) % TABS.length : e.key === 'Home' ? 0 : e.key === 'End' ? TABS.length - 1 : -1;
+      e.key === 'ArrowRight'
+        ? (i + 1) % TABS.length
+        : e.key === 'ArrowLeft'
+          ? (i - 1 + TABS.length) % TABS.length
+          : e.key === 'Home'
+            ? 0
+            : e.key === 'End'
+              ? TABS.length - 1
+              : -1;
     const tab = TABS[to];
     if (!tab) return;
     e.preventDefault();

@@ -82,8 +82,21 @@ export function ResinForm({ resin, onDone, onCancel }: { resin: Resin | null; on
           <NumberField form={form} name="liquidDensityGcm3" label="Liquid density (g/cm³)" required />
           <NumberField form={form} name="curedDensityGcm3" label="Cured density (g/cm³)" required />
           <NumberField form={form} name="cureMin" label="Lowest cure temperature" quantity="temperature" required />
-          <NumberField form={form} name="cureMax" label="Highest cure temperature" quantity="temperature" required hint="About 93–121 °C (200–250 °F) is common practice for heat-cure resins; the resin maker's sheet governs" />
-          <NumberField form={form} name="shelfLifeDays" label="Shelf life once activated (days)" required hint={resin ? undefined : "Leave empty to use the shop's setting"} />
+          <NumberField
+            form={form}
+            name="cureMax"
+            label="Highest cure temperature"
+            quantity="temperature"
+            required
+            hint="About 93–121 °C (200–250 °F) is common practice for heat-cure resins; the resin maker's sheet governs"
+          />
+          <NumberField
+            form={form}
+            name="shelfLifeDays"
+            label="Shelf life once activated (days)"
+            required
+            hint={resin ? undefined : "Leave empty to use the shop's setting"}
+          />
         </div>
         <TextAreaField label="Notes" registration={form.register('notes', textOrNull)} error={errors.notes?.message} />
         <div className="flex gap-2">

@@ -21,7 +21,14 @@ export function ResinsPanel() {
       <div className="mb-4 flex flex-wrap items-center justify-between gap-3">
         <h2 id="resins-heading">Resins</h2>
         {can('admin') && editing === null && (
-          <button type="button" className="btn-primary" onClick={() => { setSaved(null); setEditing('new'); }}>
+          <button
+            type="button"
+            className="btn-primary"
+            onClick={() => {
+              setSaved(null);
+              setEditing('new');
+            }}
+          >
             Add a resin
           </button>
         )}
@@ -87,7 +94,14 @@ export function ResinsPanel() {
                   <td className="tabular-nums">{r.usableLots}</td>
                   {can('admin') && (
                     <td>
-                      <button type="button" className="btn-quiet" onClick={() => { setSaved(null); setEditing(r); }}>
+                      <button
+                        type="button"
+                        className="btn-quiet"
+                        onClick={() => {
+                          setSaved(null);
+                          setEditing(r);
+                        }}
+                      >
                         Edit<span className="sr-only"> {r.name}</span>
                       </button>
                     </td>

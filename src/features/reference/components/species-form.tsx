@@ -97,12 +97,27 @@ export function SpeciesForm({ species, onDone, onCancel }: { species: Species | 
           )}
         </fieldset>
         <div className="grid gap-x-4 sm:grid-cols-2">
-          <Field label="Common name" registration={form.register('commonName')} error={errors.commonName?.message} hint='Handbook style reads well in lists, e.g. "Maple, red"' />
+          <Field
+            label="Common name"
+            registration={form.register('commonName')}
+            error={errors.commonName?.message}
+            hint='Handbook style reads well in lists, e.g. "Maple, red"'
+          />
           <Field label="Botanical name" registration={form.register('botanicalName')} error={errors.botanicalName?.message} />
           <NumberField form={form} name="basicSg" label="Basic specific gravity" hint="Oven-dry mass over green volume" />
           <NumberField form={form} name="sg12" label="Specific gravity at 12 % MC" hint="Oven-dry mass over volume at 12 % moisture content" />
-          <NumberField form={form} name="sideHardnessN" label="Side hardness at 12 % MC (N)" hint="In newtons, as the table gives it (ASTM D143 ball test); not converted" />
-          <NumberField form={form} name="sgCoefficientOfVariation" label="SG coefficient of variation (fraction)" hint="e.g. 0.10; leave empty when the source gives none" />
+          <NumberField
+            form={form}
+            name="sideHardnessN"
+            label="Side hardness at 12 % MC (N)"
+            hint="In newtons, as the table gives it (ASTM D143 ball test); not converted"
+          />
+          <NumberField
+            form={form}
+            name="sgCoefficientOfVariation"
+            label="SG coefficient of variation (fraction)"
+            hint="e.g. 0.10; leave empty when the source gives none"
+          />
           {origin === 'shop-measured' && (
             <>
               <NumberField form={form} name="measuredDensityKgM3" label="Measured density (kg/m³)" />

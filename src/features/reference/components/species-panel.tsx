@@ -37,7 +37,14 @@ export function SpeciesPanel() {
           <label htmlFor={searchId} className="field-label">
             Search by name
           </label>
-          <input id={searchId} type="search" className="field-input w-72" value={q} onChange={(e) => setQ(e.target.value)} placeholder="common or botanical name" />
+          <input
+            id={searchId}
+            type="search"
+            className="field-input w-72"
+            value={q}
+            onChange={(e) => setQ(e.target.value)}
+            placeholder="common or botanical name"
+          />
         </div>
         <div>
           <label htmlFor={originId} className="field-label">
@@ -53,7 +60,14 @@ export function SpeciesPanel() {
           </select>
         </div>
         {can('admin') && editing === null && (
-          <button type="button" className="btn-primary" onClick={() => { setSaved(null); setEditing('new'); }}>
+          <button
+            type="button"
+            className="btn-primary"
+            onClick={() => {
+              setSaved(null);
+              setEditing('new');
+            }}
+          >
             Add a species
           </button>
         )}
@@ -126,7 +140,14 @@ export function SpeciesPanel() {
                     <td className="max-w-xs text-xs text-ink-soft">{s.source}</td>
                     {can('admin') && (
                       <td>
-                        <button type="button" className="btn-quiet" onClick={() => { setSaved(null); setEditing(s); }}>
+                        <button
+                          type="button"
+                          className="btn-quiet"
+                          onClick={() => {
+                            setSaved(null);
+                            setEditing(s);
+                          }}
+                        >
                           Edit<span className="sr-only"> {s.commonName}</span>
                         </button>
                       </td>

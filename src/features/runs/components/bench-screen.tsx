@@ -64,7 +64,10 @@ function GroupRow({ group, now }: { group: Group; now: Date }) {
     title = many ? `${first.runCode}: ${group.items.length} coupons need a ${word} weighing` : first.message;
     action = `Enter ${word} weights`;
   }
-  const earliest = group.items.map((i) => i.dueAt).filter((d): d is string => d !== null).sort()[0];
+  const earliest = group.items
+    .map((i) => i.dueAt)
+    .filter((d): d is string => d !== null)
+    .sort()[0];
   return (
     <li className="py-3">
       <div className="flex flex-wrap items-baseline justify-between gap-x-4 gap-y-1">
@@ -111,7 +114,13 @@ function RunsInProgress({ now }: { now: Date }) {
   if (runs.data.items.length === 0) {
     return (
       <p className="text-ink-soft">
-        No run is in the chamber or the oven.{can('technician') && <> <Link to={paths.runNew.href()}>Start a run</Link>.</>}
+        No run is in the chamber or the oven.
+        {can('technician') && (
+          <>
+            {' '}
+            <Link to={paths.runNew.href()}>Start a run</Link>.
+          </>
+        )}
       </p>
     );
   }
@@ -132,7 +141,17 @@ function RunsInProgress({ now }: { now: Date }) {
               <Link to={paths.run.href({ id: r.id })}>{r.code}</Link> <span className="text-ink-faint">· {r.chamber}</span>
             </th>
             <td>{currentStageText(r)}</td>
-            <td>{r.nextDue ? <><DueTime dueAt={r.nextDue.dueAt} now={now} /><br /><span className="text-xs text-ink-soft">{r.nextDue.message}</span></> : <span className="text-ink-soft">nothing timed</span>}</td>
+            <td>
+              {r.nextDue ? (
+                <>
+                  <DueTime dueAt={r.nextDue.dueAt} now={now} />
+                  <br />
+                  <span className="text-xs text-ink-soft">{r.nextDue.message}</span>
+                </>
+              ) : (
+                <span className="text-ink-soft">nothing timed</span>
+              )}
+            </td>
             <td>
               <CheckCounts counts={r.checkCounts} />
             </td>
@@ -177,14 +196,24 @@ export function BenchScreen() {
       <div className="grid gap-6 lg:grid-cols-2">
         <section aria-labelledby="due-now-heading" className="sheet p-5">
           <h2 id="due-now-heading">Due now</h2>
-          {bench.isPending ? <Loading /> : bench.isError ? <ErrorNote error={bench.error} /> : <ItemList items={dueNow} now={now} empty="Nothing is waiting right now." />}
+          {bench.isPending ? (
+            <Loading />
+          ) : bench.isError ? (
+            <ErrorNote error={bench.error} />
+          ) : (
+            <ItemList items={dueNow} now={now} empty="Nothing is waiting right now." />
+          )}
         </section>
         <section aria-labelledby="soon-heading" className="sheet p-5">
           <div className="flex flex-wrap items-baseline justify-between gap-2">
             <h2 id="soon-heading">Coming up</h2>
             <label className="text-sm text-ink-soft">
               within{' '}
-              <select className="rounded border border-rule bg-white/70 px-2 py-0.5" value={withinHours} onChange={(e) => setWithinHours(Number(e.target.value))}>
+              <select
+                className="rounded border border-rule bg-white/70 px-2 py-0.5"
+                value={withinHours}
+                onChange={(e) => setWithinHours(Number(e.target.value))}
+              >
                 {WINDOWS.map((h) => (
                   <option key={h} value={h}>
                     {h} h

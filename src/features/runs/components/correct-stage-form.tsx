@@ -46,7 +46,17 @@ const hasOven = (s: RunStageOut['stage']) => s === 'drying' || s === 'cure';
  * readings, with the reason. Only what the user changed is sent; the version it replaces stays in
  * the run's history.
  */
-export function CorrectStageForm({ run, stage, onDone, onCancel }: { run: RunDetail; stage: RunStageOut; onDone: (message: string) => void; onCancel: () => void }) {
+export function CorrectStageForm({
+  run,
+  stage,
+  onDone,
+  onCancel,
+}: {
+  run: RunDetail;
+  stage: RunStageOut;
+  onDone: (message: string) => void;
+  onCancel: () => void;
+}) {
   const units = useUnits();
   const correct = useCorrectStage(run.id, stage.stage);
   const idp = useId();
@@ -190,10 +200,13 @@ export function CorrectStageForm({ run, stage, onDone, onCancel }: { run: RunDet
   };
 
   return (
-    <form noValidate onSubmit={(e) => void onSubmit(e)} aria-label={`Correct the ${label.toLowerCase()} stage`} className="mt-3 rounded border border-amber-ink bg-white/40 p-4">
-      <p className="mb-3 text-sm text-ink-soft">
-        Change what was recorded wrongly and say why. The values as they are now stay in the run's history.
-      </p>
+    <form
+      noValidate
+      onSubmit={(e) => void onSubmit(e)}
+      aria-label={`Correct the ${label.toLowerCase()} stage`}
+      className="mt-3 rounded border border-amber-ink bg-white/40 p-4"
+    >
+      <p className="mb-3 text-sm text-ink-soft">Change what was recorded wrongly and say why. The values as they are now stay in the run's history.</p>
       <FormError message={errors.root?.message} />
       <div className="grid gap-x-4 sm:grid-cols-2">
         {field('startedAt', `${label} started at`, 'datetime-local')}

@@ -19,7 +19,8 @@ const numberOrUndefined = (v: unknown) => (v === '' || v === null || v === undef
 
 /** The plain words on a lot's age, beside the pick: past its shelf life, close to it, or not active. */
 export function lotWarning(lot: Pick<ResinLot, 'expired' | 'expiringSoon' | 'expiresOn' | 'ageDays' | 'shelfLifeDays' | 'status'>): string | null {
-  if (lot.expired) return `Warning: this lot is past its ${lot.shelfLifeDays}-day shelf life (${lot.ageDays} days old, expired ${lot.expiresOn}). Resin past its shelf life may not cure fully.`;
+  if (lot.expired)
+    return `Warning: this lot is past its ${lot.shelfLifeDays}-day shelf life (${lot.ageDays} days old, expired ${lot.expiresOn}). Resin past its shelf life may not cure fully.`;
   if (lot.expiringSoon) return `Warning: this lot reaches its ${lot.shelfLifeDays}-day shelf life on ${lot.expiresOn} (${lot.ageDays} days old).`;
   if (lot.status !== 'active') return `Warning: this lot is marked ${lot.status}.`;
   return null;
@@ -43,8 +44,9 @@ export function NewRunScreen() {
 
   const togglePicked = (ids: number[], on: boolean) => {
     const next = new Set(picked);
-    for (const id of ids) if (on) next.add(id);
-    else next.delete(id);
+    for (const id of ids)
+      if (on) next.add(id);
+      else next.delete(id);
     setPicked(next);
     form.setValue('couponIds', [...next]);
   };
@@ -63,7 +65,12 @@ export function NewRunScreen() {
       <form onSubmit={onSubmit} noValidate className="sheet max-w-3xl p-5" aria-label="New run">
         <FormError message={errors.root?.message} />
         <div className="grid gap-x-6 sm:grid-cols-2">
-          <Field label="Chamber" registration={form.register('chamber')} error={errors.chamber?.message} hint="The chamber or pot this cycle runs in, as the shop names it." />
+          <Field
+            label="Chamber"
+            registration={form.register('chamber')}
+            error={errors.chamber?.message}
+            hint="The chamber or pot this cycle runs in, as the shop names it."
+          />
           <Field
             label="Run code (optional)"
             registration={form.register('code', { setValueAs: blankToUndefined })}
@@ -121,7 +128,12 @@ export function NewRunScreen() {
           <label htmlFor="run-notes" className="field-label">
             Notes (optional)
           </label>
-          <textarea id="run-notes" rows={2} className="field-input" {...form.register('notes', { setValueAs: (v) => (typeof v === 'string' && v.trim() === '' ? null : v) })} />
+          <textarea
+            id="run-notes"
+            rows={2}
+            className="field-input"
+            {...form.register('notes', { setValueAs: (v) => (typeof v === 'string' && v.trim() === '' ? null : v) })}
+          />
         </div>
 
         <fieldset className="mb-4 rounded border border-rule p-3">
@@ -161,13 +173,24 @@ function TrialCoupons({ trialId, picked, onToggle }: { trialId: number; picked: 
   const rows = useMemo(() => coupons.data?.items ?? [], [coupons.data]);
   if (coupons.isPending) return <Loading label="Loading the trial's coupons…" />;
   if (coupons.isError) return <ErrorNote error={coupons.error} />;
-  if (rows.length === 0) return <p className="mt-2 text-sm text-ink-soft">This trial has no coupons yet; create its planned coupons on the trial's page first.</p>;
+  if (rows.length === 0)
+    return <p className="mt-2 text-sm text-ink-soft">This trial has no coupons yet; create its planned coupons on the trial's page first.</p>;
   // Controls stay untreated and a coupon goes through one run only, so those cannot be picked.
   const available = rows.filter((c) => c.role === 'treated' && c.runId === null);
   const allOn = available.length > 0 && available.every((c) => picked.has(c.id));
   return (
     <div className="mt-3">
-      <button type="button" className="btn-quiet mb-2" disabled={available.length === 0} onClick={() => onToggle(available.map((c) => c.id), !allOn)}>
+      <button
+        type="button"
+        className="btn-quiet mb-2"
+        disabled={available.length === 0}
+        onClick={() =>
+          onToggle(
+            available.map((c) => c.id),
+            !allOn,
+          )
+        }
+      >
         {allOn ? 'Unpick all' : `Pick all ${available.length} free treated coupons`}
       </button>
       <ul className="grid max-h-80 gap-1 overflow-auto sm:grid-cols-2">
@@ -185,7 +208,11 @@ function TrialCoupons({ trialId, picked, onToggle }: { trialId: number; picked: 
           );
         })}
       </ul>
-      {coupons.data.total > rows.length && <p className="mt-1 text-xs text-ink-faint">Showing the first {rows.length} of {coupons.data.total} coupons.</p>}
+      {coupons.data.total > rows.length && (
+        <p className="mt-1 text-xs text-ink-faint">
+          Showing the first {rows.length} of {coupons.data.total} coupons.
+        </p>
+      )}
     </div>
   );
 }

@@ -23,7 +23,11 @@ const STATUS_STYLE: Record<CheckStatus, string> = {
 
 /** The status as a word in a bordered tag: the colour only repeats what the word says. */
 export function StatusWord({ status }: { status: CheckStatus }) {
-  return <span className={`inline-block min-w-[4.5rem] rounded border px-1.5 text-center text-xs font-semibold uppercase tracking-wide ${STATUS_STYLE[status]}`}>{status}</span>;
+  return (
+    <span className={`inline-block min-w-[4.5rem] rounded border px-1.5 text-center text-xs font-semibold uppercase tracking-wide ${STATUS_STYLE[status]}`}>
+      {status}
+    </span>
+  );
 }
 
 // The reasons carry instants as ISO text; the bench reads them as local date and time.

@@ -55,7 +55,13 @@ export function RunExpected({ runId }: { runId: number }) {
       {r.basis.length > 0 && (
         <p className="mt-2 text-xs text-ink-soft">
           Expected = the shop's fitted fraction of voids filled for the species and resin (from its other runs) × each coupon's theoretical maximum:{' '}
-          {r.basis.map((b) => `${b.species} · ${b.resin} ${(b.fillFraction * 100).toFixed(0)} % (95 % CI ${(b.ci95[0] * 100).toFixed(0)}–${(b.ci95[1] * 100).toFixed(0)} %, ${b.nHistory} coupons)`).join('; ')}.
+          {r.basis
+            .map(
+              (b) =>
+                `${b.species} · ${b.resin} ${(b.fillFraction * 100).toFixed(0)} % (95 % CI ${(b.ci95[0] * 100).toFixed(0)}–${(b.ci95[1] * 100).toFixed(0)} %, ${b.nHistory} coupons)`,
+            )
+            .join('; ')}
+          .
         </p>
       )}
     </section>

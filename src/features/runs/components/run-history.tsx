@@ -35,7 +35,9 @@ function changes(before: unknown, after: unknown, u: Units): string[] {
     const was = typeof b[k] === 'number' ? (b[k] as number) : null;
     const now = typeof a[k] === 'number' ? (a[k] as number) : null;
     const d = was !== null && now !== null ? decimalsToSeeChange(u.toDisplay(was, 'temperature'), u.toDisplay(now, 'temperature'), 1) : undefined;
-    out.push(`${words}: ${k in b ? `${was === null ? 'none' : u.format(was, 'temperature', true, { decimals: d })} → ` : ''}${now === null ? 'none' : u.format(now, 'temperature', true, { decimals: d })}`);
+    out.push(
+      `${words}: ${k in b ? `${was === null ? 'none' : u.format(was, 'temperature', true, { decimals: d })} → ` : ''}${now === null ? 'none' : u.format(now, 'temperature', true, { decimals: d })}`,
+    );
   }
   const readings = (v: unknown) =>
     (Array.isArray(v) ? v : []).map((r) => record(r)).map((r) => `${String(r.gaugeValue)} ${String(r.gaugeUnit)} at ${time(r.at)}`);

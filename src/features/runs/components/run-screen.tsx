@@ -49,7 +49,13 @@ function StageFacts({ s, run, now }: { s: RunStageOut; run: RunDetail; now: Date
       <dt className="text-ink-soft">Started</dt>
       <dd>{dateTime(s.startedAt)}</dd>
       <dt className="text-ink-soft">Ended</dt>
-      <dd>{s.endedAt ? `${dateTime(s.endedAt)} (took ${formatSpan((took ?? 0) * 60_000)})` : <>not yet, running for {formatSpan(now.getTime() - Date.parse(s.startedAt))}</>}</dd>
+      <dd>
+        {s.endedAt ? (
+          `${dateTime(s.endedAt)} (took ${formatSpan((took ?? 0) * 60_000)})`
+        ) : (
+          <>not yet, running for {formatSpan(now.getTime() - Date.parse(s.startedAt))}</>
+        )}
+      </dd>
       <dt className="text-ink-soft">Planned length</dt>
       <dd>
         {s.plannedMinutes != null ? <Minutes minutes={s.plannedMinutes} /> : 'not planned'}
@@ -130,45 +136,45 @@ function Timeline({ run, now, focusStage }: { run: RunDetail; now: Date; focusSt
   };
   return (
     <>
-    <p ref={noticeRef} tabIndex={-1} role="status" className="mb-2 text-sm text-moss">
-      {notice}
-    </p>
-    <ol className="relative space-y-4 border-l-2 border-rule pl-6">
-      {RUN_STAGES.map((stage) => {
-        const rec = run.stages.find((s) => s.stage === stage);
-        const state = stateOf(run, stage);
-        const startable = run.startableStages.includes(stage);
-        return (
-          <li key={stage} id={`stage-${stage}`} tabIndex={-1} className="relative scroll-mt-4">
-            <span className={`absolute -left-[2.15rem] top-0.5 inline-block h-4 w-4 rounded-full border-2 ${STATE_MARK[state]}`} aria-hidden="true" />
-            <h3 className="font-semibold">
-              {STAGE_LABELS[stage]} <span className="text-sm font-normal text-ink-soft">— {state}</span>
-            </h3>
-            {rec && <StageFacts s={rec} run={run} now={now} />}
-            {rec && mayWrite && correcting !== stage && (
-              <button type="button" className="btn-quiet mt-1 px-2 py-0.5 text-xs" onClick={() => setCorrecting(stage)}>
-                Correct<span className="sr-only"> the {STAGE_LABELS[stage].toLowerCase()} stage</span>…
-              </button>
-            )}
-            {rec && correcting === stage && <CorrectStageForm run={run} stage={rec} onDone={saved} onCancel={() => setCorrecting(null)} />}
-            {(stage === 'vacuum' || stage === 'cure') && (state === 'in progress' || startable) && <CautionNote cautions={run.cautions[stage] ?? []} />}
-            {rec && rec.endedAt === null && mayWrite && <StageForm run={run} stage={stage} mode="open" existing={rec} onSaved={saved} />}
-            {!rec && startable && mayWrite && (
-              <>
-                {opened === stage ? (
-                  <StageForm run={run} stage={stage} mode="start" onSaved={saved} />
-                ) : (
-                  <button type="button" className="btn-quiet mt-1" onClick={() => setOpened(stage)}>
-                    Start {STAGE_LABELS[stage].toLowerCase()}…
-                  </button>
-                )}
-              </>
-            )}
-            {!rec && state === 'not started' && !startable && <p className="text-sm text-ink-faint">Waits for the stages before it.</p>}
-          </li>
-        );
-      })}
-    </ol>
+      <p ref={noticeRef} tabIndex={-1} role="status" className="mb-2 text-sm text-moss">
+        {notice}
+      </p>
+      <ol className="relative space-y-4 border-l-2 border-rule pl-6">
+        {RUN_STAGES.map((stage) => {
+          const rec = run.stages.find((s) => s.stage === stage);
+          const state = stateOf(run, stage);
+          const startable = run.startableStages.includes(stage);
+          return (
+            <li key={stage} id={`stage-${stage}`} tabIndex={-1} className="relative scroll-mt-4">
+              <span className={`absolute -left-[2.15rem] top-0.5 inline-block h-4 w-4 rounded-full border-2 ${STATE_MARK[state]}`} aria-hidden="true" />
+              <h3 className="font-semibold">
+                {STAGE_LABELS[stage]} <span className="text-sm font-normal text-ink-soft">— {state}</span>
+              </h3>
+              {rec && <StageFacts s={rec} run={run} now={now} />}
+              {rec && mayWrite && correcting !== stage && (
+                <button type="button" className="btn-quiet mt-1 px-2 py-0.5 text-xs" onClick={() => setCorrecting(stage)}>
+                  Correct<span className="sr-only"> the {STAGE_LABELS[stage].toLowerCase()} stage</span>…
+                </button>
+              )}
+              {rec && correcting === stage && <CorrectStageForm run={run} stage={rec} onDone={saved} onCancel={() => setCorrecting(null)} />}
+              {(stage === 'vacuum' || stage === 'cure') && (state === 'in progress' || startable) && <CautionNote cautions={run.cautions[stage] ?? []} />}
+              {rec && rec.endedAt === null && mayWrite && <StageForm run={run} stage={stage} mode="open" existing={rec} onSaved={saved} />}
+              {!rec && startable && mayWrite && (
+                <>
+                  {opened === stage ? (
+                    <StageForm run={run} stage={stage} mode="start" onSaved={saved} />
+                  ) : (
+                    <button type="button" className="btn-quiet mt-1" onClick={() => setOpened(stage)}>
+                      Start {STAGE_LABELS[stage].toLowerCase()}…
+                    </button>
+                  )}
+                </>
+              )}
+              {!rec && state === 'not started' && !startable && <p className="text-sm text-ink-faint">Waits for the stages before it.</p>}
+            </li>
+          );
+        })}
+      </ol>
     </>
   );
 }
@@ -194,9 +200,24 @@ export function RunScreen() {
     }
   }, [loadedId, location.hash]);
 
-  if (!Number.isInteger(id) || id <= 0) return <Page title="Run"><ErrorNote error={new Error('There is no run at this address.')} /></Page>;
-  if (run.isPending) return <Page title="Run"><Loading /></Page>;
-  if (run.isError) return <Page title="Run"><ErrorNote error={run.error} /></Page>;
+  if (!Number.isInteger(id) || id <= 0)
+    return (
+      <Page title="Run">
+        <ErrorNote error={new Error('There is no run at this address.')} />
+      </Page>
+    );
+  if (run.isPending)
+    return (
+      <Page title="Run">
+        <Loading />
+      </Page>
+    );
+  if (run.isError)
+    return (
+      <Page title="Run">
+        <ErrorNote error={run.error} />
+      </Page>
+    );
   const r = run.data;
   return (
     <Page
@@ -216,9 +237,7 @@ export function RunScreen() {
         <dt className="text-ink-soft">Chamber</dt>
         <dd>{r.chamber}</dd>
         <dt className="text-ink-soft">Resin lot</dt>
-        <dd>
-          {r.lot ? `${r.lot.code} · ${r.lot.resin.name} (activated ${r.lot.activatedAt.slice(0, 10)}, reused ${r.lot.reuseCount}×)` : 'none recorded'}
-        </dd>
+        <dd>{r.lot ? `${r.lot.code} · ${r.lot.resin.name} (activated ${r.lot.activatedAt.slice(0, 10)}, reused ${r.lot.reuseCount}×)` : 'none recorded'}</dd>
         <dt className="text-ink-soft">Altitude</dt>
         <dd>
           {units.format(r.altitudeM, 'altitude')}; air pressure there {units.format(r.ambientKpa, 'pressure')} (standard atmosphere)
@@ -250,7 +269,9 @@ export function RunScreen() {
               Due next
             </h2>
             {r.due.items.length === 0 ? (
-              <p className="text-ink-soft">{r.progress.status === 'finished' ? 'The run is finished.' : 'Nothing timed: give a stage its planned length to see when it is due.'}</p>
+              <p className="text-ink-soft">
+                {r.progress.status === 'finished' ? 'The run is finished.' : 'Nothing timed: give a stage its planned length to see when it is due.'}
+              </p>
             ) : (
               <ul className="space-y-2">
                 {r.due.items.map((d) => (

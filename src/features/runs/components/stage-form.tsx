@@ -77,7 +77,6 @@ export function toStageInput(v: StageFormValues, { stage, mode, existing, end, u
 const RENAMES = { plannedMinutes: 'plannedHours' };
 const REQUIRED = { startedAt: 'Enter a date and time', endedAt: 'Enter a date and time' };
 
-
 export const GAUGE_NOTE =
   'A vacuum gauge shows how far below the local air pressure the chamber is, and reads about 1 inHg less per 1,000 ft of altitude; absolute pressure and % vacuum are what compare across shops and altitudes.';
 
@@ -97,7 +96,11 @@ function ReadingPreview({ value, unit, altitudeM }: { value: number | null | und
     );
   } catch (e) {
     if (!(e instanceof DomainError)) throw e;
-    return <span className="text-margin">{e.code === 'vacuum-exceeds-ambient' ? 'more vacuum than the air pressure at this altitude: check the unit' : 'a gauge cannot read below zero'}</span>;
+    return (
+      <span className="text-margin">
+        {e.code === 'vacuum-exceeds-ambient' ? 'more vacuum than the air pressure at this altitude: check the unit' : 'a gauge cannot read below zero'}
+      </span>
+    );
   }
 }
 
@@ -114,7 +117,19 @@ function ErrorText({ id, message }: { id: string; message?: string }) {
  * Start a stage (mode "start") or add to the open one: gauge readings, oven temperatures, bubbling
  * time, and its end (mode "open"). Every value is converted to the stored units before it is sent.
  */
-export function StageForm({ run, stage, mode, existing, onSaved }: { run: RunDetail; stage: RunStage; mode: 'start' | 'open'; existing?: RunStageOut; onSaved: (message: string) => void }) {
+export function StageForm({
+  run,
+  stage,
+  mode,
+  existing,
+  onSaved,
+}: {
+  run: RunDetail;
+  stage: RunStage;
+  mode: 'start' | 'open';
+  existing?: RunStageOut;
+  onSaved: (message: string) => void;
+}) {
   const units = useUnits();
   const record = useRecordStage(run.id);
   const defaultUnit: GaugeUnit = units.unit('pressure') === 'inHg' ? 'inHg' : 'kPa';
@@ -188,7 +203,13 @@ export function StageForm({ run, stage, mode, existing, onSaved }: { run: RunDet
         {mode === 'start' ? (
           <Field label={`${label} started at`} type="datetime-local" registration={form.register('startedAt')} error={errors.startedAt?.message} />
         ) : (
-          <Field label={`${label} ended at`} type="datetime-local" registration={form.register('endedAt')} error={errors.endedAt?.message} hint="Used only by the “End” button." />
+          <Field
+            label={`${label} ended at`}
+            type="datetime-local"
+            registration={form.register('endedAt')}
+            error={errors.endedAt?.message}
+            hint="Used only by the “End” button."
+          />
         )}
         <fieldset className="mb-3">
           <legend className="field-label">Planned length</legend>
@@ -238,7 +259,14 @@ export function StageForm({ run, stage, mode, existing, onSaved }: { run: RunDet
                     <label htmlFor={`${idp}-r${i}-at`} className="field-label">
                       Reading {i + 1} at
                     </label>
-                    <input id={`${idp}-r${i}-at`} type="datetime-local" className="field-input" aria-invalid={e?.at ? true : undefined} aria-describedby={e?.at ? `${idp}-r${i}-at-error` : undefined} {...form.register(`readings.${i}.at`)} />
+                    <input
+                      id={`${idp}-r${i}-at`}
+                      type="datetime-local"
+                      className="field-input"
+                      aria-invalid={e?.at ? true : undefined}
+                      aria-describedby={e?.at ? `${idp}-r${i}-at-error` : undefined}
+                      {...form.register(`readings.${i}.at`)}
+                    />
                     <ErrorText id={`${idp}-r${i}-at-error`} message={e?.at?.message} />
                   </div>
                   <div>
@@ -277,11 +305,20 @@ export function StageForm({ run, stage, mode, existing, onSaved }: { run: RunDet
               );
             })}
           </ol>
-          <button type="button" className="btn-quiet mt-2" onClick={() => readings.append({ at: toLocalInput(new Date()), gaugeValue: null, gaugeUnit: watched.at(-1)?.gaugeUnit ?? defaultUnit })}>
+          <button
+            type="button"
+            className="btn-quiet mt-2"
+            onClick={() => readings.append({ at: toLocalInput(new Date()), gaugeValue: null, gaugeUnit: watched.at(-1)?.gaugeUnit ?? defaultUnit })}
+          >
             Add a gauge reading
           </button>
           <div className="mt-3 max-w-xs">
-            <Field label="Bubbling stopped at (optional)" type="datetime-local" registration={form.register('bubblingStoppedAt')} error={errors.bubblingStoppedAt?.message} />
+            <Field
+              label="Bubbling stopped at (optional)"
+              type="datetime-local"
+              registration={form.register('bubblingStoppedAt')}
+              error={errors.bubblingStoppedAt?.message}
+            />
           </div>
         </fieldset>
       )}

@@ -46,8 +46,8 @@ export function LabelSheetScreen() {
       ) : (
         <>
           <p className="no-print mb-4 text-sm text-ink-soft">
-            {sheet.data.trial.title}: {sheet.data.labels.length} label{sheet.data.labels.length === 1 ? '' : 's'}, one per coupon. Each QR code opens the coupon's page at{' '}
-            <code className="break-all">{sheet.data.address.url}</code>. Cut along the dashed lines.
+            {sheet.data.trial.title}: {sheet.data.labels.length} label{sheet.data.labels.length === 1 ? '' : 's'}, one per coupon. Each QR code opens the
+            coupon's page at <code className="break-all">{sheet.data.address.url}</code>. Cut along the dashed lines.
           </p>
           {sheet.data.address.warning && (
             <p className="no-print mb-4 rounded border border-margin px-3 py-2 text-sm text-margin" role="alert">

@@ -1,7 +1,15 @@
 import type { PlanningWarning } from '../../../../shared/trials/planning';
 
 /** Planning warnings in plain words. A warning never blocks a plan: the shop may have its reasons. */
-export function PlanningWarnings({ warnings, heading, headingLevel = 2 }: { warnings: readonly Pick<PlanningWarning, 'code' | 'message'>[]; heading: string; headingLevel?: 2 | 3 }) {
+export function PlanningWarnings({
+  warnings,
+  heading,
+  headingLevel = 2,
+}: {
+  warnings: readonly Pick<PlanningWarning, 'code' | 'message'>[];
+  heading: string;
+  headingLevel?: 2 | 3;
+}) {
   if (warnings.length === 0) return null;
   const H = headingLevel === 2 ? 'h2' : 'h3';
   return (

@@ -21,4 +21,3 @@ export function ProgressBar({ done, planned }: { done: number; planned: number }
 
 export const treatedDone = (p: Progress) => p.curedWeighed;
 export const controlDone = (p: Progress) => p.dryWeighed;
-

@@ -63,7 +63,8 @@ export function SampleSizeOffer({
                 {s.commonName} · {r.name}:{' '}
                 {a ? (
                   <>
-                    <strong>{a.nPerCondition} coupons per condition</strong> ({a.sdNote}; power 0.8, α 0.05, two-sided two-sample t test between two conditions).
+                    <strong>{a.nPerCondition} coupons per condition</strong> ({a.sdNote}; power 0.8, α 0.05, two-sided two-sample t test between two
+                    conditions).
                     {a.warning && <span className="block text-margin">{a.warning}</span>}
                   </>
                 ) : (

@@ -107,7 +107,12 @@ function StatusChanger({ trial }: { trial: Trial }) {
       <label htmlFor="trial-status" className="sr-only">
         Status of the trial
       </label>
-      <select id="trial-status" className="rounded border border-rule bg-white/70 px-2 py-1" value={status} onChange={(e) => setStatus(e.target.value as TrialStatus)}>
+      <select
+        id="trial-status"
+        className="rounded border border-rule bg-white/70 px-2 py-1"
+        value={status}
+        onChange={(e) => setStatus(e.target.value as TrialStatus)}
+      >
         {TRIAL_STATUSES.map((s) => (
           <option key={s} value={s}>
             {TRIAL_STATUS_LABELS[s]}
@@ -249,9 +254,7 @@ function ProgressTable({ trial }: { trial: Trial }) {
               row(`k${c.speciesId}`, `${c.speciesName} · untreated controls`, 'no resin; done once weighed dry', c.progress, controlDone(c.progress)),
             )}
           </tbody>
-          <tfoot>
-            {row('total', 'Whole trial', '', trial.totals, trial.doneCount)}
-          </tfoot>
+          <tfoot>{row('total', 'Whole trial', '', trial.totals, trial.doneCount)}</tfoot>
         </table>
       </div>
     </section>

@@ -104,12 +104,8 @@ export function TrialsScreen() {
                       </th>
                       <td>{t.title}</td>
                       <td>{TRIAL_STATUS_LABELS[t.status]}</td>
-                      <td className="whitespace-nowrap">
-                        {gridSize(t)}
-                      </td>
-                      <td className="tabular-nums">
-                        {`${t.couponCount} of ${t.plannedCount}`}
-                      </td>
+                      <td className="whitespace-nowrap">{gridSize(t)}</td>
+                      <td className="tabular-nums">{`${t.couponCount} of ${t.plannedCount}`}</td>
                       <td>
                         <ProgressBar done={t.doneCount} planned={t.plannedCount} />
                       </td>

@@ -9,8 +9,18 @@ import { wikiExportHref, wikiPageQuery } from '../api/wiki-queries';
 export function WikiPageScreen() {
   const slug = useParams().slug ?? '';
   const page = useQuery(wikiPageQuery(slug));
-  if (page.isPending) return <Page title="Wiki"><Loading /></Page>;
-  if (page.isError) return <Page title="Wiki"><ErrorNote error={page.error} /></Page>;
+  if (page.isPending)
+    return (
+      <Page title="Wiki">
+        <Loading />
+      </Page>
+    );
+  if (page.isError)
+    return (
+      <Page title="Wiki">
+        <ErrorNote error={page.error} />
+      </Page>
+    );
   const p = page.data;
   return (
     <Page

@@ -103,9 +103,7 @@ function Results({ list, searching }: { list: WikiList; searching: boolean }) {
             {[...p.species, ...p.resins].length > 0 && <> · {[...p.species, ...p.resins].map((t) => t.name).join(', ')}</>}
           </p>
           {p.snippet && (
-            <p className="mt-1 text-sm">
-              {p.snippet.map((piece, i) => (piece.match ? <mark key={i}>{piece.text}</mark> : <span key={i}>{piece.text}</span>))}
-            </p>
+            <p className="mt-1 text-sm">{p.snippet.map((piece, i) => (piece.match ? <mark key={i}>{piece.text}</mark> : <span key={i}>{piece.text}</span>))}</p>
           )}
         </li>
       ))}
