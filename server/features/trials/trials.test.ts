@@ -301,16 +301,14 @@ describe('creating the planned coupons', () => {
   it('keeps the codes already on tags when a species with a clashing code joins later', async () => {
     const base = plan();
     // A shop wood "Red maple" (a later id than the handbook's "Maple, red") codes to RMA as well.
-    const wood = await as.admin
-      .post('/api/species')
-      .send({
-        commonName: 'Red maple',
-        botanicalName: 'Acer rubrum',
-        measuredDensityKgM3: 520,
-        measuredMoisturePct: 6,
-        source: 'shop',
-        origin: 'shop-measured',
-      });
+    const wood = await as.admin.post('/api/species').send({
+      commonName: 'Red maple',
+      botanicalName: 'Acer rubrum',
+      measuredDensityKgM3: 520,
+      measuredMoisturePct: 6,
+      source: 'shop',
+      origin: 'shop-measured',
+    });
     const shopId = wood.body.species.id as number;
     const handbookId = speciesId('Maple, red');
     expect(handbookId).toBeLessThan(shopId);
