@@ -2,7 +2,8 @@ import { useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
 import { Link, useParams, useSearchParams } from 'react-router-dom';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
-import { couponListQuery, runListQuery, trialListQuery } from '../../../lib/queries/records';
+import { couponListQuery } from '../../../lib/queries/records';
+import { runOptionsQuery, trialOptionsQuery } from '../../../lib/queries/options';
 import { gridCouponsQuery, type GridScope } from '../api/coupons-queries';
 import { EntryGrid } from './entry-grid';
 import { columnIndexOf } from './grid-model';
@@ -55,15 +56,15 @@ export function CouponsScreen() {
   const [search, setSearch] = useSearchParams();
   const trialId = Number(search.get('trialId')) || null;
   const runId = Number(search.get('runId')) || null;
-  const trials = useQuery(trialListQuery());
-  const runs = useQuery(runListQuery());
+  const trials = useQuery(trialOptionsQuery());
+  const runs = useQuery(runOptionsQuery());
   const pick = (key: 'trialId' | 'runId', value: string) => {
     const next = new URLSearchParams();
     if (value) next.set(key, value);
     setSearch(next);
   };
-  const trial = trials.data?.items.find((t) => t.id === trialId);
-  const run = runs.data?.items.find((r) => r.id === runId);
+  const trial = trials.data?.find((t) => t.id === trialId);
+  const run = runs.data?.find((r) => r.id === runId);
   const scope: GridScope | null = trialId ? { trialId } : runId ? { runId } : null;
   const caption = trialId ? `Measurements of the coupons of trial ${trial?.code ?? trialId}` : `Measurements of the coupons in run ${run?.code ?? runId}`;
   return (
@@ -75,9 +76,9 @@ export function CouponsScreen() {
           </label>
           <select id="coupons-trial" className="field-input" value={trialId ?? ''} onChange={(e) => pick('trialId', e.target.value)}>
             <option value="">Any trial</option>
-            {trials.data?.items.map((t) => (
+            {trials.data?.map((t) => (
               <option key={t.id} value={t.id}>
-                {t.code} · {t.title}
+                {t.label}
               </option>
             ))}
           </select>
@@ -88,9 +89,9 @@ export function CouponsScreen() {
           </label>
           <select id="coupons-run" className="field-input" value={runId ?? ''} onChange={(e) => pick('runId', e.target.value)}>
             <option value="">Any run</option>
-            {runs.data?.items.map((r) => (
+            {runs.data?.map((r) => (
               <option key={r.id} value={r.id}>
-                {r.code} · {r.chamber}
+                {r.label}
               </option>
             ))}
           </select>

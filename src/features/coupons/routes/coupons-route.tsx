@@ -1,14 +1,15 @@
 import type { QueryClient } from '@tanstack/react-query';
 import { CouponsScreen } from '../components/coupons-screens';
 import type { PrefetchArgs } from '../../../lib/routing';
-import { couponListQuery, runListQuery, trialListQuery } from '../../../lib/queries/records';
+import { couponListQuery } from '../../../lib/queries/records';
+import { runOptionsQuery, trialOptionsQuery } from '../../../lib/queries/options';
 import { gridCouponsQuery } from '../api/coupons-queries';
 
 export const Component = CouponsScreen;
 
 export function prefetch(qc: QueryClient, { url }: PrefetchArgs): void {
-  void qc.prefetchQuery(trialListQuery());
-  void qc.prefetchQuery(runListQuery());
+  void qc.prefetchQuery(trialOptionsQuery());
+  void qc.prefetchQuery(runOptionsQuery());
   const trialId = Number(url.searchParams.get('trialId')) || null;
   const runId = Number(url.searchParams.get('runId')) || null;
   if (trialId) void qc.prefetchQuery(gridCouponsQuery({ trialId }));
