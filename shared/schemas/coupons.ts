@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { CHECK_KINDS, CHECK_STAGES, COUPON_ROLES, HARDNESS_SCALES, WEIGHING_STAGES } from '../constants/records';
 import { MC_SOURCES, SWELLING_BASES } from '../coupons/metrics';
 import { listQuerySchema, listResponseSchema } from './common';
+import { sortOf } from './reference';
 import { photoSchema, timestampSchema } from './runs';
 
 const idSchema = z.number().int().positive();
@@ -43,14 +44,40 @@ export const updateCouponSchema = z
   .refine((v) => Object.entries(v).some(([k, x]) => k !== 'reason' && k !== 'version' && x !== undefined), { message: 'Change at least one field' });
 export type UpdateCouponInput = z.infer<typeof updateCouponSchema>;
 
-export const couponListQuerySchema = listQuerySchema.extend({
+/** Columns the coupon list sorts by (`sort=drySg`, `sort=-wpgPct`); ties break on the id. */
+export const COUPON_SORTS = ['tag', 'createdAt', 'id', 'drySg', 'wpgPct', 'resinLoadingKgM3'] as const;
+/**
+ * `waitingFor`: coupons that still lack a reading. `soaked-weighing` and `cured-weighing` concern treated
+ * coupons only (a control never sees resin); `dry-weighing` and `dry-dimensions` concern every coupon.
+ */
+export const COUPON_WAITING_FOR = ['dry-weighing', 'soaked-weighing', 'cured-weighing', 'dry-dimensions'] as const;
+export type CouponWaitingFor = (typeof COUPON_WAITING_FOR)[number];
+
+const couponFilters = {
+  sort: sortOf(COUPON_SORTS),
+  /** Contains, case-insensitive, in the tag. */
+  q: z.string().trim().max(40, 'Use at most 40 characters').optional(),
   runId: z.coerce.number().int().positive().optional(),
   trialId: z.coerce.number().int().positive().optional(),
   speciesId: z.coerce.number().int().positive().optional(),
   conditionId: z.coerce.number().int().positive().optional(),
   role: z.enum(COUPON_ROLES).optional(),
+  waitingFor: z.enum(COUPON_WAITING_FOR, { error: `waitingFor is one of ${COUPON_WAITING_FOR.join(', ')}` }).optional(),
+};
+
+export const couponListQuerySchema = listQuerySchema.extend({
+  ...couponFilters,
+  /**
+   * Keyset paging: the `nextCursor` of the previous page. With it, `page` is ignored and the server reads
+   * on from that row instead of skipping the rows before it (use it for pages far down a long list).
+   */
+  after: z.string().max(200).optional(),
 });
 export type CouponListQuery = z.infer<typeof couponListQuerySchema>;
+
+/** `GET /api/coupons/export.csv`: the list's filters and sort, every matching coupon. */
+export const couponExportQuerySchema = z.strictObject(couponFilters);
+export type CouponExportQuery = z.infer<typeof couponExportQuerySchema>;
 
 // Bounds here only keep out typing accidents and absurd numbers; physically impossible values
 // (non-positive masses, cured below dry, moisture outside 0–300 %) are refused by the server with 422
@@ -285,7 +312,10 @@ export const couponSchema = z.object({
   warnings: z.array(measurementWarningSchema),
 });
 export type CouponOut = z.infer<typeof couponSchema>;
-export const couponListSchema = listResponseSchema(couponSchema);
+export const couponListSchema = listResponseSchema(couponSchema).extend({
+  /** Pass as `after` for the next page (keyset); null on the last page. */
+  nextCursor: z.string().nullable().optional(),
+});
 export const couponDetailSchema = couponSchema.extend({ photos: z.array(photoSchema) });
 export type CouponDetail = z.infer<typeof couponDetailSchema>;
 export const couponResponseSchema = z.object({ coupon: couponDetailSchema });
