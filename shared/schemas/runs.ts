@@ -5,6 +5,7 @@ import { RUN_STATUSES } from '../runs/stages';
 import { DUE_KINDS } from '../runs/timers';
 import { BAROMETER_RANGE_KPA } from '../domain/vacuum';
 import { listQuerySchema, listResponseSchema } from './common';
+import { sortOf } from './reference';
 import { realIsoDate } from './dates';
 
 const ISO_WITH_ZONE = /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2}(\.\d{1,9})?)?(Z|[+-]\d{2}:?\d{2})$/;
@@ -63,12 +64,23 @@ export const updateRunSchema = z
   .refine((v) => Object.entries(v).some(([k, x]) => k !== 'reason' && x !== undefined), { message: 'Change at least one field' });
 export type UpdateRunInput = z.infer<typeof updateRunSchema>;
 
-export const runListQuerySchema = listQuerySchema.extend({
+/** Columns the run list sorts by; ties break on the id, newest first. */
+export const RUN_SORTS = ['id', 'code', 'chamber', 'createdAt'] as const;
+const runFilters = {
+  sort: sortOf(RUN_SORTS),
+  /** Contains, case-insensitive, in the code or the chamber. */
+  q: z.string().trim().max(80, 'Use at most 80 characters').optional(),
   /** `open` is every run whose cure has not ended. */
   status: z.enum([...RUN_STATUSES, 'open']).optional(),
+  /** Runs whose latest recorded stage is this one (a run in the oven: `stage=cure`). */
+  stage: z.enum(RUN_STAGES, { error: `stage is one of ${RUN_STAGES.join(', ')}` }).optional(),
   resinLotId: z.coerce.number().int().positive().optional(),
-});
+};
+export const runListQuerySchema = listQuerySchema.extend(runFilters);
 export type RunListQuery = z.infer<typeof runListQuerySchema>;
+/** `GET /api/runs/export.csv`: the list's filters and sort, every matching run. */
+export const runExportQuerySchema = z.strictObject(runFilters);
+export type RunExportQuery = z.infer<typeof runExportQuerySchema>;
 
 export const gaugeReadingInputSchema = z.strictObject({
   at: timestampSchema,
@@ -277,6 +289,7 @@ export const benchItemSchema = z.object({
   kind: z.enum(BENCH_ITEM_KINDS),
   runId: z.number().int(),
   runCode: z.string(),
+  /** For coupon work: the first coupon waiting (where the click goes); null for a run's stage. */
   couponId: z.number().int().nullable(),
   couponTag: z.string().nullable(),
   stage: z.enum(RUN_STAGES).nullable(),
@@ -294,7 +307,12 @@ export const benchItemSchema = z.object({
   }),
 });
 export type BenchItem = z.infer<typeof benchItemSchema>;
-export const benchResponseSchema = z.object({ now: z.string(), withinHours: z.number(), items: z.array(benchItemSchema) });
+export const BENCH_COUPONS_SHOWN = 20;
+export const benchResponseSchema = z.object({
+  now: z.string(),
+  withinHours: z.number(),
+  items: z.array(benchItemSchema),
+});
 
 // ---------------------------------------------------------------------------------------------
 // Corrections of a recorded stage. A recorded time, reading or temperature is never overwritten in

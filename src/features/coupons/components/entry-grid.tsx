@@ -3,32 +3,20 @@ import { createColumnHelper, flexRender, getCoreRowModel, useReactTable, type Co
 import { createContext, useCallback, useContext, useEffect, useMemo, useRef, useState, type ClipboardEvent, type KeyboardEvent } from 'react';
 import { Link } from 'react-router-dom';
 import { sgPlausibility, sgWarningText } from '../../../../shared/coupons/plausibility';
-import { batchMeasurementsSchema, type CouponOut } from '../../../../shared/schemas/coupons';
+import type { CouponOut } from '../../../../shared/schemas/coupons';
 import { ApiError } from '../../../lib/api-client';
 import { useMe, useRole } from '../../../lib/session';
 import { useUnits } from '../../../lib/use-units';
 import { queryKeys } from '../../../lib/queries/keys';
 import type { GridScope } from '../api/coupons-queries';
 import { useSaveMeasurements } from '../api/use-save-measurements';
-import {
-  ENTRY_COLUMNS,
-  isLocked,
-  locateError,
-  planBatch,
-  rowModel,
-  savable,
-  showStored,
-  storedValue,
-  type BatchPlan,
-  type Drafts,
-  type RowModel,
-} from './grid-model';
+import { ENTRY_COLUMNS, isLocked, rowModel, savable, showStored, storedValue, type Drafts, type RowModel } from './grid-model';
+import { dropSaved, mergeRefusals, nothingSavedText, prepareSave, refusalsFrom, refusedText, replaceSaved, savedText, type CellErrors } from './save-plan';
+import { useGridKeyboard } from '../hooks/use-grid-keyboard';
 import { paths } from '../../../config/paths';
 import { useLeaveGuard } from '../../../lib/leave-guard';
 import { draftKey, useLocalDraft } from '../../../lib/local-draft';
 import { parseClipboard, pasteSummary, planPaste } from './paste-plan';
-
-type CellErrors = Record<number, Record<string, string>>;
 
 interface GridState {
   drafts: Drafts;
@@ -287,50 +275,23 @@ export function EntryGrid({
       return { ...d, [couponId]: row };
     });
 
-  const onKey = (e: KeyboardEvent<HTMLInputElement>, r: number, c: number) => {
-    const last = { r: rows.length - 1, c: ENTRY_COLUMNS.length - 1 };
-    const input = e.currentTarget;
-    const len = input.value.length;
-    const start = input.selectionStart ?? 0;
-    const end = input.selectionEnd ?? 0;
-    const whole = start === 0 && end === len;
-    const go = (nr: number, nc: number) => {
-      e.preventDefault();
-      focusCell(Math.min(Math.max(nr, 0), last.r), Math.min(Math.max(nc, 0), last.c));
-    };
-    switch (e.key) {
-      case 'Tab':
-        // From the last cell Tab leaves the grid (and from the first, Shift+Tab), so the page never traps focus.
-        if (e.shiftKey) {
-          if (r === 0 && c === 0) return;
-          return c > 0 ? go(r, c - 1) : go(r - 1, last.c);
-        }
-        if (r === last.r && c === last.c) return;
-        return c < last.c ? go(r, c + 1) : go(r + 1, 0);
-      case 'Enter':
-        if (e.ctrlKey || e.metaKey) return;
-        return go(r + (e.shiftKey ? -1 : 1), c);
-      case 'ArrowDown':
-        return go(r + 1, c);
-      case 'ArrowUp':
-        return go(r - 1, c);
-      case 'ArrowLeft':
-        if (end === 0 || whole) go(r, c - 1);
-        return;
-      case 'ArrowRight':
-        if (start === len || whole) go(r, c + 1);
-        return;
-      case 'Escape': {
-        const coupon = rows[r]?.coupon;
-        const col = ENTRY_COLUMNS[c];
-        if (coupon && col && drafts[coupon.id]?.[col.id] !== undefined) clearDraft(coupon.id, col.id);
-        else saveButton.current?.focus();
-        e.preventDefault();
-        return;
-      }
-      default:
-    }
-  };
+  const onKey = useGridKeyboard({
+    rows: rows.length,
+    cols: ENTRY_COLUMNS.length,
+    pageRows: () => 10,
+    hasDraft: (r, c) => {
+      const coupon = rowsRef.current[r]?.coupon;
+      const col = ENTRY_COLUMNS[c];
+      return coupon !== undefined && col !== undefined && drafts[coupon.id]?.[col.id] !== undefined;
+    },
+    moveTo: focusCell,
+    undo: (r, c) => {
+      const coupon = rowsRef.current[r]?.coupon;
+      const col = ENTRY_COLUMNS[c];
+      if (coupon && col) clearDraft(coupon.id, col.id);
+    },
+    leave: () => saveButton.current?.focus(),
+  });
 
   // A column copied from a spreadsheet arrives as lines (and tabs across): it fills this cell and
   // the ones below (and to the right), leaving cells that already hold a saved value alone.
@@ -346,75 +307,33 @@ export function EntryGrid({
     setStatus({ text: pasteSummary(plan), bad: false });
   };
 
-  const collectErrors = (entries: [string, string][], plan: BatchPlan) => {
-    const cells: CellErrors = {};
-    const rowsErr: Record<number, string> = {};
-    for (const [path, message] of entries) {
-      const at = locateError(path, plan);
-      if (!at) continue;
-      if (at.cells.length === 0) rowsErr[at.couponId] = message;
-      for (const id of at.cells) cells[at.couponId] = { ...cells[at.couponId], [id]: message };
-    }
-    return { cells, rows: rowsErr };
-  };
-
   const doSave = async () => {
     if (!canEdit || save.isPending) return;
-    const current = rowsRef.current;
-    const blocked = current.filter((m) => m.edited && !savable(m)).length;
-    let plan = planBatch(current, new Date().toISOString());
-    // Values outside the contract's bounds (e.g. 3000 mm) keep their row back; the other rows still go.
-    let parsed = batchMeasurementsSchema.safeParse({ entries: plan.entries });
-    let refused = { cells: {} as CellErrors, rows: {} as Record<number, string> };
-    let refusedRows = 0;
-    if (!parsed.success && plan.entries.length > 0) {
-      refused = collectErrors(
-        parsed.error.issues.map((i) => [i.path.join('.'), i.message]),
-        plan,
-      );
-      const bad = new Set(parsed.error.issues.map((i) => i.path[1]).filter((x): x is number => typeof x === 'number'));
-      refusedRows = bad.size;
-      plan = { entries: plan.entries.filter((_, i) => !bad.has(i)), cells: plan.cells.filter((_, i) => !bad.has(i)) };
-      parsed = batchMeasurementsSchema.safeParse({ entries: plan.entries });
-    }
-    setErrors(refused.cells);
-    setRowErrors(refused.rows);
-    const held = blocked + refusedRows;
-    if (plan.entries.length === 0 || !parsed.success) {
-      setStatus({
-        text: held
-          ? `Nothing saved: ${held} row${held === 1 ? ' has' : 's have'} problems, marked in the Check column.`
-          : 'Nothing to save: no new values typed.',
-        bad: held > 0,
-      });
+    const sent = drafts;
+    const prepared = prepareSave(rowsRef.current, new Date().toISOString());
+    setErrors(prepared.refused.cells);
+    setRowErrors(prepared.refused.rows);
+    if (!prepared.body) {
+      setStatus(nothingSavedText(prepared));
       return;
     }
+    const { plan } = prepared;
     try {
-      const res = await save.mutateAsync(parsed.data);
-      const byId = new Map(res.coupons.map((c) => [c.id, c]));
-      qc.setQueryData<CouponOut[]>(queryKeys.coupons.grid(scope), (old) => old?.map((c) => byId.get(c.id) ?? c));
-      setDrafts((d) => {
-        const next = { ...d };
-        for (const e of plan.entries) delete next[e.couponId];
-        return next;
-      });
-      const warned = new Set(res.warnings.map((w) => w.couponId)).size;
-      const parts = [
-        `Saved ${res.written.weighings} weighing${res.written.weighings === 1 ? '' : 's'} and ${res.written.checks} size set${res.written.checks === 1 ? '' : 's'} for ${plan.entries.length} coupon${plan.entries.length === 1 ? '' : 's'}.`,
-      ];
-      if (held) parts.push(`${held} row${held === 1 ? '' : 's'} with problems not saved.`);
-      if (warned) parts.push(`${warned} coupon${warned === 1 ? ' has' : 's have'} a warning in the Check column.`);
-      setStatus({ text: parts.join(' '), bad: held > 0 });
+      const res = await save.mutateAsync(prepared.body);
+      qc.setQueryData<CouponOut[]>(queryKeys.coupons.grid(scope), (old) => (old ? replaceSaved(old, res.coupons) : old));
+      setDrafts((d) => dropSaved(d, sent, plan));
+      setStatus(savedText(res, plan.entries.length, prepared.held));
     } catch (err) {
       // The server writes all of a save or none of it, so nothing here was kept.
       if (err instanceof ApiError) {
-        const found = collectErrors(
-          Object.entries(err.fieldErrors).map(([k, v]) => [k, v[0] ?? err.message]),
+        const found = refusalsFrom(
+          Object.entries(err.fieldErrors).map(([k, v]) => [k, v[0] ?? err.message] as const),
           plan,
         );
-        setErrors({ ...refused.cells, ...found.cells });
-        setRowErrors({ ...refused.rows, ...found.rows });
-        setStatus({ text: `Nothing saved: ${err.message.replace(/entries\.\d+(\.\w+\.\d+)?(\.\w+)?:\s*/g, '')}`, bad: true });
+        const all = mergeRefusals(prepared.refused, found);
+        setErrors(all.cells);
+        setRowErrors(all.rows);
+        setStatus({ text: refusedText(err.message), bad: true });
         // Someone else saved a reading meanwhile: show it, so the conflict can be seen and corrected.
         if (err.status === 409) void qc.invalidateQueries({ queryKey: queryKeys.coupons.grid(scope) });
       } else {

@@ -5,6 +5,8 @@ import { DomainError } from '../../../../shared/domain/errors';
 import { WEATHER_ALLOWANCE, chamberPressure, standardPressureAtAltitude } from '../../../../shared/domain/vacuum';
 import { recordStageSchema, type RecordStageInput, type RunDetail, type RunStageOut } from '../../../../shared/schemas/runs';
 import { STAGE_LABELS } from '../../../../shared/runs/stages';
+import { vacuumStartWarning } from '../../../../shared/runs/contradictions';
+import { EntryWarnings, useGoOnAnyway } from '../../../components/ui/entry-warnings';
 import { convertPressure } from '../../../../shared/units';
 import { Field, FormError } from '../../../components/ui/field';
 import { NumberField } from '../../../components/ui/number-field';
@@ -222,10 +224,18 @@ export function StageForm({
   const label = STAGE_LABELS[stage];
   const lower = label.toLowerCase();
   const idp = `st-${run.id}-${stage}-${mode}`;
+  // Once the vacuum starts the resin goes in: a coupon without a dry weight then has no uptake, ever.
+  const contradictions = useMemo(() => {
+    if (stage !== 'vacuum' || mode !== 'start') return [];
+    const w = vacuumStartWarning(run.coupons.map((c) => ({ id: c.id, tag: c.tag, role: c.role, hasDryWeighing: c.stagesWeighed.includes('dry') })));
+    return w ? [w] : [];
+  }, [run.coupons, stage, mode]);
+  const gate = useGoOnAnyway(contradictions);
 
   const submit = (end: boolean) => {
     ending.current = end;
     return form.handleSubmit(async (input) => {
+      if (!gate.mayGoOn()) return;
       try {
         await record.mutateAsync(input);
         form.setValue('readings', []);
@@ -408,6 +418,7 @@ export function StageForm({
         </label>
         <textarea id={`${idp}-notes`} rows={2} className="field-input" {...form.register('notes')} />
       </div>
+      <EntryWarnings warnings={contradictions} gate={gate} action={`start the ${lower}`} className="mb-3" />
       <div className="flex flex-wrap gap-2">
         {mode === 'start' ? (
           <button type="submit" className="btn-primary" disabled={form.formState.isSubmitting}>
