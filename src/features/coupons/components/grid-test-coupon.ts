@@ -16,6 +16,7 @@ export function testCoupon(over: Partial<CouponOut> = {}): CouponOut {
     trialId: null,
     trialCode: null,
     conditionId: null,
+    condition: null,
     speciesId: 1,
     speciesName: 'Test maple',
     speciesDensity: { basicSg: null, sg12: null, measuredDensityKgM3: null, measuredMoisturePct: null, sgCoefficientOfVariation: null },
