@@ -4,7 +4,7 @@ import { CHECK_STATUSES, RUN_RULES } from '../runs/checks';
 import { RUN_STATUSES } from '../runs/stages';
 import { DUE_KINDS } from '../runs/timers';
 import { BAROMETER_RANGE_KPA } from '../domain/vacuum';
-import { listQuerySchema, listResponseSchema } from './common';
+import { altitudeMSchema, listQuerySchema, listResponseSchema } from './common';
 import { sortOf } from './reference';
 import { realIsoDate } from './dates';
 
@@ -35,7 +35,7 @@ export const runCodeSchema = z
   .max(40)
   .regex(/^[A-Za-z0-9][A-Za-z0-9 ._/-]*$/, 'Use letters, digits, spaces and . _ / -');
 const chamberSchema = z.string().trim().min(1, 'Name the chamber').max(80);
-const altitudeSchema = z.number().min(-430, 'Below the lowest dry land on Earth').max(5000, 'Above 5000 m is outside the model used');
+const altitudeSchema = altitudeMSchema;
 
 export const createRunSchema = z.strictObject({
   /** Generated (R<yy>-<nnn>) when left out. */
