@@ -6,6 +6,7 @@ import { createRunSchema, type CreateRunInput } from '../../../../shared/schemas
 import type { CouponOut } from '../../../../shared/schemas/coupons';
 import type { ResinLot } from '../../../../shared/schemas/reference';
 import { lotResinWarnings, mixedConditionsWarning, type EntryWarning } from '../../../../shared/runs/contradictions';
+import { AltitudeQuestion } from '../../../components/ui/altitude-question';
 import { EntryWarnings, useGoOnAnyway } from '../../../components/ui/entry-warnings';
 import { Field, FormError } from '../../../components/ui/field';
 import { NumberField } from '../../../components/ui/number-field';
@@ -87,6 +88,7 @@ export function NewRunScreen() {
     defaultValues: { code: '', chamber: '', resinLotId: '', altitude: null, notes: '' },
   });
   const { errors } = form.formState;
+  const altitude = form.watch('altitude');
   const lotId = Number(form.watch('resinLotId')) || null;
   const lot = lots.data?.items.find((l) => l.id === lotId);
   const warning = lot ? lotWarning(lot) : null;
@@ -175,6 +177,7 @@ export function NewRunScreen() {
           quantity="altitude"
           hint="Left empty, the shop setting is used. It fixes the air pressure the gauge readings are subtracted from."
         />
+        <AltitudeQuestion id="run-altitude-question" altitudeM={altitude == null || Number.isNaN(altitude) ? null : units.fromDisplay(altitude, 'altitude')} />
         <div className="mb-4">
           <label htmlFor="run-notes" className="field-label">
             Notes (optional)

@@ -94,7 +94,12 @@ function StageFacts({ s, run, now }: { s: RunStageOut; run: RunDetail; now: Date
           <dt className="sr-only">Gauge readings</dt>
           <dd className="col-span-2 mt-2">
             <table className="data-table">
-              <caption className="text-left text-sm font-medium text-ink-soft">Gauge readings at {units.format(run.altitudeM, 'altitude')}</caption>
+              <caption className="text-left text-sm font-medium text-ink-soft">
+                Gauge readings at {units.format(run.altitudeM, 'altitude')}, against{' '}
+                {s.ambientSource === 'barometer'
+                  ? `the shop's barometer, ${units.format(s.ambientKpa, 'pressure')}`
+                  : `the standard atmosphere there, ${units.format(s.ambientKpa, 'pressure')}`}
+              </caption>
               <thead>
                 <tr>
                   <th scope="col">Time</th>
