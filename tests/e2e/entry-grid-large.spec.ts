@@ -41,7 +41,7 @@ test('a long grid: only the rows in view are in the page, the keyboard reaches t
   const { trialId, coupons } = await trialWithCoupons(page.request, 100);
   const first = coupons[0]!;
   const last = coupons[coupons.length - 1]!;
-  await page.goto(`/coupons?trialId=${trialId}`);
+  await page.goto(`/trials/${trialId}/coupons`);
   const grid = page.getByRole('grid');
   await expect(grid).toHaveAttribute('aria-rowcount', String(200 + 2));
   await expect(page.getByRole('rowheader', { name: first.tag })).toBeVisible();
@@ -72,7 +72,7 @@ test('a long grid: only the rows in view are in the page, the keyboard reaches t
 
 test('at 1280 px the tag and the computed columns stay in view across the grid, and each coupon shows its condition', async ({ page }) => {
   const { trialId, stamp, coupons } = await trialWithCoupons(page.request, 2);
-  await page.goto(`/coupons?trialId=${trialId}`);
+  await page.goto(`/trials/${trialId}/coupons`);
   await expect(page.getByRole('grid')).toBeVisible();
   // The key above the grid names each condition; the cell carries its short code.
   const key = page.getByRole('definition').filter({ hasText: `Short soak ${stamp}` });
