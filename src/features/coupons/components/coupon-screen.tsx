@@ -202,7 +202,7 @@ export function CouponScreen() {
             In the run's grid
           </Link>
         ) : c.trialId ? (
-          <Link to={paths.coupons.href({ trialId: c.trialId, focus: c.id })} className="btn-quiet no-underline">
+          <Link to={paths.trialCoupons.href({ id: c.trialId }, { focus: c.id })} className="btn-quiet no-underline">
             In the trial's grid
           </Link>
         ) : undefined
