@@ -264,6 +264,14 @@ export const antiSwellSchema = z.object({
 export const measurementWarningSchema = z.object({ field: z.string(), message: z.string() });
 export type MeasurementWarning = z.infer<typeof measurementWarningSchema>;
 
+export const couponConditionSchema = z.object({
+  id: z.number().int(),
+  label: z.string(),
+  processLabel: z.string(),
+  plannedResin: z.object({ id: z.number().int(), name: z.string() }),
+});
+export type CouponCondition = z.infer<typeof couponConditionSchema>;
+
 export const couponSchema = z.object({
   id: z.number().int(),
   tag: z.string(),
@@ -272,6 +280,11 @@ export const couponSchema = z.object({
   trialId: z.number().int().nullable(),
   trialCode: z.string().nullable(),
   conditionId: z.number().int().nullable(),
+  /**
+   * The trial condition the coupon was made for (species × resin × process settings): its label as the
+   * trial shows it, and the resin the plan wants, which may differ from the resin of the run's lot.
+   */
+  condition: couponConditionSchema.nullable(),
   speciesId: z.number().int(),
   speciesName: z.string(),
   /** The species' reference densities, so the client can flag an implausible SG while it is typed. */

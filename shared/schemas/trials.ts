@@ -167,6 +167,8 @@ export const trialSchema = trialSummarySchema.extend({
   controls: z.array(z.object({ speciesId: z.number().int(), speciesName: z.string(), progress: progressSchema })),
   totals: progressSchema,
   warnings: z.array(planningWarningSchema),
+  /** The runs its coupons went through, with how many of the trial's coupons each holds. */
+  runs: z.array(z.object({ id: z.number().int(), code: z.string(), couponCount: z.number().int() })),
 });
 export type Trial = z.infer<typeof trialSchema>;
 export const trialResponseSchema = z.object({ trial: trialSchema });

@@ -5,6 +5,7 @@ import { coupons } from '../../db/schema/coupons';
 import { couponResults } from '../../db/schema/results';
 import { resins, species } from '../../db/schema/reference';
 import { trialConditions, trials } from '../../db/schema/trials';
+import { runs } from '../../db/schema/runs';
 import type { TrialListQuery } from '../../../shared/schemas/trials';
 import type { Option, OptionsQuery } from '../../../shared/schemas/options';
 
@@ -154,6 +155,18 @@ export function progressRows(db: Db, trialId: number) {
     .from(coupons)
     .where(eq(coupons.trialId, trialId))
     .groupBy(coupons.conditionId, coupons.speciesId, coupons.role)
+    .all();
+}
+
+/** The runs the trial's coupons went through, with how many of its coupons each holds, oldest first. */
+export function runsOfTrial(db: Db, trialId: number): { id: number; code: string; couponCount: number }[] {
+  return db
+    .select({ id: runs.id, code: runs.code, couponCount: count() })
+    .from(coupons)
+    .innerJoin(runs, eq(coupons.runId, runs.id))
+    .where(eq(coupons.trialId, trialId))
+    .groupBy(runs.id, runs.code)
+    .orderBy(asc(runs.id))
     .all();
 }
 

@@ -158,6 +158,7 @@ export function createTrialsService(deps: TrialsServiceDeps) {
       })),
       totals,
       warnings,
+      runs: repo.runsOfTrial(tx, id),
     };
   }
 
