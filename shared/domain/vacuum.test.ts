@@ -104,7 +104,7 @@ describe('an altitude that makes every normal reading impossible is questioned',
     expect(altitudeQuestion(5000, 'metric')).toMatch(
       /5,000 m is higher than nearly any workshop: the standard air pressure there is 54\.0 kPa.*If you meant 5,000 ft, that is 1,524 m\./,
     );
-    expect(altitudeQuestion(ft(15000), 'us')).toMatch(/15,000 ft is higher than nearly any workshop.*Is the altitude in feet\?/);
+    expect(altitudeQuestion(ft(15000), 'us')).toMatch(/15,000 ft is higher than nearly any workshop.*Is that really the shop's altitude, in feet\?/);
     expect(altitudeQuestion(1500, 'metric')).toBeNull();
     expect(altitudeQuestion(ft(1500), 'us')).toBeNull();
   });

@@ -143,7 +143,8 @@ export const ALTITUDE_QUESTION_ABOVE_M = 3000;
  * A question to put to whoever typed an altitude that would make every normal gauge reading impossible,
  * or null. Above ALTITUDE_QUESTION_ABOVE_M the standard ambient is below 70 kPa (20.7 inHg), so a good
  * pump's reading at a low-lying shop would be refused; the usual cause is feet typed as metres (or the
- * other way round). Worded in the user's units.
+ * other way round). Worded in the unit the altitude is shown in: 'us' for feet (pressure in inHg), 'metric'
+ * for metres (kPa), whichever unit the user keeps for pressure.
  */
 export function altitudeQuestion(altitudeM: number, system: 'metric' | 'us' = 'metric'): string | null {
   requireFinite(altitudeM, 'altitudeM');
@@ -152,7 +153,7 @@ export function altitudeQuestion(altitudeM: number, system: 'metric' | 'us' = 'm
   const inHg = ambient / 3.386389;
   if (system === 'us') {
     const ft = Math.round(altitudeM / M_PER_FT);
-    return `${ft.toLocaleString('en-US')} ft is higher than nearly any workshop: the standard air pressure there is ${inHg.toFixed(1)} inHg, so any gauge reading above that would be refused. Is the altitude in feet?`;
+    return `${ft.toLocaleString('en-US')} ft is higher than nearly any workshop: the standard air pressure there is ${inHg.toFixed(1)} inHg, so any gauge reading above that would be refused. Is that really the shop's altitude, in feet?`;
   }
   const m = Math.round(altitudeM);
   return `${m.toLocaleString('en-US')} m is higher than nearly any workshop: the standard air pressure there is ${ambient.toFixed(1)} kPa, so any gauge reading above that would be refused. If you meant ${m.toLocaleString('en-US')} ft, that is ${Math.round(m * M_PER_FT).toLocaleString('en-US')} m.`;

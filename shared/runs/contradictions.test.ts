@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import type { StageTimes } from './stages';
 import {
   lotResinWarnings,
+  mixedConditionsWarning,
   vacuumStartWarning,
   weighingStageProblem,
   weighingWarnings,
@@ -127,5 +128,35 @@ describe('starting the vacuum', () => {
   it('is silent when every coupon is weighed dry', () => {
     expect(vacuumStartWarning([{ id: 1, tag: 'A', role: 'treated', hasDryWeighing: true }])).toBeNull();
     expect(vacuumStartWarning([])).toBeNull();
+  });
+});
+
+describe('coupons of several trial conditions picked for one run', () => {
+  // One chamber cycle has one vacuum, soak and cure (common practice), so a run serves one condition.
+  const short = { id: 21, label: 'Maple · Amber resin · 2 h soak' };
+  const long = { id: 22, label: 'Maple · Amber resin · overnight soak' };
+
+  it('names each condition with its coupons', () => {
+    const w = mixedConditionsWarning([
+      { id: 1, tag: 'T1-001', role: 'treated', condition: short },
+      { id: 2, tag: 'T1-002', role: 'treated', condition: long },
+      { id: 3, tag: 'T1-003', role: 'treated', condition: long },
+    ]);
+    expect(w).toMatchObject({ code: 'conditions-mixed', couponIds: [1, 2, 3] });
+    expect(w?.message).toContain(
+      '2 different trial conditions: Maple · Amber resin · 2 h soak (1: T1-001); Maple · Amber resin · overnight soak (2: T1-002, T1-003)',
+    );
+  });
+
+  it('is silent for one condition, for coupons without a plan beside it, and for controls', () => {
+    expect(
+      mixedConditionsWarning([
+        { id: 1, tag: 'A', role: 'treated', condition: short },
+        { id: 2, tag: 'B', role: 'treated', condition: short },
+        { id: 3, tag: 'C', role: 'treated', condition: null },
+        { id: 4, tag: 'K', role: 'control', condition: long },
+      ]),
+    ).toBeNull();
+    expect(mixedConditionsWarning([])).toBeNull();
   });
 });

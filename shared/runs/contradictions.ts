@@ -7,7 +7,13 @@ import { STAGE_LABELS, runProgress, type StageTimes } from './stages';
  * each is a warning with its reason, shown at the moment of entry; the user may go on deliberately.
  * Pure, so the form warns before the request and the server can say the same thing in its answer.
  */
-export const ENTRY_WARNING_CODES = ['lot-resin-differs', 'weighing-ahead-of-run', 'weighing-without-run', 'vacuum-without-dry-weight'] as const;
+export const ENTRY_WARNING_CODES = [
+  'lot-resin-differs',
+  'conditions-mixed',
+  'weighing-ahead-of-run',
+  'weighing-without-run',
+  'vacuum-without-dry-weight',
+] as const;
 export type EntryWarningCode = (typeof ENTRY_WARNING_CODES)[number];
 
 export interface EntryWarning {
@@ -180,5 +186,40 @@ export function vacuumStartWarning(coupons: readonly RunCouponWeighed[]): EntryW
     message:
       `${n} ${plural(n, 'coupon has', 'coupons have')} no dry weight yet (${listTags(missing.map((c) => c.tag))}). ` +
       `Once the vacuum starts the resin goes in, and ${plural(n, 'its', 'their')} uptake can never be worked out. Weigh ${plural(n, 'it', 'them')} dry first.`,
+  };
+}
+
+export interface CouponOfCondition {
+  id: number;
+  tag: string;
+  role: CouponRole;
+  /** The trial condition the coupon was made for; null outside any plan. */
+  condition: { id: number; label: string } | null;
+}
+
+/**
+ * Coupons of more than one trial condition picked for one run. A run is one set of process settings
+ * (vacuum, soak, cure), so coupons planned for different settings would all be filed under this run's
+ * times and the comparison the trial planned between them is lost. Coupons without a condition do not
+ * count as a condition of their own: a run may carry spare pieces beside one condition.
+ */
+export function mixedConditionsWarning(coupons: readonly CouponOfCondition[]): EntryWarning | null {
+  const byCondition = new Map<number, { label: string; tags: string[]; ids: number[] }>();
+  for (const c of coupons) {
+    if (c.role !== 'treated' || !c.condition) continue;
+    const g = byCondition.get(c.condition.id) ?? { label: c.condition.label, tags: [], ids: [] };
+    g.tags.push(c.tag);
+    g.ids.push(c.id);
+    byCondition.set(c.condition.id, g);
+  }
+  if (byCondition.size < 2) return null;
+  const groups = [...byCondition.values()];
+  return {
+    code: 'conditions-mixed',
+    couponIds: groups.flatMap((g) => g.ids),
+    message:
+      `The picked coupons belong to ${groups.length} different trial conditions: ` +
+      groups.map((g) => `${g.label} (${g.tags.length}: ${listTags(g.tags)})`).join('; ') +
+      `. One run has one vacuum, soak and cure, so their results would all be filed under this run's settings. Pick one condition, or go on if the plan is meant to share this run.`,
   };
 }

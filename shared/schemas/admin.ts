@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { ROLES } from '../constants/roles';
 import { userSchema } from './auth';
-import { emailSchema, listResponseSchema, nameSchema } from './common';
+import { altitudeMSchema, emailSchema, listResponseSchema, nameSchema } from './common';
 
 export const inviteUserSchema = z.strictObject({ email: emailSchema, name: nameSchema, role: z.enum(ROLES) });
 export type InviteUserInput = z.infer<typeof inviteUserSchema>;
@@ -34,7 +34,7 @@ export const backupResponseSchema = z.object({ file: z.string(), bytes: z.number
 /** Shop-wide settings. Altitude feeds the vacuum arithmetic; the drying rule feeds the constant-mass check. */
 export const shopSettingsSchema = z.object({
   shopName: z.string().trim().min(1).max(120),
-  altitudeM: z.number().min(-430, 'Below the lowest dry land on Earth').max(5000, 'Above 5000 m is outside the model used'),
+  altitudeM: altitudeMSchema,
   dryingMinIntervalHours: z.number().min(0.5).max(48),
   dryingMaxChangePct: z.number().min(0.01).max(5),
   lotShelfLifeDays: z.number().int().min(1).max(3650),

@@ -59,3 +59,12 @@ export const passwordSchema = z
     message: `Use at most ${PASSWORD_MAX_BYTES} bytes (72 plain letters; accented letters and symbols count two to four)`,
   });
 export const nameSchema = z.string().trim().min(1, 'Enter a name').max(120);
+
+/**
+ * A shop's altitude, metres (stored SI; forms show it in the user's altitude unit). Below the lowest dry
+ * land, or above the 5,000 m to which the vacuum arithmetic is trusted, it is a slip.
+ */
+export const altitudeMSchema = z
+  .number()
+  .min(-430, 'Below the lowest dry land on Earth (−430 m, −1,411 ft)')
+  .max(5000, 'Above 5,000 m (16,404 ft) the air pressure model used does not hold');

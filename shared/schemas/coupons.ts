@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { CHECK_KINDS, CHECK_STAGES, COUPON_ROLES, HARDNESS_SCALES, WEIGHING_STAGES } from '../constants/records';
 import { MC_SOURCES, SWELLING_BASES } from '../coupons/metrics';
 import { listQuerySchema, listResponseSchema } from './common';
+import { sortOf } from './reference';
 import { photoSchema, timestampSchema } from './runs';
 
 const idSchema = z.number().int().positive();
@@ -43,14 +44,40 @@ export const updateCouponSchema = z
   .refine((v) => Object.entries(v).some(([k, x]) => k !== 'reason' && k !== 'version' && x !== undefined), { message: 'Change at least one field' });
 export type UpdateCouponInput = z.infer<typeof updateCouponSchema>;
 
-export const couponListQuerySchema = listQuerySchema.extend({
+/** Columns the coupon list sorts by (`sort=drySg`, `sort=-wpgPct`); ties break on the id. */
+export const COUPON_SORTS = ['tag', 'createdAt', 'id', 'drySg', 'wpgPct', 'resinLoadingKgM3'] as const;
+/**
+ * `waitingFor`: coupons that still lack a reading. `soaked-weighing` and `cured-weighing` concern treated
+ * coupons only (a control never sees resin); `dry-weighing` and `dry-dimensions` concern every coupon.
+ */
+export const COUPON_WAITING_FOR = ['dry-weighing', 'soaked-weighing', 'cured-weighing', 'dry-dimensions'] as const;
+export type CouponWaitingFor = (typeof COUPON_WAITING_FOR)[number];
+
+const couponFilters = {
+  sort: sortOf(COUPON_SORTS),
+  /** Contains, case-insensitive, in the tag. */
+  q: z.string().trim().max(40, 'Use at most 40 characters').optional(),
   runId: z.coerce.number().int().positive().optional(),
   trialId: z.coerce.number().int().positive().optional(),
   speciesId: z.coerce.number().int().positive().optional(),
   conditionId: z.coerce.number().int().positive().optional(),
   role: z.enum(COUPON_ROLES).optional(),
+  waitingFor: z.enum(COUPON_WAITING_FOR, { error: `waitingFor is one of ${COUPON_WAITING_FOR.join(', ')}` }).optional(),
+};
+
+export const couponListQuerySchema = listQuerySchema.extend({
+  ...couponFilters,
+  /**
+   * Keyset paging: the `nextCursor` of the previous page. With it, `page` is ignored and the server reads
+   * on from that row instead of skipping the rows before it (use it for pages far down a long list).
+   */
+  after: z.string().max(200).optional(),
 });
 export type CouponListQuery = z.infer<typeof couponListQuerySchema>;
+
+/** `GET /api/coupons/export.csv`: the list's filters and sort, every matching coupon. */
+export const couponExportQuerySchema = z.strictObject(couponFilters);
+export type CouponExportQuery = z.infer<typeof couponExportQuerySchema>;
 
 // Bounds here only keep out typing accidents and absurd numbers; physically impossible values
 // (non-positive masses, cured below dry, moisture outside 0–300 %) are refused by the server with 422
@@ -237,6 +264,14 @@ export const antiSwellSchema = z.object({
 export const measurementWarningSchema = z.object({ field: z.string(), message: z.string() });
 export type MeasurementWarning = z.infer<typeof measurementWarningSchema>;
 
+export const couponConditionSchema = z.object({
+  id: z.number().int(),
+  label: z.string(),
+  processLabel: z.string(),
+  plannedResin: z.object({ id: z.number().int(), name: z.string() }),
+});
+export type CouponCondition = z.infer<typeof couponConditionSchema>;
+
 export const couponSchema = z.object({
   id: z.number().int(),
   tag: z.string(),
@@ -245,6 +280,11 @@ export const couponSchema = z.object({
   trialId: z.number().int().nullable(),
   trialCode: z.string().nullable(),
   conditionId: z.number().int().nullable(),
+  /**
+   * The trial condition the coupon was made for (species × resin × process settings): its label as the
+   * trial shows it, and the resin the plan wants, which may differ from the resin of the run's lot.
+   */
+  condition: couponConditionSchema.nullable(),
   speciesId: z.number().int(),
   speciesName: z.string(),
   /** The species' reference densities, so the client can flag an implausible SG while it is typed. */
@@ -272,7 +312,10 @@ export const couponSchema = z.object({
   warnings: z.array(measurementWarningSchema),
 });
 export type CouponOut = z.infer<typeof couponSchema>;
-export const couponListSchema = listResponseSchema(couponSchema);
+export const couponListSchema = listResponseSchema(couponSchema).extend({
+  /** Pass as `after` for the next page (keyset); null on the last page. */
+  nextCursor: z.string().nullable().optional(),
+});
 export const couponDetailSchema = couponSchema.extend({ photos: z.array(photoSchema) });
 export type CouponDetail = z.infer<typeof couponDetailSchema>;
 export const couponResponseSchema = z.object({ coupon: couponDetailSchema });

@@ -3,7 +3,9 @@ import { COUPON_ROLES, GAUGE_UNITS, LOT_STATUSES, PHOTO_KINDS, RUN_STAGES, WEIGH
 import { CHECK_STATUSES, RUN_RULES } from '../runs/checks';
 import { RUN_STATUSES } from '../runs/stages';
 import { DUE_KINDS } from '../runs/timers';
-import { listQuerySchema, listResponseSchema } from './common';
+import { BAROMETER_RANGE_KPA } from '../domain/vacuum';
+import { altitudeMSchema, listQuerySchema, listResponseSchema } from './common';
+import { sortOf } from './reference';
 import { realIsoDate } from './dates';
 
 const ISO_WITH_ZONE = /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2}(\.\d{1,9})?)?(Z|[+-]\d{2}:?\d{2})$/;
@@ -33,7 +35,7 @@ export const runCodeSchema = z
   .max(40)
   .regex(/^[A-Za-z0-9][A-Za-z0-9 ._/-]*$/, 'Use letters, digits, spaces and . _ / -');
 const chamberSchema = z.string().trim().min(1, 'Name the chamber').max(80);
-const altitudeSchema = z.number().min(-430, 'Below the lowest dry land on Earth').max(5000, 'Above 5000 m is outside the model used');
+const altitudeSchema = altitudeMSchema;
 
 export const createRunSchema = z.strictObject({
   /** Generated (R<yy>-<nnn>) when left out. */
@@ -62,12 +64,23 @@ export const updateRunSchema = z
   .refine((v) => Object.entries(v).some(([k, x]) => k !== 'reason' && x !== undefined), { message: 'Change at least one field' });
 export type UpdateRunInput = z.infer<typeof updateRunSchema>;
 
-export const runListQuerySchema = listQuerySchema.extend({
+/** Columns the run list sorts by; ties break on the id, newest first. */
+export const RUN_SORTS = ['id', 'code', 'chamber', 'createdAt'] as const;
+const runFilters = {
+  sort: sortOf(RUN_SORTS),
+  /** Contains, case-insensitive, in the code or the chamber. */
+  q: z.string().trim().max(80, 'Use at most 80 characters').optional(),
   /** `open` is every run whose cure has not ended. */
   status: z.enum([...RUN_STATUSES, 'open']).optional(),
+  /** Runs whose latest recorded stage is this one (a run in the oven: `stage=cure`). */
+  stage: z.enum(RUN_STAGES, { error: `stage is one of ${RUN_STAGES.join(', ')}` }).optional(),
   resinLotId: z.coerce.number().int().positive().optional(),
-});
+};
+export const runListQuerySchema = listQuerySchema.extend(runFilters);
 export type RunListQuery = z.infer<typeof runListQuerySchema>;
+/** `GET /api/runs/export.csv`: the list's filters and sort, every matching run. */
+export const runExportQuerySchema = z.strictObject(runFilters);
+export type RunExportQuery = z.infer<typeof runExportQuerySchema>;
 
 export const gaugeReadingInputSchema = z.strictObject({
   at: timestampSchema,
@@ -76,6 +89,15 @@ export const gaugeReadingInputSchema = z.strictObject({
   gaugeUnit: z.enum(GAUGE_UNITS),
 });
 export type GaugeReadingInput = z.infer<typeof gaugeReadingInputSchema>;
+
+/**
+ * The shop's barometer while the vacuum was read, kPa: station pressure (what the barometer in the shop
+ * shows), not the sea-level figure a weather report gives. Outside 50–110 kPa it is a unit slip.
+ */
+export const barometerSchema = z
+  .number()
+  .min(BAROMETER_RANGE_KPA.min, `A barometer in a workshop reads at least ${BAROMETER_RANGE_KPA.min} kPa (14.8 inHg); check the unit`)
+  .max(BAROMETER_RANGE_KPA.max, `A barometer reads at most ${BAROMETER_RANGE_KPA.max} kPa (32.5 inHg); check the unit`);
 
 const ovenTempSchema = z.number().min(-20, 'Below −20 °C is not an oven temperature').max(300, 'Above 300 °C is not a curing oven');
 
@@ -92,6 +114,8 @@ export const recordStageSchema = z
       .nullable()
       .optional(),
     bubblingStoppedAt: timestampSchema.nullable().optional(),
+    /** Vacuum stage: the shop's barometer, kPa, in place of the standard atmosphere at the run's altitude. */
+    barometerKpa: barometerSchema.nullable().optional(),
     ovenSetC: ovenTempSchema.nullable().optional(),
     ovenMeasuredC: ovenTempSchema.nullable().optional(),
     notes: notesSchema.nullable().optional(),
@@ -104,6 +128,9 @@ export const recordStageSchema = z
     }
     if (v.stage !== 'vacuum' && v.bubblingStoppedAt != null) {
       ctx.addIssue({ code: 'custom', path: ['bubblingStoppedAt'], message: 'Bubbling is recorded at the vacuum stage' });
+    }
+    if (v.stage !== 'vacuum' && v.barometerKpa != null) {
+      ctx.addIssue({ code: 'custom', path: ['barometerKpa'], message: 'The barometer is recorded with the gauge readings, at the vacuum stage' });
     }
   });
 export type RecordStageInput = z.infer<typeof recordStageSchema>;
@@ -127,6 +154,11 @@ export const runStageSchema = z.object({
   /** Planned end (start + planned minutes), when planned. */
   plannedEndAt: z.string().nullable(),
   bubblingStoppedAt: z.string().nullable(),
+  /** The shop's barometer while the gauge was read, kPa, when recorded. */
+  barometerKpa: z.number().nullable(),
+  /** The ambient pressure this stage's readings were subtracted from, kPa, and where it came from. */
+  ambientKpa: z.number(),
+  ambientSource: z.enum(['barometer', 'standard-atmosphere']),
   ovenSetC: z.number().nullable(),
   ovenMeasuredC: z.number().nullable(),
   notes: z.string().nullable(),
@@ -257,6 +289,7 @@ export const benchItemSchema = z.object({
   kind: z.enum(BENCH_ITEM_KINDS),
   runId: z.number().int(),
   runCode: z.string(),
+  /** For coupon work: the first coupon waiting (where the click goes); null for a run's stage. */
   couponId: z.number().int().nullable(),
   couponTag: z.string().nullable(),
   stage: z.enum(RUN_STAGES).nullable(),
@@ -274,7 +307,12 @@ export const benchItemSchema = z.object({
   }),
 });
 export type BenchItem = z.infer<typeof benchItemSchema>;
-export const benchResponseSchema = z.object({ now: z.string(), withinHours: z.number(), items: z.array(benchItemSchema) });
+export const BENCH_COUPONS_SHOWN = 20;
+export const benchResponseSchema = z.object({
+  now: z.string(),
+  withinHours: z.number(),
+  items: z.array(benchItemSchema),
+});
 
 // ---------------------------------------------------------------------------------------------
 // Corrections of a recorded stage. A recorded time, reading or temperature is never overwritten in
@@ -307,6 +345,7 @@ export const correctStageSchema = z
       .nullable()
       .optional(),
     bubblingStoppedAt: timestampSchema.nullable().optional(),
+    barometerKpa: barometerSchema.nullable().optional(),
     ovenSetC: ovenTempSchema.nullable().optional(),
     ovenMeasuredC: ovenTempSchema.nullable().optional(),
     notes: notesSchema.nullable().optional(),

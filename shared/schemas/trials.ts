@@ -92,12 +92,17 @@ export const updateTrialSchema = z
 export type UpdateTrialInput = z.infer<typeof updateTrialSchema>;
 
 export const TRIAL_SORTS = ['code', 'title', 'status', 'createdAt'] as const;
-export const trialListQuerySchema = listQuerySchema.extend({
+const trialFilters = {
   sort: sortOf(TRIAL_SORTS),
+  /** Contains, case-insensitive, in the code, title or question. */
   q: z.string().trim().max(80, 'Use at most 80 characters').optional(),
   status: z.enum(TRIAL_STATUSES, { error: `status is one of ${TRIAL_STATUSES.join(', ')}` }).optional(),
-});
+};
+export const trialListQuerySchema = listQuerySchema.extend(trialFilters);
 export type TrialListQuery = z.infer<typeof trialListQuerySchema>;
+/** `GET /api/trials/export.csv`: the list's filters and sort, every matching trial. */
+export const trialExportQuerySchema = z.strictObject(trialFilters);
+export type TrialExportQuery = z.infer<typeof trialExportQuerySchema>;
 
 export const progressSchema = z.object({
   planned: z.number().int(),
@@ -162,6 +167,8 @@ export const trialSchema = trialSummarySchema.extend({
   controls: z.array(z.object({ speciesId: z.number().int(), speciesName: z.string(), progress: progressSchema })),
   totals: progressSchema,
   warnings: z.array(planningWarningSchema),
+  /** The runs its coupons went through, with how many of the trial's coupons each holds. */
+  runs: z.array(z.object({ id: z.number().int(), code: z.string(), couponCount: z.number().int() })),
 });
 export type Trial = z.infer<typeof trialSchema>;
 export const trialResponseSchema = z.object({ trial: trialSchema });

@@ -73,6 +73,7 @@ export function appRoutes(qc: QueryClient): RouteObject[] {
             s(paths.trial.path, () => import('../features/trials/routes/trial-route')),
             s(paths.trialEdit.path, () => import('../features/trials/routes/trial-edit-route'), 'technician'),
             s(paths.trialLabels.path, () => import('../features/trials/routes/labels-route')),
+            s(paths.trialCoupons.path, () => import('../features/coupons/routes/trial-coupons-route')),
             s(paths.reference.path, () => import('../features/reference/routes/reference-route')),
             // Viewers read the history; the screen offers uploads to technicians and above.
             s(paths.imports.path, () => import('../features/imports/routes/imports-route')),

@@ -56,6 +56,8 @@ export const paths = {
   trial: route('/trials/:id'),
   trialEdit: route('/trials/:id/edit'),
   trialLabels: route('/trials/:id/labels'),
+  /** The entry grid of a trial's coupons (the coupon list filtered by trial is `coupons.href({ trialId })`). */
+  trialCoupons: route('/trials/:id/coupons'),
   runs: route('/runs'),
   runNew: route('/runs/new'),
   run: route('/runs/:id'),

@@ -35,6 +35,11 @@ export const runStages = sqliteTable(
     plannedMinutes: integer('planned_minutes'),
     /** Vacuum stage: when bubbling stopped. */
     bubblingStoppedAt: text('bubbling_stopped_at'),
+    /**
+     * Vacuum stage: the shop's barometer (station pressure, kPa) while the gauge was read, when it has one.
+     * It takes the place of the standard atmosphere at the run's altitude for this stage's readings.
+     */
+    barometerKpa: real('barometer_kpa'),
     /** Cure (and drying) stage: oven set point and the separate thermometer's reading, °C. */
     ovenSetC: real('oven_set_c'),
     ovenMeasuredC: real('oven_measured_c'),

@@ -1,4 +1,5 @@
 import { and, asc, eq, inArray, isNull, or, sql, type SQL } from 'drizzle-orm';
+import { alias } from 'drizzle-orm/sqlite-core';
 import type { Db } from '../../db/client';
 import { auditLog } from '../../db/schema/admin';
 import { users } from '../../db/schema/auth';
@@ -21,15 +22,36 @@ export interface CouponWithNames {
   speciesName: string;
   trialCode: string | null;
   runCode: string | null;
+  /** The trial condition's process settings name and planned resin; null outside a condition. */
+  processLabel: string | null;
+  plannedResinId: number | null;
+  plannedResinName: string | null;
+  conditionSpeciesName: string | null;
 }
+
+// The condition's resin is the plan; the resin a coupon went through (its run's lot) may differ.
+const plannedResins = alias(resins, 'planned_resins');
+const conditionSpecies = alias(species, 'condition_species');
 
 function withNames(db: Db) {
   return db
-    .select({ coupon: coupons, speciesName: species.commonName, trialCode: trials.code, runCode: runs.code })
+    .select({
+      coupon: coupons,
+      speciesName: species.commonName,
+      trialCode: trials.code,
+      runCode: runs.code,
+      processLabel: trialConditions.processLabel,
+      plannedResinId: plannedResins.id,
+      plannedResinName: plannedResins.name,
+      conditionSpeciesName: conditionSpecies.commonName,
+    })
     .from(coupons)
     .innerJoin(species, eq(coupons.speciesId, species.id))
     .leftJoin(trials, eq(coupons.trialId, trials.id))
-    .leftJoin(runs, eq(coupons.runId, runs.id));
+    .leftJoin(runs, eq(coupons.runId, runs.id))
+    .leftJoin(trialConditions, eq(coupons.conditionId, trialConditions.id))
+    .leftJoin(plannedResins, eq(trialConditions.resinId, plannedResins.id))
+    .leftJoin(conditionSpecies, eq(trialConditions.speciesId, conditionSpecies.id));
 }
 
 export function findCoupon(db: Db, id: number): CouponWithNames | undefined {

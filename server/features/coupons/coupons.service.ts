@@ -26,6 +26,7 @@ import type {
 import { antiSwellForList, couponMetrics, type CouponMetrics } from '../../../shared/coupons/metrics';
 import { sgPlausibility, sgWarningText } from '../../../shared/coupons/plausibility';
 import { readingDateQuestion } from '../../../shared/schemas/dates';
+import { conditionLabel } from '../../../shared/trials/planning';
 import {
   allChecks,
   allWeighings,
@@ -175,6 +176,15 @@ export function createCouponsService(deps: FeatureDeps) {
       trialId: c.r.coupon.trialId,
       trialCode: c.r.trialCode,
       conditionId: c.r.coupon.conditionId,
+      condition:
+        c.r.coupon.conditionId !== null && c.r.processLabel !== null && c.r.plannedResinId !== null && c.r.plannedResinName !== null
+          ? {
+              id: c.r.coupon.conditionId,
+              label: conditionLabel(c.r.conditionSpeciesName ?? c.r.speciesName, c.r.plannedResinName, c.r.processLabel),
+              processLabel: c.r.processLabel,
+              plannedResin: { id: c.r.plannedResinId, name: c.r.plannedResinName },
+            }
+          : null,
       speciesId: c.r.coupon.speciesId,
       speciesName: c.r.speciesName,
       speciesDensity: speciesDensityOf(spMap.get(c.r.coupon.speciesId)),

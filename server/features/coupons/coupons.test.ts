@@ -191,6 +191,26 @@ describe('coupons', () => {
     expect((await as.viewer.get('/api/coupons?role=wrong')).status).toBe(400);
   });
 
+  it('names the trial condition a coupon was made for, with the resin the plan wants', async () => {
+    const trial = h.database.db.select().from(trials).where(eq(trials.code, 'T26-001')).get()!;
+    const detail = await as.viewer.get(`/api/trials/${trial.id}`);
+    const conditions = detail.body.trial.conditions as { id: number; label: string; processLabel: string; resinId: number; resinName: string }[];
+    const list = await as.viewer.get(`/api/coupons?trialId=${trial.id}&pageSize=200`);
+    const treated = list.body.items.filter((c: { role: string }) => c.role === 'treated');
+    expect(treated.length).toBeGreaterThan(0);
+    for (const c of treated) {
+      const planned = conditions.find((k) => k.id === c.conditionId)!;
+      expect(c.condition).toEqual({
+        id: planned.id,
+        label: planned.label,
+        processLabel: planned.processLabel,
+        plannedResin: { id: planned.resinId, name: planned.resinName },
+      });
+    }
+    const controls = list.body.items.filter((c: { role: string }) => c.role === 'control');
+    expect(controls.every((c: { condition: unknown }) => c.condition === null)).toBe(true);
+  });
+
   it('records a change to a coupon in the audit log', async () => {
     const id = await makeCoupon();
     const res = await as.technician.patch(`/api/coupons/${id}`).send({ sourceBoard: 'board 2', reason: 'label read wrong', version: 1 });

@@ -6,7 +6,7 @@ import { refreshResults, refreshResultsOfRun } from '../../measurements/results'
 import { coupons } from '../../db/schema/coupons';
 import { runReadings, runStages, runs } from '../../db/schema/runs';
 import { Conflict, NotFound, Unprocessable, ValidationFailed } from '../../http/errors';
-import { DomainError, WEATHER_ALLOWANCE, absolutePressureFromGauge, percentVacuum, standardPressureAtAltitude } from '../../../shared/domain/index';
+import { DomainError, WEATHER_ALLOWANCE, chamberPressure, standardPressureAtAltitude } from '../../../shared/domain/index';
 import { convertPressure, type UnitChoice } from '../../../shared/units';
 import type { User } from '../../../shared/schemas/auth';
 import type {
@@ -48,23 +48,44 @@ export function toStageTimes(s: StageRow): StageTimes & { ovenSetC: number | nul
   return { stage: s.stage, startedAt: s.startedAt, endedAt: s.endedAt, plannedMinutes: s.plannedMinutes, ovenSetC: s.ovenSetC, ovenMeasuredC: s.ovenMeasuredC };
 }
 
-/** Gauge vacuum as read → absolute kPa and % vacuum at the run's altitude (standard atmosphere). */
-export function convertReading(r: Pick<GaugeReadingInput, 'gaugeValue' | 'gaugeUnit'>, altitudeM: number, field: string) {
+/** Where a gauge reading is taken: the run's altitude, and the shop's barometer when the stage recorded one. */
+export interface Ambient {
+  altitudeM: number;
+  barometerKpa?: number | null;
+}
+
+/**
+ * Gauge vacuum as read → absolute kPa and % vacuum, against the stage's barometer when it has one, else
+ * the standard atmosphere at the run's altitude (U.S. Standard Atmosphere 1976), clamped at 0 within the
+ * weather allowance.
+ */
+export function convertReading(r: Pick<GaugeReadingInput, 'gaugeValue' | 'gaugeUnit'>, where: Ambient, field: string) {
   const gaugeKpa = convertPressure(r.gaugeValue, r.gaugeUnit, 'kPa');
   try {
-    const absoluteKpa = absolutePressureFromGauge(gaugeKpa, altitudeM);
-    return { absoluteKpa, percentVacuum: percentVacuum(absoluteKpa, altitudeM) };
+    const p = chamberPressure(gaugeKpa, where);
+    return { absoluteKpa: p.absoluteKpa, percentVacuum: p.percentVacuum };
   } catch (e) {
     if (!(e instanceof DomainError)) throw e;
     if (e.code === 'vacuum-exceeds-ambient') {
-      const ambient = standardPressureAtAltitude(altitudeM);
-      const message =
-        `${r.gaugeValue} ${r.gaugeUnit} (${gaugeKpa.toFixed(2)} kPa) is more vacuum than the ${ambient.toFixed(2)} kPa standard ambient pressure ` +
-        `at ${Math.round(altitudeM)} m (${Math.round(altitudeM / 0.3048)} ft) by more than the ${WEATHER_ALLOWANCE * 100} % the weather can add; check the gauge unit and the run's altitude`;
+      const { altitudeM, barometerKpa } = where;
+      const against =
+        barometerKpa != null
+          ? `the shop's barometer reading of ${barometerKpa.toFixed(2)} kPa`
+          : `the ${standardPressureAtAltitude(altitudeM).toFixed(2)} kPa standard ambient pressure at ${Math.round(altitudeM)} m (${Math.round(altitudeM / 0.3048)} ft)`;
+      const check = barometerKpa != null ? 'check the gauge unit and the barometer reading' : "check the gauge unit and the run's altitude";
+      const message = `${r.gaugeValue} ${r.gaugeUnit} (${gaugeKpa.toFixed(2)} kPa) is more vacuum than ${against} by more than the ${WEATHER_ALLOWANCE * 100} % the weather can add; ${check}`;
       throw new Unprocessable(`${field}: ${message}`, { [field]: [message] });
     }
-    throw new Unprocessable(`${field}: ${e.message}`, { [field]: [e.message] });
+    const f = e.field === 'barometerKpa' ? 'barometerKpa' : field;
+    throw new Unprocessable(`${f}: ${e.message}`, { [f]: [e.message] });
   }
+}
+
+/** The ambient a stage's readings are subtracted from: its barometer, else the standard atmosphere at the altitude. */
+export function stageAmbient(altitudeM: number, barometerKpa: number | null): { ambientKpa: number; ambientSource: 'barometer' | 'standard-atmosphere' } {
+  return barometerKpa != null
+    ? { ambientKpa: barometerKpa, ambientSource: 'barometer' }
+    : { ambientKpa: standardPressureAtAltitude(altitudeM), ambientSource: 'standard-atmosphere' };
 }
 
 /** Recorded values that only a correction with a reason may change, and how close a resent value must be to count as the same. */
@@ -72,6 +93,7 @@ const RECORDED = {
   startedAt: { kind: 'time', words: 'start' },
   endedAt: { kind: 'time', words: 'end' },
   bubblingStoppedAt: { kind: 'time', words: 'time bubbling stopped' },
+  barometerKpa: { kind: 'pressure', words: 'barometer reading' },
   ovenSetC: { kind: 'temperature', words: 'oven set point' },
   ovenMeasuredC: { kind: 'temperature', words: 'oven thermometer reading' },
 } as const;
@@ -79,6 +101,8 @@ const RECORDED = {
 // the stored one by that rounding; within it, the stored value stands untouched.
 const SAME_TIME_MS = 60_000;
 const SAME_TEMPERATURE_C = 0.1;
+// A barometer is shown to 0.01 inHg (0.034 kPa) or 0.1 kPa at most coarsely; half the coarser step.
+const SAME_PRESSURE_KPA = 0.05;
 
 /**
  * Recording a stage again (to end it, add readings or fill a blank) may not change what is already
@@ -94,7 +118,7 @@ export function keepRecorded(existing: StageRow, merged: Pick<StageRow, keyof ty
       now !== null &&
       (rule.kind === 'time'
         ? Math.abs(Date.parse(now as string) - Date.parse(was as string)) < SAME_TIME_MS
-        : Math.abs((now as number) - (was as number)) <= SAME_TEMPERATURE_C);
+        : Math.abs((now as number) - (was as number)) <= (rule.kind === 'pressure' ? SAME_PRESSURE_KPA : SAME_TEMPERATURE_C));
     if (close) {
       (merged as Record<string, unknown>)[field] = was;
       continue;
@@ -144,6 +168,8 @@ export function createRunsService(deps: FeatureDeps) {
         plannedMinutes: s.plannedMinutes,
         plannedEndAt: s.plannedMinutes == null ? null : new Date(Date.parse(s.startedAt) + s.plannedMinutes * 60_000).toISOString(),
         bubblingStoppedAt: s.bubblingStoppedAt,
+        barometerKpa: s.barometerKpa,
+        ...stageAmbient(run.altitudeM, s.barometerKpa),
         ovenSetC: s.ovenSetC,
         ovenMeasuredC: s.ovenMeasuredC,
         notes: s.notes,
@@ -410,8 +436,10 @@ export function createRunsService(deps: FeatureDeps) {
           // The absolute pressures were worked out at the old altitude; the gauge readings themselves
           // stand. Recorded results move, so the change needs a reason and goes on the run's history.
           const moved: { id: number; before: { absoluteKpa: number; percentVacuum: number }; after: { absoluteKpa: number; percentVacuum: number } }[] = [];
+          // A stage with the shop's barometer does not depend on the altitude; its readings stay.
+          const barometerOf = new Map(stagesOf(tx, [id]).map((st) => [st.stage, st.barometerKpa]));
           for (const r of readingsOf(tx, id)) {
-            const next = convertReading(r, input.altitudeM, 'altitudeM');
+            const next = convertReading(r, { altitudeM: input.altitudeM, barometerKpa: barometerOf.get(r.stage) ?? null }, 'altitudeM');
             tx.update(runReadings).set(next).where(eq(runReadings.id, r.id)).run();
             if (next.absoluteKpa !== r.absoluteKpa || next.percentVacuum !== r.percentVacuum) {
               moved.push({ id: r.id, before: { absoluteKpa: r.absoluteKpa, percentVacuum: r.percentVacuum }, after: next });
@@ -455,6 +483,7 @@ export function createRunsService(deps: FeatureDeps) {
         endedAt: pick('endedAt'),
         plannedMinutes: pick('plannedMinutes'),
         bubblingStoppedAt: pick('bubblingStoppedAt'),
+        barometerKpa: pick('barometerKpa'),
         ovenSetC: pick('ovenSetC'),
         ovenMeasuredC: pick('ovenMeasuredC'),
         notes: pick('notes'),
@@ -472,7 +501,15 @@ export function createRunsService(deps: FeatureDeps) {
           throw new Unprocessable(msg, { bubblingStoppedAt: [msg] });
         }
       }
-      const converted = (input.readings ?? []).map((r, i) => ({ ...r, ...convertReading(r, run.altitudeM, `readings.${i}.gaugeValue`) }));
+      const known = readingsOf(tx, id).filter((r) => r.stage === input.stage);
+      // Entering the barometer after readings were worked out against the standard atmosphere would move
+      // them: that is a correction of recorded results, with a reason.
+      if (existing && existing.barometerKpa === null && merged.barometerKpa !== null && known.length > 0) {
+        const msg = `The barometer would change the absolute pressure of ${known.length} recorded gauge reading${known.length === 1 ? '' : 's'}; to add it, correct the stage and give the reason`;
+        throw new Conflict(msg, { barometerKpa: [msg] });
+      }
+      const where = { altitudeM: run.altitudeM, barometerKpa: merged.barometerKpa };
+      const converted = (input.readings ?? []).map((r, i) => ({ ...r, ...convertReading(r, where, `readings.${i}.gaugeValue`) }));
 
       let row: StageRow;
       if (existing) {
@@ -484,7 +521,6 @@ export function createRunsService(deps: FeatureDeps) {
           .returning()
           .get();
       }
-      const known = readingsOf(tx, id).filter((r) => r.stage === input.stage);
       const added = [];
       for (const r of converted) {
         // A resent form must not double the readings.

@@ -330,6 +330,85 @@ describe('gauge readings at the shop altitude', () => {
   });
 });
 
+describe("the shop's barometer in place of the standard atmosphere", () => {
+  const KPA_PER_INHG = 3.386389; // NIST SP 811 (2008), App. B
+
+  it('works a reading out against the barometer: 30.0 inHg on a 102.5 kPa day at sea level is 0.91 kPa absolute', async () => {
+    // Against the standard 101.325 kPa (USSA 1976 sea level) 30.0 inHg = 101.59 kPa would be clamped to 0;
+    // against the barometer it is 102.5 − 101.5917 = 0.9083 kPa (by hand).
+    const runId = await makeRun({ altitudeM: 0 });
+    const res = await stage(runId, {
+      stage: 'vacuum',
+      startedAt: hoursFromNow(-2),
+      barometerKpa: 102.5,
+      readings: [{ at: hoursFromNow(-1), gaugeValue: 30.0, gaugeUnit: 'inHg' }],
+    });
+    const vac = res.body.run.stages[0];
+    expect(vac).toMatchObject({ barometerKpa: 102.5, ambientKpa: 102.5, ambientSource: 'barometer' });
+    expect(Math.abs(vac.readings[0].absoluteKpa - (102.5 - 30 * KPA_PER_INHG))).toBeLessThan(1e-9);
+    expect(Math.abs(vac.readings[0].percentVacuum - ((30 * KPA_PER_INHG) / 102.5) * 100)).toBeLessThan(1e-9);
+    // The run's own ambient stays the standard atmosphere at its altitude.
+    expect(res.body.run.ambientKpa).toBeCloseTo(101.325, 9);
+  });
+
+  it('a stage without a barometer names the standard atmosphere as its ambient', async () => {
+    const res = await stage(await makeRun({ altitudeM: 0 }), { stage: 'vacuum', startedAt: hoursFromNow(-2) });
+    expect(res.body.run.stages[0]).toMatchObject({ barometerKpa: null, ambientSource: 'standard-atmosphere' });
+    expect(res.body.run.stages[0].ambientKpa).toBeCloseTo(101.325, 9); // USSA 1976 sea level
+  });
+
+  it('refuses a barometer outside 50–110 kPa and one on another stage, naming the field', async () => {
+    const runId = await makeRun({ altitudeM: 0 });
+    // 29.9 typed in a kPa box: inHg by mistake.
+    const slip = await stage(runId, { stage: 'vacuum', startedAt: hoursFromNow(-9), barometerKpa: 29.9 }, 400);
+    expect(slip.body.error.fieldErrors.barometerKpa[0]).toMatch(/at least 50 kPa/);
+    await stage(runId, { stage: 'vacuum', startedAt: hoursFromNow(-9), endedAt: hoursFromNow(-8) });
+    const soak = await stage(runId, { stage: 'soak', startedAt: hoursFromNow(-8), barometerKpa: 101 }, 400);
+    expect(soak.body.error.fieldErrors.barometerKpa[0]).toMatch(/vacuum stage/);
+  });
+
+  it('a reading beyond the barometer by more than the allowance is refused with the barometer named', async () => {
+    // 30.0 inHg = 101.59 kPa against a 95 kPa barometer: beyond 1.05 × 95 = 99.75 kPa.
+    const res = await stage(
+      await makeRun({ altitudeM: 0 }),
+      { stage: 'vacuum', startedAt: hoursFromNow(-2), barometerKpa: 95, readings: [{ at: hoursFromNow(-1), gaugeValue: 30.0, gaugeUnit: 'inHg' }] },
+      422,
+    );
+    expect(res.body.error.fieldErrors['readings.0.gaugeValue'][0]).toMatch(/the shop's barometer reading of 95\.00 kPa/);
+  });
+
+  it('a barometer added after readings were worked out takes a correction with a reason, which moves them and keeps the old version', async () => {
+    const runId = await makeRun({ altitudeM: 0 });
+    await stage(runId, { stage: 'vacuum', startedAt: hoursFromNow(-2), readings: [{ at: hoursFromNow(-1), gaugeValue: 25.0, gaugeUnit: 'inHg' }] });
+    const refused = await stage(runId, { stage: 'vacuum', startedAt: hoursFromNow(-2), barometerKpa: 102 }, 409);
+    expect(refused.body.error.fieldErrors.barometerKpa[0]).toMatch(/correct the stage and give the reason/);
+    const fixed = await as.technician
+      .post(`/api/runs/${runId}/stages/vacuum/corrections`)
+      .send({ barometerKpa: 102, reason: 'the barometer reading was on the bench sheet' });
+    expect(fixed.status, JSON.stringify(fixed.body)).toBeLessThan(300);
+    const run = (await as.viewer.get(`/api/runs/${runId}`)).body.run;
+    expect(Math.abs(run.stages[0].readings[0].absoluteKpa - (102 - 25 * KPA_PER_INHG))).toBeLessThan(1e-9);
+    const history = (await as.viewer.get(`/api/runs/${runId}/history`)).body;
+    expect(history.versions[0].values.barometerKpa).toBeNull();
+    expect(Math.abs(history.versions[0].readings[0].absoluteKpa - (101.325 - 25 * KPA_PER_INHG))).toBeLessThan(1e-9);
+    // A different barometer sent with the stage form again is a correction too.
+    await stage(runId, { stage: 'vacuum', startedAt: hoursFromNow(-2), barometerKpa: 100 }, 409);
+  });
+
+  it('a corrected altitude leaves the readings of a stage with a barometer where they were', async () => {
+    const runId = await makeRun({ altitudeM: 0 });
+    const first = await stage(runId, {
+      stage: 'vacuum',
+      startedAt: hoursFromNow(-2),
+      barometerKpa: 84,
+      readings: [{ at: hoursFromNow(-1), gaugeValue: 20, gaugeUnit: 'inHg' }],
+    });
+    const res = await as.technician.patch(`/api/runs/${runId}`).send({ altitudeM: 1600 });
+    expect(res.status, JSON.stringify(res.body)).toBe(200);
+    expect(res.body.run.stages[0].readings[0].absoluteKpa).toBe(first.body.run.stages[0].readings[0].absoluteKpa);
+  });
+});
+
 describe('rule checks on crafted runs', () => {
   async function fullRun(opts: { vacuumH: number; soakH: number; cureC: number; cureH?: number; lotAgeDays?: number; dryingEndMass?: number }) {
     const lot = makeLot({ activatedDaysAgo: opts.lotAgeDays ?? 30 });

@@ -18,7 +18,7 @@ import {
 } from './stage-corrections.repo';
 
 /** The recorded values of a stage, as a version keeps them. */
-const STAGE_FIELDS = ['startedAt', 'endedAt', 'plannedMinutes', 'bubblingStoppedAt', 'ovenSetC', 'ovenMeasuredC', 'notes'] as const;
+const STAGE_FIELDS = ['startedAt', 'endedAt', 'plannedMinutes', 'bubblingStoppedAt', 'barometerKpa', 'ovenSetC', 'ovenMeasuredC', 'notes'] as const;
 type StageField = (typeof STAGE_FIELDS)[number];
 
 function stageValues(s: StageRow): Record<StageField, unknown> {
@@ -53,6 +53,8 @@ export function createStageCorrections(deps: FeatureDeps) {
         for (const f of ['ovenSetC', 'ovenMeasuredC'] as const) if (input[f] != null) fieldErrors[f] = ['Oven temperatures belong to the drying or cure stage'];
       }
       if (stage !== 'vacuum' && input.bubblingStoppedAt != null) fieldErrors.bubblingStoppedAt = ['Bubbling is recorded at the vacuum stage'];
+      if (stage !== 'vacuum' && input.barometerKpa != null)
+        fieldErrors.barometerKpa = ['The barometer is recorded with the gauge readings, at the vacuum stage'];
       if (Object.keys(fieldErrors).length) throw new ValidationFailed('These values do not belong to this stage', fieldErrors);
 
       const merged = { ...stageValues(existing) } as Record<StageField, unknown>;
@@ -75,6 +77,8 @@ export function createStageCorrections(deps: FeatureDeps) {
 
       const before = readingsOf(tx, runId).filter((r) => r.stage === stage);
       const byId = new Map(before.map((r) => [r.id, r]));
+      const where = { altitudeM: run.altitudeM, barometerKpa: (merged.barometerKpa as number | null) ?? null };
+      const barometerChanged = merged.barometerKpa !== existing.barometerKpa;
       const planned: { remove: number[]; change: { id: number; values: Partial<ReadingRow> }[] } = { remove: [], change: [] };
       (input.readings ?? []).forEach((c, i) => {
         const row = byId.get(c.id);
@@ -86,9 +90,18 @@ export function createStageCorrections(deps: FeatureDeps) {
         }
         const next = { at: c.at ?? row.at, gaugeValue: c.gaugeValue ?? row.gaugeValue, gaugeUnit: c.gaugeUnit ?? row.gaugeUnit };
         if (next.at === row.at && next.gaugeValue === row.gaugeValue && next.gaugeUnit === row.gaugeUnit) return;
-        planned.change.push({ id: c.id, values: { ...next, ...convertReading(next, run.altitudeM, `readings.${i}.gaugeValue`) } });
+        planned.change.push({ id: c.id, values: { ...next, ...convertReading(next, where, `readings.${i}.gaugeValue`) } });
       });
-      const added = (input.addReadings ?? []).map((r, i) => ({ ...r, ...convertReading(r, run.altitudeM, `addReadings.${i}.gaugeValue`) }));
+      if (barometerChanged) {
+        // Another ambient moves every reading of the stage the correction leaves as it was.
+        const touched = new Set([...planned.remove, ...planned.change.map((c) => c.id)]);
+        for (const row of before) {
+          if (touched.has(row.id)) continue;
+          const values = convertReading(row, where, 'barometerKpa');
+          if (values.absoluteKpa !== row.absoluteKpa || values.percentVacuum !== row.percentVacuum) planned.change.push({ id: row.id, values });
+        }
+      }
+      const added = (input.addReadings ?? []).map((r, i) => ({ ...r, ...convertReading(r, where, `addReadings.${i}.gaugeValue`) }));
 
       const changedFields = STAGE_FIELDS.filter((f) => merged[f] !== existing[f]);
       if (changedFields.length === 0 && planned.remove.length === 0 && planned.change.length === 0 && added.length === 0) {

@@ -4,6 +4,7 @@ import type { Db } from '../../db/client';
 import { coupons } from '../../db/schema/coupons';
 import { resins, species } from '../../db/schema/reference';
 import { trialConditions, trials } from '../../db/schema/trials';
+import { runs } from '../../db/schema/runs';
 import type { TrialListQuery } from '../../../shared/schemas/trials';
 
 export type TrialRow = typeof trials.$inferSelect;
@@ -157,6 +158,18 @@ export function progressRows(db: Db, trialId: number) {
     .from(coupons)
     .where(eq(coupons.trialId, trialId))
     .groupBy(coupons.conditionId, coupons.speciesId, coupons.role)
+    .all();
+}
+
+/** The runs the trial's coupons went through, with how many of its coupons each holds, oldest first. */
+export function runsOfTrial(db: Db, trialId: number): { id: number; code: string; couponCount: number }[] {
+  return db
+    .select({ id: runs.id, code: runs.code, couponCount: count() })
+    .from(coupons)
+    .innerJoin(runs, eq(coupons.runId, runs.id))
+    .where(eq(coupons.trialId, trialId))
+    .groupBy(runs.id, runs.code)
+    .orderBy(asc(runs.id))
     .all();
 }
 

@@ -153,6 +153,7 @@ export function createTrialsService(deps: TrialsServiceDeps) {
       })),
       totals,
       warnings,
+      runs: repo.runsOfTrial(tx, id),
     };
   }
 

@@ -9,7 +9,7 @@ export function Page({ title, actions, children }: { title: string; actions?: Re
     <div className="mx-auto max-w-6xl px-4 py-6">
       <div className="mb-6 flex flex-wrap items-end justify-between gap-3 border-b border-rule pb-3">
         <h1>{title}</h1>
-        {actions && <div className="no-print flex gap-2">{actions}</div>}
+        {actions && <div className="no-print flex flex-wrap gap-2">{actions}</div>}
       </div>
       {children}
     </div>

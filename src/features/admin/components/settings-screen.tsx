@@ -1,15 +1,25 @@
-import { zodResolver } from '@hookform/resolvers/zod';
 import { useQuery } from '@tanstack/react-query';
-import { useState } from 'react';
+import { useMemo, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { shopSettingsSchema, type ShopSettings } from '../../../../shared/schemas/admin';
+import { AltitudeQuestion } from '../../../components/ui/altitude-question';
 import { Field, FormError } from '../../../components/ui/field';
+import { NumberField } from '../../../components/ui/number-field';
+import { toBox, toSi } from '../../../lib/forms/number-input';
+import { convertingResolver } from '../../../lib/forms/resolver';
+import { useUnits } from '../../../lib/use-units';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
 import { applyServerErrors } from '../../../lib/form-errors';
+import { renameFields } from '../../../lib/form-values';
 import { labelAddressQuery, settingsQuery } from '../../../lib/queries/settings';
 import { useBackup, useUpdateSettings } from '../api/admin-queries';
 
-const FIELDS = ['shopName', 'altitudeM', 'dryingMinIntervalHours', 'dryingMaxChangePct', 'lotShelfLifeDays', 'labelBaseUrl'] as const;
+const FIELDS = ['shopName', 'altitude', 'dryingMinIntervalHours', 'dryingMaxChangePct', 'lotShelfLifeDays', 'labelBaseUrl'] as const;
+
+/** The form's values: the settings, with the altitude in the user's altitude unit (m or ft) instead of metres. */
+export type SettingsFormValues = Omit<ShopSettings, 'altitudeM'> & { altitude: number | null };
+// The contract names the altitude in metres; the form's box holds it in the user's unit.
+const RENAMES = { altitudeM: 'altitude' };
 
 export function SettingsScreen() {
   const settings = useQuery(settingsQuery());
@@ -42,15 +52,31 @@ function LabelAddressNote() {
 function SettingsForm({ initial }: { initial: ShopSettings }) {
   const update = useUpdateSettings();
   const [saved, setSaved] = useState(false);
-  const form = useForm<ShopSettings>({ resolver: zodResolver(shopSettingsSchema), defaultValues: initial });
+  const units = useUnits();
+  const resolver = useMemo(
+    () =>
+      convertingResolver<SettingsFormValues, typeof shopSettingsSchema>(
+        shopSettingsSchema,
+        ({ altitude, ...rest }) => ({ ...rest, altitudeM: toSi(altitude, 'altitude', units) ?? undefined }),
+        RENAMES,
+        { altitudeM: "Enter the shop's altitude" },
+      ),
+    [units],
+  );
+  const { altitudeM, ...rest } = initial;
+  const form = useForm<SettingsFormValues, unknown, ShopSettings>({
+    resolver,
+    defaultValues: { ...rest, altitude: toBox(altitudeM, 'altitude', units) },
+  });
   const { errors } = form.formState;
+  const altitude = form.watch('altitude');
   const onSubmit = form.handleSubmit(async (values) => {
     setSaved(false);
     try {
       await update.mutateAsync(values);
       setSaved(true);
     } catch (err) {
-      applyServerErrors(err, form.setError, FIELDS);
+      applyServerErrors(renameFields(err, RENAMES), form.setError, FIELDS);
     }
   });
   const num = { valueAsNumber: true } as const;
@@ -58,13 +84,17 @@ function SettingsForm({ initial }: { initial: ShopSettings }) {
     <form onSubmit={onSubmit} noValidate className="sheet max-w-xl p-5" aria-label="Shop settings">
       <FormError message={errors.root?.message} />
       <Field label="Shop name" registration={form.register('shopName')} error={errors.shopName?.message} />
-      <Field
-        label="Shop altitude (m above sea level)"
-        type="number"
-        step="1"
-        registration={form.register('altitudeM', num)}
-        error={errors.altitudeM?.message}
-        hint="Sets the ambient pressure used to turn vacuum-gauge readings into absolute pressure (U.S. Standard Atmosphere 1976)."
+      <NumberField
+        form={form}
+        name="altitude"
+        label="Shop altitude above sea level"
+        quantity="altitude"
+        required
+        hint="Sets the ambient pressure used to turn vacuum-gauge readings into absolute pressure (ISO 2533 / U.S. Standard Atmosphere 1976)."
+      />
+      <AltitudeQuestion
+        id="settings-altitude-question"
+        altitudeM={altitude == null || Number.isNaN(altitude) ? null : units.fromDisplay(altitude, 'altitude')}
       />
       <Field
         label="Drying check: at least this many hours between weighings"

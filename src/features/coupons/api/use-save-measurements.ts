@@ -2,6 +2,7 @@ import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api } from '../../../lib/api-client';
 import { invalidate } from '../../../lib/queries/invalidate';
 import { queryKeys } from '../../../lib/queries/keys';
+import { replaceSaved } from '../components/save-plan';
 import { batchResponseSchema, type BatchMeasurementsInput, type CouponOut } from '../../../../shared/schemas/coupons';
 
 /**
@@ -14,8 +15,7 @@ export function useSaveMeasurements() {
   return useMutation({
     mutationFn: (input: BatchMeasurementsInput) => api.post('/coupons/measurements', input, batchResponseSchema),
     onSuccess: (res) => {
-      const byId = new Map(res.coupons.map((c) => [c.id, c]));
-      qc.setQueriesData<CouponOut[]>({ queryKey: [...queryKeys.coupons.all, 'grid'] }, (old) => old?.map((c) => byId.get(c.id) ?? c));
+      qc.setQueriesData<CouponOut[]>({ queryKey: [...queryKeys.coupons.all, 'grid'] }, (old) => (old ? replaceSaved(old, res.coupons) : old));
       return invalidate(qc, ['measurements'], [[...queryKeys.coupons.all, 'grid']]);
     },
   });

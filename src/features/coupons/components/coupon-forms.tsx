@@ -26,6 +26,10 @@ import { fromLocalInput, toLocalInput } from '../../../lib/format/dates';
 import { toBox, toSi } from '../../../lib/forms/number-input';
 import { convertingResolver } from '../../../lib/forms/resolver';
 import { useUnits } from '../../../lib/use-units';
+import { useQuery } from '@tanstack/react-query';
+import { weighingWarnings } from '../../../../shared/runs/contradictions';
+import { EntryWarnings, useGoOnAnyway } from '../../../components/ui/entry-warnings';
+import { runQuery } from '../../../lib/queries/records';
 import { useAddCheck, useAddWeighing, useCorrectCheck, useCorrectWeighing } from '../api/use-coupon-mutations';
 
 export const WEIGHING_STAGE_LABELS: Record<WeighingStage, string> = {
@@ -49,9 +53,16 @@ const orUndefined = (v: number | null) => (v === null ? undefined : v);
 function useCouponForm<TForm extends FieldValues, TOut>(defaults: DefaultValues<TForm>, resolver: Resolver<TForm, unknown, TOut>, fields: readonly string[]) {
   const form = useForm<TForm, unknown, TOut>({ defaultValues: defaults, resolver });
   const [done, setDone] = useState<string | null>(null);
-  const submit = (send: (body: TOut) => Promise<unknown>, message: string, after?: (form: UseFormReturn<TForm, unknown, TOut>) => void) =>
+  const submit = (
+    send: (body: TOut) => Promise<unknown>,
+    message: string,
+    after?: (form: UseFormReturn<TForm, unknown, TOut>) => void,
+    /** False stops the save (a warning not yet confirmed); the form says why itself. */
+    mayGoOn: () => boolean = () => true,
+  ) =>
     form.handleSubmit(async (body) => {
       setDone(null);
+      if (!mayGoOn()) return;
       try {
         await send(body);
         setDone(message);
@@ -108,10 +119,30 @@ export function WeighingForm({ coupon, initialStage }: { coupon: CouponDetail; i
     resolver,
     ['stage', 'massG', 'measuredAt'],
   );
+  // A weighing the run's recorded stages say cannot have happened yet (a cured weight while the run is
+  // still drying) is asked about before it is saved.
+  const run = useQuery({ ...runQuery(coupon.runId ?? 0), enabled: coupon.runId !== null });
+  const stage = form.watch('stage');
+  const measuredAt = form.watch('measuredAt');
+  const contradictions = useMemo(() => {
+    if (coupon.runId !== null && !run.data) return [];
+    return weighingWarnings([
+      {
+        couponId: coupon.id,
+        tag: coupon.tag,
+        role: coupon.role,
+        stage,
+        measuredAt: instant(measuredAt) ?? new Date().toISOString(),
+        run: run.data ? { code: run.data.code, stages: run.data.stages } : null,
+      },
+    ]);
+  }, [coupon.id, coupon.tag, coupon.role, coupon.runId, run.data, stage, measuredAt]);
+  const gate = useGoOnAnyway(contradictions);
   const onSubmit = submit(
     (body) => add.mutateAsync(body),
     'Weighing saved.',
     (f) => f.reset({ ...f.getValues(), massG: null }),
+    gate.mayGoOn,
   );
   return (
     <Frame title="Add a weighing" id="weighing-form">
@@ -130,6 +161,7 @@ export function WeighingForm({ coupon, initialStage }: { coupon: CouponDetail; i
         <p className="mb-2 text-xs text-ink-faint">
           Drying checks can be added as often as needed; the other stages take one weighing each, corrected below with a reason.
         </p>
+        <EntryWarnings warnings={contradictions} gate={gate} action="save the weighing" className="mb-3" />
         <button type="submit" className="btn-primary" disabled={form.formState.isSubmitting}>
           Save the weighing
         </button>

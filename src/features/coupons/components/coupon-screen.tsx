@@ -202,7 +202,7 @@ export function CouponScreen() {
             In the run's grid
           </Link>
         ) : c.trialId ? (
-          <Link to={paths.coupons.href({ trialId: c.trialId, focus: c.id })} className="btn-quiet no-underline">
+          <Link to={paths.trialCoupons.href({ id: c.trialId }, { focus: c.id })} className="btn-quiet no-underline">
             In the trial's grid
           </Link>
         ) : undefined
@@ -214,7 +214,9 @@ export function CouponScreen() {
         <dt className="text-ink-soft">Role</dt>
         <dd>{c.role === 'control' ? 'control (untreated)' : 'treated'}</dd>
         <dt className="text-ink-soft">Trial</dt>
-        <dd>{c.trialId ? <Link to={paths.coupons.href({ trialId: c.trialId })}>{c.trialCode ?? c.trialId}</Link> : 'none'}</dd>
+        <dd>{c.trialId ? <Link to={paths.trial.href({ id: c.trialId })}>{c.trialCode ?? c.trialId}</Link> : 'none'}</dd>
+        <dt className="text-ink-soft">Condition</dt>
+        <dd>{c.condition ? c.condition.label : c.role === 'control' ? 'untreated control' : 'none'}</dd>
         <dt className="text-ink-soft">Run</dt>
         <dd>{c.runId ? <Link to={paths.run.href({ id: c.runId })}>{c.runCode ?? c.runId}</Link> : 'none'}</dd>
         <dt className="text-ink-soft">Resin</dt>

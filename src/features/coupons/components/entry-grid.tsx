@@ -1,118 +1,237 @@
 import { useQueryClient } from '@tanstack/react-query';
-import { createColumnHelper, flexRender, getCoreRowModel, useReactTable, type ColumnDef } from '@tanstack/react-table';
-import { createContext, useCallback, useContext, useEffect, useMemo, useRef, useState, type ClipboardEvent, type KeyboardEvent } from 'react';
+import { defaultRangeExtractor, useVirtualizer, type Range } from '@tanstack/react-virtual';
+import {
+  memo,
+  useCallback,
+  useEffect,
+  useLayoutEffect,
+  useMemo,
+  useRef,
+  useState,
+  type ClipboardEvent,
+  type KeyboardEvent,
+  type ReactNode,
+  type RefObject,
+} from 'react';
 import { Link } from 'react-router-dom';
 import { sgPlausibility, sgWarningText } from '../../../../shared/coupons/plausibility';
-import { batchMeasurementsSchema, type CouponOut } from '../../../../shared/schemas/coupons';
+import type { RunOfCoupon } from '../../../../shared/runs/contradictions';
+import type { CouponOut } from '../../../../shared/schemas/coupons';
+import { paths } from '../../../config/paths';
 import { ApiError } from '../../../lib/api-client';
+import { useLeaveGuard } from '../../../lib/leave-guard';
+import { draftKey, useLocalDraft } from '../../../lib/local-draft';
 import { useMe, useRole } from '../../../lib/session';
-import { useUnits } from '../../../lib/use-units';
+import { useUnits, type Units } from '../../../lib/use-units';
 import { queryKeys } from '../../../lib/queries/keys';
 import type { GridScope } from '../api/coupons-queries';
 import { useSaveMeasurements } from '../api/use-save-measurements';
-import {
-  ENTRY_COLUMNS,
-  isLocked,
-  locateError,
-  planBatch,
-  rowModel,
-  savable,
-  showStored,
-  storedValue,
-  type BatchPlan,
-  type Drafts,
-  type RowModel,
-} from './grid-model';
-import { paths } from '../../../config/paths';
-import { useLeaveGuard } from '../../../lib/leave-guard';
-import { draftKey, useLocalDraft } from '../../../lib/local-draft';
+import { useGridContext } from '../hooks/use-grid-context';
+import { useGridKeyboard } from '../hooks/use-grid-keyboard';
+import { useActiveColumn, useGridDrafts, useGridSummary, useRowState } from '../hooks/use-grid-store';
+import { rowEntryWarnings, type ConditionTag } from './grid-annotations';
+import { ENTRY_COLUMNS, isLocked, savable, showStored, storedValue, type Drafts, type EntryColumn, type RowModel } from './grid-model';
+import { GridStore, type RowState } from './grid-store';
 import { parseClipboard, pasteSummary, planPaste } from './paste-plan';
+import { dropSaved, mergeRefusals, nothingSavedText, prepareSave, refusalsFrom, refusedText, savedText } from './save-plan';
 
-type CellErrors = Record<number, Record<string, string>>;
+// Column widths are fixed (table-layout: fixed), so rows scrolled into view never shift the columns, and the
+// sticky columns know their offsets. rem.
+const W = { tag: 7, condition: 5.5, species: 8, entry: 5.25, check: 24, computed: 5 };
+const HEADER_ROWS = 2;
+/** Leaf columns before the entry columns: tag, condition, species. */
+const LEAD = 3;
 
-interface GridState {
-  drafts: Drafts;
-  errors: CellErrors;
-  rowErrors: Record<number, string>;
-  active: { r: number; c: number };
-  canEdit: boolean;
-  setDraft: (couponId: number, colId: string, value: string) => void;
-  setActive: (r: number, c: number) => void;
-  register: (r: number, c: number, el: HTMLInputElement | null) => void;
-  onKey: (e: KeyboardEvent<HTMLInputElement>, r: number, c: number) => void;
-  onPaste: (e: ClipboardEvent<HTMLInputElement>, r: number, c: number) => void;
+interface ComputedColumn {
+  id: string;
+  header: ReactNode;
+  value: (m: RowModel) => string;
 }
 
-const GridContext = createContext<GridState | null>(null);
-function useGrid(): GridState {
-  const g = useContext(GridContext);
-  if (!g) throw new Error('EntryCell outside EntryGrid');
-  return g;
+const fixed = (v: number | null, decimals: number) => (v === null || !Number.isFinite(v) ? '—' : v.toFixed(decimals));
+
+function computedColumns(units: Units): ComputedColumn[] {
+  const density = (v: number | null) => units.format(v, 'density', false);
+  return [
+    {
+      id: 'mc',
+      header: (
+        <>
+          <abbr title="Moisture content: the first drying-check weighing against the dry mass, as % of the dry mass (a meter reading when one was taken instead)">
+            MC
+          </abbr>{' '}
+          (% of dry mass)
+        </>
+      ),
+      value: (m) => fixed(m.metrics.mcPct, 1),
+    },
+    { id: 'density', header: `Dry density (${units.label('density')})`, value: (m) => density(m.metrics.dryDensityKgM3) },
+    { id: 'sg', header: 'Dry SG', value: (m) => fixed(m.metrics.drySg, 3) },
+    { id: 'wpg', header: 'WPG (%)', value: (m) => fixed(m.metrics.wpgPct, 1) },
+    { id: 'loading', header: `Resin loading (${units.label('density')})`, value: (m) => density(m.metrics.resinLoadingKgM3) },
+    { id: 'voidfill', header: 'Void fill (%)', value: (m) => fixed(m.metrics.voidFillPct, 0) },
+    { id: 'bulking', header: 'Bulking (%)', value: (m) => fixed(m.metrics.bulkingPct, 1) },
+  ];
 }
+
+/** Offset from the right edge of the computed column `i` of `n`, for the columns that stay in view. */
+const rightOf = (i: number, n: number) => `${(n - 1 - i) * W.computed}rem`;
+// The computed columns stay in view on a wide screen only: on a phone they would cover the whole grid.
+const STICKY_RIGHT = 'lg:sticky';
 
 const cellDomId = (couponId: number, colId: string) => `cell-${couponId}-${colId}`;
 
-function EntryCell({ model, r, c }: { model: RowModel; r: number; c: number }) {
-  const g = useGrid();
-  const units = useUnits();
-  const col = ENTRY_COLUMNS[c];
-  if (!col) return null;
-  const { coupon } = model;
-  const locked = isLocked(coupon, col);
-  const draft = g.drafts[coupon.id]?.[col.id];
-  const value = locked === 'stored' ? showStored(storedValue(coupon, col), col, units) : locked === 'control' ? '' : (draft ?? '');
-  const error = model.problems[col.id] ?? g.errors[coupon.id]?.[col.id];
-  const active = g.active.r === r && g.active.c === c;
-  const id = cellDomId(coupon.id, col.id);
-  const note = locked === 'control' ? ', not measured on a control' : locked === 'stored' ? ', saved; correct it on the coupon page' : '';
-  const readOnly = locked !== null || !g.canEdit;
+/** What every row shares; one object for the grid's life (until units or the context data change). */
+interface GridCtx {
+  store: GridStore;
+  canEdit: boolean;
+  units: Units;
+  computed: ComputedColumn[];
+  conditions: Map<number, ConditionTag>;
+  runs: Map<number, RunOfCoupon>;
+  onKey: (e: KeyboardEvent<HTMLInputElement>, r: number, c: number) => void;
+  onPaste: (e: ClipboardEvent<HTMLInputElement>, r: number, c: number) => void;
+  onFocusCell: (r: number, c: number) => void;
+  register: (r: number, c: number, el: HTMLInputElement | null) => void;
+  measure: (el: HTMLTableRowElement | null) => void;
+}
+
+interface EntryCellProps {
+  ctx: GridCtx;
+  couponId: number;
+  colId: string;
+  r: number;
+  c: number;
+  value: string;
+  label: string;
+  placeholder: string | undefined;
+  readOnly: boolean;
+  active: boolean;
+  invalid: boolean;
+  typed: boolean;
+}
+
+/** One text box; its props are plain values, so it re-renders only when its own value or state changes. */
+const EntryCell = memo(function EntryCell({ ctx, couponId, colId, r, c, value, label, placeholder, readOnly, active, invalid, typed }: EntryCellProps) {
+  const id = cellDomId(couponId, colId);
   return (
     <input
-      ref={(el) => g.register(r, c, el)}
+      ref={(el) => ctx.register(r, c, el)}
       id={id}
       type="text"
       inputMode="decimal"
       autoComplete="off"
       spellCheck={false}
       value={value}
-      placeholder={locked === 'control' ? 'n/a' : undefined}
+      placeholder={placeholder}
       readOnly={readOnly}
       aria-readonly={readOnly || undefined}
       tabIndex={active ? 0 : -1}
-      aria-label={`${col.label} (${units.label(col.quantity)}), coupon ${coupon.tag}${note}`}
-      aria-invalid={error ? true : undefined}
-      aria-describedby={error ? `${id}-reason` : undefined}
+      aria-label={label}
+      aria-invalid={invalid || undefined}
+      aria-describedby={invalid ? `${id}-reason` : undefined}
       className={`w-[4.75rem] rounded-sm border px-1.5 py-1 text-right tabular-nums focus:outline-3 focus:outline-offset-0 focus:outline-amber-ink ${
-        error
+        invalid
           ? 'border-margin bg-margin/10'
           : readOnly
             ? 'border-transparent bg-paper-deep text-ink-soft'
-            : draft
+            : typed
               ? 'border-amber-ink bg-amber-light/40'
               : 'border-rule bg-white/70'
       }`}
-      onChange={(e) => g.setDraft(coupon.id, col.id, e.target.value)}
-      onKeyDown={(e) => g.onKey(e, r, c)}
+      onChange={(e) => ctx.store.setDraft(couponId, colId, e.target.value)}
+      onKeyDown={(e) => ctx.onKey(e, r, c)}
       onFocus={(e) => {
-        g.setActive(r, c);
+        ctx.onFocusCell(r, c);
         e.currentTarget.select();
       }}
-      onPaste={(e) => g.onPaste(e, r, c)}
+      onPaste={(e) => ctx.onPaste(e, r, c)}
     />
   );
+});
+
+function cellProps(ctx: GridCtx, state: RowState, col: EntryColumn, r: number, c: number, activeCol: number): Omit<EntryCellProps, 'ctx'> {
+  const { coupon } = state.model;
+  const locked = isLocked(coupon, col);
+  const draft = state.draft?.[col.id];
+  const note = locked === 'control' ? ', not measured on a control' : locked === 'stored' ? ', saved; correct it on the coupon page' : '';
+  return {
+    couponId: coupon.id,
+    colId: col.id,
+    r,
+    c,
+    value: locked === 'stored' ? showStored(storedValue(coupon, col), col, ctx.units) : locked === 'control' ? '' : (draft ?? ''),
+    label: `${col.label} (${ctx.units.label(col.quantity)}), coupon ${coupon.tag}${note}`,
+    placeholder: locked === 'control' ? 'n/a' : undefined,
+    readOnly: locked !== null || !ctx.canEdit,
+    active: activeCol === c,
+    invalid: (state.model.problems[col.id] ?? state.errors?.[col.id]) !== undefined,
+    typed: Boolean(draft),
+  };
 }
 
-const fmt = (v: number | null, decimals: number) => (v === null || !Number.isFinite(v) ? '—' : v.toFixed(decimals));
+/** One coupon's row: re-renders when its own drafts, refusals or active cell change; its computed columns follow. */
+const GridRow = memo(function GridRow({ ctx, coupon, r }: { ctx: GridCtx; coupon: CouponOut; r: number }) {
+  const state = useRowState(ctx.store, coupon);
+  const activeCol = useActiveColumn(ctx.store, r);
+  const { model } = state;
+  const condition = coupon.conditionId === null ? undefined : ctx.conditions.get(coupon.conditionId);
+  const n = ctx.computed.length;
+  return (
+    <tr ref={ctx.measure} data-index={r} aria-rowindex={r + HEADER_ROWS + 1} className={model.edited ? 'bg-amber-light/20' : undefined}>
+      <th scope="row" role="rowheader" aria-colindex={1} className="sticky left-0 z-10 border-b border-paper-edge bg-paper align-top font-normal">
+        {/* Out of the Tab order: inside the grid, Tab moves between cells like a spreadsheet. */}
+        <Link to={paths.coupon.href({ id: coupon.id })} tabIndex={-1} className="whitespace-nowrap">
+          {coupon.tag}
+        </Link>
+      </th>
+      <td role="gridcell" aria-colindex={2} data-col="condition" className="align-top text-xs">
+        {condition ? (
+          <>
+            <span title={condition.label}>{condition.code}</span>
+            <span className="sr-only">: {condition.name}</span>
+          </>
+        ) : (
+          <span className="text-ink-soft">{coupon.role === 'control' ? 'control' : '—'}</span>
+        )}
+      </td>
+      <td role="gridcell" aria-colindex={3} data-col="species" className="align-top text-xs">
+        {coupon.speciesName}
+        <br />
+        <span className={coupon.role === 'control' ? 'font-semibold' : 'text-ink-soft'}>{coupon.role}</span>
+      </td>
+      {ENTRY_COLUMNS.map((col, c) => (
+        <td key={col.id} role="gridcell" aria-colindex={LEAD + c + 1} data-col={col.id} className="p-0.5 align-top">
+          <EntryCell ctx={ctx} {...cellProps(ctx, state, col, r, c, activeCol)} />
+        </td>
+      ))}
+      <td role="gridcell" aria-colindex={LEAD + ENTRY_COLUMNS.length + 1} data-col="check" className="align-top">
+        <RowCheck state={state} run={coupon.runId === null ? null : ctx.runs.get(coupon.runId)} />
+      </td>
+      {ctx.computed.map((col, i) => (
+        <td
+          key={col.id}
+          role="gridcell"
+          aria-colindex={LEAD + ENTRY_COLUMNS.length + 2 + i}
+          data-col={col.id}
+          className={`${STICKY_RIGHT} z-10 bg-paper text-right whitespace-nowrap tabular-nums align-top ${i === 0 ? 'lg:border-l lg:border-l-rule' : ''}`}
+          style={{ right: rightOf(i, n) }}
+        >
+          {col.value(model)}
+        </td>
+      ))}
+    </tr>
+  );
+});
 
-function RowCheck({ model }: { model: RowModel }) {
-  const g = useGrid();
+function RowCheck({ state, run }: { state: RowState; run: RunOfCoupon | null | undefined }) {
+  const { model, errors, rowError } = state;
   const { coupon } = model;
   const lines: { kind: 'error' | 'wait' | 'warn' | 'ok'; text: string; id?: string }[] = [];
   for (const col of ENTRY_COLUMNS) {
-    const msg = model.problems[col.id] ?? g.errors[coupon.id]?.[col.id];
+    const msg = model.problems[col.id] ?? errors?.[col.id];
     if (msg) lines.push({ kind: 'error', text: `${col.label}: ${msg}`, id: `${cellDomId(coupon.id, col.id)}-reason` });
   }
-  const rowError = g.rowErrors[coupon.id];
   if (rowError) lines.push({ kind: 'error', text: rowError });
   for (const text of model.incomplete) lines.push({ kind: 'wait', text });
   // The SG check runs live on what is typed (same shared rule as the server); other server warnings
@@ -122,12 +241,14 @@ function RowCheck({ model }: { model: RowModel }) {
     ...coupon.warnings.filter((w) => w.field !== 'drySg').map((w) => w.message),
     ...(liveSg && !liveSg.plausible && model.metrics.drySg !== null ? [sgWarningText(model.metrics.drySg, liveSg)] : []),
     ...model.metrics.problems.map((p) => p.message),
+    // A weighing the run's recorded stages contradict: said now, and saving it stays allowed on purpose.
+    ...rowEntryWarnings(model, run, new Date().toISOString()).map((m) => `${m} It can still be saved.`),
   ]);
   for (const text of warnings) lines.push({ kind: 'warn', text });
   if (lines.length === 0 && savable(model)) lines.push({ kind: 'ok', text: 'typed, not saved yet' });
   if (lines.length === 0) return <span className="text-ink-faint">—</span>;
   return (
-    <ul className="w-[26rem] space-y-0.5 text-xs">
+    <ul className="space-y-0.5 text-xs">
       {lines.map((l, i) => (
         <li key={i} id={l.id} className={l.kind === 'error' ? 'text-margin' : l.kind === 'warn' ? 'text-amber-ink' : 'text-ink-soft'}>
           <strong>{l.kind === 'error' ? 'Not saved' : l.kind === 'warn' ? 'Warning' : l.kind === 'wait' ? 'Waiting' : 'Typed'}:</strong>{' '}
@@ -138,77 +259,13 @@ function RowCheck({ model }: { model: RowModel }) {
   );
 }
 
-const helper = createColumnHelper<RowModel>();
-
-function useColumns(): ColumnDef<RowModel, unknown>[] {
-  const units = useUnits();
-  return useMemo(() => {
-    const entry = (c: number, header: string) => {
-      const col = ENTRY_COLUMNS[c];
-      return helper.display({
-        id: col?.id ?? String(c),
-        header: `${header} (${units.label(col?.quantity ?? 'mass')})`,
-        cell: (ctx) => <EntryCell model={ctx.row.original} r={ctx.row.index} c={c} />,
-      });
-    };
-    const computed = (id: string, header: string, value: (m: RowModel) => string) =>
-      helper.display({ id, header, cell: (ctx) => <span className="block whitespace-nowrap text-right tabular-nums">{value(ctx.row.original)}</span> });
-    return [
-      helper.group({
-        id: 'g-coupon',
-        header: 'Coupon',
-        columns: [
-          helper.accessor((m) => m.coupon.tag, {
-            id: 'tag',
-            header: 'Tag',
-            // Out of the Tab order: inside the grid, Tab moves between cells like a spreadsheet.
-            cell: (ctx) => (
-              <Link to={paths.coupon.href({ id: ctx.row.original.coupon.id })} tabIndex={-1} className="whitespace-nowrap">
-                {ctx.row.original.coupon.tag}
-              </Link>
-            ),
-          }),
-          helper.accessor((m) => m.coupon.speciesName, {
-            id: 'species',
-            header: 'Species, role',
-            cell: (ctx) => (
-              <span className="block min-w-[6rem] text-xs">
-                {ctx.row.original.coupon.speciesName}
-                <br />
-                <span className={ctx.row.original.coupon.role === 'control' ? 'font-semibold' : 'text-ink-soft'}>{ctx.row.original.coupon.role}</span>
-              </span>
-            ),
-          }),
-        ],
-      }),
-      helper.group({ id: 'g-dry', header: 'Dry', columns: [entry(0, 'Mass'), entry(1, 'Length'), entry(2, 'Width'), entry(3, 'Thickness')] }),
-      helper.group({ id: 'g-soaked', header: 'Soaked', columns: [entry(4, 'Mass')] }),
-      helper.group({ id: 'g-cured', header: 'Cured', columns: [entry(5, 'Mass'), entry(6, 'Length'), entry(7, 'Width'), entry(8, 'Thickness')] }),
-      helper.group({
-        id: 'g-computed',
-        header: 'Computed',
-        columns: [
-          computed('mc', 'MC (%)', (m) => fmt(m.metrics.mcPct, 1)),
-          computed('density', 'Dry density (kg/m³)', (m) => fmt(m.metrics.dryDensityKgM3, 0)),
-          computed('sg', 'Dry SG', (m) => fmt(m.metrics.drySg, 3)),
-          computed('wpg', 'WPG (%)', (m) => fmt(m.metrics.wpgPct, 1)),
-          computed('loading', 'Resin loading (kg/m³)', (m) => fmt(m.metrics.resinLoadingKgM3, 0)),
-          computed('voidfill', 'Void fill (%)', (m) => fmt(m.metrics.voidFillPct, 0)),
-          computed('bulking', 'Bulking (%)', (m) => fmt(m.metrics.bulkingPct, 1)),
-        ],
-      }),
-      helper.display({ id: 'check', header: 'Check', cell: (ctx) => <RowCheck model={ctx.row.original} /> }),
-    ] as ColumnDef<RowModel, unknown>[];
-  }, [units]);
-}
-
-const ENTRY_IDS = new Set(ENTRY_COLUMNS.map((c) => c.id));
 const isEmptyDrafts = (d: Drafts) => Object.values(d).every((row) => Object.values(row ?? {}).every((v) => v === undefined || v === ''));
 
 /**
- * The keyboard-first entry sheet for a set of coupons. Typed values stay in the grid, in display
- * units, until Save (or Ctrl+S / Cmd+S) sends every edited row in one request; the computed columns
- * follow every keystroke through the same metric functions the server uses.
+ * The keyboard-first entry sheet for a set of coupons. Typed values stay in the grid, in display units,
+ * until Save (or Ctrl+S / Cmd+S) sends every edited row in one request; the computed columns follow every
+ * keystroke through the same metric functions the server uses. Typed state lives in a store outside React
+ * (one subscription per row), and only the rows in view (plus the active one) are in the page.
  */
 export function EntryGrid({
   coupons,
@@ -224,40 +281,90 @@ export function EntryGrid({
   const units = useUnits();
   const { can } = useRole();
   const canEdit = can('technician');
-  const qc = useQueryClient();
   const save = useSaveMeasurements();
-  const [drafts, setDrafts] = useState<Drafts>({});
-  const [errors, setErrors] = useState<CellErrors>({});
-  const [rowErrors, setRowErrors] = useState<Record<number, string>>({});
+  const qc = useQueryClient();
   const [status, setStatus] = useState<{ text: string; bad: boolean } | null>(null);
-  const initialRow = focus
-    ? Math.max(
-        0,
-        coupons.findIndex((c) => c.id === focus.couponId),
-      )
-    : 0;
-  const [active, setActiveState] = useState({ r: initialRow, c: focus?.col ?? 0 });
-  const inputs = useRef(new Map<string, HTMLInputElement>());
+  const [store] = useState(() => {
+    const r = focus
+      ? Math.max(
+          0,
+          coupons.findIndex((c) => c.id === focus.couponId),
+        )
+      : 0;
+    return new GridStore(coupons, units, { r, c: focus?.col ?? 0 });
+  });
+  // New query data (a save, a refetch) and a change of units reach the store as the grid renders; the rows
+  // render then anyway, and each row's snapshot notices its new coupon object or the new units.
+  store.setCoupons(coupons);
+  store.setUnits(units);
+
+  const { conditions, runs } = useGridContext(coupons);
+  const computed = useMemo(() => computedColumns(units), [units]);
+
+  const scrollRef = useRef<HTMLDivElement>(null);
+  const headRef = useRef<HTMLTableSectionElement>(null);
   const saveButton = useRef<HTMLButtonElement>(null);
+  const inputs = useRef(new Map<string, HTMLInputElement>());
+  /** A cell to focus as soon as its row is rendered (it was scrolled to). */
+  const pendingFocus = useRef<{ r: number; c: number } | null>(null);
+  const [headHeight, setHeadHeight] = useState(64);
+  useLayoutEffect(() => {
+    const h = headRef.current?.offsetHeight;
+    if (h && h !== headHeight) setHeadHeight(h);
+  }, [headHeight]);
 
-  const rows = useMemo(() => {
-    const now = new Date().toISOString();
-    return coupons.map((c) => rowModel(c, drafts[c.id], units, now));
-  }, [coupons, drafts, units]);
-  const rowsRef = useRef(rows);
-  rowsRef.current = rows;
+  // The active row stays in the page while it is scrolled out of view, so focus is never lost with it.
+  const rangeExtractor = useCallback(
+    (range: Range) => {
+      const indexes = defaultRangeExtractor(range);
+      const { r } = store.active();
+      if (r < range.count && !indexes.includes(r)) indexes.push(r);
+      return indexes.sort((a, b) => a - b);
+    },
+    [store],
+  );
+  const virtualizer = useVirtualizer({
+    count: coupons.length,
+    getScrollElement: () => scrollRef.current,
+    estimateSize: () => 46,
+    overscan: 6,
+    paddingStart: headHeight,
+    scrollPaddingStart: headHeight,
+    rangeExtractor,
+    getItemKey: (i) => coupons[i]?.id ?? i,
+  });
 
-  const columns = useColumns();
-  const table = useReactTable({ data: rows, columns, getCoreRowModel: getCoreRowModel(), getRowId: (m) => String(m.coupon.id) });
-  const leafCount = table.getVisibleLeafColumns().length;
-  const headerGroups = table.getHeaderGroups();
+  const focusCell = useCallback(
+    (r: number, c: number) => {
+      store.setActive(r, c);
+      const el = inputs.current.get(`${r}:${c}`);
+      if (el) {
+        el.focus({ preventScroll: true });
+        el.select();
+        // The container's scroll padding keeps the cell clear of the sticky header and columns.
+        el.scrollIntoView({ block: 'nearest', inline: 'nearest' });
+        return;
+      }
+      pendingFocus.current = { r, c };
+      virtualizer.scrollToIndex(r, { align: 'auto' });
+    },
+    [store, virtualizer],
+  );
 
-  const focusCell = useCallback((r: number, c: number) => {
-    const el = inputs.current.get(`${r}:${c}`);
-    if (!el) return;
-    setActiveState({ r, c });
-    el.focus();
-    el.select();
+  const register = useCallback((r: number, c: number, el: HTMLInputElement | null) => {
+    const key = `${r}:${c}`;
+    if (!el) {
+      inputs.current.delete(key);
+      return;
+    }
+    inputs.current.set(key, el);
+    const p = pendingFocus.current;
+    if (p && p.r === r && p.c === c) {
+      pendingFocus.current = null;
+      el.focus({ preventScroll: true });
+      el.select();
+      el.scrollIntoView({ block: 'nearest', inline: 'nearest' });
+    }
   }, []);
 
   // A link from the bench lands on the cell it is about.
@@ -265,156 +372,77 @@ export function EntryGrid({
   useEffect(() => {
     if (focused.current || !focus || coupons.length === 0) return;
     focused.current = true;
-    const el = inputs.current.get(`${initialRow}:${focus.col}`);
-    el?.scrollIntoView({ block: 'center' });
-    el?.focus();
-  }, [focus, coupons.length, initialRow]);
+    const { r, c } = store.active();
+    pendingFocus.current = { r, c };
+    virtualizer.scrollToIndex(r, { align: 'center' });
+    const el = inputs.current.get(`${r}:${c}`);
+    if (el) register(r, c, el);
+  }, [focus, coupons.length, store, virtualizer, register]);
 
-  const setDraft = useCallback((couponId: number, colId: string, value: string) => {
-    setDrafts((d) => ({ ...d, [couponId]: { ...d[couponId], [colId]: value } }));
-    setErrors((e) => {
-      if (!e[couponId]?.[colId]) return e;
-      const row = { ...e[couponId] };
-      delete row[colId];
-      return { ...e, [couponId]: row };
-    });
-  }, []);
+  const onKey = useGridKeyboard({
+    rows: coupons.length,
+    cols: ENTRY_COLUMNS.length,
+    pageRows: () => Math.max(1, Math.floor(((scrollRef.current?.clientHeight ?? 480) - headHeight) / 46) - 1),
+    hasDraft: (r, c) => {
+      const coupon = coupons[r];
+      const col = ENTRY_COLUMNS[c];
+      return coupon !== undefined && col !== undefined && store.draft(coupon.id, col.id) !== undefined;
+    },
+    moveTo: focusCell,
+    undo: (r, c) => {
+      const coupon = coupons[r];
+      const col = ENTRY_COLUMNS[c];
+      if (coupon && col) store.clearDraft(coupon.id, col.id);
+    },
+    leave: () => saveButton.current?.focus(),
+  });
 
-  const clearDraft = (couponId: number, colId: string) =>
-    setDrafts((d) => {
-      const row = { ...d[couponId] };
-      delete row[colId];
-      return { ...d, [couponId]: row };
-    });
-
-  const onKey = (e: KeyboardEvent<HTMLInputElement>, r: number, c: number) => {
-    const last = { r: rows.length - 1, c: ENTRY_COLUMNS.length - 1 };
-    const input = e.currentTarget;
-    const len = input.value.length;
-    const start = input.selectionStart ?? 0;
-    const end = input.selectionEnd ?? 0;
-    const whole = start === 0 && end === len;
-    const go = (nr: number, nc: number) => {
+  // A block copied from a spreadsheet arrives as lines (and tabs across): it fills this cell and the ones
+  // below (and to the right), leaving cells that already hold a saved value alone.
+  const canEditRef = useRef(canEdit);
+  canEditRef.current = canEdit;
+  const onPaste = useCallback(
+    (e: ClipboardEvent<HTMLInputElement>, r: number, c: number) => {
+      if (!canEditRef.current) return;
+      const block = parseClipboard(e.clipboardData.getData('text/plain'));
+      if (!block) return;
       e.preventDefault();
-      focusCell(Math.min(Math.max(nr, 0), last.r), Math.min(Math.max(nc, 0), last.c));
-    };
-    switch (e.key) {
-      case 'Tab':
-        // From the last cell Tab leaves the grid (and from the first, Shift+Tab), so the page never traps focus.
-        if (e.shiftKey) {
-          if (r === 0 && c === 0) return;
-          return c > 0 ? go(r, c - 1) : go(r - 1, last.c);
-        }
-        if (r === last.r && c === last.c) return;
-        return c < last.c ? go(r, c + 1) : go(r + 1, 0);
-      case 'Enter':
-        if (e.ctrlKey || e.metaKey) return;
-        return go(r + (e.shiftKey ? -1 : 1), c);
-      case 'ArrowDown':
-        return go(r + 1, c);
-      case 'ArrowUp':
-        return go(r - 1, c);
-      case 'ArrowLeft':
-        if (end === 0 || whole) go(r, c - 1);
-        return;
-      case 'ArrowRight':
-        if (start === len || whole) go(r, c + 1);
-        return;
-      case 'Escape': {
-        const coupon = rows[r]?.coupon;
-        const col = ENTRY_COLUMNS[c];
-        if (coupon && col && drafts[coupon.id]?.[col.id] !== undefined) clearDraft(coupon.id, col.id);
-        else saveButton.current?.focus();
-        e.preventDefault();
-        return;
-      }
-      default:
-    }
-  };
-
-  // A column copied from a spreadsheet arrives as lines (and tabs across): it fills this cell and
-  // the ones below (and to the right), leaving cells that already hold a saved value alone.
-  const onPaste = (e: ClipboardEvent<HTMLInputElement>, r: number, c: number) => {
-    if (!canEdit) return;
-    const block = parseClipboard(e.clipboardData.getData('text/plain'));
-    if (!block) return;
-    e.preventDefault();
-    const plan = planPaste(block, r, c, { rows, columns: ENTRY_COLUMNS, locked: (model, col) => isLocked(model.coupon, col) !== null });
-    const next: Drafts = { ...drafts };
-    for (const { row, col, value } of plan.cells) next[row.coupon.id] = { ...next[row.coupon.id], [col.id]: value };
-    setDrafts(next);
-    setStatus({ text: pasteSummary(plan), bad: false });
-  };
-
-  const collectErrors = (entries: [string, string][], plan: BatchPlan) => {
-    const cells: CellErrors = {};
-    const rowsErr: Record<number, string> = {};
-    for (const [path, message] of entries) {
-      const at = locateError(path, plan);
-      if (!at) continue;
-      if (at.cells.length === 0) rowsErr[at.couponId] = message;
-      for (const id of at.cells) cells[at.couponId] = { ...cells[at.couponId], [id]: message };
-    }
-    return { cells, rows: rowsErr };
-  };
+      const plan = planPaste(block, r, c, { rows: store.coupons, columns: ENTRY_COLUMNS, locked: (coupon, col) => isLocked(coupon, col) !== null });
+      store.setDrafts((d) => {
+        const next: Drafts = { ...d };
+        for (const { row, col, value } of plan.cells) next[row.id] = { ...next[row.id], [col.id]: value };
+        return next;
+      });
+      setStatus({ text: pasteSummary(plan), bad: false });
+    },
+    [store],
+  );
 
   const doSave = async () => {
     if (!canEdit || save.isPending) return;
-    const current = rowsRef.current;
-    const blocked = current.filter((m) => m.edited && !savable(m)).length;
-    let plan = planBatch(current, new Date().toISOString());
-    // Values outside the contract's bounds (e.g. 3000 mm) keep their row back; the other rows still go.
-    let parsed = batchMeasurementsSchema.safeParse({ entries: plan.entries });
-    let refused = { cells: {} as CellErrors, rows: {} as Record<number, string> };
-    let refusedRows = 0;
-    if (!parsed.success && plan.entries.length > 0) {
-      refused = collectErrors(
-        parsed.error.issues.map((i) => [i.path.join('.'), i.message]),
-        plan,
-      );
-      const bad = new Set(parsed.error.issues.map((i) => i.path[1]).filter((x): x is number => typeof x === 'number'));
-      refusedRows = bad.size;
-      plan = { entries: plan.entries.filter((_, i) => !bad.has(i)), cells: plan.cells.filter((_, i) => !bad.has(i)) };
-      parsed = batchMeasurementsSchema.safeParse({ entries: plan.entries });
-    }
-    setErrors(refused.cells);
-    setRowErrors(refused.rows);
-    const held = blocked + refusedRows;
-    if (plan.entries.length === 0 || !parsed.success) {
-      setStatus({
-        text: held
-          ? `Nothing saved: ${held} row${held === 1 ? ' has' : 's have'} problems, marked in the Check column.`
-          : 'Nothing to save: no new values typed.',
-        bad: held > 0,
-      });
+    const sent = store.drafts();
+    const prepared = prepareSave(store.models(), new Date().toISOString());
+    store.setRefusals(prepared.refused.cells, prepared.refused.rows);
+    if (!prepared.body) {
+      setStatus(nothingSavedText(prepared));
       return;
     }
+    const { plan } = prepared;
     try {
-      const res = await save.mutateAsync(parsed.data);
-      const byId = new Map(res.coupons.map((c) => [c.id, c]));
-      qc.setQueryData<CouponOut[]>(queryKeys.coupons.grid(scope), (old) => old?.map((c) => byId.get(c.id) ?? c));
-      setDrafts((d) => {
-        const next = { ...d };
-        for (const e of plan.entries) delete next[e.couponId];
-        return next;
-      });
-      const warned = new Set(res.warnings.map((w) => w.couponId)).size;
-      const parts = [
-        `Saved ${res.written.weighings} weighing${res.written.weighings === 1 ? '' : 's'} and ${res.written.checks} size set${res.written.checks === 1 ? '' : 's'} for ${plan.entries.length} coupon${plan.entries.length === 1 ? '' : 's'}.`,
-      ];
-      if (held) parts.push(`${held} row${held === 1 ? '' : 's'} with problems not saved.`);
-      if (warned) parts.push(`${warned} coupon${warned === 1 ? ' has' : 's have'} a warning in the Check column.`);
-      setStatus({ text: parts.join(' '), bad: held > 0 });
+      // The answer's coupons replace their rows in every grid showing them (in the mutation's onSuccess).
+      const res = await save.mutateAsync(prepared.body);
+      store.setDrafts((d) => dropSaved(d, sent, plan));
+      setStatus(savedText(res, plan.entries.length, prepared.held));
     } catch (err) {
       // The server writes all of a save or none of it, so nothing here was kept.
       if (err instanceof ApiError) {
-        const found = collectErrors(
-          Object.entries(err.fieldErrors).map(([k, v]) => [k, v[0] ?? err.message]),
+        const found = refusalsFrom(
+          Object.entries(err.fieldErrors).map(([k, v]) => [k, v[0] ?? err.message] as const),
           plan,
         );
-        setErrors({ ...refused.cells, ...found.cells });
-        setRowErrors({ ...refused.rows, ...found.rows });
-        setStatus({ text: `Nothing saved: ${err.message.replace(/entries\.\d+(\.\w+\.\d+)?(\.\w+)?:\s*/g, '')}`, bad: true });
+        const all = mergeRefusals(prepared.refused, found);
+        store.setRefusals(all.cells, all.rows);
+        setStatus({ text: refusedText(err.message), bad: true });
         // Someone else saved a reading meanwhile: show it, so the conflict can be seen and corrected.
         if (err.status === 409) void qc.invalidateQueries({ queryKey: queryKeys.coupons.grid(scope) });
       } else {
@@ -436,44 +464,31 @@ export function EntryGrid({
     return () => window.removeEventListener('keydown', onKeyDown);
   }, []);
 
-  const pending = rows.filter((m) => m.edited).length;
-  // Typed values survive a reload, a crash or a closed tab (a draft in this browser, per user and grid,
-  // kept only while it was typed in the same units) and leaving asks first.
-  const me = useMe();
-  const restoredAt = useLocalDraft(
-    draftKey(me?.id, `grid:${JSON.stringify(scope)}`),
-    `${units.unit('mass')}|${units.unit('length')}`,
-    drafts,
-    isEmptyDrafts,
-    setDrafts,
+  const onFocusCell = useCallback((r: number, c: number) => store.setActive(r, c), [store]);
+  const ctx = useMemo<GridCtx>(
+    () => ({ store, canEdit, units, computed, conditions, runs, onKey, onPaste, onFocusCell, register, measure: virtualizer.measureElement }),
+    [store, canEdit, units, computed, conditions, runs, onKey, onPaste, onFocusCell, register, virtualizer.measureElement],
   );
-  const leaveGuard = useLeaveGuard(pending > 0, `${pending} row${pending === 1 ? ' has' : 's have'} typed values that are not saved.`);
 
-  const state: GridState = {
-    drafts,
-    errors,
-    rowErrors,
-    active,
-    canEdit,
-    setDraft,
-    setActive: (r, c) => setActiveState((a) => (a.r === r && a.c === c ? a : { r, c })),
-    register: (r, c, el) => {
-      if (el) inputs.current.set(`${r}:${c}`, el);
-      else inputs.current.delete(`${r}:${c}`);
-    },
-    onKey,
-    onPaste,
-  };
+  const leafCount = LEAD + ENTRY_COLUMNS.length + 1 + computed.length;
+  const items = virtualizer.getVirtualItems();
+  const total = virtualizer.getTotalSize();
+  const body: ReactNode[] = [];
+  let cursor = headHeight;
+  for (const item of items) {
+    const coupon = coupons[item.index];
+    if (!coupon) continue;
+    if (item.start > cursor) body.push(<Spacer key={`gap-${item.index}`} height={item.start - cursor} span={leafCount} />);
+    body.push(<GridRow key={coupon.id} ctx={ctx} coupon={coupon} r={item.index} />);
+    cursor = Math.max(cursor, item.end);
+  }
+  if (total > cursor) body.push(<Spacer key="gap-end" height={total - cursor} span={leafCount} />);
 
-  const headerRows = headerGroups.length;
+  const tableWidth = W.tag + W.condition + W.species + ENTRY_COLUMNS.length * W.entry + W.check + computed.length * W.computed;
+  const conditionKey = [...new Map([...conditions.values()].map((t) => [t.code, t])).values()];
   return (
-    <GridContext.Provider value={state}>
-      {leaveGuard}
-      {restoredAt && pending > 0 && (
-        <p className="no-print mb-2 text-sm text-amber-ink">
-          Restored values typed here on {new Date(restoredAt).toLocaleString()} and not saved yet; check them and save, or press Esc in a cell to drop one.
-        </p>
-      )}
+    <>
+      <GridDrafts store={store} scope={scope} units={units} />
       <div className="no-print mb-3 flex flex-wrap items-center gap-3">
         {canEdit && (
           <button
@@ -487,114 +502,170 @@ export function EntryGrid({
             {save.isPending ? 'Saving…' : 'Save'}
           </button>
         )}
-        <p className="text-sm text-ink-soft">{pending > 0 ? `${pending} row${pending === 1 ? '' : 's'} typed, not saved.` : 'No unsaved values.'}</p>
+        <PendingNote store={store} />
         <p role="status" className={`text-sm ${status?.bad ? 'text-margin' : 'text-moss'}`}>
           {status?.text}
         </p>
       </div>
-      <ProblemList rows={rows} errors={errors} rowErrors={rowErrors} onGo={focusCell} />
+      <ProblemList store={store} onGo={focusCell} />
       <p id="grid-help" className="mb-2 text-xs text-ink-faint">
-        Tab and Shift+Tab move across, Enter and Shift+Enter down and up, arrow keys at the edge of the text; paste a column copied from a spreadsheet into a
-        cell to fill it and the cells below; Ctrl+S (⌘S) saves; Esc undoes a typed cell, or leaves the grid for the Save button. Values already saved are
-        corrected on the coupon's page, with a reason.
+        Tab and Shift+Tab move across, Enter and Shift+Enter down and up, arrow keys, Home and End at the edge of the text, Page Up and Page Down by a
+        screenful, Ctrl+Home and Ctrl+End to the first and last cell; paste a block copied from a spreadsheet into a cell to fill it and the cells below; Ctrl+S
+        (⌘S) saves; Esc undoes a typed cell, or leaves the grid for the Save button. Values already saved are corrected on the coupon's page, with a reason.
       </p>
-      {/* Wider than the page column: the grid takes the window's width so more of it shows without scrolling. */}
-      <div className="relative left-1/2 w-[calc(100vw-2rem)] max-w-[120rem] -translate-x-1/2 overflow-x-auto rounded border border-paper-edge">
+      {conditionKey.length > 0 && (
+        <dl className="mb-2 flex flex-wrap gap-x-4 gap-y-0.5 text-xs" aria-label="Conditions (resin and process settings)">
+          {conditionKey.map((t) => (
+            <div key={t.code} className="flex gap-1">
+              <dt className="font-semibold">{t.code}</dt>
+              <dd>{t.label}</dd>
+            </div>
+          ))}
+        </dl>
+      )}
+      {/* Wider than the page column: the grid takes the window's width, and scrolls inside its own box with the
+          header, the tag and (on a wide screen) the computed columns kept in view. */}
+      <div
+        ref={scrollRef}
+        className="relative left-1/2 max-h-[calc(100vh-7rem)] min-h-[16rem] w-[calc(100vw-2rem)] max-w-[120rem] -translate-x-1/2 scroll-pl-[7rem] overflow-auto rounded border border-paper-edge lg:scroll-pr-[35rem]"
+        style={{ scrollPaddingTop: headHeight }}
+      >
         <table
           role="grid"
           aria-label={caption}
           aria-describedby="grid-help"
-          aria-rowcount={rows.length + headerRows}
+          aria-rowcount={coupons.length + HEADER_ROWS}
           aria-colcount={leafCount}
-          className="data-table"
+          className="data-table table-fixed"
+          style={{ width: `${tableWidth}rem` }}
         >
-          <thead>
-            {headerGroups.map((hg, depth) => (
-              <tr key={hg.id} aria-rowindex={depth + 1}>
-                {hg.headers.map((h) => {
-                  // A column outside any group spans both header rows instead of leaving an empty cell.
-                  if (depth > 0 && h.column.depth === 0) return null;
-                  const top = depth === 0 && h.isPlaceholder;
-                  const group = !h.isPlaceholder && h.subHeaders.length > 0;
-                  const firstLeaf = h.getLeafHeaders()[0]?.column.id ?? h.column.id;
-                  return (
-                    <th
-                      key={h.id}
-                      scope={group ? 'colgroup' : 'col'}
-                      colSpan={h.colSpan > 1 ? h.colSpan : undefined}
-                      rowSpan={top ? headerRows : undefined}
-                      aria-colindex={leafIndex(table, firstLeaf)}
-                      className={`bg-paper-deep align-bottom ${group ? 'text-center' : 'text-xs'} ${ENTRY_IDS.has(h.column.id) ? 'text-right' : ''} ${h.column.id === 'tag' ? 'sticky left-0 z-10' : ''}`}
-                    >
-                      {flexRender(h.column.columnDef.header, h.getContext())}
-                    </th>
-                  );
-                })}
-              </tr>
+          <colgroup>
+            <col style={{ width: `${W.tag}rem` }} />
+            <col style={{ width: `${W.condition}rem` }} />
+            <col style={{ width: `${W.species}rem` }} />
+            {ENTRY_COLUMNS.map((c) => (
+              <col key={c.id} style={{ width: `${W.entry}rem` }} />
             ))}
-          </thead>
-          <tbody>
-            {table.getRowModel().rows.map((row) => (
-              <tr key={row.id} aria-rowindex={row.index + headerRows + 1} className={row.original.edited ? 'bg-amber-light/20' : undefined}>
-                {row.getVisibleCells().map((cell, i) =>
-                  cell.column.id === 'tag' ? (
-                    <th
-                      key={cell.id}
-                      scope="row"
-                      role="rowheader"
-                      aria-colindex={i + 1}
-                      className="sticky left-0 z-10 border-b border-paper-edge bg-paper align-top font-normal"
-                    >
-                      {flexRender(cell.column.columnDef.cell, cell.getContext())}
-                    </th>
-                  ) : (
-                    <td
-                      key={cell.id}
-                      role="gridcell"
-                      aria-colindex={i + 1}
-                      data-col={cell.column.id}
-                      className={`align-top ${ENTRY_IDS.has(cell.column.id) ? 'p-0.5' : ''}`}
-                    >
-                      {flexRender(cell.column.columnDef.cell, cell.getContext())}
-                    </td>
-                  ),
-                )}
-              </tr>
+            <col style={{ width: `${W.check}rem` }} />
+            {computed.map((c) => (
+              <col key={c.id} style={{ width: `${W.computed}rem` }} />
             ))}
-          </tbody>
+          </colgroup>
+          <GridHead headRef={headRef} units={units} computed={computed} />
+          <tbody>{body}</tbody>
         </table>
       </div>
-    </GridContext.Provider>
+    </>
   );
 }
 
-/** Every value that stops a row from saving, above the grid, each one a button to its cell. */
-function ProblemList({
-  rows,
-  errors,
-  rowErrors,
-  onGo,
+function Spacer({ height, span }: { height: number; span: number }) {
+  return (
+    <tr aria-hidden="true">
+      <td colSpan={span} style={{ height, padding: 0, border: 0 }} />
+    </tr>
+  );
+}
+
+const GridHead = memo(function GridHead({
+  headRef,
+  units,
+  computed,
 }: {
-  rows: RowModel[];
-  errors: CellErrors;
-  rowErrors: Record<number, string>;
-  onGo: (r: number, c: number) => void;
+  headRef: RefObject<HTMLTableSectionElement | null>;
+  units: Units;
+  computed: ComputedColumn[];
 }) {
-  const items: { key: string; text: string; r: number; c: number }[] = [];
-  rows.forEach((m, r) => {
-    ENTRY_COLUMNS.forEach((col, c) => {
-      const msg = m.problems[col.id] ?? errors[m.coupon.id]?.[col.id];
-      if (msg) items.push({ key: `${m.coupon.id}-${col.id}`, text: `${m.coupon.tag}, ${col.label.toLowerCase()}: ${msg}`, r, c });
-    });
-    const rowMsg = rowErrors[m.coupon.id];
-    if (rowMsg) items.push({ key: `${m.coupon.id}-row`, text: `${m.coupon.tag}: ${rowMsg}`, r, c: 0 });
-  });
-  if (items.length === 0) return null;
+  const group = (label: string, span: number, colIndex: number, extra = '') => (
+    <th scope="colgroup" colSpan={span} aria-colindex={colIndex} className={`bg-paper-deep text-center ${extra}`}>
+      {label}
+    </th>
+  );
+  const checkIndex = LEAD + ENTRY_COLUMNS.length + 1;
+  const n = computed.length;
+  return (
+    <thead ref={headRef} className="sticky top-0 z-20">
+      <tr aria-rowindex={1}>
+        {group('Coupon', LEAD, 1)}
+        {group('Dry', 4, LEAD + 1)}
+        {group('Soaked', 1, LEAD + 5)}
+        {group('Cured', 4, LEAD + 6)}
+        <th scope="col" rowSpan={HEADER_ROWS} aria-colindex={checkIndex} className="bg-paper-deep align-bottom text-xs">
+          Check
+        </th>
+        {group('Computed', n, checkIndex + 1, `${STICKY_RIGHT} right-0 lg:border-l lg:border-l-rule`)}
+      </tr>
+      <tr aria-rowindex={2}>
+        <th scope="col" aria-colindex={1} className="sticky left-0 z-10 bg-paper-deep align-bottom text-xs">
+          Tag
+        </th>
+        <th scope="col" aria-colindex={2} className="bg-paper-deep align-bottom text-xs">
+          Condition
+        </th>
+        <th scope="col" aria-colindex={3} className="bg-paper-deep align-bottom text-xs">
+          Species, role
+        </th>
+        {ENTRY_COLUMNS.map((col, c) => (
+          <th key={col.id} scope="col" aria-colindex={LEAD + c + 1} className="bg-paper-deep text-right align-bottom text-xs">
+            {col.label.replace(/^(Dry|Soaked|Cured) /, '').replace(/^./, (x) => x.toUpperCase())} ({units.label(col.quantity)})
+          </th>
+        ))}
+        {computed.map((col, i) => (
+          <th
+            key={col.id}
+            scope="col"
+            aria-colindex={checkIndex + 1 + i}
+            className={`${STICKY_RIGHT} bg-paper-deep text-right align-bottom text-xs ${i === 0 ? 'lg:border-l lg:border-l-rule' : ''}`}
+            style={{ right: rightOf(i, n) }}
+          >
+            {col.header}
+          </th>
+        ))}
+      </tr>
+    </thead>
+  );
+});
+
+/** Keeps typed values through a reload, a crash or a closed tab (a draft in this browser, per user and grid, kept only while typed in the same units), and asks before leaving. */
+function GridDrafts({ store, scope, units }: { store: GridStore; scope: GridScope; units: Units }) {
+  const drafts = useGridDrafts(store);
+  const { pending } = useGridSummary(store);
+  const me = useMe();
+  const restore = useCallback((d: Drafts) => store.setDrafts(d), [store]);
+  const restoredAt = useLocalDraft(
+    draftKey(me?.id, `grid:${JSON.stringify(scope)}`),
+    `${units.unit('mass')}|${units.unit('length')}`,
+    drafts,
+    isEmptyDrafts,
+    restore,
+  );
+  const leaveGuard = useLeaveGuard(pending > 0, `${pending} row${pending === 1 ? ' has' : 's have'} typed values that are not saved.`);
+  return (
+    <>
+      {leaveGuard}
+      {restoredAt && pending > 0 && (
+        <p className="no-print mb-2 text-sm text-amber-ink">
+          Restored values typed here on {new Date(restoredAt).toLocaleString()} and not saved yet; check them and save, or press Esc in a cell to drop one.
+        </p>
+      )}
+    </>
+  );
+}
+
+function PendingNote({ store }: { store: GridStore }) {
+  const { pending } = useGridSummary(store);
+  return <p className="text-sm text-ink-soft">{pending > 0 ? `${pending} row${pending === 1 ? '' : 's'} typed, not saved.` : 'No unsaved values.'}</p>;
+}
+
+/** Every value that stops a row from saving, above the grid, each one a button to its cell. */
+function ProblemList({ store, onGo }: { store: GridStore; onGo: (r: number, c: number) => void }) {
+  const { problems } = useGridSummary(store);
+  if (problems.length === 0) return null;
   return (
     <div className="mb-3 rounded border border-margin/50 bg-margin/5 px-3 py-2 text-sm">
       <p className="font-semibold text-margin">Not saved until fixed:</p>
       <ul className="mt-1 space-y-0.5">
-        {items.map((i) => (
+        {problems.map((i) => (
           <li key={i.key}>
             <button type="button" className="text-left text-margin underline decoration-margin/40 underline-offset-2" onClick={() => onGo(i.r, i.c)}>
               {i.text}
@@ -604,11 +675,4 @@ function ProblemList({
       </ul>
     </div>
   );
-}
-
-function leafIndex(table: { getVisibleLeafColumns: () => { id: string }[] }, id: string): number | undefined {
-  const leaves = table.getVisibleLeafColumns();
-  const i = leaves.findIndex((c) => c.id === id);
-  if (i >= 0) return i + 1;
-  return undefined;
 }

@@ -141,67 +141,6 @@ export function showStored(value: number | null, col: EntryColumn, units: SiConv
   return String(Number(units.toDisplay(value, col.quantity).toFixed(4)));
 }
 
-export interface BatchPlan {
-  entries: {
-    couponId: number;
-    weighings?: { stage: WeighingStage; massG: number; measuredAt: string }[];
-    checks?: { kind: 'dimension'; stage: CheckStage; measuredAt: string; lengthMm: number; widthMm: number; thicknessMm: number }[];
-  }[];
-  /** For each entry, the grid columns behind each weighing and check, to put the server's errors on the right cells. */
-  cells: { couponId: number; weighings: string[]; checks: string[][] }[];
-}
-
-/** The one request a save sends: each savable row's typed weighings and whole size sets. */
-export function planBatch(rows: readonly RowModel[], measuredAt: string): BatchPlan {
-  const plan: BatchPlan = { entries: [], cells: [] };
-  for (const r of rows) {
-    if (!savable(r)) continue;
-    const weighings: NonNullable<BatchPlan['entries'][number]['weighings']> = [];
-    const wCells: string[] = [];
-    for (const col of ENTRY_COLUMNS) {
-      const v = r.typed[col.id];
-      if (col.source === 'weighing' && v !== undefined) {
-        weighings.push({ stage: col.stage, massG: v, measuredAt });
-        wCells.push(col.id);
-      }
-    }
-    const checks: NonNullable<BatchPlan['entries'][number]['checks']> = [];
-    const cCells: string[][] = [];
-    for (const stage of ['dry', 'cured'] as const) {
-      const cols = ENTRY_COLUMNS.filter((c): c is Extract<EntryColumn, { source: 'dimension' }> => c.source === 'dimension' && c.stage === stage);
-      const v = Object.fromEntries(cols.map((c) => [c.field, r.typed[c.id]])) as Partial<Record<DimensionField, number>>;
-      if (v.lengthMm === undefined || v.widthMm === undefined || v.thicknessMm === undefined) continue;
-      checks.push({ kind: 'dimension', stage, measuredAt, lengthMm: v.lengthMm, widthMm: v.widthMm, thicknessMm: v.thicknessMm });
-      cCells.push(cols.map((c) => c.id));
-    }
-    if (weighings.length === 0 && checks.length === 0) continue;
-    plan.entries.push({ couponId: r.coupon.id, ...(weighings.length ? { weighings } : {}), ...(checks.length ? { checks } : {}) });
-    plan.cells.push({ couponId: r.coupon.id, weighings: wCells, checks: cCells });
-  }
-  return plan;
-}
-
 export function savable(r: RowModel): boolean {
   return r.edited && Object.keys(r.problems).length === 0 && r.incomplete.length === 0 && Object.keys(r.typed).length > 0;
-}
-
-/**
- * Where an error the server (or the contract) names lands: `entries.<i>.weighings.<j>.<field>` or
- * `entries.<i>.checks.<j>.<field>` → the coupon and its cells; anything else → the coupon's row.
- */
-export function locateError(path: string, plan: BatchPlan): { couponId: number; cells: string[] } | null {
-  const m = /^entries\.(\d+)(?:\.(weighings|checks)\.(\d+)(?:\.(\w+))?)?/.exec(path);
-  if (!m) return null;
-  const entry = plan.cells[Number(m[1])];
-  if (!entry) return null;
-  if (!m[2]) return { couponId: entry.couponId, cells: [] };
-  const j = Number(m[3]);
-  if (m[2] === 'weighings') {
-    const id = entry.weighings[j];
-    return { couponId: entry.couponId, cells: id ? [id] : [] };
-  }
-  const set = entry.checks[j] ?? [];
-  const field = m[4];
-  const one = set.find((id) => field && id.endsWith(field.replace(/Mm$/, '')));
-  return { couponId: entry.couponId, cells: one ? [one] : set };
 }

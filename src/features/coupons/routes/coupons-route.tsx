@@ -1,17 +1,22 @@
 import type { QueryClient } from '@tanstack/react-query';
-import { CouponsScreen } from '../components/coupons-screens';
+import { CouponsScreen, couponFiltersOf } from '../components/coupons-screens';
 import type { PrefetchArgs } from '../../../lib/routing';
-import { couponListQuery, runListQuery, trialListQuery } from '../../../lib/queries/records';
-import { gridCouponsQuery } from '../api/coupons-queries';
+import { couponListQuery, runListQuery, trialListQuery, trialQuery } from '../../../lib/queries/records';
+import { speciesListQuery } from '../../../lib/queries/reference';
 
 export const Component = CouponsScreen;
 
 export function prefetch(qc: QueryClient, { url }: PrefetchArgs): void {
+  const s = url.searchParams;
+  const getId = (k: string) => {
+    const n = Number(s.get(k));
+    return Number.isInteger(n) && n > 0 ? n : undefined;
+  };
+  const filters = couponFiltersOf((k) => s.get(k) ?? '', getId);
+  const page = Math.max(1, Math.floor(Number(s.get('page'))) || 1);
+  void qc.prefetchQuery(couponListQuery({ ...filters, page, pageSize: 50 }));
   void qc.prefetchQuery(trialListQuery());
   void qc.prefetchQuery(runListQuery());
-  const trialId = Number(url.searchParams.get('trialId')) || null;
-  const runId = Number(url.searchParams.get('runId')) || null;
-  if (trialId) void qc.prefetchQuery(gridCouponsQuery({ trialId }));
-  else if (runId) void qc.prefetchQuery(gridCouponsQuery({ runId }));
-  else void qc.prefetchQuery(couponListQuery({ page: 1, pageSize: 50, sort: 'tag' }));
+  void qc.prefetchQuery(speciesListQuery());
+  if (filters.trialId) void qc.prefetchQuery(trialQuery(filters.trialId));
 }

@@ -25,6 +25,7 @@ interface Values {
   startedAt: string;
   endedAt: string;
   bubblingStoppedAt: string;
+  barometer: string;
   ovenSetC: string;
   ovenMeasuredC: string;
   notes: string;
@@ -65,6 +66,7 @@ export function CorrectStageForm({
     startedAt: toLocalInput(stage.startedAt),
     endedAt: stage.endedAt ? toLocalInput(stage.endedAt) : '',
     bubblingStoppedAt: stage.bubblingStoppedAt ? toLocalInput(stage.bubblingStoppedAt) : '',
+    barometer: stage.barometerKpa === null ? '' : String(Number(units.toDisplay(stage.barometerKpa, 'pressure').toPrecision(10))),
     ovenSetC: temp(stage.ovenSetC),
     ovenMeasuredC: temp(stage.ovenMeasuredC),
     notes: stage.notes ?? '',
@@ -94,6 +96,11 @@ export function CorrectStageForm({
     time('startedAt', true);
     time('endedAt', false);
     if (stage.stage === 'vacuum') time('bubblingStoppedAt', false);
+    if (stage.stage === 'vacuum' && v.barometer !== initial.barometer) {
+      const n = num(v.barometer);
+      if (Number.isNaN(n)) bad.push(['barometer', 'Enter a number']);
+      else body.barometerKpa = n === null ? null : units.fromDisplay(n, 'pressure');
+    }
     if (hasOven(stage.stage)) {
       for (const f of ['ovenSetC', 'ovenMeasuredC'] as const) {
         if (v[f] === initial[f]) continue;
@@ -140,7 +147,9 @@ export function CorrectStageForm({
     if (!parsed.success) {
       for (const issue of parsed.error.issues) {
         const path = issue.path.map(String).join('.');
-        form.setError((path === '' ? 'root' : path.replace(/^addReadings/, 'added')) as never, { message: issue.message });
+        form.setError((path === '' ? 'root' : path.replace(/^addReadings/, 'added').replace(/^barometerKpa$/, 'barometer')) as never, {
+          message: issue.message,
+        });
       }
       return;
     }
@@ -148,17 +157,28 @@ export function CorrectStageForm({
       await correct.mutateAsync(parsed.data as CorrectStageInput);
       onDone(`${label} corrected; the earlier values are kept in the run's history.`);
     } catch (err) {
-      applyServerErrors(err, (name, e) => form.setError(String(name).replace(/^addReadings/, 'added') as never, e), [
-        'startedAt',
-        'endedAt',
-        'bubblingStoppedAt',
-        'ovenSetC',
-        'ovenMeasuredC',
-        'notes',
-        'reason',
-        ...v.readings.flatMap((_, i) => [`readings.${i}.id`, `readings.${i}.at`, `readings.${i}.gaugeValue`]),
-        ...v.added.flatMap((_, i) => [`added.${i}.at`, `added.${i}.gaugeValue`]),
-      ]);
+      applyServerErrors(
+        err,
+        (name, e) =>
+          form.setError(
+            String(name)
+              .replace(/^addReadings/, 'added')
+              .replace(/^barometerKpa$/, 'barometer') as never,
+            e,
+          ),
+        [
+          'startedAt',
+          'endedAt',
+          'bubblingStoppedAt',
+          'barometerKpa',
+          'ovenSetC',
+          'ovenMeasuredC',
+          'notes',
+          'reason',
+          ...v.readings.flatMap((_, i) => [`readings.${i}.id`, `readings.${i}.at`, `readings.${i}.gaugeValue`]),
+          ...v.added.flatMap((_, i) => [`added.${i}.at`, `added.${i}.gaugeValue`]),
+        ],
+      );
     }
   });
 
@@ -212,6 +232,14 @@ export function CorrectStageForm({
         {field('startedAt', `${label} started at`, 'datetime-local')}
         {field('endedAt', `${label} ended at`, 'datetime-local', stage.endedAt ? undefined : 'Not ended yet; leave empty.')}
         {stage.stage === 'vacuum' && field('bubblingStoppedAt', 'Bubbling stopped at', 'datetime-local')}
+        {stage.stage === 'vacuum' &&
+          field(
+            'barometer',
+            `Shop barometer (${units.label('pressure')})`,
+            'text',
+            'Station pressure while the gauge was read; changing it works every reading of the stage out again.',
+            true,
+          )}
         {hasOven(stage.stage) && field('ovenSetC', `Oven set point (${tempUnit})`, 'text', undefined, true)}
         {hasOven(stage.stage) && field('ovenMeasuredC', `Thermometer in the oven (${tempUnit})`, 'text', undefined, true)}
       </div>

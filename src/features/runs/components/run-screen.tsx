@@ -1,5 +1,5 @@
 import { useQuery } from '@tanstack/react-query';
-import { useEffect, useRef, useState } from 'react';
+import { useEffect, useMemo, useRef, useState } from 'react';
 import { Link, useLocation, useParams, useSearchParams } from 'react-router-dom';
 import { RUN_STAGES, type RunStage } from '../../../../shared/constants/records';
 import type { RunDetail, RunStageOut } from '../../../../shared/schemas/runs';
@@ -9,7 +9,10 @@ import { DEFAULT_CURE_WINDOW_C } from '../../../../shared/runs/thresholds';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
 import { useRole } from '../../../lib/session';
 import { useUnits } from '../../../lib/use-units';
-import { runQuery } from '../../../lib/queries/records';
+import { couponListQuery, runQuery } from '../../../lib/queries/records';
+import { lotResinWarnings, vacuumStartWarning, weighingWarnings, type EntryWarning } from '../../../../shared/runs/contradictions';
+import type { CouponOut } from '../../../../shared/schemas/coupons';
+import { EntryWarnings } from '../../../components/ui/entry-warnings';
 import { useNow } from '../hooks/use-now';
 import { RunExpected } from './run-expected';
 import { RunPhotos } from './run-photos';
@@ -91,7 +94,12 @@ function StageFacts({ s, run, now }: { s: RunStageOut; run: RunDetail; now: Date
           <dt className="sr-only">Gauge readings</dt>
           <dd className="col-span-2 mt-2">
             <table className="data-table">
-              <caption className="text-left text-sm font-medium text-ink-soft">Gauge readings at {units.format(run.altitudeM, 'altitude')}</caption>
+              <caption className="text-left text-sm font-medium text-ink-soft">
+                Gauge readings at {units.format(run.altitudeM, 'altitude')}, against{' '}
+                {s.ambientSource === 'barometer'
+                  ? `the shop's barometer, ${units.format(s.ambientKpa, 'pressure')}`
+                  : `the standard atmosphere there, ${units.format(s.ambientKpa, 'pressure')}`}
+              </caption>
               <thead>
                 <tr>
                   <th scope="col">Time</th>
@@ -118,6 +126,41 @@ function StageFacts({ s, run, now }: { s: RunStageOut; run: RunDetail; now: Date
         </>
       )}
     </dl>
+  );
+}
+
+/**
+ * What the run's records contradict, read the same way the forms warn at entry: the lot's resin against
+ * the plan of its coupons, weighings dated ahead of the run's stages, and coupons still without a dry
+ * weight while the vacuum has not started (after it has, the missing uptake shows on each coupon).
+ */
+export function runContradictions(run: RunDetail, coupons: readonly CouponOut[]): EntryWarning[] {
+  const lot = run.lot
+    ? lotResinWarnings(
+        { code: run.lot.code, resin: run.lot.resin },
+        coupons.map((c) => ({ id: c.id, tag: c.tag, role: c.role, plannedResin: c.condition?.plannedResin ?? null })),
+      )
+    : [];
+  const runOf = { code: run.code, stages: run.stages };
+  const weighings = weighingWarnings(
+    coupons.flatMap((c) => c.weighings.map((w) => ({ couponId: c.id, tag: c.tag, role: c.role, stage: w.stage, measuredAt: w.measuredAt, run: runOf }))),
+  );
+  const vacuumStarted = run.stages.some((s) => s.stage === 'vacuum');
+  const dry = vacuumStarted
+    ? null
+    : vacuumStartWarning(run.coupons.map((c) => ({ id: c.id, tag: c.tag, role: c.role, hasDryWeighing: c.stagesWeighed.includes('dry') })));
+  return [...lot, ...weighings, ...(dry ? [dry] : [])];
+}
+
+function RunContradictions({ run }: { run: RunDetail }) {
+  const coupons = useQuery({ ...couponListQuery({ runId: run.id, pageSize: 200, sort: 'tag' }), enabled: run.coupons.length > 0 });
+  const items = coupons.data?.items;
+  const warnings = useMemo(() => runContradictions(run, items ?? []), [run, items]);
+  if (warnings.length === 0) return null;
+  return (
+    <section aria-label="Contradictions in this run's records" className="mb-6">
+      <EntryWarnings warnings={warnings} />
+    </section>
   );
 }
 
@@ -256,6 +299,7 @@ export function RunScreen() {
         )}
       </dl>
 
+      <RunContradictions run={r} />
       <div className="grid gap-6 lg:grid-cols-[3fr_2fr]">
         <section aria-labelledby="timeline-heading" className="sheet p-5" id="stage-forms">
           <h2 id="timeline-heading" className="mb-3">

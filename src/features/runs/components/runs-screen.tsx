@@ -1,9 +1,11 @@
 import { useQuery } from '@tanstack/react-query';
-import { useState } from 'react';
 import { Link } from 'react-router-dom';
-import { RUN_STATUSES } from '../../../../shared/runs/stages';
-import type { RunListQuery } from '../../../../shared/schemas/runs';
+import { RUN_STAGES } from '../../../../shared/constants/records';
+import { RUN_STATUSES, STAGE_LABELS } from '../../../../shared/runs/stages';
+import { RUN_SORTS, type RunListQuery } from '../../../../shared/schemas/runs';
+import { ExportLink, FilterSelect, Pager, SearchBox, SortHeader } from '../../../components/ui/list-tools';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
+import { queryOf, useListParams } from '../../../lib/list-params';
 import { useRole } from '../../../lib/session';
 import { runListQuery } from '../../../lib/queries/records';
 import { useNow } from '../hooks/use-now';
@@ -11,19 +13,34 @@ import { CheckCounts, currentStageText } from './bench-screen';
 import { DueTime, dateTime } from './time-text';
 import { paths } from '../../../config/paths';
 
-type StatusFilter = NonNullable<RunListQuery['status']> | '';
+type StatusFilter = NonNullable<RunListQuery['status']>;
 const STATUS_OPTIONS: { value: StatusFilter; label: string }[] = [
-  { value: '', label: 'All runs' },
   { value: 'open', label: 'Open (cure not ended)' },
   ...RUN_STATUSES.map((s) => ({ value: s, label: s === 'in-progress' ? 'In progress' : s === 'planned' ? 'Planned' : 'Finished' })),
 ];
+const STATUSES: readonly StatusFilter[] = STATUS_OPTIONS.map((o) => o.value);
+const PAGE_SIZE = 50;
+const oneOf = <T extends string>(list: readonly T[], v: string): T | undefined => list.find((x) => x === v);
+
+/** The run list's sort, search and filters as the address holds them. */
+export function runFiltersOf(get: (key: string) => string): Omit<RunListQuery, 'page' | 'pageSize'> {
+  const sort = get('sort');
+  return {
+    sort: sort && RUN_SORTS.includes(sort.replace(/^-/, '') as (typeof RUN_SORTS)[number]) ? sort : undefined,
+    q: get('q') || undefined,
+    status: oneOf(STATUSES, get('status')),
+    stage: oneOf(RUN_STAGES, get('stage')),
+  };
+}
 
 export function RunsScreen() {
   const { can } = useRole();
-  const [status, setStatus] = useState<StatusFilter>('');
-  const [page, setPage] = useState(1);
-  const runs = useQuery(runListQuery({ status: status || undefined, page, pageSize: 50 }));
+  const list = useListParams();
+  const filters = runFiltersOf(list.get);
+  const runs = useQuery(runListQuery({ ...filters, page: list.page, pageSize: PAGE_SIZE }));
   const now = useNow();
+  const sort = filters.sort ?? '-id';
+  const filtered = Boolean(filters.q || filters.status || filters.stage);
   return (
     <Page
       title="Runs"
@@ -35,91 +52,79 @@ export function RunsScreen() {
         ) : undefined
       }
     >
-      <div className="mb-4">
-        <label htmlFor="run-status" className="field-label">
-          Show
-        </label>
-        <select
-          id="run-status"
-          className="field-input max-w-xs"
-          value={status}
-          onChange={(e) => {
-            setStatus(e.target.value as StatusFilter);
-            setPage(1);
-          }}
-        >
-          {STATUS_OPTIONS.map((o) => (
-            <option key={o.value} value={o.value}>
-              {o.label}
-            </option>
-          ))}
-        </select>
+      <div className="no-print mb-2 grid gap-x-4 sm:grid-cols-3" role="search" aria-label="Filter the runs">
+        <SearchBox label="Search by code or chamber" value={filters.q ?? ''} onSearch={(q) => list.set({ q })} className="mb-3" />
+        <FilterSelect
+          className="mb-3"
+          label="Status"
+          any="All runs"
+          value={filters.status}
+          onChange={(v) => list.set({ status: v })}
+          options={STATUS_OPTIONS}
+        />
+        <FilterSelect
+          className="mb-3"
+          label="Latest stage"
+          any="Any stage"
+          value={filters.stage}
+          onChange={(v) => list.set({ stage: v })}
+          options={RUN_STAGES.map((s) => ({ value: s, label: STAGE_LABELS[s] }))}
+        />
+      </div>
+      <div className="mb-2 flex justify-end">
+        <ExportLink href={`/api/runs/export.csv${queryOf(filters)}`} what="runs" />
       </div>
       {runs.isPending ? (
         <Loading />
       ) : runs.isError ? (
         <ErrorNote error={runs.error} />
       ) : runs.data.items.length === 0 ? (
-        <p className="text-ink-soft">No runs {status ? 'match this filter' : 'yet'}.</p>
+        <p className="text-ink-soft">No runs {filtered ? 'match these filters' : 'yet'}.</p>
       ) : (
         <>
-          <table className="data-table">
-            <caption className="sr-only">Runs, newest first</caption>
-            <thead>
-              <tr>
-                <th scope="col">Run</th>
-                <th scope="col">Chamber</th>
-                <th scope="col">Resin lot</th>
-                <th scope="col">Coupons</th>
-                <th scope="col">Stage</th>
-                <th scope="col">Next due</th>
-                <th scope="col">Checks</th>
-              </tr>
-            </thead>
-            <tbody>
-              {runs.data.items.map((r) => (
-                <tr key={r.id}>
-                  <th scope="row" className="border-b border-paper-edge font-normal">
-                    <Link to={paths.run.href({ id: r.id })}>{r.code}</Link>
-                    {r.startedAt && <div className="text-xs text-ink-faint">started {dateTime(r.startedAt)}</div>}
-                  </th>
-                  <td>{r.chamber}</td>
-                  <td>{r.lotCode ? `${r.lotCode} (${r.resinName ?? 'resin'})` : <span className="text-ink-soft">none</span>}</td>
-                  <td>
-                    <Link to={paths.runCoupons.href({ id: r.id })} aria-label={`${r.couponCount} coupons of run ${r.code}, open the entry grid`}>
-                      {r.couponCount}
-                    </Link>
-                  </td>
-                  <td>{currentStageText(r)}</td>
-                  <td>{r.nextDue ? <DueTime dueAt={r.nextDue.dueAt} now={now} /> : <span className="text-ink-soft">—</span>}</td>
-                  <td>
-                    <CheckCounts counts={r.checkCounts} />
-                  </td>
+          <div className="overflow-x-auto">
+            <table className="data-table">
+              <caption className="sr-only">Runs matching the filters</caption>
+              <thead>
+                <tr>
+                  <SortHeader label="Run" field="code" sort={sort} onSort={(v) => list.set({ sort: v })} />
+                  <SortHeader label="Chamber" field="chamber" sort={sort} onSort={(v) => list.set({ sort: v })} />
+                  <th scope="col">Resin lot</th>
+                  <th scope="col">Coupons</th>
+                  <th scope="col">Stage</th>
+                  <th scope="col">Next due</th>
+                  <th scope="col">Checks</th>
+                  <SortHeader label="Created" field="createdAt" sort={sort} onSort={(v) => list.set({ sort: v })} />
                 </tr>
-              ))}
-            </tbody>
-          </table>
-          <Pager page={page} pageSize={runs.data.pageSize} total={runs.data.total} onPage={setPage} />
+              </thead>
+              <tbody>
+                {runs.data.items.map((r) => (
+                  <tr key={r.id}>
+                    <th scope="row" className="border-b border-paper-edge font-normal">
+                      <Link to={paths.run.href({ id: r.id })}>{r.code}</Link>
+                      {r.startedAt && <div className="text-xs text-ink-faint">started {dateTime(r.startedAt)}</div>}
+                    </th>
+                    <td>{r.chamber}</td>
+                    <td>{r.lotCode ? `${r.lotCode} (${r.resinName ?? 'resin'})` : <span className="text-ink-soft">none</span>}</td>
+                    <td>
+                      <Link to={paths.runCoupons.href({ id: r.id })} aria-label={`${r.couponCount} coupons of run ${r.code}, open the entry grid`}>
+                        {r.couponCount}
+                      </Link>
+                    </td>
+                    <td>{currentStageText(r)}</td>
+                    <td>{r.nextDue ? <DueTime dueAt={r.nextDue.dueAt} now={now} /> : <span className="text-ink-soft">—</span>}</td>
+                    <td>
+                      <CheckCounts counts={r.checkCounts} />
+                    </td>
+                    <td className="whitespace-nowrap text-xs">{dateTime(r.createdAt)}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </div>
+          <Pager page={list.page} pageSize={runs.data.pageSize} total={runs.data.total} onPage={list.setPage} what="runs" />
         </>
       )}
     </Page>
-  );
-}
-
-export function Pager({ page, pageSize, total, onPage }: { page: number; pageSize: number; total: number; onPage: (p: number) => void }) {
-  const pages = Math.max(1, Math.ceil(total / pageSize));
-  if (pages === 1) return <p className="mt-2 text-sm text-ink-faint">{total} in all.</p>;
-  return (
-    <nav aria-label="Pages" className="mt-3 flex items-center gap-3 text-sm">
-      <button type="button" className="btn-quiet" disabled={page <= 1} onClick={() => onPage(page - 1)}>
-        Previous
-      </button>
-      <span>
-        Page {page} of {pages} ({total} in all)
-      </span>
-      <button type="button" className="btn-quiet" disabled={page >= pages} onClick={() => onPage(page + 1)}>
-        Next
-      </button>
-    </nav>
   );
 }

@@ -2,18 +2,20 @@ import { useMemo, useRef } from 'react';
 import { useFieldArray, useForm } from 'react-hook-form';
 import { GAUGE_UNITS, type GaugeUnit, type RunStage } from '../../../../shared/constants/records';
 import { DomainError } from '../../../../shared/domain/errors';
-import { absolutePressureFromGauge, percentVacuum } from '../../../../shared/domain/vacuum';
+import { WEATHER_ALLOWANCE, chamberPressure, standardPressureAtAltitude } from '../../../../shared/domain/vacuum';
 import { recordStageSchema, type RecordStageInput, type RunDetail, type RunStageOut } from '../../../../shared/schemas/runs';
 import { STAGE_LABELS } from '../../../../shared/runs/stages';
+import { vacuumStartWarning } from '../../../../shared/runs/contradictions';
+import { EntryWarnings, useGoOnAnyway } from '../../../components/ui/entry-warnings';
 import { convertPressure } from '../../../../shared/units';
 import { Field, FormError } from '../../../components/ui/field';
 import { NumberField } from '../../../components/ui/number-field';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { renameFields } from '../../../lib/form-values';
 import { fromLocalInput, toLocalInput } from '../../../lib/format/dates';
-import { numberInput, toSi, type DisplayUnits } from '../../../lib/forms/number-input';
+import { numberInput, toBox, toSi, type DisplayUnits } from '../../../lib/forms/number-input';
 import { convertingResolver } from '../../../lib/forms/resolver';
-import { useUnits } from '../../../lib/use-units';
+import { useUnits, type Units } from '../../../lib/use-units';
 import { useRecordStage } from '../api/use-record-stage';
 
 interface ReadingValues {
@@ -29,6 +31,8 @@ export interface StageFormValues {
   plannedHours: number | null;
   plannedMins: number | null;
   bubblingStoppedAt: string;
+  /** The shop's barometer, in the user's pressure unit; empty when the shop has none. */
+  barometer: number | null;
   ovenSetC: number | null;
   ovenMeasuredC: number | null;
   notes: string;
@@ -65,7 +69,10 @@ export function toStageInput(v: StageFormValues, { stage, mode, existing, end, u
     readings: v.readings.filter((r) => r.gaugeValue !== null).map((r) => ({ at: when(r.at), gaugeValue: r.gaugeValue, gaugeUnit: r.gaugeUnit })),
   };
   if (end) input.endedAt = when(v.endedAt);
-  if (stage === 'vacuum') input.bubblingStoppedAt = fromLocalInput(v.bubblingStoppedAt);
+  if (stage === 'vacuum') {
+    input.bubblingStoppedAt = fromLocalInput(v.bubblingStoppedAt);
+    input.barometerKpa = toSi(v.barometer, 'pressure', units);
+  }
   if (hasOven(stage)) {
     input.ovenSetC = toSi(v.ovenSetC, 'temperature', units);
     input.ovenMeasuredC = toSi(v.ovenMeasuredC, 'temperature', units);
@@ -74,34 +81,81 @@ export function toStageInput(v: StageFormValues, { stage, mode, existing, end, u
 }
 
 // The contract names fields in SI; the form's fields carry the same names except the planned length.
-const RENAMES = { plannedMinutes: 'plannedHours' };
+const RENAMES = { plannedMinutes: 'plannedHours', barometerKpa: 'barometer' };
 const REQUIRED = { startedAt: 'Enter a date and time', endedAt: 'Enter a date and time' };
 
 export const GAUGE_NOTE =
   'A vacuum gauge shows how far below the local air pressure the chamber is, and reads about 1 inHg less per 1,000 ft of altitude; absolute pressure and % vacuum are what compare across shops and altitudes.';
 
-/** Live preview of one gauge reading at the run's altitude, with the same arithmetic the server uses. */
-function ReadingPreview({ value, unit, altitudeM }: { value: number | null | undefined; unit: GaugeUnit; altitudeM: number }) {
-  const units = useUnits();
-  const n = value ?? null;
-  if (n === null) return null;
-  if (Number.isNaN(n)) return <span className="text-margin">not a number</span>;
+type FormatUnits = Pick<Units, 'format'>;
+
+/**
+ * Which ambient the readings are subtracted from, in words: the shop's barometer when the box holds a
+ * plausible reading (kPa), else the ISO 2533 standard atmosphere at the run's altitude; with the weather
+ * allowance and what happens within it. Pure, so it is tested on its own.
+ */
+export function ambientText(barometerKpa: number | null, altitudeM: number, units: FormatUnits): string {
+  const allowance = `A gauge may read up to ${WEATHER_ALLOWANCE * 100} % more vacuum than that (weather, gauge error); the absolute pressure is then taken as 0.`;
+  if (barometerKpa !== null && Number.isFinite(barometerKpa)) {
+    return `Readings are worked out against the shop's barometer, ${units.format(barometerKpa, 'pressure')}. ${allowance}`;
+  }
+  let standard: string;
   try {
-    const abs = absolutePressureFromGauge(convertPressure(n, unit, 'kPa'), altitudeM);
-    const pv = percentVacuum(abs, altitudeM);
-    return (
-      <span className="text-ink-soft">
-        = {units.format(abs, 'pressure')} absolute, {pv.toFixed(1)} % vacuum
-      </span>
-    );
+    standard = units.format(standardPressureAtAltitude(altitudeM), 'pressure');
   } catch (e) {
     if (!(e instanceof DomainError)) throw e;
-    return (
-      <span className="text-margin">
-        {e.code === 'vacuum-exceeds-ambient' ? 'more vacuum than the air pressure at this altitude: check the unit' : 'a gauge cannot read below zero'}
-      </span>
-    );
+    standard = 'unknown';
   }
+  return `Readings are worked out against the ISO 2533 standard atmosphere at ${units.format(altitudeM, 'altitude')}, ${standard}; a barometer reading takes its place. ${allowance}`;
+}
+
+/** One gauge reading as the preview words it, with the same arithmetic the server uses. Pure. */
+export function readingPreviewText(
+  value: number | null | undefined,
+  unit: GaugeUnit,
+  where: { altitudeM: number; barometerKpa: number | null },
+  units: FormatUnits,
+): { text: string; problem: boolean } | null {
+  const n = value ?? null;
+  if (n === null) return null;
+  if (Number.isNaN(n)) return { text: 'not a number', problem: true };
+  const barometerKpa = where.barometerKpa !== null && Number.isFinite(where.barometerKpa) ? where.barometerKpa : null;
+  try {
+    const p = chamberPressure(convertPressure(n, unit, 'kPa'), { altitudeM: where.altitudeM, barometerKpa });
+    const against = p.ambientSource === 'barometer' ? 'the barometer' : 'the standard atmosphere';
+    const text = p.clamped
+      ? `= 0 absolute, 100 % vacuum: more vacuum than ${against} (${units.format(p.ambientKpa, 'pressure')}), within the weather allowance, so taken as 0`
+      : `= ${units.format(p.absoluteKpa, 'pressure')} absolute, ${p.percentVacuum.toFixed(1)} % vacuum against ${against}`;
+    return { text, problem: false };
+  } catch (e) {
+    if (!(e instanceof DomainError)) throw e;
+    if (e.field === 'barometerKpa') return { text: 'the barometer reading is not a plausible air pressure', problem: true };
+    if (e.code === 'vacuum-exceeds-ambient') {
+      return {
+        text: `more vacuum than ${barometerKpa !== null ? 'the barometer reading' : 'the air pressure at this altitude'} allows, even on a high-pressure day: check the unit`,
+        problem: true,
+      };
+    }
+    return { text: 'a gauge cannot read below zero', problem: true };
+  }
+}
+
+/** Live preview of one gauge reading against the ambient in use. */
+function ReadingPreview({
+  value,
+  unit,
+  altitudeM,
+  barometerKpa,
+}: {
+  value: number | null | undefined;
+  unit: GaugeUnit;
+  altitudeM: number;
+  barometerKpa: number | null;
+}) {
+  const units = useUnits();
+  const preview = readingPreviewText(value, unit, { altitudeM, barometerKpa }, units);
+  if (!preview) return null;
+  return <span className={preview.problem ? 'text-margin' : 'text-ink-soft'}>{preview.text}</span>;
 }
 
 function ErrorText({ id, message }: { id: string; message?: string }) {
@@ -155,6 +209,7 @@ export function StageForm({
       plannedHours: existing?.plannedMinutes != null ? Math.floor(existing.plannedMinutes / 60) : null,
       plannedMins: existing?.plannedMinutes != null ? existing.plannedMinutes % 60 : null,
       bubblingStoppedAt: existing?.bubblingStoppedAt ? toLocalInput(existing.bubblingStoppedAt) : '',
+      barometer: toBox(existing?.barometerKpa, 'pressure', units),
       ovenSetC: temp(existing?.ovenSetC),
       ovenMeasuredC: temp(existing?.ovenMeasuredC),
       notes: existing?.notes ?? '',
@@ -164,13 +219,23 @@ export function StageForm({
   const readings = useFieldArray({ control: form.control, name: 'readings' });
   const { errors } = form.formState;
   const watched = form.watch('readings');
+  const barometerBox = form.watch('barometer');
+  const barometerKpa = barometerBox === null || Number.isNaN(barometerBox) ? null : units.fromDisplay(barometerBox, 'pressure');
   const label = STAGE_LABELS[stage];
   const lower = label.toLowerCase();
   const idp = `st-${run.id}-${stage}-${mode}`;
+  // Once the vacuum starts the resin goes in: a coupon without a dry weight then has no uptake, ever.
+  const contradictions = useMemo(() => {
+    if (stage !== 'vacuum' || mode !== 'start') return [];
+    const w = vacuumStartWarning(run.coupons.map((c) => ({ id: c.id, tag: c.tag, role: c.role, hasDryWeighing: c.stagesWeighed.includes('dry') })));
+    return w ? [w] : [];
+  }, [run.coupons, stage, mode]);
+  const gate = useGoOnAnyway(contradictions);
 
   const submit = (end: boolean) => {
     ending.current = end;
     return form.handleSubmit(async (input) => {
+      if (!gate.mayGoOn()) return;
       try {
         await record.mutateAsync(input);
         form.setValue('readings', []);
@@ -182,6 +247,7 @@ export function StageForm({
           'endedAt',
           'plannedHours',
           'bubblingStoppedAt',
+          'barometer',
           'ovenSetC',
           'ovenMeasuredC',
           'notes',
@@ -248,6 +314,17 @@ export function StageForm({
         <fieldset className="mb-3">
           <legend className="field-label">Gauge readings</legend>
           <p className="mb-2 text-xs text-ink-faint">{GAUGE_NOTE}</p>
+          <NumberField
+            className="max-w-xs"
+            form={form}
+            name="barometer"
+            label="Shop barometer (optional)"
+            quantity="pressure"
+            hint="The air pressure the barometer in the shop shows now (station pressure), not the sea-level figure of a weather report."
+          />
+          <p id={`${idp}-ambient`} className="mb-2 text-sm text-ink-soft" aria-live="polite">
+            {ambientText(barometerKpa, run.altitudeM, units)}
+          </p>
           {readings.fields.length === 0 && <p className="text-sm text-ink-soft">No new reading.</p>}
           <ol className="space-y-2">
             {readings.fields.map((f, i) => {
@@ -296,7 +373,7 @@ export function StageForm({
                     </select>
                   </div>
                   <p id={`${idp}-r${i}-preview`} className="pb-2 text-sm" aria-live="polite">
-                    {w && <ReadingPreview value={w.gaugeValue} unit={w.gaugeUnit} altitudeM={run.altitudeM} />}
+                    {w && <ReadingPreview value={w.gaugeValue} unit={w.gaugeUnit} altitudeM={run.altitudeM} barometerKpa={barometerKpa} />}
                   </p>
                   <button type="button" className="btn-quiet mb-1" onClick={() => readings.remove(i)}>
                     Remove<span className="sr-only"> reading {i + 1}</span>
@@ -341,6 +418,7 @@ export function StageForm({
         </label>
         <textarea id={`${idp}-notes`} rows={2} className="field-input" {...form.register('notes')} />
       </div>
+      <EntryWarnings warnings={contradictions} gate={gate} action={`start the ${lower}`} className="mb-3" />
       <div className="flex flex-wrap gap-2">
         {mode === 'start' ? (
           <button type="submit" className="btn-primary" disabled={form.formState.isSubmitting}>

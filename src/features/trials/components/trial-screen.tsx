@@ -39,15 +39,31 @@ function TrialView({ trial }: { trial: Trial }) {
   const create = useCreatePlannedCoupons(trial.id);
   const missing = trial.totals.planned - trial.totals.created;
 
+  // Once every planned coupon exists, creating them is no longer the next step: the button steps back
+  // (quiet, last) and the grid, where the measurements go, comes first.
+  const allMade = missing <= 0;
+  const createButton = (
+    <button
+      type="button"
+      className={allMade ? 'btn-quiet' : 'btn-primary'}
+      title={allMade ? 'Every planned coupon exists; this adds only what a changed plan is missing' : undefined}
+      onClick={() => create.mutate()}
+      disabled={create.isPending}
+    >
+      Create the planned coupons
+    </button>
+  );
+
   return (
     <Page
       title={`${trial.code} · ${trial.title}`}
       actions={
         <>
-          {can('technician') && (
-            <button type="button" className="btn-primary" onClick={() => create.mutate()} disabled={create.isPending}>
-              Create the planned coupons
-            </button>
+          {can('technician') && !allMade && createButton}
+          {trial.totals.created > 0 && (
+            <Link to={paths.trialCoupons.href({ id: trial.id })} className={`${allMade ? 'btn-primary' : 'btn-quiet'} no-underline`}>
+              Entry grid
+            </Link>
           )}
           {can('technician') && trial.status !== 'closed' && (
             <Link to={paths.trialEdit.href({ id: trial.id })} className="btn-quiet no-underline">
@@ -60,6 +76,7 @@ function TrialView({ trial }: { trial: Trial }) {
           <Link to={paths.compare.href({ trialId: trial.id })} className="btn-quiet no-underline">
             Results in Compare
           </Link>
+          {can('technician') && allMade && createButton}
         </>
       }
     >
@@ -83,6 +100,34 @@ function TrialView({ trial }: { trial: Trial }) {
         <dd>
           {trial.totals.created} of {trial.totals.planned} planned made
           {missing > 0 && `; ${missing} still to create`}
+          {trial.totals.created > 0 && (
+            <>
+              {' · '}
+              <Link to={paths.coupons.href({ trialId: trial.id })}>list of its coupons</Link>
+              {' · '}
+              <Link to={paths.trialCoupons.href({ id: trial.id })}>entry grid</Link>
+            </>
+          )}
+        </dd>
+        <dt className="font-semibold text-ink-soft">Runs</dt>
+        <dd>
+          {trial.runs.length === 0 ? (
+            'none of its coupons is in a run yet'
+          ) : (
+            <ul className="flex flex-wrap gap-x-3">
+              {trial.runs.map((r) => (
+                <li key={r.id}>
+                  <Link to={paths.run.href({ id: r.id })}>{r.code}</Link> ({r.couponCount} coupon{r.couponCount === 1 ? '' : 's'})
+                </li>
+              ))}
+            </ul>
+          )}
+          {can('technician') && trial.totals.created > 0 && (
+            <>
+              {' '}
+              <Link to={paths.runNew.href()}>new run</Link>
+            </>
+          )}
         </dd>
         {trial.notes && (
           <>

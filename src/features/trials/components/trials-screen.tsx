@@ -1,14 +1,16 @@
 import { useQuery } from '@tanstack/react-query';
-import { useDeferredValue, useState } from 'react';
 import { Link } from 'react-router-dom';
-import { TRIAL_STATUSES, type TrialStatus } from '../../../../shared/constants/records';
-import type { TrialSummary } from '../../../../shared/schemas/trials';
+import { TRIAL_STATUSES } from '../../../../shared/constants/records';
+import { TRIAL_SORTS, type TrialListQuery, type TrialSummary } from '../../../../shared/schemas/trials';
+import { ExportLink, FilterSelect, Pager, SearchBox, SortHeader } from '../../../components/ui/list-tools';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
+import { queryOf, useListParams } from '../../../lib/list-params';
 import { useRole } from '../../../lib/session';
 import { trialListQuery } from '../../../lib/queries/records';
 import { TRIAL_STATUS_LABELS } from './labels';
 import { ProgressBar } from './progress-bar';
 import { paths } from '../../../config/paths';
+import { formatDate } from '../../../lib/format/dates';
 
 const PAGE_SIZE = 25;
 
@@ -16,14 +18,25 @@ function gridSize(t: TrialSummary): string {
   return `${t.speciesCount} species × ${t.resinCount} resin${t.resinCount === 1 ? '' : 's'}`;
 }
 
+/** The trial list's sort, search and filter as the address holds them. */
+export function trialFiltersOf(get: (key: string) => string): Omit<TrialListQuery, 'page' | 'pageSize'> {
+  const sort = get('sort');
+  return {
+    sort: sort && TRIAL_SORTS.includes(sort.replace(/^-/, '') as (typeof TRIAL_SORTS)[number]) ? sort : undefined,
+    q: get('q') || undefined,
+    status: TRIAL_STATUSES.find((x) => x === get('status')),
+  };
+}
+
 export function TrialsScreen() {
   const { can } = useRole();
-  const [q, setQ] = useState('');
-  const [status, setStatus] = useState<TrialStatus | ''>('');
-  const [page, setPage] = useState(1);
-  const deferredQ = useDeferredValue(q.trim());
-  const list = useQuery(trialListQuery({ q: deferredQ || undefined, status: status || undefined, page, pageSize: PAGE_SIZE }));
-  const pages = list.data ? Math.max(1, Math.ceil(list.data.total / PAGE_SIZE)) : 1;
+  const list = useListParams();
+  const filters = trialFiltersOf(list.get);
+  const trials = useQuery(trialListQuery({ ...filters, page: list.page, pageSize: PAGE_SIZE }));
+  const sort = filters.sort ?? '-createdAt';
+  const header = (label: string, field: (typeof TRIAL_SORTS)[number], className?: string) => (
+    <SortHeader label={label} field={field} sort={sort} onSort={(v) => list.set({ sort: v })} className={className} />
+  );
 
   return (
     <Page
@@ -36,96 +49,66 @@ export function TrialsScreen() {
         ) : undefined
       }
     >
-      <div className="mb-4 flex flex-wrap items-end gap-4">
-        <div>
-          <label htmlFor="trial-search" className="field-label">
-            Search by code, title or question
-          </label>
-          <input
-            id="trial-search"
-            type="search"
-            className="field-input"
-            value={q}
-            onChange={(e) => {
-              setQ(e.target.value);
-              setPage(1);
-            }}
-          />
-        </div>
-        <div>
-          <label htmlFor="trial-status" className="field-label">
-            Status
-          </label>
-          <select
-            id="trial-status"
-            className="field-input"
-            value={status}
-            onChange={(e) => {
-              setStatus(e.target.value as TrialStatus | '');
-              setPage(1);
-            }}
-          >
-            <option value="">Any status</option>
-            {TRIAL_STATUSES.map((s) => (
-              <option key={s} value={s}>
-                {TRIAL_STATUS_LABELS[s]}
-              </option>
-            ))}
-          </select>
-        </div>
+      <div className="no-print mb-2 grid gap-x-4 sm:grid-cols-3" role="search" aria-label="Filter the trials">
+        <SearchBox label="Search by code, title or question" value={filters.q ?? ''} onSearch={(q) => list.set({ q })} className="mb-3" />
+        <FilterSelect
+          className="mb-3"
+          label="Status"
+          any="Any status"
+          value={filters.status}
+          onChange={(v) => list.set({ status: v })}
+          options={TRIAL_STATUSES.map((st) => ({ value: st, label: TRIAL_STATUS_LABELS[st] }))}
+        />
       </div>
-      {list.isPending ? (
+      <div className="mb-2 flex justify-end">
+        <ExportLink href={`/api/trials/export.csv${queryOf(filters)}`} what="trials" />
+      </div>
+      {trials.isPending ? (
         <Loading />
-      ) : list.isError ? (
-        <ErrorNote error={list.error} />
-      ) : list.data.items.length === 0 ? (
-        <p className="text-ink-soft">{deferredQ || status ? 'No trial matches.' : 'No trials yet.'}</p>
+      ) : trials.isError ? (
+        <ErrorNote error={trials.error} />
+      ) : trials.data.items.length === 0 ? (
+        <p className="text-ink-soft">{filters.q || filters.status ? 'No trial matches.' : 'No trials yet.'}</p>
       ) : (
         <>
           <div className="overflow-x-auto">
             <table className="data-table">
-              <caption className="sr-only">Trials, newest first</caption>
+              <caption className="sr-only">Trials matching the filters</caption>
               <thead>
                 <tr>
-                  <th scope="col">Code</th>
-                  <th scope="col">Title</th>
-                  <th scope="col">Status</th>
+                  {header('Code', 'code')}
+                  {header('Title', 'title')}
+                  {header('Status', 'status')}
                   <th scope="col">Grid</th>
                   <th scope="col">Coupons</th>
                   <th scope="col">Progress</th>
+                  {header('Created', 'createdAt')}
                 </tr>
               </thead>
               <tbody>
-                {list.data.items.map((t) => {
-                  return (
-                    <tr key={t.id}>
-                      <th scope="row" className="border-b border-paper-edge text-left font-normal text-ink whitespace-nowrap">
-                        <Link to={paths.trial.href({ id: t.id })}>{t.code}</Link>
-                      </th>
-                      <td>{t.title}</td>
-                      <td>{TRIAL_STATUS_LABELS[t.status]}</td>
-                      <td className="whitespace-nowrap">{gridSize(t)}</td>
-                      <td className="tabular-nums">{`${t.couponCount} of ${t.plannedCount}`}</td>
-                      <td>
-                        <ProgressBar done={t.doneCount} planned={t.plannedCount} />
-                      </td>
-                    </tr>
-                  );
-                })}
+                {trials.data.items.map((t) => (
+                  <tr key={t.id}>
+                    <th scope="row" className="border-b border-paper-edge text-left font-normal text-ink whitespace-nowrap">
+                      <Link to={paths.trial.href({ id: t.id })}>{t.code}</Link>
+                    </th>
+                    <td>{t.title}</td>
+                    <td>{TRIAL_STATUS_LABELS[t.status]}</td>
+                    <td className="whitespace-nowrap">{gridSize(t)}</td>
+                    <td className="tabular-nums">
+                      <Link to={paths.coupons.href({ trialId: t.id })} aria-label={`${t.couponCount} of ${t.plannedCount} planned coupons, their list`}>
+                        {`${t.couponCount} of ${t.plannedCount}`}
+                      </Link>
+                    </td>
+                    <td>
+                      <ProgressBar done={t.doneCount} planned={t.plannedCount} />
+                    </td>
+                    <td className="whitespace-nowrap text-xs">{formatDate(t.createdAt)}</td>
+                  </tr>
+                ))}
               </tbody>
             </table>
           </div>
-          <nav aria-label="Pages of trials" className="mt-3 flex items-center gap-3 text-sm">
-            <button type="button" className="btn-quiet" disabled={page <= 1} onClick={() => setPage((p) => p - 1)}>
-              Previous page
-            </button>
-            <span role="status">
-              Page {page} of {pages} · {list.data.total} trial{list.data.total === 1 ? '' : 's'}
-            </span>
-            <button type="button" className="btn-quiet" disabled={page >= pages} onClick={() => setPage((p) => p + 1)}>
-              Next page
-            </button>
-          </nav>
+          <Pager page={list.page} pageSize={trials.data.pageSize} total={trials.data.total} onPage={list.setPage} what="trials" />
         </>
       )}
     </Page>

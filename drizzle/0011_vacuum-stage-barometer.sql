@@ -1,0 +1,1 @@
+ALTER TABLE `run_stages` ADD `barometer_kpa` real;
