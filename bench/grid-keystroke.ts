@@ -73,7 +73,7 @@ declare global {
 
 async function measure(page: Page, trialId: number, size: number) {
   const started = Date.now();
-  await page.goto(`/coupons?trialId=${trialId}`);
+  await page.goto(`/trials/${trialId}/coupons`);
   const grid = page.getByRole('grid');
   await grid.waitFor({ timeout: 180_000 });
   const rows = await grid.getAttribute('aria-rowcount');
