@@ -1,4 +1,4 @@
-import { and, asc, count, desc, eq, inArray, isNull, or, sql, type SQL } from 'drizzle-orm';
+import { and, asc, count, desc, eq, inArray, isNull, like, or, sql, type SQL } from 'drizzle-orm';
 import type { Option, OptionsQuery } from '../../../shared/schemas/options';
 import type { SQLiteColumn } from 'drizzle-orm/sqlite-core';
 import type { Db } from '../../db/client';
@@ -232,3 +232,35 @@ export function runOptions(db: Db, q: OptionsQuery): Option[] {
 }
 
 const containsText = (col: SQLiteColumn, q: string) => sql`${col} like ${`%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`} escape '\\'`;
+
+// ───────── writes of the runs service (its list and reads query through the functions above) ─────────
+
+export type RunInsert = typeof runs.$inferInsert;
+
+export function insertRun(db: Db, values: RunInsert): RunRow {
+  return db.insert(runs).values(values).returning().get();
+}
+
+export function updateRunRow(db: Db, id: number, values: Partial<RunInsert>): RunRow {
+  return db.update(runs).set(values).where(eq(runs.id, id)).returning().get();
+}
+
+/** How many runs have a code starting with `prefix` (the year's prefix of generated codes). */
+export function countRunCodesStartingWith(db: Db, prefix: string): number {
+  return (
+    db
+      .select({ n: count() })
+      .from(runs)
+      .where(like(runs.code, `${prefix}%`))
+      .get()?.n ?? 0
+  );
+}
+
+/** Puts a coupon in a run, or (null) takes it out. */
+export function setCouponRun(db: Db, couponId: number, runId: number | null): void {
+  db.update(coupons).set({ runId }).where(eq(coupons.id, couponId)).run();
+}
+
+export function insertStageRow(db: Db, values: typeof runStages.$inferInsert): StageRow {
+  return db.insert(runStages).values(values).returning().get();
+}
