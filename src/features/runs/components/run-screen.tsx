@@ -195,7 +195,7 @@ function Timeline({ run, now, focusStage }: { run: RunDetail; now: Date; focusSt
               </h3>
               {rec && <StageFacts s={rec} run={run} now={now} />}
               {rec && mayWrite && correcting !== stage && (
-                <button type="button" className="btn-quiet mt-1 px-2 py-0.5 text-xs" onClick={() => setCorrecting(stage)}>
+                <button type="button" className="btn-quiet mt-1 min-h-6 px-2 py-0.5 text-xs" onClick={() => setCorrecting(stage)}>
                   Correct<span className="sr-only"> the {STAGE_LABELS[stage].toLowerCase()} stage</span>…
                 </button>
               )}
@@ -301,14 +301,14 @@ export function RunScreen() {
 
       <RunContradictions run={r} />
       <div className="grid gap-6 lg:grid-cols-[3fr_2fr]">
-        <section aria-labelledby="timeline-heading" className="sheet p-5" id="stage-forms">
+        <section aria-labelledby="timeline-heading" className="sheet p-3 sm:p-5" id="stage-forms">
           <h2 id="timeline-heading" className="mb-3">
             Stages
           </h2>
           <Timeline run={r} now={now} focusStage={focusStage} />
         </section>
         <div className="space-y-6">
-          <section aria-labelledby="due-heading" className="sheet p-5">
+          <section aria-labelledby="due-heading" className="sheet p-3 sm:p-5">
             <h2 id="due-heading" className="mb-2">
               Due next
             </h2>
@@ -328,13 +328,13 @@ export function RunScreen() {
               </ul>
             )}
           </section>
-          <section aria-labelledby="checks-heading" className="sheet p-5">
+          <section aria-labelledby="checks-heading" className="sheet p-3 sm:p-5">
             <h2 id="checks-heading" className="mb-2">
               Rule checks
             </h2>
             <RuleChecks checks={r.checks} />
           </section>
-          <section aria-labelledby="coupons-heading" className="sheet p-5">
+          <section aria-labelledby="coupons-heading" className="sheet p-3 sm:p-5">
             <h2 id="coupons-heading" className="mb-2">
               Coupons in this run
             </h2>
