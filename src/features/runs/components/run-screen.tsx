@@ -20,7 +20,7 @@ import { CautionNote } from './caution-note';
 import { RuleChecks } from './rule-checks';
 import { CorrectStageForm } from './correct-stage-form';
 import { RunHistoryPanel } from './run-history';
-import { GAUGE_NOTE, StageForm } from './stage-form';
+import { gaugeNote, StageForm } from './stage-form';
 import { DueTime, dateTime, formatSpan } from './time-text';
 import { paths } from '../../../config/paths';
 
@@ -112,7 +112,8 @@ function StageFacts({ s, run, now }: { s: RunStageOut; run: RunDetail; now: Date
                 {s.readings.map((r) => (
                   <tr key={r.id}>
                     <td>{dateTime(r.at)}</td>
-                    <td>
+                    {/* As the gauge showed it, in the unit printed on the gauge; the next columns are in the user's units. */}
+                    <td data-units-as-entered="">
                       {r.gaugeValue} {r.gaugeUnit}
                     </td>
                     <td>{units.format(r.absoluteKpa, 'pressure')}</td>
@@ -121,7 +122,7 @@ function StageFacts({ s, run, now }: { s: RunStageOut; run: RunDetail; now: Date
                 ))}
               </tbody>
             </table>
-            <p className="mt-1 text-xs text-ink-faint">{GAUGE_NOTE}</p>
+            <p className="mt-1 text-xs text-ink-faint">{gaugeNote(units)}</p>
           </dd>
         </>
       )}
