@@ -1,6 +1,7 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { STATUS_OF, type ErrorCode } from '../../shared/constants/errors';
 import type { ErrorEnvelope } from '../../shared/schemas/common';
+import { DomainError } from '../../shared/domain/errors';
 import { storageProblem } from '../db/storage-errors';
 import { AppError } from './errors';
 import type { AuthedRequest } from './types';
@@ -15,7 +16,8 @@ export const apiNotFound: RequestHandler = (req, res) => {
 };
 
 /**
- * The one error middleware. Known errors keep their message; body-parser's errors get plain words;
+ * The one error middleware. Known errors keep their message; a DomainError is a 422 naming its field;
+ * body-parser's errors get plain words;
  * everything else is a 500 whose stack goes to the log only.
  */
 export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
@@ -23,6 +25,12 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   if (res.headersSent) return;
   if (err instanceof AppError) {
     res.status(STATUS_OF[err.code]).json(envelope(err.code, err.message, requestId, err.fieldErrors));
+    return;
+  }
+  // The domain refuses physically impossible input with the argument it came from; a service that did not
+  // word it for its own form still answers 422 naming that field, never a 500.
+  if (err instanceof DomainError) {
+    res.status(STATUS_OF.unprocessable).json(envelope('unprocessable', err.message, requestId, { [err.field]: [err.message] }));
     return;
   }
   const type = (err as { type?: string }).type;

@@ -4,10 +4,14 @@ import { DEFAULT_SG_COV, SG_WARNING_SDS, sgWarningText } from '../coupons/plausi
 import type { AnalysisCoupon, Fit, Outlier, Overview } from '../schemas/analysis';
 import { fitThroughOrigin, fmt, t975 } from './stats';
 
-export interface XY {
-  c: AnalysisCoupon;
-  x: number;
-  y: number;
+/**
+ * Points are passed as parallel arrays (the coupons, their x and their y, same positions) rather than
+ * one object per point, so a hundred thousand coupons make three arrays, not a hundred thousand objects.
+ */
+export interface Points {
+  coupons: readonly AnalysisCoupon[];
+  x: number[];
+  y: number[];
 }
 
 /** Beyond this many residual SDs (internally studentized) a coupon is listed as an outlier; common practice. */
@@ -38,11 +42,9 @@ export interface SimpleFitResult {
  * ŷ(x) ± t₀.₉₇₅,ₙ₋₂ · s · √(1/n + (x − x̄)²/Sxx) (e.g. NIST/SEMATECH e-Handbook §4.5.2, section from memory).
  * `per` is the step the sentence speaks in (0.1 of SG, 1 mm). Null with a reason when no line can be fitted.
  */
-export function simpleFit(model: 'density' | 'thickness', pts: readonly XY[]): SimpleFitResult | { note: string } {
+export function simpleFit(model: 'density' | 'thickness', x: number[], y: number[]): SimpleFitResult | { note: string } {
   const what = model === 'density' ? 'oven-dry SG' : 'thickness';
-  if (pts.length < 3) return { note: `No WPG–${what} line: it needs at least 3 coupons, and ${pts.length} have both values.` };
-  const x = pts.map((p) => p.x);
-  const y = pts.map((p) => p.y);
+  if (x.length < 3) return { note: `No WPG–${what} line: it needs at least 3 coupons, and ${x.length} have both values.` };
   let linear: LinearFit;
   try {
     linear = fitLinear(x, y);
@@ -51,8 +53,11 @@ export function simpleFit(model: 'density' | 'thickness', pts: readonly XY[]): S
     throw e;
   }
   const n = linear.n;
-  const xMean = x.reduce((s, v) => s + v, 0) / n;
-  const sxx = x.reduce((s, v) => s + (v - xMean) * (v - xMean), 0);
+  let sum = 0;
+  for (let i = 0; i < n; i++) sum += x[i] as number;
+  const xMean = sum / n;
+  let sxx = 0;
+  for (let i = 0; i < n; i++) sxx += ((x[i] as number) - xMean) ** 2;
   const t = t975(n - 2);
   let lo = Infinity;
   let hi = -Infinity;
@@ -99,14 +104,13 @@ export function simpleFit(model: 'density' | 'thickness', pts: readonly XY[]): S
  * WPG on oven-dry SG and thickness together, by the core's `fitMultiple` (QR), with a plain reading at
  * equal thickness and at equal SG.
  */
-export function multipleFit(pts: readonly { sg: number; thickness: number; y: number }[]): Fit | { note: string } {
-  if (pts.length < 4) return { note: `No fit on SG and thickness together: it needs at least 4 coupons, and ${pts.length} have all three values.` };
+export function multipleFit(sgs: readonly number[], thicknesses: readonly number[], y: number[]): Fit | { note: string } {
+  if (y.length < 4) return { note: `No fit on SG and thickness together: it needs at least 4 coupons, and ${y.length} have all three values.` };
   let m;
   try {
-    m = fitMultiple(
-      pts.map((p) => [p.sg, p.thickness]),
-      pts.map((p) => p.y),
-    );
+    const rows = new Array<number[]>(y.length);
+    for (let i = 0; i < y.length; i++) rows[i] = [sgs[i] as number, thicknesses[i] as number];
+    m = fitMultiple(rows, y);
   } catch (e) {
     if (e instanceof DomainError) {
       const why = e.code === 'rank-deficient' ? 'SG or thickness does not vary independently (e.g. every coupon has the same thickness)' : e.message;
@@ -135,22 +139,25 @@ export function multipleFit(pts: readonly { sg: number; thickness: number; y: nu
  * RESIDUAL_OUTLIER_Z on the WPG–SG line; and a measured SG beyond SG_WARNING_SDS species SDs from the
  * species reference (the same rule the entry grid flags with).
  */
-export function findOutliers(pts: readonly XY[], fit: SimpleFitResult | null, all: readonly AnalysisCoupon[]): Outlier[] {
+export function findOutliers(pts: Points, fit: SimpleFitResult | null, all: readonly AnalysisCoupon[]): Outlier[] {
   const out: Outlier[] = [];
   if (fit) {
     const { linear, xMean, sxx } = fit;
     const n = linear.n;
-    for (const p of pts) {
-      const expected = linear.intercept + linear.slope * p.x;
-      const h = 1 / n + ((p.x - xMean) * (p.x - xMean)) / sxx;
-      const z = (p.y - expected) / (linear.residualSd * Math.sqrt(Math.max(1 - h, 1e-12)));
+    for (let i = 0; i < pts.x.length; i++) {
+      const x = pts.x[i] as number;
+      const y = pts.y[i] as number;
+      const expected = linear.intercept + linear.slope * x;
+      const h = 1 / n + ((x - xMean) * (x - xMean)) / sxx;
+      const z = (y - expected) / (linear.residualSd * Math.sqrt(Math.max(1 - h, 1e-12)));
       if (Math.abs(z) > RESIDUAL_OUTLIER_Z) {
+        const c = pts.coupons[i] as AnalysisCoupon;
         out.push({
-          id: p.c.id,
-          tag: p.c.tag,
+          id: c.id,
+          tag: c.tag,
           kind: 'residual',
           value: z,
-          reason: `WPG ${fmt(p.y)} % where the line expects ${fmt(expected)} % at SG ${p.x.toFixed(3)}: a standardized residual of ${fmt(z)}.`,
+          reason: `WPG ${fmt(y)} % where the line expects ${fmt(expected)} % at SG ${x.toFixed(3)}: a standardized residual of ${fmt(z)}.`,
         });
       }
     }
@@ -177,23 +184,25 @@ export function findOutliers(pts: readonly XY[], fit: SimpleFitResult | null, al
  * points, over their SG range, with the fraction of voids filled the data imply: least squares through
  * the origin of actual WPG on each coupon's WPG_max at the plotted SG.
  */
-export function theoreticalMax(pts: readonly XY[]): Overview['theoreticalMax'] {
-  const byResin = new Map<string, { name: string; density: number; pts: XY[] }>();
-  for (const p of pts) {
-    const d = p.c.resinDensityGcm3;
-    if (d === null || p.c.resinName === null) continue;
-    const k = `${p.c.resinName}|${d}`;
-    const e = byResin.get(k) ?? { name: p.c.resinName, density: d, pts: [] };
-    e.pts.push(p);
-    byResin.set(k, e);
+export function theoreticalMax(pts: Points): Overview['theoreticalMax'] {
+  const byResin = new Map<string, { name: string; density: number; at: number[] }>();
+  for (let i = 0; i < pts.coupons.length; i++) {
+    const c = pts.coupons[i] as AnalysisCoupon;
+    const d = c.resinDensityGcm3;
+    if (d === null || c.resinName === null) continue;
+    const k = `${c.resinName}|${d}`;
+    const e = byResin.get(k);
+    if (e) e.at.push(i);
+    else byResin.set(k, { name: c.resinName, density: d, at: [i] });
   }
   const out: Overview['theoreticalMax'] = [];
-  for (const { name, density, pts: list } of byResin.values()) {
+  for (const { name, density, at } of byResin.values()) {
     let lo = Infinity;
     let hi = -Infinity;
-    for (const p of list) {
-      if (p.x < lo) lo = p.x;
-      if (p.x > hi) hi = p.x;
+    for (const i of at) {
+      const x = pts.x[i] as number;
+      if (x < lo) lo = x;
+      if (x > hi) hi = x;
     }
     lo = Math.max(0.05, lo - 0.05);
     hi = Math.min(DEFAULT_CELL_WALL_DENSITY - 0.05, hi + 0.05);
@@ -204,10 +213,11 @@ export function theoreticalMax(pts: readonly XY[]): Overview['theoreticalMax'] {
     }
     const mx: number[] = [];
     const my: number[] = [];
-    for (const p of list) {
-      if (p.x <= 0 || p.x >= DEFAULT_CELL_WALL_DENSITY) continue;
-      mx.push(maxWeightPercentGain(p.x, density));
-      my.push(p.y);
+    for (const i of at) {
+      const x = pts.x[i] as number;
+      if (x <= 0 || x >= DEFAULT_CELL_WALL_DENSITY) continue;
+      mx.push(maxWeightPercentGain(x, density));
+      my.push(pts.y[i] as number);
     }
     let impliedFill: Overview['theoreticalMax'][number]['impliedFill'] = null;
     if (mx.length >= 2) {

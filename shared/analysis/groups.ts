@@ -58,25 +58,44 @@ export function boardCounts(list: readonly Pick<AnalysisCoupon, 'sourceBoard'>[]
  * controls of the same species on the same scale (the core's `hardnessGain`).
  */
 export function speciesResinGroups(included: readonly AnalysisCoupon[], controls: readonly AnalysisCoupon[]): GroupRow[] {
-  const groups = new Map<string, AnalysisCoupon[]>();
+  // A numeric key (ids are small positive integers) spares a string per coupon; same grouping as groupKey.
+  const groups = new Map<number, AnalysisCoupon[]>();
   for (const c of included) {
-    const k = groupKey(c);
+    const k = c.speciesId * 1e7 + (c.resinId ?? 0);
     const list = groups.get(k);
     if (list) list.push(c);
     else groups.set(k, [c]);
   }
+  // Control hardness by species and scale, gathered once rather than filtered again for every group.
+  const controlHardness = new Map<string, number[]>();
+  for (const c of controls) {
+    if (c.hardnessValue === null || c.hardnessScale === null) continue;
+    const k = `${c.speciesId}|${c.hardnessScale}`;
+    const list = controlHardness.get(k);
+    if (list) list.push(c.hardnessValue);
+    else controlHardness.set(k, [c.hardnessValue]);
+  }
   const rows: GroupRow[] = [];
   for (const list of groups.values()) {
     const first = list[0] as AnalysisCoupon;
-    const pick = (f: (c: AnalysisCoupon) => number | null) => list.map(f).filter((v): v is number => v !== null);
-    const hard = list.filter((c) => c.hardnessValue !== null && c.hardnessScale !== null);
+    // One pass over the group for every column of the table.
+    const wpg: number[] = [];
+    const loading: number[] = [];
+    const fill: number[] = [];
+    const ase: number[] = [];
+    const hard: AnalysisCoupon[] = [];
+    for (const c of list) {
+      if (c.wpgPct !== null) wpg.push(c.wpgPct);
+      if (c.resinLoadingKgM3 !== null) loading.push(c.resinLoadingKgM3);
+      if (c.voidFillPct !== null) fill.push(c.voidFillPct);
+      if (c.asePct !== null) ase.push(c.asePct);
+      if (c.hardnessValue !== null && c.hardnessScale !== null) hard.push(c);
+    }
     const scale = mostCommonScale(hard);
     let gain: GroupRow['hardnessGain'] = null;
     if (scale) {
       const t = hard.filter((c) => c.hardnessScale === scale).map((c) => c.hardnessValue as number);
-      const ctl = controls
-        .filter((c) => c.speciesId === first.speciesId && c.hardnessScale === scale && c.hardnessValue !== null)
-        .map((c) => c.hardnessValue as number);
+      const ctl = controlHardness.get(`${first.speciesId}|${scale}`) ?? [];
       if (t.length > 0 && ctl.length > 0) gain = { ratio: hardnessGain(t, ctl), scale, nTreated: t.length, nControl: ctl.length };
     }
     rows.push({
@@ -86,11 +105,11 @@ export function speciesResinGroups(included: readonly AnalysisCoupon[], controls
       resinName: first.resinName,
       nCoupons: list.length,
       ...boardCounts(list),
-      wpg: statsOf(pick((c) => c.wpgPct)),
-      resinLoading: statsOf(pick((c) => c.resinLoadingKgM3)),
-      voidFill: statsOf(pick((c) => c.voidFillPct)),
+      wpg: statsOf(wpg),
+      resinLoading: statsOf(loading),
+      voidFill: statsOf(fill),
       hardnessGain: gain,
-      ase: statsOf(pick((c) => c.asePct)),
+      ase: statsOf(ase),
     });
   }
   return rows.sort((a, b) => a.speciesName.localeCompare(b.speciesName) || (a.resinName ?? '').localeCompare(b.resinName ?? ''));

@@ -1,7 +1,7 @@
 import type { AnalysisCoupon, Overview, PlotPoint, SgBasis } from '../schemas/analysis';
 import { exclusionReasons, sgOf, speciesResinGroups } from './groups';
-import { findOutliers, multipleFit, simpleFit, theoreticalMax, type SimpleFitResult, type XY } from './fits';
-import { MAX_PLOT_POINTS, thinPoints } from './thin';
+import { findOutliers, multipleFit, simpleFit, theoreticalMax, type Points, type SimpleFitResult } from './fits';
+import { MAX_PLOT_POINTS, thinTo } from './thin';
 
 const point = (c: AnalysisCoupon, x: number, y: number): PlotPoint => ({
   id: c.id,
@@ -12,6 +12,27 @@ const point = (c: AnalysisCoupon, x: number, y: number): PlotPoint => ({
   y,
 });
 
+/** Thinning groups: species × resin, as a number (ids are small positive integers), so no string per coupon. */
+const plotGroup = (c: AnalysisCoupon) => c.speciesId * 1e7 + (c.resinId ?? 0);
+
+/** Thin a set of points held as parallel arrays, building plot points only for those drawn. */
+function thinned(pts: Points, max: number, keep: ReadonlySet<number>, xy: (i: number) => [number, number] = (i) => [pts.x[i] as number, pts.y[i] as number]) {
+  const idx = pts.coupons.map((_c, i) => i);
+  return thinTo(
+    idx,
+    (i) => plotGroup(pts.coupons[i] as AnalysisCoupon),
+    (i) => (pts.coupons[i] as AnalysisCoupon).id,
+    (i) => point(pts.coupons[i] as AnalysisCoupon, ...xy(i)),
+    max,
+    keep,
+  );
+}
+
+/** A plain sample of a list for the plots without a fit (every k-th item), kept as before. */
+function every<T>(list: T[], max: number): T[] {
+  return list.length > max ? list.filter((_, i) => i % Math.ceil(list.length / max) === 0) : list;
+}
+
 /**
  * Everything the Compare screen shows for one set of filtered coupons, computed in one pass over the
  * results rows: who is included and who is excluded (with reasons), the species × resin table, the
@@ -21,42 +42,56 @@ export function buildOverview(rows: readonly AnalysisCoupon[], sgBasis: SgBasis,
   const included: AnalysisCoupon[] = [];
   const controls: AnalysisCoupon[] = [];
   const excluded: Overview['excluded'] = [];
+  const sgX: number[] = [];
+  const wpgY: number[] = [];
+  // The subset with a thickness, for the thickness fits.
+  const thickCoupons: AnalysisCoupon[] = [];
+  const thickX: number[] = [];
+  const thickSg: number[] = [];
+  const thickY: number[] = [];
   for (const c of rows) {
     if (c.role === 'control') {
       controls.push(c);
       continue;
     }
-    if (c.wpgPct !== null && sgOf(c, sgBasis) !== null) included.push(c);
-    else excluded.push({ id: c.id, tag: c.tag, reasons: exclusionReasons(c, sgBasis) });
+    const sg = sgOf(c, sgBasis);
+    if (c.wpgPct === null || sg === null) {
+      excluded.push({ id: c.id, tag: c.tag, reasons: exclusionReasons(c, sgBasis) });
+      continue;
+    }
+    included.push(c);
+    sgX.push(sg);
+    wpgY.push(c.wpgPct);
+    if (c.thicknessMm !== null) {
+      thickCoupons.push(c);
+      thickX.push(c.thicknessMm);
+      thickSg.push(sg);
+      thickY.push(c.wpgPct);
+    }
   }
+  const sgPts: Points = { coupons: included, x: sgX, y: wpgY };
+  const thickPts: Points = { coupons: thickCoupons, x: thickX, y: thickY };
 
-  const sgPts: XY[] = included.map((c) => ({ c, x: sgOf(c, sgBasis) as number, y: c.wpgPct as number }));
-  const thickPts: XY[] = [];
-  const bothPts: { sg: number; thickness: number; y: number }[] = [];
-  for (const p of sgPts) {
-    if (p.c.thicknessMm === null) continue;
-    thickPts.push({ c: p.c, x: p.c.thicknessMm, y: p.y });
-    bothPts.push({ sg: p.x, thickness: p.c.thicknessMm, y: p.y });
-  }
   const fitNotes: string[] = [];
-  const noThickness = sgPts.length - thickPts.length;
+  const noThickness = included.length - thickCoupons.length;
   if (noThickness > 0) fitNotes.push(`${noThickness} included coupon(s) have no thickness and are left out of the thickness fits.`);
-  const density = simpleFit('density', sgPts);
-  const thickness = simpleFit('thickness', thickPts);
-  const multiple = multipleFit(bothPts);
+  const density = simpleFit('density', sgX, wpgY);
+  const thickness = simpleFit('thickness', thickX, thickY);
+  const multiple = multipleFit(thickSg, thickX, thickY);
   const densityOk: SimpleFitResult | null = 'note' in density ? null : density;
   for (const f of [density, thickness, multiple]) if ('note' in f) fitNotes.push(f.note);
   const outliers = findOutliers(sgPts, densityOk, rows);
   const keep = new Set(outliers.map((o) => o.id));
 
-  const residualPts: PlotPoint[] = [];
-  if (densityOk) {
+  // Residuals against fitted: the same coupons as the WPG–SG plot, so the same thinning applies.
+  const residuals = (() => {
+    if (!densityOk) return { points: [], total: 0, shown: 0, method: 'all' as const };
     const { intercept, slope } = densityOk.linear;
-    for (const p of sgPts) {
-      const fitted = intercept + slope * p.x;
-      residualPts.push(point(p.c, fitted, p.y - fitted));
-    }
-  }
+    return thinned(sgPts, maxPoints, keep, (i) => {
+      const fitted = intercept + slope * (sgX[i] as number);
+      return [fitted, (wpgY[i] as number) - fitted];
+    });
+  })();
   const hardness: Overview['plots']['hardness'] = [];
   const swelling: Overview['plots']['swelling'] = [];
   for (const c of rows) {
@@ -94,19 +129,11 @@ export function buildOverview(rows: readonly AnalysisCoupon[], sgBasis: SgBasis,
     theoreticalMax: theoreticalMax(sgPts),
     outliers,
     plots: {
-      wpgVsSg: thinPoints(
-        sgPts.map((p) => point(p.c, p.x, p.y)),
-        maxPoints,
-        keep,
-      ),
-      wpgVsThickness: thinPoints(
-        thickPts.map((p) => point(p.c, p.x, p.y)),
-        maxPoints,
-        keep,
-      ),
-      residuals: thinPoints(residualPts, maxPoints, keep),
-      hardness: hardness.length > maxPoints ? hardness.filter((_, i) => i % Math.ceil(hardness.length / maxPoints) === 0) : hardness,
-      swelling: swelling.length > maxPoints ? swelling.filter((_, i) => i % Math.ceil(swelling.length / maxPoints) === 0) : swelling,
+      wpgVsSg: thinned(sgPts, maxPoints, keep),
+      wpgVsThickness: thinned(thickPts, maxPoints, keep),
+      residuals,
+      hardness: every(hardness, maxPoints),
+      swelling: every(swelling, maxPoints),
     },
   };
 }

@@ -4,32 +4,72 @@ import type { PlotPoint, PointSet } from '../schemas/analysis';
 export const MAX_PLOT_POINTS = 5000;
 
 /**
- * Thinning, not binning: when there are more than `max` points, a systematic sample is drawn within
- * each species × resin (every k-th point in id order, k = group size / its share of `max`), so every
+ * Thinning, not binning: when there are more than `max` items, a systematic sample is drawn within
+ * each species × resin (every k-th item in id order, k = group size / its share of `max`), so every
  * group keeps its share and its colour and symbol; `keep` (the outliers) is always drawn. Fits, tables
  * and tests always use every coupon; only the drawing is thinned, and the caption says so with counts.
+ *
+ * Works on whatever the caller holds (coupons with their x and y) and returns the positions chosen, so
+ * plot points are built only for what is drawn, not for a hundred thousand coupons first.
  */
-export function thinPoints(points: readonly PlotPoint[], max = MAX_PLOT_POINTS, keep: ReadonlySet<number> = new Set()): PointSet {
-  const total = points.length;
-  if (total <= max) return { points: [...points], total, shown: total, method: 'all' };
-  const groups = new Map<string, PlotPoint[]>();
-  for (const p of points) {
-    const k = `${p.species}|${p.resin}`;
+export function thinIndices<T>(
+  items: readonly T[],
+  groupOf: (item: T) => string | number,
+  idOf: (item: T) => number,
+  max = MAX_PLOT_POINTS,
+  keep: ReadonlySet<number> = new Set(),
+): number[] | null {
+  const total = items.length;
+  if (total <= max) return null;
+  const groups = new Map<string | number, number[]>();
+  for (let i = 0; i < total; i++) {
+    const k = groupOf(items[i] as T);
     const g = groups.get(k);
-    if (g) g.push(p);
-    else groups.set(k, [p]);
+    if (g) g.push(i);
+    else groups.set(k, [i]);
   }
-  const chosen: PlotPoint[] = [];
+  const chosen: number[] = [];
   const budget = Math.max(0, max - keep.size);
   for (const g of groups.values()) {
-    g.sort((a, b) => a.id - b.id);
+    // Items usually arrive in id order already; sort only when they do not.
+    let sorted = true;
+    for (let j = 1; j < g.length && sorted; j++) if (idOf(items[g[j] as number] as T) < idOf(items[g[j - 1] as number] as T)) sorted = false;
+    if (!sorted) g.sort((a, b) => idOf(items[a] as T) - idOf(items[b] as T));
     const quota = Math.max(1, Math.round((budget * g.length) / total));
     const step = g.length / quota;
-    for (let i = 0; i < quota; i++) {
-      const p = g[Math.floor(i * step)] as PlotPoint;
-      if (!keep.has(p.id)) chosen.push(p);
+    for (let j = 0; j < quota; j++) {
+      const i = g[Math.floor(j * step)] as number;
+      if (!keep.has(idOf(items[i] as T))) chosen.push(i);
     }
   }
-  for (const p of points) if (keep.has(p.id)) chosen.push(p);
-  return { points: chosen, total, shown: chosen.length, method: 'thinned' };
+  if (keep.size > 0) for (let i = 0; i < total; i++) if (keep.has(idOf(items[i] as T))) chosen.push(i);
+  return chosen;
+}
+
+/** `thinIndices` over items, building a plot point only for each item drawn. */
+export function thinTo<T>(
+  items: readonly T[],
+  groupOf: (item: T) => string | number,
+  idOf: (item: T) => number,
+  toPoint: (item: T) => PlotPoint,
+  max = MAX_PLOT_POINTS,
+  keep: ReadonlySet<number> = new Set(),
+): PointSet {
+  const total = items.length;
+  const chosen = thinIndices(items, groupOf, idOf, max, keep);
+  if (chosen === null) return { points: items.map(toPoint), total, shown: total, method: 'all' };
+  const points = chosen.map((i) => toPoint(items[i] as T));
+  return { points, total, shown: points.length, method: 'thinned' };
+}
+
+/** Thinning of ready-made plot points (grouped by their species and resin names). */
+export function thinPoints(points: readonly PlotPoint[], max = MAX_PLOT_POINTS, keep: ReadonlySet<number> = new Set()): PointSet {
+  return thinTo(
+    points,
+    (p) => `${p.species}|${p.resin}`,
+    (p) => p.id,
+    (p) => p,
+    max,
+    keep,
+  );
 }

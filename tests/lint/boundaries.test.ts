@@ -44,6 +44,14 @@ const PROBES: Probe[] = [
   importing('the client imports the domain barrel', 'src/features/runs', 'shared/domain/index', 'welchTest', 'no-restricted-imports'),
   importing('a shared rule the client loads imports the domain barrel', 'shared/runs', 'shared/domain/index', 'welchTest', 'no-restricted-imports'),
   {
+    name: 'an auth or admin service queries the tables itself',
+    file: `server/features/admin/zz-lint-probe-${tag}-drizzle.ts`,
+    code: "import { eq } from 'drizzle-orm';\nexport const x = eq;\n",
+    rule: 'no-restricted-imports',
+  },
+  importing('a trials service reads a table itself', 'server/features/trials', 'server/db/schema/trials', 'trials', 'no-restricted-imports'),
+  importing('an auth service calls its repo', 'server/features/auth', 'server/features/auth/auth.repo', 'toUser', null),
+  {
     name: 'shared uses no Node APIs',
     file: `shared/zz-lint-probe-${tag}-node.ts`,
     code: "import fs from 'node:fs';\nexport const x = fs;\n",

@@ -1,9 +1,8 @@
 import path from 'node:path';
-import { count, desc, eq } from 'drizzle-orm';
 import type { FeatureDeps } from '../../deps';
 import { writeAudit } from '../../db/audit';
 import { createBackup } from '../../db/backup';
-import { outbox, settings } from '../../db/schema/admin';
+import { deleteSetting, listOutboxRows, putSetting } from './admin.repo';
 import type { ListQuery } from '../../../shared/schemas/common';
 import { readShopSettings } from '../../db/shop-settings';
 import { labelAddress } from '../../../shared/trials/label-address';
@@ -14,14 +13,7 @@ export function createAdminService(deps: FeatureDeps) {
   const { db, sqlite } = deps.database;
 
   function listOutbox(q: ListQuery): { items: OutboxMessage[]; page: number; pageSize: number; total: number } {
-    const rows = db
-      .select()
-      .from(outbox)
-      .orderBy(desc(outbox.id))
-      .limit(q.pageSize)
-      .offset((q.page - 1) * q.pageSize)
-      .all();
-    const total = db.select({ n: count() }).from(outbox).get()?.n ?? 0;
+    const { rows, total } = listOutboxRows(db, { limit: q.pageSize, offset: (q.page - 1) * q.pageSize });
     return {
       items: rows.map((r) => ({ id: r.id, createdAt: r.createdAt, from: r.fromAddress, to: r.toAddress, subject: r.subject, text: r.textBody })),
       page: q.page,
@@ -48,10 +40,10 @@ export function createAdminService(deps: FeatureDeps) {
         if (value === undefined) continue;
         // An emptied setting goes back to its default.
         if (value === null) {
-          tx.delete(settings).where(eq(settings.key, key)).run();
+          deleteSetting(tx, key);
           continue;
         }
-        tx.insert(settings).values({ key, value, createdBy: actor.id }).onConflictDoUpdate({ target: settings.key, set: { value } }).run();
+        putSetting(tx, key, value, actor.id);
       }
       writeAudit(tx, { actorId: actor.id, action: 'update', entity: 'settings', entityId: null, before, after: { ...before, ...input } });
     });

@@ -1,4 +1,4 @@
-import { and, desc, eq, inArray, isNotNull, sql, type SQL } from 'drizzle-orm';
+import { and, desc, eq, isNotNull, sql, type SQL } from 'drizzle-orm';
 import type Database from 'better-sqlite3';
 import type { Db } from '../../db/client';
 import { evidence } from '../../db/schema/analysis';
@@ -9,7 +9,7 @@ import { runs } from '../../db/schema/runs';
 import type { HardnessScale } from '../../../shared/constants/records';
 import { antiSwell } from '../../../shared/coupons/metrics';
 import { referenceOvenDrySg } from '../../../shared/coupons/plausibility';
-import type { AnalysisCoupon, AnalysisFilters } from '../../../shared/schemas/analysis';
+import type { AnalysisCoupon, AnalysisFilters, GroupSpec } from '../../../shared/schemas/analysis';
 
 const cr = couponResults;
 
@@ -29,72 +29,89 @@ function speciesInfo(db: Db): Map<number, SpeciesInfo> {
   return out;
 }
 
-interface Selected {
-  id: number;
-  tag: string;
-  trialId: number | null;
-  conditionId: number | null;
-  runId: number | null;
-  runCode: string | null;
-  speciesId: number;
-  resinId: number | null;
-  resinName: string | null;
-  resinDensityGcm3: number | null;
-  lotId: number | null;
-  role: 'treated' | 'control';
-  sourceBoard: string | null;
-  thicknessMm: number | null;
-  dryMassG: number | null;
-  curedMassG: number | null;
-  drySg: number | null;
-  wpgPct: number | null;
-  resinLoadingKgM3: number | null;
-  voidFillPct: number | null;
-  maxWpgPct: number | null;
-  swellingPct: number | null;
-  swellingBasis: 'volume' | 'mass' | null;
-  hDryShore: number | null;
-  hDryJanka: number | null;
-  hDryBrinell: number | null;
-  hCuredShore: number | null;
-  hCuredJanka: number | null;
-  hCuredBrinell: number | null;
-  problemCount: number;
-  problems: { metric: string; message: string }[];
-  createdAt: string;
+/** The hardness scales as the load query numbers them (1, 2, 3), so no string is made per row. */
+const SCALES: readonly (HardnessScale | null)[] = [null, 'shore-d', 'janka-n', 'brinell-hb'];
+
+/**
+ * The hardness a coupon is judged by, chosen in SQL: treated coupons after the cure; controls are
+ * untreated, so their dry-stage reading counts first, then a cured-stage one. The first scale read wins
+ * (Shore D, Janka, Brinell); scales are different tests and are never converted.
+ */
+const HARDNESS_VALUE = `case when cr.role = 'treated'
+    then coalesce(cr.hardness_cured_shore_d, cr.hardness_cured_janka_n, cr.hardness_cured_brinell_hb)
+    else coalesce(cr.hardness_dry_shore_d, cr.hardness_dry_janka_n, cr.hardness_dry_brinell_hb,
+                  cr.hardness_cured_shore_d, cr.hardness_cured_janka_n, cr.hardness_cured_brinell_hb) end`;
+const HARDNESS_SCALE = `case when cr.role = 'treated'
+    then case when cr.hardness_cured_shore_d is not null then 1 when cr.hardness_cured_janka_n is not null then 2
+              when cr.hardness_cured_brinell_hb is not null then 3 end
+    else case when cr.hardness_dry_shore_d is not null then 1 when cr.hardness_dry_janka_n is not null then 2
+              when cr.hardness_dry_brinell_hb is not null then 3 when cr.hardness_cured_shore_d is not null then 1
+              when cr.hardness_cured_janka_n is not null then 2 when cr.hardness_cured_brinell_hb is not null then 3 end end`;
+
+/**
+ * Columns read per coupon, in this order. Each comes back as ONE JSON array over all matching rows
+ * (json_group_array), so better-sqlite3 hands over a few long strings instead of a hundred thousand row
+ * arrays, and JSON.parse turns them into plain arrays in native code. SQLite writes reals with 17
+ * significant digits, so every double round-trips exactly. Names (species, resin, run code) are joined in
+ * JavaScript from small maps, not per row in SQL.
+ */
+const COLUMNS = [
+  'cr.coupon_id',
+  'cr.tag',
+  'cr.trial_id',
+  'cr.condition_id',
+  'cr.run_id',
+  'cr.species_id',
+  'cr.resin_id',
+  'cr.resin_lot_id',
+  "cr.role = 'control'",
+  'cr.source_board',
+  'cr.thickness_mm',
+  'cr.dry_mass_g',
+  'cr.cured_mass_g',
+  'cr.dry_sg',
+  'cr.wpg_pct',
+  'cr.resin_loading_kg_m3',
+  'cr.void_fill_pct',
+  'cr.max_wpg_pct',
+  'cr.swelling_pct',
+  "case cr.swelling_basis when 'volume' then 1 when 'mass' then 2 end",
+  HARDNESS_VALUE,
+  HARDNESS_SCALE,
+  // The blank reasons are read only where there are some.
+  'case when cr.problem_count > 0 then cr.problems end',
+  'c.created_at',
+] as const;
+
+/** The keys of a two-group comparison's group, as SQL on the results row (each key given must match). */
+function groupWhere(g: GroupSpec, params: (string | number)[]): string {
+  const w: string[] = [];
+  const key = (col: string, v: string | number | undefined) => {
+    if (v === undefined) return;
+    w.push(`${col} = ?`);
+    params.push(v);
+  };
+  key('cr.species_id', g.speciesId);
+  key('cr.resin_id', g.resinId);
+  key('cr.resin_lot_id', g.lotId);
+  key('cr.run_id', g.runId);
+  key('cr.condition_id', g.conditionId);
+  key('cr.role', g.role);
+  return w.length ? `(${w.join(' and ')})` : '1';
 }
 
-function hardnessOf(r: Selected): { value: number; scale: HardnessScale } | null {
-  // Treated coupons are judged after the cure; controls are untreated, so their dry-stage reading counts.
-  const cured: [HardnessScale, number | null][] = [
-    ['shore-d', r.hCuredShore],
-    ['janka-n', r.hCuredJanka],
-    ['brinell-hb', r.hCuredBrinell],
-  ];
-  const dry: [HardnessScale, number | null][] = [
-    ['shore-d', r.hDryShore],
-    ['janka-n', r.hDryJanka],
-    ['brinell-hb', r.hDryBrinell],
-  ];
-  const order = r.role === 'treated' ? cured : [...dry, ...cured];
-  for (const [scale, value] of order) if (value !== null) return { value, scale };
-  return null;
-}
-
-/** Columns read per coupon, in this order (one statement, rows as arrays: no per-row mapping layer). */
-const COLUMNS = `cr.coupon_id, cr.tag, cr.trial_id, cr.condition_id, cr.run_id, r.code, cr.species_id, cr.resin_id, rs.name, rs.cured_density_g_cm3,
-  cr.resin_lot_id, cr.role, cr.source_board, cr.thickness_mm, cr.dry_mass_g, cr.cured_mass_g, cr.dry_sg, cr.wpg_pct, cr.resin_loading_kg_m3,
-  cr.void_fill_pct, cr.max_wpg_pct, cr.swelling_pct, cr.swelling_basis, cr.hardness_dry_shore_d, cr.hardness_dry_janka_n, cr.hardness_dry_brinell_hb,
-  cr.hardness_cured_shore_d, cr.hardness_cured_janka_n, cr.hardness_cured_brinell_hb, cr.problem_count, cr.problems, c.created_at`;
-
-/** The filters as a parameterised WHERE clause on the same columns the Drizzle conditions use. */
-function rawWhere(f: AnalysisFilters): { clause: string; params: (string | number)[] } {
+/**
+ * The filters as a parameterised WHERE clause; id lists are bound as one JSON array each. With `groups`,
+ * only coupons in one of them are read (a comparison looks at nothing else).
+ */
+function rawWhere(f: AnalysisFilters, groups?: readonly GroupSpec[]): { clause: string; params: (string | number)[] } {
   const w: string[] = [];
   const params: (string | number)[] = [];
+  if (groups && groups.length > 0) w.push(`(${groups.map((g) => groupWhere(g, params)).join(' or ')})`);
   const list = (col: string, ids: number[] | undefined) => {
     if (!ids) return;
-    w.push(`${col} in (${ids.map(() => '?').join(',')})`);
-    params.push(...ids);
+    w.push(`${col} in (select value from json_each(?))`);
+    params.push(JSON.stringify(ids));
   };
   list('cr.trial_id', f.trialId);
   list('cr.condition_id', f.conditionId);
@@ -107,7 +124,7 @@ function rawWhere(f: AnalysisFilters): { clause: string; params: (string | numbe
     w.push(cond);
     params.push(v);
   };
-  one('sp.origin = ?', f.speciesOrigin);
+  one('cr.species_id in (select id from species where origin = ?)', f.speciesOrigin);
   one('cr.role = ?', f.role);
   one('cr.source_board = ?', f.sourceBoard);
   one('cr.thickness_mm >= ?', f.thicknessMinMm);
@@ -117,157 +134,156 @@ function rawWhere(f: AnalysisFilters): { clause: string; params: (string | numbe
   return { clause: w.length ? `where ${w.join(' and ')}` : '', params };
 }
 
-type RawRow = [
-  number,
-  string,
-  number | null,
-  number | null,
-  number | null,
-  string | null,
-  number,
-  number | null,
-  string | null,
-  number | null,
-  number | null,
-  'treated' | 'control',
-  string | null,
-  number | null,
-  number | null,
-  number | null,
-  number | null,
-  number | null,
-  number | null,
-  number | null,
-  number | null,
-  number | null,
-  'volume' | 'mass' | null,
-  number | null,
-  number | null,
-  number | null,
-  number | null,
-  number | null,
-  number | null,
-  number,
-  string,
-  string,
+type Col<T> = (T | null)[];
+type Columns = [
+  number[],
+  string[],
+  Col<number>,
+  Col<number>,
+  Col<number>,
+  number[],
+  Col<number>,
+  Col<number>,
+  number[],
+  Col<string>,
+  Col<number>,
+  Col<number>,
+  Col<number>,
+  Col<number>,
+  Col<number>,
+  Col<number>,
+  Col<number>,
+  Col<number>,
+  Col<number>,
+  Col<number>,
+  Col<number>,
+  Col<number>,
+  Col<string>,
+  string[],
 ];
 
-/**
- * The results rows matching the filters, as the analysis sees them, in coupon id order: one prepared
- * statement over coupon_results (joined to the coupon for its entry date and to the run, resin and
- * species for names). ASE is taken against the controls of the same trial and species whatever the
- * filters (a role filter must not remove the controls a treated coupon is judged against).
- */
-export function loadAnalysisCoupons(db: Db, f: AnalysisFilters): AnalysisCoupon[] {
-  const { clause: where, params } = rawWhere(f);
-  // The Drizzle handle made by openDatabase carries its better-sqlite3 connection; raw rows skip the mapping layer.
-  const raw = (db as Db & { $client: Database.Database }).$client
-    .prepare(
-      `select ${COLUMNS} from coupon_results cr join coupons c on c.id = cr.coupon_id join species sp on sp.id = cr.species_id
-       left join resins rs on rs.id = cr.resin_id left join runs r on r.id = cr.run_id ${where} order by cr.coupon_id`,
-    )
-    .raw(true)
-    .all(...params) as RawRow[];
-  const rows: Selected[] = raw.map((x) => ({
-    id: x[0],
-    tag: x[1],
-    trialId: x[2],
-    conditionId: x[3],
-    runId: x[4],
-    runCode: x[5],
-    speciesId: x[6],
-    resinId: x[7],
-    resinName: x[8],
-    resinDensityGcm3: x[9],
-    lotId: x[10],
-    role: x[11],
-    sourceBoard: x[12],
-    thicknessMm: x[13],
-    dryMassG: x[14],
-    curedMassG: x[15],
-    drySg: x[16],
-    wpgPct: x[17],
-    resinLoadingKgM3: x[18],
-    voidFillPct: x[19],
-    maxWpgPct: x[20],
-    swellingPct: x[21],
-    swellingBasis: x[22],
-    hDryShore: x[23],
-    hDryJanka: x[24],
-    hDryBrinell: x[25],
-    hCuredShore: x[26],
-    hCuredJanka: x[27],
-    hCuredBrinell: x[28],
-    problemCount: x[29],
-    // The blank reasons are read only where there are some.
-    problems: x[29] > 0 ? (JSON.parse(x[30]) as Selected['problems']) : [],
-    createdAt: x[31],
-  }));
-  return toAnalysisCoupons(db, rows);
+function sqliteOf(db: Db): Database.Database {
+  // The Drizzle handle made by openDatabase carries its better-sqlite3 connection.
+  return (db as Db & { $client: Database.Database }).$client;
 }
 
-function toAnalysisCoupons(db: Db, rows: Selected[]): AnalysisCoupon[] {
+/** Statements by SQL text, per connection, so a repeated filter shape is prepared once. */
+const prepared = new WeakMap<Database.Database, Map<string, Database.Statement>>();
+function prepare(sqlite: Database.Database, sqlText: string): Database.Statement {
+  let byText = prepared.get(sqlite);
+  if (!byText) prepared.set(sqlite, (byText = new Map()));
+  let st = byText.get(sqlText);
+  if (!st) {
+    st = sqlite.prepare(sqlText);
+    if (byText.size > 64) byText.clear();
+    byText.set(sqlText, st);
+  }
+  return st;
+}
+
+/**
+ * The results rows matching the filters, as the analysis sees them, in coupon id order: one statement
+ * over coupon_results (joined to the coupon for its entry date), read column by column; with `groups`,
+ * only the coupons in one of the groups. ASE is taken
+ * against the controls of the same trial and species whatever the filters (a role filter must not remove
+ * the controls a treated coupon is judged against).
+ */
+export function loadAnalysisCoupons(db: Db, f: AnalysisFilters, groups?: readonly GroupSpec[]): AnalysisCoupon[] {
+  const { clause: where, params } = rawWhere(f, groups);
+  const sqlite = sqliteOf(db);
+  const inner = COLUMNS.map((c, i) => `${c} as c${i}`).join(', ');
+  const outer = COLUMNS.map((_c, i) => `json_group_array(c${i})`).join(', ');
+  // The ordered subquery is not flattened into an aggregate, so the arrays come out in coupon id order.
+  const row = prepare(
+    sqlite,
+    `select ${outer} from (select ${inner} from coupon_results cr join coupons c on c.id = cr.coupon_id ${where} order by cr.coupon_id)`,
+  )
+    .raw(true)
+    .get(...params) as string[];
+  const col = row.map((json) => JSON.parse(json) as unknown[]) as Columns;
+  const [ids, tags, trial, condition, run, speciesIds, resin, lot, isControl, board, thick, dry, cured, sg, wpg, loading, fill, maxWpg] = col;
+  const [swelling, basis, hValue, hScale, problems, created] = [col[18], col[19], col[20], col[21], col[22], col[23]];
+  const n = ids.length;
+  for (let i = 1; i < n; i++) if ((ids[i] as number) <= (ids[i - 1] as number)) throw new Error('analysis load: rows out of coupon id order');
+
   const sp = speciesInfo(db);
+  const resins = new Map<number, { name: string; density: number | null }>();
+  for (const [id, name, density] of prepare(sqlite, 'select id, name, cured_density_g_cm3 from resins').raw(true).all() as [number, string, number | null][])
+    resins.set(id, { name, density });
+  const runCodes = new Map<number, string>();
+  for (const [id, code] of prepare(sqlite, 'select id, code from runs').raw(true).all() as [number, string][]) runCodes.set(id, code);
+
+  // ASE needs the controls of each trial and species that has treated coupons with a swelling.
   const trialIds = new Set<number>();
-  for (const r of rows) if (r.role === 'treated' && r.trialId !== null && r.swellingPct !== null) trialIds.add(r.trialId);
+  for (let i = 0; i < n; i++) if (isControl[i] === 0 && trial[i] !== null && swelling[i] !== null) trialIds.add(trial[i] as number);
   const controls = new Map<string, { swellingPct: number | null; swellingBasis: 'volume' | 'mass' | null }[]>();
   if (trialIds.size > 0) {
-    const ctl = db
-      .select({ trialId: cr.trialId, speciesId: cr.speciesId, swellingPct: cr.swellingPct, swellingBasis: cr.swellingBasis })
-      .from(cr)
-      .where(and(eq(cr.role, 'control'), isNotNull(cr.swellingPct), inArray(cr.trialId, [...trialIds])))
-      .all();
+    const ctl = prepare(
+      sqlite,
+      `select trial_id as trialId, species_id as speciesId, swelling_pct as swellingPct, swelling_basis as swellingBasis from coupon_results
+       where role = 'control' and swelling_pct is not null and trial_id in (select value from json_each(?))`,
+    ).all(JSON.stringify([...trialIds])) as { trialId: number; speciesId: number; swellingPct: number; swellingBasis: 'volume' | 'mass' | null }[];
     for (const c of ctl) {
       const k = `${c.trialId}|${c.speciesId}`;
-      const list = controls.get(k) ?? [];
-      list.push(c);
-      controls.set(k, list);
+      const list = controls.get(k);
+      if (list) list.push(c);
+      else controls.set(k, [c]);
     }
   }
-  return rows.map((r) => {
-    const s = sp.get(r.speciesId);
-    const h = hardnessOf(r);
-    const blankReasons: Record<string, string> = {};
-    if (r.problemCount > 0) for (const p of r.problems) blankReasons[p.metric] ??= p.message;
+
+  const out: AnalysisCoupon[] = new Array<AnalysisCoupon>(n);
+  for (let i = 0; i < n; i++) {
+    const speciesId = speciesIds[i] as number;
+    const s = sp.get(speciesId);
+    const resinId = resin[i] as number | null;
+    const r = resinId === null ? undefined : resins.get(resinId);
+    const runId = run[i] as number | null;
+    const role = isControl[i] === 1 ? 'control' : 'treated';
+    const trialId = trial[i] as number | null;
+    const swellingPct = swelling[i] as number | null;
     let asePct: number | null = null;
-    if (r.role === 'treated' && r.trialId !== null && r.swellingPct !== null) {
-      const a = antiSwell({ swellingPct: r.swellingPct, swellingBasis: r.swellingBasis }, controls.get(`${r.trialId}|${r.speciesId}`) ?? []);
-      asePct = a?.asePct ?? null;
+    if (role === 'treated' && trialId !== null && swellingPct !== null) {
+      const swellingBasis = basis[i] === 1 ? 'volume' : basis[i] === 2 ? 'mass' : null;
+      asePct = antiSwell({ swellingPct, swellingBasis }, controls.get(`${trialId}|${speciesId}`) ?? [])?.asePct ?? null;
     }
-    return {
-      id: r.id,
-      tag: r.tag,
-      trialId: r.trialId,
-      conditionId: r.conditionId,
-      runId: r.runId,
-      runCode: r.runCode,
-      speciesId: r.speciesId,
-      speciesName: s?.name ?? `species ${r.speciesId}`,
+    const blankReasons: Record<string, string> = {};
+    const p = problems[i];
+    if (p !== null && p !== undefined) for (const x of JSON.parse(p) as { metric: string; message: string }[]) blankReasons[x.metric] ??= x.message;
+    out[i] = {
+      id: ids[i] as number,
+      tag: tags[i] as string,
+      trialId,
+      conditionId: condition[i] as number | null,
+      runId,
+      runCode: runId === null ? null : (runCodes.get(runId) ?? null),
+      speciesId,
+      speciesName: s?.name ?? `species ${speciesId}`,
       speciesOrigin: s?.origin ?? 'handbook',
-      resinId: r.resinId,
-      resinName: r.resinName,
-      resinDensityGcm3: r.resinDensityGcm3,
-      lotId: r.lotId,
-      role: r.role,
-      sourceBoard: r.sourceBoard,
-      thicknessMm: r.thicknessMm,
-      dryMassG: r.dryMassG,
-      curedMassG: r.curedMassG,
-      drySg: r.drySg,
+      resinId,
+      resinName: r?.name ?? null,
+      resinDensityGcm3: r?.density ?? null,
+      lotId: lot[i] as number | null,
+      role,
+      sourceBoard: board[i] as string | null,
+      thicknessMm: thick[i] as number | null,
+      dryMassG: dry[i] as number | null,
+      curedMassG: cured[i] as number | null,
+      drySg: sg[i] as number | null,
       referenceSg: s?.referenceSg ?? null,
       referenceSgCov: s?.cov ?? null,
-      wpgPct: r.wpgPct,
-      resinLoadingKgM3: r.resinLoadingKgM3,
-      voidFillPct: r.voidFillPct,
-      maxWpgPct: r.maxWpgPct,
-      swellingPct: r.swellingPct,
+      wpgPct: wpg[i] as number | null,
+      resinLoadingKgM3: loading[i] as number | null,
+      voidFillPct: fill[i] as number | null,
+      maxWpgPct: maxWpg[i] as number | null,
+      swellingPct,
       asePct,
-      hardnessValue: h?.value ?? null,
-      hardnessScale: h?.scale ?? null,
-      createdAt: r.createdAt,
+      hardnessValue: hValue[i] as number | null,
+      hardnessScale: SCALES[(hScale[i] as number | null) ?? 0] ?? null,
+      createdAt: created[i] as string,
       blankReasons,
     };
-  });
+  }
+  return out;
 }
 
 /** Treated coupons of the given species × resin pairs from runs other than `runId` (the shop's history). */

@@ -9,6 +9,7 @@ import { buildOverview } from '../../../shared/analysis/overview';
 import { statsOf } from '../../../shared/analysis/stats';
 import type { User } from '../../../shared/schemas/auth';
 import type {
+  AnalysisCoupon,
   AnalysisFilters,
   CompareMetric,
   CompareResult,
@@ -24,6 +25,7 @@ import type {
   SgBasis,
 } from '../../../shared/schemas/analysis';
 import { evidenceViewSchema } from '../../../shared/schemas/analysis';
+import { createDataVersion, keyOf, Lru } from './analysis.cache';
 import { findEvidence, insertEvidence, listEvidence, loadAnalysisCoupons, loadHistory, runExists, wpgValues, type EvidenceRow } from './analysis.repo';
 
 /**
@@ -42,15 +44,62 @@ export function fingerprintOf(value: unknown): string {
   return crypto.createHash('sha256').update(canonical).digest('hex');
 }
 
+/** How many filtered coupon lists and how many computed answers are kept (a coupon list of 100k is tens of MB). */
+const CACHED_ROW_SETS = 3;
+const CACHED_ANSWERS = 32;
+
+/**
+ * The analysis over the results table. Answers are cached, keyed by what was asked and by the version of
+ * the data they were read from (analysis.cache.ts): a repeated view costs a version check, and any write
+ * to a table an answer reads gives a new version, so a stale answer is never served. Cached answers are
+ * shared between callers and must not be changed by them.
+ */
 export function createAnalysisService(deps: { db: Db; now: () => Date }) {
   const { db } = deps;
+  const version = createDataVersion((db as Db & { $client: Parameters<typeof createDataVersion>[0] }).$client);
+  const rowSets = new Lru<{ version: string; rows: AnalysisCoupon[] }>(CACHED_ROW_SETS);
+  const answers = new Lru<{ version: string; value: unknown }>(CACHED_ANSWERS);
+
+  /**
+   * The coupons matching the filters, read once per data version. With `groups` (a comparison), the
+   * coupons of the full filters are used when they are already in hand, else only the groups' coupons
+   * are read.
+   */
+  function rowsOf(filters: AnalysisFilters, groups?: readonly GroupSpec[]): AnalysisCoupon[] {
+    const v = version();
+    const k = keyOf(filters);
+    const hit = rowSets.get(k);
+    if (hit && hit.version === v) return hit.rows;
+    if (groups) {
+      const gk = keyOf({ filters, groups });
+      const ghit = rowSets.get(gk);
+      if (ghit && ghit.version === v) return ghit.rows;
+      const rows = loadAnalysisCoupons(db, filters, groups);
+      rowSets.set(gk, { version: v, rows });
+      return rows;
+    }
+    const rows = loadAnalysisCoupons(db, filters);
+    rowSets.set(k, { version: v, rows });
+    return rows;
+  }
+
+  /** An answer computed once per question and data version. */
+  function cached<T>(question: unknown, compute: () => T): T {
+    const v = version();
+    const k = keyOf(question);
+    const hit = answers.get(k);
+    if (hit && hit.version === v) return hit.value as T;
+    const value = compute();
+    answers.set(k, { version: v, value });
+    return value;
+  }
 
   function overview(filters: AnalysisFilters, sgBasis: SgBasis): Overview {
-    return buildOverview(loadAnalysisCoupons(db, filters), sgBasis);
+    return cached({ q: 'overview', filters, sgBasis }, () => buildOverview(rowsOf(filters), sgBasis));
   }
 
   function compare(filters: AnalysisFilters, a: GroupSpec, b: GroupSpec, metric: CompareMetric): CompareResult {
-    return compareGroups(loadAnalysisCoupons(db, filters), a, b, metric);
+    return cached({ q: 'compare', filters, a, b, metric }, () => compareGroups(rowsOf(filters, [a, b]), a, b, metric));
   }
 
   function fit(filters: AnalysisFilters, sgBasis: SgBasis, model: FitModel) {
@@ -67,17 +116,19 @@ export function createAnalysisService(deps: { db: Db; now: () => Date }) {
   }
 
   function coupons(filters: AnalysisFilters, page: number, pageSize: number) {
-    const all = loadAnalysisCoupons(db, filters);
-    const o = buildOverview(all, 'measured');
+    const all = rowsOf(filters);
+    const o = overview(filters, 'measured');
     return { items: all.slice((page - 1) * pageSize, page * pageSize), page, pageSize, total: all.length, excluded: o.excluded };
   }
 
   function runExpected(runId: number): RunExpected {
     if (!runExists(db, runId)) throw new NotFound('Run not found');
-    const inRun = loadAnalysisCoupons(db, { runId: [runId] });
-    const pairs = new Map<string, { speciesId: number; resinId: number }>();
-    for (const c of inRun) if (c.resinId !== null) pairs.set(`${c.speciesId}|${c.resinId}`, { speciesId: c.speciesId, resinId: c.resinId });
-    return expectedForRun(runId, inRun, loadHistory(db, [...pairs.values()], runId));
+    return cached({ q: 'expected', runId }, () => {
+      const inRun = rowsOf({ runId: [runId] });
+      const pairs = new Map<string, { speciesId: number; resinId: number }>();
+      for (const c of inRun) if (c.resinId !== null) pairs.set(`${c.speciesId}|${c.resinId}`, { speciesId: c.speciesId, resinId: c.resinId });
+      return expectedForRun(runId, inRun, loadHistory(db, [...pairs.values()], runId));
+    });
   }
 
   function sampleSize(q: { speciesId?: number | undefined; resinId?: number | undefined; differencePct: number; planned?: number | undefined }): SampleSize {
@@ -113,9 +164,8 @@ export function createAnalysisService(deps: { db: Db; now: () => Date }) {
 
   /** The numbers and plot of a view, computed now from the results table. */
   function snapshotOf(view: EvidenceView): { snapshot: EvidenceSnapshot; fingerprint: string } {
-    const rows = loadAnalysisCoupons(db, view.filters);
-    const o = buildOverview(rows, view.sgBasis);
-    const c = view.compare ? compareGroups(rows, view.compare.a, view.compare.b, view.compare.metric) : null;
+    const o = overview(view.filters, view.sgBasis);
+    const c = view.compare ? compare(view.filters, view.compare.a, view.compare.b, view.compare.metric) : null;
     const numbers = { overview: o, compare: c };
     const sgLabel = view.sgBasis === 'measured' ? "Oven-dry SG (coupon's own)" : "Oven-dry SG (species' handbook value)";
     return {
@@ -172,6 +222,6 @@ export function createAnalysisService(deps: { db: Db; now: () => Date }) {
     return { ...listEvidence(db, page, pageSize), page, pageSize };
   }
 
-  return { overview, compare, fit, coupons, runExpected, sampleSize, saveEvidence, getEvidence, evidenceList, snapshotOf };
+  return { overview, compare, fit, coupons, runExpected, sampleSize, saveEvidence, getEvidence, evidenceList, snapshotOf, dataVersion: version };
 }
 export type AnalysisService = ReturnType<typeof createAnalysisService>;

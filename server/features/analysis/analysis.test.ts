@@ -263,3 +263,42 @@ describe('saved views are evidence', () => {
     expect((await as.viewer.get('/api/evidence/999999')).status).toBe(404);
   });
 });
+
+describe('cached answers', () => {
+  it('serves a repeated view unchanged, and a new answer as soon as a results row is written', async () => {
+    const url = `/api/analysis/overview?trialId=${trialId}`;
+    const first = (await as.viewer.get(url)).body;
+    expect((await as.viewer.get(url)).body).toEqual(first);
+    const row = treatedRows()[0]!;
+    const group = (o: { groups: { speciesId: number; resinId: number | null; wpg: { mean: number } | null }[] }) =>
+      o.groups.find((g) => g.speciesId === row.speciesId && g.resinId === row.resinId)!;
+    try {
+      // Any writer counts, even one that goes round the measurements module (here, the test itself).
+      h.database.db
+        .update(couponResults)
+        .set({ wpgPct: row.wpgPct! + 30 })
+        .where(eq(couponResults.couponId, row.couponId))
+        .run();
+      const after = (await as.viewer.get(url)).body;
+      expect(group(after).wpg!.mean).toBeGreaterThan(group(first).wpg!.mean);
+      const compared = await as.viewer
+        .post('/api/analysis/compare')
+        .send({ filters: { trialId: [trialId] }, a: { resinId: row.resinId! }, b: { role: 'control' }, metric: 'wpgPct' });
+      expect(compared.status).toBe(200);
+      expect(compared.body.a.mean).toBeCloseTo(
+        summarize(
+          h.database.db
+            .select()
+            .from(couponResults)
+            .where(and(eq(couponResults.trialId, trialId), eq(couponResults.resinId, row.resinId!), isNotNull(couponResults.wpgPct)))
+            .all()
+            .map((r) => r.wpgPct!),
+        ).mean,
+        10,
+      );
+    } finally {
+      h.database.db.update(couponResults).set({ wpgPct: row.wpgPct }).where(eq(couponResults.couponId, row.couponId)).run();
+    }
+    expect((await as.viewer.get(url)).body).toEqual(first);
+  });
+});

@@ -1,4 +1,4 @@
-import { and, count, eq, gt, isNull, lte } from 'drizzle-orm';
+import { and, asc, count, desc, eq, gt, isNull, lte, sql } from 'drizzle-orm';
 import type { Db } from '../../db/client';
 import { authTokens, loginFailures, users, AUTH_TOKEN_KINDS, LOGIN_FAILURE_SCOPES } from '../../db/schema/auth';
 import type { User } from '../../../shared/schemas/auth';
@@ -59,6 +59,53 @@ export function updateUserPreferences(
   values: { name?: string; unitSystem?: UserRow['unitSystem']; unitOverrides?: UserRow['unitOverrides'] },
 ) {
   db.update(users).set(values).where(eq(users.id, id)).run();
+}
+
+/** Sets a user's password hash (and, on accepting an invitation, the name they chose). */
+export function setUserPassword(db: Db, id: number, passwordHash: string, name?: string) {
+  db.update(users)
+    .set(name === undefined ? { passwordHash } : { passwordHash, name })
+    .where(eq(users.id, id))
+    .run();
+}
+
+/** A new user, without a password until the invitation is accepted; returns the id. */
+export function insertUser(db: Db, values: { email: string; name: string; role: UserRow['role']; createdBy: number }): number {
+  return db.insert(users).values(values).returning({ id: users.id }).get().id;
+}
+
+/** Name, role or the disabled flag, as the admin changes them. */
+export function updateUserRow(db: Db, id: number, values: Partial<Pick<UserRow, 'name' | 'role' | 'disabled'>>) {
+  db.update(users).set(values).where(eq(users.id, id)).run();
+}
+
+/** What the users list may be sorted by. */
+export const USER_SORTS = { name: users.name, email: users.email, role: users.role, createdAt: users.createdAt } as const;
+export type UserSort = keyof typeof USER_SORTS;
+
+/** One page of users in the given order (ties by id), and how many there are in all. */
+export function listUserRows(db: Db, q: { sort: UserSort; descending: boolean; limit: number; offset: number }): { rows: UserRow[]; total: number } {
+  const column = USER_SORTS[q.sort];
+  const rows = db
+    .select()
+    .from(users)
+    .orderBy(q.descending ? desc(column) : asc(column), asc(users.id))
+    .limit(q.limit)
+    .offset(q.offset)
+    .all();
+  const total = db.select({ n: count() }).from(users).get()?.n ?? 0;
+  return { rows, total };
+}
+
+/** Invitation and reset links not used yet (expired ones included). */
+export function countPendingTokens(db: Db): number {
+  return (
+    db
+      .select({ n: count() })
+      .from(authTokens)
+      .where(sql`${authTokens.usedAt} IS NULL`)
+      .get()?.n ?? 0
+  );
 }
 
 /** The invitation a live token stands for, with the invited user's name, e-mail and role. */

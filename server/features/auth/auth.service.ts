@@ -1,24 +1,29 @@
 import crypto from 'node:crypto';
 import bcrypt from 'bcryptjs';
-import { asc, count, desc, eq, sql } from 'drizzle-orm';
 import type { FeatureDeps } from '../../deps';
 import { writeAudit } from '../../db/audit';
-import { authTokens, users } from '../../db/schema/auth';
 import { Conflict, NotFound, Unauthenticated, ValidationFailed } from '../../http/errors';
 import type { InvitationPreview, UpdatePreferencesInput, User } from '../../../shared/schemas/auth';
 import { prefsOverrides, unitPrefs } from '../../../shared/units';
 import type { AdminUser, InviteUserInput, UpdateUserInput } from '../../../shared/schemas/admin';
 import type { ListQuery } from '../../../shared/schemas/common';
 import {
+  countPendingTokens,
   findInvitation,
   findLiveToken,
   findUserByEmail,
   findUserById,
   insertToken,
+  insertUser,
+  listUserRows,
   markTokenUsed,
   retireTokens,
+  setUserPassword,
   toUser,
   updateUserPreferences,
+  updateUserRow,
+  USER_SORTS,
+  type UserSort,
 } from './auth.repo';
 import { hashToken, newToken } from './tokens';
 
@@ -64,7 +69,7 @@ export function createAuthService(deps: FeatureDeps) {
     const hashPw = await bcrypt.hash(password, deps.bcryptCost);
     db.transaction((tx) => {
       markTokenUsed(tx, found.id, iso());
-      tx.update(users).set({ passwordHash: hashPw }).where(eq(users.id, found.userId)).run();
+      setUserPassword(tx, found.userId, hashPw);
       writeAudit(tx, { actorId: found.userId, action: 'password-reset', entity: 'user', entityId: found.userId });
     });
     // Whoever held the old password loses their sessions.
@@ -81,7 +86,7 @@ export function createAuthService(deps: FeatureDeps) {
     const hashPw = await bcrypt.hash(password, deps.bcryptCost);
     const row = db.transaction((tx) => {
       markTokenUsed(tx, found.id, iso());
-      tx.update(users).set({ passwordHash: hashPw, name }).where(eq(users.id, found.userId)).run();
+      setUserPassword(tx, found.userId, hashPw, name);
       writeAudit(tx, { actorId: found.userId, action: 'invitation-accepted', entity: 'user', entityId: found.userId });
       return findUserById(tx, found.userId);
     });
@@ -116,18 +121,14 @@ export function createAuthService(deps: FeatureDeps) {
   }
 
   function listUsers(q: ListQuery): { items: AdminUser[]; page: number; pageSize: number; total: number } {
-    const sortable = { name: users.name, email: users.email, role: users.role, createdAt: users.createdAt } as const;
-    const key = (q.sort?.replace(/^-/, '') ?? 'name') as keyof typeof sortable;
-    const column = sortable[key];
-    if (!column) throw new ValidationFailed('Unknown sort field', { sort: [`Sort by one of ${Object.keys(sortable).join(', ')}`] });
-    const rows = db
-      .select()
-      .from(users)
-      .orderBy(q.sort?.startsWith('-') ? desc(column) : asc(column), asc(users.id))
-      .limit(q.pageSize)
-      .offset((q.page - 1) * q.pageSize)
-      .all();
-    const total = db.select({ n: count() }).from(users).get()?.n ?? 0;
+    const key = q.sort?.replace(/^-/, '') ?? 'name';
+    if (!Object.hasOwn(USER_SORTS, key)) throw new ValidationFailed('Unknown sort field', { sort: [`Sort by one of ${Object.keys(USER_SORTS).join(', ')}`] });
+    const { rows, total } = listUserRows(db, {
+      sort: key as UserSort,
+      descending: q.sort?.startsWith('-') ?? false,
+      limit: q.pageSize,
+      offset: (q.page - 1) * q.pageSize,
+    });
     return {
       items: rows.map((r) => ({ ...toUser(r), createdAt: r.createdAt, invitationPending: r.passwordHash === null })),
       page: q.page,
@@ -144,11 +145,11 @@ export function createAuthService(deps: FeatureDeps) {
       let userId: number;
       if (existing) {
         // Re-inviting someone who never accepted: refresh name and role, retire the old link.
-        tx.update(users).set({ name: input.name, role: input.role }).where(eq(users.id, existing.id)).run();
+        updateUserRow(tx, existing.id, { name: input.name, role: input.role });
         retireTokens(tx, existing.id, 'invitation', iso());
         userId = existing.id;
       } else {
-        userId = tx.insert(users).values({ email: input.email, name: input.name, role: input.role, createdBy: actor.id }).returning({ id: users.id }).get().id;
+        userId = insertUser(tx, { email: input.email, name: input.name, role: input.role, createdBy: actor.id });
       }
       insertToken(tx, { userId, kind: 'invitation', tokenHash: hash, expiresAt: later(INVITATION_HOURS), createdBy: actor.id });
       writeAudit(tx, { actorId: actor.id, action: 'invite', entity: 'user', entityId: userId, after: { email: input.email, role: input.role } });
@@ -172,7 +173,7 @@ export function createAuthService(deps: FeatureDeps) {
       });
     }
     const row = db.transaction((tx) => {
-      tx.update(users).set(input).where(eq(users.id, id)).run();
+      updateUserRow(tx, id, input);
       const after = findUserById(tx, id)!;
       writeAudit(tx, {
         actorId: actor.id,
@@ -189,13 +190,7 @@ export function createAuthService(deps: FeatureDeps) {
   }
 
   function pendingTokenCount(): number {
-    return (
-      db
-        .select({ n: count() })
-        .from(authTokens)
-        .where(sql`${authTokens.usedAt} IS NULL`)
-        .get()?.n ?? 0
-    );
+    return countPendingTokens(db);
   }
 
   return {

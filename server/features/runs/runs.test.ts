@@ -190,7 +190,7 @@ describe('creating and editing a run', () => {
     expect(unknown.status).toBe(400);
     expect(unknown.body.error.fieldErrors.pressure).toEqual(['Unknown field']);
     const alt = await as.technician.post('/api/runs').send({ chamber: 'x', altitudeM: 9000 });
-    expect(alt.body.error.fieldErrors.altitudeM[0]).toMatch(/5000 m/);
+    expect(alt.body.error.fieldErrors.altitudeM[0]).toMatch(/5,000 m \(16,404 ft\)/);
     const lot = await as.technician.post('/api/runs').send({ chamber: 'x', resinLotId: 999999 });
     expect(lot.status).toBe(422);
     expect(lot.body.error.fieldErrors.resinLotId).toBeTruthy();

@@ -181,7 +181,7 @@ const GridRow = memo(function GridRow({ ctx, coupon, r }: { ctx: GridCtx; coupon
     <tr ref={ctx.measure} data-index={r} aria-rowindex={r + HEADER_ROWS + 1} className={model.edited ? 'bg-amber-light/20' : undefined}>
       <th scope="row" role="rowheader" aria-colindex={1} className="sticky left-0 z-10 border-b border-paper-edge bg-paper align-top font-normal">
         {/* Out of the Tab order: inside the grid, Tab moves between cells like a spreadsheet. */}
-        <Link to={paths.coupon.href({ id: coupon.id })} tabIndex={-1} className="whitespace-nowrap">
+        <Link to={paths.coupon.href({ id: coupon.id })} tabIndex={-1} title={coupon.tag} className="block break-all sm:truncate">
           {coupon.tag}
         </Link>
       </th>
@@ -527,7 +527,7 @@ export function EntryGrid({
           header, the tag and (on a wide screen) the computed columns kept in view. */}
       <div
         ref={scrollRef}
-        className="relative left-1/2 max-h-[calc(100vh-7rem)] min-h-[16rem] w-[calc(100vw-2rem)] max-w-[120rem] -translate-x-1/2 scroll-pl-[7rem] overflow-auto rounded border border-paper-edge lg:scroll-pr-[35rem]"
+        className="relative left-1/2 max-h-[calc(100vh-7rem)] min-h-[16rem] w-[calc(100vw-2rem)] max-w-[120rem] -translate-x-1/2 scroll-pl-[7rem] overflow-auto sm:scroll-pl-[11rem] rounded border border-paper-edge lg:scroll-pr-[35rem]"
         style={{ scrollPaddingTop: headHeight }}
       >
         <table
@@ -540,7 +540,8 @@ export function EntryGrid({
           style={{ width: `${tableWidth}rem` }}
         >
           <colgroup>
-            <col style={{ width: `${W.tag}rem` }} />
+            {/* The tag column is narrower on a phone, where it would otherwise take half the screen. */}
+            <col className="w-[7rem] sm:w-[11rem]" />
             <col style={{ width: `${W.condition}rem` }} />
             <col style={{ width: `${W.species}rem` }} />
             {ENTRY_COLUMNS.map((c) => (
@@ -576,8 +577,15 @@ const GridHead = memo(function GridHead({
   units: Units;
   computed: ComputedColumn[];
 }) {
-  const group = (label: string, span: number, colIndex: number, extra = '') => (
-    <th scope="colgroup" colSpan={span} aria-colindex={colIndex} className={`bg-paper-deep text-center ${extra}`}>
+  // Only the entry columns are grouped by stage. The other headers span both header rows, so a header that
+  // stays in view (the tag, the computed columns) never sits under another column's group label.
+  const group = (label: string, span: number, colIndex: number) => (
+    <th scope="colgroup" colSpan={span} aria-colindex={colIndex} className="bg-paper-deep text-center">
+      {label}
+    </th>
+  );
+  const whole = (label: ReactNode, colIndex: number, extra = '') => (
+    <th scope="col" rowSpan={HEADER_ROWS} aria-colindex={colIndex} className={`bg-paper-deep align-bottom text-xs ${extra}`}>
       {label}
     </th>
   );
@@ -586,39 +594,30 @@ const GridHead = memo(function GridHead({
   return (
     <thead ref={headRef} className="sticky top-0 z-20">
       <tr aria-rowindex={1}>
-        {group('Coupon', LEAD, 1)}
+        {whole('Tag', 1, 'sticky left-0 z-10')}
+        {whole('Condition', 2)}
+        {whole('Species, role', 3)}
         {group('Dry', 4, LEAD + 1)}
         {group('Soaked', 1, LEAD + 5)}
         {group('Cured', 4, LEAD + 6)}
-        <th scope="col" rowSpan={HEADER_ROWS} aria-colindex={checkIndex} className="bg-paper-deep align-bottom text-xs">
-          Check
-        </th>
-        {group('Computed', n, checkIndex + 1, `${STICKY_RIGHT} right-0 lg:border-l lg:border-l-rule`)}
-      </tr>
-      <tr aria-rowindex={2}>
-        <th scope="col" aria-colindex={1} className="sticky left-0 z-10 bg-paper-deep align-bottom text-xs">
-          Tag
-        </th>
-        <th scope="col" aria-colindex={2} className="bg-paper-deep align-bottom text-xs">
-          Condition
-        </th>
-        <th scope="col" aria-colindex={3} className="bg-paper-deep align-bottom text-xs">
-          Species, role
-        </th>
-        {ENTRY_COLUMNS.map((col, c) => (
-          <th key={col.id} scope="col" aria-colindex={LEAD + c + 1} className="bg-paper-deep text-right align-bottom text-xs">
-            {col.label.replace(/^(Dry|Soaked|Cured) /, '').replace(/^./, (x) => x.toUpperCase())} ({units.label(col.quantity)})
-          </th>
-        ))}
+        {whole('Check', checkIndex)}
         {computed.map((col, i) => (
           <th
             key={col.id}
             scope="col"
+            rowSpan={HEADER_ROWS}
             aria-colindex={checkIndex + 1 + i}
             className={`${STICKY_RIGHT} bg-paper-deep text-right align-bottom text-xs ${i === 0 ? 'lg:border-l lg:border-l-rule' : ''}`}
             style={{ right: rightOf(i, n) }}
           >
             {col.header}
+          </th>
+        ))}
+      </tr>
+      <tr aria-rowindex={2}>
+        {ENTRY_COLUMNS.map((col, c) => (
+          <th key={col.id} scope="col" aria-colindex={LEAD + c + 1} className="bg-paper-deep text-right align-bottom text-xs">
+            {col.label.replace(/^(Dry|Soaked|Cured) /, '').replace(/^./, (x) => x.toUpperCase())} ({units.label(col.quantity)})
           </th>
         ))}
       </tr>

@@ -1,0 +1,91 @@
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import Database from 'better-sqlite3';
+import { afterAll, describe, expect, it } from 'vitest';
+import { ANALYSIS_SOURCE_TABLES, Lru, createDataVersion, keyOf } from './analysis.cache';
+
+const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'lumenbook-analysis-cache-'));
+afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
+
+/** A file with a table of each source name (their columns do not matter to the version). */
+function open(file: string) {
+  const db = new Database(file);
+  for (const t of ANALYSIS_SOURCE_TABLES) db.exec(`create table if not exists ${t} (id integer primary key, v real)`);
+  return db;
+}
+
+describe('the data version an analysis answer is cached under', () => {
+  it('changes with every insert, update and delete on a source table through this connection', () => {
+    const db = open(path.join(dir, 'one.db'));
+    const version = createDataVersion(db);
+    const v0 = version();
+    expect(version()).toBe(v0);
+    db.prepare('insert into coupon_results (id, v) values (1, 10)').run();
+    const v1 = version();
+    expect(v1).not.toBe(v0);
+    db.prepare('update coupon_results set v = 11 where id = 1').run();
+    const v2 = version();
+    expect(v2).not.toBe(v1);
+    db.prepare('insert into run_stages (id, v) values (1, 1)').run();
+    const v3 = version();
+    expect(v3).not.toBe(v2);
+    db.prepare('delete from species').run(); // no row: nothing changed, nothing counted
+    expect(version()).toBe(v3);
+    db.close();
+  });
+
+  it('takes a rolled-back write back, and leaves writes to other tables out', () => {
+    const db = open(path.join(dir, 'two.db'));
+    db.exec('create table sessions (sid text primary key)');
+    const version = createDataVersion(db);
+    const v0 = version();
+    expect(() =>
+      db.transaction(() => {
+        db.prepare('insert into coupon_results (v) values (1)').run();
+        throw new Error('refused');
+      })(),
+    ).toThrow('refused');
+    expect(version()).toBe(v0);
+    db.prepare("insert into sessions values ('a')").run();
+    expect(version()).toBe(v0);
+    db.close();
+  });
+
+  it('changes when another connection writes, and when the schema changes (triggers put back)', () => {
+    const file = path.join(dir, 'three.db');
+    const reader = open(file);
+    const version = createDataVersion(reader);
+    const v0 = version();
+    const writer = new Database(file);
+    writer.prepare('insert into coupon_results (v) values (2)').run();
+    const v1 = version();
+    expect(v1).not.toBe(v0);
+    writer.close();
+    // A migration that rebuilds a table drops its triggers; the next version check puts them back.
+    reader.exec('drop table coupon_results; create table coupon_results (id integer primary key, v real)');
+    const v2 = version();
+    expect(v2).not.toBe(v1);
+    reader.prepare('insert into coupon_results (v) values (3)').run();
+    expect(version()).not.toBe(v2);
+    reader.close();
+  });
+});
+
+describe('cache helpers', () => {
+  it('keys plain data regardless of key order and of undefined fields', () => {
+    expect(keyOf({ a: 1, b: [2, 3], c: undefined })).toBe(keyOf({ b: [2, 3], a: 1 }));
+    expect(keyOf({ a: [1, 2] })).not.toBe(keyOf({ a: [2, 1] }));
+  });
+
+  it('drops the least recently used entry', () => {
+    const lru = new Lru<number>(2);
+    lru.set('a', 1);
+    lru.set('b', 2);
+    expect(lru.get('a')).toBe(1);
+    lru.set('c', 3);
+    expect(lru.get('b')).toBeUndefined();
+    expect(lru.get('a')).toBe(1);
+    expect(lru.size).toBe(2);
+  });
+});
