@@ -48,6 +48,13 @@ test.describe('the ambient pressure of a vacuum: altitude in the shop settings, 
 
       await expect(page.getByRole('status').filter({ hasText: 'Vacuum started.' })).toBeVisible();
       await expect(page.getByText(/Gauge readings at 0 m, against the shop's barometer, 102\.50 kPa/)).toBeVisible();
+      // The run's history says what was recorded, the barometer included, and nothing about an oven.
+      const newest = page
+        .getByRole('region', { name: /History, newest first/ })
+        .getByRole('listitem')
+        .first();
+      await expect(newest).toContainText('shop barometer: 102.50 kPa');
+      await expect(newest).not.toContainText('oven');
     });
   });
 });
