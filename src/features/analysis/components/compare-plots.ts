@@ -66,18 +66,24 @@ export function wpgVsSgPlot(o: Pick<Overview, 'densityFit' | 'theoreticalMax'> &
   });
 }
 
-export function wpgVsThicknessPlot(fit: Fit | null, points: PointSet): Element {
+/**
+ * WPG against thickness in the reader's length unit: `len.perMm` display units per mm (the server's
+ * points and fit are in mm), and the label of that unit.
+ */
+export function wpgVsThicknessPlot(fit: Fit | null, points: PointSet, len: { label: string; perMm: number; decimals: number }): Element {
   const { species, resins } = domains(points.points);
+  const shown: PointSet = len.perMm === 1 ? points : { ...points, points: points.points.map((p) => ({ ...p, x: p.x * len.perMm })) };
+  const line: Fit | null = fit && len.perMm !== 1 ? { ...fit, band: fit.band.map((b) => ({ ...b, x: b.x * len.perMm })) } : fit;
   return Plot.plot({
     width: WIDTH,
     height: HEIGHT,
     marginLeft: 56,
     grid: true,
-    x: { label: 'Thickness (mm)' },
+    x: { label: `Thickness (${len.label})` },
     y: { label: 'WPG (%)' },
     color: { type: 'ordinal', domain: species, range: SPECIES_COLOURS, legend: true },
     symbol: { domain: resins, range: RESIN_SYMBOLS, legend: true },
-    marks: [...fitMarks(fit), couponDots(points.points, 'thickness (mm)', 1)],
+    marks: [...fitMarks(line), couponDots(shown.points, `thickness (${len.label})`, len.decimals)],
   });
 }
 
@@ -159,7 +165,9 @@ export function swellingPlot(rows: Overview['plots']['swelling']): Element {
         r: 4.5,
         fillOpacity: 0.85,
         title: (d: (typeof rows)[number]) =>
-          `${d.tag} — ${d.species}, ${d.role}: swelling ${d.swellingPct.toFixed(1)} %${d.asePct !== null ? `, ASE ${d.asePct.toFixed(0)} %` : ''}`,
+          `${d.tag} — ${d.species}, ${d.role}: swelling ${d.swellingPct.toFixed(1)} %` +
+          (d.asePct !== null ? `, ASE ${d.asePct.toFixed(0)} %` : '') +
+          (d.wrePct !== null ? `, WRE ${d.wrePct.toFixed(0)} %` : ''),
         tip: true,
       }),
     ],

@@ -15,6 +15,8 @@ import {
 } from '../../../../shared/schemas/analysis';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
 import { useRole } from '../../../lib/session';
+import { useUnits, type Units } from '../../../lib/use-units';
+import { fitSentenceIn, type LengthScale } from '../../../../shared/analysis/fits';
 import { filterChoicesQuery, overviewQuery, useSaveEvidence } from '../api/analysis-queries';
 import { hardnessPlot, residualPlot, swellingPlot, wpgVsSgPlot, wpgVsThicknessPlot } from './compare-plots';
 import { GroupTable } from './group-table';
@@ -88,8 +90,30 @@ function Select({ label, value, onChange, children }: { label: string; value: st
   );
 }
 
+/** The reader's length unit for thickness: the fits and filters are in mm, the screen speaks this. */
+export function lengthScale(units: Units): LengthScale & { decimals: number } {
+  const unit = units.unit('length');
+  return {
+    label: units.label('length'),
+    perMm: units.toDisplay(1, 'length'),
+    // The step a sentence speaks in: 1 mm, or a tenth of a centimetre or an inch.
+    step: unit === 'mm' ? 1 : 0.1,
+    decimals: unit === 'mm' ? 1 : unit === 'cm' ? 2 : 3,
+  };
+}
+
+/** A thickness filter value (mm, in the address) as the reader types it, and back. */
+const roundDisplay = (v: number) => String(Number(v.toPrecision(6)));
+
 function FilterBar({ filters, sgBasis, set }: { filters: AnalysisFilters; sgBasis: SgBasis; set: (k: string, v: string | undefined) => void }) {
   const choices = useQuery(filterChoicesQuery());
+  const units = useUnits();
+  const len = units.label('length');
+  const shownMm = (mm: number | undefined) => (mm === undefined ? '' : roundDisplay(units.toDisplay(mm, 'length')));
+  const setMm = (key: string) => (typed: string) => {
+    const n = Number(typed);
+    set(key, typed === '' || !Number.isFinite(n) ? typed : roundDisplay(units.fromDisplay(n, 'length')));
+  };
   const first = (v: number[] | undefined) => (v?.length === 1 ? String(v[0]) : '');
   const c = choices.data;
   return (
@@ -138,11 +162,15 @@ function FilterBar({ filters, sgBasis, set }: { filters: AnalysisFilters; sgBasi
           ))}
         </Select>
         <TextFilter label="Source board" value={filters.sourceBoard ?? ''} onCommit={(v) => set('sourceBoard', v)} />
-        <TextFilter label="Thickness from (mm)" type="number" value={filters.thicknessMinMm?.toString() ?? ''} onCommit={(v) => set('thicknessMinMm', v)} />
-        <TextFilter label="to (mm)" type="number" value={filters.thicknessMaxMm?.toString() ?? ''} onCommit={(v) => set('thicknessMaxMm', v)} />
-        <TextFilter label="Entered from" type="date" value={filters.from ?? ''} onCommit={(v) => set('from', v)} />
+        <TextFilter label={`Thickness from (${len})`} type="number" value={shownMm(filters.thicknessMinMm)} onCommit={setMm('thicknessMinMm')} />
+        <TextFilter label={`to (${len})`} type="number" value={shownMm(filters.thicknessMaxMm)} onCommit={setMm('thicknessMaxMm')} />
+        <TextFilter label="Treated from" type="date" value={filters.from ?? ''} onCommit={(v) => set('from', v)} />
         <TextFilter label="to" type="date" value={filters.to ?? ''} onCommit={(v) => set('to', v)} />
       </div>
+      <p className="mt-2 text-xs text-ink-soft">
+        Treated dates are when the run's cure began (its soak, when no cure is recorded). Controls stay in when their trial has a coupon treated in the range;
+        coupons not yet in a run have no treated date and drop out.
+      </p>
       <fieldset className="mt-3 flex flex-wrap items-center gap-4 text-sm">
         <legend className="sr-only">Oven-dry SG on the x axis</legend>
         <span className="font-semibold">SG on the x axis:</span>
@@ -211,7 +239,9 @@ function Results({ o, filters, sgBasis }: { o: Overview; filters: AnalysisFilter
   );
   const xLabel = sgBasis === 'measured' ? "Oven-dry SG (each coupon's own)" : "Oven-dry SG (species' handbook value)";
   const buildSg = useCallback(() => wpgVsSgPlot({ densityFit: o.densityFit, theoreticalMax: o.theoreticalMax, points: o.plots.wpgVsSg }, xLabel), [o, xLabel]);
-  const buildThickness = useCallback(() => wpgVsThicknessPlot(o.thicknessFit, o.plots.wpgVsThickness), [o]);
+  const units = useUnits();
+  const len = useMemo(() => lengthScale(units), [units]);
+  const buildThickness = useCallback(() => wpgVsThicknessPlot(o.thicknessFit, o.plots.wpgVsThickness, len), [o, len]);
   const buildResiduals = useCallback(() => residualPlot(o.plots.residuals), [o]);
   const buildHardness = useCallback(() => hardnessPlot(o.plots.hardness), [o]);
   const buildSwelling = useCallback(() => swellingPlot(o.plots.swelling), [o]);
@@ -239,7 +269,7 @@ function Results({ o, filters, sgBasis }: { o: Overview; filters: AnalysisFilter
       {o.plots.wpgVsThickness.total > 0 && (
         <PlotFigure
           title="WPG against thickness"
-          caption={`${o.thicknessFit?.sentence ?? 'No line: the coupons do not spread in thickness.'} ${shownText(o.plots.wpgVsThickness)}`}
+          caption={`${o.thicknessFit ? fitSentenceIn(o.thicknessFit, len) : 'No line: the coupons do not spread in thickness.'} ${shownText(o.plots.wpgVsThickness)}`}
           fileName="wpg-vs-thickness"
           build={buildThickness}
           onPick={openCoupon}
@@ -247,7 +277,7 @@ function Results({ o, filters, sgBasis }: { o: Overview; filters: AnalysisFilter
         />
       )}
 
-      <MultipleReadout fit={o.multipleFit} notes={o.fitNotes} />
+      <MultipleReadout fit={o.multipleFit} notes={o.fitNotes} len={len} />
 
       <GroupTable groups={o.groups} />
       <TwoGroupCompare key={JSON.stringify(filters)} groups={o.groups} filters={filters} onResult={setCompareView} />
@@ -263,8 +293,8 @@ function Results({ o, filters, sgBasis }: { o: Overview; filters: AnalysisFilter
       )}
       {o.plots.swelling.length > 0 && (
         <PlotFigure
-          title="Swelling in the water soak, and ASE"
-          caption={`Each dot is one coupon's swelling after the water soak (${o.plots.swelling.length} coupons); treated coupons that swell less than their controls have a positive anti-swell efficiency (ASE), shown in the table above.`}
+          title="Swelling in the water soak, ASE and WRE"
+          caption={`Each dot is one coupon's swelling after the water soak (${o.plots.swelling.length} coupons). Treated coupons that swell less than their controls have a positive anti-swell efficiency (ASE) when swelling is measured on dimensions, or a positive water-repellent effectiveness (WRE) when the soak is judged by mass; both are in the table above, never pooled.`}
           fileName="swelling"
           build={buildSwelling}
           onPick={openCoupon}
@@ -289,14 +319,21 @@ function Results({ o, filters, sgBasis }: { o: Overview; filters: AnalysisFilter
 
 const sign = (v: number, d: number) => (v < 0 ? `−${Math.abs(v).toFixed(d)}` : v.toFixed(d));
 
-function MultipleReadout({ fit, notes }: { fit: Fit | null; notes: string[] }) {
+/** A coefficient per mm restated per the reader's length unit (its SE and CI scale the same way). */
+function inLength(c: Fit['coefficients'][number], len: LengthScale): Fit['coefficients'][number] {
+  if (c.name !== 'thickness (mm)' || len.perMm === 1) return c;
+  const k = 1 / len.perMm;
+  return { name: `thickness (${len.label})`, estimate: c.estimate * k, se: c.se * k, ci95: [c.ci95[0] * k, c.ci95[1] * k] };
+}
+
+function MultipleReadout({ fit, notes, len }: { fit: Fit | null; notes: string[]; len: LengthScale }) {
   return (
     <section aria-labelledby="multiple-h" className="sheet mb-8 p-4">
       <h2 id="multiple-h">Uptake on SG and thickness together</h2>
       {fit ? (
         <>
           <p className="my-2 max-w-3xl" data-testid="multiple-sentence">
-            {fit.sentence}
+            {fitSentenceIn(fit, len)}
           </p>
           <table className="data-table">
             <caption className="sr-only">Multiple regression of WPG on oven-dry SG and thickness</caption>
@@ -309,18 +346,20 @@ function MultipleReadout({ fit, notes }: { fit: Fit | null; notes: string[] }) {
               </tr>
             </thead>
             <tbody>
-              {fit.coefficients.map((c) => (
-                <tr key={c.name}>
-                  <th scope="row" className="text-left font-normal">
-                    {c.name}
-                  </th>
-                  <td>{sign(c.estimate, 3)}</td>
-                  <td>{c.se.toFixed(3)}</td>
-                  <td>
-                    {sign(c.ci95[0], 3)} to {sign(c.ci95[1], 3)}
-                  </td>
-                </tr>
-              ))}
+              {fit.coefficients
+                .map((raw) => inLength(raw, len))
+                .map((c) => (
+                  <tr key={c.name}>
+                    <th scope="row" className="text-left font-normal">
+                      {c.name}
+                    </th>
+                    <td>{sign(c.estimate, 3)}</td>
+                    <td>{c.se.toFixed(3)}</td>
+                    <td>
+                      {sign(c.ci95[0], 3)} to {sign(c.ci95[1], 3)}
+                    </td>
+                  </tr>
+                ))}
             </tbody>
           </table>
           <p className="mt-1 text-sm text-ink-soft">
