@@ -1,4 +1,6 @@
+import { getTableColumns } from 'drizzle-orm';
 import type { Db } from '../db/client';
+import { checks, weighings } from '../db/schema/coupons';
 import { writeAudit } from '../db/audit';
 import { AppError, Conflict, NotFound, Unprocessable, ValidationFailed } from '../http/errors';
 import type { MeasurementSource, WeighingStage } from '../../shared/constants/records';
@@ -16,7 +18,18 @@ import {
   type CheckRow,
   type WeighingRow,
 } from './readings.repo';
-import { refreshResults } from './results';
+import { prepared, refreshResults } from './results';
+
+const INSERT_WEIGHING = 'insert into weighings (coupon_id, stage, mass_g, measured_at, import_id, source, created_by) values (?, ?, ?, ?, ?, ?, ?)';
+const INSERT_CHECK =
+  'insert into checks (coupon_id, kind, stage, measured_at, length_mm, width_mm, thickness_mm, volume_cm3, hardness_value, hardness_scale, moisture_pct, method, import_id, source, created_by) values (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)';
+/** The stored row back, named as drizzle names it (WeighingRow, CheckRow): every column is plain, none needs mapping. */
+const returning = (table: typeof weighings | typeof checks) =>
+  ` returning ${Object.entries(getTableColumns(table))
+    .map(([key, col]) => `${col.name} as "${key}"`)
+    .join(', ')}`;
+const INSERT_WEIGHING_RETURNING = INSERT_WEIGHING + returning(weighings);
+const INSERT_CHECK_RETURNING = INSERT_CHECK + returning(checks);
 
 /** Who is writing: only the id is stored (created_by, audit actor). */
 export interface Actor {
@@ -97,6 +110,37 @@ export function combinedError(failures: AppError[]): AppError {
   return new AppError(first.code, `${failures.length} readings have problems, nothing was saved; the first: ${first.message}`, fieldErrors);
 }
 
+/**
+ * An audit insert with the actor's name and e-mail filled from one lookup: the table's trigger would
+ * otherwise run an UPDATE per entry to fill them (it only acts when they are missing), which cost more
+ * than the insert itself at 100,000 entries.
+ */
+function auditWriter(tx: Db, actor: Actor, action: string, entity: 'coupon' | 'weighing' | 'check' = 'coupon') {
+  const who = prepared(tx, 'select name, email from users where id = ?').get(actor.id) as { name: string; email: string } | undefined;
+  const ins = prepared(
+    tx,
+    'insert into audit_log (actor_id, created_by, actor_name, actor_email, action, entity, entity_id, before, after, reason) values (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)',
+  );
+  return (entityId: number, before: unknown, after: unknown, reason: string | null) =>
+    ins.run(
+      actor.id,
+      actor.id,
+      who?.name ?? null,
+      who?.email ?? null,
+      action,
+      entity,
+      String(entityId),
+      before === null ? null : JSON.stringify(before),
+      JSON.stringify(after),
+      reason,
+    );
+}
+
+/** A raw row with its columns named as drizzle names them (mass_g → massG), for the audit entry. */
+function camel(row: object): Record<string, unknown> {
+  return Object.fromEntries(Object.entries(row).map(([k, v]) => [k.replace(/_([a-z0-9])/g, (_, c: string) => c.toUpperCase()), v]));
+}
+
 interface CouponState {
   tag: string;
   role: 'treated' | 'control';
@@ -104,33 +148,26 @@ interface CouponState {
   dimensionStages: Set<string>;
 }
 
-function client(tx: Db) {
-  return (tx as unknown as { session: { client: import('better-sqlite3').Database } }).session.client;
-}
-
-/** The stored state the rules need, for every coupon of the entries, in three queries. */
+/** The stored state the rules need, for every coupon of the entries, in three queries binding one JSON array. */
 function loadStates(tx: Db, couponIds: number[]): Map<number, CouponState> {
-  const ids = JSON.stringify([...new Set(couponIds)]);
-  const c = client(tx);
+  const ids = JSON.stringify(couponIds.length === 1 ? couponIds : [...new Set(couponIds)]);
   const states = new Map<number, CouponState>();
-  for (const r of c.prepare('select id, tag, role from coupons where id in (select value from json_each(?))').all(ids) as {
+  for (const r of prepared(tx, 'select id, tag, role from coupons where id in (select value from json_each(?))').all(ids) as {
     id: number;
     tag: string;
     role: 'treated' | 'control';
   }[]) {
     states.set(r.id, { tag: r.tag, role: r.role, weighings: [], dimensionStages: new Set() });
   }
-  const ws = c
-    .prepare(
-      'select coupon_id as couponId, stage, mass_g as massG, measured_at as measuredAt from weighings where coupon_id in (select value from json_each(?)) and superseded_by is null and deleted_at is null order by measured_at, id',
-    )
-    .all(ids) as (WeighingReading & { couponId: number })[];
+  const ws = prepared(
+    tx,
+    'select coupon_id as couponId, stage, mass_g as massG, measured_at as measuredAt from weighings where coupon_id in (select value from json_each(?)) and superseded_by is null and deleted_at is null order by measured_at, id',
+  ).all(ids) as (WeighingReading & { couponId: number })[];
   for (const w of ws) states.get(w.couponId)?.weighings.push({ stage: w.stage, massG: w.massG, measuredAt: w.measuredAt });
-  const dims = c
-    .prepare(
-      "select coupon_id as couponId, stage from checks where coupon_id in (select value from json_each(?)) and kind = 'dimension' and superseded_by is null and deleted_at is null",
-    )
-    .all(ids) as { couponId: number; stage: string }[];
+  const dims = prepared(
+    tx,
+    "select coupon_id as couponId, stage from checks where coupon_id in (select value from json_each(?)) and kind = 'dimension' and superseded_by is null and deleted_at is null",
+  ).all(ids) as { couponId: number; stage: string }[];
   for (const d of dims) states.get(d.couponId)?.dimensionStages.add(d.stage);
   return states;
 }
@@ -249,23 +286,37 @@ export function createMeasurements(deps: { now: () => Date }) {
     if (problems.length) throw combinedError(errorsOf(problems, prefixOf));
     const weighingRows: WeighingRow[] = [];
     const checkRows: CheckRow[] = [];
+    const insW = prepared(tx, INSERT_WEIGHING_RETURNING);
+    const insC = prepared(tx, INSERT_CHECK_RETURNING);
+    const auditW = auditWriter(tx, actor, 'create', 'weighing');
+    const auditC = auditWriter(tx, actor, 'create', 'check');
+    const importId = importIdOf(source);
     for (const e of entries) {
       for (const w of e.weighings ?? []) {
-        const row = insertWeighing(tx, {
-          couponId: e.couponId,
-          stage: w.stage,
-          massG: w.massG,
-          measuredAt: w.measuredAt,
-          importId: importIdOf(source),
-          source,
-          createdBy: actor.id,
-        });
-        writeAudit(tx, { actorId: actor.id, action: 'create', entity: 'weighing', entityId: row.id, after: row });
+        const row = insW.get(e.couponId, w.stage, w.massG, w.measuredAt, importId, source, actor.id) as WeighingRow;
+        auditW(row.id, null, row, null);
         weighingRows.push(row);
       }
       for (const k of e.checks ?? []) {
-        const row = insertCheck(tx, checkValues(e.couponId, k, source, actor.id));
-        writeAudit(tx, { actorId: actor.id, action: 'create', entity: 'check', entityId: row.id, after: row });
+        const v = checkValues(e.couponId, k, source, actor.id);
+        const row = insC.get(
+          v.couponId,
+          v.kind,
+          v.stage,
+          v.measuredAt,
+          v.lengthMm,
+          v.widthMm,
+          v.thicknessMm,
+          v.volumeCm3,
+          v.hardnessValue,
+          v.hardnessScale,
+          v.moisturePct,
+          v.method,
+          v.importId,
+          v.source,
+          v.createdBy,
+        ) as CheckRow;
+        auditC(row.id, null, row, null);
         checkRows.push(row);
       }
     }
@@ -306,39 +357,50 @@ export function createMeasurements(deps: { now: () => Date }) {
    * state loaded in three queries; inserts through prepared statements; one audit entry per coupon
    * listing the readings it received; the touched coupons' results rows rewritten in one pass. Nothing
    * is written when any reading is refused: the error lists every problem (see `checkBulk` to get them
-   * as data). Call it inside one transaction.
+   * as data) — unless `skipRefused`, which writes the others and answers the refused ones (an import
+   * whose rows were checked before, while other people kept writing). Call it inside one transaction.
    */
-  function bulkAdd(tx: Db, actor: Actor, source: MeasurementSource, entries: readonly MeasurementEntry[], options: { reason?: string } = {}) {
+  function bulkAdd(
+    tx: Db,
+    actor: Actor,
+    source: MeasurementSource,
+    entries: readonly MeasurementEntry[],
+    options: { reason?: string; skipRefused?: boolean } = {},
+  ) {
     const states = loadStates(
       tx,
       entries.map((e) => e.couponId),
     );
-    const problems = validate(entries, states);
-    if (problems.length) throw combinedError(errorsOf(problems, batchPrefix));
-    const c = client(tx);
+    const refused = validate(entries, states);
+    if (refused.length && !options.skipRefused) throw combinedError(errorsOf(refused, batchPrefix));
+    const skip = new Set<string>();
+    for (const p of refused) skip.add(p.list === null ? `${p.entry}` : `${p.entry}|${p.list}|${p.index}`);
     const importId = importIdOf(source);
-    const insW = c.prepare('insert into weighings (coupon_id, stage, mass_g, measured_at, import_id, source, created_by) values (?, ?, ?, ?, ?, ?, ?)');
-    const insC = c.prepare(
-      'insert into checks (coupon_id, kind, stage, measured_at, length_mm, width_mm, thickness_mm, volume_cm3, hardness_value, hardness_scale, moisture_pct, method, import_id, source, created_by) values (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)',
-    );
-    const insA = c.prepare(
-      "insert into audit_log (actor_id, created_by, action, entity, entity_id, after, reason) values (?, ?, 'add-readings', 'coupon', ?, ?, ?)",
-    );
+    const insW = prepared(tx, INSERT_WEIGHING);
+    const insC = prepared(tx, INSERT_CHECK);
+    const audit = auditWriter(tx, actor, 'add-readings');
     const perCoupon = new Map<number, { weighings: unknown[]; checks: unknown[] }>();
     let nw = 0;
     let nc = 0;
-    for (const e of entries) {
-      let mine = perCoupon.get(e.couponId);
-      if (!mine) {
-        mine = { weighings: [], checks: [] };
-        perCoupon.set(e.couponId, mine);
-      }
-      for (const w of e.weighings ?? []) {
+    entries.forEach((e, i) => {
+      if (skip.size && skip.has(`${i}`)) return;
+      let mine: { weighings: unknown[]; checks: unknown[] } | undefined;
+      const mineOf = () => {
+        mine ??= perCoupon.get(e.couponId);
+        if (!mine) {
+          mine = { weighings: [], checks: [] };
+          perCoupon.set(e.couponId, mine);
+        }
+        return mine;
+      };
+      (e.weighings ?? []).forEach((w, j) => {
+        if (skip.size && skip.has(`${i}|weighings|${j}`)) return;
         const id = insW.run(e.couponId, w.stage, w.massG, w.measuredAt, importId, source, actor.id).lastInsertRowid;
-        mine.weighings.push({ id: Number(id), stage: w.stage, massG: w.massG, measuredAt: w.measuredAt });
+        mineOf().weighings.push({ id: Number(id), stage: w.stage, massG: w.massG, measuredAt: w.measuredAt });
         nw++;
-      }
-      for (const k of e.checks ?? []) {
+      });
+      (e.checks ?? []).forEach((k, j) => {
+        if (skip.size && skip.has(`${i}|checks|${j}`)) return;
         const v = checkValues(e.couponId, k, source, actor.id);
         const id = insC.run(
           v.couponId,
@@ -357,14 +419,56 @@ export function createMeasurements(deps: { now: () => Date }) {
           v.source,
           v.createdBy,
         ).lastInsertRowid;
-        mine.checks.push({ id: Number(id), ...k });
+        mineOf().checks.push({ id: Number(id), ...k });
         nc++;
-      }
-    }
-    for (const [couponId, after] of perCoupon) insA.run(actor.id, actor.id, String(couponId), JSON.stringify({ source, ...after }), options.reason ?? null);
+      });
+    });
+    for (const [couponId, after] of perCoupon) audit(couponId, null, { source, ...after }, options.reason ?? null);
     const couponIds = [...perCoupon.keys()];
     refreshResults(tx, couponIds);
-    return { written: { weighings: nw, checks: nc }, couponIds };
+    return { written: { weighings: nw, checks: nc }, couponIds, refused };
+  }
+
+  /**
+   * Soft-deletes many current readings at once (an import's undo): every id must name a current
+   * reading (the same rule as `deleteWeighing`/`deleteCheck`); one `delete-readings` audit entry per
+   * coupon lists what it lost, with its values before, and the reason; the touched results rows are
+   * rewritten in one pass. Call it inside one transaction.
+   */
+  function bulkDelete(tx: Db, actor: Actor, ids: { weighings?: readonly number[]; checks?: readonly number[] }, reason: string) {
+    const deletedAt = deps.now().toISOString();
+    const perCoupon = new Map<number, { weighings: unknown[]; checks: unknown[] }>();
+    const lists = [
+      ['weighings', ids.weighings ?? [], 'Weighing', 'select * from weighings where id in (select value from json_each(?))'],
+      ['checks', ids.checks ?? [], 'Check', 'select * from checks where id in (select value from json_each(?))'],
+    ] as const;
+    for (const [table, list, what, select] of lists) {
+      if (!list.length) continue;
+      const json = JSON.stringify(list);
+      const rows = prepared(tx, select).all(json) as { id: number; coupon_id: number; superseded_by: number | null; deleted_at: string | null }[];
+      const byId = new Map(rows.map((r) => [r.id, r]));
+      for (const id of list) {
+        const r = byId.get(id);
+        requireCurrent(r && { supersededBy: r.superseded_by, deletedAt: r.deleted_at }, what);
+      }
+      prepared(tx, `update ${table} set deleted_at = ? where id in (select value from json_each(?))`).run(deletedAt, json);
+      for (const r of rows) {
+        let mine = perCoupon.get(r.coupon_id);
+        if (!mine) {
+          mine = { weighings: [], checks: [] };
+          perCoupon.set(r.coupon_id, mine);
+        }
+        mine[table].push(camel(r));
+      }
+    }
+    const audit = auditWriter(tx, actor, 'delete-readings');
+    for (const [couponId, before] of perCoupon) {
+      const after = { deletedAt, weighings: before.weighings.map((r) => (r as { id: number }).id), checks: before.checks.map((r) => (r as { id: number }).id) };
+      audit(couponId, before, after, reason);
+    }
+    const couponIds = [...perCoupon.keys()];
+    refreshResults(tx, couponIds);
+    return { deleted: { weighings: ids.weighings?.length ?? 0, checks: ids.checks?.length ?? 0 }, couponIds, deletedAt };
   }
 
   /** A correction supersedes: a new row with the new value (source `correction`), the old one pointing at it. */
@@ -445,7 +549,7 @@ export function createMeasurements(deps: { now: () => Date }) {
     return { old: { ...old, deletedAt } };
   }
 
-  return { addWeighing, addCheck, batch, checkBulk, bulkAdd, correctWeighing, correctCheck, deleteWeighing, deleteCheck };
+  return { addWeighing, addCheck, batch, checkBulk, bulkAdd, bulkDelete, correctWeighing, correctCheck, deleteWeighing, deleteCheck };
 }
 
 export type Measurements = ReturnType<typeof createMeasurements>;

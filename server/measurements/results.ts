@@ -142,11 +142,32 @@ interface RawCheck extends Omit<StoredCheck, 'kind' | 'stage' | 'hardnessScale'>
 }
 
 /** better-sqlite3 underneath drizzle: the same connection, so these statements run inside the caller's transaction. */
-function client(tx: Db) {
+export function client(tx: Db) {
   return (
     (tx as unknown as { $client?: import('better-sqlite3').Database }).$client ??
     (tx as unknown as { session: { client: import('better-sqlite3').Database } }).session.client
   );
+}
+
+const statements = new WeakMap<import('better-sqlite3').Database, Map<string, import('better-sqlite3').Statement>>();
+
+/**
+ * A prepared statement, prepared once per connection: preparing the results upsert (51 columns) cost
+ * more than running it, and a single reading's write runs several of these.
+ */
+export function prepared(tx: Db, text: string): import('better-sqlite3').Statement {
+  const c = client(tx);
+  let map = statements.get(c);
+  if (!map) {
+    map = new Map();
+    statements.set(c, map);
+  }
+  let st = map.get(text);
+  if (!st) {
+    st = c.prepare(text);
+    map.set(text, st);
+  }
+  return st;
 }
 
 function groupBy<T extends { couponId: number }>(rows: T[]): Map<number, T[]> {
@@ -174,19 +195,24 @@ const toCheck = (c: RawCheck): CheckReading => ({
 });
 
 const COLUMNS = Object.entries(getTableColumns(couponResults)).map(([key, col]) => ({ key, name: col.name }));
-const UPSERT_SQL = `insert or replace into coupon_results (${COLUMNS.map((c) => c.name).join(', ')}) values (${COLUMNS.map((c) => `@${c.key}`).join(', ')})`;
+// An upsert, not `insert or replace`: replace deletes the row and inserts it again, touching all seven
+// indexes twice; an update touches only the indexes whose columns changed (none, for new readings).
+// Positional parameters: binding 51 named ones cost more than the write.
+const UPSERT_SQL = `insert into coupon_results (${COLUMNS.map((c) => c.name).join(', ')}) values (${COLUMNS.map(() => '?').join(', ')})
+  on conflict (coupon_id) do update set ${COLUMNS.filter((c) => c.key !== 'couponId')
+    .map((c) => `${c.name} = excluded.${c.name}`)
+    .join(', ')}`;
 
-function bindable(v: CouponResultValues): Record<string, unknown> {
-  const out: Record<string, unknown> = {};
-  for (const c of COLUMNS) {
-    const x = (v as Record<string, unknown>)[c.key];
-    out[c.key] = c.key === 'hardness' || c.key === 'problems' ? JSON.stringify(x) : (x ?? null);
-  }
-  return out;
+function bindable(v: CouponResultValues): unknown[] {
+  const rec = v as unknown as Record<string, unknown>;
+  return COLUMNS.map((c) => {
+    const x = rec[c.key];
+    return c.key === 'hardness' || c.key === 'problems' ? JSON.stringify(x) : (x ?? null);
+  });
 }
 
 function writeRows(tx: Db, keys: RawKeys[], ws: Map<number, RawWeighing[]>, cs: Map<number, RawCheck[]>): number {
-  const upsert = client(tx).prepare(UPSERT_SQL);
+  const upsert = prepared(tx, UPSERT_SQL);
   for (const k of keys) {
     const values = resultValues({ ...k, role: k.role as CouponRole }, (ws.get(k.couponId) ?? []).map(toWeighing), (cs.get(k.couponId) ?? []).map(toCheck));
     upsert.run(bindable(values));
@@ -201,15 +227,14 @@ function writeRows(tx: Db, keys: RawKeys[], ws: Map<number, RawWeighing[]>, cs: 
  */
 export function refreshResults(tx: Db, couponIds: readonly number[]): number {
   if (couponIds.length === 0) return 0;
-  const ids = JSON.stringify([...new Set(couponIds)]);
-  const c = client(tx);
-  const keys = c.prepare(`${KEYS_SQL} where c.id in ${IDS}`).all(ids) as RawKeys[];
-  const ws = c
-    .prepare(`${WEIGHINGS_SQL} where w.coupon_id in ${IDS} and w.superseded_by is null and w.deleted_at is null order by w.measured_at, w.id`)
-    .all(ids) as RawWeighing[];
-  const cs = c
-    .prepare(`${CHECKS_SQL} where k.coupon_id in ${IDS} and k.superseded_by is null and k.deleted_at is null order by k.measured_at, k.id`)
-    .all(ids) as RawCheck[];
+  const ids = JSON.stringify(couponIds.length === 1 ? couponIds : [...new Set(couponIds)]);
+  const keys = prepared(tx, `${KEYS_SQL} where c.id in ${IDS}`).all(ids) as RawKeys[];
+  const ws = prepared(tx, `${WEIGHINGS_SQL} where w.coupon_id in ${IDS} and w.superseded_by is null and w.deleted_at is null order by w.measured_at, w.id`).all(
+    ids,
+  ) as RawWeighing[];
+  const cs = prepared(tx, `${CHECKS_SQL} where k.coupon_id in ${IDS} and k.superseded_by is null and k.deleted_at is null order by k.measured_at, k.id`).all(
+    ids,
+  ) as RawCheck[];
   return writeRows(tx, keys, groupBy(ws), groupBy(cs));
 }
 

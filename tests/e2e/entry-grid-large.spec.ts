@@ -68,6 +68,11 @@ test('a long grid: only the rows in view are in the page, the keyboard reaches t
   await expect.poll(() => focusedLabel(page)).toMatch(new RegExp(`^Dry mass .*coupon ${first.tag}`));
   await page.keyboard.press('PageDown');
   await expect.poll(() => focusedLabel(page)).not.toMatch(new RegExp(`coupon ${first.tag}`));
+
+  // A link from the bench to one coupon's cell lands on it, far down the grid.
+  await page.goto(`/trials/${trialId}/coupons?focus=${last.id}&col=cured`);
+  await expect.poll(() => focusedLabel(page)).toMatch(new RegExp(`^Cured mass .*coupon ${last.tag}`));
+  await expect(page.getByRole('rowheader', { name: last.tag })).toBeInViewport();
 });
 
 test('at 1280 px the tag and the computed columns stay in view across the grid, and each coupon shows its condition', async ({ page }) => {

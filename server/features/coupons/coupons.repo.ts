@@ -222,3 +222,15 @@ export function shopFirstRecordAt(db: Db): string | null {
       .get()?.at ?? null
   );
 }
+
+export type CouponInsert = typeof coupons.$inferInsert;
+
+/** A new coupon row, as stored. */
+export function insertCoupon(db: Db, values: CouponInsert) {
+  return db.insert(coupons).values(values).returning().get();
+}
+
+/** Changes a coupon's own fields (tag, species, role, board, notes, version); answers the row as stored. */
+export function updateCouponRow(db: Db, id: number, values: Partial<CouponInsert>) {
+  return db.update(coupons).set(values).where(eq(coupons.id, id)).returning().get();
+}

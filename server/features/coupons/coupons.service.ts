@@ -39,12 +39,15 @@ import {
   findCouponByTag,
   findSpecies,
   findTrial,
+  insertCoupon,
   listCouponRows,
   shopFirstRecordAt,
   photosOf,
   resinsFor,
   speciesByIds,
+  updateCouponRow,
   type CheckRow,
+  type CouponInsert,
   type CouponRow,
   type CouponWithNames,
   type ResinRow,
@@ -262,20 +265,16 @@ export function createCouponsService(deps: FeatureDeps) {
       const conditionId = input.conditionId ?? null;
       if (trialId === null && conditionId !== null) trialId = findCondition(tx, conditionId)?.trialId ?? null;
       validateLinks(tx, { speciesId: input.speciesId, role: input.role, trialId, conditionId });
-      const row = tx
-        .insert(coupons)
-        .values({
-          tag: input.tag,
-          speciesId: input.speciesId,
-          role: input.role,
-          trialId,
-          conditionId,
-          sourceBoard: input.sourceBoard ?? null,
-          notes: input.notes ?? null,
-          createdBy: actor.id,
-        })
-        .returning()
-        .get();
+      const row = insertCoupon(tx, {
+        tag: input.tag,
+        speciesId: input.speciesId,
+        role: input.role,
+        trialId,
+        conditionId,
+        sourceBoard: input.sourceBoard ?? null,
+        notes: input.notes ?? null,
+        createdBy: actor.id,
+      });
       writeAudit(tx, { actorId: actor.id, action: 'create', entity: 'coupon', entityId: row.id, after: row });
       refreshResults(tx, [row.id]);
       return row.id;
@@ -314,13 +313,13 @@ export function createCouponsService(deps: FeatureDeps) {
         }
       }
       validateLinks(tx, { ...next, trialId: before.trialId, conditionId: before.conditionId });
-      const set: Partial<typeof coupons.$inferInsert> = { version: before.version + 1 };
+      const set: Partial<CouponInsert> = { version: before.version + 1 };
       if (input.tag !== undefined) set.tag = input.tag;
       if (input.speciesId !== undefined) set.speciesId = input.speciesId;
       if (input.role !== undefined) set.role = input.role;
       if (input.sourceBoard !== undefined) set.sourceBoard = input.sourceBoard;
       if (input.notes !== undefined) set.notes = input.notes;
-      const after = tx.update(coupons).set(set).where(eq(coupons.id, id)).returning().get();
+      const after = updateCouponRow(tx, id, set);
       writeAudit(tx, { actorId: actor.id, action: 'update', entity: 'coupon', entityId: id, before, after, reason: input.reason ?? null });
       refreshResults(tx, [id]);
     });

@@ -2,7 +2,6 @@ import fs from 'node:fs';
 import path from 'node:path';
 import type { Request, Response } from 'express';
 import type { FeatureDeps } from '../../deps';
-import type { Db } from '../../db/client';
 import { writeAudit } from '../../db/audit';
 import { AppError, Conflict, NotFound, Unprocessable } from '../../http/errors';
 import { createMeasurements, type MeasurementEntry, type ReadingProblem } from '../../measurements/measurements';
@@ -61,23 +60,44 @@ import { createReceiver } from './upload';
 const PREVIEW_ROWS = 20;
 /** Unknown tags for which near matches are searched (each search walks every tag). */
 const MAX_SUGGESTION_SEARCHES = 500;
+/**
+ * Problem entries kept and stored per import (the counts stay exact beyond it): a file where every
+ * one of 100,000 rows is wrong is explained by its first rows, not by 100,000 stored explanations.
+ */
+const MAX_PROBLEMS = 5_000;
+/** Readings judged by the measurements module per step; the event loop gets a turn between steps. */
+const JUDGE_CHUNK = 5_000;
+/** How long a preview's collected readings are kept for its commit (the file cannot change; coupons can). */
+const COLLECTED_TTL_MS = 15 * 60 * 1000;
 
-interface Candidate {
-  row: number;
-  couponId: number;
-  tag: string;
-  massG: number;
-  measuredAt: string;
-  cells: string[];
-  /** Row number of a later reading of the same coupon and stage, which replaces this one. */
-  replacedBy?: number;
+const yieldToLoop = () => new Promise<void>((resolve) => setImmediate(resolve));
+
+/**
+ * The readings a file gives, column by column rather than one object per row (100,000 rows stay a few
+ * MB): candidate i is file row `row[i]` for `coupon[i]`. Rows the rules still have to judge.
+ */
+interface Collected {
+  dataRows: number;
+  massColumn: string;
+  /** The explained rows found while reading (up to MAX_PROBLEMS entries). */
+  problems: ImportProblem[];
+  /** Exact counts of rows explained while reading, by outcome. */
+  skippedRows: number;
+  problemRows: number;
+  row: number[];
+  coupon: CouponKey[];
+  massG: number[];
+  measuredAt: string[];
+  /** Row of a later reading of the same coupon and stage that replaces this one, else 0. */
+  replacedBy: number[];
 }
 
+/** The judgement of the collected rows: indexes into Collected, problems and exact counts. */
 interface Analysis {
   counts: ImportCounts;
   problems: ImportProblem[];
-  accepted: Candidate[];
-  corrections: Candidate[];
+  accepted: number[];
+  corrections: number[];
   previewRows: ImportPreviewRow[];
 }
 
@@ -251,12 +271,25 @@ export function createImportsService(deps: FeatureDeps) {
     }
   }
 
+  /** A preview's collected readings, kept for the commit that follows with the same mapping. */
+  const collectedCache = new Map<number, { key: string; at: number; collected: Collected }>();
+  function rememberCollected(id: number, mapping: ImportMapping, collected: Collected) {
+    collectedCache.clear(); // one at a time: a big file's readings are a few MB, never many of them
+    collectedCache.set(id, { key: JSON.stringify(mapping), at: Date.now(), collected });
+  }
+  function takeCollected(id: number, mapping: ImportMapping): Collected | null {
+    const hit = collectedCache.get(id);
+    collectedCache.delete(id);
+    return hit && hit.key === JSON.stringify(mapping) && Date.now() - hit.at < COLLECTED_TTL_MS ? hit.collected : null;
+  }
+
   /**
-   * Reads every row of the file through the mapping (streaming) and collects what the measurements
-   * module will be asked to write. The coupon-dependent rules are applied later, by the module, in the
-   * same synchronous step as the write.
+   * Reads every row of the file through the mapping (streaming) and collects, column by column, what
+   * the measurements module will be asked to write; rows the file itself explains (bad mass, unknown
+   * tag, unsettled reading, a coupon weighed again later…) are counted and the first MAX_PROBLEMS kept.
+   * The coupon-dependent rules are applied afterwards, by the module.
    */
-  async function collect(r: ImportRow, mapping: ImportMapping, onProgress: (f: number) => void) {
+  async function collect(r: ImportRow, mapping: ImportMapping, onProgress: (f: number) => void): Promise<Collected> {
     const byTag = new Map<string, CouponKey>();
     const byUpper = new Map<string, CouponKey | null>();
     let sequence: CouponKey[] = [];
@@ -276,12 +309,21 @@ export function createImportsService(deps: FeatureDeps) {
       sequence = mapping.target.couponIds.map((id) => keys.get(id) as CouponKey);
     }
     const ctx = { columnNames: [] as string[], fallbackIso: r.createdAt };
-    const problems: ImportProblem[] = [];
-    const candidates: Candidate[] = [];
+    const c: Collected = {
+      dataRows: 0,
+      massColumn: '',
+      problems: [],
+      skippedRows: 0,
+      problemRows: 0,
+      row: [],
+      coupon: [],
+      massG: [],
+      measuredAt: [],
+      replacedBy: [],
+    };
     const lastOf = new Map<number, number>();
     const suggestionCache = new Map<string, string[]>();
     let next = 0;
-    let dataRows = 0;
     let seenHeader = !mapping.format.hasHeader;
     const columnName = (i: number) => ctx.columnNames[i] ?? `Column ${i + 1}`;
     const add = (
@@ -292,7 +334,10 @@ export function createImportsService(deps: FeatureDeps) {
       message: string,
       outcome: ImportRowOutcome,
       suggestions: string[] = [],
-    ) => problems.push({ row, column, code, outcome, message, suggestions, cells: clipCells(cells) });
+    ) => {
+      if (c.problems.length < MAX_PROBLEMS) c.problems.push({ row, column, code, outcome, message, suggestions, cells: clipCells(cells) });
+    };
+    const countRow = (outcome: ImportRowOutcome) => (outcome === 'skipped' ? c.skippedRows++ : c.problemRows++);
 
     await streamRows(
       path.join(dir, r.fileName),
@@ -300,35 +345,37 @@ export function createImportsService(deps: FeatureDeps) {
       ({ row, cells }) => {
         if (!seenHeader) {
           seenHeader = true;
-          ctx.columnNames = cells.map((c, i) => c.trim() || `Column ${i + 1}`);
+          ctx.columnNames = cells.map((cl, i) => cl.trim() || `Column ${i + 1}`);
           return;
         }
-        dataRows++;
+        c.dataRows++;
         const read = readRow(cells, mapping, ctx);
-        const rowProblems: (RowProblem & { suggestions?: string[] })[] = [...read.problems];
+        const rowProblems: (RowProblem & { suggestions?: string[] })[] = read.problems;
         let coupon: CouponKey | null | undefined;
         if (mapping.target.mode === 'tag' && read.tag) {
           coupon = byTag.get(read.tag) ?? byUpper.get(read.tag.toUpperCase());
           if (!coupon) {
-            let s = suggestionCache.get(read.tag);
-            if (!s) {
-              s = suggestionCache.size < MAX_SUGGESTION_SEARCHES ? nearestTags(read.tag, byTag.keys()) : [];
-              suggestionCache.set(read.tag, s);
+            let sg = suggestionCache.get(read.tag);
+            if (!sg) {
+              sg = suggestionCache.size < MAX_SUGGESTION_SEARCHES ? nearestTags(read.tag, byTag.keys()) : [];
+              suggestionCache.set(read.tag, sg);
             }
             const text = read.tag.length > 40 ? `${read.tag.slice(0, 40)}…` : read.tag;
-            const message = `No coupon is tagged "${text}"${s.length ? `; did you mean ${s.join(', ')}?` : ''}`;
-            rowProblems.unshift({ code: 'unknown-tag', column: columnName(mapping.target.tagColumn), message, suggestions: s });
+            const message = `No coupon is tagged "${text}"${sg.length ? `; did you mean ${sg.join(', ')}?` : ''}`;
+            rowProblems.unshift({ code: 'unknown-tag', column: columnName(mapping.target.tagColumn), message, suggestions: sg });
           }
         }
         if (rowProblems.length) {
           // An unsettled reading is left out, not wrong: the balance usually prints the settled one next.
           const outcome = rowProblems.every((p) => p.code === 'unstable') ? 'skipped' : 'problem';
+          countRow(outcome);
           for (const p of rowProblems) add(row, cells, p.code, p.column, p.message, outcome, p.suggestions);
           return;
         }
         if (mapping.target.mode === 'sequence') {
           coupon = sequence[next++];
           if (!coupon) {
+            countRow('problem');
             add(
               row,
               cells,
@@ -340,84 +387,150 @@ export function createImportsService(deps: FeatureDeps) {
             return;
           }
         }
-        const c = coupon as CouponKey;
+        const k = coupon as CouponKey;
         if (mapping.stage !== 'drying-check') {
-          const prev = lastOf.get(c.id);
-          if (prev !== undefined) (candidates[prev] as Candidate).replacedBy = row;
-          lastOf.set(c.id, candidates.length);
+          const prev = lastOf.get(k.id);
+          if (prev !== undefined) c.replacedBy[prev] = row;
+          lastOf.set(k.id, c.row.length);
         }
-        candidates.push({ row, couponId: c.id, tag: c.tag, massG: read.massG as number, measuredAt: read.measuredAt as string, cells });
+        c.row.push(row);
+        c.coupon.push(k);
+        c.massG.push(read.massG as number);
+        c.measuredAt.push(read.measuredAt as string);
+        c.replacedBy.push(0);
       },
-      (f) => onProgress(f * 0.9),
+      (f) => onProgress(f * 0.8),
     );
+    c.massColumn = columnName(mapping.massColumn);
     if (mapping.target.mode === 'sequence' && next < sequence.length) {
       const left = sequence.slice(next).map((k) => k.tag);
       const msg = `${left.length} coupon${left.length === 1 ? '' : 's'} of the weighing order got no reading: ${left.slice(0, 10).join(', ')}${left.length > 10 ? ', …' : ''}`;
+      countRow('problem');
       add(0, [], 'sequence-missing-reading', null, msg, 'problem');
     }
-    for (const c of candidates) {
-      if (c.replacedBy !== undefined)
-        add(c.row, c.cells, 'duplicate-in-file', null, `${c.tag} is weighed again at row ${c.replacedBy}; the later reading is kept`, 'skipped');
-    }
-    return { dataRows, problems, massColumn: columnName(mapping.massColumn), candidates: candidates.filter((c) => c.replacedBy === undefined) };
+    return c;
   }
 
-  /** Applies the measurements module's rules to the collected rows (inside the caller's transaction). */
-  function judge(tx: Db, mapping: ImportMapping, collected: Awaited<ReturnType<typeof collect>>): Analysis {
-    const { candidates } = collected;
-    const problemsFound = [...collected.problems];
-    const entries: MeasurementEntry[] = candidates.map((c) => ({
-      couponId: c.couponId,
-      weighings: [{ stage: mapping.stage, massG: c.massG, measuredAt: c.measuredAt }],
-    }));
-    const refused = measurements.checkBulk(tx, entries);
-    const refusedAt = new Map<number, ReadingProblem>();
-    for (const p of refused) if (!refusedAt.has(p.entry)) refusedAt.set(p.entry, p);
-    const accepted: Candidate[] = [];
-    const corrections: Candidate[] = [];
-    candidates.forEach((c, i) => {
-      const p = refusedAt.get(i);
-      if (!p) return accepted.push(c);
-      const code = classify(p);
-      if (code === 'existing-reading') {
-        if (mapping.existing === 'correct') return corrections.push(c);
-        problemsFound.push({
-          row: c.row,
-          column: null,
-          code,
-          outcome: 'skipped',
-          message: `${p.message.replace(/; correct that one.*$/, '')}; it is left as it is (choose to correct existing readings, with a reason, to replace it)`,
-          suggestions: [],
-          cells: clipCells(c.cells),
-        });
+  /** Sorts problems by row and fills in the cells of those found after the file was read (a second, streamed pass). */
+  async function finishProblems(r: ImportRow, mapping: ImportMapping, problems: ImportProblem[]): Promise<ImportProblem[]> {
+    const need = new Map<number, ImportProblem[]>();
+    for (const p of problems) {
+      if (p.row > 0 && p.cells.length === 0) {
+        const list = need.get(p.row);
+        if (list) list.push(p);
+        else need.set(p.row, [p]);
+      }
+    }
+    if (need.size) {
+      await streamRows(path.join(dir, r.fileName), mapping.format, ({ row, cells }) => {
+        const list = need.get(row);
+        if (list) for (const p of list) p.cells = clipCells(cells);
+      });
+    }
+    return problems.sort((a, b) => a.row - b.row).slice(0, MAX_PROBLEMS);
+  }
+
+  /**
+   * Sorts one refusal of the measurements module into the analysis: a coupon that already has the
+   * reading becomes a correction (when the user chose to correct) or a skipped row; anything else a problem.
+   */
+  function refusal(a: Analysis, mapping: ImportMapping, massColumn: string, c: Collected, i: number, p: ReadingProblem) {
+    const code = classify(p);
+    const problem = (outcome: ImportRowOutcome, column: string | null, message: string) => {
+      if (outcome === 'skipped') a.counts.skipped++;
+      else a.counts.problems++;
+      if (a.problems.length < MAX_PROBLEMS) a.problems.push({ row: c.row[i] as number, column, code, outcome, message, suggestions: [], cells: [] });
+    };
+    if (code === 'existing-reading') {
+      if (mapping.existing === 'correct') {
+        a.corrections.push(i);
+        a.counts.corrections++;
         return;
       }
-      const massCol = code === 'impossible-mass' ? collected.massColumn : null;
-      problemsFound.push({ row: c.row, column: massCol, code, outcome: 'problem', message: p.message, suggestions: [], cells: clipCells(c.cells) });
-    });
-    problemsFound.sort((a, b) => a.row - b.row);
-    const rowsWith = (o: ImportRowOutcome) => new Set(problemsFound.filter((p) => p.outcome === o).map((p) => p.row)).size;
-    const problemRows = rowsWith('problem');
-    const counts: ImportCounts = {
-      rows: collected.dataRows,
-      accepted: accepted.length,
-      corrections: corrections.length,
-      skipped: rowsWith('skipped'),
-      problems: problemRows,
+      problem(
+        'skipped',
+        null,
+        `${p.message.replace(/; correct that one.*$/, '')}; it is left as it is (choose to correct existing readings, with a reason, to replace it)`,
+      );
+      return;
+    }
+    problem('problem', code === 'impossible-mass' ? massColumn : null, p.message);
+  }
+
+  const entryOf = (mapping: ImportMapping, c: Collected, i: number): MeasurementEntry => ({
+    couponId: (c.coupon[i] as CouponKey).id,
+    weighings: [{ stage: mapping.stage, massG: c.massG[i] as number, measuredAt: c.measuredAt[i] as string }],
+  });
+
+  /**
+   * Asks the measurements module about every collected reading, JUDGE_CHUNK at a time with a turn of
+   * the event loop between (reads only: the rules are judged again, all at once, inside the commit's
+   * transaction). Each coupon appears once after the duplicates are dropped (drying checks, which may
+   * repeat, have no rule between them), so judging in chunks answers what judging all at once would.
+   */
+  async function judge(mapping: ImportMapping, c: Collected, onProgress: (f: number) => void): Promise<Analysis> {
+    const a: Analysis = {
+      counts: { rows: c.dataRows, accepted: 0, corrections: 0, skipped: c.skippedRows, problems: c.problemRows },
+      problems: [...c.problems],
+      accepted: [],
+      corrections: [],
+      previewRows: [],
     };
-    const previewRows = [...accepted.map((c) => ({ c, correction: false })), ...corrections.map((c) => ({ c, correction: true }))]
-      .sort((a, b) => a.c.row - b.c.row)
+    const live: number[] = [];
+    for (let i = 0; i < c.row.length; i++) {
+      const later = c.replacedBy[i] as number;
+      if (later === 0) {
+        live.push(i);
+        continue;
+      }
+      a.counts.skipped++;
+      if (a.problems.length < MAX_PROBLEMS) {
+        a.problems.push({
+          row: c.row[i] as number,
+          column: null,
+          code: 'duplicate-in-file',
+          outcome: 'skipped',
+          message: `${(c.coupon[i] as CouponKey).tag} is weighed again at row ${later}; the later reading is kept`,
+          suggestions: [],
+          cells: [],
+        });
+      }
+    }
+    for (let from = 0; from < live.length; from += JUDGE_CHUNK) {
+      const part = live.slice(from, from + JUDGE_CHUNK);
+      const refused = measurements.checkBulk(
+        db,
+        part.map((i) => entryOf(mapping, c, i)),
+      );
+      const refusedAt = new Map<number, ReadingProblem>();
+      for (const p of refused) if (!refusedAt.has(p.entry)) refusedAt.set(p.entry, p);
+      part.forEach((i, j) => {
+        const p = refusedAt.get(j);
+        if (p) refusal(a, mapping, c.massColumn, c, i, p);
+        else a.accepted.push(i);
+      });
+      onProgress(Math.min(1, (from + part.length) / live.length));
+      await yieldToLoop();
+    }
+    a.counts.accepted = a.accepted.length;
+    a.previewRows = previewRowsOf(mapping, c, a);
+    return a;
+  }
+
+  function previewRowsOf(mapping: ImportMapping, c: Collected, a: Analysis): ImportPreviewRow[] {
+    const corrections = new Set(a.corrections);
+    return [...a.accepted.slice(0, PREVIEW_ROWS), ...a.corrections.slice(0, PREVIEW_ROWS)]
+      .sort((x, y) => x - y)
       .slice(0, PREVIEW_ROWS)
-      .map(({ c, correction }) => ({
-        row: c.row,
-        couponId: c.couponId,
-        tag: c.tag,
+      .map((i) => ({
+        row: c.row[i] as number,
+        couponId: (c.coupon[i] as CouponKey).id,
+        tag: (c.coupon[i] as CouponKey).tag,
         stage: mapping.stage,
-        massG: c.massG,
-        measuredAt: c.measuredAt,
-        correction,
+        massG: c.massG[i] as number,
+        measuredAt: c.measuredAt[i] as string,
+        correction: corrections.has(i),
       }));
-    return { counts, problems: problemsFound, accepted, corrections, previewRows };
   }
 
   function beginJob(r: ImportRow, status: ImportStatus, mapping: ImportMapping) {
@@ -436,6 +549,7 @@ export function createImportsService(deps: FeatureDeps) {
       try {
         await work(progress);
       } catch (err) {
+        collectedCache.delete(id);
         const message = err instanceof AppError ? err.message : 'Something went wrong while processing the file; nothing was imported';
         if (!(err instanceof AppError)) deps.logger.error({ err, importId: id }, 'import job failed');
         updateImport(db, id, { status: 'failed', error: message });
@@ -450,20 +564,24 @@ export function createImportsService(deps: FeatureDeps) {
     const r = requireImport(id);
     beginJob(r, 'previewing', mapping);
     runJob(id, async (progress) => {
-      const collected = await collect(r, mapping, (f) => progress(f));
+      const collected = await collect(r, mapping, progress);
+      const a = await judge(mapping, collected, (f) => progress(0.8 + f * 0.15));
+      const problems = await finishProblems(r, mapping, a.problems);
       db.transaction((tx) => {
-        const a = judge(tx, mapping, collected);
-        replaceProblems(tx, id, a.problems);
+        replaceProblems(tx, id, problems);
         updateImport(tx, id, { status: 'previewed', counts: a.counts, previewRows: a.previewRows });
       });
+      rememberCollected(id, mapping, collected);
     });
     return detail(id);
   }
 
   /**
-   * Starts the commit job: the file is read again, and in ONE transaction the rules are applied and
-   * every accepted reading is written through the measurements module's bulk path (or, when the user
-   * chose all-or-nothing and a problem remains, nothing at all).
+   * Starts the commit job. The readings are collected (kept from the preview with the same mapping, else
+   * the file is read again) and judged in chunks while other requests are served; then ONE synchronous
+   * transaction writes every accepted reading through the measurements module's bulk path, which judges
+   * them again on exactly the state it writes to (someone may have weighed a coupon meanwhile), or, when
+   * the user chose all-or-nothing and a problem remains, writes nothing at all.
    */
   function commit(actor: User, id: number, input: CommitImportInput): ImportDetail {
     const r = requireImport(id);
@@ -474,57 +592,90 @@ export function createImportsService(deps: FeatureDeps) {
       throw new Conflict(msg, { again: [msg] });
     }
     const mapping = input.mapping;
+    const kept = takeCollected(id, mapping);
     beginJob(r, 'committing', mapping);
     runJob(id, async (progress) => {
-      const collected = await collect(r, mapping, (f) => progress(f));
+      const collected = kept ?? (await collect(r, mapping, progress));
+      const a = await judge(mapping, collected, (f) => progress(0.8 + f * 0.1));
+      const blockedMessage = (n: number) => `${n} rows still have problems, so nothing was imported (you chose nothing until every problem is fixed)`;
+      if (input.choice === 'all-or-nothing' && a.counts.problems > 0) {
+        const problems = await finishProblems(r, mapping, a.problems);
+        db.transaction((tx) => {
+          replaceProblems(tx, id, problems);
+          updateImport(tx, id, { status: 'previewed', counts: a.counts, previewRows: a.previewRows, error: blockedMessage(a.counts.problems) });
+        });
+        return;
+      }
+      const problems = await finishProblems(r, mapping, a.problems);
       const source = `import:${id}` as const;
       let blocked = false;
-      db.transaction((tx) => {
-        const a = judge(tx, mapping, collected);
-        replaceProblems(tx, id, a.problems);
-        if (input.choice === 'all-or-nothing' && a.counts.problems > 0) {
-          blocked = true;
-          updateImport(tx, id, { status: 'previewed', counts: a.counts, previewRows: a.previewRows });
-          return;
-        }
-        if (a.accepted.length) {
-          measurements.bulkAdd(
-            tx,
-            actor,
-            source,
-            a.accepted.map((c) => ({ couponId: c.couponId, weighings: [{ stage: mapping.stage, massG: c.massG, measuredAt: c.measuredAt }] })),
-          );
-        }
-        const corrections: { oldId: number; newId: number }[] = [];
-        for (const c of a.corrections) {
-          const current = currentWeighingAt(tx, c.couponId, mapping.stage);
-          if (!current) continue;
-          const reason = `${mapping.correctionReason ?? 'Corrected by an import'} (import ${id}, row ${c.row})`;
-          const out = measurements.correctWeighing(tx, actor, current.id, { massG: c.massG, measuredAt: c.measuredAt, reason });
-          corrections.push({ oldId: current.id, newId: out.row.id });
-        }
-        const committedAt = deps.now().toISOString();
-        updateImport(tx, id, {
-          status: 'committed',
-          counts: a.counts,
-          previewRows: a.previewRows,
-          corrections,
-          committedAt,
-          committedBy: actor.id,
-          error: null,
+      try {
+        db.transaction((tx) => {
+          if (a.accepted.length) {
+            const accepted = a.accepted;
+            a.accepted = [];
+            const out = measurements.bulkAdd(
+              tx,
+              actor,
+              source,
+              accepted.map((i) => entryOf(mapping, collected, i)),
+              { skipRefused: true },
+            );
+            // Refused now though accepted a moment ago: the coupon changed meanwhile.
+            const lateAt = new Map<number, ReadingProblem>();
+            const before = a.problems.length;
+            for (const p of out.refused) if (!lateAt.has(p.entry)) lateAt.set(p.entry, p);
+            accepted.forEach((i, j) => {
+              const p = lateAt.get(j);
+              if (p) refusal(a, mapping, collected.massColumn, collected, i, p);
+              else a.accepted.push(i);
+            });
+            if (a.problems.length > before) {
+              problems.push(...a.problems.slice(before));
+              problems.sort((x, y) => x.row - y.row);
+            }
+            a.counts.accepted = a.accepted.length;
+            if (input.choice === 'all-or-nothing' && a.counts.problems > 0) {
+              blocked = true;
+              throw new Conflict(blockedMessage(a.counts.problems));
+            }
+          }
+          const corrections: { oldId: number; newId: number }[] = [];
+          for (const i of a.corrections) {
+            const current = currentWeighingAt(tx, (collected.coupon[i] as CouponKey).id, mapping.stage);
+            if (!current) continue;
+            const reason = `${mapping.correctionReason ?? 'Corrected by an import'} (import ${id}, row ${collected.row[i]})`;
+            const out = measurements.correctWeighing(tx, actor, current.id, {
+              massG: collected.massG[i] as number,
+              measuredAt: collected.measuredAt[i] as string,
+              reason,
+            });
+            corrections.push({ oldId: current.id, newId: out.row.id });
+          }
+          a.previewRows = previewRowsOf(mapping, collected, a);
+          replaceProblems(tx, id, problems);
+          updateImport(tx, id, {
+            status: 'committed',
+            counts: a.counts,
+            previewRows: a.previewRows,
+            corrections,
+            committedAt: deps.now().toISOString(),
+            committedBy: actor.id,
+            error: null,
+          });
+          writeAudit(tx, {
+            actorId: actor.id,
+            action: 'commit',
+            entity: 'import',
+            entityId: id,
+            after: { stage: mapping.stage, counts: a.counts, choice: input.choice },
+          });
         });
-        writeAudit(tx, {
-          actorId: actor.id,
-          action: 'commit',
-          entity: 'import',
-          entityId: id,
-          after: { stage: mapping.stage, counts: a.counts, choice: input.choice },
-        });
-      });
-      if (blocked) {
-        const after = requireImport(id);
-        updateImport(db, id, {
-          error: `${after.counts?.problems ?? 0} rows still have problems, so nothing was imported (you chose nothing until every problem is fixed)`,
+      } catch (err) {
+        if (!blocked) throw err;
+        db.transaction((tx) => {
+          replaceProblems(tx, id, problems);
+          updateImport(tx, id, { status: 'previewed', counts: a.counts, previewRows: a.previewRows, error: blockedMessage(a.counts.problems) });
         });
       }
     });
@@ -533,8 +684,8 @@ export function createImportsService(deps: FeatureDeps) {
 
   /**
    * Undoes a committed import: its current weighings are soft-deleted through the measurements module
-   * (kept, never removed) and the readings it corrected get their earlier values back as new
-   * corrections; the audit log names who, when and why.
+   * in one set-based step (kept, never removed; one audit entry per coupon) and the readings it
+   * corrected get their earlier values back as new corrections; the audit log names who, when and why.
    */
   function undo(actor: User, id: number, reason: string): ImportDetail {
     db.transaction((tx) => {
@@ -542,7 +693,8 @@ export function createImportsService(deps: FeatureDeps) {
       if (!r) throw new NotFound('Import');
       if (r.status !== 'committed') throw new Conflict(r.status === 'undone' ? 'This import was already undone' : 'Only a committed import can be undone');
       const why = `Import ${id} undone: ${reason}`;
-      for (const wid of currentWeighingIdsOfImport(tx, id)) measurements.deleteWeighing(tx, actor, wid, why);
+      const ids = currentWeighingIdsOfImport(tx, id);
+      if (ids.length) measurements.bulkDelete(tx, actor, { weighings: ids }, why);
       for (const c of r.corrections ?? []) {
         const now = findWeighingState(tx, c.newId);
         const old = findWeighingState(tx, c.oldId);

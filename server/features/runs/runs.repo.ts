@@ -1,4 +1,4 @@
-import { and, asc, eq, inArray, isNull } from 'drizzle-orm';
+import { and, asc, count, eq, inArray, isNull, like } from 'drizzle-orm';
 import type { Db } from '../../db/client';
 import { checks, coupons, photos, weighings } from '../../db/schema/coupons';
 import { resinLots, resins, species } from '../../db/schema/reference';
@@ -127,4 +127,36 @@ export function couponsWithTreatmentWeighings(db: Db, ids: number[]): Set<number
 
 export function photosOfRun(db: Db, runId: number): PhotoOut[] {
   return db.select().from(photos).where(eq(photos.runId, runId)).orderBy(asc(photos.id)).all().map(toPhotoOut);
+}
+
+// ───────── writes of the runs service (its list and reads query through the functions above) ─────────
+
+export type RunInsert = typeof runs.$inferInsert;
+
+export function insertRun(db: Db, values: RunInsert): RunRow {
+  return db.insert(runs).values(values).returning().get();
+}
+
+export function updateRunRow(db: Db, id: number, values: Partial<RunInsert>): RunRow {
+  return db.update(runs).set(values).where(eq(runs.id, id)).returning().get();
+}
+
+/** How many runs have a code starting with `prefix` (the year's prefix of generated codes). */
+export function countRunCodesStartingWith(db: Db, prefix: string): number {
+  return (
+    db
+      .select({ n: count() })
+      .from(runs)
+      .where(like(runs.code, `${prefix}%`))
+      .get()?.n ?? 0
+  );
+}
+
+/** Puts a coupon in a run, or (null) takes it out. */
+export function setCouponRun(db: Db, couponId: number, runId: number | null): void {
+  db.update(coupons).set({ runId }).where(eq(coupons.id, couponId)).run();
+}
+
+export function insertStageRow(db: Db, values: typeof runStages.$inferInsert): StageRow {
+  return db.insert(runStages).values(values).returning().get();
 }

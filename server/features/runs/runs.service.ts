@@ -1,10 +1,9 @@
-import { and, asc, count, desc, eq, exists, isNotNull, like, notExists } from 'drizzle-orm';
+import { and, asc, count, desc, eq, exists, isNotNull, notExists } from 'drizzle-orm';
 import type { FeatureDeps } from '../../deps';
 import type { Db } from '../../db/client';
 import { writeAudit } from '../../db/audit';
 import { refreshResults, refreshResultsOfRun } from '../../measurements/results';
-import { coupons } from '../../db/schema/coupons';
-import { runReadings, runStages, runs } from '../../db/schema/runs';
+import { runStages, runs } from '../../db/schema/runs';
 import { Conflict, NotFound, Unprocessable, ValidationFailed } from '../../http/errors';
 import { DomainError, WEATHER_ALLOWANCE, chamberPressure, standardPressureAtAltitude } from '../../../shared/domain/index';
 import { convertPressure, type UnitChoice } from '../../../shared/units';
@@ -24,7 +23,9 @@ import { runChecks, type RuleCheck } from '../../../shared/runs/checks';
 import { cautionsByStage } from '../../../shared/runs/cautions';
 import { checkStage, runProgress, STAGE_LABELS, startableStages, type StageTimes } from '../../../shared/runs/stages';
 import { dueItems } from '../../../shared/runs/timers';
+import { insertReadingRow, updateReadingRow, updateStageRow } from './stage-corrections.repo';
 import {
+  countRunCodesStartingWith,
   couponsOfRuns,
   couponsWithTreatmentWeighings,
   findCouponsByIds,
@@ -32,12 +33,17 @@ import {
   findRun,
   findRunByCode,
   getShopSettings,
+  insertRun,
+  insertStageRow,
   lotsByIds,
   photosOfRun,
   readingsOf,
+  setCouponRun,
   stagesOf,
+  updateRunRow,
   type LotWithResin,
   type RunCouponInfo,
+  type RunInsert,
   type RunRow,
   type StageRow,
 } from './runs.repo';
@@ -244,12 +250,7 @@ export function createRunsService(deps: FeatureDeps) {
   function nextCode(tx: Db): string {
     const yy = String(deps.now().getUTCFullYear() % 100).padStart(2, '0');
     const prefix = `R${yy}-`;
-    let n =
-      (tx
-        .select({ n: count() })
-        .from(runs)
-        .where(like(runs.code, `${prefix}%`))
-        .get()?.n ?? 0) + 1;
+    let n = countRunCodesStartingWith(tx, prefix) + 1;
     while (findRunByCode(tx, `${prefix}${String(n).padStart(3, '0')}`)) n++;
     return `${prefix}${String(n).padStart(3, '0')}`;
   }
@@ -273,7 +274,7 @@ export function createRunsService(deps: FeatureDeps) {
     }
     for (const c of found) {
       if (c.runId === run.id) continue;
-      tx.update(coupons).set({ runId: run.id }).where(eq(coupons.id, c.id)).run();
+      setCouponRun(tx, c.id, run.id);
       writeAudit(tx, {
         actorId: actor.id,
         action: 'assign-run',
@@ -305,7 +306,7 @@ export function createRunsService(deps: FeatureDeps) {
       throw new Conflict(msg, { removeCouponIds: [msg] });
     }
     for (const c of found) {
-      tx.update(coupons).set({ runId: null }).where(eq(coupons.id, c.id)).run();
+      setCouponRun(tx, c.id, null);
       writeAudit(tx, {
         actorId: actor.id,
         action: 'remove-from-run',
@@ -409,7 +410,7 @@ export function createRunsService(deps: FeatureDeps) {
         notes: input.notes ?? null,
         createdBy: actor.id,
       };
-      const row = tx.insert(runs).values(values).returning().get();
+      const row = insertRun(tx, values);
       writeAudit(tx, { actorId: actor.id, action: 'create', entity: 'run', entityId: row.id, after: row });
       addCoupons(tx, actor, row, input.couponIds ?? [], 'couponIds');
       return row.id;
@@ -424,14 +425,14 @@ export function createRunsService(deps: FeatureDeps) {
         throw new Conflict(`A run with code ${input.code} already exists`, { code: ['This code is taken'] });
       }
       if (input.resinLotId != null) requireLot(tx, input.resinLotId);
-      const set: Partial<typeof runs.$inferInsert> = {};
+      const set: Partial<RunInsert> = {};
       if (input.code !== undefined) set.code = input.code;
       if (input.chamber !== undefined) set.chamber = input.chamber;
       if (input.resinLotId !== undefined) set.resinLotId = input.resinLotId;
       if (input.altitudeM !== undefined) set.altitudeM = input.altitudeM;
       if (input.notes !== undefined) set.notes = input.notes;
       if (Object.keys(set).length) {
-        const after = tx.update(runs).set(set).where(eq(runs.id, id)).returning().get();
+        const after = updateRunRow(tx, id, set);
         if (input.altitudeM !== undefined && input.altitudeM !== before.altitudeM) {
           // The absolute pressures were worked out at the old altitude; the gauge readings themselves
           // stand. Recorded results move, so the change needs a reason and goes on the run's history.
@@ -440,7 +441,7 @@ export function createRunsService(deps: FeatureDeps) {
           const barometerOf = new Map(stagesOf(tx, [id]).map((st) => [st.stage, st.barometerKpa]));
           for (const r of readingsOf(tx, id)) {
             const next = convertReading(r, { altitudeM: input.altitudeM, barometerKpa: barometerOf.get(r.stage) ?? null }, 'altitudeM');
-            tx.update(runReadings).set(next).where(eq(runReadings.id, r.id)).run();
+            updateReadingRow(tx, r.id, next);
             if (next.absoluteKpa !== r.absoluteKpa || next.percentVacuum !== r.percentVacuum) {
               moved.push({ id: r.id, before: { absoluteKpa: r.absoluteKpa, percentVacuum: r.percentVacuum }, after: next });
             }
@@ -513,25 +514,15 @@ export function createRunsService(deps: FeatureDeps) {
 
       let row: StageRow;
       if (existing) {
-        row = tx.update(runStages).set(merged).where(eq(runStages.id, existing.id)).returning().get();
+        row = updateStageRow(tx, existing.id, merged);
       } else {
-        row = tx
-          .insert(runStages)
-          .values({ ...merged, runId: id, stage: input.stage, createdBy: actor.id })
-          .returning()
-          .get();
+        row = insertStageRow(tx, { ...merged, runId: id, stage: input.stage, createdBy: actor.id });
       }
       const added = [];
       for (const r of converted) {
         // A resent form must not double the readings.
         if (known.some((k) => k.at === r.at && k.gaugeValue === r.gaugeValue && k.gaugeUnit === r.gaugeUnit)) continue;
-        added.push(
-          tx
-            .insert(runReadings)
-            .values({ runId: id, stage: input.stage, createdBy: actor.id, ...r })
-            .returning()
-            .get(),
-        );
+        added.push(insertReadingRow(tx, { runId: id, stage: input.stage, createdBy: actor.id, ...r }));
       }
       writeAudit(tx, {
         actorId: actor.id,

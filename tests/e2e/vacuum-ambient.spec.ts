@@ -1,0 +1,53 @@
+import { expect, test } from './fixtures';
+
+const WRITE_HEADERS = { 'x-lumenbook-csrf': '1' };
+
+test.describe('the ambient pressure of a vacuum: altitude in the shop settings, the barometer on the stage form', () => {
+  test.describe('as the admin', () => {
+    test.use({ signedInAs: 'admin' });
+
+    test('the altitude box is in the admin’s unit and questions an altitude no workshop has', async ({ page }) => {
+      await page.goto('/admin/settings');
+      await expect(page.getByRole('heading', { level: 1, name: 'Shop settings' })).toBeVisible();
+      const altitude = page.getByLabel('Shop altitude above sea level (m)');
+      await expect(altitude).toBeVisible();
+      await expect(page.getByText(/higher than nearly any workshop/)).toHaveCount(0);
+      // 5,000 typed for a shop at 5,000 ft: the box asks before anything is saved.
+      await altitude.fill('5000');
+      await expect(
+        page.getByRole('status').filter({ hasText: /5,000 m is higher than nearly any workshop.*If you meant 5,000 ft, that is 1,524 m/ }),
+      ).toBeVisible();
+      await altitude.fill('1524');
+      await expect(page.getByText(/higher than nearly any workshop/)).toHaveCount(0);
+    });
+  });
+
+  test.describe('as a technician', () => {
+    test.use({ signedInAs: 'technician' });
+
+    test('a vacuum started with the shop’s barometer: the preview and the run page name it, and a reading past it is taken as 0 absolute', async ({ page }) => {
+      const res = await page.request.post('/api/runs', { headers: WRITE_HEADERS, data: { chamber: `Barometer pot ${Date.now()}`, altitudeM: 0 } });
+      expect(res.status(), await res.text()).toBe(201);
+      const runId: number = (await res.json()).run.id;
+
+      await page.goto(`/runs/${runId}`);
+      await expect(page.getByRole('heading', { level: 1 })).toContainText(/^Run /);
+      await page.getByRole('button', { name: 'Start vacuum…' }).click();
+      const form = page.getByRole('form', { name: 'Start vacuum' });
+      // Without a barometer the standard atmosphere at the run's altitude is named (ISO 2533, 101.325 kPa at sea level).
+      await expect(form.getByText(/ISO 2533 standard atmosphere at 0 m, 101\.33 kPa/)).toBeVisible();
+      await form.getByLabel('Gauge unit').selectOption('inHg');
+      // 30.0 inHg = 101.59 kPa: past the standard sea-level ambient, within the weather allowance.
+      await form.getByLabel('Gauge shows').fill('30');
+      await expect(form.getByText(/= 0 absolute, 100 % vacuum: more vacuum than the standard atmosphere/)).toBeVisible();
+      // The shop's barometer reads 102.5 kPa today: the same reading is 0.91 kPa absolute (by hand).
+      await form.getByLabel('Shop barometer (optional) (kPa)').fill('102.5');
+      await expect(form.getByText(/the shop's barometer, 102\.50 kPa/)).toBeVisible();
+      await expect(form.getByText(/= 0\.91 kPa absolute, 99\.1 % vacuum against the barometer/)).toBeVisible();
+      await form.getByRole('button', { name: 'Start vacuum' }).click();
+
+      await expect(page.getByRole('status').filter({ hasText: 'Vacuum started.' })).toBeVisible();
+      await expect(page.getByText(/Gauge readings at 0 m, against the shop's barometer, 102\.50 kPa/)).toBeVisible();
+    });
+  });
+});
