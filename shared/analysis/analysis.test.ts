@@ -6,7 +6,6 @@ import { boardMeans, compareGroups } from './compare';
 import { groupsCsv, toCsv } from './csv';
 import { expectedForRun, fillFractions } from './expected';
 import { buildOverview } from './overview';
-import { fitSentenceIn, MILLIMETRES } from './fits';
 import { fitThroughOrigin, t975 } from './stats';
 import { thinPoints } from './thin';
 
@@ -325,23 +324,7 @@ describe('thinning', () => {
   });
 });
 
-describe("thickness in the reader's length unit, and WRE apart from ASE", () => {
-  it('restates the thickness coefficients per 0.1 in from the same fit (1 in = 25.4 mm exactly)', () => {
-    const r = rng(7);
-    const rows = Array.from({ length: 200 }, () => {
-      const sg = 0.35 + 0.4 * r.u();
-      const th = 10 + 30 * r.u();
-      return coupon({ drySg: sg, thicknessMm: th, wpgPct: 160 - 150 * sg - 0.3 * th + 2 * r.normal() });
-    });
-    const o = buildOverview(rows, 'measured');
-    const inches = { label: 'in', perMm: 1 / 25.4, step: 0.1 };
-    const perMm = o.multipleFit!.coefficients[2]!.estimate;
-    expect(fitSentenceIn(o.multipleFit!, MILLIMETRES)).toBe(o.multipleFit!.sentence);
-    expect(fitSentenceIn(o.multipleFit!, inches)).toContain(`each 0.1 in of thickness lowers it by about ${Math.abs(perMm * 2.54).toFixed(2)} points`);
-    const perMmLine = o.thicknessFit!.coefficients[1]!.estimate;
-    expect(fitSentenceIn(o.thicknessFit!, inches)).toContain(`by about ${Math.abs(perMmLine * 2.54).toFixed(1)} points for each 0.1 in of extra thickness`);
-  });
-
+describe('WRE apart from ASE', () => {
   it('keeps the mass-basis water-repellent effectiveness out of the ASE column', () => {
     const rows = [coupon({ asePct: 40 }), coupon({ asePct: 50 }), coupon({ wrePct: 20 }), coupon({ wrePct: 30 }), coupon({ wrePct: 40 })];
     const g = buildOverview(rows, 'measured').groups[0]!;

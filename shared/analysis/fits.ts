@@ -30,66 +30,6 @@ function ciText(lo: number, hi: number, scale: number, digits: number): string {
   return `95 % CI ${fmt(Math.min(a, b), digits)} to ${fmt(Math.max(a, b), digits)}`;
 }
 
-/**
- * A length unit for the sentences about thickness: its label, how many of it make one millimetre (the
- * fits are made in mm) and the step a sentence speaks in. The server writes mm; the screen rewrites the
- * sentences in the reader's unit from the same coefficients.
- */
-export interface LengthScale {
-  label: string;
-  perMm: number;
-  step: number;
-}
-export const MILLIMETRES: LengthScale = { label: 'mm', perMm: 1, step: 1 };
-
-/** The sentence of a one-predictor fit; thickness slopes (per mm) are restated per `len.step` of `len`. */
-export function simpleFitSentence(
-  model: 'density' | 'thickness',
-  n: number,
-  slope: number,
-  slopeCi: readonly [number, number],
-  r2: number,
-  residualSd: number,
-  len: LengthScale,
-): string {
-  // A step of len.step display units is len.step / len.perMm millimetres.
-  const step = model === 'density' ? 0.1 : len.step / len.perMm;
-  const stepWords = model === 'density' ? 'each 0.1 rise in oven-dry SG' : `each ${len.step} ${len.label} of extra thickness`;
-  const change = slope * step;
-  return (
-    `Across ${plural(n, 'coupon')}, WPG ${direction(change, 'rises', 'falls')} by about ${fmt(Math.abs(change))} points for ${stepWords} ` +
-    `(${ciText(slopeCi[0], slopeCi[1], step, 1)}); the line accounts for ${fmt(r2 * 100, 0)} % of the spread (R² = ${fmt(r2, 2)}) ` +
-    `and coupons scatter about ±${fmt(residualSd)} points around it (residual SD). The shaded band is the 95 % confidence band of the mean line.`
-  );
-}
-
-/** The sentence of the fit on SG and thickness together; the thickness coefficient (per mm) restated per `len.step` of `len`. */
-export function multipleFitSentence(
-  n: number,
-  sg: { estimate: number; ci95: readonly [number, number] },
-  th: { estimate: number; ci95: readonly [number, number] },
-  r2: number,
-  residualSd: number,
-  len: LengthScale,
-): string {
-  const step = len.step / len.perMm;
-  return (
-    `At equal thickness, each 0.1 of SG ${direction(sg.estimate, 'raises', 'lowers')} uptake by about ${fmt(Math.abs(sg.estimate * 0.1))} points ` +
-    `(${ciText(sg.ci95[0], sg.ci95[1], 0.1, 1)}); at equal SG, each ${len.step} ${len.label} of thickness ${direction(th.estimate, 'raises', 'lowers')} it by about ` +
-    `${fmt(Math.abs(th.estimate * step), 2)} points (${ciText(th.ci95[0], th.ci95[1], step, 2)}). Together they account for ${fmt(r2 * 100, 0)} % of the spread ` +
-    `(R² = ${fmt(r2, 2)}, residual SD ${fmt(residualSd)} points, ${plural(n, 'coupon')}).`
-  );
-}
-
-/** A fit's sentence in the reader's length unit (the density line does not depend on it). */
-export function fitSentenceIn(fit: Fit, len: LengthScale): string {
-  if (len.perMm === 1 && len.step === 1) return fit.sentence;
-  const c = fit.coefficients;
-  if (fit.model === 'thickness' && c[1]) return simpleFitSentence('thickness', fit.n, c[1].estimate, c[1].ci95, fit.r2, fit.residualSd, len);
-  if (fit.model === 'density+thickness' && c[1] && c[2]) return multipleFitSentence(fit.n, c[1], c[2], fit.r2, fit.residualSd, len);
-  return fit.sentence;
-}
-
 export interface SimpleFitResult {
   fit: Fit;
   linear: LinearFit;
@@ -134,7 +74,13 @@ export function simpleFit(model: 'density' | 'thickness', x: number[], y: number
   }
   const ci = (est: number, se: number): [number, number] => [est - t * se, est + t * se];
   const slopeCi = ci(linear.slope, linear.slopeSe);
-  const sentence = simpleFitSentence(model, n, linear.slope, slopeCi, linear.r2, linear.residualSd, MILLIMETRES);
+  const step = model === 'density' ? 0.1 : 1;
+  const stepWords = model === 'density' ? 'each 0.1 rise in oven-dry SG' : 'each 1 mm of extra thickness';
+  const change = linear.slope * step;
+  const sentence =
+    `Across ${plural(n, 'coupon')}, WPG ${direction(change, 'rises', 'falls')} by about ${fmt(Math.abs(change))} points for ${stepWords} ` +
+    `(${ciText(slopeCi[0], slopeCi[1], step, 1)}); the line accounts for ${fmt(linear.r2 * 100, 0)} % of the spread (R² = ${fmt(linear.r2, 2)}) ` +
+    `and coupons scatter about ±${fmt(linear.residualSd)} points around it (residual SD). The shaded band is the 95 % confidence band of the mean line.`;
   return {
     fit: {
       model,
@@ -180,7 +126,11 @@ export function multipleFit(sgs: readonly number[], thicknesses: readonly number
   });
   const sg = coefficients[1] as Fit['coefficients'][number];
   const th = coefficients[2] as Fit['coefficients'][number];
-  const sentence = multipleFitSentence(m.n, sg, th, m.r2, m.residualSd, MILLIMETRES);
+  const sentence =
+    `At equal thickness, each 0.1 of SG ${direction(sg.estimate, 'raises', 'lowers')} uptake by about ${fmt(Math.abs(sg.estimate * 0.1))} points ` +
+    `(${ciText(sg.ci95[0], sg.ci95[1], 0.1, 1)}); at equal SG, each 1 mm of thickness ${direction(th.estimate, 'raises', 'lowers')} it by about ` +
+    `${fmt(Math.abs(th.estimate), 2)} points (${ciText(th.ci95[0], th.ci95[1], 1, 2)}). Together they account for ${fmt(m.r2 * 100, 0)} % of the spread ` +
+    `(R² = ${fmt(m.r2, 2)}, residual SD ${fmt(m.residualSd)} points, ${plural(m.n, 'coupon')}).`;
   return { model: 'density+thickness', n: m.n, coefficients, r2: m.r2, residualSd: m.residualSd, sentence, band: [] };
 }
 

@@ -66,24 +66,28 @@ export function wpgVsSgPlot(o: Pick<Overview, 'densityFit' | 'theoreticalMax'> &
   });
 }
 
-/**
- * WPG against thickness in the reader's length unit: `len.perMm` display units per mm (the server's
- * points and fit are in mm), and the label of that unit.
- */
-export function wpgVsThicknessPlot(fit: Fit | null, points: PointSet, len: { label: string; perMm: number; decimals: number }): Element {
+/** A length axis in the reader's unit: its label ("in") and the factor from the stored millimetres. */
+export interface LengthAxis {
+  label: string;
+  perMm: number;
+  digits: number;
+}
+
+export function wpgVsThicknessPlot(fitMm: Fit | null, pointsMm: PointSet, axis: LengthAxis = { label: 'mm', perMm: 1, digits: 1 }): Element {
+  // Thickness is stored in mm; the axis, the dots and the fitted line are drawn in the reader's unit.
+  const points = { ...pointsMm, points: pointsMm.points.map((p) => ({ ...p, x: p.x * axis.perMm })) };
+  const fit = fitMm && { ...fitMm, band: fitMm.band.map((b) => ({ ...b, x: b.x * axis.perMm })) };
   const { species, resins } = domains(points.points);
-  const shown: PointSet = len.perMm === 1 ? points : { ...points, points: points.points.map((p) => ({ ...p, x: p.x * len.perMm })) };
-  const line: Fit | null = fit && len.perMm !== 1 ? { ...fit, band: fit.band.map((b) => ({ ...b, x: b.x * len.perMm })) } : fit;
   return Plot.plot({
     width: WIDTH,
     height: HEIGHT,
     marginLeft: 56,
     grid: true,
-    x: { label: `Thickness (${len.label})` },
+    x: { label: `Thickness (${axis.label})` },
     y: { label: 'WPG (%)' },
     color: { type: 'ordinal', domain: species, range: SPECIES_COLOURS, legend: true },
     symbol: { domain: resins, range: RESIN_SYMBOLS, legend: true },
-    marks: [...fitMarks(line), couponDots(shown.points, `thickness (${len.label})`, len.decimals)],
+    marks: [...fitMarks(fit), couponDots(points.points, `thickness (${axis.label})`, axis.digits)],
   });
 }
 

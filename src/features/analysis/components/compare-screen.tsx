@@ -15,8 +15,10 @@ import {
 } from '../../../../shared/schemas/analysis';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
 import { useRole } from '../../../lib/session';
-import { useUnits, type Units } from '../../../lib/use-units';
-import { fitSentenceIn, type LengthScale } from '../../../../shared/analysis/fits';
+import { useUnits } from '../../../lib/use-units';
+import { fitInLength } from '../../../../shared/analysis/thickness-words';
+import { toBox, toSi } from '../../../lib/forms/number-input';
+import { parseNumber } from '../../../lib/forms/parse-number';
 import { filterChoicesQuery, overviewQuery, useSaveEvidence } from '../api/analysis-queries';
 import { hardnessPlot, residualPlot, swellingPlot, wpgVsSgPlot, wpgVsThicknessPlot } from './compare-plots';
 import { GroupTable } from './group-table';
@@ -90,32 +92,19 @@ function Select({ label, value, onChange, children }: { label: string; value: st
   );
 }
 
-/** The reader's length unit for thickness: the fits and filters are in mm, the screen speaks this. */
-export function lengthScale(units: Units): LengthScale & { decimals: number } {
-  const unit = units.unit('length');
-  return {
-    label: units.label('length'),
-    perMm: units.toDisplay(1, 'length'),
-    // The step a sentence speaks in: 1 mm, or a tenth of a centimetre or an inch.
-    step: unit === 'mm' ? 1 : 0.1,
-    decimals: unit === 'mm' ? 1 : unit === 'cm' ? 2 : 3,
-  };
-}
-
-/** A thickness filter value (mm, in the address) as the reader types it, and back. */
-const roundDisplay = (v: number) => String(Number(v.toPrecision(6)));
-
 function FilterBar({ filters, sgBasis, set }: { filters: AnalysisFilters; sgBasis: SgBasis; set: (k: string, v: string | undefined) => void }) {
   const choices = useQuery(filterChoicesQuery());
-  const units = useUnits();
-  const len = units.label('length');
-  const shownMm = (mm: number | undefined) => (mm === undefined ? '' : roundDisplay(units.toDisplay(mm, 'length')));
-  const setMm = (key: string) => (typed: string) => {
-    const n = Number(typed);
-    set(key, typed === '' || !Number.isFinite(n) ? typed : roundDisplay(units.fromDisplay(n, 'length')));
-  };
   const first = (v: number[] | undefined) => (v?.length === 1 ? String(v[0]) : '');
   const c = choices.data;
+  // The address keeps thickness in mm (a shared link means the same coupons to every reader); the boxes
+  // show and take it in the reader's length unit.
+  const units = useUnits();
+  const lengthBox = (mm: number | undefined) => (mm === undefined ? '' : String(toBox(mm, 'length', units)));
+  const setLength = (key: string, text: string) => {
+    const n = parseNumber(text);
+    const mm = n === null || Number.isNaN(n) ? null : toSi(n, 'length', units);
+    set(key, mm === null ? undefined : String(Number(mm.toPrecision(10))));
+  };
   return (
     <section aria-label="Filters" className="sheet mb-6 p-4">
       <div className="flex flex-wrap items-end gap-3">
@@ -162,8 +151,18 @@ function FilterBar({ filters, sgBasis, set }: { filters: AnalysisFilters; sgBasi
           ))}
         </Select>
         <TextFilter label="Source board" value={filters.sourceBoard ?? ''} onCommit={(v) => set('sourceBoard', v)} />
-        <TextFilter label={`Thickness from (${len})`} type="number" value={shownMm(filters.thicknessMinMm)} onCommit={setMm('thicknessMinMm')} />
-        <TextFilter label={`to (${len})`} type="number" value={shownMm(filters.thicknessMaxMm)} onCommit={setMm('thicknessMaxMm')} />
+        <TextFilter
+          label={`Thickness from (${units.label('length')})`}
+          type="number"
+          value={lengthBox(filters.thicknessMinMm)}
+          onCommit={(v) => setLength('thicknessMinMm', v)}
+        />
+        <TextFilter
+          label={`to (${units.label('length')})`}
+          type="number"
+          value={lengthBox(filters.thicknessMaxMm)}
+          onCommit={(v) => setLength('thicknessMaxMm', v)}
+        />
         <TextFilter label="Treated from" type="date" value={filters.from ?? ''} onCommit={(v) => set('from', v)} />
         <TextFilter label="to" type="date" value={filters.to ?? ''} onCommit={(v) => set('to', v)} />
       </div>
@@ -216,11 +215,14 @@ const shownText = (p: PointSet) =>
     ? `${p.total} coupon${p.total === 1 ? '' : 's'} shown.`
     : `${p.shown} of ${p.total} coupons shown (thinned evenly within each species × resin; outliers always shown); the fit uses all ${p.total}.`;
 
-function fillText(o: Overview): string {
+/** A density given in g/cm³, in the reader's density unit. */
+type DensityText = (gcm3: number) => string;
+
+function fillText(o: Overview, density: DensityText): string {
   return o.theoreticalMax
     .map((t) =>
       t.impliedFill
-        ? `With ${t.resinName} (cured ${t.resinDensityGcm3} g/cm³) the coupons filled about ${(t.impliedFill.fraction * 100).toFixed(0)} % of the voids (95 % CI ${(t.impliedFill.ci95[0] * 100).toFixed(0)} to ${(t.impliedFill.ci95[1] * 100).toFixed(0)} %, ${t.impliedFill.n} coupons).`
+        ? `With ${t.resinName} (cured ${density(t.resinDensityGcm3)}) the coupons filled about ${(t.impliedFill.fraction * 100).toFixed(0)} % of the voids (95 % CI ${(t.impliedFill.ci95[0] * 100).toFixed(0)} to ${(t.impliedFill.ci95[1] * 100).toFixed(0)} %, ${t.impliedFill.n} coupons).`
         : '',
     )
     .filter(Boolean)
@@ -240,8 +242,14 @@ function Results({ o, filters, sgBasis }: { o: Overview; filters: AnalysisFilter
   const xLabel = sgBasis === 'measured' ? "Oven-dry SG (each coupon's own)" : "Oven-dry SG (species' handbook value)";
   const buildSg = useCallback(() => wpgVsSgPlot({ densityFit: o.densityFit, theoreticalMax: o.theoreticalMax, points: o.plots.wpgVsSg }, xLabel), [o, xLabel]);
   const units = useUnits();
-  const len = useMemo(() => lengthScale(units), [units]);
-  const buildThickness = useCallback(() => wpgVsThicknessPlot(o.thicknessFit, o.plots.wpgVsThickness, len), [o, len]);
+  const axis = useMemo(() => ({ label: units.label('length'), perMm: units.toDisplay(1, 'length'), digits: units.decimals('length') }), [units]);
+  // Thickness fits come per mm from the server; a reader in inches reads them per 0.1 in.
+  const lengthWords = useMemo(() => ({ label: units.label('length'), mmPer: units.fromDisplay(1, 'length') }), [units]);
+  const thicknessFit = useMemo(() => o.thicknessFit && fitInLength(o.thicknessFit, lengthWords), [o.thicknessFit, lengthWords]);
+  const multipleFit = useMemo(() => o.multipleFit && fitInLength(o.multipleFit, lengthWords), [o.multipleFit, lengthWords]);
+  // Stored densities are kg/m³; 1 g/cm³ = 1000 kg/m³.
+  const density: DensityText = (gcm3) => units.format(gcm3 * 1000, 'density');
+  const buildThickness = useCallback(() => wpgVsThicknessPlot(o.thicknessFit, o.plots.wpgVsThickness, axis), [o, axis]);
   const buildResiduals = useCallback(() => residualPlot(o.plots.residuals), [o]);
   const buildHardness = useCallback(() => hardnessPlot(o.plots.hardness), [o]);
   const buildSwelling = useCallback(() => swellingPlot(o.plots.swelling), [o]);
@@ -257,7 +265,7 @@ function Results({ o, filters, sgBasis }: { o: Overview; filters: AnalysisFilter
       {o.plots.wpgVsSg.total > 0 ? (
         <PlotFigure
           title={`WPG against ${sgBasis === 'measured' ? 'measured' : 'handbook'} oven-dry SG`}
-          caption={`${o.densityFit?.sentence ?? o.fitNotes.join(' ')} The dashed curve is the theoretical maximum if every void filled with resin (porosity model, cell wall 1.5 g/cm³). ${fillText(o)} ${shownText(o.plots.wpgVsSg)}`}
+          caption={`${o.densityFit?.sentence ?? o.fitNotes.join(' ')} The dashed curve is the theoretical maximum if every void filled with resin (porosity model, cell wall ${density(1.5)}). ${fillText(o, density)} ${shownText(o.plots.wpgVsSg)}`}
           fileName="wpg-vs-sg"
           build={buildSg}
           onPick={openCoupon}
@@ -269,7 +277,7 @@ function Results({ o, filters, sgBasis }: { o: Overview; filters: AnalysisFilter
       {o.plots.wpgVsThickness.total > 0 && (
         <PlotFigure
           title="WPG against thickness"
-          caption={`${o.thicknessFit ? fitSentenceIn(o.thicknessFit, len) : 'No line: the coupons do not spread in thickness.'} ${shownText(o.plots.wpgVsThickness)}`}
+          caption={`${thicknessFit?.sentence ?? 'No line: the coupons do not spread in thickness.'} ${shownText(o.plots.wpgVsThickness)}`}
           fileName="wpg-vs-thickness"
           build={buildThickness}
           onPick={openCoupon}
@@ -277,7 +285,7 @@ function Results({ o, filters, sgBasis }: { o: Overview; filters: AnalysisFilter
         />
       )}
 
-      <MultipleReadout fit={o.multipleFit} notes={o.fitNotes} len={len} />
+      <MultipleReadout fit={multipleFit} notes={o.fitNotes} />
 
       <GroupTable groups={o.groups} />
       <TwoGroupCompare key={JSON.stringify(filters)} groups={o.groups} filters={filters} onResult={setCompareView} />
@@ -319,21 +327,14 @@ function Results({ o, filters, sgBasis }: { o: Overview; filters: AnalysisFilter
 
 const sign = (v: number, d: number) => (v < 0 ? `−${Math.abs(v).toFixed(d)}` : v.toFixed(d));
 
-/** A coefficient per mm restated per the reader's length unit (its SE and CI scale the same way). */
-function inLength(c: Fit['coefficients'][number], len: LengthScale): Fit['coefficients'][number] {
-  if (c.name !== 'thickness (mm)' || len.perMm === 1) return c;
-  const k = 1 / len.perMm;
-  return { name: `thickness (${len.label})`, estimate: c.estimate * k, se: c.se * k, ci95: [c.ci95[0] * k, c.ci95[1] * k] };
-}
-
-function MultipleReadout({ fit, notes, len }: { fit: Fit | null; notes: string[]; len: LengthScale }) {
+function MultipleReadout({ fit, notes }: { fit: Fit | null; notes: string[] }) {
   return (
     <section aria-labelledby="multiple-h" className="sheet mb-8 p-4">
       <h2 id="multiple-h">Uptake on SG and thickness together</h2>
       {fit ? (
         <>
           <p className="my-2 max-w-3xl" data-testid="multiple-sentence">
-            {fitSentenceIn(fit, len)}
+            {fit.sentence}
           </p>
           <table className="data-table">
             <caption className="sr-only">Multiple regression of WPG on oven-dry SG and thickness</caption>
@@ -346,20 +347,18 @@ function MultipleReadout({ fit, notes, len }: { fit: Fit | null; notes: string[]
               </tr>
             </thead>
             <tbody>
-              {fit.coefficients
-                .map((raw) => inLength(raw, len))
-                .map((c) => (
-                  <tr key={c.name}>
-                    <th scope="row" className="text-left font-normal">
-                      {c.name}
-                    </th>
-                    <td>{sign(c.estimate, 3)}</td>
-                    <td>{c.se.toFixed(3)}</td>
-                    <td>
-                      {sign(c.ci95[0], 3)} to {sign(c.ci95[1], 3)}
-                    </td>
-                  </tr>
-                ))}
+              {fit.coefficients.map((c) => (
+                <tr key={c.name}>
+                  <th scope="row" className="text-left font-normal">
+                    {c.name}
+                  </th>
+                  <td>{sign(c.estimate, 3)}</td>
+                  <td>{c.se.toFixed(3)}</td>
+                  <td>
+                    {sign(c.ci95[0], 3)} to {sign(c.ci95[1], 3)}
+                  </td>
+                </tr>
+              ))}
             </tbody>
           </table>
           <p className="mt-1 text-sm text-ink-soft">

@@ -74,10 +74,10 @@ export function RunHistoryPanel({ runId }: { runId: number }) {
   const history = useQuery(runHistoryQuery(runId));
   const [newestFirst, setNewestFirst] = useState(true);
   return (
-    <section aria-labelledby="run-history-heading" className="sheet mt-6 p-5">
+    <section aria-labelledby="run-history-heading" className="sheet mt-6 p-3 sm:p-5">
       <div className="mb-2 flex flex-wrap items-baseline justify-between gap-2">
         <h2 id="run-history-heading">History, {newestFirst ? 'newest' : 'oldest'} first</h2>
-        <button type="button" className="btn-quiet px-2 py-0.5 text-xs" onClick={() => setNewestFirst((v) => !v)}>
+        <button type="button" className="btn-quiet min-h-6 px-2 py-0.5 text-xs" onClick={() => setNewestFirst((v) => !v)}>
           Show {newestFirst ? 'oldest' : 'newest'} first
         </button>
       </div>
