@@ -70,3 +70,6 @@ export const labelAddressSchema = z.object({
 /** GET and PATCH /settings: the settings and the address labels will use with them. */
 export const settingsResponseSchema = z.object({ settings: shopSettingsSchema, labelAddress: labelAddressSchema });
 export type SettingsResponse = z.infer<typeof settingsResponseSchema>;
+
+/** One user as the admin's screens see it, after an invitation or a change. */
+export const adminUserResponseSchema = z.object({ user: adminUserSchema });

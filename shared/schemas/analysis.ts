@@ -419,3 +419,20 @@ export type EvidenceResponse = z.infer<typeof evidenceResponseSchema>;
 
 export const evidenceSummarySchema = z.object({ id: z.number().int(), title: z.string(), createdAt: z.string(), fingerprint: z.string() });
 export const evidenceListSchema = listResponseSchema(evidenceSummarySchema);
+
+/** `GET /api/analysis/summary`: the group table of the overview alone. */
+export const analysisSummaryResponseSchema = z.object({
+  groupBy: z.literal('species,resin'),
+  groups: overviewSchema.shape.groups,
+  counts: overviewSchema.shape.counts,
+  excluded: z.array(excludedCouponSchema),
+});
+/** `GET /api/analysis/fit`: one model's fit with its points, notes and outliers. */
+export const analysisFitResponseSchema = z.object({
+  fit: fitSchema.nullable(),
+  notes: z.array(z.string()),
+  excluded: z.array(excludedCouponSchema),
+  theoreticalMax: z.array(theoreticalMaxSchema),
+  points: pointSetSchema,
+  outliers: z.array(outlierSchema),
+});

@@ -352,3 +352,19 @@ export const couponHistorySchema = z.object({
   checks: z.array(checkSchema),
 });
 export type CouponHistory = z.infer<typeof couponHistorySchema>;
+
+/** A weighing or check corrected: the new reading, the one it superseded, the coupon as it now stands. */
+export const correctedWeighingResponseSchema = z.object({
+  weighing: weighingSchema,
+  superseded: weighingSchema,
+  coupon: couponSchema,
+  warnings: z.array(measurementWarningSchema),
+});
+export const correctedCheckResponseSchema = z.object({
+  check: checkSchema,
+  superseded: checkSchema,
+  coupon: couponSchema,
+  warnings: z.array(measurementWarningSchema),
+});
+/** A weighing or check taken back: the coupon as it now stands. */
+export const deletedMeasurementResponseSchema = z.object({ coupon: couponSchema });

@@ -218,3 +218,6 @@ export const attachableViewSchema = z.object({
 });
 export const attachableViewListSchema = z.object({ items: z.array(attachableViewSchema) });
 export type AttachableView = z.infer<typeof attachableViewSchema>;
+
+export const revisionResponseSchema = z.object({ revision: revisionSchema });
+export const verificationResponseSchema = z.object({ verification: verificationSchema });

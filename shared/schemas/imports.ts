@@ -192,3 +192,8 @@ export const createPresetSchema = z.strictObject({
   mapping: importMappingSchema,
 });
 export type CreatePresetInput = z.infer<typeof createPresetSchema>;
+
+/** A saved column mapping, offered again for files of the same shape. */
+export const importPresetSchema = z.object({ id: z.number().int(), name: z.string(), mapping: importMappingSchema });
+export const importPresetListSchema = z.object({ items: z.array(importPresetSchema.extend({ createdAt: z.string() })) });
+export const importPresetResponseSchema = z.object({ preset: importPresetSchema });

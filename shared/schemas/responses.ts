@@ -1,91 +1,55 @@
 import { z } from 'zod';
-import { adminUserSchema, backupResponseSchema, outboxListSchema, settingsResponseSchema, userListSchema } from './admin';
+import { adminUserResponseSchema, backupResponseSchema, outboxListSchema, settingsResponseSchema, userListSchema } from './admin';
 import {
   analysisCouponsResponseSchema,
+  analysisFitResponseSchema,
+  analysisSummaryResponseSchema,
   compareResultSchema,
   evidenceListSchema,
   evidenceResponseSchema,
-  excludedCouponSchema,
-  fitSchema,
-  outlierSchema,
   overviewSchema,
-  pointSetSchema,
   runExpectedSchema,
   sampleSizeSchema,
-  theoreticalMaxSchema,
 } from './analysis';
 import { acceptedResponseSchema, invitationPreviewSchema, userResponseSchema } from './auth';
 import {
   batchResponseSchema,
   checkResponseSchema,
-  checkSchema,
-  couponListSchema,
+  correctedCheckResponseSchema,
+  correctedWeighingResponseSchema,
   couponHistorySchema,
+  couponListSchema,
   couponResponseSchema,
-  couponSchema,
-  measurementWarningSchema,
+  deletedMeasurementResponseSchema,
   weighingResponseSchema,
-  weighingSchema,
 } from './coupons';
-import { attachableViewListSchema, findingListSchema, findingResponseSchema, revisionListSchema, revisionSchema, verificationSchema } from './findings';
+import {
+  attachableViewListSchema,
+  findingListSchema,
+  findingResponseSchema,
+  revisionListSchema,
+  revisionResponseSchema,
+  verificationResponseSchema,
+} from './findings';
 import {
   importDetailSchema,
   importListSchema,
-  importMappingSchema,
+  importPresetListSchema,
+  importPresetResponseSchema,
   importProblemsSchema,
   importSampleResponseSchema,
   importUploadResponseSchema,
 } from './imports';
 import { resinListSchema, resinLotListSchema, resinLotResponseSchema, resinResponseSchema, speciesListSchema, speciesResponseSchema } from './reference';
-import { benchResponseSchema, photoSchema, runChecksResponseSchema, runHistorySchema, runListSchema, runResponseSchema } from './runs';
+import { benchResponseSchema, photoResponseSchema, runChecksResponseSchema, runHistorySchema, runListSchema, runResponseSchema } from './runs';
 import { createTrialCouponsResponseSchema, labelSheetSchema, trialListSchema, trialResponseSchema } from './trials';
 import { wikiIndexSchema, wikiListSchema, wikiPageResponseSchema } from './wiki';
 
-// ───────── answers that had no contract of their own ─────────
+// The registry imports every feature's contracts: the server's test reads it; the client imports each
+// contract from its feature's file, so a screen's bundle does not carry every other screen's schemas.
 
 /** `GET /api/health`: 200 when the database takes a write; 503 with the same shape when it does not. */
 export const healthResponseSchema = z.object({ ok: z.boolean(), database: z.enum(['writable', 'read-only', 'full', 'failing']) });
-
-export const userAnswerSchema = z.object({ user: adminUserSchema });
-
-/** A weighing or check corrected: the new reading, the one it superseded, the coupon as it now stands. */
-export const correctedWeighingResponseSchema = z.object({
-  weighing: weighingSchema,
-  superseded: weighingSchema,
-  coupon: couponSchema,
-  warnings: z.array(measurementWarningSchema),
-});
-export const correctedCheckResponseSchema = z.object({
-  check: checkSchema,
-  superseded: checkSchema,
-  coupon: couponSchema,
-  warnings: z.array(measurementWarningSchema),
-});
-/** A weighing or check taken back: the coupon as it now stands. */
-export const deletedMeasurementResponseSchema = z.object({ coupon: couponSchema });
-export const photoResponseSchema = z.object({ photo: photoSchema });
-
-export const analysisSummaryResponseSchema = z.object({
-  groupBy: z.literal('species,resin'),
-  groups: overviewSchema.shape.groups,
-  counts: overviewSchema.shape.counts,
-  excluded: z.array(excludedCouponSchema),
-});
-export const analysisFitResponseSchema = z.object({
-  fit: fitSchema.nullable(),
-  notes: z.array(z.string()),
-  excluded: z.array(excludedCouponSchema),
-  theoreticalMax: z.array(theoreticalMaxSchema),
-  points: pointSetSchema,
-  outliers: z.array(outlierSchema),
-});
-
-export const revisionResponseSchema = z.object({ revision: revisionSchema });
-export const verificationResponseSchema = z.object({ verification: verificationSchema });
-
-export const importPresetSchema = z.object({ id: z.number().int(), name: z.string(), mapping: importMappingSchema });
-export const importPresetListSchema = z.object({ items: z.array(importPresetSchema.extend({ createdAt: z.string() })) });
-export const importPresetResponseSchema = z.object({ preset: importPresetSchema });
 
 // ───────── the registry ─────────
 
@@ -113,8 +77,8 @@ export const RESPONSE_CONTRACTS: Record<string, ResponseContract> = {
   'GET /api/auth/invitations/:token': json(invitationPreviewSchema),
   'POST /api/auth/invitations/accept': json(userResponseSchema),
   'GET /api/users': json(userListSchema),
-  'POST /api/users/invitations': json(userAnswerSchema),
-  'PATCH /api/users/:id': json(userAnswerSchema),
+  'POST /api/users/invitations': json(adminUserResponseSchema),
+  'PATCH /api/users/:id': json(adminUserResponseSchema),
 
   'GET /api/admin/outbox': json(outboxListSchema),
   'POST /api/admin/backup': json(backupResponseSchema),

@@ -390,3 +390,6 @@ export const runHistorySchema = z.object({
   versions: z.array(stageVersionSchema),
 });
 export type RunHistory = z.infer<typeof runHistorySchema>;
+
+/** A photo uploaded to a coupon or a run. */
+export const photoResponseSchema = z.object({ photo: photoSchema });

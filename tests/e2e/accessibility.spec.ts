@@ -35,3 +35,22 @@ for (const { role, path } of SCREENS) {
     });
   });
 }
+
+// A phone held at the oven: the screens used there, at 375 px wide. Besides axe (with the target-size
+// rule on), the page must not scroll sideways; a table may scroll inside its own box.
+for (const path of ['/', '/runs/1', '/coupons/1']) {
+  test.describe('as technician on a phone', () => {
+    test.use({ signedInAs: 'technician', viewport: { width: 375, height: 740 } });
+    test(`${path} at 375 px has no serious violations, 24 px targets and no sideways scroll`, async ({ page }) => {
+      const errors: string[] = [];
+      page.on('pageerror', (e) => errors.push(e.message));
+      await page.goto(path);
+      await expect(page.getByRole('heading', { level: 1 })).toBeVisible();
+      await expect(page.getByRole('status').filter({ hasText: /^Loading/ })).toHaveCount(0);
+      expect(await seriousViolations(page, { targetSize: true })).toEqual([]);
+      const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
+      expect(overflow, 'the page scrolls sideways at 375 px').toBeLessThanOrEqual(0);
+      expect(errors).toEqual([]);
+    });
+  });
+}

@@ -1,7 +1,6 @@
 import { queryOptions } from '@tanstack/react-query';
-import { z } from 'zod';
 import { api } from '../api-client';
-import { verificationSchema } from '../../../shared/schemas/findings';
+import { verificationResponseSchema } from '../../../shared/schemas/findings';
 import { queryKeys } from './keys';
 
 // Signature verification is shown by the findings screens and by wiki pages alike.
@@ -10,7 +9,7 @@ import { queryKeys } from './keys';
 export const verificationQuery = (findingId: number) =>
   queryOptions({
     queryKey: [...queryKeys.findings.all, 'verify', findingId] as const,
-    queryFn: async () => (await api.get(`/findings/${findingId}/verify`, z.object({ verification: verificationSchema }))).verification,
+    queryFn: async () => (await api.get(`/findings/${findingId}/verify`, verificationResponseSchema)).verification,
     enabled: false,
     staleTime: 0,
     gcTime: 0,

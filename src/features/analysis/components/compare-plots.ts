@@ -66,18 +66,28 @@ export function wpgVsSgPlot(o: Pick<Overview, 'densityFit' | 'theoreticalMax'> &
   });
 }
 
-export function wpgVsThicknessPlot(fit: Fit | null, points: PointSet): Element {
+/** A length axis in the reader's unit: its label ("in") and the factor from the stored millimetres. */
+export interface LengthAxis {
+  label: string;
+  perMm: number;
+  digits: number;
+}
+
+export function wpgVsThicknessPlot(fitMm: Fit | null, pointsMm: PointSet, axis: LengthAxis = { label: 'mm', perMm: 1, digits: 1 }): Element {
+  // Thickness is stored in mm; the axis, the dots and the fitted line are drawn in the reader's unit.
+  const points = { ...pointsMm, points: pointsMm.points.map((p) => ({ ...p, x: p.x * axis.perMm })) };
+  const fit = fitMm && { ...fitMm, band: fitMm.band.map((b) => ({ ...b, x: b.x * axis.perMm })) };
   const { species, resins } = domains(points.points);
   return Plot.plot({
     width: WIDTH,
     height: HEIGHT,
     marginLeft: 56,
     grid: true,
-    x: { label: 'Thickness (mm)' },
+    x: { label: `Thickness (${axis.label})` },
     y: { label: 'WPG (%)' },
     color: { type: 'ordinal', domain: species, range: SPECIES_COLOURS, legend: true },
     symbol: { domain: resins, range: RESIN_SYMBOLS, legend: true },
-    marks: [...fitMarks(fit), couponDots(points.points, 'thickness (mm)', 1)],
+    marks: [...fitMarks(fit), couponDots(points.points, `thickness (${axis.label})`, axis.digits)],
   });
 }
 

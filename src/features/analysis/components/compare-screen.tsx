@@ -15,6 +15,10 @@ import {
 } from '../../../../shared/schemas/analysis';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
 import { useRole } from '../../../lib/session';
+import { useUnits } from '../../../lib/use-units';
+import { fitInLength } from '../../../../shared/analysis/thickness-words';
+import { toBox, toSi } from '../../../lib/forms/number-input';
+import { parseNumber } from '../../../lib/forms/parse-number';
 import { filterChoicesQuery, overviewQuery, useSaveEvidence } from '../api/analysis-queries';
 import { hardnessPlot, residualPlot, swellingPlot, wpgVsSgPlot, wpgVsThicknessPlot } from './compare-plots';
 import { GroupTable } from './group-table';
@@ -92,6 +96,15 @@ function FilterBar({ filters, sgBasis, set }: { filters: AnalysisFilters; sgBasi
   const choices = useQuery(filterChoicesQuery());
   const first = (v: number[] | undefined) => (v?.length === 1 ? String(v[0]) : '');
   const c = choices.data;
+  // The address keeps thickness in mm (a shared link means the same coupons to every reader); the boxes
+  // show and take it in the reader's length unit.
+  const units = useUnits();
+  const lengthBox = (mm: number | undefined) => (mm === undefined ? '' : String(toBox(mm, 'length', units)));
+  const setLength = (key: string, text: string) => {
+    const n = parseNumber(text);
+    const mm = n === null || Number.isNaN(n) ? null : toSi(n, 'length', units);
+    set(key, mm === null ? undefined : String(Number(mm.toPrecision(10))));
+  };
   return (
     <section aria-label="Filters" className="sheet mb-6 p-4">
       <div className="flex flex-wrap items-end gap-3">
@@ -138,8 +151,18 @@ function FilterBar({ filters, sgBasis, set }: { filters: AnalysisFilters; sgBasi
           ))}
         </Select>
         <TextFilter label="Source board" value={filters.sourceBoard ?? ''} onCommit={(v) => set('sourceBoard', v)} />
-        <TextFilter label="Thickness from (mm)" type="number" value={filters.thicknessMinMm?.toString() ?? ''} onCommit={(v) => set('thicknessMinMm', v)} />
-        <TextFilter label="to (mm)" type="number" value={filters.thicknessMaxMm?.toString() ?? ''} onCommit={(v) => set('thicknessMaxMm', v)} />
+        <TextFilter
+          label={`Thickness from (${units.label('length')})`}
+          type="number"
+          value={lengthBox(filters.thicknessMinMm)}
+          onCommit={(v) => setLength('thicknessMinMm', v)}
+        />
+        <TextFilter
+          label={`to (${units.label('length')})`}
+          type="number"
+          value={lengthBox(filters.thicknessMaxMm)}
+          onCommit={(v) => setLength('thicknessMaxMm', v)}
+        />
         <TextFilter label="Entered from" type="date" value={filters.from ?? ''} onCommit={(v) => set('from', v)} />
         <TextFilter label="to" type="date" value={filters.to ?? ''} onCommit={(v) => set('to', v)} />
       </div>
@@ -188,11 +211,14 @@ const shownText = (p: PointSet) =>
     ? `${p.total} coupon${p.total === 1 ? '' : 's'} shown.`
     : `${p.shown} of ${p.total} coupons shown (thinned evenly within each species × resin; outliers always shown); the fit uses all ${p.total}.`;
 
-function fillText(o: Overview): string {
+/** A density given in g/cm³, in the reader's density unit. */
+type DensityText = (gcm3: number) => string;
+
+function fillText(o: Overview, density: DensityText): string {
   return o.theoreticalMax
     .map((t) =>
       t.impliedFill
-        ? `With ${t.resinName} (cured ${t.resinDensityGcm3} g/cm³) the coupons filled about ${(t.impliedFill.fraction * 100).toFixed(0)} % of the voids (95 % CI ${(t.impliedFill.ci95[0] * 100).toFixed(0)} to ${(t.impliedFill.ci95[1] * 100).toFixed(0)} %, ${t.impliedFill.n} coupons).`
+        ? `With ${t.resinName} (cured ${density(t.resinDensityGcm3)}) the coupons filled about ${(t.impliedFill.fraction * 100).toFixed(0)} % of the voids (95 % CI ${(t.impliedFill.ci95[0] * 100).toFixed(0)} to ${(t.impliedFill.ci95[1] * 100).toFixed(0)} %, ${t.impliedFill.n} coupons).`
         : '',
     )
     .filter(Boolean)
@@ -211,7 +237,15 @@ function Results({ o, filters, sgBasis }: { o: Overview; filters: AnalysisFilter
   );
   const xLabel = sgBasis === 'measured' ? "Oven-dry SG (each coupon's own)" : "Oven-dry SG (species' handbook value)";
   const buildSg = useCallback(() => wpgVsSgPlot({ densityFit: o.densityFit, theoreticalMax: o.theoreticalMax, points: o.plots.wpgVsSg }, xLabel), [o, xLabel]);
-  const buildThickness = useCallback(() => wpgVsThicknessPlot(o.thicknessFit, o.plots.wpgVsThickness), [o]);
+  const units = useUnits();
+  const axis = useMemo(() => ({ label: units.label('length'), perMm: units.toDisplay(1, 'length'), digits: units.decimals('length') }), [units]);
+  // Thickness fits come per mm from the server; a reader in inches reads them per 0.1 in.
+  const lengthWords = useMemo(() => ({ label: units.label('length'), mmPer: units.fromDisplay(1, 'length') }), [units]);
+  const thicknessFit = useMemo(() => o.thicknessFit && fitInLength(o.thicknessFit, lengthWords), [o.thicknessFit, lengthWords]);
+  const multipleFit = useMemo(() => o.multipleFit && fitInLength(o.multipleFit, lengthWords), [o.multipleFit, lengthWords]);
+  // Stored densities are kg/m³; 1 g/cm³ = 1000 kg/m³.
+  const density: DensityText = (gcm3) => units.format(gcm3 * 1000, 'density');
+  const buildThickness = useCallback(() => wpgVsThicknessPlot(o.thicknessFit, o.plots.wpgVsThickness, axis), [o, axis]);
   const buildResiduals = useCallback(() => residualPlot(o.plots.residuals), [o]);
   const buildHardness = useCallback(() => hardnessPlot(o.plots.hardness), [o]);
   const buildSwelling = useCallback(() => swellingPlot(o.plots.swelling), [o]);
@@ -227,7 +261,7 @@ function Results({ o, filters, sgBasis }: { o: Overview; filters: AnalysisFilter
       {o.plots.wpgVsSg.total > 0 ? (
         <PlotFigure
           title={`WPG against ${sgBasis === 'measured' ? 'measured' : 'handbook'} oven-dry SG`}
-          caption={`${o.densityFit?.sentence ?? o.fitNotes.join(' ')} The dashed curve is the theoretical maximum if every void filled with resin (porosity model, cell wall 1.5 g/cm³). ${fillText(o)} ${shownText(o.plots.wpgVsSg)}`}
+          caption={`${o.densityFit?.sentence ?? o.fitNotes.join(' ')} The dashed curve is the theoretical maximum if every void filled with resin (porosity model, cell wall ${density(1.5)}). ${fillText(o, density)} ${shownText(o.plots.wpgVsSg)}`}
           fileName="wpg-vs-sg"
           build={buildSg}
           onPick={openCoupon}
@@ -239,7 +273,7 @@ function Results({ o, filters, sgBasis }: { o: Overview; filters: AnalysisFilter
       {o.plots.wpgVsThickness.total > 0 && (
         <PlotFigure
           title="WPG against thickness"
-          caption={`${o.thicknessFit?.sentence ?? 'No line: the coupons do not spread in thickness.'} ${shownText(o.plots.wpgVsThickness)}`}
+          caption={`${thicknessFit?.sentence ?? 'No line: the coupons do not spread in thickness.'} ${shownText(o.plots.wpgVsThickness)}`}
           fileName="wpg-vs-thickness"
           build={buildThickness}
           onPick={openCoupon}
@@ -247,7 +281,7 @@ function Results({ o, filters, sgBasis }: { o: Overview; filters: AnalysisFilter
         />
       )}
 
-      <MultipleReadout fit={o.multipleFit} notes={o.fitNotes} />
+      <MultipleReadout fit={multipleFit} notes={o.fitNotes} />
 
       <GroupTable groups={o.groups} />
       <TwoGroupCompare key={JSON.stringify(filters)} groups={o.groups} filters={filters} onResult={setCompareView} />

@@ -2,6 +2,13 @@ import { useMemo, useState } from 'react';
 import type { GroupRow, SummaryStats } from '../../../../shared/schemas/analysis';
 import { groupsCsv } from '../../../../shared/analysis/csv';
 import { HARDNESS_SCALE_LABELS } from '../../../../shared/constants/records';
+import { useUnits } from '../../../lib/use-units';
+
+/** Summary statistics scaled into another unit (a linear one: no offset), for a column in the reader's unit. */
+function scaled(s: SummaryStats | null, factor: number): SummaryStats | null {
+  if (!s) return null;
+  return { ...s, mean: s.mean * factor, sd: s.sd === null ? null : s.sd * factor, ci95: s.ci95 ? [s.ci95[0] * factor, s.ci95[1] * factor] : s.ci95 };
+}
 
 type SortKey = 'species' | 'resin' | 'n' | 'wpg' | 'loading' | 'voidFill' | 'hardness' | 'ase';
 
@@ -56,6 +63,7 @@ export function downloadText(text: string, name: string, type: string): void {
 
 /** The species × resin table, sortable by any column, with a CSV export. */
 export function GroupTable({ groups }: { groups: GroupRow[] }) {
+  const units = useUnits();
   const [sort, setSort] = useState<{ key: SortKey; desc: boolean }>({ key: 'species', desc: false });
   const rows = useMemo(() => {
     const out = [...groups];
@@ -102,7 +110,7 @@ export function GroupTable({ groups }: { groups: GroupRow[] }) {
                 {header('resin', 'Resin')}
                 {header('n', 'n', 'coupons / boards')}
                 {header('wpg', 'WPG %', 'mean, 95 % CI')}
-                {header('loading', 'Loading kg/m³', 'mean, 95 % CI')}
+                {header('loading', `Loading ${units.label('density')}`, 'mean, 95 % CI')}
                 {header('voidFill', 'Void fill %', 'mean, 95 % CI')}
                 {header('hardness', 'Hardness gain', 'treated / control')}
                 {header('ase', 'ASE %', 'mean, 95 % CI')}
@@ -123,7 +131,7 @@ export function GroupTable({ groups }: { groups: GroupRow[] }) {
                     <MeanCi s={g.wpg} />
                   </td>
                   <td>
-                    <MeanCi s={g.resinLoading} digits={0} />
+                    <MeanCi s={scaled(g.resinLoading, units.toDisplay(1, 'density'))} digits={units.decimals('density')} />
                   </td>
                   <td>
                     <MeanCi s={g.voidFill} />

@@ -1,9 +1,8 @@
 import { queryOptions } from '@tanstack/react-query';
-import { z } from 'zod';
 import { api, queryString } from '../../../lib/api-client';
 import { queryKeys } from '../../../lib/queries/keys';
 import { userListSchema } from '../../../../shared/schemas/admin';
-import { invitationPreviewSchema } from '../../../../shared/schemas/auth';
+import { acceptedResponseSchema, invitationPreviewSchema } from '../../../../shared/schemas/auth';
 import type { ListQuery } from '../../../../shared/schemas/common';
 
 // The signed-in user's query lives in src/lib/session.ts (every feature reads it).
@@ -14,7 +13,8 @@ export const usersQuery = (q: Partial<ListQuery> = {}) =>
     queryFn: () => api.get(`/users${queryString({ ...q, pageSize: q.pageSize ?? 200 })}`, userListSchema),
   });
 
-export const acceptedSchema = z.object({ accepted: z.literal(true) });
+/** The answer of the password-reset requests. */
+export const acceptedSchema = acceptedResponseSchema;
 
 /** Whom an invitation link invites, so the page greets them and prefills the name the admin typed. */
 export const invitationQuery = (token: string) =>

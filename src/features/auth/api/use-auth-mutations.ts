@@ -8,8 +8,7 @@ import {
   type PasswordResetRequestInput,
   type UpdatePreferencesInput,
 } from '../../../../shared/schemas/auth';
-import { adminUserSchema, type InviteUserInput, type UpdateUserInput } from '../../../../shared/schemas/admin';
-import { z } from 'zod';
+import { adminUserResponseSchema, type InviteUserInput, type UpdateUserInput } from '../../../../shared/schemas/admin';
 import { acceptedSchema } from './auth-queries';
 import { queryKeys } from '../../../lib/queries/keys';
 import { useInvalidate } from '../../../lib/queries/invalidate';
@@ -63,7 +62,7 @@ export function useAcceptInvitation() {
   });
 }
 
-const oneUser = z.object({ user: adminUserSchema });
+const oneUser = adminUserResponseSchema;
 
 export function useInviteUser() {
   const invalidate = useInvalidate();

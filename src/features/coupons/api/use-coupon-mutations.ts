@@ -1,29 +1,17 @@
 import { useMutation } from '@tanstack/react-query';
-import { z } from 'zod';
 import { api } from '../../../lib/api-client';
 import {
   checkResponseSchema,
-  checkSchema,
-  couponSchema,
-  measurementWarningSchema,
+  correctedCheckResponseSchema,
+  correctedWeighingResponseSchema,
   weighingResponseSchema,
-  weighingSchema,
   type CheckInput,
   type CorrectCheckInput,
   type CorrectWeighingInput,
   type WeighingInput,
 } from '../../../../shared/schemas/coupons';
-import { photoSchema } from '../../../../shared/schemas/runs';
+import { photoResponseSchema } from '../../../../shared/schemas/runs';
 import { useInvalidate } from '../../../lib/queries/invalidate';
-
-const correctedWeighingSchema = z.object({
-  weighing: weighingSchema,
-  superseded: weighingSchema,
-  coupon: couponSchema,
-  warnings: z.array(measurementWarningSchema),
-});
-const correctedCheckSchema = z.object({ check: checkSchema, superseded: checkSchema, coupon: couponSchema, warnings: z.array(measurementWarningSchema) });
-const photoResponseSchema = z.object({ photo: photoSchema });
 
 /** A reading changes the coupon's results, its run's and trial's progress, the bench and every analysis. */
 function useInvalidateCoupons() {
@@ -50,7 +38,7 @@ export function useAddCheck(couponId: number) {
 export function useCorrectWeighing() {
   const invalidate = useInvalidateCoupons();
   return useMutation({
-    mutationFn: ({ id, ...input }: CorrectWeighingInput & { id: number }) => api.patch(`/weighings/${id}`, input, correctedWeighingSchema),
+    mutationFn: ({ id, ...input }: CorrectWeighingInput & { id: number }) => api.patch(`/weighings/${id}`, input, correctedWeighingResponseSchema),
     onSuccess: invalidate,
   });
 }
@@ -58,7 +46,7 @@ export function useCorrectWeighing() {
 export function useCorrectCheck() {
   const invalidate = useInvalidateCoupons();
   return useMutation({
-    mutationFn: ({ id, ...input }: CorrectCheckInput & { id: number }) => api.patch(`/checks/${id}`, input, correctedCheckSchema),
+    mutationFn: ({ id, ...input }: CorrectCheckInput & { id: number }) => api.patch(`/checks/${id}`, input, correctedCheckResponseSchema),
     onSuccess: invalidate,
   });
 }

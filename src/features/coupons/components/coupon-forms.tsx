@@ -23,7 +23,7 @@ import { Field, FormError, SelectField } from '../../../components/ui/field';
 import { NumberField } from '../../../components/ui/number-field';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { fromLocalInput, toLocalInput } from '../../../lib/format/dates';
-import { toBox, toSi } from '../../../lib/forms/number-input';
+import { toBox, toSi, type DisplayUnits } from '../../../lib/forms/number-input';
 import { convertingResolver } from '../../../lib/forms/resolver';
 import { useUnits } from '../../../lib/use-units';
 import { useQuery } from '@tanstack/react-query';
@@ -239,22 +239,33 @@ interface HardnessValues {
   measuredAt: string;
 }
 
-const hardnessResolver = convertingResolver<HardnessValues, typeof checkInputSchema>(
-  checkInputSchema,
-  (v) => ({
-    kind: 'hardness',
-    stage: v.stage,
-    hardnessValue: orUndefined(v.hardnessValue),
-    hardnessScale: v.hardnessScale,
-    measuredAt: instant(v.measuredAt),
-    method: optionalText(v.method),
-  }),
-  {},
-  { hardnessValue: 'Enter the reading' },
-);
+/** Janka is a force, typed in the user's force unit and stored in N; Shore D and Brinell are scales, kept as read. */
+const hardnessToSi = (value: number | null, scale: HardnessScale | null, units: DisplayUnits) => (scale === 'janka-n' ? toSi(value, 'force', units) : value);
+
+/** The scale's name with the unit a Janka reading is typed in: "Janka (lbf)" for a user who reads force in lbf. */
+export function hardnessScaleLabel(scale: HardnessScale, units: { label: (q: 'force') => string }): string {
+  return scale === 'janka-n' ? `Janka (${units.label('force')})` : HARDNESS_SCALE_LABELS[scale];
+}
+
+const hardnessResolverFor = (units: DisplayUnits) =>
+  convertingResolver<HardnessValues, typeof checkInputSchema>(
+    checkInputSchema,
+    (v) => ({
+      kind: 'hardness',
+      stage: v.stage,
+      hardnessValue: orUndefined(hardnessToSi(v.hardnessValue, v.hardnessScale, units)),
+      hardnessScale: v.hardnessScale,
+      measuredAt: instant(v.measuredAt),
+      method: optionalText(v.method),
+    }),
+    {},
+    { hardnessValue: 'Enter the reading' },
+  );
 
 export function HardnessForm({ coupon }: { coupon: CouponDetail }) {
+  const units = useUnits();
   const add = useAddCheck(coupon.id);
+  const hardnessResolver = useMemo(() => hardnessResolverFor(units), [units]);
   const { form, submit, done } = useCouponForm<HardnessValues, z.output<typeof checkInputSchema>>(
     { stage: coupon.role === 'treated' ? 'cured' : 'dry', hardnessValue: null, hardnessScale: 'shore-d', method: '', measuredAt: toLocalInput() },
     hardnessResolver,
@@ -277,7 +288,7 @@ export function HardnessForm({ coupon }: { coupon: CouponDetail }) {
             label="Scale"
             registration={form.register('hardnessScale')}
             error={errors.hardnessScale?.message}
-            options={HARDNESS_SCALES.map((s) => ({ value: s, label: HARDNESS_SCALE_LABELS[s] }))}
+            options={HARDNESS_SCALES.map((s) => ({ value: s, label: hardnessScaleLabel(s, units) }))}
           />
           <Field label="Method (optional)" registration={form.register('method')} error={errors.method?.message} />
           <Field label="Measured at" type="datetime-local" registration={form.register('measuredAt')} error={errors.measuredAt?.message} />
@@ -515,7 +526,7 @@ export function CorrectCheckForm({ check, onDone }: { check: CheckOut; onDone: (
       widthMm: toBox(check.widthMm, 'length', units),
       thicknessMm: toBox(check.thicknessMm, 'length', units),
       volumeCm3: toBox(check.volumeCm3, 'volume', units),
-      hardnessValue: check.hardnessValue,
+      hardnessValue: check.hardnessScale === 'janka-n' ? toBox(check.hardnessValue, 'force', units) : check.hardnessValue,
       moisturePct: check.moisturePct,
       reason: '',
     }),
@@ -538,10 +549,11 @@ export function CorrectCheckForm({ check, onDone }: { check: CheckOut; onDone: (
             volumeCm3: si('volumeCm3', 'volume'),
             reason: v.reason,
           };
-        if (check.kind === 'hardness') return { hardnessValue: orUndefined(changed('hardnessValue') ?? null), reason: v.reason };
+        if (check.kind === 'hardness')
+          return { hardnessValue: orUndefined(hardnessToSi(changed('hardnessValue') ?? null, check.hardnessScale, units)), reason: v.reason };
         return { moisturePct: orUndefined(changed('moisturePct') ?? null), reason: v.reason };
       }),
-    [check.kind, initial, units],
+    [check.kind, check.hardnessScale, initial, units],
   );
   const { form, submit } = useCouponForm<CorrectCheckValues, z.output<typeof correctCheckSchema>>(initial, resolver, [
     'lengthMm',
@@ -571,7 +583,7 @@ export function CorrectCheckForm({ check, onDone }: { check: CheckOut; onDone: (
           </>
         )}
         {check.kind === 'hardness' && (
-          <NumberField form={form} name="hardnessValue" label="Reading" unit={check.hardnessScale ? HARDNESS_SCALE_LABELS[check.hardnessScale] : 'scale'} />
+          <NumberField form={form} name="hardnessValue" label="Reading" unit={check.hardnessScale ? hardnessScaleLabel(check.hardnessScale, units) : 'scale'} />
         )}
         {check.kind === 'moisture' && <NumberField form={form} name="moisturePct" label="Moisture content" unit="%" />}
         <div className="sm:col-span-2">

@@ -118,7 +118,7 @@ export function CouponHistoryPanel({ couponId }: { couponId: number }) {
   const history = useQuery(couponHistoryQuery(couponId));
   const [newestFirst, setNewestFirst] = useState(true);
   return (
-    <section aria-labelledby="history-heading" className="sheet mt-6 p-5">
+    <section aria-labelledby="history-heading" className="sheet mt-6 p-3 sm:p-5">
       <h2 id="history-heading" className="mb-2">
         History
       </h2>
@@ -135,7 +135,7 @@ export function CouponHistoryPanel({ couponId }: { couponId: number }) {
           <div>
             <div className="flex flex-wrap items-baseline justify-between gap-2">
               <h3 className="font-semibold">Every change, {newestFirst ? 'newest' : 'oldest'} first</h3>
-              <button type="button" className="btn-quiet px-2 py-0.5 text-xs" onClick={() => setNewestFirst((v) => !v)}>
+              <button type="button" className="btn-quiet min-h-6 px-2 py-0.5 text-xs" onClick={() => setNewestFirst((v) => !v)}>
                 Show {newestFirst ? 'oldest' : 'newest'} first
               </button>
             </div>

@@ -115,7 +115,7 @@ function Readings({ coupon }: { coupon: CouponDetail }) {
         {w.importId !== null ? ' (from an import)' : ''}
       </span>
       {can('technician') && editing !== `w${w.id}` && (
-        <button type="button" className="btn-quiet ml-2 px-2 py-0.5 text-xs" onClick={() => setEditing(`w${w.id}`)}>
+        <button type="button" className="btn-quiet ml-2 min-h-6 px-2 py-0.5 text-xs" onClick={() => setEditing(`w${w.id}`)}>
           Correct<span className="sr-only"> the {w.stage} weighing</span>
         </button>
       )}
@@ -130,7 +130,7 @@ function Readings({ coupon }: { coupon: CouponDetail }) {
         {c.method ? ` · ${c.method}` : ''}
       </span>
       {can('technician') && editing !== `c${c.id}` && (
-        <button type="button" className="btn-quiet ml-2 px-2 py-0.5 text-xs" onClick={() => setEditing(`c${c.id}`)}>
+        <button type="button" className="btn-quiet ml-2 min-h-6 px-2 py-0.5 text-xs" onClick={() => setEditing(`c${c.id}`)}>
           Correct
           <span className="sr-only">
             {' '}
@@ -231,13 +231,13 @@ export function CouponScreen() {
         )}
       </dl>
       <div className="grid gap-6 lg:grid-cols-2">
-        <section aria-labelledby="metrics-heading" className="sheet p-5">
+        <section aria-labelledby="metrics-heading" className="sheet p-3 sm:p-5">
           <h2 id="metrics-heading" className="mb-2">
             Computed
           </h2>
           <Metrics coupon={c} />
         </section>
-        <section aria-labelledby="readings-heading" className="sheet p-5">
+        <section aria-labelledby="readings-heading" className="sheet p-3 sm:p-5">
           <h2 id="readings-heading" className="mb-2">
             Readings by stage
           </h2>
@@ -245,7 +245,7 @@ export function CouponScreen() {
         </section>
       </div>
       {can('technician') && (
-        <section aria-labelledby="entry-heading" className="sheet mt-6 p-5">
+        <section aria-labelledby="entry-heading" className="sheet mt-6 p-3 sm:p-5">
           <h2 id="entry-heading" className="mb-3">
             Enter readings
           </h2>

@@ -6,10 +6,9 @@ import {
   findingListSchema,
   findingResponseSchema,
   revisionListSchema,
-  revisionSchema,
+  revisionResponseSchema,
   type FindingListQuery,
 } from '../../../../shared/schemas/findings';
-import { z } from 'zod';
 
 const root = queryKeys.findings.all;
 export const findingKeys = {
@@ -42,7 +41,7 @@ export const revisionsQuery = (id: number) =>
 export const revisionQuery = (id: number, n: number) =>
   queryOptions({
     queryKey: findingKeys.revision(id, n),
-    queryFn: async () => (await api.get(`/findings/${id}/revisions/${n}`, z.object({ revision: revisionSchema }))).revision,
+    queryFn: async () => (await api.get(`/findings/${id}/revisions/${n}`, revisionResponseSchema)).revision,
     staleTime: Infinity,
   });
 

@@ -1,18 +1,15 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
-import { z } from 'zod';
 import { api } from '../../../lib/api-client';
 import { useInvalidate } from '../../../lib/queries/invalidate';
 import {
   importDetailSchema,
   importSampleResponseSchema,
-  importMappingSchema,
+  importPresetResponseSchema,
   type CommitImportInput,
   type ImportFormat,
   type ImportMapping,
 } from '../../../../shared/schemas/imports';
 import { importKeys } from './imports-queries';
-
-const presetResponseSchema = z.object({ preset: z.object({ id: z.number(), name: z.string(), mapping: importMappingSchema }) });
 
 /** Re-reads the head of the file with other format choices. */
 export function useSample(id: number) {
@@ -50,7 +47,7 @@ export function useUndo(id: number) {
 export function useSavePreset(importId: number) {
   const invalidate = useInvalidate();
   return useMutation({
-    mutationFn: (v: { name: string; mapping: ImportMapping }) => api.post('/imports/presets', { ...v, importId }, presetResponseSchema),
+    mutationFn: (v: { name: string; mapping: ImportMapping }) => api.post('/imports/presets', { ...v, importId }, importPresetResponseSchema),
     onSuccess: () => invalidate('imports'),
   });
 }

@@ -9,8 +9,10 @@ import { useCreateResin } from '../api/use-create-resin';
 import { useUpdateResin } from '../api/use-update-resin';
 import { renameFields, textOrNull } from '../../../lib/form-values';
 import { convertingResolver } from '../../../lib/forms/resolver';
+import { toBox } from '../../../lib/forms/number-input';
+import { formatTemperatureRange } from '../../../../shared/runs/format';
 
-/** As typed: cure temperatures in the user's temperature unit; everything else as the contract has it. */
+/** As typed: cure temperatures and densities in the user's units; everything else as the contract has it. */
 interface FormValues {
   name: string;
   kind: string;
@@ -34,9 +36,18 @@ export function ResinForm({ resin, onDone, onCancel }: { resin: Resin | null; on
 
   // Cure temperatures are typed in the user's unit and checked in °C by the contract.
   const toC = (v: number | undefined) => (v === undefined ? v : units.fromDisplay(v, 'temperature'));
+  // Densities are stored in g/cm³ (the resin maker's sheet) and typed in the user's density unit; 1 g/cm³ = 1000 kg/m³.
+  const toGcm3 = (v: number | undefined) => (v === undefined || Number.isNaN(v) ? v : units.fromDisplay(v, 'density') / 1000);
+  const densityBox = (gcm3: number) => toBox(gcm3 * 1000, 'density', units) ?? undefined;
   const resolver = convertingResolver<FormValues, typeof createResinSchema>(
     createResinSchema,
-    ({ cureMin, cureMax, ...rest }) => ({ ...rest, cureMinC: toC(cureMin), cureMaxC: toC(cureMax) }),
+    ({ cureMin, cureMax, liquidDensityGcm3, curedDensityGcm3, ...rest }) => ({
+      ...rest,
+      liquidDensityGcm3: toGcm3(liquidDensityGcm3),
+      curedDensityGcm3: toGcm3(curedDensityGcm3),
+      cureMinC: toC(cureMin),
+      cureMaxC: toC(cureMax),
+    }),
     RENAMED,
   );
 
@@ -46,8 +57,8 @@ export function ResinForm({ resin, onDone, onCancel }: { resin: Resin | null; on
       ? {
           name: resin.name,
           kind: resin.kind,
-          liquidDensityGcm3: resin.liquidDensityGcm3,
-          curedDensityGcm3: resin.curedDensityGcm3,
+          liquidDensityGcm3: densityBox(resin.liquidDensityGcm3),
+          curedDensityGcm3: densityBox(resin.curedDensityGcm3),
           cureMin: shown(resin.cureMinC),
           cureMax: shown(resin.cureMaxC),
           shelfLifeDays: resin.shelfLifeDays,
@@ -79,8 +90,8 @@ export function ResinForm({ resin, onDone, onCancel }: { resin: Resin | null; on
         <div className="grid gap-x-4 sm:grid-cols-2">
           <Field label="Name" registration={form.register('name')} error={errors.name?.message} hint="The name the shop uses for it" />
           <Field label="Kind" registration={form.register('kind')} error={errors.kind?.message} hint="e.g. methacrylate monomer blend" />
-          <NumberField form={form} name="liquidDensityGcm3" label="Liquid density (g/cm³)" required />
-          <NumberField form={form} name="curedDensityGcm3" label="Cured density (g/cm³)" required />
+          <NumberField form={form} name="liquidDensityGcm3" label="Liquid density" quantity="density" required />
+          <NumberField form={form} name="curedDensityGcm3" label="Cured density" quantity="density" required />
           <NumberField form={form} name="cureMin" label="Lowest cure temperature" quantity="temperature" required />
           <NumberField
             form={form}
@@ -88,7 +99,7 @@ export function ResinForm({ resin, onDone, onCancel }: { resin: Resin | null; on
             label="Highest cure temperature"
             quantity="temperature"
             required
-            hint="About 93–121 °C (200–250 °F) is common practice for heat-cure resins; the resin maker's sheet governs"
+            hint={`About ${formatTemperatureRange(DEFAULT_CURE_WINDOW_C.min, DEFAULT_CURE_WINDOW_C.max, units.prefs)} is common practice for heat-cure resins; the resin maker's sheet governs`}
           />
           <NumberField
             form={form}

@@ -1,4 +1,4 @@
-import { useEffect, useRef } from 'react';
+import { useEffect, useMemo, useRef } from 'react';
 import { useForm } from 'react-hook-form';
 import type { z } from 'zod';
 import { SPECIES_ORIGINS } from '../../../../shared/constants/records';
@@ -10,6 +10,8 @@ import { useCreateSpecies } from '../api/use-create-species';
 import { useUpdateSpecies } from '../api/use-update-species';
 import { textOrNull } from '../../../lib/form-values';
 import { convertingResolver } from '../../../lib/forms/resolver';
+import { toBox, toSi, type DisplayUnits } from '../../../lib/forms/number-input';
+import { useUnits } from '../../../lib/use-units';
 
 type FormValues = z.input<typeof createSpeciesSchema>;
 
@@ -27,12 +29,19 @@ const FIELDS = [
   'notes',
 ] as const;
 
-// A handbook row carries no measured density; drop what may have been typed before the origin was switched.
-const resolver = convertingResolver<FormValues, typeof createSpeciesSchema>(createSpeciesSchema, (values) =>
-  values.origin === 'handbook' ? { ...values, measuredDensityKgM3: null, measuredMoisturePct: null } : values,
-);
+// Hardness (a force, stored in N) and the measured density (stored in kg/m³) are typed in the user's
+// units. A handbook row carries no measured density; drop what may have been typed before the origin was switched.
+const resolverFor = (units: DisplayUnits) =>
+  convertingResolver<FormValues, typeof createSpeciesSchema>(createSpeciesSchema, (values) => {
+    const si = {
+      ...values,
+      sideHardnessN: toSi(values.sideHardnessN, 'force', units),
+      measuredDensityKgM3: toSi(values.measuredDensityKgM3, 'density', units),
+    };
+    return values.origin === 'handbook' ? { ...si, measuredDensityKgM3: null, measuredMoisturePct: null } : si;
+  });
 
-function defaultsOf(s: Species | null): FormValues {
+function defaultsOf(s: Species | null, units: DisplayUnits): FormValues {
   if (!s) {
     return {
       commonName: '',
@@ -49,14 +58,16 @@ function defaultsOf(s: Species | null): FormValues {
     };
   }
   const { id: _id, createdAt: _c, ...rest } = s;
-  return rest;
+  return { ...rest, sideHardnessN: toBox(s.sideHardnessN, 'force', units), measuredDensityKgM3: toBox(s.measuredDensityKgM3, 'density', units) };
 }
 
 /** Adds a species, or edits one (admin). */
 export function SpeciesForm({ species, onDone, onCancel }: { species: Species | null; onDone: (name: string) => void; onCancel: () => void }) {
   const create = useCreateSpecies();
   const update = useUpdateSpecies();
-  const form = useForm<FormValues, unknown, CreateSpeciesInput>({ resolver, defaultValues: defaultsOf(species) });
+  const units = useUnits();
+  const resolver = useMemo(() => resolverFor(units), [units]);
+  const form = useForm<FormValues, unknown, CreateSpeciesInput>({ resolver, defaultValues: defaultsOf(species, units) });
   const { errors } = form.formState;
   const origin = form.watch('origin');
   const headingRef = useRef<HTMLHeadingElement>(null);
@@ -109,8 +120,9 @@ export function SpeciesForm({ species, onDone, onCancel }: { species: Species | 
           <NumberField
             form={form}
             name="sideHardnessN"
-            label="Side hardness at 12 % MC (N)"
-            hint="In newtons, as the table gives it (ASTM D143 ball test); not converted"
+            label="Side hardness at 12 % MC"
+            quantity="force"
+            hint="The load that presses the ball in (ASTM D143), as the table gives it; converted from the unit shown"
           />
           <NumberField
             form={form}
@@ -120,7 +132,7 @@ export function SpeciesForm({ species, onDone, onCancel }: { species: Species | 
           />
           {origin === 'shop-measured' && (
             <>
-              <NumberField form={form} name="measuredDensityKgM3" label="Measured density (kg/m³)" />
+              <NumberField form={form} name="measuredDensityKgM3" label="Measured density" quantity="density" />
               <NumberField form={form} name="measuredMoisturePct" label="Moisture content at that density (%)" />
             </>
           )}

@@ -1,10 +1,7 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
-import { z } from 'zod';
 import { api } from '../../../lib/api-client';
-import { photoSchema } from '../../../../shared/schemas/runs';
+import { photoResponseSchema } from '../../../../shared/schemas/runs';
 import { queryKeys } from '../../../lib/queries/keys';
-
-const photoResponseSchema = z.object({ photo: photoSchema });
 
 export function useUploadRunPhoto(runId: number) {
   const qc = useQueryClient();

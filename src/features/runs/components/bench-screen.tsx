@@ -194,7 +194,7 @@ export function BenchScreen() {
   return (
     <Page title="Bench">
       <div className="grid gap-6 lg:grid-cols-2">
-        <section aria-labelledby="due-now-heading" className="sheet p-5">
+        <section aria-labelledby="due-now-heading" className="sheet p-3 sm:p-5">
           <h2 id="due-now-heading">Due now</h2>
           {bench.isPending ? (
             <Loading />
@@ -204,7 +204,7 @@ export function BenchScreen() {
             <ItemList items={dueNow} now={now} empty="Nothing is waiting right now." />
           )}
         </section>
-        <section aria-labelledby="soon-heading" className="sheet p-5">
+        <section aria-labelledby="soon-heading" className="sheet p-3 sm:p-5">
           <div className="flex flex-wrap items-baseline justify-between gap-2">
             <h2 id="soon-heading">Coming up</h2>
             <label className="text-sm text-ink-soft">
@@ -225,7 +225,7 @@ export function BenchScreen() {
           {bench.isPending ? <Loading /> : bench.isError ? null : <ItemList items={soon} now={now} empty={`Nothing falls due in the next ${withinHours} h.`} />}
         </section>
       </div>
-      <section aria-labelledby="in-progress-heading" className="sheet mt-6 p-5">
+      <section aria-labelledby="in-progress-heading" className="sheet mt-6 p-3 sm:p-5">
         <h2 id="in-progress-heading" className="mb-2">
           Runs in progress
         </h2>

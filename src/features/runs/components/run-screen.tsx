@@ -20,7 +20,7 @@ import { CautionNote } from './caution-note';
 import { RuleChecks } from './rule-checks';
 import { CorrectStageForm } from './correct-stage-form';
 import { RunHistoryPanel } from './run-history';
-import { GAUGE_NOTE, StageForm } from './stage-form';
+import { gaugeNote, StageForm } from './stage-form';
 import { DueTime, dateTime, formatSpan } from './time-text';
 import { paths } from '../../../config/paths';
 
@@ -112,7 +112,8 @@ function StageFacts({ s, run, now }: { s: RunStageOut; run: RunDetail; now: Date
                 {s.readings.map((r) => (
                   <tr key={r.id}>
                     <td>{dateTime(r.at)}</td>
-                    <td>
+                    {/* As the gauge showed it, in the unit printed on the gauge; the next columns are in the user's units. */}
+                    <td data-units-as-entered="">
                       {r.gaugeValue} {r.gaugeUnit}
                     </td>
                     <td>{units.format(r.absoluteKpa, 'pressure')}</td>
@@ -121,7 +122,7 @@ function StageFacts({ s, run, now }: { s: RunStageOut; run: RunDetail; now: Date
                 ))}
               </tbody>
             </table>
-            <p className="mt-1 text-xs text-ink-faint">{GAUGE_NOTE}</p>
+            <p className="mt-1 text-xs text-ink-faint">{gaugeNote(units)}</p>
           </dd>
         </>
       )}
@@ -195,7 +196,7 @@ function Timeline({ run, now, focusStage }: { run: RunDetail; now: Date; focusSt
               </h3>
               {rec && <StageFacts s={rec} run={run} now={now} />}
               {rec && mayWrite && correcting !== stage && (
-                <button type="button" className="btn-quiet mt-1 px-2 py-0.5 text-xs" onClick={() => setCorrecting(stage)}>
+                <button type="button" className="btn-quiet mt-1 min-h-6 px-2 py-0.5 text-xs" onClick={() => setCorrecting(stage)}>
                   Correct<span className="sr-only"> the {STAGE_LABELS[stage].toLowerCase()} stage</span>…
                 </button>
               )}
@@ -301,14 +302,14 @@ export function RunScreen() {
 
       <RunContradictions run={r} />
       <div className="grid gap-6 lg:grid-cols-[3fr_2fr]">
-        <section aria-labelledby="timeline-heading" className="sheet p-5" id="stage-forms">
+        <section aria-labelledby="timeline-heading" className="sheet p-3 sm:p-5" id="stage-forms">
           <h2 id="timeline-heading" className="mb-3">
             Stages
           </h2>
           <Timeline run={r} now={now} focusStage={focusStage} />
         </section>
         <div className="space-y-6">
-          <section aria-labelledby="due-heading" className="sheet p-5">
+          <section aria-labelledby="due-heading" className="sheet p-3 sm:p-5">
             <h2 id="due-heading" className="mb-2">
               Due next
             </h2>
@@ -328,13 +329,13 @@ export function RunScreen() {
               </ul>
             )}
           </section>
-          <section aria-labelledby="checks-heading" className="sheet p-5">
+          <section aria-labelledby="checks-heading" className="sheet p-3 sm:p-5">
             <h2 id="checks-heading" className="mb-2">
               Rule checks
             </h2>
             <RuleChecks checks={r.checks} />
           </section>
-          <section aria-labelledby="coupons-heading" className="sheet p-5">
+          <section aria-labelledby="coupons-heading" className="sheet p-3 sm:p-5">
             <h2 id="coupons-heading" className="mb-2">
               Coupons in this run
             </h2>

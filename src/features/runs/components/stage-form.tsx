@@ -7,7 +7,7 @@ import { recordStageSchema, type RecordStageInput, type RunDetail, type RunStage
 import { STAGE_LABELS } from '../../../../shared/runs/stages';
 import { vacuumStartWarning } from '../../../../shared/runs/contradictions';
 import { EntryWarnings, useGoOnAnyway } from '../../../components/ui/entry-warnings';
-import { convertPressure } from '../../../../shared/units';
+import { convertPressure, METRES_PER_FOOT, PA_PER_INHG } from '../../../../shared/units';
 import { Field, FormError } from '../../../components/ui/field';
 import { NumberField } from '../../../components/ui/number-field';
 import { applyServerErrors } from '../../../lib/form-errors';
@@ -84,8 +84,13 @@ export function toStageInput(v: StageFormValues, { stage, mode, existing, end, u
 const RENAMES = { plannedMinutes: 'plannedHours', barometerKpa: 'barometer' };
 const REQUIRED = { startedAt: 'Enter a date and time', endedAt: 'Enter a date and time' };
 
-export const GAUGE_NOTE =
-  'A vacuum gauge shows how far below the local air pressure the chamber is, and reads about 1 inHg less per 1,000 ft of altitude; absolute pressure and % vacuum are what compare across shops and altitudes.';
+/**
+ * Why gauge readings are turned into absolute pressure, in the user's units. The rate is the standard
+ * atmosphere's near sea level (ISO 2533): about 1 inHg per 1,000 ft, i.e. 3.39 kPa per 304.8 m.
+ */
+export function gaugeNote(units: { format: (v: number, q: 'pressure' | 'altitude') => string }): string {
+  return `A vacuum gauge shows how far below the local air pressure the chamber is, and reads about ${units.format(PA_PER_INHG / 1000, 'pressure')} less per ${units.format(1000 * METRES_PER_FOOT, 'altitude')} of altitude; absolute pressure and % vacuum are what compare across shops and altitudes.`;
+}
 
 type FormatUnits = Pick<Units, 'format'>;
 
@@ -313,7 +318,7 @@ export function StageForm({
       {stage === 'vacuum' && (
         <fieldset className="mb-3">
           <legend className="field-label">Gauge readings</legend>
-          <p className="mb-2 text-xs text-ink-faint">{GAUGE_NOTE}</p>
+          <p className="mb-2 text-xs text-ink-faint">{gaugeNote(units)}</p>
           <NumberField
             className="max-w-xs"
             form={form}
