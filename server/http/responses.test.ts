@@ -136,7 +136,7 @@ describe('response contracts (shared/schemas/responses.ts)', () => {
     const mounted = h.lumenbook.declaredRoutes.map(routeKey);
     expect(
       mounted.filter((k) => !(k in RESPONSE_CONTRACTS)),
-      'mounted routes without a response contract',
+      'mounted routes without a response contract: add each to RESPONSE_CONTRACTS in shared/schemas/responses.ts (json(schema), or notJson with the reason for a CSV or file download)',
     ).toEqual([]);
     expect(
       Object.keys(RESPONSE_CONTRACTS).filter((k) => !mounted.includes(k)),

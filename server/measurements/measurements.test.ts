@@ -119,4 +119,65 @@ describe('measurements module: bulk path', () => {
     ]);
     expect(db.select({ n: count() }).from(weighings).get()!.n).toBe(before);
   });
+  it('writes the others and answers the refused ones when asked to skip them', () => {
+    const db = h.database.db;
+    const [a, b] = newCoupons(2);
+    const [ctrl] = newCoupons(1, 'control');
+    const out = db.transaction((tx) =>
+      m.bulkAdd(
+        tx,
+        actor,
+        'import:9',
+        [
+          { couponId: a!, weighings: [{ stage: 'dry' as const, massG: 10, measuredAt: at(0) }] },
+          { couponId: ctrl!, weighings: [{ stage: 'cured' as const, massG: 12, measuredAt: at(20) }] },
+          { couponId: b!, weighings: [{ stage: 'dry' as const, massG: -1, measuredAt: at(0) }] },
+        ],
+        { skipRefused: true },
+      ),
+    );
+    expect(out.written).toEqual({ weighings: 1, checks: 0 });
+    expect(out.couponIds).toEqual([a]);
+    expect(out.refused.map((p) => [p.entry, p.field])).toEqual([
+      [1, 'stage'],
+      [2, 'massG'],
+    ]);
+    expect(db.select().from(couponResults).where(eq(couponResults.couponId, a!)).get()).toMatchObject({ dryMassG: 10 });
+  });
+
+  it('soft-deletes many readings at once: kept with deleted_at, one audit entry per coupon, results rewritten', () => {
+    const db = h.database.db;
+    const ids = newCoupons(2);
+    db.transaction((tx) =>
+      m.bulkAdd(
+        tx,
+        actor,
+        'import:10',
+        ids.map((couponId) => ({
+          couponId,
+          weighings: [
+            { stage: 'dry' as const, massG: 10, measuredAt: at(0) },
+            { stage: 'cured' as const, massG: 14, measuredAt: at(30) },
+          ],
+        })),
+      ),
+    );
+    const written = db.select().from(weighings).where(eq(weighings.importId, 10)).all();
+    const auditBefore = db.select({ n: count() }).from(auditLog).get()!.n;
+    const out = db.transaction((tx) => m.bulkDelete(tx, actor, { weighings: written.map((w) => w.id) }, 'wrong file'));
+    expect(out.deleted).toEqual({ weighings: 4, checks: 0 });
+    const after = db.select().from(weighings).where(eq(weighings.importId, 10)).all();
+    expect(after).toHaveLength(4);
+    expect(after.every((w) => w.deletedAt === out.deletedAt)).toBe(true);
+    const entries = db.select().from(auditLog).where(eq(auditLog.action, 'delete-readings')).orderBy(asc(auditLog.id)).all().slice(-2);
+    expect(db.select({ n: count() }).from(auditLog).get()!.n - auditBefore).toBe(2);
+    expect(entries.map((e) => [e.entity, e.entityId, e.reason])).toEqual(ids.map((id) => ['coupon', String(id), 'wrong file']));
+    expect((entries[0]!.before as { weighings: { massG: number }[] }).weighings.map((w) => w.massG)).toEqual([10, 14]);
+    expect(db.select().from(couponResults).where(eq(couponResults.couponId, ids[0]!)).get()).toMatchObject({ dryMassG: null, curedMassG: null });
+    // Deleting again is refused, as for a single reading, and changes nothing.
+    expect(() => db.transaction((tx) => m.bulkDelete(tx, actor, { weighings: [written[0]!.id] }, 'twice'))).toThrow(/was deleted/);
+    const incremental = db.select().from(couponResults).orderBy(asc(couponResults.couponId)).all();
+    db.transaction((tx) => rebuildResults(tx));
+    expect(db.select().from(couponResults).orderBy(asc(couponResults.couponId)).all()).toEqual(incremental);
+  });
 });

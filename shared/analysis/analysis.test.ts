@@ -56,7 +56,8 @@ function coupon(over: Partial<AnalysisCoupon> = {}): AnalysisCoupon {
     asePct: null,
     hardnessValue: null,
     hardnessScale: null,
-    createdAt: '2026-01-01T00:00:00.000Z',
+    wrePct: null,
+    treatedOn: '2026-01-01',
     blankReasons: {},
     ...over,
   };
@@ -320,5 +321,17 @@ describe('thinning', () => {
     expect(t.points.filter((p) => p.species === 'B').length).toBeGreaterThanOrEqual(19);
     expect(t.points.some((p) => p.id === 999)).toBe(true);
     expect(new Set(t.points.map((p) => p.id)).size).toBe(t.points.length);
+  });
+});
+
+describe('WRE apart from ASE', () => {
+  it('keeps the mass-basis water-repellent effectiveness out of the ASE column', () => {
+    const rows = [coupon({ asePct: 40 }), coupon({ asePct: 50 }), coupon({ wrePct: 20 }), coupon({ wrePct: 30 }), coupon({ wrePct: 40 })];
+    const g = buildOverview(rows, 'measured').groups[0]!;
+    expect(g.ase!.n).toBe(2);
+    expect(g.ase!.mean).toBe(45);
+    expect(g.wre!.n).toBe(3);
+    expect(g.wre!.mean).toBe(30);
+    expect(compareGroups(rows, { resinId: 1 }, { speciesId: 1 }, 'wrePct').sentence).toMatch(/water-repellent effectiveness \(WRE\)/);
   });
 });

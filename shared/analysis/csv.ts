@@ -35,6 +35,9 @@ export function groupsCsv(groups: readonly GroupRow[]): string {
     'mean ASE %',
     'ASE CI low',
     'ASE CI high',
+    'mean WRE %',
+    'WRE CI low',
+    'WRE CI high',
   ];
   const rows = groups.map((g) => [
     g.speciesName,
@@ -57,6 +60,9 @@ export function groupsCsv(groups: readonly GroupRow[]): string {
     r(g.ase?.mean, 1),
     r(g.ase?.ci95?.[0], 1),
     r(g.ase?.ci95?.[1], 1),
+    r(g.wre?.mean, 1),
+    r(g.wre?.ci95?.[0], 1),
+    r(g.wre?.ci95?.[1], 1),
   ]);
   return toCsv(header, rows);
 }

@@ -54,7 +54,7 @@ export function boardCounts(list: readonly Pick<AnalysisCoupon, 'sourceBoard'>[]
 
 /**
  * The species × resin table over the included treated coupons: n (coupons, boards), mean WPG, resin
- * loading, void fill and ASE with 95 % CIs (the core's `summarize`), and hardness gain against the
+ * loading, void fill, ASE (volume basis) and WRE (mass basis, never pooled with ASE) with 95 % CIs (the core's `summarize`), and hardness gain against the
  * controls of the same species on the same scale (the core's `hardnessGain`).
  */
 export function speciesResinGroups(included: readonly AnalysisCoupon[], controls: readonly AnalysisCoupon[]): GroupRow[] {
@@ -83,12 +83,14 @@ export function speciesResinGroups(included: readonly AnalysisCoupon[], controls
     const loading: number[] = [];
     const fill: number[] = [];
     const ase: number[] = [];
+    const wre: number[] = [];
     const hard: AnalysisCoupon[] = [];
     for (const c of list) {
       if (c.wpgPct !== null) wpg.push(c.wpgPct);
       if (c.resinLoadingKgM3 !== null) loading.push(c.resinLoadingKgM3);
       if (c.voidFillPct !== null) fill.push(c.voidFillPct);
       if (c.asePct !== null) ase.push(c.asePct);
+      if (c.wrePct !== null) wre.push(c.wrePct);
       if (c.hardnessValue !== null && c.hardnessScale !== null) hard.push(c);
     }
     const scale = mostCommonScale(hard);
@@ -110,6 +112,7 @@ export function speciesResinGroups(included: readonly AnalysisCoupon[], controls
       voidFill: statsOf(fill),
       hardnessGain: gain,
       ase: statsOf(ase),
+      wre: statsOf(wre),
     });
   }
   return rows.sort((a, b) => a.speciesName.localeCompare(b.speciesName) || (a.resinName ?? '').localeCompare(b.resinName ?? ''));

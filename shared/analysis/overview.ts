@@ -114,6 +114,7 @@ export function buildOverview(rows: readonly AnalysisCoupon[], sgBasis: SgBasis,
         role: c.role,
         swellingPct: c.swellingPct,
         asePct: c.asePct,
+        wrePct: c.wrePct,
       });
   }
 

@@ -35,7 +35,11 @@ export const analysisFiltersObject = z.object({
   sourceBoard: z.string().trim().min(1).max(120).optional(),
   thicknessMinMm: thickness.optional(),
   thicknessMaxMm: thickness.optional(),
-  /** Dates the coupon was entered, inclusive, UTC. */
+  /**
+   * When the coupons were treated, inclusive (UTC dates): the date their run's cure began, or its soak
+   * when the cure is not recorded. Controls are untreated: they are kept when their trial has a coupon
+   * treated in the range. Coupons not yet in a run have no treatment date and are left out.
+   */
   from: dateText.optional(),
   to: dateText.optional(),
 });
@@ -61,7 +65,7 @@ export const FIT_MODELS = ['density', 'thickness', 'density+thickness'] as const
 export type FitModel = (typeof FIT_MODELS)[number];
 
 /** Metrics a two-group comparison can be made on (names of columns of the results table). */
-export const COMPARE_METRICS = ['wpgPct', 'resinLoadingKgM3', 'voidFillPct', 'hardness', 'swellingPct', 'asePct'] as const;
+export const COMPARE_METRICS = ['wpgPct', 'resinLoadingKgM3', 'voidFillPct', 'hardness', 'swellingPct', 'asePct', 'wrePct'] as const;
 export type CompareMetric = (typeof COMPARE_METRICS)[number];
 export const COMPARE_METRIC_LABELS: Record<CompareMetric, { label: string; unit: string }> = {
   wpgPct: { label: 'WPG', unit: '%' },
@@ -69,7 +73,8 @@ export const COMPARE_METRIC_LABELS: Record<CompareMetric, { label: string; unit:
   voidFillPct: { label: 'void fill', unit: '%' },
   hardness: { label: 'hardness', unit: '' },
   swellingPct: { label: 'swelling', unit: '%' },
-  asePct: { label: 'ASE', unit: '%' },
+  asePct: { label: 'anti-swell efficiency (ASE)', unit: '%' },
+  wrePct: { label: 'water-repellent effectiveness (WRE)', unit: '%' },
 };
 
 /** `GET /api/analysis/overview` and `/summary`: filters plus the SG basis. */
@@ -169,11 +174,14 @@ export const analysisCouponSchema = z.object({
   voidFillPct: nullableNum,
   maxWpgPct: nullableNum,
   swellingPct: nullableNum,
+  /** Anti-swell efficiency against the controls, when swelling was measured on dimensions (volume basis). */
   asePct: nullableNum,
+  /** Water-repellent effectiveness against the controls, when the soak was judged by mass (mass basis). */
+  wrePct: nullableNum,
   hardnessValue: nullableNum,
   hardnessScale: z.enum(HARDNESS_SCALES).nullable(),
-  /** When the coupon was entered (the date-range filter's date). */
-  createdAt: z.string(),
+  /** When the coupon was treated (YYYY-MM-DD, UTC): its run's cure date, else its soak date; null when not in a run. */
+  treatedOn: z.string().nullable(),
   /** Why a metric is blank, as the results table records it (metric → reason). */
   blankReasons: z.record(z.string(), z.string()),
 });
@@ -199,7 +207,10 @@ export const groupRowSchema = z.object({
   voidFill: summaryStatsSchema.nullable(),
   /** Treated mean / control mean, same species and hardness scale. */
   hardnessGain: z.object({ ratio: num, scale: z.enum(HARDNESS_SCALES), nTreated: z.number().int(), nControl: z.number().int() }).nullable(),
+  /** Anti-swell efficiency (volume basis). */
   ase: summaryStatsSchema.nullable(),
+  /** Water-repellent effectiveness (mass basis); never pooled with ASE. */
+  wre: summaryStatsSchema.nullable(),
 });
 export type GroupRow = z.infer<typeof groupRowSchema>;
 
@@ -292,6 +303,7 @@ export const overviewSchema = z.object({
         role: z.enum(COUPON_ROLES),
         swellingPct: num,
         asePct: nullableNum,
+        wrePct: nullableNum,
       }),
     ),
   }),
@@ -304,9 +316,23 @@ export const compareResultSchema = z.object({
   unit: z.string(),
   a: compareSideSchema,
   b: compareSideSchema,
-  welch: z.object({ t: num, df: num, p: num, meanDiff: num, ci95: interval, hedgesG: num }).nullable(),
+  /** hedgesG includes the small-sample correction hedgesCorrection (J) and is standardized by pooledSd. */
+  welch: z.object({ t: num, df: num, p: num, meanDiff: num, ci95: interval, hedgesG: num, hedgesCorrection: num, pooledSd: num }).nullable(),
   /** Same test on source-board means, when boards repeat within a group. */
-  boardMeans: z.object({ nA: z.number().int(), nB: z.number().int(), t: num, df: num, p: num, meanDiff: num, ci95: interval, hedgesG: num }).nullable(),
+  boardMeans: z
+    .object({
+      nA: z.number().int(),
+      nB: z.number().int(),
+      t: num,
+      df: num,
+      p: num,
+      meanDiff: num,
+      ci95: interval,
+      hedgesG: num,
+      hedgesCorrection: num,
+      pooledSd: num,
+    })
+    .nullable(),
   /** Which result to read: 'coupons' when each coupon has its own board, else 'board-means'. */
   trust: z.enum(['coupons', 'board-means']),
   sentence: z.string(),

@@ -25,6 +25,18 @@ test.describe('the ambient pressure of a vacuum: altitude in the shop settings, 
   test.describe('as a technician', () => {
     test.use({ signedInAs: 'technician' });
 
+    test('the new-run form questions an altitude no workshop has, in the technician’s unit', async ({ page }) => {
+      await page.goto('/runs/new');
+      await expect(page.getByRole('heading', { level: 1, name: 'New run' })).toBeVisible();
+      const altitude = page.getByLabel('Shop altitude for this run (optional) (m)');
+      await altitude.fill('4000');
+      await expect(
+        page.getByRole('status').filter({ hasText: /4,000 m is higher than nearly any workshop.*If you meant 4,000 ft, that is 1,219 m/ }),
+      ).toBeVisible();
+      await altitude.fill('1219');
+      await expect(page.getByText(/higher than nearly any workshop/)).toHaveCount(0);
+    });
+
     test('a vacuum started with the shop’s barometer: the preview and the run page name it, and a reading past it is taken as 0 absolute', async ({ page }) => {
       const res = await page.request.post('/api/runs', { headers: WRITE_HEADERS, data: { chamber: `Barometer pot ${Date.now()}`, altitudeM: 0 } });
       expect(res.status(), await res.text()).toBe(201);
@@ -48,6 +60,13 @@ test.describe('the ambient pressure of a vacuum: altitude in the shop settings, 
 
       await expect(page.getByRole('status').filter({ hasText: 'Vacuum started.' })).toBeVisible();
       await expect(page.getByText(/Gauge readings at 0 m, against the shop's barometer, 102\.50 kPa/)).toBeVisible();
+      // The run's history says what was recorded, the barometer included, and nothing about an oven.
+      const newest = page
+        .getByRole('region', { name: /History, newest first/ })
+        .getByRole('listitem')
+        .first();
+      await expect(newest).toContainText('shop barometer: 102.50 kPa');
+      await expect(newest).not.toContainText('oven');
     });
   });
 });

@@ -80,8 +80,27 @@ const COLUMNS = [
   HARDNESS_SCALE,
   // The blank reasons are read only where there are some.
   'case when cr.problem_count > 0 then cr.problems end',
-  'c.created_at',
 ] as const;
+
+/**
+ * When each run treated its coupons (YYYY-MM-DD, UTC): the day its cure began, or its soak when no cure
+ * is recorded. A small map (one entry per run), read per request.
+ */
+function runDates(sqlite: Database.Database): Map<number, string> {
+  const out = new Map<number, string>();
+  const rows = prepare(
+    sqlite,
+    `select run_id, max(case when stage = 'cure' then started_at end), max(case when stage = 'soak' then started_at end)
+     from run_stages where stage in ('cure', 'soak') group by run_id`,
+  )
+    .raw(true)
+    .all() as [number, string | null, string | null][];
+  for (const [runId, cure, soak] of rows) {
+    const at = cure ?? soak;
+    if (at) out.set(runId, at.slice(0, 10));
+  }
+  return out;
+}
 
 /** The keys of a two-group comparison's group, as SQL on the results row (each key given must match). */
 function groupWhere(g: GroupSpec, params: (string | number)[]): string {
@@ -104,7 +123,7 @@ function groupWhere(g: GroupSpec, params: (string | number)[]): string {
  * The filters as a parameterised WHERE clause; id lists are bound as one JSON array each. With `groups`,
  * only coupons in one of them are read (a comparison looks at nothing else).
  */
-function rawWhere(f: AnalysisFilters, groups?: readonly GroupSpec[]): { clause: string; params: (string | number)[] } {
+function rawWhere(f: AnalysisFilters, dates: Map<number, string>, groups?: readonly GroupSpec[]): { clause: string; params: (string | number)[] } {
   const w: string[] = [];
   const params: (string | number)[] = [];
   if (groups && groups.length > 0) w.push(`(${groups.map((g) => groupWhere(g, params)).join(' or ')})`);
@@ -129,8 +148,17 @@ function rawWhere(f: AnalysisFilters, groups?: readonly GroupSpec[]): { clause: 
   one('cr.source_board = ?', f.sourceBoard);
   one('cr.thickness_mm >= ?', f.thicknessMinMm);
   one('cr.thickness_mm <= ?', f.thicknessMaxMm);
-  one('substr(c.created_at, 1, 10) >= ?', f.from);
-  one('substr(c.created_at, 1, 10) <= ?', f.to);
+  if (f.from !== undefined || f.to !== undefined) {
+    // The runs that treated in the range; their coupons, and the controls of the trials they served.
+    const inRange: number[] = [];
+    for (const [runId, day] of dates) if ((f.from === undefined || day >= f.from) && (f.to === undefined || day <= f.to)) inRange.push(runId);
+    const ids = JSON.stringify(inRange);
+    w.push(
+      `(cr.run_id in (select value from json_each(?)) or (cr.role = 'control' and cr.trial_id in
+        (select t.trial_id from coupon_results t where t.run_id in (select value from json_each(?)) and t.trial_id is not null)))`,
+    );
+    params.push(ids, ids);
+  }
   return { clause: w.length ? `where ${w.join(' and ')}` : '', params };
 }
 
@@ -159,7 +187,6 @@ type Columns = [
   Col<number>,
   Col<number>,
   Col<string>,
-  string[],
 ];
 
 function sqliteOf(db: Db): Database.Database {
@@ -183,26 +210,24 @@ function prepare(sqlite: Database.Database, sqlText: string): Database.Statement
 
 /**
  * The results rows matching the filters, as the analysis sees them, in coupon id order: one statement
- * over coupon_results (joined to the coupon for its entry date), read column by column; with `groups`,
+ * over coupon_results, read column by column; with `groups`,
  * only the coupons in one of the groups. ASE is taken
  * against the controls of the same trial and species whatever the filters (a role filter must not remove
  * the controls a treated coupon is judged against).
  */
 export function loadAnalysisCoupons(db: Db, f: AnalysisFilters, groups?: readonly GroupSpec[]): AnalysisCoupon[] {
-  const { clause: where, params } = rawWhere(f, groups);
   const sqlite = sqliteOf(db);
+  const dates = runDates(sqlite);
+  const { clause: where, params } = rawWhere(f, dates, groups);
   const inner = COLUMNS.map((c, i) => `${c} as c${i}`).join(', ');
   const outer = COLUMNS.map((_c, i) => `json_group_array(c${i})`).join(', ');
   // The ordered subquery is not flattened into an aggregate, so the arrays come out in coupon id order.
-  const row = prepare(
-    sqlite,
-    `select ${outer} from (select ${inner} from coupon_results cr join coupons c on c.id = cr.coupon_id ${where} order by cr.coupon_id)`,
-  )
+  const row = prepare(sqlite, `select ${outer} from (select ${inner} from coupon_results cr ${where} order by cr.coupon_id)`)
     .raw(true)
     .get(...params) as string[];
   const col = row.map((json) => JSON.parse(json) as unknown[]) as Columns;
   const [ids, tags, trial, condition, run, speciesIds, resin, lot, isControl, board, thick, dry, cured, sg, wpg, loading, fill, maxWpg] = col;
-  const [swelling, basis, hValue, hScale, problems, created] = [col[18], col[19], col[20], col[21], col[22], col[23]];
+  const [swelling, basis, hValue, hScale, problems] = [col[18], col[19], col[20], col[21], col[22]];
   const n = ids.length;
   for (let i = 1; i < n; i++) if ((ids[i] as number) <= (ids[i - 1] as number)) throw new Error('analysis load: rows out of coupon id order');
 
@@ -241,10 +266,14 @@ export function loadAnalysisCoupons(db: Db, f: AnalysisFilters, groups?: readonl
     const role = isControl[i] === 1 ? 'control' : 'treated';
     const trialId = trial[i] as number | null;
     const swellingPct = swelling[i] as number | null;
+    // The efficiency against the controls is an ASE on dimensions and a WRE on mass (shared/coupons/metrics).
     let asePct: number | null = null;
+    let wrePct: number | null = null;
     if (role === 'treated' && trialId !== null && swellingPct !== null) {
       const swellingBasis = basis[i] === 1 ? 'volume' : basis[i] === 2 ? 'mass' : null;
-      asePct = antiSwell({ swellingPct, swellingBasis }, controls.get(`${trialId}|${speciesId}`) ?? [])?.asePct ?? null;
+      const a = antiSwell({ swellingPct, swellingBasis }, controls.get(`${trialId}|${speciesId}`) ?? []);
+      if (a?.measure === 'wre') wrePct = a.asePct;
+      else if (a) asePct = a.asePct;
     }
     const blankReasons: Record<string, string> = {};
     const p = problems[i];
@@ -277,9 +306,10 @@ export function loadAnalysisCoupons(db: Db, f: AnalysisFilters, groups?: readonl
       maxWpgPct: maxWpg[i] as number | null,
       swellingPct,
       asePct,
+      wrePct,
       hardnessValue: hValue[i] as number | null,
       hardnessScale: SCALES[(hScale[i] as number | null) ?? 0] ?? null,
-      createdAt: created[i] as string,
+      treatedOn: runId === null ? null : (dates.get(runId) ?? null),
       blankReasons,
     };
   }

@@ -1,10 +1,10 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { and, asc, eq, isNotNull } from 'drizzle-orm';
 import { startHarness, type Harness } from '../../testing/harness';
-import { weighings } from '../../db/schema/coupons';
+import { coupons, weighings } from '../../db/schema/coupons';
 import { resins, species } from '../../db/schema/reference';
 import { couponResults } from '../../db/schema/results';
-import { runs } from '../../db/schema/runs';
+import { runStages, runs } from '../../db/schema/runs';
 import { trials } from '../../db/schema/trials';
 import { fitLinear, fitMultiple, summarize, welchTest } from '../../../shared/domain/index';
 import { twoSampleSampleSize } from '../../../shared/domain/power';
@@ -300,5 +300,50 @@ describe('cached answers', () => {
       h.database.db.update(couponResults).set({ wpgPct: row.wpgPct }).where(eq(couponResults.couponId, row.couponId)).run();
     }
     expect((await as.viewer.get(url)).body).toEqual(first);
+  });
+});
+
+describe('the date filter', () => {
+  it("keeps the coupons treated in the range (their run's cure, else its soak), whatever day they were entered", async () => {
+    const treatedOn = new Map<number, string>();
+    const stages = h.database.db.select().from(runStages).all();
+    for (const st of stages) if (st.stage === 'soak' && !treatedOn.has(st.runId)) treatedOn.set(st.runId, st.startedAt.slice(0, 10));
+    for (const st of stages) if (st.stage === 'cure') treatedOn.set(st.runId, st.startedAt.slice(0, 10));
+    const all = h.database.db.select().from(couponResults).all();
+    const run = all.find((r) => r.role === 'treated' && r.runId !== null && treatedOn.has(r.runId))!.runId!;
+    const day = treatedOn.get(run)!;
+    const runsThatDay = new Set([...treatedOn].filter(([, d]) => d === day).map(([id]) => id));
+    const treatedThatDay = all.filter((r) => r.runId !== null && runsThatDay.has(r.runId));
+    const trialsThatDay = new Set(treatedThatDay.map((r) => r.trialId).filter((t) => t !== null));
+    const expected = new Set([
+      ...treatedThatDay.map((r) => r.couponId),
+      ...all.filter((r) => r.role === 'control' && r.trialId !== null && trialsThatDay.has(r.trialId)).map((r) => r.couponId),
+    ]);
+    expect(treatedThatDay.length).toBeGreaterThan(0);
+
+    // Entry dates play no part: move the run's coupons' entry far from the day, and another coupon's onto it.
+    const entered = new Map(
+      h.database.db
+        .select({ id: coupons.id, createdAt: coupons.createdAt })
+        .from(coupons)
+        .all()
+        .map((c) => [c.id, c.createdAt]),
+    );
+    const outsider = all.find((r) => !expected.has(r.couponId))!;
+    const setEntry = h.database.sqlite.prepare('update coupons set created_at = ? where id = ?');
+    try {
+      for (const r of treatedThatDay) setEntry.run('1999-01-01T00:00:00.000Z', r.couponId);
+      setEntry.run(`${day}T12:00:00.000Z`, outsider.couponId);
+      const res = await as.viewer.get(`/api/analysis/coupons?from=${day}&to=${day}&pageSize=500`);
+      expect(res.status).toBe(200);
+      const items = res.body.items as { id: number; role: string; treatedOn: string | null }[];
+      expect(new Set(items.map((c) => c.id))).toEqual(expected);
+      for (const c of items) if (c.role === 'treated') expect(c.treatedOn).toBe(day);
+    } finally {
+      for (const [id, at] of entered) setEntry.run(at, id);
+    }
+
+    const none = await as.viewer.get('/api/analysis/overview?from=1990-01-01&to=1990-01-02');
+    expect(none.body.counts.matched).toBe(0);
   });
 });

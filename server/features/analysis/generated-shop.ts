@@ -23,6 +23,11 @@ export function generatedShop(n: number): { database: Database_; dir: string; re
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'lumenbook-bench-'));
   const database = openDatabase(path.join(dir, 'bench.db'));
   seedReference(database);
+  return { database, dir, ...addGeneratedCoupons(database, n) };
+}
+
+/** The generated coupons (see generatedShop) added to a database that already holds the reference data. */
+export function addGeneratedCoupons(database: Database_, n: number): { resinIds: number[]; speciesId: number } {
   const s = database.sqlite;
   const species = s.prepare('select id, basic_sg as sg from species where basic_sg is not null order by id').all() as { id: number; sg: number }[];
   const insResin = s.prepare("insert into resins (name, kind, liquid_density_g_cm3, cured_density_g_cm3) values (?, 'methacrylate', 1.02, ?)");
@@ -86,5 +91,5 @@ export function generatedShop(n: number): { database: Database_; dir: string; re
       );
     }
   })();
-  return { database, dir, resinIds, speciesId: species[0]!.id };
+  return { resinIds, speciesId: species[0]!.id };
 }

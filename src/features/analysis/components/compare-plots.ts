@@ -169,7 +169,9 @@ export function swellingPlot(rows: Overview['plots']['swelling']): Element {
         r: 4.5,
         fillOpacity: 0.85,
         title: (d: (typeof rows)[number]) =>
-          `${d.tag} — ${d.species}, ${d.role}: swelling ${d.swellingPct.toFixed(1)} %${d.asePct !== null ? `, ASE ${d.asePct.toFixed(0)} %` : ''}`,
+          `${d.tag} — ${d.species}, ${d.role}: swelling ${d.swellingPct.toFixed(1)} %` +
+          (d.asePct !== null ? `, ASE ${d.asePct.toFixed(0)} %` : '') +
+          (d.wrePct !== null ? `, WRE ${d.wrePct.toFixed(0)} %` : ''),
         tip: true,
       }),
     ],

@@ -163,9 +163,13 @@ function FilterBar({ filters, sgBasis, set }: { filters: AnalysisFilters; sgBasi
           value={lengthBox(filters.thicknessMaxMm)}
           onCommit={(v) => setLength('thicknessMaxMm', v)}
         />
-        <TextFilter label="Entered from" type="date" value={filters.from ?? ''} onCommit={(v) => set('from', v)} />
+        <TextFilter label="Treated from" type="date" value={filters.from ?? ''} onCommit={(v) => set('from', v)} />
         <TextFilter label="to" type="date" value={filters.to ?? ''} onCommit={(v) => set('to', v)} />
       </div>
+      <p className="mt-2 text-xs text-ink-soft">
+        Treated dates are when the run's cure began (its soak, when no cure is recorded). Controls stay in when their trial has a coupon treated in the range;
+        coupons not yet in a run have no treated date and drop out.
+      </p>
       <fieldset className="mt-3 flex flex-wrap items-center gap-4 text-sm">
         <legend className="sr-only">Oven-dry SG on the x axis</legend>
         <span className="font-semibold">SG on the x axis:</span>
@@ -297,8 +301,8 @@ function Results({ o, filters, sgBasis }: { o: Overview; filters: AnalysisFilter
       )}
       {o.plots.swelling.length > 0 && (
         <PlotFigure
-          title="Swelling in the water soak, and ASE"
-          caption={`Each dot is one coupon's swelling after the water soak (${o.plots.swelling.length} coupons); treated coupons that swell less than their controls have a positive anti-swell efficiency (ASE), shown in the table above.`}
+          title="Swelling in the water soak, ASE and WRE"
+          caption={`Each dot is one coupon's swelling after the water soak (${o.plots.swelling.length} coupons). Treated coupons that swell less than their controls have a positive anti-swell efficiency (ASE) when swelling is measured on dimensions, or a positive water-repellent effectiveness (WRE) when the soak is judged by mass; both are in the table above, never pooled.`}
           fileName="swelling"
           build={buildSwelling}
           onPick={openCoupon}

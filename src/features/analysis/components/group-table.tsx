@@ -10,7 +10,7 @@ function scaled(s: SummaryStats | null, factor: number): SummaryStats | null {
   return { ...s, mean: s.mean * factor, sd: s.sd === null ? null : s.sd * factor, ci95: s.ci95 ? [s.ci95[0] * factor, s.ci95[1] * factor] : s.ci95 };
 }
 
-type SortKey = 'species' | 'resin' | 'n' | 'wpg' | 'loading' | 'voidFill' | 'hardness' | 'ase';
+type SortKey = 'species' | 'resin' | 'n' | 'wpg' | 'loading' | 'voidFill' | 'hardness' | 'ase' | 'wre';
 
 const statValue = (s: SummaryStats | null) => s?.mean ?? Number.NEGATIVE_INFINITY;
 function valueOf(g: GroupRow, k: SortKey): string | number {
@@ -31,6 +31,8 @@ function valueOf(g: GroupRow, k: SortKey): string | number {
       return g.hardnessGain?.ratio ?? Number.NEGATIVE_INFINITY;
     case 'ase':
       return statValue(g.ase);
+    case 'wre':
+      return statValue(g.wre);
   }
 }
 
@@ -75,6 +77,8 @@ export function GroupTable({ groups }: { groups: GroupRow[] }) {
     });
     return out;
   }, [groups, sort]);
+  // The mass-basis efficiency gets its own column only when some group has one (it is never pooled with ASE).
+  const anyWre = groups.some((g) => g.wre !== null);
 
   const header = (key: SortKey, label: string, sub?: string) => (
     <th scope="col" aria-sort={sort.key === key ? (sort.desc ? 'descending' : 'ascending') : 'none'}>
@@ -113,7 +117,8 @@ export function GroupTable({ groups }: { groups: GroupRow[] }) {
                 {header('loading', `Loading ${units.label('density')}`, 'mean, 95 % CI')}
                 {header('voidFill', 'Void fill %', 'mean, 95 % CI')}
                 {header('hardness', 'Hardness gain', 'treated / control')}
-                {header('ase', 'ASE %', 'mean, 95 % CI')}
+                {header('ase', 'ASE %', 'anti-swell efficiency, on dimensions; mean, 95 % CI')}
+                {anyWre && header('wre', 'WRE %', 'water-repellent effectiveness, on mass; mean, 95 % CI')}
               </tr>
             </thead>
             <tbody>
@@ -151,6 +156,11 @@ export function GroupTable({ groups }: { groups: GroupRow[] }) {
                   <td>
                     <MeanCi s={g.ase} digits={0} />
                   </td>
+                  {anyWre && (
+                    <td>
+                      <MeanCi s={g.wre} digits={0} />
+                    </td>
+                  )}
                 </tr>
               ))}
             </tbody>

@@ -118,7 +118,9 @@ export function CompareReadout({ r }: { r: CompareResult }) {
             <th scope="col">Welch t</th>
             <th scope="col">df</th>
             <th scope="col">p</th>
-            <th scope="col">Hedges' g</th>
+            <th scope="col">
+              Hedges' g<span className="block text-xs font-normal">(J-corrected, pooled SD)</span>
+            </th>
           </tr>
         </thead>
         <tbody>
@@ -137,7 +139,9 @@ export function CompareReadout({ r }: { r: CompareResult }) {
               <td>{f(r.welch.t)}</td>
               <td>{r.welch.df.toFixed(1)}</td>
               <td>{p(r.welch.p)}</td>
-              <td>{f(r.welch.hedgesG)}</td>
+              <td>
+                <HedgesG g={r.welch} unit={u} />
+              </td>
             </tr>
           )}
           {r.boardMeans && (
@@ -155,7 +159,9 @@ export function CompareReadout({ r }: { r: CompareResult }) {
               <td>{f(r.boardMeans.t)}</td>
               <td>{r.boardMeans.df.toFixed(1)}</td>
               <td>{p(r.boardMeans.p)}</td>
-              <td>{f(r.boardMeans.hedgesG)}</td>
+              <td>
+                <HedgesG g={r.boardMeans} unit={u} />
+              </td>
             </tr>
           )}
         </tbody>
@@ -167,5 +173,18 @@ export function CompareReadout({ r }: { r: CompareResult }) {
           : 'Each coupon comes from its own board (or none is named), so the test on coupons stands.'}
       </p>
     </div>
+  );
+}
+
+/** Hedges' g with the correction factor and standardizer it was made with, so it is never read bare. */
+function HedgesG({ g, unit }: { g: { hedgesG: number; hedgesCorrection: number; pooledSd: number }; unit: string }) {
+  return (
+    <>
+      {f(g.hedgesG)}
+      <span className="block text-xs text-ink-soft">
+        J = {g.hedgesCorrection.toFixed(3)}, pooled SD {f(g.pooledSd)}
+        {unit}
+      </span>
+    </>
   );
 }

@@ -27,16 +27,19 @@ function changes(before: unknown, after: unknown, u: Units): string[] {
   ] as const) {
     if (k in a && a[k] !== b[k]) out.push(`${words}: ${k in b ? `${time(b[k])} → ` : ''}${time(a[k])}`);
   }
-  for (const [k, words] of [
-    ['ovenSetC', 'oven set point'],
-    ['ovenMeasuredC', 'oven thermometer'],
+  for (const [k, words, q] of [
+    ['barometerKpa', 'shop barometer', 'pressure'],
+    ['ovenSetC', 'oven set point', 'temperature'],
+    ['ovenMeasuredC', 'oven thermometer', 'temperature'],
   ] as const) {
     if (!(k in a) || a[k] === b[k]) continue;
     const was = typeof b[k] === 'number' ? (b[k] as number) : null;
     const now = typeof a[k] === 'number' ? (a[k] as number) : null;
-    const d = was !== null && now !== null ? decimalsToSeeChange(u.toDisplay(was, 'temperature'), u.toDisplay(now, 'temperature'), 1) : undefined;
+    // A stage recorded without this value (a vacuum has no oven) says nothing about it.
+    if (was === null && now === null) continue;
+    const d = was !== null && now !== null ? decimalsToSeeChange(u.toDisplay(was, q), u.toDisplay(now, q), 1) : undefined;
     out.push(
-      `${words}: ${k in b ? `${was === null ? 'none' : u.format(was, 'temperature', true, { decimals: d })} → ` : ''}${now === null ? 'none' : u.format(now, 'temperature', true, { decimals: d })}`,
+      `${words}: ${k in b ? `${was === null ? 'none' : u.format(was, q, true, { decimals: d })} → ` : ''}${now === null ? 'none' : u.format(now, q, true, { decimals: d })}`,
     );
   }
   const readings = (v: unknown) =>
