@@ -5,8 +5,14 @@ test.use({ signedInAs: 'technician' });
 
 /** The numbers of one column of a table, blanks ("—") left out. */
 async function columnNumbers(table: Locator, index: number): Promise<number[]> {
-  const cells = await table.locator('tbody tr').locator(`:nth-child(${index + 1})`).allInnerTexts();
-  return cells.map((t) => t.trim()).filter((t) => t !== '—' && t !== '').map(Number);
+  const cells = await table
+    .locator('tbody tr')
+    .locator(`:nth-child(${index + 1})`)
+    .allInnerTexts();
+  return cells
+    .map((t) => t.trim())
+    .filter((t) => t !== '—' && t !== '')
+    .map(Number);
 }
 
 test('the coupon list sorts, searches, filters and exports what it shows, and a typed tag opens its coupon', async ({ page }) => {
@@ -39,7 +45,10 @@ test('the coupon list sorts, searches, filters and exports what it shows, and a 
   const tags = await table.locator('tbody th').allInnerTexts();
   expect(tags.length).toBeGreaterThan(0);
   for (const tag of tags) expect(tag.toUpperCase()).toContain('T26-001');
-  const shown = await page.getByRole('status').filter({ hasText: /coupons? in all|Page 1 of/ }).innerText();
+  const shown = await page
+    .getByRole('status')
+    .filter({ hasText: /coupons? in all|Page 1 of/ })
+    .innerText();
   const total = Number(/(\d+) coupons?\)?( in all)?\.?$/.exec(shown.trim())?.[1]);
   expect(total).toBeGreaterThan(0);
 
