@@ -282,6 +282,8 @@ export const BENCH_ITEM_KINDS = ['stage-end', 'soak-minimum', 'weighing-due', 'd
 export const benchQuerySchema = z.strictObject({
   /** How far ahead "soon" reaches, hours. */
   withinHours: z.coerce.number().min(0).max(72).default(4),
+  /** At most this many items, the most urgent first; `total` says how many there were. */
+  limit: z.coerce.number().int().min(1).max(500).default(100),
 });
 export type BenchQuery = z.infer<typeof benchQuerySchema>;
 
@@ -290,8 +292,13 @@ export const benchItemSchema = z.object({
   runId: z.number().int(),
   runCode: z.string(),
   /** For coupon work: the first coupon waiting (where the click goes); null for a run's stage. */
+  /** For coupon work: the first coupon waiting (where the click goes); null for a run's stage. */
   couponId: z.number().int().nullable(),
   couponTag: z.string().nullable(),
+  /** How many coupons of the run wait for this (one item per run and weighing, not one per coupon); 0 for a stage. */
+  couponCount: z.number().int(),
+  /** The first coupons waiting, by tag (at most BENCH_COUPONS_SHOWN); `couponCount` counts them all. */
+  coupons: z.array(z.object({ id: z.number().int(), tag: z.string() })),
   stage: z.enum(RUN_STAGES).nullable(),
   weighingStage: z.enum(WEIGHING_STAGES).nullable(),
   /** Null when it is due as soon as possible (e.g. a weighing that is simply missing). */
@@ -312,7 +319,10 @@ export const benchResponseSchema = z.object({
   now: z.string(),
   withinHours: z.number(),
   items: z.array(benchItemSchema),
+  /** Items before the limit. */
+  total: z.number().int(),
 });
+export type BenchResponse = z.infer<typeof benchResponseSchema>;
 
 // ---------------------------------------------------------------------------------------------
 // Corrections of a recorded stage. A recorded time, reading or temperature is never overwritten in

@@ -115,6 +115,11 @@ test('a cured weight typed while the run is still drying is flagged on its row, 
   const check = row.locator('[data-col=check]');
   await expect(check).toContainText('is still at its drying stage');
   await expect(check).toContainText('It can still be saved.');
+  // Also above the grid, where it shows whatever part of the grid is scrolled into view.
+  const above = page.getByText('Check before saving (saving is still allowed):').locator('..');
+  await expect(above).toContainText(`1 cured weight (${coupon.tag}): run`);
+  await above.getByRole('button', { name: `Go to ${coupon.tag}` }).click();
+  await expect.poll(() => focusedLabel(page)).toMatch(new RegExp(`^Cured mass .*coupon ${coupon.tag}`));
   await page.keyboard.press('Control+s');
   await expect(page.getByRole('status').filter({ hasText: 'Saved' })).toContainText('Saved 2 weighings');
 });

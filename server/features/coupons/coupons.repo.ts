@@ -1,5 +1,6 @@
-import { and, asc, eq, inArray, isNull, or, sql, type SQL } from 'drizzle-orm';
-import { alias } from 'drizzle-orm/sqlite-core';
+import { and, asc, count, eq, inArray, isNull, or, sql, type SQL } from 'drizzle-orm';
+import { alias, type SQLiteColumn } from 'drizzle-orm/sqlite-core';
+import { couponResults } from '../../db/schema/results';
 import type { Db } from '../../db/client';
 import { auditLog } from '../../db/schema/admin';
 import { users } from '../../db/schema/auth';
@@ -62,8 +63,49 @@ export function findCouponByTag(db: Db, tag: string): CouponRow | undefined {
   return db.select().from(coupons).where(eq(coupons.tag, tag)).get();
 }
 
+/** `col in (ids)` with the ids bound as one JSON array, so a long list never runs out of SQL variables. */
+const inIds = (col: SQLiteColumn, ids: readonly number[]) => sql`${col} in (select value from json_each(${JSON.stringify(ids)}))`;
+
+/**
+ * A page of the coupon list. Filters and sorts on the coupon's own columns use its indexes
+ * (`(trial_id, tag)`, `(run_id, tag)`, `(created_at, id)`); filters and sorts on readings and metrics
+ * read the results table, joined by its primary key.
+ */
 export function listCouponRows(db: Db, where: SQL | undefined, order: SQL[], limit: number, offset: number): CouponWithNames[] {
   return withNames(db)
+    .leftJoin(couponResults, eq(couponResults.couponId, coupons.id))
+    .where(where)
+    .orderBy(...order)
+    .limit(limit)
+    .offset(offset)
+    .all();
+}
+
+/** How many coupons match; joins the results table only when a filter needs it. */
+export function countCoupons(db: Db, where: SQL | undefined, needsResults: boolean): number {
+  const q = db.select({ n: count() }).from(coupons);
+  return (needsResults ? q.leftJoin(couponResults, eq(couponResults.couponId, coupons.id)) : q).where(where).get()?.n ?? 0;
+}
+
+/** Coupons with their keys, current readings and metrics from the results table, for the CSV export. */
+export function exportCouponRows(db: Db, where: SQL | undefined, order: SQL[], limit: number, offset: number) {
+  return db
+    .select({
+      coupon: { id: coupons.id, tag: coupons.tag, role: coupons.role, sourceBoard: coupons.sourceBoard, notes: coupons.notes, createdAt: coupons.createdAt },
+      speciesName: species.commonName,
+      trialCode: trials.code,
+      runCode: runs.code,
+      processLabel: trialConditions.processLabel,
+      resinName: resins.name,
+      r: couponResults,
+    })
+    .from(coupons)
+    .innerJoin(species, eq(coupons.speciesId, species.id))
+    .leftJoin(trials, eq(coupons.trialId, trials.id))
+    .leftJoin(runs, eq(coupons.runId, runs.id))
+    .leftJoin(trialConditions, eq(coupons.conditionId, trialConditions.id))
+    .leftJoin(couponResults, eq(couponResults.couponId, coupons.id))
+    .leftJoin(resins, eq(couponResults.resinId, resins.id))
     .where(where)
     .orderBy(...order)
     .limit(limit)
@@ -88,7 +130,7 @@ export function currentWeighings(db: Db, couponIds: number[]): WeighingRow[] {
   return db
     .select()
     .from(weighings)
-    .where(and(inArray(weighings.couponId, couponIds), currentWeighing))
+    .where(and(inIds(weighings.couponId, couponIds), currentWeighing))
     .orderBy(asc(weighings.measuredAt), asc(weighings.id))
     .all();
 }
@@ -98,7 +140,7 @@ export function currentChecks(db: Db, couponIds: number[]): CheckRow[] {
   return db
     .select()
     .from(checks)
-    .where(and(inArray(checks.couponId, couponIds), currentCheck))
+    .where(and(inIds(checks.couponId, couponIds), currentCheck))
     .orderBy(asc(checks.measuredAt), asc(checks.id))
     .all();
 }

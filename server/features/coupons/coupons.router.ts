@@ -6,12 +6,14 @@ import {
   checkInputSchema,
   correctCheckSchema,
   correctWeighingSchema,
+  couponExportQuerySchema,
   couponListQuerySchema,
   createCouponSchema,
   deleteMeasurementSchema,
   updateCouponSchema,
   weighingInputSchema,
 } from '../../../shared/schemas/coupons';
+import { sendCsv } from '../../http/csv-export';
 import { createCouponsService } from './coupons.service';
 import { createPhotoService } from './photos.service';
 
@@ -26,7 +28,10 @@ export function couponsRoutes(deps: FeatureDeps) {
   r.post('/coupons', { access: 'technician', status: 201, schemas: { body: createCouponSchema } }, ({ user, body }) => ({
     coupon: service.create(user, body),
   }));
-  // Declared before /coupons/:id so "measurements" is never taken for an id.
+  r.get('/coupons/export.csv', { access: 'viewer', schemas: { query: couponExportQuerySchema } }, ({ query, res }) =>
+    sendCsv(res, 'coupons.csv', service.exportRows(query)),
+  );
+  // Declared before /coupons/:id so "measurements" (and "export.csv") is never taken for an id.
   r.post('/coupons/measurements', { access: 'technician', status: 201, schemas: { body: batchMeasurementsSchema } }, ({ user, body }) =>
     service.batch(user, body),
   );

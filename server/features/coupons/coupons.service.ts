@@ -1,4 +1,6 @@
-import { and, asc, count, desc, eq } from 'drizzle-orm';
+import { and, asc, desc, eq, isNull, sql, type SQL } from 'drizzle-orm';
+import type { SQLiteColumn } from 'drizzle-orm/sqlite-core';
+import { couponResults } from '../../db/schema/results';
 import type { FeatureDeps } from '../../deps';
 import type { Db } from '../../db/client';
 import { writeAudit } from '../../db/audit';
@@ -15,7 +17,9 @@ import type {
   CorrectWeighingInput,
   CouponDetail,
   CouponHistory,
+  CouponExportQuery,
   CouponListQuery,
+  CouponWaitingFor,
   CouponOut,
   CreateCouponInput,
   MeasurementWarning,
@@ -23,6 +27,7 @@ import type {
   WeighingInput,
   WeighingOut,
 } from '../../../shared/schemas/coupons';
+import { COUPON_SORTS } from '../../../shared/schemas/coupons';
 import { antiSwellForList, couponMetrics, type CouponMetrics } from '../../../shared/coupons/metrics';
 import { sgPlausibility, sgWarningText } from '../../../shared/coupons/plausibility';
 import { readingDateQuestion } from '../../../shared/schemas/dates';
@@ -39,6 +44,8 @@ import {
   findCouponByTag,
   findSpecies,
   findTrial,
+  countCoupons,
+  exportCouponRows,
   insertCoupon,
   listCouponRows,
   shopFirstRecordAt,
@@ -55,7 +62,17 @@ import {
   type WeighingRow,
 } from './coupons.repo';
 
-const SORTS = { id: coupons.id, tag: coupons.tag, createdAt: coupons.createdAt } as const;
+const SORTS: Record<(typeof COUPON_SORTS)[number], SQL | SQLiteColumn> = {
+  id: coupons.id,
+  tag: coupons.tag,
+  createdAt: coupons.createdAt,
+  // A blank metric sorts as the lowest value, so a keyset cursor never meets a NULL.
+  drySg: sql`coalesce(${couponResults.drySg}, -1e308)`,
+  wpgPct: sql`coalesce(${couponResults.wpgPct}, -1e308)`,
+  resinLoadingKgM3: sql`coalesce(${couponResults.resinLoadingKgM3}, -1e308)`,
+};
+/** Rows per query while a CSV export is written. */
+const EXPORT_PAGE = 500;
 
 export function toWeighingOut(r: WeighingRow): WeighingOut {
   return {
@@ -123,6 +140,17 @@ export function warningsOf(metrics: CouponMetrics, sp: SpeciesRow | undefined): 
   return out;
 }
 
+function groupBy<T>(rows: readonly T[], key: (r: T) => number): Map<number, T[]> {
+  const out = new Map<number, T[]>();
+  for (const r of rows) {
+    const k = key(r);
+    const list = out.get(k);
+    if (list) list.push(r);
+    else out.set(k, [r]);
+  }
+  return out;
+}
+
 export function createCouponsService(deps: FeatureDeps) {
   const { db } = deps.database;
   const measurements = createMeasurements(deps);
@@ -157,9 +185,11 @@ export function createCouponsService(deps: FeatureDeps) {
       all.map((r) => r.coupon),
     );
     const spMap = speciesByIds(tx, [...new Set(all.map((r) => r.coupon.speciesId))]);
+    const wsOf = groupBy(ws, (w) => w.couponId);
+    const csOf = groupBy(cs, (c) => c.couponId);
     const computed = all.map((r) => {
-      const mineW = ws.filter((w) => w.couponId === r.coupon.id);
-      const mineC = cs.filter((c) => c.couponId === r.coupon.id);
+      const mineW = wsOf.get(r.coupon.id) ?? [];
+      const mineC = csOf.get(r.coupon.id) ?? [];
       const resin = resinMap.get(r.coupon.id);
       return { r, mineW, mineC, resin, metrics: metricsOf(r.coupon, mineW, mineC, resin) };
     });
@@ -216,22 +246,141 @@ export function createCouponsService(deps: FeatureDeps) {
     return build(tx, [requireCoupon(tx, id)])[0] as CouponOut;
   }
 
-  function list(q: CouponListQuery): { items: CouponOut[]; page: number; pageSize: number; total: number } {
-    const sortKey = (q.sort ?? 'tag').replace(/^-/, '');
-    const column = SORTS[sortKey as keyof typeof SORTS];
-    if (!column) throw new ValidationFailed(`Cannot sort coupons by ${sortKey}`, { sort: [`Sort by one of ${Object.keys(SORTS).join(', ')}`] });
-    const direction = q.sort?.startsWith('-') ? desc : asc;
+  /** The list's WHERE (shared by the page, the count and the CSV export); says whether it reads the results table. */
+  function listWhere(q: CouponExportQuery): { where: SQL | undefined; needsResults: boolean } {
+    const r = couponResults;
+    const waiting: Record<CouponWaitingFor, SQL | undefined> = {
+      'dry-weighing': isNull(r.dryMassG),
+      'soaked-weighing': and(eq(coupons.role, 'treated'), isNull(r.soakedMassG)),
+      'cured-weighing': and(eq(coupons.role, 'treated'), isNull(r.curedMassG)),
+      'dry-dimensions': and(isNull(r.dryThicknessMm), isNull(r.dryVolumeCm3)),
+    };
     const filters = [
       q.runId === undefined ? undefined : eq(coupons.runId, q.runId),
       q.trialId === undefined ? undefined : eq(coupons.trialId, q.trialId),
       q.speciesId === undefined ? undefined : eq(coupons.speciesId, q.speciesId),
       q.conditionId === undefined ? undefined : eq(coupons.conditionId, q.conditionId),
       q.role === undefined ? undefined : eq(coupons.role, q.role),
+      q.q ? sql`${coupons.tag} like ${`%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`} escape '\\'` : undefined,
+      q.waitingFor ? waiting[q.waitingFor] : undefined,
     ].filter((f) => f !== undefined);
-    const where = filters.length ? and(...filters) : undefined;
-    const rows = listCouponRows(db, where, [direction(column), asc(coupons.id)], q.pageSize, (q.page - 1) * q.pageSize);
-    const total = db.select({ n: count() }).from(coupons).where(where).get()?.n ?? 0;
-    return { items: build(db, rows), page: q.page, pageSize: q.pageSize, total };
+    return { where: filters.length ? and(...filters) : undefined, needsResults: q.waitingFor !== undefined };
+  }
+
+  /** The sort expression (metrics: blanks first, as the lowest value) and its direction. */
+  function sortOf(sort: string | undefined) {
+    const key = (sort ?? 'tag').replace(/^-/, '') as (typeof COUPON_SORTS)[number];
+    const expr: SQL | SQLiteColumn = SORTS[key] ?? coupons.tag;
+    return { key, expr, desc: sort?.startsWith('-') ?? false };
+  }
+
+  /** A cursor names the last row of a page: its sort value and id. */
+  const encodeCursor = (v: unknown, id: number) => Buffer.from(JSON.stringify([v, id])).toString('base64url');
+  function decodeCursor(cursor: string): [string | number, number] {
+    try {
+      const v = JSON.parse(Buffer.from(cursor, 'base64url').toString('utf8')) as unknown;
+      if (Array.isArray(v) && v.length === 2 && (typeof v[0] === 'string' || typeof v[0] === 'number') && Number.isInteger(v[1]))
+        return v as [string | number, number];
+    } catch {
+      // falls through to the refusal below
+    }
+    throw new ValidationFailed('That cursor is not one this list gave out', { after: ['Use the nextCursor of the previous page'] });
+  }
+
+  function list(q: CouponListQuery): { items: CouponOut[]; page: number; pageSize: number; total: number; nextCursor: string | null } {
+    const { where, needsResults } = listWhere(q);
+    const s = sortOf(q.sort);
+    // Keyset: rows after the cursor in (sort value, id) order, so a page far down costs what the first one does.
+    let after: SQL | undefined;
+    if (q.after !== undefined) {
+      const [v, id] = decodeCursor(q.after);
+      after = s.desc
+        ? sql`(${s.expr} < ${v} or (${s.expr} = ${v} and ${coupons.id} > ${id}))`
+        : sql`(${s.expr} > ${v} or (${s.expr} = ${v} and ${coupons.id} > ${id}))`;
+    }
+    const order = [s.desc ? desc(s.expr) : asc(s.expr), asc(coupons.id)];
+    const rows = listCouponRows(db, and(where, after), order, q.pageSize, after ? 0 : (q.page - 1) * q.pageSize);
+    const total = countCoupons(db, where, needsResults);
+    const last = rows.at(-1);
+    let nextCursor: string | null = null;
+    if (last && rows.length === q.pageSize) {
+      const v = db
+        .select({ v: sql<string | number>`${s.expr}` })
+        .from(coupons)
+        .leftJoin(couponResults, eq(couponResults.couponId, coupons.id))
+        .where(eq(coupons.id, last.coupon.id))
+        .get()?.v;
+      nextCursor = encodeCursor(v ?? null, last.coupon.id);
+    }
+    return { items: build(db, rows), page: q.page, pageSize: q.pageSize, total, nextCursor };
+  }
+
+  /** Every coupon the list's filters match, a page at a time, as CSV rows after a header. */
+  function* exportRows(q: CouponExportQuery): Generator<(string | number | null)[]> {
+    yield [
+      'tag',
+      'trial',
+      'condition',
+      'species',
+      'role',
+      'run',
+      'resin',
+      'source_board',
+      'dry_mass_g',
+      'soaked_mass_g',
+      'cured_mass_g',
+      'dry_thickness_mm',
+      'dry_volume_cm3',
+      'mc_pct',
+      'dry_density_kg_m3',
+      'dry_sg',
+      'wpg_pct',
+      'resin_loading_kg_m3',
+      'void_fill_pct',
+      'cure_loss_pct',
+      'bulking_pct',
+      'swelling_pct',
+      'problems',
+      'notes',
+      'created_at',
+    ];
+    const { where } = listWhere(q);
+    const s = sortOf(q.sort);
+    const order = [s.desc ? desc(s.expr) : asc(s.expr), asc(coupons.id)];
+    for (let offset = 0; ; offset += EXPORT_PAGE) {
+      const rows = exportCouponRows(db, where, order, EXPORT_PAGE, offset);
+      for (const x of rows) {
+        const r = x.r;
+        yield [
+          x.coupon.tag,
+          x.trialCode,
+          x.processLabel,
+          x.speciesName,
+          x.coupon.role,
+          x.runCode,
+          x.resinName,
+          x.coupon.sourceBoard,
+          r?.dryMassG ?? null,
+          r?.soakedMassG ?? null,
+          r?.curedMassG ?? null,
+          r?.dryThicknessMm ?? null,
+          r?.dryVolumeCm3 ?? null,
+          r?.mcPct ?? null,
+          r?.dryDensityKgM3 ?? null,
+          r?.drySg ?? null,
+          r?.wpgPct ?? null,
+          r?.resinLoadingKgM3 ?? null,
+          r?.voidFillPct ?? null,
+          r?.cureLossPct ?? null,
+          r?.bulkingPct ?? null,
+          r?.swellingPct ?? null,
+          r ? r.problems.map((p) => `${p.metric}: ${p.message}`).join('; ') : null,
+          x.coupon.notes,
+          x.coupon.createdAt,
+        ];
+      }
+      if (rows.length < EXPORT_PAGE) return;
+    }
   }
 
   function get(id: number): CouponDetail {
@@ -424,5 +573,5 @@ export function createCouponsService(deps: FeatureDeps) {
     };
   }
 
-  return { list, get, create, update, addWeighing, addCheck, correctWeighing, correctCheck, deleteWeighing, deleteCheck, batch, history };
+  return { list, exportRows, get, create, update, addWeighing, addCheck, correctWeighing, correctCheck, deleteWeighing, deleteCheck, batch, history };
 }

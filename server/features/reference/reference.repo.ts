@@ -6,6 +6,7 @@ import { resinLots, resins, species } from '../../db/schema/reference';
 import { runs } from '../../db/schema/runs';
 import { readShopSettings } from '../../db/shop-settings';
 import type { ResinListQuery, ResinLotListQuery, SpeciesListQuery } from '../../../shared/schemas/reference';
+import type { Option, OptionsQuery } from '../../../shared/schemas/options';
 
 export type SpeciesRow = typeof species.$inferSelect;
 export type ResinRow = typeof resins.$inferSelect;
@@ -187,4 +188,36 @@ export function speciesThroughLots(db: Db, lotIds: number[]): Map<number, string
     out.set(r.lotId, list);
   }
   return out;
+}
+
+// Pickers' light lists: id, code and a label (optionsResponseSchema).
+export function speciesOptions(db: Db, q: OptionsQuery): Option[] {
+  return db
+    .select({ id: species.id, code: species.botanicalName, label: species.commonName })
+    .from(species)
+    .where(q.q ? or(likeEscaped(species.commonName, q.q), likeEscaped(species.botanicalName, q.q)) : undefined)
+    .orderBy(asc(species.commonName), asc(species.id))
+    .limit(q.limit)
+    .all();
+}
+export function resinOptions(db: Db, q: OptionsQuery): Option[] {
+  return db
+    .select({ id: resins.id, code: resins.name, label: resins.name })
+    .from(resins)
+    .where(q.q ? likeEscaped(resins.name, q.q) : undefined)
+    .orderBy(asc(resins.name), asc(resins.id))
+    .limit(q.limit)
+    .all();
+}
+/** Lots newest activation first, labelled with their resin and status. */
+export function lotOptions(db: Db, q: OptionsQuery): Option[] {
+  return db
+    .select({ id: resinLots.id, code: resinLots.code, resin: resins.name, status: resinLots.status })
+    .from(resinLots)
+    .innerJoin(resins, eq(resinLots.resinId, resins.id))
+    .where(q.q ? or(likeEscaped(resinLots.code, q.q), likeEscaped(resins.name, q.q)) : undefined)
+    .orderBy(desc(resinLots.activatedAt), desc(resinLots.id))
+    .limit(q.limit)
+    .all()
+    .map((l) => ({ id: l.id, code: l.code, label: `${l.code} · ${l.resin}${l.status === 'active' ? '' : ` (${l.status})`}` }));
 }

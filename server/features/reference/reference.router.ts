@@ -12,7 +12,9 @@ import {
   updateResinSchema,
   updateSpeciesSchema,
 } from '../../../shared/schemas/reference';
+import { optionsQuerySchema } from '../../../shared/schemas/options';
 import { createReferenceService } from './reference.service';
+import { lotOptions, resinOptions, speciesOptions } from './reference.repo';
 
 export function referenceRoutes(deps: FeatureDeps) {
   const service = createReferenceService(deps);
@@ -20,6 +22,11 @@ export function referenceRoutes(deps: FeatureDeps) {
 
   // Species and resins are the shop's reference data: everyone reads, only the admin changes them.
   r.get('/species', { access: 'viewer', schemas: { query: speciesListQuerySchema } }, ({ query }) => service.listSpecies(query));
+  // Pickers' light lists, declared before the /:id routes so "options" is never taken for an id.
+  const opts = { access: 'viewer', schemas: { query: optionsQuerySchema } } as const;
+  r.get('/species/options', opts, ({ query }) => ({ items: speciesOptions(deps.database.db, query) }));
+  r.get('/resins/options', opts, ({ query }) => ({ items: resinOptions(deps.database.db, query) }));
+  r.get('/resin-lots/options', opts, ({ query }) => ({ items: lotOptions(deps.database.db, query) }));
   r.get('/species/:id', { access: 'viewer', schemas: { params: idParamsSchema } }, ({ params }) => ({ species: service.getSpecies(params.id) }));
   r.post('/species', { access: 'admin', status: 201, schemas: { body: createSpeciesSchema } }, ({ user, body }) => ({
     species: service.createSpecies(user, body),

@@ -1,11 +1,10 @@
 import { and, eq, gte, isNull, or } from 'drizzle-orm';
 import type { FeatureDeps } from '../../deps';
 import { runStages, runs } from '../../db/schema/runs';
-import type { WeighingStage } from '../../../shared/constants/records';
 import { DomainError, reachedConstantMass } from '../../../shared/domain/index';
-import type { BenchItem, BenchQuery } from '../../../shared/schemas/runs';
+import { BENCH_COUPONS_SHOWN, type BenchItem, type BenchQuery, type BenchResponse } from '../../../shared/schemas/runs';
 import { dueItems } from '../../../shared/runs/timers';
-import { couponsOfRuns, getShopSettings, stagesOf } from './runs.repo';
+import { couponsOfRuns, couponsWaitingOfRuns, getShopSettings, stagesOf, type RunCouponInfo, type StageRow } from './runs.repo';
 import { toStageTimes } from './runs.service';
 
 const HOUR = 3_600_000;
@@ -15,12 +14,13 @@ const FINISHED_RUN_HORIZON_DAYS = 30;
 /**
  * Today's work across all runs: stages whose planned end has passed or comes within the window, soaks
  * that reached their minimum, coupons waiting for the weighing the run's stage calls for, and drying
- * checks due. Not paginated: it is a short working list, sorted most urgent first.
+ * checks due: one item per run and stage or weighing (never one per coupon), sorted most urgent first and
+ * cut at `limit`.
  */
 export function createBenchService(deps: FeatureDeps) {
   const { db } = deps.database;
 
-  function bench(q: BenchQuery): { now: string; withinHours: number; items: BenchItem[] } {
+  function bench(q: BenchQuery): BenchResponse {
     const now = deps.now();
     const t = now.getTime();
     const horizon = t + q.withinHours * HOUR;
@@ -35,16 +35,47 @@ export function createBenchService(deps: FeatureDeps) {
       .where(or(isNull(runStages.endedAt), gte(runStages.endedAt, cutoff)))
       .all();
     const ids = candidates.map((r) => r.id);
-    const allStages = stagesOf(db, ids);
-    const allCoupons = couponsOfRuns(db, ids);
+    const stagesByRun = new Map<number, StageRow[]>();
+    for (const st of stagesOf(db, ids)) {
+      const list = stagesByRun.get(st.runId);
+      if (list) list.push(st);
+      else stagesByRun.set(st.runId, [st]);
+    }
     const items: BenchItem[] = [];
 
+    // The weighing each run's position calls for: dry before the vacuum, soaked once the soak is over
+    // and before the oven, cured after the cure.
+    const wantedOf = new Map<number, { stage: 'dry' | 'soaked' | 'cured'; why: string }>();
+    const drying: number[] = [];
     for (const run of candidates) {
-      const stages = allStages.filter((s) => s.runId === run.id);
-      const times = stages.map(toStageTimes);
+      const stages = stagesByRun.get(run.id) ?? [];
       const has = (st: string) => stages.find((s) => s.stage === st);
-      const runCoupons = allCoupons.filter((c) => c.runId === run.id);
+      const vacuum = has('vacuum');
+      const soak = has('soak');
+      const cure = has('cure');
+      if (!vacuum) wantedOf.set(run.id, { stage: 'dry', why: 'before the vacuum' });
+      else if (soak?.endedAt && !cure) wantedOf.set(run.id, { stage: 'soaked', why: 'after draining, before the cure' });
+      else if (cure?.endedAt) wantedOf.set(run.id, { stage: 'cured', why: 'after the cure' });
+      const dry = has('drying');
+      if (dry && dry.endedAt === null) drying.push(run.id);
+    }
+    // Counts come from the results table in grouped queries; only runs still drying load their coupons'
+    // drying checks, because the constant-mass rule needs each coupon's series.
+    const waiting = couponsWaitingOfRuns(
+      db,
+      [...wantedOf.entries()].map(([runId, w]) => ({ runId, stage: w.stage })),
+      BENCH_COUPONS_SHOWN,
+    );
+    const dryingCoupons = new Map<number, RunCouponInfo[]>();
+    for (const c of couponsOfRuns(db, drying)) {
+      const list = dryingCoupons.get(c.runId);
+      if (list) list.push(c);
+      else dryingCoupons.set(c.runId, [c]);
+    }
+    const rule = { minIntervalHours: settings.dryingMinIntervalHours, maxChangePct: settings.dryingMaxChangePct };
 
+    for (const run of candidates) {
+      const times = (stagesByRun.get(run.id) ?? []).map(toStageTimes);
       for (const d of dueItems(times, now).items) {
         if (Date.parse(d.dueAt) > horizon) continue;
         items.push({
@@ -53,6 +84,8 @@ export function createBenchService(deps: FeatureDeps) {
           runCode: run.code,
           couponId: null,
           couponTag: null,
+          couponCount: 0,
+          coupons: [],
           stage: d.stage,
           weighingStage: null,
           dueAt: d.dueAt,
@@ -62,80 +95,80 @@ export function createBenchService(deps: FeatureDeps) {
         });
       }
 
-      // The weighing the run's position calls for: dry before the vacuum, soaked once the soak is over
-      // and before the oven, cured after the cure.
-      const vacuum = has('vacuum');
-      const soak = has('soak');
-      const cure = has('cure');
-      let wanted: WeighingStage | null = null;
-      let why = '';
-      if (!vacuum) {
-        wanted = 'dry';
-        why = 'before the vacuum';
-      } else if (soak?.endedAt && !cure) {
-        wanted = 'soaked';
-        why = 'after draining, before the cure';
-      } else if (cure?.endedAt) {
-        wanted = 'cured';
-        why = 'after the cure';
-      }
-      if (wanted !== null) {
-        for (const c of runCoupons) {
-          if (c.stagesWeighed.includes(wanted)) continue;
-          items.push({
-            kind: 'weighing-due',
-            runId: run.id,
-            runCode: run.code,
-            couponId: c.id,
-            couponTag: c.tag,
-            stage: null,
-            weighingStage: wanted,
-            dueAt: null,
-            overdue: false,
-            message: `${c.tag} (${run.code}) needs a ${wanted} weighing ${why}`,
-            target: { entity: 'coupon', id: c.id, form: 'weighing', stage: wanted },
-          });
-        }
+      const wanted = wantedOf.get(run.id);
+      const w = waiting.get(run.id);
+      const first = w?.first[0];
+      if (wanted && w && first) {
+        items.push({
+          kind: 'weighing-due',
+          runId: run.id,
+          runCode: run.code,
+          couponId: first.id,
+          couponTag: first.tag,
+          couponCount: w.count,
+          coupons: w.first,
+          stage: null,
+          weighingStage: wanted.stage,
+          dueAt: null,
+          overdue: false,
+          message:
+            w.count === 1
+              ? `${first.tag} (${run.code}) needs a ${wanted.stage} weighing ${wanted.why}`
+              : `${run.code}: ${w.count} coupons need a ${wanted.stage} weighing ${wanted.why}`,
+          target: { entity: 'coupon', id: first.id, form: 'weighing', stage: wanted.stage },
+        });
       }
 
-      const drying = has('drying');
-      if (drying && drying.endedAt === null) {
-        const rule = { minIntervalHours: settings.dryingMinIntervalHours, maxChangePct: settings.dryingMaxChangePct };
-        for (const c of runCoupons) {
-          let reached = false;
-          try {
-            reached = reachedConstantMass(c.dryingChecks, rule).reached;
-          } catch (e) {
-            if (!(e instanceof DomainError)) throw e;
-          }
-          if (reached) continue;
-          const last = c.dryingChecks.map((d) => Date.parse(d.at)).sort((a, b) => b - a)[0];
-          const dueAt = last === undefined ? null : last + rule.minIntervalHours * HOUR;
-          if (dueAt !== null && dueAt > horizon) continue;
-          items.push({
-            kind: 'drying-check-due',
-            runId: run.id,
-            runCode: run.code,
-            couponId: c.id,
-            couponTag: c.tag,
-            stage: 'drying',
-            weighingStage: 'drying-check',
-            dueAt: dueAt === null ? null : new Date(dueAt).toISOString(),
-            overdue: dueAt === null || dueAt <= t,
-            message:
-              last === undefined
-                ? `${c.tag} (${run.code}) has no drying check yet`
-                : `${c.tag} (${run.code}) is due a drying check ${rule.minIntervalHours} h after the last one`,
-            target: { entity: 'coupon', id: c.id, form: 'weighing', stage: 'drying-check' },
-          });
+      // Drying checks due: one item for the run, the most urgent coupon first.
+      const due: { id: number; tag: string; dueAt: number | null; last: number | undefined }[] = [];
+      for (const c of dryingCoupons.get(run.id) ?? []) {
+        let reached = false;
+        try {
+          reached = reachedConstantMass(c.dryingChecks, rule).reached;
+        } catch (e) {
+          if (!(e instanceof DomainError)) throw e;
         }
+        if (reached) continue;
+        let last: number | undefined;
+        for (const d of c.dryingChecks) {
+          const at = Date.parse(d.at);
+          if (last === undefined || at > last) last = at;
+        }
+        const dueAt = last === undefined ? null : last + rule.minIntervalHours * HOUR;
+        if (dueAt !== null && dueAt > horizon) continue;
+        due.push({ id: c.id, tag: c.tag, dueAt, last });
+      }
+      due.sort((a, b) => (a.dueAt ?? -Infinity) - (b.dueAt ?? -Infinity) || a.tag.localeCompare(b.tag));
+      const head = due[0];
+      if (head) {
+        const earliest = head.dueAt;
+        items.push({
+          kind: 'drying-check-due',
+          runId: run.id,
+          runCode: run.code,
+          couponId: head.id,
+          couponTag: head.tag,
+          couponCount: due.length,
+          coupons: due.slice(0, BENCH_COUPONS_SHOWN).map((c) => ({ id: c.id, tag: c.tag })),
+          stage: 'drying',
+          weighingStage: 'drying-check',
+          dueAt: earliest === null ? null : new Date(earliest).toISOString(),
+          overdue: earliest === null || earliest <= t,
+          message:
+            due.length > 1
+              ? `${run.code}: ${due.length} coupons are due a drying check`
+              : head.last === undefined
+                ? `${head.tag} (${run.code}) has no drying check yet`
+                : `${head.tag} (${run.code}) is due a drying check ${rule.minIntervalHours} h after the last one`,
+          target: { entity: 'coupon', id: head.id, form: 'weighing', stage: 'drying-check' },
+        });
       }
     }
 
     // Most urgent first: things due now (no time, or overdue), then by time.
     const rank = (i: BenchItem) => (i.dueAt === null ? -Infinity : Date.parse(i.dueAt));
     items.sort((a, b) => rank(a) - rank(b) || a.runCode.localeCompare(b.runCode) || (a.couponTag ?? '').localeCompare(b.couponTag ?? ''));
-    return { now: now.toISOString(), withinHours: q.withinHours, items };
+    return { now: now.toISOString(), withinHours: q.withinHours, items: items.slice(0, q.limit), total: items.length };
   }
 
   return { bench };

@@ -1,12 +1,15 @@
-import { and, asc, count, eq, inArray, isNull, like } from 'drizzle-orm';
+import { and, asc, count, desc, eq, inArray, isNull, like, or, sql, type SQL } from 'drizzle-orm';
+import type { Option, OptionsQuery } from '../../../shared/schemas/options';
+import type { SQLiteColumn } from 'drizzle-orm/sqlite-core';
 import type { Db } from '../../db/client';
-import { checks, coupons, photos, weighings } from '../../db/schema/coupons';
+import { coupons, photos, weighings } from '../../db/schema/coupons';
+import { couponResults } from '../../db/schema/results';
 import { resinLots, resins, species } from '../../db/schema/reference';
 import { runReadings, runStages, runs } from '../../db/schema/runs';
 import type { ShopSettings } from '../../../shared/schemas/admin';
 import { readShopSettings } from '../../db/shop-settings';
 import { toPhotoOut } from '../../db/photo-out';
-import type { WeighingStage } from '../../../shared/constants/records';
+import { WEIGHING_STAGES, type WeighingStage } from '../../../shared/constants/records';
 import type { PhotoOut } from '../../../shared/schemas/runs';
 
 export type RunRow = typeof runs.$inferSelect;
@@ -74,39 +77,126 @@ export interface RunCouponInfo {
   thicknessMm: number | null;
 }
 
+/** `col in (ids)` with the ids bound as one JSON array, so a long list never runs out of SQL variables. */
+export const inIds = (col: SQL | SQLiteColumn, ids: readonly number[]) => sql`${col} in (select value from json_each(${JSON.stringify(ids)}))`;
+
+/**
+ * What the run checks and the run page need about each coupon of these runs, from the results table
+ * (one row per coupon) plus the current drying checks of the coupons that have any. Grouped with Maps.
+ */
 export function couponsOfRuns(db: Db, runIds: number[]): RunCouponInfo[] {
   if (runIds.length === 0) return [];
   const rows = db
-    .select({ id: coupons.id, tag: coupons.tag, role: coupons.role, runId: coupons.runId, speciesId: coupons.speciesId, speciesName: species.commonName })
-    .from(coupons)
-    .innerJoin(species, eq(coupons.speciesId, species.id))
-    .where(inArray(coupons.runId, runIds))
-    .orderBy(asc(coupons.tag))
+    .select({
+      id: couponResults.couponId,
+      tag: couponResults.tag,
+      role: couponResults.role,
+      runId: couponResults.runId,
+      speciesId: couponResults.speciesId,
+      speciesName: species.commonName,
+      dry: couponResults.dryMassG,
+      soaked: couponResults.soakedMassG,
+      cured: couponResults.curedMassG,
+      wetTest: couponResults.wetTestMassG,
+      dryingCheckCount: couponResults.dryingCheckCount,
+      thicknessMm: couponResults.dryThicknessMm,
+    })
+    .from(couponResults)
+    .innerJoin(species, eq(couponResults.speciesId, species.id))
+    .where(inIds(couponResults.runId, runIds))
+    .orderBy(asc(couponResults.tag))
     .all();
   if (rows.length === 0) return [];
-  const ids = rows.map((r) => r.id);
-  const current = (t: typeof weighings | typeof checks) => and(isNull(t.supersededBy), isNull(t.deletedAt));
-  const ws = db
-    .select({ couponId: weighings.couponId, stage: weighings.stage, massG: weighings.massG, measuredAt: weighings.measuredAt })
-    .from(weighings)
-    .where(and(inArray(weighings.couponId, ids), current(weighings)))
-    .all();
-  const dims = db
-    .select({ couponId: checks.couponId, thicknessMm: checks.thicknessMm, measuredAt: checks.measuredAt })
-    .from(checks)
-    .where(and(inArray(checks.couponId, ids), eq(checks.kind, 'dimension'), eq(checks.stage, 'dry'), current(checks)))
-    .all();
+  const checksByCoupon = new Map<number, { at: string; massG: number }[]>();
+  if (rows.some((r) => r.dryingCheckCount > 0)) {
+    const ws = db
+      .select({ couponId: weighings.couponId, at: weighings.measuredAt, massG: weighings.massG })
+      .from(weighings)
+      .innerJoin(couponResults, eq(couponResults.couponId, weighings.couponId))
+      .where(
+        and(
+          inIds(couponResults.runId, runIds),
+          sql`${couponResults.dryingCheckCount} > 0`,
+          eq(weighings.stage, 'drying-check'),
+          isNull(weighings.supersededBy),
+          isNull(weighings.deletedAt),
+        ),
+      )
+      .orderBy(asc(weighings.measuredAt), asc(weighings.id))
+      .all();
+    for (const w of ws) {
+      const list = checksByCoupon.get(w.couponId);
+      if (list) list.push({ at: w.at, massG: w.massG });
+      else checksByCoupon.set(w.couponId, [{ at: w.at, massG: w.massG }]);
+    }
+  }
   return rows.map((r) => {
-    const mine = ws.filter((w) => w.couponId === r.id);
-    const dim = dims.filter((d) => d.couponId === r.id && d.thicknessMm !== null).sort((a, b) => b.measuredAt.localeCompare(a.measuredAt))[0];
+    const dryingChecks = checksByCoupon.get(r.id) ?? [];
+    const has: Record<WeighingStage, boolean> = {
+      dry: r.dry !== null,
+      soaked: r.soaked !== null,
+      cured: r.cured !== null,
+      'wet-test': r.wetTest !== null,
+      'drying-check': dryingChecks.length > 0,
+    };
     return {
-      ...r,
+      id: r.id,
+      tag: r.tag,
+      role: r.role,
       runId: r.runId as number,
-      stagesWeighed: [...new Set(mine.map((w) => w.stage))],
-      dryingChecks: mine.filter((w) => w.stage === 'drying-check').map((w) => ({ at: w.measuredAt, massG: w.massG })),
-      thicknessMm: dim?.thicknessMm ?? null,
+      speciesId: r.speciesId,
+      speciesName: r.speciesName,
+      stagesWeighed: WEIGHING_STAGES.filter((st) => has[st]),
+      dryingChecks,
+      thicknessMm: r.thicknessMm,
     };
   });
+}
+
+/** Coupons per run, from the results table: one grouped query. */
+export function couponCountsOfRuns(db: Db, runIds: number[]): Map<number, number> {
+  if (runIds.length === 0) return new Map();
+  const rows = db
+    .select({ runId: couponResults.runId, n: count() })
+    .from(couponResults)
+    .where(inIds(couponResults.runId, runIds))
+    .groupBy(couponResults.runId)
+    .all();
+  return new Map(rows.map((r) => [r.runId as number, r.n]));
+}
+
+/**
+ * Per run, the coupons still waiting for a weighing of `stage` (soaked and cured: treated coupons only),
+ * counted, and the first `shown` of them by tag. Two grouped queries over the results table.
+ */
+export function couponsWaitingOfRuns(
+  db: Db,
+  wanted: { runId: number; stage: 'dry' | 'soaked' | 'cured' }[],
+  shown: number,
+): Map<number, { count: number; first: { id: number; tag: string }[] }> {
+  const out = new Map<number, { count: number; first: { id: number; tag: string }[] }>();
+  for (const stage of ['dry', 'soaked', 'cured'] as const) {
+    const ids = wanted.filter((w) => w.stage === stage).map((w) => w.runId);
+    if (ids.length === 0) continue;
+    const mass = stage === 'dry' ? couponResults.dryMassG : stage === 'soaked' ? couponResults.soakedMassG : couponResults.curedMassG;
+    const waiting = and(inIds(couponResults.runId, ids), isNull(mass), stage === 'dry' ? undefined : eq(couponResults.role, 'treated'));
+    const counts = db.select({ runId: couponResults.runId, n: count() }).from(couponResults).where(waiting).groupBy(couponResults.runId).all();
+    for (const c of counts) out.set(c.runId as number, { count: c.n, first: [] });
+    // The first few of each run by tag: a window over the (run, tag) order, so no run's list is loaded whole.
+    const first = db.all<{ runId: number; id: number; tag: string }>(
+      sql`select run_id as runId, coupon_id as id, tag from (
+            select run_id, coupon_id, tag, row_number() over (partition by run_id order by tag) as n
+            from coupon_results where ${waiting}
+          ) where n <= ${shown} order by run_id, tag`,
+    );
+    for (const f of first) out.get(f.runId)?.first.push({ id: f.id, tag: f.tag });
+  }
+  return out;
+}
+
+/** The highest audit entry id: every write of the records adds one, so it changes whenever they do. */
+export function lastAuditId(db: Db): number {
+  return db.get<{ id: number | null }>(sql`select max(id) as id from audit_log`)?.id ?? 0;
 }
 
 export function findCouponsByIds(db: Db, ids: number[]) {
@@ -128,6 +218,20 @@ export function couponsWithTreatmentWeighings(db: Db, ids: number[]): Set<number
 export function photosOfRun(db: Db, runId: number): PhotoOut[] {
   return db.select().from(photos).where(eq(photos.runId, runId)).orderBy(asc(photos.id)).all().map(toPhotoOut);
 }
+
+/** The picker's light list: id, code and a label, newest first. */
+export function runOptions(db: Db, q: OptionsQuery): Option[] {
+  const rows = db
+    .select({ id: runs.id, code: runs.code, chamber: runs.chamber })
+    .from(runs)
+    .where(q.q ? or(containsText(runs.code, q.q), containsText(runs.chamber, q.q)) : undefined)
+    .orderBy(desc(runs.id))
+    .limit(q.limit)
+    .all();
+  return rows.map((r) => ({ id: r.id, code: r.code, label: `${r.code} · ${r.chamber}` }));
+}
+
+const containsText = (col: SQLiteColumn, q: string) => sql`${col} like ${`%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`} escape '\\'`;
 
 // ───────── writes of the runs service (its list and reads query through the functions above) ─────────
 

@@ -1,7 +1,10 @@
 import type { FeatureDeps } from '../../deps';
 import { secureRouter } from '../../http/routes';
 import { idParamsSchema } from '../../../shared/schemas/common';
-import { benchQuerySchema, createRunSchema, recordStageSchema, runListQuerySchema, updateRunSchema } from '../../../shared/schemas/runs';
+import { benchQuerySchema, createRunSchema, recordStageSchema, runExportQuerySchema, runListQuerySchema, updateRunSchema } from '../../../shared/schemas/runs';
+import { optionsQuerySchema } from '../../../shared/schemas/options';
+import { sendCsv } from '../../http/csv-export';
+import { runOptions } from './runs.repo';
 import { correctStageSchema, runStageParamsSchema } from '../../../shared/schemas/runs';
 import { createStageCorrections } from './stage-corrections';
 import { createBenchService } from './bench.service';
@@ -15,6 +18,11 @@ export function runsRoutes(deps: FeatureDeps) {
   const r = secureRouter();
 
   r.get('/runs', { access: 'viewer', schemas: { query: runListQuerySchema } }, ({ query }) => service.list(query));
+  // Declared before /runs/:id so "export.csv" and "options" are never taken for an id.
+  r.get('/runs/export.csv', { access: 'viewer', schemas: { query: runExportQuerySchema } }, ({ query, res }) =>
+    sendCsv(res, 'runs.csv', service.exportRows(query)),
+  );
+  r.get('/runs/options', { access: 'viewer', schemas: { query: optionsQuerySchema } }, ({ query }) => ({ items: runOptions(deps.database.db, query) }));
   r.post('/runs', { access: 'technician', status: 201, schemas: { body: createRunSchema } }, ({ user, body }) => ({ run: service.create(user, body) }));
   r.get('/runs/:id', { access: 'viewer', schemas: { params: idParamsSchema } }, ({ user, params }) => ({ run: service.get(params.id, user.units) }));
   r.patch('/runs/:id', { access: 'technician', schemas: { params: idParamsSchema, body: updateRunSchema } }, ({ user, params, body }) => ({

@@ -1,4 +1,5 @@
-import { and, asc, count, desc, eq, exists, isNotNull, notExists } from 'drizzle-orm';
+import { and, asc, count, desc, eq, exists, inArray, isNotNull, not, or, sql } from 'drizzle-orm';
+import type { SQLiteColumn } from 'drizzle-orm/sqlite-core';
 import type { FeatureDeps } from '../../deps';
 import type { Db } from '../../db/client';
 import { writeAudit } from '../../db/audit';
@@ -13,6 +14,7 @@ import type {
   GaugeReadingInput,
   RecordStageInput,
   RunDetail,
+  RunExportQuery,
   RunListQuery,
   RunStageOut,
   RunSummary,
@@ -25,8 +27,10 @@ import { checkStage, runProgress, STAGE_LABELS, startableStages, type StageTimes
 import { dueItems } from '../../../shared/runs/timers';
 import { insertReadingRow, updateReadingRow, updateStageRow } from './stage-corrections.repo';
 import {
+  couponCountsOfRuns,
   countRunCodesStartingWith,
   couponsOfRuns,
+  lastAuditId,
   couponsWithTreatmentWeighings,
   findCouponsByIds,
   findLot,
@@ -48,7 +52,10 @@ import {
   type StageRow,
 } from './runs.repo';
 
-const SORTS = { id: runs.id, code: runs.code, createdAt: runs.createdAt } as const;
+const SORTS = { id: runs.id, code: runs.code, chamber: runs.chamber, createdAt: runs.createdAt } as const;
+/** Rows per query while a CSV export is written. */
+const EXPORT_PAGE = 200;
+const likeEscaped = (col: SQLiteColumn, q: string) => sql`${col} like ${`%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`} escape '\\'`;
 
 export function toStageTimes(s: StageRow): StageTimes & { ovenSetC: number | null; ovenMeasuredC: number | null } {
   return { stage: s.stage, startedAt: s.startedAt, endedAt: s.endedAt, plannedMinutes: s.plannedMinutes, ovenSetC: s.ovenSetC, ovenMeasuredC: s.ovenMeasuredC };
@@ -322,57 +329,85 @@ export function createRunsService(deps: FeatureDeps) {
     );
   }
 
-  function list(q: RunListQuery): { items: RunSummary[]; page: number; pageSize: number; total: number } {
-    const sortKey = (q.sort ?? '-id').replace(/^-/, '');
-    const column = SORTS[sortKey as keyof typeof SORTS];
-    if (!column) throw new ValidationFailed(`Cannot sort runs by ${sortKey}`, { sort: [`Sort by one of ${Object.keys(SORTS).join(', ')}`] });
-    const direction = q.sort?.startsWith('-') || q.sort === undefined ? desc : asc;
-    const anyStage = exists(db.select({ one: runStages.id }).from(runStages).where(eq(runStages.runId, runs.id)));
-    const cureEnded = exists(
-      db
-        .select({ one: runStages.id })
-        .from(runStages)
-        .where(and(eq(runStages.runId, runs.id), eq(runStages.stage, 'cure'), isNotNull(runStages.endedAt))),
-    );
-    const cureNotEnded = notExists(
-      db
-        .select({ one: runStages.id })
-        .from(runStages)
-        .where(and(eq(runStages.runId, runs.id), eq(runStages.stage, 'cure'), isNotNull(runStages.endedAt))),
-    );
+  /** The list's WHERE: status, latest stage, lot and search (shared by the page and the CSV export). */
+  function listWhere(q: RunExportQuery) {
+    const stageExists = (stages: readonly RunStage[], ended?: boolean) =>
+      exists(
+        db
+          .select({ one: runStages.id })
+          .from(runStages)
+          .where(and(eq(runStages.runId, runs.id), inArray(runStages.stage, [...stages]), ended ? isNotNull(runStages.endedAt) : undefined)),
+      );
+    const cureEnded = stageExists(['cure'], true);
+    const later = q.stage ? RUN_STAGES.slice(RUN_STAGES.indexOf(q.stage) + 1) : [];
     const filters = [
       q.resinLotId === undefined ? undefined : eq(runs.resinLotId, q.resinLotId),
-      q.status === 'planned' ? notExists(db.select({ one: runStages.id }).from(runStages).where(eq(runStages.runId, runs.id))) : undefined,
-      q.status === 'in-progress' ? and(anyStage, cureNotEnded) : undefined,
+      q.status === 'planned' ? not(stageExists(RUN_STAGES)) : undefined,
+      q.status === 'in-progress' ? and(stageExists(RUN_STAGES), not(cureEnded)) : undefined,
       q.status === 'finished' ? cureEnded : undefined,
-      q.status === 'open' ? cureNotEnded : undefined,
+      q.status === 'open' ? not(cureEnded) : undefined,
+      q.stage ? and(stageExists([q.stage]), later.length ? not(stageExists(later)) : undefined) : undefined,
+      q.q ? or(likeEscaped(runs.code, q.q), likeEscaped(runs.chamber, q.q)) : undefined,
     ].filter((f) => f !== undefined);
-    const where = filters.length ? and(...filters) : undefined;
-    const rows = db
-      .select()
-      .from(runs)
-      .where(where)
-      .orderBy(direction(column), desc(runs.id))
-      .limit(q.pageSize)
-      .offset((q.page - 1) * q.pageSize)
-      .all();
-    const total = db.select({ n: count() }).from(runs).where(where).get()?.n ?? 0;
+    return filters.length ? and(...filters) : undefined;
+  }
+
+  function listOrder(sort: string | undefined) {
+    const key = (sort ?? '-id').replace(/^-/, '') as keyof typeof SORTS;
+    const direction = sort === undefined || sort.startsWith('-') ? desc : asc;
+    return [direction(SORTS[key] ?? runs.id), desc(runs.id)];
+  }
+
+  // The rule checks' counts per run, remembered until the next audited write (every change to a run,
+  // a coupon, a reading, a lot or the settings writes one) or the next minute (time-based rules), so a
+  // list read does not walk every coupon and drying check of the page's runs each time.
+  let countsMemo = { auditId: -1, minute: -1, byRun: new Map<number, RunSummary['checkCounts']>() };
+
+  function checkCountsOf(rows: RunRow[], stagesByRun: Map<number, StageRow[]>, lots: Map<number, LotWithResin>, now: Date) {
+    const auditId = lastAuditId(db);
+    const minute = Math.floor(now.getTime() / 60_000);
+    if (countsMemo.auditId !== auditId || countsMemo.minute !== minute) countsMemo = { auditId, minute, byRun: new Map() };
+    const memo = countsMemo.byRun;
+    const missing = rows.filter((r) => !memo.has(r.id));
+    if (missing.length) {
+      const byRun = new Map<number, RunCouponInfo[]>();
+      for (const c of couponsOfRuns(
+        db,
+        missing.map((r) => r.id),
+      )) {
+        const list = byRun.get(c.runId);
+        if (list) list.push(c);
+        else byRun.set(c.runId, [c]);
+      }
+      for (const run of missing) {
+        const lot = run.resinLotId === null ? undefined : lots.get(run.resinLotId);
+        const counts = { ok: 0, warn: 0, fail: 0, pending: 0 };
+        for (const c of checksFor(run, stagesByRun.get(run.id) ?? [], lot, byRun.get(run.id) ?? [], now)) counts[c.status]++;
+        memo.set(run.id, counts);
+      }
+    }
+    return memo;
+  }
+
+  function summaries(rows: RunRow[]): RunSummary[] {
     const ids = rows.map((r) => r.id);
-    const allStages = stagesOf(db, ids);
-    const allCoupons = couponsOfRuns(db, ids);
+    const stagesByRun = new Map<number, StageRow[]>();
+    for (const st of stagesOf(db, ids)) {
+      const list = stagesByRun.get(st.runId);
+      if (list) list.push(st);
+      else stagesByRun.set(st.runId, [st]);
+    }
+    const couponCounts = couponCountsOfRuns(db, ids);
     const lots = lotsByIds(
       db,
       rows.map((r) => r.resinLotId).filter((x): x is number => x !== null),
     );
     const now = deps.now();
-    const items = rows.map((run): RunSummary => {
-      const stages = allStages.filter((s) => s.runId === run.id);
-      const couponInfo = allCoupons.filter((c) => c.runId === run.id);
+    const counts = checkCountsOf(rows, stagesByRun, lots, now);
+    return rows.map((run): RunSummary => {
+      const stages = stagesByRun.get(run.id) ?? [];
       const lot = run.resinLotId === null ? undefined : lots.get(run.resinLotId);
       const times = stages.map(toStageTimes);
-      const checks = checksFor(run, stages, lot, couponInfo, now);
-      const counts = { ok: 0, warn: 0, fail: 0, pending: 0 };
-      for (const c of checks) counts[c.status]++;
       const first = [...stages].sort((a, b) => a.startedAt.localeCompare(b.startedAt))[0];
       return {
         id: run.id,
@@ -382,15 +417,77 @@ export function createRunsService(deps: FeatureDeps) {
         lotCode: lot?.lot.code ?? null,
         resinName: lot?.resin.name ?? null,
         altitudeM: run.altitudeM,
-        couponCount: couponInfo.length,
+        couponCount: couponCounts.get(run.id) ?? 0,
         progress: runProgress(times),
         startedAt: first?.startedAt ?? null,
         nextDue: dueItems(times, now).next,
-        checkCounts: counts,
+        checkCounts: counts.get(run.id) ?? { ok: 0, warn: 0, fail: 0, pending: 0 },
         createdAt: run.createdAt,
       };
     });
-    return { items, page: q.page, pageSize: q.pageSize, total };
+  }
+
+  function list(q: RunListQuery): { items: RunSummary[]; page: number; pageSize: number; total: number } {
+    const where = listWhere(q);
+    const rows = db
+      .select()
+      .from(runs)
+      .where(where)
+      .orderBy(...listOrder(q.sort))
+      .limit(q.pageSize)
+      .offset((q.page - 1) * q.pageSize)
+      .all();
+    const total = db.select({ n: count() }).from(runs).where(where).get()?.n ?? 0;
+    return { items: summaries(rows), page: q.page, pageSize: q.pageSize, total };
+  }
+
+  /** Every run the list's filters match, a page at a time, as CSV rows after a header. */
+  function* exportRows(q: RunExportQuery): Generator<(string | number | null)[]> {
+    yield [
+      'code',
+      'chamber',
+      'resin',
+      'lot',
+      'altitude_m',
+      'coupons',
+      'stage',
+      'started_at',
+      'checks_ok',
+      'checks_warn',
+      'checks_fail',
+      'checks_pending',
+      'created_at',
+    ];
+    const where = listWhere(q);
+    const order = listOrder(q.sort);
+    for (let offset = 0; ; offset += EXPORT_PAGE) {
+      const rows = db
+        .select()
+        .from(runs)
+        .where(where)
+        .orderBy(...order)
+        .limit(EXPORT_PAGE)
+        .offset(offset)
+        .all();
+      for (const r of summaries(rows)) {
+        yield [
+          r.code,
+          r.chamber,
+          r.resinName,
+          r.lotCode,
+          r.altitudeM,
+          r.couponCount,
+          r.progress.current,
+          r.startedAt,
+          r.checkCounts.ok,
+          r.checkCounts.warn,
+          r.checkCounts.fail,
+          r.checkCounts.pending,
+          r.createdAt,
+        ];
+      }
+      if (rows.length < EXPORT_PAGE) return;
+    }
   }
 
   function get(id: number, units?: UnitChoice): RunDetail {
@@ -540,5 +637,5 @@ export function createRunsService(deps: FeatureDeps) {
     return { runId: id, checks: get(id, units).checks };
   }
 
-  return { list, get, create, update, recordStage, checks, detail, checksFor };
+  return { list, exportRows, get, create, update, recordStage, checks, detail, checksFor };
 }

@@ -2,10 +2,12 @@ import { and, asc, count, desc, eq, inArray, like, or, sql, type SQL } from 'dri
 import type { SQLiteColumn } from 'drizzle-orm/sqlite-core';
 import type { Db } from '../../db/client';
 import { coupons } from '../../db/schema/coupons';
+import { couponResults } from '../../db/schema/results';
 import { resins, species } from '../../db/schema/reference';
 import { trialConditions, trials } from '../../db/schema/trials';
 import { runs } from '../../db/schema/runs';
 import type { TrialListQuery } from '../../../shared/schemas/trials';
+import type { Option, OptionsQuery } from '../../../shared/schemas/options';
 
 export type TrialRow = typeof trials.$inferSelect;
 export type ConditionRow = typeof trialConditions.$inferSelect;
@@ -28,12 +30,7 @@ export function listTrials(db: Db, q: TrialListQuery) {
     q.status ? eq(trials.status, q.status) : undefined,
   );
   const rows = db
-    .select({
-      trial: trials,
-      // Spelled out: drizzle leaves columns unqualified inside select fields, which a correlated subquery cannot use.
-      conditionCount: sql<number>`(select count(*) from trial_conditions tc where tc.trial_id = "trials"."id")`,
-      couponCount: sql<number>`(select count(*) from coupons c where c.trial_id = "trials"."id")`,
-    })
+    .select({ trial: trials })
     .from(trials)
     .where(where)
     .orderBy(...orderOf(q.sort))
@@ -191,4 +188,57 @@ export function labelRows(db: Db, trialId: number) {
     .where(eq(coupons.trialId, trialId))
     .orderBy(asc(coupons.id))
     .all();
+}
+
+const inIds = (col: SQLiteColumn, ids: readonly number[]) => sql`${col} in (select value from json_each(${JSON.stringify(ids)}))`;
+
+/** Per trial: its conditions, distinct species and resins in the grid, and the treated coupons it plans. */
+export function gridCountsOf(db: Db, trialIds: number[]) {
+  if (trialIds.length === 0) return new Map<number, { conditions: number; species: number; resins: number; wanted: number }>();
+  const rows = db
+    .select({
+      trialId: trialConditions.trialId,
+      conditions: count(),
+      species: sql<number>`count(distinct ${trialConditions.speciesId})`,
+      resins: sql<number>`count(distinct ${trialConditions.resinId})`,
+      wanted: sql<number>`coalesce(sum(${trialConditions.couponsWanted}), 0)`,
+    })
+    .from(trialConditions)
+    .where(inIds(trialConditions.trialId, trialIds))
+    .groupBy(trialConditions.trialId)
+    .all();
+  return new Map(rows.map((r) => [r.trialId, r]));
+}
+
+/**
+ * Per trial, from the results table in one grouped query: coupons created, and coupons done (a treated
+ * coupon of a condition once weighed after cure, an untreated control once weighed dry), counted as the
+ * trial page counts them.
+ */
+export function couponCountsOf(db: Db, trialIds: number[]) {
+  if (trialIds.length === 0) return new Map<number, { created: number; done: number }>();
+  const r = couponResults;
+  const rows = db
+    .select({
+      trialId: r.trialId,
+      created: count(),
+      done: sql<number>`coalesce(sum(case when (${r.conditionId} is not null and ${r.curedMassG} is not null) or (${r.conditionId} is null and ${r.role} = 'control' and ${r.dryMassG} is not null) then 1 else 0 end), 0)`,
+    })
+    .from(r)
+    .where(inIds(r.trialId, trialIds))
+    .groupBy(r.trialId)
+    .all();
+  return new Map(rows.map((x) => [x.trialId as number, { created: x.created, done: Number(x.done) }]));
+}
+
+/** The picker's light list: id, code and a label, newest first. */
+export function trialOptions(db: Db, q: OptionsQuery): Option[] {
+  const rows = db
+    .select({ id: trials.id, code: trials.code, title: trials.title })
+    .from(trials)
+    .where(q.q ? or(likeEscaped(trials.code, q.q), likeEscaped(trials.title, q.q)) : undefined)
+    .orderBy(desc(trials.createdAt), desc(trials.id))
+    .limit(q.limit)
+    .all();
+  return rows.map((t) => ({ id: t.id, code: t.code, label: `${t.code} · ${t.title}` }));
 }

@@ -1,7 +1,10 @@
 import type { FeatureDeps } from '../../deps';
 import { secureRouter } from '../../http/routes';
 import { idParamsSchema } from '../../../shared/schemas/common';
-import { createTrialSchema, trialListQuerySchema, updateTrialSchema } from '../../../shared/schemas/trials';
+import { createTrialSchema, trialExportQuerySchema, trialListQuerySchema, updateTrialSchema } from '../../../shared/schemas/trials';
+import { optionsQuerySchema } from '../../../shared/schemas/options';
+import { sendCsv } from '../../http/csv-export';
+import { trialOptions } from './trials.repo';
 import { createTrialsService } from './trials.service';
 
 export function trialsRoutes(deps: FeatureDeps) {
@@ -9,6 +12,13 @@ export function trialsRoutes(deps: FeatureDeps) {
   const r = secureRouter();
 
   r.get('/trials', { access: 'viewer', schemas: { query: trialListQuerySchema } }, ({ query }) => service.listTrials(query));
+  // Declared before /trials/:id so "export.csv" and "options" are never taken for an id.
+  r.get('/trials/export.csv', { access: 'viewer', schemas: { query: trialExportQuerySchema } }, ({ query, res }) =>
+    sendCsv(res, 'trials.csv', service.exportRows(query)),
+  );
+  r.get('/trials/options', { access: 'viewer', schemas: { query: optionsQuerySchema } }, ({ query }) => ({
+    items: trialOptions(deps.database.db, query),
+  }));
   r.post('/trials', { access: 'technician', status: 201, schemas: { body: createTrialSchema } }, ({ user, body }) => ({
     trial: service.createTrial(user, body),
   }));

@@ -12,6 +12,7 @@ import type {
   LabelSheet,
   Progress,
   Trial,
+  TrialExportQuery,
   TrialListQuery,
   TrialSummary,
   UpdateTrialInput,
@@ -19,6 +20,10 @@ import type {
 import { conditionLabel, planningWarnings } from '../../../shared/trials/planning';
 import { assignCodes, controlTag, parseTag, resinCode, speciesCode, treatedTag, trialCode, trialCounter } from '../../../shared/trials/tags';
 import * as repo from './trials.repo';
+import type { TrialRow } from './trials.repo';
+
+/** Rows per query while a CSV export is written. */
+const EXPORT_PAGE = 200;
 import { labelAddress } from '../../../shared/trials/label-address';
 import { readShopSettings } from '../../db/shop-settings';
 
@@ -157,33 +162,47 @@ export function createTrialsService(deps: TrialsServiceDeps) {
     };
   }
 
+  /** One summary per trial row: grid and progress counts in two grouped queries for the whole page. */
+  function summaries(rows: TrialRow[]): TrialSummary[] {
+    const ids = rows.map((t) => t.id);
+    const grids = repo.gridCountsOf(db, ids);
+    const counts = repo.couponCountsOf(db, ids);
+    return rows.map((t) => {
+      const g = grids.get(t.id) ?? { conditions: 0, species: 0, resins: 0, wanted: 0 };
+      const c = counts.get(t.id) ?? { created: 0, done: 0 };
+      return {
+        id: t.id,
+        code: t.code,
+        title: t.title,
+        question: t.question,
+        status: t.status,
+        controlsPerSpecies: t.controlsPerSpecies,
+        conditionCount: g.conditions,
+        couponCount: c.created,
+        speciesCount: g.species,
+        resinCount: g.resins,
+        plannedCount: Number(g.wanted) + g.species * t.controlsPerSpecies,
+        doneCount: c.done,
+        createdAt: t.createdAt,
+      };
+    });
+  }
+
   function listTrials(q: TrialListQuery): List<TrialSummary> {
     const { rows, total } = repo.listTrials(db, q);
-    return {
-      // One page of trials, each summarised from its full record: a few small queries per row on the
-      // local database, and the list shows grid size and progress without a request per trial.
-      items: rows.map(({ trial: t }) => {
-        const full = getTrial(t.id);
-        return {
-          id: full.id,
-          code: full.code,
-          title: full.title,
-          question: full.question,
-          status: full.status,
-          controlsPerSpecies: full.controlsPerSpecies,
-          conditionCount: full.conditionCount,
-          couponCount: full.couponCount,
-          speciesCount: full.speciesCount,
-          resinCount: full.resinCount,
-          plannedCount: full.plannedCount,
-          doneCount: full.doneCount,
-          createdAt: full.createdAt,
-        };
-      }),
-      page: q.page,
-      pageSize: q.pageSize,
-      total,
-    };
+    return { items: summaries(rows.map((r) => r.trial)), page: q.page, pageSize: q.pageSize, total };
+  }
+
+  /** Every trial the list's filters match, a page at a time, as CSV rows after a header. */
+  function* exportRows(q: TrialExportQuery): Generator<(string | number | null)[]> {
+    yield ['code', 'title', 'status', 'question', 'conditions', 'species', 'resins', 'planned', 'coupons', 'done', 'created_at'];
+    for (let page = 1; ; page++) {
+      const { rows } = repo.listTrials(db, { ...q, page, pageSize: EXPORT_PAGE });
+      for (const t of summaries(rows.map((r) => r.trial))) {
+        yield [t.code, t.title, t.status, t.question, t.conditionCount, t.speciesCount, t.resinCount, t.plannedCount, t.couponCount, t.doneCount, t.createdAt];
+      }
+      if (rows.length < EXPORT_PAGE) return;
+    }
   }
 
   function createTrial(actor: Pick<User, 'id'>, input: CreateTrialInput): Trial {
@@ -370,6 +389,14 @@ export function createTrialsService(deps: TrialsServiceDeps) {
     return { trial: { id: trial.id, code: trial.code, title: trial.title }, address, labels: out };
   }
 
-  return { listTrials, getTrial: (id: number, units?: UnitChoice) => getTrial(id, db, units), createTrial, updateTrial, createPlannedCoupons, labels };
+  return {
+    listTrials,
+    exportRows,
+    getTrial: (id: number, units?: UnitChoice) => getTrial(id, db, units),
+    createTrial,
+    updateTrial,
+    createPlannedCoupons,
+    labels,
+  };
 }
 export type TrialsService = ReturnType<typeof createTrialsService>;

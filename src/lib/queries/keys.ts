@@ -16,18 +16,26 @@ export const queryKeys = {
   },
   species: {
     all: ['species'] as const,
+    /** The light picker list (`/options`). */
+    options: () => ['species', 'options'] as const,
     list: (q: Partial<SpeciesListQuery>) => ['species', 'list', q] as const,
   },
   resins: {
     all: ['resins'] as const,
+    /** The light picker list (`/options`). */
+    options: () => ['resins', 'options'] as const,
     list: (q: Partial<ResinListQuery>) => ['resins', 'list', q] as const,
   },
   lots: {
     all: ['resin-lots'] as const,
+    /** The light picker list (`/options`). */
+    options: () => ['resin-lots', 'options'] as const,
     list: (q: Partial<ResinLotListQuery>) => ['resin-lots', 'list', q] as const,
   },
   trials: {
     all: ['trials'] as const,
+    /** The light picker list (`/options`). */
+    options: () => ['trials', 'options'] as const,
     lists: () => ['trials', 'list'] as const,
     list: (q: Partial<TrialListQuery>) => ['trials', 'list', q] as const,
     detail: (id: number) => ['trials', 'detail', id] as const,
@@ -35,6 +43,8 @@ export const queryKeys = {
   },
   runs: {
     all: ['runs'] as const,
+    /** The light picker list (`/options`). */
+    options: () => ['runs', 'options'] as const,
     lists: () => ['runs', 'list'] as const,
     list: (q: Partial<RunListQuery>) => ['runs', 'list', q] as const,
     detail: (id: number) => ['runs', 'detail', id] as const,

@@ -6,8 +6,8 @@ import { COUPON_SORTS, COUPON_WAITING_FOR, type CouponListQuery, type CouponWait
 import { ExportLink, FilterSelect, Pager, SearchBox, SortHeader } from '../../../components/ui/list-tools';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
 import { queryOf, useListParams } from '../../../lib/list-params';
-import { couponListQuery, runListQuery, trialListQuery, trialQuery } from '../../../lib/queries/records';
-import { speciesListQuery } from '../../../lib/queries/reference';
+import { couponListQuery, trialQuery } from '../../../lib/queries/records';
+import { runOptionsQuery, speciesOptionsQuery, trialOptionsQuery } from '../../../lib/queries/options';
 import { useUnits } from '../../../lib/use-units';
 import { gridCouponsQuery, type GridScope } from '../api/coupons-queries';
 import { EntryGrid } from './entry-grid';
@@ -122,9 +122,9 @@ export function couponFiltersOf(
 export function CouponsScreen() {
   const list = useListParams();
   const filters = couponFiltersOf(list.get, list.getId);
-  const trials = useQuery(trialListQuery());
-  const runs = useQuery(runListQuery());
-  const species = useQuery(speciesListQuery());
+  const trials = useQuery(trialOptionsQuery());
+  const runs = useQuery(runOptionsQuery());
+  const species = useQuery(speciesOptionsQuery());
   const trial = useQuery({ ...trialQuery(filters.trialId ?? 0), enabled: filters.trialId !== undefined });
   const { set } = list;
   const onSearch = useCallback((q: string) => set({ q }), [set]);
@@ -153,7 +153,7 @@ export function CouponsScreen() {
           any="Any trial"
           value={filters.trialId}
           onChange={(v) => set({ trialId: v, conditionId: null })}
-          options={(trials.data?.items ?? []).map((t) => ({ value: t.id, label: `${t.code} · ${t.title}` }))}
+          options={(trials.data ?? []).map((t) => ({ value: t.id, label: t.label }))}
         />
         {filters.trialId !== undefined && (
           <FilterSelect
@@ -171,7 +171,7 @@ export function CouponsScreen() {
           any="Any run"
           value={filters.runId}
           onChange={(v) => set({ runId: v })}
-          options={(runs.data?.items ?? []).map((r) => ({ value: r.id, label: `${r.code} · ${r.chamber}` }))}
+          options={(runs.data ?? []).map((r) => ({ value: r.id, label: r.label }))}
         />
         <FilterSelect
           className="mb-3"
@@ -179,7 +179,7 @@ export function CouponsScreen() {
           any="Any species"
           value={filters.speciesId}
           onChange={(v) => set({ speciesId: v })}
-          options={(species.data?.items ?? []).map((sp) => ({ value: sp.id, label: sp.commonName }))}
+          options={(species.data ?? []).map((sp) => ({ value: sp.id, label: sp.label }))}
         />
         <FilterSelect
           className="mb-3"

@@ -29,8 +29,8 @@ import { useSaveMeasurements } from '../api/use-save-measurements';
 import { useGridContext } from '../hooks/use-grid-context';
 import { useGridKeyboard } from '../hooks/use-grid-keyboard';
 import { useActiveColumn, useGridDrafts, useGridSummary, useRowState } from '../hooks/use-grid-store';
-import { rowEntryWarnings, type ConditionTag } from './grid-annotations';
-import { ENTRY_COLUMNS, isLocked, savable, showStored, storedValue, type Drafts, type EntryColumn, type RowModel } from './grid-model';
+import { gridEntryWarnings, rowEntryWarnings, type ConditionTag } from './grid-annotations';
+import { columnIndexOf, ENTRY_COLUMNS, isLocked, savable, showStored, storedValue, type Drafts, type EntryColumn, type RowModel } from './grid-model';
 import { GridStore, type RowState } from './grid-store';
 import { parseClipboard, pasteSummary, planPaste } from './paste-plan';
 import { dropSaved, mergeRefusals, nothingSavedText, prepareSave, refusalsFrom, refusedText, savedText } from './save-plan';
@@ -508,6 +508,7 @@ export function EntryGrid({
         </p>
       </div>
       <ProblemList store={store} onGo={focusCell} />
+      <WarningList store={store} runs={runs} onGo={focusCell} />
       <p id="grid-help" className="mb-2 text-xs text-ink-faint">
         Tab and Shift+Tab move across, Enter and Shift+Enter down and up, arrow keys, Home and End at the edge of the text, Page Up and Page Down by a
         screenful, Ctrl+Home and Ctrl+End to the first and last cell; paste a block copied from a spreadsheet into a cell to fill it and the cells below; Ctrl+S
@@ -668,6 +669,45 @@ function ProblemList({ store, onGo }: { store: GridStore; onGo: (r: number, c: n
           <li key={i.key}>
             <button type="button" className="text-left text-margin underline decoration-margin/40 underline-offset-2" onClick={() => onGo(i.r, i.c)}>
               {i.text}
+            </button>
+          </li>
+        ))}
+      </ul>
+    </div>
+  );
+}
+
+/**
+ * Typed weighings the runs' recorded stages contradict, grouped, above the grid: the row's own note may be out
+ * of view while typing. A warning only: the save goes ahead if the user means it.
+ */
+function WarningList({ store, runs, onGo }: { store: GridStore; runs: Map<number, RunOfCoupon>; onGo: (r: number, c: number) => void }) {
+  const drafts = useGridDrafts(store);
+  const warnings = useMemo(() => {
+    const typed = Object.keys(drafts)
+      .map((id) => store.coupons[store.indexOf(Number(id))])
+      .filter((c): c is CouponOut => c !== undefined)
+      .map((c) => store.row(c).model);
+    return gridEntryWarnings(typed, (c) => (c.runId === null ? null : runs.get(c.runId)), new Date().toISOString());
+  }, [drafts, runs, store]);
+  if (warnings.length === 0) return null;
+  const go = (couponId: number, columnId: string) => {
+    const r = store.indexOf(couponId);
+    if (r >= 0) onGo(r, columnIndexOf(columnId));
+  };
+  return (
+    <div className="mb-3 rounded border border-amber-ink/50 bg-amber-light/20 px-3 py-2 text-sm">
+      <p className="font-semibold text-amber-ink">Check before saving (saving is still allowed):</p>
+      <ul className="mt-1 space-y-0.5">
+        {warnings.map((w) => (
+          <li key={`${w.code}-${w.couponIds.join(',')}-${w.message}`}>
+            {w.message}{' '}
+            <button
+              type="button"
+              className="text-amber-ink underline decoration-amber-ink/40 underline-offset-2"
+              onClick={() => go(w.couponIds[0]!, w.columnId)}
+            >
+              Go to {store.coupons[store.indexOf(w.couponIds[0]!)]?.tag ?? 'the coupon'}
             </button>
           </li>
         ))}

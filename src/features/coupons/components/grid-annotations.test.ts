@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { conditionTags, rowEntryWarnings } from './grid-annotations';
+import { conditionTags, gridEntryWarnings, rowEntryWarnings } from './grid-annotations';
 import { rowModel } from './grid-model';
 import { converter, testCoupon } from './grid-test-coupon';
 
@@ -45,5 +45,18 @@ describe('rowEntryWarnings', () => {
   it('warns about a soaked weight of a coupon in no run', () => {
     const [warning] = rowEntryWarnings(rowModel(testCoupon({ tag: 'C-2' }), { soaked: '25' }, metric, NOW), null, NOW);
     expect(warning).toMatch(/the coupon is in no run/);
+  });
+});
+
+describe('gridEntryWarnings', () => {
+  const drying = { code: 'R-9', stages: [{ stage: 'drying' as const, startedAt: '2026-02-28T08:00:00.000Z', endedAt: null }] };
+  it('groups the cured weights typed while one run is drying into one message naming the coupons', () => {
+    const models = [1, 2, 3].map((i) => rowModel(testCoupon({ id: 900 + i, tag: `G-${i}`, runId: 9 }), { dry: '20', cured: '25' }, metric, NOW));
+    const loading = rowModel(testCoupon({ id: 950, tag: 'G-X', runId: 10 }), { cured: '25' }, metric, NOW);
+    const warnings = gridEntryWarnings([...models, loading], (c) => (c.runId === 9 ? drying : undefined), NOW);
+    expect(warnings).toHaveLength(1);
+    expect(warnings[0]?.couponIds).toEqual([901, 902, 903]);
+    expect(warnings[0]?.columnId).toBe('cured');
+    expect(warnings[0]?.message).toMatch(/^3 cured weights \(G-1, G-2, G-3\): run R-9 is still at its drying stage/);
   });
 });

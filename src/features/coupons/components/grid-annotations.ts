@@ -1,5 +1,5 @@
 import type { WeighingStage } from '../../../../shared/constants/records';
-import { weighingWarnings, type RunOfCoupon } from '../../../../shared/runs/contradictions';
+import { weighingWarnings, type EntryWarning, type RunOfCoupon } from '../../../../shared/runs/contradictions';
 import type { Trial } from '../../../../shared/schemas/trials';
 import { ENTRY_COLUMNS, type RowModel } from './grid-model';
 
@@ -48,4 +48,27 @@ export function rowEntryWarnings(model: RowModel, run: RunOfCoupon | null | unde
   return weighingWarnings(stages.map((stage) => ({ couponId: coupon.id, tag: coupon.tag, role: coupon.role, stage, measuredAt: now, run }))).map(
     (w) => w.message,
   );
+}
+
+/**
+ * The same warnings over the whole grid, grouped (forty cured weights typed while one run is drying make one
+ * message naming the run and the coupons), for the list above the grid: the row's own note may be scrolled
+ * out of view while typing. Rows whose run is still loading are left out until it arrives.
+ */
+export function gridEntryWarnings(
+  models: readonly RowModel[],
+  runOf: (coupon: RowModel['coupon']) => RunOfCoupon | null | undefined,
+  now: string,
+): (EntryWarning & { columnId: string })[] {
+  // One pass per weighing column, so each warning knows the column it is about (to go to its cell).
+  return WEIGHING_COLUMNS.flatMap((col) => {
+    const entries = [];
+    for (const model of models) {
+      const run = runOf(model.coupon);
+      if (run === undefined || model.typed[col.id] === undefined) continue;
+      const { coupon } = model;
+      entries.push({ couponId: coupon.id, tag: coupon.tag, role: coupon.role, stage: col.stage as WeighingStage, measuredAt: now, run });
+    }
+    return weighingWarnings(entries).map((w) => ({ ...w, columnId: col.id }));
+  });
 }

@@ -2,8 +2,7 @@ import { useQuery } from '@tanstack/react-query';
 import { useEffect, useId, useRef, useState } from 'react';
 import type { Finding, UpdateFindingInput } from '../../../../shared/schemas/findings';
 import { ApiError } from '../../../lib/api-client';
-import { trialListQuery } from '../../../lib/queries/records';
-import { resinListQuery, speciesListQuery } from '../../../lib/queries/reference';
+import { resinOptionsQuery, speciesOptionsQuery, trialOptionsQuery } from '../../../lib/queries/options';
 import { useSaveFinding } from '../api/use-finding-mutations';
 
 type Content = Required<Omit<UpdateFindingInput, 'baseRevision'>>;
@@ -30,9 +29,9 @@ export function DraftEditor({ finding }: { finding: Finding }) {
   const revision = useRef(finding.revision);
   const pending = useRef<Content | null>(null);
   const save = useSaveFinding(finding.id);
-  const species = useQuery(speciesListQuery());
-  const resins = useQuery(resinListQuery());
-  const trials = useQuery(trialListQuery());
+  const species = useQuery(speciesOptionsQuery());
+  const resins = useQuery(resinOptionsQuery());
+  const trials = useQuery(trialOptionsQuery());
   const ids = useId();
 
   useEffect(() => {
@@ -118,9 +117,9 @@ export function DraftEditor({ finding }: { finding: Finding }) {
             value={content.speciesIds.map(String)}
             onChange={(e) => change({ speciesIds: picked(e) })}
           >
-            {species.data?.items.map((s) => (
+            {species.data?.map((s) => (
               <option key={s.id} value={s.id}>
-                {s.commonName}
+                {s.label}
               </option>
             ))}
           </select>
@@ -137,9 +136,9 @@ export function DraftEditor({ finding }: { finding: Finding }) {
             value={content.resinIds.map(String)}
             onChange={(e) => change({ resinIds: picked(e) })}
           >
-            {resins.data?.items.map((r) => (
+            {resins.data?.map((r) => (
               <option key={r.id} value={r.id}>
-                {r.name}
+                {r.label}
               </option>
             ))}
           </select>
@@ -156,9 +155,9 @@ export function DraftEditor({ finding }: { finding: Finding }) {
             value={content.trialIds.map(String)}
             onChange={(e) => change({ trialIds: picked(e) })}
           >
-            {trials.data?.items.map((t) => (
+            {trials.data?.map((t) => (
               <option key={t.id} value={t.id}>
-                {t.code} {t.title}
+                {t.label}
               </option>
             ))}
           </select>

@@ -10,7 +10,8 @@ import { DELIMITER_LABELS, IMPORT_DELIMITERS } from '../../../../shared/imports/
 import { IMPORT_MASS_UNITS, type ImportMassUnit } from '../../../../shared/imports/mass-units';
 import { importMappingSchema, type ImportColumn, type ImportDetail, type ImportFormat, type ImportMapping } from '../../../../shared/schemas/imports';
 import { ErrorNote } from '../../../components/ui/page';
-import { couponListQuery, runListQuery } from '../../../lib/queries/records';
+import { couponListQuery } from '../../../lib/queries/records';
+import { runOptionsQuery } from '../../../lib/queries/options';
 import { isBusy } from '../api/imports-queries';
 import { useCommit, usePreview, useSample, useSavePreset } from '../api/use-import-actions';
 
@@ -199,7 +200,7 @@ export function MappingForm({ d }: { d: ImportDetail }) {
   const preview = usePreview(d.id);
   const commit = useCommit(d.id);
   const savePreset = useSavePreset(d.id);
-  const runs = useQuery(runListQuery());
+  const runs = useQuery(runOptionsQuery());
   const form = useForm<FormValues>({ defaultValues: valuesOf(d, d.mapping) });
   const { register, watch, handleSubmit, setError, formState, reset } = form;
   const mode = watch('mode');
@@ -398,7 +399,7 @@ export function MappingForm({ d }: { d: ImportDetail }) {
                 aria-invalid={err('runId') ? true : undefined}
               >
                 <option value="">— choose the run —</option>
-                {runs.data?.items.map((r) => (
+                {runs.data?.map((r) => (
                   <option key={r.id} value={r.id}>
                     {r.code}
                   </option>

@@ -30,64 +30,40 @@ export function benchHref(item: BenchItem): string {
   return paths.coupon.href({ id: item.target.id }, { weigh: stage }, 'weighing-form');
 }
 
-interface Group {
-  key: string;
-  items: BenchItem[];
-}
-
-// Coupon items of one run and one weighing come as a group: a run of 30 coupons waiting for their
-// cured weighing is one job at the bench, not 30.
-function groupItems(items: readonly BenchItem[]): Group[] {
-  const groups = new Map<string, Group>();
-  for (const i of items) {
-    const key = i.couponId === null ? `${i.kind}:${i.runId}:${i.stage}:${i.dueAt}` : `${i.kind}:${i.runId}:${i.weighingStage}`;
-    const g = groups.get(key) ?? { key, items: [] };
-    g.items.push(i);
-    groups.set(key, g);
-  }
-  return [...groups.values()];
-}
-
-function GroupRow({ group, now }: { group: Group; now: Date }) {
-  const first = group.items[0] as BenchItem;
-  const many = group.items.length > 1;
-  let title: string;
+// The server sends one item per run and job: a run of 30 coupons waiting for their cured weighing is
+// one job at the bench, not 30; it names the first coupons and counts them all.
+function ItemRow({ item, now }: { item: BenchItem; now: Date }) {
+  const many = item.couponCount > 1;
   let action: string;
-  if (first.couponId === null) {
-    title = first.message;
-    action = first.kind === 'soak-minimum' ? 'Go to the soak' : `Record the end of ${STAGE_LABELS[first.stage ?? 'vacuum'].toLowerCase()}`;
-  } else if (first.kind === 'drying-check-due') {
-    title = many ? `${first.runCode}: ${group.items.length} coupons due a drying check` : first.message;
-    action = many ? `Weigh ${first.couponTag} first` : `Weigh ${first.couponTag}`;
+  if (item.couponId === null) {
+    action = item.kind === 'soak-minimum' ? 'Go to the soak' : `Record the end of ${STAGE_LABELS[item.stage ?? 'vacuum'].toLowerCase()}`;
+  } else if (item.kind === 'drying-check-due') {
+    action = many ? `Weigh ${item.couponTag} first` : `Weigh ${item.couponTag}`;
   } else {
-    const word = WEIGHING_WORDS[first.weighingStage ?? 'dry'];
-    title = many ? `${first.runCode}: ${group.items.length} coupons need a ${word} weighing` : first.message;
-    action = `Enter ${word} weights`;
+    action = `Enter ${WEIGHING_WORDS[item.weighingStage ?? 'dry']} weights`;
   }
-  const earliest = group.items
-    .map((i) => i.dueAt)
-    .filter((d): d is string => d !== null)
-    .sort()[0];
+  const more = item.couponCount - item.coupons.length;
   return (
     <li className="py-3">
       <div className="flex flex-wrap items-baseline justify-between gap-x-4 gap-y-1">
-        <p className="font-medium">{title}</p>
-        <p className="text-sm">{earliest ? <DueTime dueAt={earliest} now={now} /> : <span className="text-ink-soft">due now</span>}</p>
+        <p className="font-medium">{item.message}</p>
+        <p className="text-sm">{item.dueAt ? <DueTime dueAt={item.dueAt} now={now} /> : <span className="text-ink-soft">due now</span>}</p>
       </div>
       <p className="mt-1 text-sm">
-        <Link to={benchHref(first)}>{action}</Link>
+        <Link to={benchHref(item)}>{action}</Link>
         {' · '}
-        <Link to={paths.run.href({ id: first.runId })}>run {first.runCode}</Link>
+        <Link to={paths.run.href({ id: item.runId })}>run {item.runCode}</Link>
       </p>
       {many && (
         <details className="mt-1 text-sm">
-          <summary className="cursor-pointer text-ink-soft">The {group.items.length} coupons</summary>
+          <summary className="cursor-pointer text-ink-soft">The {item.couponCount} coupons</summary>
           <ul className="mt-1 flex flex-wrap gap-x-3 gap-y-1">
-            {group.items.map((i) => (
-              <li key={i.couponId}>
-                <Link to={benchHref(i)}>{i.couponTag}</Link>
+            {item.coupons.map((c) => (
+              <li key={c.id}>
+                <Link to={benchHref({ ...item, target: { ...item.target, id: c.id } })}>{c.tag}</Link>
               </li>
             ))}
+            {more > 0 && <li className="text-ink-soft">and {more} more</li>}
           </ul>
         </details>
       )}
@@ -99,8 +75,8 @@ function ItemList({ items, now, empty }: { items: BenchItem[]; now: Date; empty:
   if (items.length === 0) return <p className="py-2 text-ink-soft">{empty}</p>;
   return (
     <ul className="divide-y divide-paper-edge">
-      {groupItems(items).map((g) => (
-        <GroupRow key={g.key} group={g} now={now} />
+      {items.map((i) => (
+        <ItemRow key={`${i.kind}:${i.runId}:${i.stage ?? ''}:${i.weighingStage ?? ''}`} item={i} now={now} />
       ))}
     </ul>
   );
