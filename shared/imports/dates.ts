@@ -54,8 +54,18 @@ function daysIn(y: number, mo: number): number {
   return new Date(Date.UTC(y, mo, 0)).getUTCDate();
 }
 
+/** The last date read: a scale's log repeats one date for many rows, so most rows reuse it. */
+let lastDate: { text: string; order: DateOrder; value: { y: number; mo: number; d: number } | null } | null = null;
+
 /** A date in the given order → {y, mo, d}, or null if it is no real calendar date. */
 export function parseDate(text: string, order: DateOrder): { y: number; mo: number; d: number } | null {
+  if (lastDate && lastDate.text === text && lastDate.order === order) return lastDate.value && { ...lastDate.value };
+  const value = readDate(text, order);
+  lastDate = { text, order, value };
+  return value && { ...value };
+}
+
+function readDate(text: string, order: DateOrder): { y: number; mo: number; d: number } | null {
   const t = text.trim();
   let y: number;
   let mo: number;

@@ -44,6 +44,7 @@ import { resinListSchema, resinLotListSchema, resinLotResponseSchema, resinRespo
 import { benchResponseSchema, photoResponseSchema, runChecksResponseSchema, runHistorySchema, runListSchema, runResponseSchema } from './runs';
 import { createTrialCouponsResponseSchema, labelSheetSchema, trialListSchema, trialResponseSchema } from './trials';
 import { wikiIndexSchema, wikiListSchema, wikiPageResponseSchema } from './wiki';
+import { optionsResponseSchema } from './options';
 
 // The registry imports every feature's contracts: the server's test reads it; the client imports each
 // contract from its feature's file, so a screen's bundle does not carry every other screen's schemas.
@@ -86,6 +87,8 @@ export const RESPONSE_CONTRACTS: Record<string, ResponseContract> = {
   'PATCH /api/settings': json(settingsResponseSchema),
 
   'GET /api/runs': json(runListSchema),
+  'GET /api/runs/export.csv': CSV,
+  'GET /api/runs/options': json(optionsResponseSchema),
   'POST /api/runs': json(runResponseSchema),
   'GET /api/runs/:id': json(runResponseSchema),
   'PATCH /api/runs/:id': json(runResponseSchema),
@@ -96,6 +99,7 @@ export const RESPONSE_CONTRACTS: Record<string, ResponseContract> = {
   'GET /api/bench': json(benchResponseSchema),
 
   'GET /api/coupons': json(couponListSchema),
+  'GET /api/coupons/export.csv': CSV,
   'POST /api/coupons': json(couponResponseSchema),
   'POST /api/coupons/measurements': json(batchResponseSchema),
   'GET /api/coupons/:id': json(couponResponseSchema),
@@ -112,19 +116,24 @@ export const RESPONSE_CONTRACTS: Record<string, ResponseContract> = {
   'GET /api/photos/:id': { notJson: 'the photo file itself (image/jpeg, image/png or image/webp)' },
 
   'GET /api/species': json(speciesListSchema),
+  'GET /api/species/options': json(optionsResponseSchema),
   'GET /api/species/:id': json(speciesResponseSchema),
   'POST /api/species': json(speciesResponseSchema),
   'PATCH /api/species/:id': json(speciesResponseSchema),
   'GET /api/resins': json(resinListSchema),
+  'GET /api/resins/options': json(optionsResponseSchema),
   'GET /api/resins/:id': json(resinResponseSchema),
   'POST /api/resins': json(resinResponseSchema),
   'PATCH /api/resins/:id': json(resinResponseSchema),
   'GET /api/resin-lots': json(resinLotListSchema),
+  'GET /api/resin-lots/options': json(optionsResponseSchema),
   'GET /api/resin-lots/:id': json(resinLotResponseSchema),
   'POST /api/resin-lots': json(resinLotResponseSchema),
   'PATCH /api/resin-lots/:id': json(resinLotResponseSchema),
 
   'GET /api/trials': json(trialListSchema),
+  'GET /api/trials/export.csv': CSV,
+  'GET /api/trials/options': json(optionsResponseSchema),
   'POST /api/trials': json(trialResponseSchema),
   'GET /api/trials/:id': json(trialResponseSchema),
   'PATCH /api/trials/:id': json(trialResponseSchema),

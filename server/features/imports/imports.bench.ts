@@ -13,6 +13,7 @@ import { rebuildResults } from '../../measurements/results';
 // preview → commit), against the floor: a bare papaparse parse of the same text plus better-sqlite3
 // prepared inserts of the same rows (tag → coupon id through a Map) in one transaction, foreign keys on.
 // Both run once, in this process; the ratio, the peak RSS and the event loop's longest stall are printed.
+// Figures and what they mean: bench/imports-results.md.
 
 const N = 100_000;
 const tag = (i: number) => `BX-${String(i).padStart(6, '0')}`;
@@ -115,11 +116,20 @@ describe(`import of ${N.toLocaleString('en')} readings`, () => {
         stage: 'dry',
       };
       times.upload = performance.now() - t0;
+      // CPU time of this process per phase: less moved by other people's work on a shared machine than the wall clock.
+      let cpu0 = process.cpuUsage();
+      const cpuSince = () => {
+        const u = process.cpuUsage(cpu0);
+        cpu0 = process.cpuUsage();
+        return (u.user + u.system) / 1000;
+      };
       await tech.post(`/api/imports/${d.id}/preview`).send({ mapping }).expect(202);
       const p = await settle(d.id);
       times.preview = performance.now() - t0 - times.upload;
+      times.previewCpu = cpuSince();
       await tech.post(`/api/imports/${d.id}/commit`).send({ mapping }).expect(202);
       const c = await settle(d.id);
+      times.commitCpu = cpuSince();
       times.total = performance.now() - t0;
       loop.disable();
       health.on = false;
@@ -140,6 +150,7 @@ afterAll(async () => {
       `import of ${N} rows (${mb(bytes.length)} file):`,
       `  floor (parse + prepared inserts, one transaction): ${floor.toFixed(0)} ms`,
       `  end to end: ${total.toFixed(0)} ms (upload+detect ${times.upload?.toFixed(0)} ms, preview ${times.preview?.toFixed(0)} ms, commit ${(total - (times.upload ?? 0) - (times.preview ?? 0)).toFixed(0)} ms)`,
+      `  CPU time of this process: preview ${times.previewCpu?.toFixed(0)} ms, commit ${times.commitCpu?.toFixed(0)} ms`,
       `  ratio end to end / floor: ${(total / floor).toFixed(2)}`,
       `  RSS of this process (server and client together): ${mb(rss.before)} before the import, ${mb(rss.peak)} at its highest during it (+${mb(rss.peak - rss.before)}); high-water mark ${mb(rss.maxBefore)} before the import (setup and floor), ${mb(process.resourceUsage().maxRSS * 1024)} after it`,
       `  longest event-loop stall during the import: ${(loop.max / 1e6).toFixed(0)} ms`,
