@@ -113,13 +113,22 @@ export function exportCouponRows(db: Db, where: SQL | undefined, order: SQL[], l
     .all();
 }
 
-/** Control coupons of these trial × species pairs, for the anti-swell comparison. */
+/**
+ * Control coupons of these trial × species pairs, for the anti-swell comparison: found through the
+ * results table's (role, species) index, the few controls, then matched to the pairs.
+ */
 export function controlsFor(db: Db, pairs: { trialId: number; speciesId: number }[]): CouponWithNames[] {
   if (pairs.length === 0) return [];
-  const cond = or(...pairs.map((p) => and(eq(coupons.trialId, p.trialId), eq(coupons.speciesId, p.speciesId))));
-  return withNames(db)
-    .where(and(eq(coupons.role, 'control'), cond))
-    .all();
+  const wanted = new Set(pairs.map((p) => `${p.trialId}|${p.speciesId}`));
+  const ids = db
+    .select({ id: couponResults.couponId, trialId: couponResults.trialId, speciesId: couponResults.speciesId })
+    .from(couponResults)
+    .where(and(eq(couponResults.role, 'control'), inIds(couponResults.speciesId, [...new Set(pairs.map((p) => p.speciesId))])))
+    .all()
+    .filter((c) => wanted.has(`${c.trialId}|${c.speciesId}`))
+    .map((c) => c.id);
+  if (ids.length === 0) return [];
+  return withNames(db).where(inIds(coupons.id, ids)).all();
 }
 
 const currentWeighing = and(isNull(weighings.supersededBy), isNull(weighings.deletedAt));

@@ -1,5 +1,6 @@
 import { and, eq, gte, isNull, or } from 'drizzle-orm';
 import type { FeatureDeps } from '../../deps';
+import { createAuditMemo } from '../../db/audit-memo';
 import { runStages, runs } from '../../db/schema/runs';
 import { DomainError, reachedConstantMass } from '../../../shared/domain/index';
 import { BENCH_COUPONS_SHOWN, type BenchItem, type BenchQuery, type BenchResponse } from '../../../shared/schemas/runs';
@@ -20,7 +21,14 @@ const FINISHED_RUN_HORIZON_DAYS = 30;
 export function createBenchService(deps: FeatureDeps) {
   const { db } = deps.database;
 
+  // Rebuilt after any write, or each minute for the time-based items: polled by every open Bench.
+  const memo = createAuditMemo<BenchResponse>(db, { perMinute: true, max: 50 });
+
   function bench(q: BenchQuery): BenchResponse {
+    return memo.get(`${q.withinHours}|${q.limit}`, deps.now(), () => compute(q));
+  }
+
+  function compute(q: BenchQuery): BenchResponse {
     const now = deps.now();
     const t = now.getTime();
     const horizon = t + q.withinHours * HOUR;

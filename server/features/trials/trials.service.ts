@@ -20,6 +20,7 @@ import type {
 import { conditionLabel, planningWarnings } from '../../../shared/trials/planning';
 import { assignCodes, controlTag, parseTag, resinCode, speciesCode, treatedTag, trialCode, trialCounter } from '../../../shared/trials/tags';
 import * as repo from './trials.repo';
+import { createAuditMemo } from '../../db/audit-memo';
 import type { TrialRow } from './trials.repo';
 
 /** Rows per query while a CSV export is written. */
@@ -162,11 +163,14 @@ export function createTrialsService(deps: TrialsServiceDeps) {
     };
   }
 
+  // Progress counts of a page of trials, remembered until the next write.
+  const countsMemo = createAuditMemo<{ grids: ReturnType<typeof repo.gridCountsOf>; counts: ReturnType<typeof repo.couponCountsOf> }>(db, { max: 200 });
+
   /** One summary per trial row: grid and progress counts in two grouped queries for the whole page. */
   function summaries(rows: TrialRow[]): TrialSummary[] {
     const ids = rows.map((t) => t.id);
-    const grids = repo.gridCountsOf(db, ids);
-    const counts = repo.couponCountsOf(db, ids);
+    const key = ids.join(',');
+    const { grids, counts } = countsMemo.get(key, deps.now(), () => ({ grids: repo.gridCountsOf(db, ids), counts: repo.couponCountsOf(db, ids) }));
     return rows.map((t) => {
       const g = grids.get(t.id) ?? { conditions: 0, species: 0, resins: 0, wanted: 0 };
       const c = counts.get(t.id) ?? { created: 0, done: 0 };
