@@ -115,12 +115,14 @@ for (const [p, what] of targets) {
   if (p === '/api/auth/me') meRps = r.requests.average;
   console.log(`${p}: ${fmt(r.requests.average)} req/s, p99 ${r.latency.p99} ms, loop max ${fmt(loop.maxMs)} ms, errors ${errors}`);
 }
-await ask({ stop: true }).catch(() => undefined);
+const exited = new Promise((resolve) => server.once('exit', resolve));
+server.send({ stop: true });
+await exited;
 fs.rmSync(g.dir, { recursive: true, force: true });
 
 const load = execSync('uptime').toString().trim();
 const table = [
-  '| request | what | req/s | × /api/auth/me | p99 latency ms | answer bytes (gzip) | event-loop max ms | errors |',
+  '| request | what | req/s | × /api/auth/me | p99 latency ms | answer bytes (before gzip) | event-loop max ms | errors |',
   '|---|---|---|---|---|---|---|---|',
   ...rows.map((r) => `| \`${r.path}\` | ${r.what} | ${fmt(r.rps)} | ${fmt(r.rps / meRps, 2)} | ${r.p99} | ${r.bytes} | ${fmt(r.loopMax)} | ${r.errors} |`),
 ];

@@ -1,6 +1,7 @@
 import { and, asc, count, desc, eq, exists, inArray, isNotNull, not, or, sql } from 'drizzle-orm';
 import type { SQLiteColumn } from 'drizzle-orm/sqlite-core';
 import type { FeatureDeps } from '../../deps';
+import { createAuditMemo } from '../../db/audit-memo';
 import type { Db } from '../../db/client';
 import { writeAudit } from '../../db/audit';
 import { refreshResults, refreshResultsOfRun } from '../../measurements/results';
@@ -389,6 +390,9 @@ export function createRunsService(deps: FeatureDeps) {
     return memo;
   }
 
+  // Coupons per run of a page, remembered until the next write (a grouped count over up to 500 × page rows).
+  const couponCountsMemo = createAuditMemo<Map<number, number>>(db, { max: 200 });
+
   function summaries(rows: RunRow[]): RunSummary[] {
     const ids = rows.map((r) => r.id);
     const stagesByRun = new Map<number, StageRow[]>();
@@ -397,7 +401,7 @@ export function createRunsService(deps: FeatureDeps) {
       if (list) list.push(st);
       else stagesByRun.set(st.runId, [st]);
     }
-    const couponCounts = couponCountsOfRuns(db, ids);
+    const couponCounts = couponCountsMemo.get(ids.join(','), deps.now(), () => couponCountsOfRuns(db, ids));
     const lots = lotsByIds(
       db,
       rows.map((r) => r.resinLotId).filter((x): x is number => x !== null),
