@@ -1,7 +1,11 @@
 import type { PlotPoint, PointSet } from '../schemas/analysis';
 
-/** Above this many points a plot is thinned on the server. */
-export const MAX_PLOT_POINTS = 5000;
+/**
+ * Above this many points a plot is thinned on the server. Drawing is the cost: measured in Chromium
+ * (bench/compare-render.ts), most of a plot's time is the browser laying out and painting one SVG element
+ * per dot, so the budget is set where a screen of five plots stays quick.
+ */
+export const MAX_PLOT_POINTS = 2000;
 
 /**
  * Thinning, not binning: when there are more than `max` items, a systematic sample is drawn within

@@ -14,8 +14,24 @@ function domains(points: readonly { species: string; resin: string }[]) {
 const pointTitle = (xLabel: string, digits: number) => (d: PlotPoint) =>
   `${d.tag} — ${d.species}, ${d.resin}\n${xLabel} ${d.x.toFixed(digits)}, WPG ${d.y.toFixed(1)} %`;
 
+/**
+ * Above this many dots a plot leaves out the per-dot <title> (a second element per dot, which the browser
+ * must build and lay out) and the pointer tip names the coupon from a channel holding the same words.
+ */
+export const MANY_DOTS = 1000;
+
+/** How the dots of a plot name their coupon on hover: a <title> per dot, or a tip channel when many. */
+function naming<T>(count: number, title: (d: T) => string) {
+  if (count <= MANY_DOTS) return { title, tip: true } as const;
+  return {
+    channels: { coupon: { value: (d: T) => title(d).replace('\n', '; '), label: 'Coupon' } },
+    tip: { format: { coupon: true, x: false, y: false, fill: false, symbol: false } },
+  } as const;
+}
+
 /** The coupons as dots: colour by species, symbol by resin, a tip naming the coupon. */
 function couponDots(points: PointSet['points'], xLabel: string, digits: number) {
+  const outline = points.length > MANY_DOTS ? {} : { stroke: 'white', strokeWidth: 0.6 };
   return Plot.dot(points, {
     x: 'x',
     y: 'y',
@@ -23,10 +39,8 @@ function couponDots(points: PointSet['points'], xLabel: string, digits: number) 
     symbol: 'resin',
     r: 4.5,
     fillOpacity: 0.85,
-    stroke: 'white',
-    strokeWidth: 0.6,
-    title: pointTitle(xLabel, digits),
-    tip: true,
+    ...outline,
+    ...naming(points.length, pointTitle(xLabel, digits)),
     className: 'coupon-points',
   });
 }
@@ -111,8 +125,7 @@ export function residualPlot(points: PointSet): Element {
         symbol: 'resin',
         r: 4,
         fillOpacity: 0.85,
-        title: (d: PlotPoint) => `${d.tag} — ${d.species}, ${d.resin}\nfitted ${d.x.toFixed(1)} %, residual ${d.y.toFixed(1)}`,
-        tip: true,
+        ...naming(points.points.length, (d: PlotPoint) => `${d.tag} — ${d.species}, ${d.resin}\nfitted ${d.x.toFixed(1)} %, residual ${d.y.toFixed(1)}`),
       }),
     ],
   });
@@ -140,8 +153,7 @@ export function hardnessPlot(rows: Overview['plots']['hardness']): Element {
         symbol: 'role',
         r: 4.5,
         fillOpacity: 0.85,
-        title: (d: (typeof rows)[number]) => `${d.tag} — ${d.species}, ${d.role}: ${d.value} ${d.scale}`,
-        tip: true,
+        ...naming(rows.length, (d: (typeof rows)[number]) => `${d.tag} — ${d.species}, ${d.role}: ${d.value} ${d.scale}`),
       }),
     ],
   });
@@ -168,11 +180,13 @@ export function swellingPlot(rows: Overview['plots']['swelling']): Element {
         symbol: 'role',
         r: 4.5,
         fillOpacity: 0.85,
-        title: (d: (typeof rows)[number]) =>
-          `${d.tag} — ${d.species}, ${d.role}: swelling ${d.swellingPct.toFixed(1)} %` +
-          (d.asePct !== null ? `, ASE ${d.asePct.toFixed(0)} %` : '') +
-          (d.wrePct !== null ? `, WRE ${d.wrePct.toFixed(0)} %` : ''),
-        tip: true,
+        ...naming(
+          rows.length,
+          (d: (typeof rows)[number]) =>
+            `${d.tag} — ${d.species}, ${d.role}: swelling ${d.swellingPct.toFixed(1)} %` +
+            (d.asePct !== null ? `, ASE ${d.asePct.toFixed(0)} %` : '') +
+            (d.wrePct !== null ? `, WRE ${d.wrePct.toFixed(0)} %` : ''),
+        ),
       }),
     ],
   });

@@ -153,6 +153,18 @@ export function runContradictions(run: RunDetail, coupons: readonly CouponOut[])
   return [...lot, ...weighings, ...(dry ? [dry] : [])];
 }
 
+/** The trial condition a coupon of the run was made for (from the run's coupon list, read once for all rows). */
+function ConditionOf({ runId, couponId }: { runId: number; couponId: number }) {
+  const coupons = useQuery(couponListQuery({ runId, pageSize: 200, sort: 'tag' }));
+  const c = coupons.data?.items.find((x) => x.id === couponId);
+  if (!c?.condition) return null;
+  return (
+    <span className="block text-xs text-ink-soft">
+      {c.condition.plannedResin.name} · {c.condition.processLabel}
+    </span>
+  );
+}
+
 function RunContradictions({ run }: { run: RunDetail }) {
   const coupons = useQuery({ ...couponListQuery({ runId: run.id, pageSize: 200, sort: 'tag' }), enabled: run.coupons.length > 0 });
   const items = coupons.data?.items;
@@ -346,7 +358,7 @@ export function RunScreen() {
                 <thead>
                   <tr>
                     <th scope="col">Tag</th>
-                    <th scope="col">Species</th>
+                    <th scope="col">Species and condition</th>
                     <th scope="col">Weighed</th>
                   </tr>
                 </thead>
@@ -356,7 +368,10 @@ export function RunScreen() {
                       <th scope="row" className="border-b border-paper-edge font-normal">
                         <Link to={paths.coupon.href({ id: c.id })}>{c.tag}</Link>
                       </th>
-                      <td>{c.speciesName}</td>
+                      <td>
+                        {c.speciesName}
+                        <ConditionOf runId={r.id} couponId={c.id} />
+                      </td>
                       <td>{c.stagesWeighed.length ? c.stagesWeighed.join(', ') : <span className="text-ink-soft">nothing yet</span>}</td>
                     </tr>
                   ))}
