@@ -4,6 +4,7 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import express, { type NextFunction, type Request, type Response } from 'express';
 import session from 'express-session';
+import compression from 'compression';
 import helmet from 'helmet';
 import { pinoHttp } from 'pino-http';
 import { CSRF_HEADER, CSRF_VALUE } from '../shared/constants/errors';
@@ -30,6 +31,8 @@ const here = path.dirname(fileURLToPath(import.meta.url));
 const CLIENT_DIR = path.resolve(here, '../dist/client');
 const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
 const REQUEST_ID = /^[A-Za-z0-9._-]{1,64}$/;
+/** Body limit of the grid's batch save (POST /api/coupons/measurements); every other JSON body: 100 kB. */
+export const BATCH_BODY_LIMIT = '2mb';
 
 function originHost(origin: string): string | null {
   try {
@@ -83,6 +86,9 @@ export function createApp(deps: AppDeps) {
       customErrorMessage: (req, res, err) => `${req.method} ${(req as Request).originalUrl ?? req.url} ${res.statusCode} ${err.message}`,
     }),
   );
+  // JSON and CSV answers shrink 10–30× with gzip (a Bench or list page of a large shop); small answers
+  // (under 1 kB) and images pass as they are.
+  app.use(compression());
   app.use(
     helmet({
       contentSecurityPolicy: {
@@ -92,6 +98,10 @@ export function createApp(deps: AppDeps) {
       strictTransportSecurity: secureCookie,
     }),
   );
+  // The entry grid's batch save takes up to 500 coupons' full rows in one transaction (the contract's
+  // maximum): a full row is about 1 KB, the contract's largest entry (20 weighings, 20 checks) about 4 KB,
+  // so this one route parses up to 2 MB. Parsed here first, the general parser below leaves it alone.
+  app.use('/api/coupons/measurements', express.json({ limit: BATCH_BODY_LIMIT }));
   app.use('/api', express.json({ limit: '100kb' }));
   app.use(
     '/api',
@@ -163,10 +173,22 @@ export function createApp(deps: AppDeps) {
   }
   app.use('/api', apiNotFound);
 
-  if (deps.config.production && fs.existsSync(path.join(CLIENT_DIR, 'index.html'))) {
-    app.use(express.static(CLIENT_DIR, { index: false, maxAge: '1h' }));
+  const clientDir = deps.clientDir ?? CLIENT_DIR;
+  if (deps.config.production && fs.existsSync(path.join(clientDir, 'index.html'))) {
+    // Source maps (built 'hidden') stay on the server's disk for whoever debugs there; nobody downloads them.
+    app.use((req: Request, res: Response, next: NextFunction) => (req.path.endsWith('.map') ? void res.status(404).end() : next()));
+    // Vite names every file under /assets by its content hash, so a changed file gets a new name:
+    // cached for a year and never revalidated. A missing asset is a 404, never the client's page.
+    app.use('/assets', express.static(path.join(clientDir, 'assets'), { index: false, immutable: true, maxAge: '1y' }));
+    app.use('/assets', (_req: Request, res: Response) => void res.status(404).end());
+    // Everything else (index.html, icons) is revalidated on every load, so a new release shows at once.
+    const noCache = (res: Response) => res.setHeader('Cache-Control', 'no-cache');
+    app.use(express.static(clientDir, { index: false, setHeaders: noCache }));
     // Single-page fallback: every non-API path gets the client, whose router decides what to show.
-    app.get('/{*splat}', (_req, res) => res.sendFile(path.join(CLIENT_DIR, 'index.html')));
+    app.get('/{*splat}', (_req, res) => {
+      noCache(res);
+      res.sendFile(path.join(clientDir, 'index.html'));
+    });
   }
 
   app.use(errorHandler);

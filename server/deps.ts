@@ -18,6 +18,8 @@ export interface AppDeps {
   signingRateLimit?: { windowMs: number; limit: number };
   /** A clock the tests can move (token expiry). */
   now?: () => Date;
+  /** The built client served in production (default dist/client); tests point it at a small folder of their own. */
+  clientDir?: string;
 }
 
 /** Deps as the features see them, with the session store the app created. */

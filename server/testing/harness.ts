@@ -43,6 +43,8 @@ export interface HarnessOptions {
   env?: Record<string, string>;
   /** Use this DATA_DIR (e.g. one a backup was restored into) instead of a fresh temp folder. */
   dataDir?: string;
+  /** The built client to serve when NODE_ENV is production (default dist/client). */
+  clientDir?: string;
 }
 
 export async function startHarness(options: HarnessOptions = {}): Promise<Harness> {
@@ -71,6 +73,7 @@ export async function startHarness(options: HarnessOptions = {}): Promise<Harnes
       now: () => new Date(Date.now() + clock.offsetMs),
       loginRateLimit: { windowMs: 60_000, limit: options.loginLimit ?? 1000, perAddress: (options.loginLimit ?? 1000) * 3 },
       signingRateLimit: { windowMs: 60_000, limit: options.signingLimit ?? 1000 },
+      clientDir: options.clientDir,
     });
   let lumenbook = build();
 

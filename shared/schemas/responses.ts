@@ -41,10 +41,10 @@ import {
   importUploadResponseSchema,
 } from './imports';
 import { resinListSchema, resinLotListSchema, resinLotResponseSchema, resinResponseSchema, speciesListSchema, speciesResponseSchema } from './reference';
+import { optionsResponseSchema } from './options';
 import { benchResponseSchema, photoResponseSchema, runChecksResponseSchema, runHistorySchema, runListSchema, runResponseSchema } from './runs';
 import { createTrialCouponsResponseSchema, labelSheetSchema, trialListSchema, trialResponseSchema } from './trials';
 import { wikiIndexSchema, wikiListSchema, wikiPageResponseSchema } from './wiki';
-import { optionsResponseSchema } from './options';
 
 // The registry imports every feature's contracts: the server's test reads it; the client imports each
 // contract from its feature's file, so a screen's bundle does not carry every other screen's schemas.

@@ -1,9 +1,9 @@
 import { useQuery } from '@tanstack/react-query';
 import { useEffect, useMemo, useRef, useState } from 'react';
 import { Link, useLocation, useParams, useSearchParams } from 'react-router-dom';
-import { RUN_STAGES, type RunStage } from '../../../../shared/constants/records';
+import { RUN_STAGES, type CouponRole, type RunStage, type WeighingStage } from '../../../../shared/constants/records';
 import type { RunDetail, RunStageOut } from '../../../../shared/schemas/runs';
-import { STAGE_LABELS, stageMinutes } from '../../../../shared/runs/stages';
+import { STAGE_LABELS, stageMinutes, type StageTimes } from '../../../../shared/runs/stages';
 import { formatTemperatureRange } from '../../../../shared/runs/format';
 import { DEFAULT_CURE_WINDOW_C } from '../../../../shared/runs/thresholds';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
@@ -135,7 +135,19 @@ function StageFacts({ s, run, now }: { s: RunStageOut; run: RunDetail; now: Date
  * the plan of its coupons, weighings dated ahead of the run's stages, and coupons still without a dry
  * weight while the vacuum has not started (after it has, the missing uptake shows on each coupon).
  */
-export function runContradictions(run: RunDetail, coupons: readonly CouponOut[]): EntryWarning[] {
+export interface RunForWarnings {
+  code: string;
+  lot: { code: string; resin: { id: number; name: string } } | null;
+  stages: readonly StageTimes[];
+  coupons: readonly { id: number; tag: string; role: CouponRole; stagesWeighed: readonly WeighingStage[] }[];
+}
+
+/** A coupon of the run with its plan and its current weighings. */
+export type RunCouponForWarnings = Pick<CouponOut, 'id' | 'tag' | 'role' | 'condition'> & {
+  weighings: readonly { stage: WeighingStage; measuredAt: string }[];
+};
+
+export function runContradictions(run: RunForWarnings, coupons: readonly RunCouponForWarnings[]): EntryWarning[] {
   const lot = run.lot
     ? lotResinWarnings(
         { code: run.lot.code, resin: run.lot.resin },
@@ -151,6 +163,18 @@ export function runContradictions(run: RunDetail, coupons: readonly CouponOut[])
     ? null
     : vacuumStartWarning(run.coupons.map((c) => ({ id: c.id, tag: c.tag, role: c.role, hasDryWeighing: c.stagesWeighed.includes('dry') })));
   return [...lot, ...weighings, ...(dry ? [dry] : [])];
+}
+
+/** The trial condition a coupon of the run was made for (from the run's coupon list, read once for all rows). */
+function ConditionOf({ runId, couponId }: { runId: number; couponId: number }) {
+  const coupons = useQuery(couponListQuery({ runId, pageSize: 200, sort: 'tag' }));
+  const c = coupons.data?.items.find((x) => x.id === couponId);
+  if (!c?.condition) return null;
+  return (
+    <span className="block text-xs text-ink-soft">
+      {c.condition.plannedResin.name} · {c.condition.processLabel}
+    </span>
+  );
 }
 
 function RunContradictions({ run }: { run: RunDetail }) {
@@ -346,7 +370,7 @@ export function RunScreen() {
                 <thead>
                   <tr>
                     <th scope="col">Tag</th>
-                    <th scope="col">Species</th>
+                    <th scope="col">Species and condition</th>
                     <th scope="col">Weighed</th>
                   </tr>
                 </thead>
@@ -356,7 +380,10 @@ export function RunScreen() {
                       <th scope="row" className="border-b border-paper-edge font-normal">
                         <Link to={paths.coupon.href({ id: c.id })}>{c.tag}</Link>
                       </th>
-                      <td>{c.speciesName}</td>
+                      <td>
+                        {c.speciesName}
+                        <ConditionOf runId={r.id} couponId={c.id} />
+                      </td>
                       <td>{c.stagesWeighed.length ? c.stagesWeighed.join(', ') : <span className="text-ink-soft">nothing yet</span>}</td>
                     </tr>
                   ))}
