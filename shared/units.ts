@@ -15,26 +15,39 @@
  * `UnitChoice` accepts either a preset name or a full per-quantity choice.
  */
 
-export const UNIT_SYSTEMS = ['metric', 'us'] as const;
-export type UnitSystem = (typeof UNIT_SYSTEMS)[number];
+// The tuples live in shared/constants/units.ts (the user contract needs them, and importing them from there
+// keeps these conversions out of the sign-in page's first load, decision 0014); re-exported here for callers.
+import {
+  ALTITUDE_UNITS,
+  DENSITY_UNITS,
+  FORCE_UNITS,
+  LENGTH_UNITS,
+  LIQUID_VOLUME_UNITS,
+  MASS_UNITS,
+  PRESSURE_UNITS,
+  QUANTITIES,
+  TEMPERATURE_UNITS,
+  UNIT_SYSTEMS,
+  VOLUME_UNITS,
+  type Quantity,
+  type UnitSystem,
+} from './constants/units';
 
-/**
- * What a user can choose a unit for. `volume` is a piece's volume (cm³, in³); `liquidVolume` a lot of
- * resin; `density` covers wood and resin densities and resin loading (mass per volume); `altitude` the
- * shop's height; `force` the Janka hardness (Shore D and Brinell are scales, shown as measured).
- */
-export const QUANTITIES = ['mass', 'length', 'temperature', 'pressure', 'volume', 'liquidVolume', 'density', 'altitude', 'force'] as const;
-export type Quantity = (typeof QUANTITIES)[number];
-
-export const MASS_UNITS = ['g', 'kg', 'oz', 'lb'] as const;
-export const LENGTH_UNITS = ['mm', 'cm', 'in'] as const;
-export const TEMPERATURE_UNITS = ['degC', 'degF'] as const;
-export const PRESSURE_UNITS = ['kPa', 'Pa', 'inHg', 'mmHg', 'torr', 'mbar', 'psi'] as const;
-export const VOLUME_UNITS = ['cm3', 'in3'] as const;
-export const LIQUID_VOLUME_UNITS = ['mL', 'L', 'floz', 'qt', 'gal'] as const;
-export const DENSITY_UNITS = ['kgPerM3', 'gPerCm3', 'lbPerFt3'] as const;
-export const ALTITUDE_UNITS = ['m', 'ft'] as const;
-export const FORCE_UNITS = ['N', 'kN', 'lbf'] as const;
+export {
+  ALTITUDE_UNITS,
+  DENSITY_UNITS,
+  FORCE_UNITS,
+  LENGTH_UNITS,
+  LIQUID_VOLUME_UNITS,
+  MASS_UNITS,
+  PRESSURE_UNITS,
+  QUANTITIES,
+  TEMPERATURE_UNITS,
+  UNIT_SYSTEMS,
+  VOLUME_UNITS,
+  type Quantity,
+  type UnitSystem,
+};
 
 export type MassUnit = (typeof MASS_UNITS)[number];
 export type LengthUnit = (typeof LENGTH_UNITS)[number];

@@ -227,7 +227,20 @@ function writeRows(tx: Db, keys: RawKeys[], ws: Map<number, RawWeighing[]>, cs: 
  */
 export function refreshResults(tx: Db, couponIds: readonly number[]): number {
   if (couponIds.length === 0) return 0;
-  const ids = JSON.stringify(couponIds.length === 1 ? couponIds : [...new Set(couponIds)]);
+  const unique = couponIds.length === 1 ? couponIds : [...new Set(couponIds)];
+  if (unique.length <= REFRESH_CHUNK) return refreshSome(tx, unique);
+  // An import's 100,000 coupons in slices (same transaction, same rows): their readings, keys and computed
+  // rows are never all in memory at once.
+  let n = 0;
+  for (let from = 0; from < unique.length; from += REFRESH_CHUNK) n += refreshSome(tx, unique.slice(from, from + REFRESH_CHUNK));
+  return n;
+}
+
+/** Coupons whose results are recomputed per slice of a large refresh. */
+const REFRESH_CHUNK = 10_000;
+
+function refreshSome(tx: Db, unique: readonly number[]): number {
+  const ids = JSON.stringify(unique);
   const keys = prepared(tx, `${KEYS_SQL} where c.id in ${IDS}`).all(ids) as RawKeys[];
   const ws = prepared(tx, `${WEIGHINGS_SQL} where w.coupon_id in ${IDS} and w.superseded_by is null and w.deleted_at is null order by w.measured_at, w.id`).all(
     ids,

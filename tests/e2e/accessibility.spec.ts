@@ -10,6 +10,7 @@ const SCREENS: { role: DemoRole; path: string }[] = [
     '/runs/new',
     '/coupons',
     '/coupons/1',
+    '/trials/1/coupons',
     '/reference',
     '/reference?tab=resins',
     '/reference?tab=lots',

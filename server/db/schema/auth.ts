@@ -1,6 +1,7 @@
 import { index, integer, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
 import { ROLES } from '../../../shared/constants/roles';
-import { UNIT_SYSTEMS_LIST, type UnitPrefs } from '../../../shared/constants/units';
+import { UNIT_SYSTEMS_LIST } from '../../../shared/constants/units';
+import type { UnitPrefs } from '../../../shared/units';
 import { createdAt, createdBy, id } from './columns';
 
 export const AUTH_TOKEN_KINDS = ['invitation', 'password-reset'] as const;

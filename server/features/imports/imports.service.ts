@@ -271,16 +271,27 @@ export function createImportsService(deps: FeatureDeps) {
     }
   }
 
-  /** A preview's collected readings, kept for the commit that follows with the same mapping. */
-  const collectedCache = new Map<number, { key: string; at: number; collected: Collected }>();
-  function rememberCollected(id: number, mapping: ImportMapping, collected: Collected) {
-    collectedCache.clear(); // one at a time: a big file's readings are a few MB, never many of them
-    collectedCache.set(id, { key: JSON.stringify(mapping), at: Date.now(), collected });
+  /**
+   * A preview's collected readings and judgement, kept for the commit that follows with the same mapping:
+   * the commit then neither reads the file nor judges it again before its transaction (which judges
+   * every reading once more, on the state it writes).
+   */
+  interface Kept {
+    key: string;
+    at: number;
+    collected: Collected;
+    analysis: Analysis;
+    problems: ImportProblem[];
   }
-  function takeCollected(id: number, mapping: ImportMapping): Collected | null {
-    const hit = collectedCache.get(id);
-    collectedCache.delete(id);
-    return hit && hit.key === JSON.stringify(mapping) && Date.now() - hit.at < COLLECTED_TTL_MS ? hit.collected : null;
+  const keptCache = new Map<number, Kept>();
+  function keep(id: number, mapping: ImportMapping, v: Omit<Kept, 'key' | 'at'>) {
+    keptCache.clear(); // one at a time: a big file's readings are a few MB, never many of them
+    keptCache.set(id, { key: JSON.stringify(mapping), at: Date.now(), ...v });
+  }
+  function takeKept(id: number, mapping: ImportMapping): Kept | null {
+    const hit = keptCache.get(id);
+    keptCache.delete(id);
+    return hit && hit.key === JSON.stringify(mapping) && Date.now() - hit.at < COLLECTED_TTL_MS ? hit : null;
   }
 
   /**
@@ -549,7 +560,7 @@ export function createImportsService(deps: FeatureDeps) {
       try {
         await work(progress);
       } catch (err) {
-        collectedCache.delete(id);
+        keptCache.delete(id);
         const message = err instanceof AppError ? err.message : 'Something went wrong while processing the file; nothing was imported';
         if (!(err instanceof AppError)) deps.logger.error({ err, importId: id }, 'import job failed');
         updateImport(db, id, { status: 'failed', error: message });
@@ -571,14 +582,14 @@ export function createImportsService(deps: FeatureDeps) {
         replaceProblems(tx, id, problems);
         updateImport(tx, id, { status: 'previewed', counts: a.counts, previewRows: a.previewRows });
       });
-      rememberCollected(id, mapping, collected);
+      keep(id, mapping, { collected, analysis: a, problems: [...problems] });
     });
     return detail(id);
   }
 
   /**
-   * Starts the commit job. The readings are collected (kept from the preview with the same mapping, else
-   * the file is read again) and judged in chunks while other requests are served; then ONE synchronous
+   * Starts the commit job. The readings are collected and judged in chunks while other requests are served
+   * (or taken from the preview with the same mapping, if it was the last one and is recent); then ONE synchronous
    * transaction writes every accepted reading through the measurements module's bulk path, which judges
    * them again on exactly the state it writes to (someone may have weighed a coupon meanwhile), or, when
    * the user chose all-or-nothing and a problem remains, writes nothing at all.
@@ -592,21 +603,21 @@ export function createImportsService(deps: FeatureDeps) {
       throw new Conflict(msg, { again: [msg] });
     }
     const mapping = input.mapping;
-    const kept = takeCollected(id, mapping);
+    const kept = takeKept(id, mapping);
     beginJob(r, 'committing', mapping);
     runJob(id, async (progress) => {
-      const collected = kept ?? (await collect(r, mapping, progress));
-      const a = await judge(mapping, collected, (f) => progress(0.8 + f * 0.1));
+      const collected = kept?.collected ?? (await collect(r, mapping, progress));
+      const a = kept?.analysis ?? (await judge(mapping, collected, (f) => progress(0.8 + f * 0.1)));
       const blockedMessage = (n: number) => `${n} rows still have problems, so nothing was imported (you chose nothing until every problem is fixed)`;
       if (input.choice === 'all-or-nothing' && a.counts.problems > 0) {
-        const problems = await finishProblems(r, mapping, a.problems);
+        const problems = kept?.problems ?? (await finishProblems(r, mapping, a.problems));
         db.transaction((tx) => {
           replaceProblems(tx, id, problems);
           updateImport(tx, id, { status: 'previewed', counts: a.counts, previewRows: a.previewRows, error: blockedMessage(a.counts.problems) });
         });
         return;
       }
-      const problems = await finishProblems(r, mapping, a.problems);
+      const problems = kept?.problems ?? (await finishProblems(r, mapping, a.problems));
       const source = `import:${id}` as const;
       let blocked = false;
       try {

@@ -219,6 +219,24 @@ describe('imports: every problem class explained by row and column', () => {
     expect(done.counts).toEqual({ rows: 11, accepted: 0, corrections: 0, skipped: 2, problems: 9 });
   });
 
+  it('judges again at commit: a coupon weighed between the preview and the commit is skipped, the rest written', async () => {
+    const sp = s.h.database.db.select().from(species).limit(1).get()!;
+    const ids: number[] = [];
+    for (const tag of ['LT-01', 'LT-02']) ids.push((await s.tech.post('/api/coupons').send({ tag, speciesId: sp.id, role: 'treated' })).body.coupon.id);
+    const d = (await upload(s.tech, 'late.csv', Buffer.from('tag,mass\r\nLT-01,10.5\r\nLT-02,11.25\r\n'))).body as ImportDetail;
+    const { done } = await previewed(s.tech, d, { stage: 'dry' });
+    expect(done.counts).toMatchObject({ rows: 2, accepted: 2, skipped: 0, problems: 0 });
+    // Someone weighs LT-01 on the coupon page meanwhile.
+    await s.tech.post(`/api/coupons/${ids[0]}/weighings`).send({ stage: 'dry', massG: 10.4, measuredAt: '2026-03-02T08:00:00.000Z' }).expect(201);
+    const c = await committed(s.tech, d, { stage: 'dry' });
+    expect(c.status, c.error ?? '').toBe('committed');
+    expect(c.counts).toMatchObject({ rows: 2, accepted: 1, skipped: 1, problems: 0 });
+    expect(currentOf(s.h, ids[0]!).map((w) => [w.massG, w.importId])).toEqual([[10.4, null]]);
+    expect(currentOf(s.h, ids[1]!).map((w) => [w.massG, w.importId])).toEqual([[11.25, d.id]]);
+    const problems = (await s.tech.get(`/api/imports/${d.id}/problems`)).body.items as ImportProblem[];
+    expect(problems.map((p) => [p.row, p.code, p.outcome])).toEqual([[2, 'existing-reading', 'skipped']]);
+  });
+
   it('writes nothing under all-or-nothing while problems remain, and says why', async () => {
     const d = (await upload(s.tech, 'problems.csv')).body as ImportDetail;
     const c = await committed(s.tech, d, { stage: 'dry', unitColumn: 2 }, { choice: 'all-or-nothing' });

@@ -1,7 +1,7 @@
 import { useState } from 'react';
-import { QUANTITIES, QUANTITY_LABELS, UNITS_OF, UNIT_SYSTEMS_LIST, type Quantity, type UnitSystemName } from '../../../../shared/constants/units';
+import { QUANTITIES, UNIT_SYSTEMS_LIST, type Quantity, type UnitSystemName } from '../../../../shared/constants/units';
 import { ROLE_LABELS } from '../../../../shared/constants/roles';
-import { UNIT_LABELS, formatQuantity, presetOf, type UnitPrefs } from '../../../../shared/units';
+import { QUANTITY_LABELS, UNITS_OF, UNIT_LABELS, formatQuantity, presetOf, type UnitPrefs } from '../../../../shared/units';
 import type { UpdatePreferencesInput } from '../../../../shared/schemas/auth';
 import { ErrorNote, Page } from '../../../components/ui/page';
 import { useUpdatePreferences } from '../api/use-auth-mutations';

@@ -1,9 +1,9 @@
 import { useQuery } from '@tanstack/react-query';
 import { useEffect, useMemo, useRef, useState } from 'react';
 import { Link, useLocation, useParams, useSearchParams } from 'react-router-dom';
-import { RUN_STAGES, type RunStage } from '../../../../shared/constants/records';
+import { RUN_STAGES, type CouponRole, type RunStage, type WeighingStage } from '../../../../shared/constants/records';
 import type { RunDetail, RunStageOut } from '../../../../shared/schemas/runs';
-import { STAGE_LABELS, stageMinutes } from '../../../../shared/runs/stages';
+import { STAGE_LABELS, stageMinutes, type StageTimes } from '../../../../shared/runs/stages';
 import { formatTemperatureRange } from '../../../../shared/runs/format';
 import { DEFAULT_CURE_WINDOW_C } from '../../../../shared/runs/thresholds';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
@@ -135,7 +135,19 @@ function StageFacts({ s, run, now }: { s: RunStageOut; run: RunDetail; now: Date
  * the plan of its coupons, weighings dated ahead of the run's stages, and coupons still without a dry
  * weight while the vacuum has not started (after it has, the missing uptake shows on each coupon).
  */
-export function runContradictions(run: RunDetail, coupons: readonly CouponOut[]): EntryWarning[] {
+export interface RunForWarnings {
+  code: string;
+  lot: { code: string; resin: { id: number; name: string } } | null;
+  stages: readonly StageTimes[];
+  coupons: readonly { id: number; tag: string; role: CouponRole; stagesWeighed: readonly WeighingStage[] }[];
+}
+
+/** A coupon of the run with its plan and its current weighings. */
+export type RunCouponForWarnings = Pick<CouponOut, 'id' | 'tag' | 'role' | 'condition'> & {
+  weighings: readonly { stage: WeighingStage; measuredAt: string }[];
+};
+
+export function runContradictions(run: RunForWarnings, coupons: readonly RunCouponForWarnings[]): EntryWarning[] {
   const lot = run.lot
     ? lotResinWarnings(
         { code: run.lot.code, resin: run.lot.resin },
