@@ -168,7 +168,7 @@ describe('coupon_results', () => {
   });
 
   it('stores what the coupon answer computes, for every demo coupon', async () => {
-    const res = await tech.get('/api/coupons?pageSize=200');
+    const res = await tech.get('/api/coupons/full?pageSize=200');
     expect(res.status).toBe(200);
     const rows = new Map(snapshot().map((r) => [r.couponId, r]));
     for (const c of res.body.items as { id: number; metrics: Record<string, unknown> }[]) {
@@ -182,6 +182,30 @@ describe('coupon_results', () => {
         problems: c.metrics.problems,
       });
     }
+  });
+
+  it("gives the list's light rows the figures of the full answers", async () => {
+    const full = await tech.get('/api/coupons/full?pageSize=200&sort=-wpgPct');
+    const light = await tech.get('/api/coupons?pageSize=200&sort=-wpgPct');
+    expect(light.status).toBe(200);
+    expect(light.body.total).toBe(full.body.total);
+    type Full = { id: number; tag: string; condition: unknown; metrics: Record<string, unknown> & { problems: { message: string }[] } };
+    const want = (full.body.items as Full[]).map((c) => ({
+      id: c.id,
+      tag: c.tag,
+      condition: c.condition,
+      dryMassG: c.metrics.dryMassG,
+      soakedMassG: c.metrics.soakedMassG,
+      curedMassG: c.metrics.curedMassG,
+      drySg: c.metrics.drySg,
+      wpgPct: c.metrics.wpgPct,
+      resinLoadingKgM3: c.metrics.resinLoadingKgM3,
+      voidFillPct: c.metrics.voidFillPct,
+      problemCount: c.metrics.problems.length,
+      firstProblem: c.metrics.problems[0]?.message ?? null,
+    }));
+    expect((light.body.items as Record<string, unknown>[]).map((r) => Object.fromEntries(Object.keys(want[0] ?? {}).map((k) => [k, r[k]])))).toEqual(want);
+    expect(light.body.nextCursor).toBe(full.body.nextCursor);
   });
 
   it('equals a rebuild from the readings after any sequence of adds, corrections, deletions and moves', async () => {

@@ -316,6 +316,44 @@ export const couponListSchema = listResponseSchema(couponSchema).extend({
   /** Pass as `after` for the next page (keyset); null on the last page. */
   nextCursor: z.string().nullable().optional(),
 });
+/**
+ * One row of `GET /api/coupons`: the coupon's keys and the figures the list screen shows, read from the
+ * per-coupon results table in one query. The full answer (readings, warnings, ASE) is `GET /api/coupons/:id`,
+ * and `GET /api/coupons/full` for the entry grid.
+ */
+export const couponListRowSchema = z.object({
+  id: z.number().int(),
+  tag: z.string(),
+  trialId: z.number().int().nullable(),
+  trialCode: z.string().nullable(),
+  conditionId: z.number().int().nullable(),
+  condition: couponConditionSchema.nullable(),
+  speciesId: z.number().int(),
+  speciesName: z.string(),
+  role: z.enum(COUPON_ROLES),
+  sourceBoard: z.string().nullable(),
+  runId: z.number().int().nullable(),
+  runCode: z.string().nullable(),
+  createdAt: z.string(),
+  /** Current masses per stage, g. */
+  dryMassG: n,
+  soakedMassG: n,
+  curedMassG: n,
+  drySg: n,
+  wpgPct: n,
+  resinLoadingKgM3: n,
+  voidFillPct: n,
+  /** How many metrics are blank although their readings are there, and the first reason. */
+  problemCount: z.number().int(),
+  firstProblem: z.string().nullable(),
+});
+export type CouponListRow = z.infer<typeof couponListRowSchema>;
+export const couponRowListSchema = listResponseSchema(couponListRowSchema).extend({
+  /** Pass as `after` for the next page (keyset); null on the last page. */
+  nextCursor: z.string().nullable().optional(),
+});
+export type CouponRowList = z.infer<typeof couponRowListSchema>;
+
 export const couponDetailSchema = couponSchema.extend({ photos: z.array(photoSchema) });
 export type CouponDetail = z.infer<typeof couponDetailSchema>;
 export const couponResponseSchema = z.object({ coupon: couponDetailSchema });

@@ -20,6 +20,7 @@ import {
   couponHistorySchema,
   couponListSchema,
   couponResponseSchema,
+  couponRowListSchema,
   deletedMeasurementResponseSchema,
   weighingResponseSchema,
 } from './coupons';
@@ -98,7 +99,8 @@ export const RESPONSE_CONTRACTS: Record<string, ResponseContract> = {
   'GET /api/runs/:id/checks': json(runChecksResponseSchema),
   'GET /api/bench': json(benchResponseSchema),
 
-  'GET /api/coupons': json(couponListSchema),
+  'GET /api/coupons': json(couponRowListSchema),
+  'GET /api/coupons/full': json(couponListSchema),
   'GET /api/coupons/export.csv': CSV,
   'POST /api/coupons': json(couponResponseSchema),
   'POST /api/coupons/measurements': json(batchResponseSchema),

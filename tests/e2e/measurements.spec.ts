@@ -104,7 +104,7 @@ test('a cured mass below the dry mass is refused in the row with its reason and 
   await expect(page.getByRole('status').filter({ hasText: 'Nothing saved' })).toContainText('1 row has problems');
   await page.reload();
   // Nothing was saved: the server holds no weighing; the grid shows the typed values again only as this browser's draft.
-  const saved = await page.request.get(`/api/coupons?runId=${runId}`);
+  const saved = await page.request.get(`/api/coupons/full?runId=${runId}`);
   const first = (await saved.json()).items.find((c: { tag: string }) => c.tag === t1);
   expect(first.weighings).toEqual([]);
   await expect(page.getByText(/Restored values typed here/)).toBeVisible();

@@ -1,4 +1,4 @@
-import { and, asc, count, eq, inArray, isNull, or, sql, type SQL } from 'drizzle-orm';
+import { and, asc, count, desc, eq, inArray, isNull, or, sql, type SQL } from 'drizzle-orm';
 import { alias, type SQLiteColumn } from 'drizzle-orm/sqlite-core';
 import { couponResults } from '../../db/schema/results';
 import type { Db } from '../../db/client';
@@ -10,6 +10,7 @@ import { runs } from '../../db/schema/runs';
 import { trialConditions, trials } from '../../db/schema/trials';
 import type { PhotoOut } from '../../../shared/schemas/runs';
 import { toPhotoOut } from '../../db/photo-out';
+import { COUPON_SORTS, type CouponExportQuery, type CouponWaitingFor } from '../../../shared/schemas/coupons';
 
 export type CouponRow = typeof coupons.$inferSelect;
 export type WeighingRow = typeof weighings.$inferSelect;
@@ -66,29 +67,161 @@ export function findCouponByTag(db: Db, tag: string): CouponRow | undefined {
 /** `col in (ids)` with the ids bound as one JSON array, so a long list never runs out of SQL variables. */
 const inIds = (col: SQLiteColumn, ids: readonly number[]) => sql`${col} in (select value from json_each(${JSON.stringify(ids)}))`;
 
+const SORTS: Record<(typeof COUPON_SORTS)[number], SQL | SQLiteColumn> = {
+  id: coupons.id,
+  tag: coupons.tag,
+  createdAt: coupons.createdAt,
+  // A blank metric sorts as the lowest value, so a keyset cursor never meets a NULL.
+  drySg: sql`coalesce(${couponResults.drySg}, -1e308)`,
+  wpgPct: sql`coalesce(${couponResults.wpgPct}, -1e308)`,
+  resinLoadingKgM3: sql`coalesce(${couponResults.resinLoadingKgM3}, -1e308)`,
+};
+
+/** The list's sort (metrics: blanks first, as the lowest value), its direction and its ORDER BY (ties on the id). */
+function sortOf(sort: string | undefined) {
+  const key = (sort ?? 'tag').replace(/^-/, '') as (typeof COUPON_SORTS)[number];
+  const expr: SQL | SQLiteColumn = SORTS[key] ?? coupons.tag;
+  const desc_ = sort?.startsWith('-') ?? false;
+  return { expr, desc: desc_, order: [desc_ ? desc(expr) : asc(expr), asc(coupons.id)] };
+}
+
+/** The list's WHERE (shared by the page, the count and the CSV export); says whether it reads the results table. */
+function listWhere(q: CouponExportQuery): { where: SQL | undefined; needsResults: boolean } {
+  const r = couponResults;
+  const waiting: Record<CouponWaitingFor, SQL | undefined> = {
+    'dry-weighing': isNull(r.dryMassG),
+    'soaked-weighing': and(eq(coupons.role, 'treated'), isNull(r.soakedMassG)),
+    'cured-weighing': and(eq(coupons.role, 'treated'), isNull(r.curedMassG)),
+    'dry-dimensions': and(isNull(r.dryThicknessMm), isNull(r.dryVolumeCm3)),
+  };
+  const filters = [
+    q.runId === undefined ? undefined : eq(coupons.runId, q.runId),
+    q.trialId === undefined ? undefined : eq(coupons.trialId, q.trialId),
+    q.speciesId === undefined ? undefined : eq(coupons.speciesId, q.speciesId),
+    q.conditionId === undefined ? undefined : eq(coupons.conditionId, q.conditionId),
+    q.role === undefined ? undefined : eq(coupons.role, q.role),
+    q.q ? sql`${coupons.tag} like ${`%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`} escape '\\'` : undefined,
+    q.waitingFor ? waiting[q.waitingFor] : undefined,
+  ].filter((f) => f !== undefined);
+  return { where: filters.length ? and(...filters) : undefined, needsResults: q.waitingFor !== undefined };
+}
+
+/** A page of the list: the filters, the sort, and either a keyset cursor (sort value, id) or an offset. */
+export interface CouponPageArgs {
+  filters: CouponExportQuery;
+  after: [string | number, number] | null;
+  limit: number;
+  offset: number;
+}
+
+/** WHERE and ORDER BY of a page; keyset: rows after the cursor in (sort value, id) order, so a page far down costs what the first one does. */
+function pagePlan(a: CouponPageArgs) {
+  const { where, needsResults } = listWhere(a.filters);
+  const s = sortOf(a.filters.sort);
+  let after: SQL | undefined;
+  if (a.after) {
+    const [v, id] = a.after;
+    after = s.desc
+      ? sql`(${s.expr} < ${v} or (${s.expr} = ${v} and ${coupons.id} > ${id}))`
+      : sql`(${s.expr} > ${v} or (${s.expr} = ${v} and ${coupons.id} > ${id}))`;
+  }
+  return { where, needsResults, pageWhere: and(where, after), order: s.order, offset: a.after ? 0 : a.offset, sortExpr: s.expr };
+}
+
 /**
- * A page of the coupon list. Filters and sorts on the coupon's own columns use its indexes
- * (`(trial_id, tag)`, `(run_id, tag)`, `(created_at, id)`); filters and sorts on readings and metrics
- * read the results table, joined by its primary key.
+ * A page of the coupon list as light rows: keys, names and the list's figures from the results table, with
+ * each row's sort value (for the next cursor), in one query. Filters and sorts on the coupon's own columns
+ * use its indexes (`(trial_id, tag)`, `(run_id, tag)`, `(created_at, id)`); readings and metrics come from the
+ * results table, joined by its primary key.
  */
-export function listCouponRows(db: Db, where: SQL | undefined, order: SQL[], limit: number, offset: number): CouponWithNames[] {
-  return withNames(db)
+export function listCouponRows(db: Db, a: CouponPageArgs) {
+  const p = pagePlan(a);
+  return db
+    .select({
+      id: coupons.id,
+      tag: coupons.tag,
+      trialId: coupons.trialId,
+      trialCode: trials.code,
+      conditionId: coupons.conditionId,
+      processLabel: trialConditions.processLabel,
+      plannedResinId: plannedResins.id,
+      plannedResinName: plannedResins.name,
+      conditionSpeciesName: conditionSpecies.commonName,
+      speciesId: coupons.speciesId,
+      speciesName: species.commonName,
+      role: coupons.role,
+      sourceBoard: coupons.sourceBoard,
+      runId: coupons.runId,
+      runCode: runs.code,
+      createdAt: coupons.createdAt,
+      dryMassG: couponResults.dryMassG,
+      soakedMassG: couponResults.soakedMassG,
+      curedMassG: couponResults.curedMassG,
+      drySg: couponResults.drySg,
+      wpgPct: couponResults.wpgPct,
+      resinLoadingKgM3: couponResults.resinLoadingKgM3,
+      voidFillPct: couponResults.voidFillPct,
+      problemCount: sql<number>`coalesce(${couponResults.problemCount}, 0)`,
+      firstProblem: sql<string | null>`json_extract(${couponResults.problems}, '$[0].message')`,
+      sortValue: sql<string | number | null>`${p.sortExpr}`,
+    })
+    .from(coupons)
+    .innerJoin(species, eq(coupons.speciesId, species.id))
+    .leftJoin(trials, eq(coupons.trialId, trials.id))
+    .leftJoin(runs, eq(coupons.runId, runs.id))
+    .leftJoin(trialConditions, eq(coupons.conditionId, trialConditions.id))
+    .leftJoin(plannedResins, eq(trialConditions.resinId, plannedResins.id))
+    .leftJoin(conditionSpecies, eq(trialConditions.speciesId, conditionSpecies.id))
     .leftJoin(couponResults, eq(couponResults.couponId, coupons.id))
-    .where(where)
-    .orderBy(...order)
-    .limit(limit)
-    .offset(offset)
+    .where(p.pageWhere)
+    .orderBy(...p.order)
+    .limit(a.limit)
+    .offset(p.offset)
+    .all();
+}
+export type CouponListDbRow = ReturnType<typeof listCouponRows>[number];
+
+/** The same page with every coupon's own row and names, for the full answers the entry grid reads; with each row's sort value. */
+export function listCouponsWithNames(db: Db, a: CouponPageArgs): (CouponWithNames & { sortValue: string | number | null })[] {
+  const p = pagePlan(a);
+  return db
+    .select({
+      coupon: coupons,
+      speciesName: species.commonName,
+      trialCode: trials.code,
+      runCode: runs.code,
+      processLabel: trialConditions.processLabel,
+      plannedResinId: plannedResins.id,
+      plannedResinName: plannedResins.name,
+      conditionSpeciesName: conditionSpecies.commonName,
+      sortValue: sql<string | number | null>`${p.sortExpr}`,
+    })
+    .from(coupons)
+    .innerJoin(species, eq(coupons.speciesId, species.id))
+    .leftJoin(trials, eq(coupons.trialId, trials.id))
+    .leftJoin(runs, eq(coupons.runId, runs.id))
+    .leftJoin(trialConditions, eq(coupons.conditionId, trialConditions.id))
+    .leftJoin(plannedResins, eq(trialConditions.resinId, plannedResins.id))
+    .leftJoin(conditionSpecies, eq(trialConditions.speciesId, conditionSpecies.id))
+    .leftJoin(couponResults, eq(couponResults.couponId, coupons.id))
+    .where(p.pageWhere)
+    .orderBy(...p.order)
+    .limit(a.limit)
+    .offset(p.offset)
     .all();
 }
 
-/** How many coupons match; joins the results table only when a filter needs it. */
-export function countCoupons(db: Db, where: SQL | undefined, needsResults: boolean): number {
+/** How many coupons match the list's filters; joins the results table only when a filter needs it. */
+export function countCoupons(db: Db, filters: CouponExportQuery): number {
+  const { where, needsResults } = listWhere(filters);
   const q = db.select({ n: count() }).from(coupons);
   return (needsResults ? q.leftJoin(couponResults, eq(couponResults.couponId, coupons.id)) : q).where(where).get()?.n ?? 0;
 }
 
 /** Coupons with their keys, current readings and metrics from the results table, for the CSV export. */
-export function exportCouponRows(db: Db, where: SQL | undefined, order: SQL[], limit: number, offset: number) {
+export function exportCouponRows(db: Db, filters: CouponExportQuery, limit: number, offset: number) {
+  const { where } = listWhere(filters);
+  const { order } = sortOf(filters.sort);
   return db
     .select({
       coupon: { id: coupons.id, tag: coupons.tag, role: coupons.role, sourceBoard: coupons.sourceBoard, notes: coupons.notes, createdAt: coupons.createdAt },

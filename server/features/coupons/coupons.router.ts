@@ -25,6 +25,9 @@ export function couponsRoutes(deps: FeatureDeps) {
   const id = { params: idParamsSchema };
 
   r.get('/coupons', { access: 'viewer', schemas: { query: couponListQuerySchema } }, ({ query }) => service.list(query));
+  // The same page with each coupon's full answer (readings, warnings, ASE): the entry grid and the run's checks need them.
+  // Declared before /coupons/:id so "full" is never taken for an id.
+  r.get('/coupons/full', { access: 'viewer', schemas: { query: couponListQuerySchema } }, ({ query }) => service.listFull(query));
   r.post('/coupons', { access: 'technician', status: 201, schemas: { body: createCouponSchema } }, ({ user, body }) => ({
     coupon: service.create(user, body),
   }));

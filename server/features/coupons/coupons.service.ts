@@ -1,12 +1,8 @@
-import { and, asc, desc, eq, isNull, sql, type SQL } from 'drizzle-orm';
-import type { SQLiteColumn } from 'drizzle-orm/sqlite-core';
-import { couponResults } from '../../db/schema/results';
 import type { FeatureDeps } from '../../deps';
 import type { Db } from '../../db/client';
 import { writeAudit } from '../../db/audit';
 import { createMeasurements } from '../../measurements/measurements';
 import { refreshResults } from '../../measurements/results';
-import { coupons } from '../../db/schema/coupons';
 import { Conflict, NotFound, Unprocessable, ValidationFailed } from '../../http/errors';
 import type { User } from '../../../shared/schemas/auth';
 import type {
@@ -19,7 +15,8 @@ import type {
   CouponHistory,
   CouponExportQuery,
   CouponListQuery,
-  CouponWaitingFor,
+  CouponListRow,
+  CouponRowList,
   CouponOut,
   CreateCouponInput,
   MeasurementWarning,
@@ -27,7 +24,6 @@ import type {
   WeighingInput,
   WeighingOut,
 } from '../../../shared/schemas/coupons';
-import { COUPON_SORTS } from '../../../shared/schemas/coupons';
 import { antiSwellForList, couponMetrics, type CouponMetrics } from '../../../shared/coupons/metrics';
 import { sgPlausibility, sgWarningText } from '../../../shared/coupons/plausibility';
 import { readingDateQuestion } from '../../../shared/schemas/dates';
@@ -48,6 +44,8 @@ import {
   exportCouponRows,
   insertCoupon,
   listCouponRows,
+  listCouponsWithNames,
+  type CouponPageArgs,
   shopFirstRecordAt,
   photosOf,
   resinsFor,
@@ -62,15 +60,6 @@ import {
   type WeighingRow,
 } from './coupons.repo';
 
-const SORTS: Record<(typeof COUPON_SORTS)[number], SQL | SQLiteColumn> = {
-  id: coupons.id,
-  tag: coupons.tag,
-  createdAt: coupons.createdAt,
-  // A blank metric sorts as the lowest value, so a keyset cursor never meets a NULL.
-  drySg: sql`coalesce(${couponResults.drySg}, -1e308)`,
-  wpgPct: sql`coalesce(${couponResults.wpgPct}, -1e308)`,
-  resinLoadingKgM3: sql`coalesce(${couponResults.resinLoadingKgM3}, -1e308)`,
-};
 /** Rows per query while a CSV export is written. */
 const EXPORT_PAGE = 500;
 
@@ -246,34 +235,6 @@ export function createCouponsService(deps: FeatureDeps) {
     return build(tx, [requireCoupon(tx, id)])[0] as CouponOut;
   }
 
-  /** The list's WHERE (shared by the page, the count and the CSV export); says whether it reads the results table. */
-  function listWhere(q: CouponExportQuery): { where: SQL | undefined; needsResults: boolean } {
-    const r = couponResults;
-    const waiting: Record<CouponWaitingFor, SQL | undefined> = {
-      'dry-weighing': isNull(r.dryMassG),
-      'soaked-weighing': and(eq(coupons.role, 'treated'), isNull(r.soakedMassG)),
-      'cured-weighing': and(eq(coupons.role, 'treated'), isNull(r.curedMassG)),
-      'dry-dimensions': and(isNull(r.dryThicknessMm), isNull(r.dryVolumeCm3)),
-    };
-    const filters = [
-      q.runId === undefined ? undefined : eq(coupons.runId, q.runId),
-      q.trialId === undefined ? undefined : eq(coupons.trialId, q.trialId),
-      q.speciesId === undefined ? undefined : eq(coupons.speciesId, q.speciesId),
-      q.conditionId === undefined ? undefined : eq(coupons.conditionId, q.conditionId),
-      q.role === undefined ? undefined : eq(coupons.role, q.role),
-      q.q ? sql`${coupons.tag} like ${`%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`} escape '\\'` : undefined,
-      q.waitingFor ? waiting[q.waitingFor] : undefined,
-    ].filter((f) => f !== undefined);
-    return { where: filters.length ? and(...filters) : undefined, needsResults: q.waitingFor !== undefined };
-  }
-
-  /** The sort expression (metrics: blanks first, as the lowest value) and its direction. */
-  function sortOf(sort: string | undefined) {
-    const key = (sort ?? 'tag').replace(/^-/, '') as (typeof COUPON_SORTS)[number];
-    const expr: SQL | SQLiteColumn = SORTS[key] ?? coupons.tag;
-    return { key, expr, desc: sort?.startsWith('-') ?? false };
-  }
-
   /** A cursor names the last row of a page: its sort value and id. */
   const encodeCursor = (v: unknown, id: number) => Buffer.from(JSON.stringify([v, id])).toString('base64url');
   function decodeCursor(cursor: string): [string | number, number] {
@@ -287,31 +248,62 @@ export function createCouponsService(deps: FeatureDeps) {
     throw new ValidationFailed('That cursor is not one this list gave out', { after: ['Use the nextCursor of the previous page'] });
   }
 
-  function list(q: CouponListQuery): { items: CouponOut[]; page: number; pageSize: number; total: number; nextCursor: string | null } {
-    const { where, needsResults } = listWhere(q);
-    const s = sortOf(q.sort);
-    // Keyset: rows after the cursor in (sort value, id) order, so a page far down costs what the first one does.
-    let after: SQL | undefined;
-    if (q.after !== undefined) {
-      const [v, id] = decodeCursor(q.after);
-      after = s.desc
-        ? sql`(${s.expr} < ${v} or (${s.expr} = ${v} and ${coupons.id} > ${id}))`
-        : sql`(${s.expr} > ${v} or (${s.expr} = ${v} and ${coupons.id} > ${id}))`;
-    }
-    const order = [s.desc ? desc(s.expr) : asc(s.expr), asc(coupons.id)];
-    const rows = listCouponRows(db, and(where, after), order, q.pageSize, after ? 0 : (q.page - 1) * q.pageSize);
-    const total = countCoupons(db, where, needsResults);
+  function pageArgs(q: CouponListQuery): CouponPageArgs {
+    return { filters: q, after: q.after === undefined ? null : decodeCursor(q.after), limit: q.pageSize, offset: (q.page - 1) * q.pageSize };
+  }
+
+  /** The cursor after the last row, when the page is full (there may be more). */
+  function nextCursorOf(rows: { id: number; sortValue: string | number | null }[], pageSize: number): string | null {
     const last = rows.at(-1);
-    let nextCursor: string | null = null;
-    if (last && rows.length === q.pageSize) {
-      const v = db
-        .select({ v: sql<string | number>`${s.expr}` })
-        .from(coupons)
-        .leftJoin(couponResults, eq(couponResults.couponId, coupons.id))
-        .where(eq(coupons.id, last.coupon.id))
-        .get()?.v;
-      nextCursor = encodeCursor(v ?? null, last.coupon.id);
-    }
+    return last && rows.length === pageSize ? encodeCursor(last.sortValue, last.id) : null;
+  }
+
+  /** A page of the list as light rows: keys and the figures the list shows, one query plus the count. */
+  function list(q: CouponListQuery): CouponRowList {
+    const rows = listCouponRows(db, pageArgs(q));
+    const items: CouponListRow[] = rows.map((r) => ({
+      id: r.id,
+      tag: r.tag,
+      trialId: r.trialId,
+      trialCode: r.trialCode,
+      conditionId: r.conditionId,
+      condition:
+        r.conditionId !== null && r.processLabel !== null && r.plannedResinId !== null && r.plannedResinName !== null
+          ? {
+              id: r.conditionId,
+              label: conditionLabel(r.conditionSpeciesName ?? r.speciesName, r.plannedResinName, r.processLabel),
+              processLabel: r.processLabel,
+              plannedResin: { id: r.plannedResinId, name: r.plannedResinName },
+            }
+          : null,
+      speciesId: r.speciesId,
+      speciesName: r.speciesName,
+      role: r.role,
+      sourceBoard: r.sourceBoard,
+      runId: r.runId,
+      runCode: r.runCode,
+      createdAt: r.createdAt,
+      dryMassG: r.dryMassG,
+      soakedMassG: r.soakedMassG,
+      curedMassG: r.curedMassG,
+      drySg: r.drySg,
+      wpgPct: r.wpgPct,
+      resinLoadingKgM3: r.resinLoadingKgM3,
+      voidFillPct: r.voidFillPct,
+      problemCount: r.problemCount,
+      firstProblem: r.firstProblem,
+    }));
+    return { items, page: q.page, pageSize: q.pageSize, total: countCoupons(db, q), nextCursor: nextCursorOf(rows, q.pageSize) };
+  }
+
+  /** The same page with the full answers (readings, warnings, ASE), for the entry grid. */
+  function listFull(q: CouponListQuery): { items: CouponOut[]; page: number; pageSize: number; total: number; nextCursor: string | null } {
+    const rows = listCouponsWithNames(db, pageArgs(q));
+    const total = countCoupons(db, q);
+    const nextCursor = nextCursorOf(
+      rows.map((r) => ({ id: r.coupon.id, sortValue: r.sortValue })),
+      q.pageSize,
+    );
     return { items: build(db, rows), page: q.page, pageSize: q.pageSize, total, nextCursor };
   }
 
@@ -344,11 +336,8 @@ export function createCouponsService(deps: FeatureDeps) {
       'notes',
       'created_at',
     ];
-    const { where } = listWhere(q);
-    const s = sortOf(q.sort);
-    const order = [s.desc ? desc(s.expr) : asc(s.expr), asc(coupons.id)];
     for (let offset = 0; ; offset += EXPORT_PAGE) {
-      const rows = exportCouponRows(db, where, order, EXPORT_PAGE, offset);
+      const rows = exportCouponRows(db, q, EXPORT_PAGE, offset);
       for (const x of rows) {
         const r = x.r;
         yield [
@@ -573,5 +562,5 @@ export function createCouponsService(deps: FeatureDeps) {
     };
   }
 
-  return { list, exportRows, get, create, update, addWeighing, addCheck, correctWeighing, correctCheck, deleteWeighing, deleteCheck, batch, history };
+  return { list, listFull, exportRows, get, create, update, addWeighing, addCheck, correctWeighing, correctCheck, deleteWeighing, deleteCheck, batch, history };
 }

@@ -352,7 +352,7 @@ describe('weighings and checks', () => {
     }
     await dims(treated, 'cured', 100, 10, 10);
     await dims(treated, 'wet-test', 100, 10, 10.1, t(5));
-    const list = await as.viewer.get(`/api/coupons?trialId=${trial.id}`);
+    const list = await as.viewer.get(`/api/coupons/full?trialId=${trial.id}`);
     const byId = new Map(list.body.items.map((c: { id: number }) => [c.id, c]));
     const tr = byId.get(treated) as { metrics: { swellingPct: number }; antiSwell: { asePct: number; controlCount: number } };
     expect(tr.metrics.swellingPct).toBeCloseTo(1, 8);

@@ -58,6 +58,7 @@ export const queryKeys = {
     all: ['coupons'] as const,
     lists: () => ['coupons', 'list'] as const,
     list: (q: Partial<CouponListQuery>) => ['coupons', 'list', q] as const,
+    full: (q: Partial<CouponListQuery>) => ['coupons', 'full', q] as const,
     /** Every coupon of a run or a trial, for the entry grid. */
     grid: (scope: { runId: number } | { trialId: number }) => ['coupons', 'grid', scope] as const,
     detail: (id: number) => ['coupons', 'detail', id] as const,

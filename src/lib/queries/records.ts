@@ -2,7 +2,7 @@ import { keepPreviousData, queryOptions } from '@tanstack/react-query';
 import { api, queryString } from '../api-client';
 import { trialListSchema, trialResponseSchema, type TrialListQuery } from '../../../shared/schemas/trials';
 import { runListSchema, runResponseSchema, type RunListQuery } from '../../../shared/schemas/runs';
-import { couponListSchema, type CouponListQuery } from '../../../shared/schemas/coupons';
+import { couponListSchema, couponRowListSchema, type CouponListQuery } from '../../../shared/schemas/coupons';
 import { queryKeys } from './keys';
 
 // Reads of trials, runs and coupons that more than one feature shows (lists, pickers, one record).
@@ -36,11 +36,19 @@ export const runQuery = (id: number) =>
     queryFn: async () => (await api.get(`/runs/${id}`, runResponseSchema)).run,
   });
 
-/** A page of coupons (their current readings and computed results). */
+/** A page of coupons as light rows: keys, current masses and the main metrics (from the results table). */
 export const couponListQuery = (q: Partial<CouponListQuery>) =>
   queryOptions({
     queryKey: queryKeys.coupons.list(q),
-    queryFn: () => api.get(`/coupons${queryString({ ...q, pageSize: q.pageSize ?? 50 })}`, couponListSchema),
+    queryFn: () => api.get(`/coupons${queryString({ ...q, pageSize: q.pageSize ?? 50 })}`, couponRowListSchema),
+    placeholderData: keepPreviousData,
+  });
+
+/** A page of coupons with their full answers (current readings, warnings, ASE): heavier, for screens that check readings. */
+export const couponFullListQuery = (q: Partial<CouponListQuery>) =>
+  queryOptions({
+    queryKey: queryKeys.coupons.full(q),
+    queryFn: () => api.get(`/coupons/full${queryString({ ...q, pageSize: q.pageSize ?? 50 })}`, couponListSchema),
     placeholderData: keepPreviousData,
   });
 

@@ -14,7 +14,7 @@ export const gridCouponsQuery = (scope: GridScope) =>
   queryOptions({
     queryKey: queryKeys.coupons.grid(scope),
     queryFn: async ({ signal }) => {
-      const page = (n: number) => api.get(`/coupons${queryString({ ...scope, page: n, pageSize: GRID_PAGE, sort: 'tag' })}`, couponListSchema);
+      const page = (n: number) => api.get(`/coupons/full${queryString({ ...scope, page: n, pageSize: GRID_PAGE, sort: 'tag' })}`, couponListSchema);
       const first = await page(1);
       const pages = Math.ceil(first.total / GRID_PAGE);
       const rest = await Promise.all(Array.from({ length: Math.max(0, pages - 1) }, (_, i) => page(i + 2)));

@@ -335,9 +335,9 @@ function CouponList({
                     <td>{c.role}</td>
                     <td>{c.trialId ? <Link to={paths.trial.href({ id: c.trialId })}>{c.trialCode ?? c.trialId}</Link> : '—'}</td>
                     <td>{c.runId ? <Link to={paths.run.href({ id: c.runId })}>{c.runCode ?? c.runId}</Link> : '—'}</td>
-                    <td className="text-right tabular-nums">{c.metrics.drySg === null ? '—' : c.metrics.drySg.toFixed(3)}</td>
-                    <td className="text-right tabular-nums">{c.metrics.wpgPct === null ? '—' : c.metrics.wpgPct.toFixed(1)}</td>
-                    <td className="text-right tabular-nums">{units.format(c.metrics.resinLoadingKgM3, 'density', false)}</td>
+                    <td className="text-right tabular-nums">{c.drySg === null ? '—' : c.drySg.toFixed(3)}</td>
+                    <td className="text-right tabular-nums">{c.wpgPct === null ? '—' : c.wpgPct.toFixed(1)}</td>
+                    <td className="text-right tabular-nums">{units.format(c.resinLoadingKgM3, 'density', false)}</td>
                   </tr>
                 ))}
               </tbody>

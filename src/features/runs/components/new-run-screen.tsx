@@ -3,7 +3,7 @@ import { useMemo, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { useNavigate } from 'react-router-dom';
 import { createRunSchema, type CreateRunInput } from '../../../../shared/schemas/runs';
-import type { CouponOut } from '../../../../shared/schemas/coupons';
+import type { CouponListRow } from '../../../../shared/schemas/coupons';
 import type { ResinLot } from '../../../../shared/schemas/reference';
 import { lotResinWarnings, mixedConditionsWarning, type EntryWarning } from '../../../../shared/runs/contradictions';
 import { AltitudeQuestion } from '../../../components/ui/altitude-question';
@@ -44,7 +44,7 @@ export function lotWarning(lot: Pick<ResinLot, 'expired' | 'expiringSoon' | 'exp
 }
 
 /** A picked coupon as the warnings need it: the coupon answer keeps its condition and its planned resin. */
-type Picked = Pick<CouponOut, 'id' | 'tag' | 'role' | 'condition'>;
+type Picked = Pick<CouponListRow, 'id' | 'tag' | 'role' | 'condition'>;
 
 /** What contradicts the records in the run as picked: the lot's resin against the plan, and mixed conditions. */
 export function newRunWarnings(lot: Pick<ResinLot, 'code' | 'resinId' | 'resinName'> | undefined, picked: readonly Picked[]): EntryWarning[] {
@@ -223,11 +223,11 @@ function pickedConditionsText(picked: readonly Picked[]): string {
 interface ConditionGroup {
   key: string;
   label: string;
-  coupons: CouponOut[];
+  coupons: CouponListRow[];
 }
 
 /** The trial's coupons by condition, conditions in the trial's order, controls and unplanned coupons last. */
-function groupByCondition(rows: readonly CouponOut[]): ConditionGroup[] {
+function groupByCondition(rows: readonly CouponListRow[]): ConditionGroup[] {
   const groups = new Map<string, ConditionGroup>();
   for (const c of rows) {
     const key = c.condition ? `c${c.condition.id}` : c.role === 'control' ? 'controls' : 'none';

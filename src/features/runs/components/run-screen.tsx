@@ -9,7 +9,7 @@ import { DEFAULT_CURE_WINDOW_C } from '../../../../shared/runs/thresholds';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
 import { useRole } from '../../../lib/session';
 import { useUnits } from '../../../lib/use-units';
-import { couponListQuery, runQuery } from '../../../lib/queries/records';
+import { couponFullListQuery, couponListQuery, runQuery } from '../../../lib/queries/records';
 import { lotResinWarnings, vacuumStartWarning, weighingWarnings, type EntryWarning } from '../../../../shared/runs/contradictions';
 import type { CouponOut } from '../../../../shared/schemas/coupons';
 import { EntryWarnings } from '../../../components/ui/entry-warnings';
@@ -178,7 +178,7 @@ function ConditionOf({ runId, couponId }: { runId: number; couponId: number }) {
 }
 
 function RunContradictions({ run }: { run: RunDetail }) {
-  const coupons = useQuery({ ...couponListQuery({ runId: run.id, pageSize: 200, sort: 'tag' }), enabled: run.coupons.length > 0 });
+  const coupons = useQuery({ ...couponFullListQuery({ runId: run.id, pageSize: 200, sort: 'tag' }), enabled: run.coupons.length > 0 });
   const items = coupons.data?.items;
   const warnings = useMemo(() => runContradictions(run, items ?? []), [run, items]);
   if (warnings.length === 0) return null;
