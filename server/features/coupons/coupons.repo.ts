@@ -86,7 +86,11 @@ function sortOf(sort: string | undefined) {
 }
 
 /** The list's WHERE (shared by the page, the count and the CSV export); says whether it reads the results table. */
-function listWhere(q: CouponExportQuery): { where: SQL | undefined; needsResults: boolean } {
+/** How a filter value enters the SQL: as itself, or as a named placeholder of a prepared statement. */
+type Bind = (name: string, value: string | number) => unknown;
+const inline: Bind = (_name, value) => value;
+
+function listWhere(q: CouponExportQuery, bind: Bind = inline): { where: SQL | undefined; needsResults: boolean } {
   const r = couponResults;
   const waiting: Record<CouponWaitingFor, SQL | undefined> = {
     'dry-weighing': isNull(r.dryMassG),
@@ -95,12 +99,12 @@ function listWhere(q: CouponExportQuery): { where: SQL | undefined; needsResults
     'dry-dimensions': and(isNull(r.dryThicknessMm), isNull(r.dryVolumeCm3)),
   };
   const filters = [
-    q.runId === undefined ? undefined : eq(coupons.runId, q.runId),
-    q.trialId === undefined ? undefined : eq(coupons.trialId, q.trialId),
-    q.speciesId === undefined ? undefined : eq(coupons.speciesId, q.speciesId),
-    q.conditionId === undefined ? undefined : eq(coupons.conditionId, q.conditionId),
-    q.role === undefined ? undefined : eq(coupons.role, q.role),
-    q.q ? sql`${coupons.tag} like ${`%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`} escape '\\'` : undefined,
+    q.runId === undefined ? undefined : sql`${coupons.runId} = ${bind('runId', q.runId)}`,
+    q.trialId === undefined ? undefined : sql`${coupons.trialId} = ${bind('trialId', q.trialId)}`,
+    q.speciesId === undefined ? undefined : sql`${coupons.speciesId} = ${bind('speciesId', q.speciesId)}`,
+    q.conditionId === undefined ? undefined : sql`${coupons.conditionId} = ${bind('conditionId', q.conditionId)}`,
+    q.role === undefined ? undefined : sql`${coupons.role} = ${bind('role', q.role)}`,
+    q.q ? sql`${coupons.tag} like ${bind('q', `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`)} escape '\\'` : undefined,
     q.waitingFor ? waiting[q.waitingFor] : undefined,
   ].filter((f) => f !== undefined);
   return { where: filters.length ? and(...filters) : undefined, needsResults: q.waitingFor !== undefined };
@@ -115,15 +119,15 @@ export interface CouponPageArgs {
 }
 
 /** WHERE and ORDER BY of a page; keyset: rows after the cursor in (sort value, id) order, so a page far down costs what the first one does. */
-function pagePlan(a: CouponPageArgs) {
-  const { where, needsResults } = listWhere(a.filters);
+function pagePlan(a: CouponPageArgs, bind: Bind = inline) {
+  const { where, needsResults } = listWhere(a.filters, bind);
   const s = sortOf(a.filters.sort);
   let after: SQL | undefined;
   if (a.after) {
     const [v, id] = a.after;
     after = s.desc
-      ? sql`(${s.expr} < ${v} or (${s.expr} = ${v} and ${coupons.id} > ${id}))`
-      : sql`(${s.expr} > ${v} or (${s.expr} = ${v} and ${coupons.id} > ${id}))`;
+      ? sql`(${s.expr} < ${bind('afterValue', v)} or (${s.expr} = ${bind('afterValue', v)} and ${coupons.id} > ${bind('afterId', id)}))`
+      : sql`(${s.expr} > ${bind('afterValue', v)} or (${s.expr} = ${bind('afterValue', v)} and ${coupons.id} > ${bind('afterId', id)}))`;
   }
   return { where, needsResults, pageWhere: and(where, after), order: s.order, offset: a.after ? 0 : a.offset, sortExpr: s.expr };
 }
@@ -134,8 +138,7 @@ function pagePlan(a: CouponPageArgs) {
  * use its indexes (`(trial_id, tag)`, `(run_id, tag)`, `(created_at, id)`); readings and metrics come from the
  * results table, joined by its primary key.
  */
-export function listCouponRows(db: Db, a: CouponPageArgs) {
-  const p = pagePlan(a);
+function lightPageQuery(db: Db, p: ReturnType<typeof pagePlan>) {
   return db
     .select({
       id: coupons.id,
@@ -175,9 +178,32 @@ export function listCouponRows(db: Db, a: CouponPageArgs) {
     .leftJoin(couponResults, eq(couponResults.couponId, coupons.id))
     .where(p.pageWhere)
     .orderBy(...p.order)
-    .limit(a.limit)
-    .offset(p.offset)
-    .all();
+    .limit(sql.placeholder('limit'))
+    .offset(sql.placeholder('offset'))
+    .prepare();
+}
+type LightPage = ReturnType<typeof lightPageQuery>;
+/**
+ * Prepared list statements per database and query shape (sort, which filters, keyset or not): the list is
+ * the busiest read, and building its SQL with every join cost about four times running it.
+ */
+const lightPages = new WeakMap<Db, Map<string, LightPage>>();
+
+export function listCouponRows(db: Db, a: CouponPageArgs) {
+  const params: Record<string, unknown> = { limit: a.limit };
+  const names: string[] = [];
+  const p = pagePlan(a, (name, value) => {
+    params[name] = value;
+    if (!names.includes(name)) names.push(name);
+    return sql.placeholder(name);
+  });
+  params.offset = p.offset;
+  const shape = JSON.stringify([a.filters.sort ?? 'tag', a.filters.waitingFor ?? null, names]);
+  let cache = lightPages.get(db);
+  if (!cache) lightPages.set(db, (cache = new Map()));
+  let q = cache.get(shape);
+  if (!q) cache.set(shape, (q = lightPageQuery(db, p)));
+  return q.all(params);
 }
 export type CouponListDbRow = ReturnType<typeof listCouponRows>[number];
 
