@@ -83,7 +83,9 @@ describe('the coupon list', () => {
     const last = await viewer.get(`/api/coupons?q=LQ-&sort=-tag&pageSize=2&after=${next.body.nextCursor}`);
     expect(tags(last)).toEqual(['LQ-1']);
     expect(last.body.nextCursor).toBeNull();
-    // A metric column too: blanks sort as the lowest value.
+    // A metric column too: blanks go last whichever way the list is sorted (as in a spreadsheet).
+    // Only LQ-1 has a WPG (dry and cured weighings), so it leads both ways.
+    for (const sort of ['wpgPct', '-wpgPct']) expect(tags(await viewer.get(`/api/coupons?q=LQ-&sort=${sort}&pageSize=5`))[0]).toBe('LQ-1');
     const bySg = await viewer.get('/api/coupons?q=LQ-&sort=drySg&pageSize=3');
     const rest = await viewer.get(`/api/coupons?q=LQ-&sort=drySg&pageSize=3&after=${bySg.body.nextCursor}`);
     expect(new Set([...tags(bySg), ...tags(rest)]).size).toBe(5);

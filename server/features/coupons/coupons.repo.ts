@@ -67,21 +67,29 @@ export function findCouponByTag(db: Db, tag: string): CouponRow | undefined {
 /** `col in (ids)` with the ids bound as one JSON array, so a long list never runs out of SQL variables. */
 const inIds = (col: SQLiteColumn, ids: readonly number[]) => sql`${col} in (select value from json_each(${JSON.stringify(ids)}))`;
 
-const SORTS: Record<(typeof COUPON_SORTS)[number], SQL | SQLiteColumn> = {
-  id: coupons.id,
-  tag: coupons.tag,
-  createdAt: coupons.createdAt,
-  // A blank metric sorts as the lowest value, so a keyset cursor never meets a NULL.
-  drySg: sql`coalesce(${couponResults.drySg}, -1e308)`,
-  wpgPct: sql`coalesce(${couponResults.wpgPct}, -1e308)`,
-  resinLoadingKgM3: sql`coalesce(${couponResults.resinLoadingKgM3}, -1e308)`,
+/**
+ * The sortable columns. A blank metric goes last whichever way the list is sorted, as in a spreadsheet: a
+ * shop sorting by dry SG wants the coupons that have one first. It is coalesced to the far end of the sort
+ * (±1e308) rather than left NULL, so a keyset cursor never meets a NULL.
+ */
+const metric =
+  (col: SQLiteColumn) =>
+  (desc_: boolean): SQL =>
+    sql`coalesce(${col}, ${sql.raw(desc_ ? '-1e308' : '1e308')})`;
+const SORTS: Record<(typeof COUPON_SORTS)[number], (desc_: boolean) => SQL | SQLiteColumn> = {
+  id: () => coupons.id,
+  tag: () => coupons.tag,
+  createdAt: () => coupons.createdAt,
+  drySg: metric(couponResults.drySg),
+  wpgPct: metric(couponResults.wpgPct),
+  resinLoadingKgM3: metric(couponResults.resinLoadingKgM3),
 };
 
-/** The list's sort (metrics: blanks first, as the lowest value), its direction and its ORDER BY (ties on the id). */
+/** The list's sort (metrics: blanks last either way), its direction and its ORDER BY (ties on the id). */
 function sortOf(sort: string | undefined) {
   const key = (sort ?? 'tag').replace(/^-/, '') as (typeof COUPON_SORTS)[number];
-  const expr: SQL | SQLiteColumn = SORTS[key] ?? coupons.tag;
   const desc_ = sort?.startsWith('-') ?? false;
+  const expr: SQL | SQLiteColumn = (SORTS[key] ?? SORTS.tag)(desc_);
   return { expr, desc: desc_, order: [desc_ ? desc(expr) : asc(expr), asc(coupons.id)] };
 }
 
