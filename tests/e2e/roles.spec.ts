@@ -60,7 +60,12 @@ test.describe('as admin', () => {
     expect(link).toBeTruthy();
 
     // The invited person opens the link in a fresh browser context, sets a password and lands signed in.
-    const other = await page.context().browser()!.newContext();
+    // An empty storage state: a context made inside a test takes the test's options, so it would otherwise
+    // carry the admin's stored cookie, and signing the invited person in would end the admin's stored session.
+    const other = await page
+      .context()
+      .browser()!
+      .newContext({ storageState: { cookies: [], origins: [] } });
     const invited = await other.newPage();
     await invited.goto(new URL(link!).pathname + new URL(link!).search);
     await invited.getByLabel('Your name').fill('New Bench Hand');
