@@ -27,6 +27,8 @@ test('the coupon list sorts, searches, filters and exports what it shows, and a 
   await table.getByRole('button', { name: /^Dry SG/ }).click();
   await expect(page).toHaveURL(/sort=drySg/);
   await expect(table.locator('thead th').nth(sgColumn)).toHaveAttribute('aria-sort', 'ascending');
+  // The previous page stays on screen, marked busy, until the sorted one arrives.
+  await expect(table).not.toHaveAttribute('aria-busy', 'true');
   const up = await columnNumbers(table, sgColumn);
   expect(up.length).toBeGreaterThan(1);
   expect(up).toEqual([...up].sort((a, b) => a - b));
@@ -42,6 +44,7 @@ test('the coupon list sorts, searches, filters and exports what it shows, and a 
   await filters.getByLabel('Waiting for').selectOption('cured-weighing');
   await expect(page).toHaveURL(/waitingFor=cured-weighing/);
   await expect(page.getByRole('status').filter({ hasText: /coupons? in all|Page 1 of/ })).toBeVisible();
+  await expect(table).not.toHaveAttribute('aria-busy', 'true');
   const tags = await table.locator('tbody th').allInnerTexts();
   expect(tags.length).toBeGreaterThan(0);
   for (const tag of tags) expect(tag.toUpperCase()).toContain('T26-001');

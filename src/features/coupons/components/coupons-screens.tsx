@@ -303,7 +303,8 @@ function CouponList({
       ) : (
         <>
           <div className="overflow-x-auto">
-            <table className="data-table">
+            {/* Busy while the previous page stays on screen and the new sort or filter loads (keepPreviousData). */}
+            <table className="data-table" aria-busy={list.isPlaceholderData || undefined}>
               <caption className="sr-only">Coupons matching the filters</caption>
               <thead>
                 <tr>
