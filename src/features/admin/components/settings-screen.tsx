@@ -145,7 +145,10 @@ function BackupPanel() {
   return (
     <section className="sheet mt-6 max-w-xl p-5" aria-labelledby="backup-heading">
       <h2 id="backup-heading">Backup</h2>
-      <p className="my-2 text-sm text-ink-soft">An online copy of the database, taken while the app keeps running, saved under the data folder.</p>
+      <p className="my-2 text-sm text-ink-soft">
+        One archive of the database (copied while the app keeps running) and every coupon and run photo, saved under the data folder's backups.{' '}
+        <code>npm run restore</code> puts one back.
+      </p>
       <button type="button" className="btn-quiet" onClick={() => backup.mutate()} disabled={backup.isPending}>
         Make a backup now
       </button>
