@@ -248,24 +248,25 @@ function validate(entries: readonly MeasurementEntry[], states: Map<number, Coup
   return problems;
 }
 
-function checkValues(couponId: number, k: CheckInput, source: MeasurementSource, actorId: number) {
-  return {
+/** The bound values of INSERT_CHECK, in its column order; a field that does not belong to the check's kind is stored null. */
+function checkParams(couponId: number, k: CheckInput, source: MeasurementSource, actorId: number) {
+  return [
     couponId,
-    kind: k.kind,
-    stage: k.stage,
-    measuredAt: k.measuredAt,
-    lengthMm: k.kind === 'dimension' ? (k.lengthMm ?? null) : null,
-    widthMm: k.kind === 'dimension' ? (k.widthMm ?? null) : null,
-    thicknessMm: k.kind === 'dimension' ? (k.thicknessMm ?? null) : null,
-    volumeCm3: k.kind === 'dimension' ? (k.volumeCm3 ?? null) : null,
-    hardnessValue: k.kind === 'hardness' ? k.hardnessValue : null,
-    hardnessScale: k.kind === 'hardness' ? k.hardnessScale : null,
-    moisturePct: k.kind === 'moisture' ? k.moisturePct : null,
-    method: k.method ?? null,
-    importId: importIdOf(source),
+    k.kind,
+    k.stage,
+    k.measuredAt,
+    k.kind === 'dimension' ? (k.lengthMm ?? null) : null,
+    k.kind === 'dimension' ? (k.widthMm ?? null) : null,
+    k.kind === 'dimension' ? (k.thicknessMm ?? null) : null,
+    k.kind === 'dimension' ? (k.volumeCm3 ?? null) : null,
+    k.kind === 'hardness' ? k.hardnessValue : null,
+    k.kind === 'hardness' ? k.hardnessScale : null,
+    k.kind === 'moisture' ? k.moisturePct : null,
+    k.method ?? null,
+    importIdOf(source),
     source,
-    createdBy: actorId,
-  };
+    actorId,
+  ] as const;
 }
 
 function requireCurrent<R extends { supersededBy: number | null; deletedAt: string | null }>(row: R | undefined, what: string): R {
@@ -304,24 +305,7 @@ export function createMeasurements(deps: { now: () => Date }) {
         weighingRows.push(row);
       }
       for (const k of e.checks ?? []) {
-        const v = checkValues(e.couponId, k, source, actor.id);
-        const row = insC.get(
-          v.couponId,
-          v.kind,
-          v.stage,
-          v.measuredAt,
-          v.lengthMm,
-          v.widthMm,
-          v.thicknessMm,
-          v.volumeCm3,
-          v.hardnessValue,
-          v.hardnessScale,
-          v.moisturePct,
-          v.method,
-          v.importId,
-          v.source,
-          v.createdBy,
-        ) as CheckRow;
+        const row = insC.get(...checkParams(e.couponId, k, source, actor.id)) as CheckRow;
         auditC(row.id, null, row, null);
         checkRows.push(row);
       }
@@ -420,24 +404,7 @@ export function createMeasurements(deps: { now: () => Date }) {
       });
       (e.checks ?? []).forEach((k, j) => {
         if (skip.size && skip.has(`${i}|checks|${j}`)) return;
-        const v = checkValues(e.couponId, k, source, actor.id);
-        const id = insC.run(
-          v.couponId,
-          v.kind,
-          v.stage,
-          v.measuredAt,
-          v.lengthMm,
-          v.widthMm,
-          v.thicknessMm,
-          v.volumeCm3,
-          v.hardnessValue,
-          v.hardnessScale,
-          v.moisturePct,
-          v.method,
-          v.importId,
-          v.source,
-          v.createdBy,
-        ).lastInsertRowid;
+        const id = insC.run(...checkParams(e.couponId, k, source, actor.id)).lastInsertRowid;
         if (perSource) {
           touched.add(e.couponId);
           stretch(ranges.checks, Number(id));
