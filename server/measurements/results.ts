@@ -227,7 +227,7 @@ function bindable(v: CouponResultValues): unknown[] {
 
 function updateBindable(v: CouponResultValues): unknown[] {
   const rec = v as unknown as Record<string, unknown>;
-  const out = VALUE_COLUMNS.map((c) => column(rec, c.key));
+  const out: unknown[] = VALUE_COLUMNS.map((c) => column(rec, c.key));
   out.push(v.couponId);
   for (const c of KEY_COLUMNS) out.push(column(rec, c.key));
   return out;
