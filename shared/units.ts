@@ -16,7 +16,8 @@
  */
 
 // The tuples live in shared/constants/units.ts (the user contract needs them, and importing them from there
-// keeps these conversions out of the sign-in page's first load, decision 0014); re-exported here for callers.
+// keeps these conversions out of the sign-in page's first load, decision 0014); this module uses them and
+// passes them on to its callers.
 import {
   ALTITUDE_UNITS,
   DENSITY_UNITS,
@@ -33,21 +34,7 @@ import {
   type UnitSystem,
 } from './constants/units';
 
-export {
-  ALTITUDE_UNITS,
-  DENSITY_UNITS,
-  FORCE_UNITS,
-  LENGTH_UNITS,
-  LIQUID_VOLUME_UNITS,
-  MASS_UNITS,
-  PRESSURE_UNITS,
-  QUANTITIES,
-  TEMPERATURE_UNITS,
-  UNIT_SYSTEMS,
-  VOLUME_UNITS,
-  type Quantity,
-  type UnitSystem,
-};
+export * from './constants/units';
 
 export type MassUnit = (typeof MASS_UNITS)[number];
 export type LengthUnit = (typeof LENGTH_UNITS)[number];

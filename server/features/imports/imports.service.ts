@@ -630,7 +630,7 @@ export function createImportsService(deps: FeatureDeps) {
               actor,
               source,
               accepted.map((i) => entryOf(mapping, collected, i)),
-              { skipRefused: true },
+              { skipRefused: true, audit: 'per-source' },
             );
             // Refused now though accepted a moment ago: the coupon changed meanwhile.
             const lateAt = new Map<number, ReadingProblem>();
@@ -679,7 +679,7 @@ export function createImportsService(deps: FeatureDeps) {
             action: 'commit',
             entity: 'import',
             entityId: id,
-            after: { stage: mapping.stage, counts: a.counts, choice: input.choice },
+            after: { stage: mapping.stage, counts: a.counts, choice: input.choice, file: r.originalName, sha256: r.sha256, corrections: corrections.length },
           });
         });
       } catch (err) {

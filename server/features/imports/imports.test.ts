@@ -143,6 +143,38 @@ describe('imports: upload, detect, preview, commit, undo', () => {
     const coupon = (await s.tech.get(`/api/coupons/${s.ids['FX-02']}`)).body.coupon;
     expect(coupon.weighings.map((x: { massG: number; importId: number }) => [x.massG, x.importId])).toEqual([[11.902, d.id]]);
 
+    // One audit entry for the rows (counts, stage, the ids it wrote) and one for the commit (file, hash),
+    // not one per coupon; the coupon's history shows the commit beside the weighing that names the import.
+    const importAudit = s.h.database.db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entity, 'import'), eq(auditLog.entityId, String(d.id))))
+      .all();
+    expect(importAudit.map((e) => e.action)).toEqual(['upload', 'add-readings', 'commit']);
+    const ids = s.h.database.db
+      .select({ id: weighings.id })
+      .from(weighings)
+      .where(eq(weighings.importId, d.id))
+      .all()
+      .map((x) => x.id);
+    expect(importAudit[1]!.after).toMatchObject({
+      coupons: 3,
+      weighings: 3,
+      checks: 0,
+      stages: { dry: 3 },
+      weighingIds: { first: Math.min(...ids), last: Math.max(...ids) },
+    });
+    expect(importAudit[2]!.after).toMatchObject({ sha256: d.sha256, file: d.originalName, stage: 'dry' });
+    expect(
+      s.h.database.db
+        .select()
+        .from(auditLog)
+        .where(and(eq(auditLog.action, 'add-readings'), eq(auditLog.entity, 'coupon')))
+        .all(),
+    ).toEqual([]);
+    const history = (await s.viewer.get(`/api/coupons/${s.ids['FX-01']}/history`)).body;
+    expect(history.audit.map((e: { action: string; entity: string }) => `${e.action}:${e.entity}`)).toContain('commit:import');
+
     const list = (await s.viewer.get('/api/imports')).body;
     expect(list.items.find((i: { id: number }) => i.id === d.id)).toMatchObject({ status: 'committed', stage: 'dry', createdByName: expect.any(String) });
 
