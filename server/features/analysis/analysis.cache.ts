@@ -6,15 +6,16 @@ import type Database from 'better-sqlite3';
  */
 export const ANALYSIS_SOURCE_TABLES = ['coupon_results', 'species', 'resins', 'runs', 'run_stages'] as const;
 
-const OPS = ['insert', 'update', 'delete'] as const;
-
 /**
- * A version of the data the analysis reads, cheap enough to check on every request (three one-row reads):
+ * A version of the data the analysis reads, cheap enough to check on every request (three one-row reads),
+ * and the coupons written since an earlier version:
  *
- * - writes through this connection are counted by TEMP triggers on the source tables (one counter row in
- *   the connection's temp database; the triggers live with the connection, so no migration and nothing
- *   stored in the file). The counter update is part of the writer's transaction, so a rollback takes it
- *   back together with the write it counted;
+ * - writes through this connection are logged by TEMP triggers on the source tables: one row per row
+ *   written in a TEMP log (`analysis_changes`), the coupon's id for a results row, NULL for the other
+ *   tables. The log's last rowid is the generation. The triggers live with the connection, so no
+ *   migration and nothing stored in the file. The log row is part of the writer's transaction, so a
+ *   rollback takes it back together with the write it counted. Appending one row costs a bulk write what
+ *   the counter it replaced did (one temp-table write per row);
  * - writes by another connection (another process on a copy, the rebuild command) change SQLite's
  *   `data_version`;
  * - a schema change (a table rebuilt by a migration would drop its triggers) changes `schema_version`,
@@ -23,34 +24,74 @@ const OPS = ['insert', 'update', 'delete'] as const;
  * Any change gives a new version string, so an answer cached under an old one is never served again.
  * Counting every row written is conservative (a write that leaves the answer equal still refreshes it).
  */
-export function createDataVersion(sqlite: Database.Database): () => string {
+export interface DataVersion {
+  (): string;
+  /**
+   * The ids of the results rows written through this connection since `since` (a string this function
+   * returned), in no order, possibly repeated; null when that cannot be told from the log: another
+   * connection wrote, the schema changed, a table other than coupon_results was written, or more than
+   * `limit` rows were.
+   */
+  changedCoupons(since: string, limit: number): number[] | null;
+  /** Forgets log rows no cached set needs any more (at or before `oldest`, a version string). */
+  prune(oldest: string): void;
+}
+
+export function createDataVersion(sqlite: Database.Database): DataVersion {
   let installedAt = -1;
   const install = () => {
-    const sql = ['CREATE TEMP TABLE IF NOT EXISTS analysis_generation (n INTEGER NOT NULL)'];
-    for (const table of ANALYSIS_SOURCE_TABLES)
-      for (const op of OPS)
+    const sql = ['CREATE TEMP TABLE IF NOT EXISTS analysis_changes (coupon_id INTEGER)'];
+    for (const table of ANALYSIS_SOURCE_TABLES) {
+      const results = table === 'coupon_results';
+      for (const [op, row] of [
+        ['insert', 'NEW'],
+        ['update', 'NEW'],
+        ['delete', 'OLD'],
+      ] as const)
         sql.push(
-          `CREATE TEMP TRIGGER IF NOT EXISTS analysis_generation_${table}_${op} AFTER ${op.toUpperCase()} ON main.${table} ` +
-            'BEGIN UPDATE analysis_generation SET n = n + 1; END',
+          `CREATE TEMP TRIGGER IF NOT EXISTS analysis_changes_${table}_${op} AFTER ${op.toUpperCase()} ON main.${table} ` +
+            `BEGIN INSERT INTO analysis_changes (coupon_id) VALUES (${results ? `${row}.coupon_id` : 'NULL'}); END`,
         );
+    }
+    // A results row that changes its coupon (never done today) leaves its old id changed too.
+    sql.push(
+      'CREATE TEMP TRIGGER IF NOT EXISTS analysis_changes_coupon_results_moved AFTER UPDATE OF coupon_id ON main.coupon_results ' +
+        'WHEN OLD.coupon_id IS NOT NEW.coupon_id BEGIN INSERT INTO analysis_changes (coupon_id) VALUES (OLD.coupon_id); END',
+    );
     sqlite.exec(sql.join(';\n'));
-    sqlite.exec('INSERT INTO analysis_generation (n) SELECT 0 WHERE NOT EXISTS (SELECT 1 FROM analysis_generation)');
+    // A first row, so the generation is never empty; NULL: "not a coupon row", so nothing before it is patchable.
+    sqlite.exec('INSERT INTO analysis_changes (rowid, coupon_id) SELECT 1, NULL WHERE NOT EXISTS (SELECT 1 FROM analysis_changes)');
     installedAt = (sqlite.prepare('SELECT schema_version FROM pragma_schema_version').pluck().get() as number) ?? 0;
   };
   install();
   const read = sqlite
     .prepare(
-      'SELECT (SELECT n FROM temp.analysis_generation), (SELECT data_version FROM pragma_data_version), (SELECT schema_version FROM pragma_schema_version)',
+      'SELECT (SELECT max(rowid) FROM temp.analysis_changes), (SELECT data_version FROM pragma_data_version), (SELECT schema_version FROM pragma_schema_version)',
     )
     .raw(true);
-  return () => {
+  const since = sqlite.prepare('SELECT coupon_id FROM temp.analysis_changes WHERE rowid > ? LIMIT ?').pluck();
+  const forget = sqlite.prepare('DELETE FROM temp.analysis_changes WHERE rowid <= ? AND rowid < (SELECT max(rowid) FROM temp.analysis_changes)');
+  const version = (() => {
     let row = read.get() as [number, number, number];
     if (row[2] !== installedAt) {
       install();
       row = read.get() as [number, number, number];
     }
     return row.join(':');
+  }) as DataVersion;
+  version.changedCoupons = (before: string, limit: number) => {
+    const [gen, data, schema] = before.split(':');
+    const [, dataNow, schemaNow] = version().split(':');
+    if (data !== dataNow || schema !== schemaNow) return null;
+    const ids = since.all(Number(gen), limit + 1) as (number | null)[];
+    if (ids.length > limit) return null;
+    for (const id of ids) if (id === null) return null;
+    return ids as number[];
   };
+  version.prune = (oldest: string) => {
+    forget.run(Number(oldest.split(':')[0]));
+  };
+  return version;
 }
 
 /** A small least-recently-used map: a hit moves the entry to the back, the front is dropped when full. */
@@ -72,6 +113,9 @@ export class Lru<V> {
   }
   clear(): void {
     this.map.clear();
+  }
+  values(): IterableIterator<V> {
+    return this.map.values();
   }
   get size(): number {
     return this.map.size;
