@@ -1,7 +1,7 @@
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import { monitorEventLoopDelay } from 'node:perf_hooks';
+import { monitorEventLoopDelay, performance as perf } from 'node:perf_hooks';
 import Papa from 'papaparse';
 import { afterAll, bench, describe } from 'vitest';
 import { openDatabase, type Database_ } from '../../db/client';
@@ -123,13 +123,26 @@ describe(`import of ${N.toLocaleString('en')} readings`, () => {
         cpu0 = process.cpuUsage();
         return (u.user + u.system) / 1000;
       };
+      // The main thread's longest stall and busy share per phase (the commit's transaction runs in a worker
+      // thread, whose CPU process.cpuUsage counts but which does not hold this thread's event loop).
+      let elu0 = perf.eventLoopUtilization();
+      const phase = (name: string) => {
+        times[`${name}Stall`] = loop.max / 1e6;
+        loop.reset();
+        const e = perf.eventLoopUtilization(elu0);
+        elu0 = perf.eventLoopUtilization();
+        times[`${name}Elu`] = e.utilization;
+      };
+      phase('upload');
       await tech.post(`/api/imports/${d.id}/preview`).send({ mapping }).expect(202);
       const p = await settle(d.id);
       times.preview = performance.now() - t0 - times.upload;
       times.previewCpu = cpuSince();
+      phase('preview');
       await tech.post(`/api/imports/${d.id}/commit`).send({ mapping }).expect(202);
       const c = await settle(d.id);
       times.commitCpu = cpuSince();
+      phase('commit');
       times.total = performance.now() - t0;
       loop.disable();
       health.on = false;
@@ -143,6 +156,7 @@ describe(`import of ${N.toLocaleString('en')} readings`, () => {
 
 afterAll(async () => {
   const mb = (b: number) => `${(b / 1024 / 1024).toFixed(0)} MB`;
+  const pct = (x: number | undefined) => `${((x ?? NaN) * 100).toFixed(0)} %`;
   const floor = times.floor ?? NaN;
   const total = times.total ?? NaN;
   console.log(
@@ -153,7 +167,8 @@ afterAll(async () => {
       `  CPU time of this process: preview ${times.previewCpu?.toFixed(0)} ms, commit ${times.commitCpu?.toFixed(0)} ms`,
       `  ratio end to end / floor: ${(total / floor).toFixed(2)}`,
       `  RSS of this process (server and client together): ${mb(rss.before)} before the import, ${mb(rss.peak)} at its highest during it (+${mb(rss.peak - rss.before)}); high-water mark ${mb(rss.maxBefore)} before the import (setup and floor), ${mb(process.resourceUsage().maxRSS * 1024)} after it`,
-      `  longest event-loop stall during the import: ${(loop.max / 1e6).toFixed(0)} ms`,
+      `  longest event-loop stall of the main thread: upload ${times.uploadStall?.toFixed(0)} ms, preview ${times.previewStall?.toFixed(0)} ms, commit ${times.commitStall?.toFixed(0)} ms`,
+      `  main thread busy (event-loop utilisation): preview ${pct(times.previewElu)}, commit ${pct(times.commitElu)}`,
       `  /api/health during the import: ${health.answers} answers, slowest ${health.slowest.toFixed(0)} ms`,
     ].join('\n'),
   );

@@ -5,6 +5,7 @@ import { fileURLToPath } from 'node:url';
 import { and, eq, isNull } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startHarness, type Harness } from '../../testing/harness';
+import { openWorkerConnection } from '../../db/client';
 import { auditLog } from '../../db/schema/admin';
 import { coupons, weighings } from '../../db/schema/coupons';
 import { species } from '../../db/schema/reference';
@@ -211,6 +212,38 @@ describe('imports: upload, detect, preview, commit, undo', () => {
     expect(currentOf(s.h, s.ids['FX-01']!).filter((x) => x.stage === 'wet-test')).toHaveLength(1);
     // 1 oz = 28.349523125 g (NIST SP 811 App. B): 0.4355 oz.
     expect(currentOf(s.h, s.ids['FX-01']!).find((x) => x.stage === 'wet-test')!.massG).toBeCloseTo(0.4355 * 28.349523125, 9);
+  });
+
+  it('keeps serving while another connection writes: reads answer, writes are told to try again, a commit waits its turn', async () => {
+    const d = (await upload(s.tech, 'two-date-columns-day-first.csv')).body as ImportDetail;
+    await previewed(s.tech, d, { stage: 'soaked' });
+    const mapping = mappingFor(d, { stage: 'soaked' });
+    // A second connection holding the write lock, as the commit's worker thread does while it writes.
+    const other = openWorkerConnection(s.h.database.sqlite.name);
+    try {
+      other.exec('BEGIN IMMEDIATE');
+      expect((await s.tech.get(`/api/coupons/${s.ids['FX-04']}`)).status).toBe(200);
+      const write = await s.tech.post(`/api/coupons/${s.ids['FX-04']}/weighings`).send({ stage: 'dry', massG: 12.5, measuredAt: '2026-03-01T08:00:00.000Z' });
+      expect(write.status).toBe(503);
+      expect(write.headers['retry-after']).toBe('3');
+      expect(write.body.error.message).toMatch(/import is being written.*Try again in a moment/);
+      expect((await s.tech.post(`/api/imports/${d.id}/commit`).send({ mapping })).status).toBe(503);
+      other.exec('COMMIT');
+
+      // The commit's worker starts, finds the lock taken (the other connection took it again while the
+      // worker was starting, or waits for the worker to finish), waits its turn instead of failing.
+      expect((await s.tech.post(`/api/imports/${d.id}/commit`).send({ mapping })).status).toBe(202);
+      other.exec('BEGIN IMMEDIATE');
+      await new Promise((r) => setTimeout(r, 300));
+      other.exec('COMMIT');
+    } finally {
+      if (other.inTransaction) other.exec('ROLLBACK');
+      other.close();
+    }
+    expect((await settle(s.tech, d.id)).status).toBe('committed');
+    expect(
+      (await s.tech.post(`/api/coupons/${s.ids['FX-04']}/weighings`).send({ stage: 'dry', massG: 12.5, measuredAt: '2026-03-01T08:00:00.000Z' })).status,
+    ).toBe(201);
   });
 });
 

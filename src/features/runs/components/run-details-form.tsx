@@ -5,7 +5,6 @@ import { updateRunSchema, type RunDetail, type UpdateRunInput } from '../../../.
 import { AltitudeQuestion } from '../../../components/ui/altitude-question';
 import { Field, FormError } from '../../../components/ui/field';
 import { NumberField } from '../../../components/ui/number-field';
-import { ErrorNote } from '../../../components/ui/page';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { renameFields } from '../../../lib/form-values';
 import { toBox, toSi } from '../../../lib/forms/number-input';
@@ -13,7 +12,7 @@ import { convertingResolver } from '../../../lib/forms/resolver';
 import { lotListQuery } from '../../../lib/queries/reference';
 import { useUnits } from '../../../lib/use-units';
 import { useUpdateRun } from '../api/use-update-run';
-import { lotWarning } from './new-run-screen';
+import { LotSelect } from './lot-select';
 
 const FIELDS = ['code', 'chamber', 'resinLotId', 'altitude', 'notes', 'reason'] as const;
 const RENAMES = { altitudeM: 'altitude', '': 'root' };
@@ -86,8 +85,6 @@ export function RunDetailsForm({ run, onDone, onCancel }: { run: RunDetail; onDo
   useEffect(() => headingRef.current?.focus(), []);
   const altitude = form.watch('altitude');
   const lotId = Number(form.watch('resinLotId')) || null;
-  const lot = lots.data?.items.find((l) => l.id === lotId);
-  const warning = lot && lot.id !== run.resinLotId ? lotWarning(lot) : null;
   const readings = run.stages.reduce((n, s) => n + s.readings.length, 0);
 
   const onSubmit = form.handleSubmit(async (values) => {
@@ -110,47 +107,17 @@ export function RunDetailsForm({ run, onDone, onCancel }: { run: RunDetail; onDo
           <Field label="Run code" registration={form.register('code')} error={errors.code?.message} />
           <Field label="Chamber" registration={form.register('chamber')} error={errors.chamber?.message} />
         </div>
-        <div className="mb-4">
-          <label htmlFor="run-details-lot" className="field-label">
-            Resin lot
-          </label>
-          <select
-            id="run-details-lot"
-            className="field-input"
-            aria-invalid={errors.resinLotId ? true : undefined}
-            aria-describedby={
-              [warning ? 'run-details-lot-warning' : '', errors.resinLotId ? 'run-details-lot-error' : ''].filter(Boolean).join(' ') || undefined
-            }
-            {...form.register('resinLotId')}
-            disabled={lots.isPending}
-          >
-            <option value="">No lot recorded</option>
-            {/* The run's own lot stays a choice even when the list leaves it out (used up, say). */}
-            {run.lot && run.resinLotId !== null && !lots.data?.items.some((l) => l.id === run.resinLotId) && (
-              <option value={run.resinLotId}>
-                {run.lot.code} · {run.lot.resin.name}
-              </option>
-            )}
-            {lots.data?.items.map((l) => (
-              <option key={l.id} value={l.id}>
-                {l.code} · {l.resinName} · activated {l.activatedAt.slice(0, 10)}
-                {l.expired ? ' (past shelf life)' : l.expiringSoon ? ' (expires soon)' : ''}
-                {l.status !== 'active' ? ` (${l.status})` : ''}
-              </option>
-            ))}
-          </select>
-          {lots.isError && <ErrorNote error={lots.error} />}
-          {warning && (
-            <p id="run-details-lot-warning" className="mt-1 rounded border border-amber-ink px-2 py-1 text-sm text-amber-ink">
-              {warning}
-            </p>
-          )}
-          {errors.resinLotId && (
-            <p id="run-details-lot-error" role="alert" className="mt-1 text-sm text-margin">
-              {errors.resinLotId.message}
-            </p>
-          )}
-        </div>
+        <LotSelect
+          id="run-details-lot"
+          lots={lots}
+          registration={form.register('resinLotId')}
+          pickedId={lotId}
+          error={errors.resinLotId?.message}
+          emptyLabel="No lot recorded"
+          extraOption={run.lot && run.resinLotId !== null ? { id: run.resinLotId, label: `${run.lot.code} · ${run.lot.resin.name}` } : null}
+          // The run's own lot was warned about when it was picked; only a new pick is.
+          warnFor={(l) => l.id !== run.resinLotId}
+        />
         <NumberField
           form={form}
           name="altitude"

@@ -1,0 +1,43 @@
+import { parentPort, workerData } from 'node:worker_threads';
+import { drizzle } from 'drizzle-orm/better-sqlite3';
+import { openWorkerConnection, schema } from '../../db/client';
+import { AppError } from '../../http/errors';
+import { createMeasurements } from '../../measurements/measurements';
+import { writeCommit, type CommitJob } from './commit';
+
+/**
+ * The worker thread that writes an import's commit (decision 0017): its own connection to the same WAL
+ * database (the main thread's process lock covers it), one transaction, and the outcome posted back. The
+ * main thread keeps answering other requests meanwhile; readers see the data before the commit until it ends.
+ */
+export interface CommitWorkerInput {
+  file: string;
+  job: CommitJob;
+  /** The main thread's clock minus this thread's (tests move the app's clock). */
+  nowOffsetMs: number;
+}
+export type CommitWorkerOutput =
+  | { ok: 'committed' | 'blocked' }
+  | { error: { message: string; app: { code: AppError['code']; fieldErrors?: AppError['fieldErrors'] } | null; sqliteCode: string | null; stack?: string } };
+
+const input = workerData as CommitWorkerInput;
+const sqlite = openWorkerConnection(input.file);
+let out: CommitWorkerOutput;
+try {
+  const db = drizzle(sqlite, { schema });
+  const now = () => new Date(Date.now() + input.nowOffsetMs);
+  out = { ok: writeCommit(db, createMeasurements({ now }), input.job, now) };
+} catch (err) {
+  const e = err as Error & { code?: unknown };
+  out = {
+    error: {
+      message: e.message,
+      app: err instanceof AppError ? { code: err.code, fieldErrors: err.fieldErrors } : null,
+      sqliteCode: typeof e.code === 'string' ? e.code : null,
+      stack: e.stack,
+    },
+  };
+} finally {
+  sqlite.close();
+}
+parentPort?.postMessage(out);
