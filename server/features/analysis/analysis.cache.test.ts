@@ -12,7 +12,9 @@ afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
 function open(file: string) {
   const db = new Database(file);
   for (const t of ANALYSIS_SOURCE_TABLES)
-    db.exec(`create table if not exists ${t} (${t === 'coupon_results' ? 'coupon_id' : 'id'} integer primary key, v real)`);
+    db.exec(
+      `create table if not exists ${t} (${t === 'coupon_results' ? 'coupon_id' : 'id'} integer primary key, v real${t === 'run_stages' ? ', run_id integer' : ''})`,
+    );
   return db;
 }
 
@@ -74,28 +76,33 @@ describe('the data version an analysis answer is cached under', () => {
 });
 
 describe('the coupons written since a version', () => {
-  it('names the results rows written through this connection, and gives up when it cannot tell', () => {
+  it('names the results rows and runs written through this connection, and gives up when it cannot tell', () => {
     const file = path.join(dir, 'four.db');
     const db = open(file);
     const version = createDataVersion(db);
     db.prepare('insert into coupon_results (coupon_id, v) values (1, 1), (2, 2), (3, 3)').run();
     const v0 = version();
-    expect(version.changedCoupons(v0, 10)).toEqual([]);
+    expect(version.changedSince(v0, 10)).toEqual({ couponIds: [], runIds: [] });
     db.prepare('update coupon_results set v = 20 where coupon_id = 2').run();
     db.prepare('delete from coupon_results where coupon_id = 3').run();
     db.prepare('insert into coupon_results (coupon_id, v) values (4, 4)').run();
-    expect(new Set(version.changedCoupons(v0, 10))).toEqual(new Set([2, 3, 4]));
-    expect(version.changedCoupons(v0, 2)).toBeNull(); // more than the limit
+    db.prepare('insert into run_stages (id, v, run_id) values (1, 1, 7)').run();
+    const changed = version.changedSince(v0, 10);
+    expect(new Set(changed?.couponIds)).toEqual(new Set([2, 3, 4]));
+    expect(changed?.runIds).toEqual([7]); // a run's stage: its coupons are read again
+    expect(version.changedSince(v0, 2)).toBeNull(); // more than the limit
     const v1 = version();
-    version.prune(v1);
+    version.prune(1);
     expect(version()).toBe(v1); // pruning keeps the generation
+    expect(version.changedSince(v0, 10)).toBeNull(); // the rows after v0 are gone: cannot tell
+    expect(version.changedSince(v1, 10)).toEqual({ couponIds: [], runIds: [] });
     db.prepare('insert into resins (id, v) values (1, 1)').run(); // another source table: not a coupon row
-    expect(version.changedCoupons(v1, 10)).toBeNull();
+    expect(version.changedSince(v1, 10)).toBeNull();
     const v2 = version();
     const writer = new Database(file);
     writer.prepare('update coupon_results set v = 5 where coupon_id = 1').run();
     writer.close();
-    expect(version.changedCoupons(v2, 10)).toBeNull(); // another connection: the log cannot see it
+    expect(version.changedSince(v2, 10)).toBeNull(); // another connection: the log cannot see it
     db.close();
   });
 });

@@ -11,8 +11,8 @@ export const ANALYSIS_SOURCE_TABLES = ['coupon_results', 'species', 'resins', 'r
  * and the coupons written since an earlier version:
  *
  * - writes through this connection are logged by TEMP triggers on the source tables: one row per row
- *   written in a TEMP log (`analysis_changes`), the coupon's id for a results row, NULL for the other
- *   tables. The log's last rowid is the generation. The triggers live with the connection, so no
+ *   written in a TEMP log (`analysis_changes`), the coupon's id for a results row, the run's id negated
+ *   for a run or its stages, NULL for species and resins. The log's last rowid is the generation. The triggers live with the connection, so no
  *   migration and nothing stored in the file. The log row is part of the writer's transaction, so a
  *   rollback takes it back together with the write it counted. Appending one row costs a bulk write what
  *   the counter it replaced did (one temp-table write per row);
@@ -27,22 +27,34 @@ export const ANALYSIS_SOURCE_TABLES = ['coupon_results', 'species', 'resins', 'r
 export interface DataVersion {
   (): string;
   /**
-   * The ids of the results rows written through this connection since `since` (a string this function
-   * returned), in no order, possibly repeated; null when that cannot be told from the log: another
-   * connection wrote, the schema changed, a table other than coupon_results was written, or more than
-   * `limit` rows were.
+   * What was written through this connection since `since` (a string this function returned): the ids of
+   * the results rows and of the runs (a run or its stages), in no order, possibly repeated; null when that
+   * cannot be told from the log: another connection wrote, the schema changed, species or resins were
+   * written, or more than `limit` rows were.
    */
-  changedCoupons(since: string, limit: number): number[] | null;
-  /** Forgets log rows no cached set needs any more (at or before `oldest`, a version string). */
-  prune(oldest: string): void;
+  changedSince(since: string, limit: number): { couponIds: number[]; runIds: number[] } | null;
+  /**
+   * Keeps the log to its last `keep` rows. The log belongs to the connection, which may serve several
+   * readers, so it is cut by length, never by what one reader has seen; a reader whose version is older
+   * than the rows kept is told "cannot tell" (null) and reads afresh.
+   */
+  prune(keep: number): void;
 }
 
 export function createDataVersion(sqlite: Database.Database): DataVersion {
   let installedAt = -1;
   const install = () => {
     const sql = ['CREATE TEMP TABLE IF NOT EXISTS analysis_changes (coupon_id INTEGER)'];
+    // What a row of each table logs: a results row its coupon's id, a run or a run's stage the run's id
+    // negated (its coupons' run code and treated date follow it), species and resins NULL.
+    const logged: Record<(typeof ANALYSIS_SOURCE_TABLES)[number], (row: 'NEW' | 'OLD') => string> = {
+      coupon_results: (row) => `${row}.coupon_id`,
+      runs: (row) => `-${row}.id`,
+      run_stages: (row) => `-${row}.run_id`,
+      species: () => 'NULL',
+      resins: () => 'NULL',
+    };
     for (const table of ANALYSIS_SOURCE_TABLES) {
-      const results = table === 'coupon_results';
       for (const [op, row] of [
         ['insert', 'NEW'],
         ['update', 'NEW'],
@@ -50,7 +62,7 @@ export function createDataVersion(sqlite: Database.Database): DataVersion {
       ] as const)
         sql.push(
           `CREATE TEMP TRIGGER IF NOT EXISTS analysis_changes_${table}_${op} AFTER ${op.toUpperCase()} ON main.${table} ` +
-            `BEGIN INSERT INTO analysis_changes (coupon_id) VALUES (${results ? `${row}.coupon_id` : 'NULL'}); END`,
+            `BEGIN INSERT INTO analysis_changes (coupon_id) VALUES (${logged[table](row)}); END`,
         );
     }
     // A results row that changes its coupon (never done today) leaves its old id changed too.
@@ -70,7 +82,8 @@ export function createDataVersion(sqlite: Database.Database): DataVersion {
     )
     .raw(true);
   const since = sqlite.prepare('SELECT coupon_id FROM temp.analysis_changes WHERE rowid > ? LIMIT ?').pluck();
-  const forget = sqlite.prepare('DELETE FROM temp.analysis_changes WHERE rowid <= ? AND rowid < (SELECT max(rowid) FROM temp.analysis_changes)');
+  const first = sqlite.prepare('SELECT min(rowid) FROM temp.analysis_changes').pluck();
+  const forget = sqlite.prepare('DELETE FROM temp.analysis_changes WHERE rowid <= (SELECT max(rowid) FROM temp.analysis_changes) - ?');
   const version = (() => {
     let row = read.get() as [number, number, number];
     if (row[2] !== installedAt) {
@@ -79,17 +92,25 @@ export function createDataVersion(sqlite: Database.Database): DataVersion {
     }
     return row.join(':');
   }) as DataVersion;
-  version.changedCoupons = (before: string, limit: number) => {
+  version.changedSince = (before: string, limit: number) => {
     const [gen, data, schema] = before.split(':');
     const [, dataNow, schemaNow] = version().split(':');
     if (data !== dataNow || schema !== schemaNow) return null;
+    // Rows after `gen` were cut away by prune: what changed can no longer be told.
+    if (Number(gen) < (first.get() as number) - 1) return null;
     const ids = since.all(Number(gen), limit + 1) as (number | null)[];
     if (ids.length > limit) return null;
-    for (const id of ids) if (id === null) return null;
-    return ids as number[];
+    const couponIds: number[] = [];
+    const runIds: number[] = [];
+    for (const id of ids) {
+      if (id === null) return null;
+      if (id < 0) runIds.push(-id);
+      else couponIds.push(id);
+    }
+    return { couponIds, runIds };
   };
-  version.prune = (oldest: string) => {
-    forget.run(Number(oldest.split(':')[0]));
+  version.prune = (keep: number) => {
+    forget.run(Math.max(1, keep));
   };
   return version;
 }
@@ -113,9 +134,6 @@ export class Lru<V> {
   }
   clear(): void {
     this.map.clear();
-  }
-  values(): IterableIterator<V> {
-    return this.map.values();
   }
   get size(): number {
     return this.map.size;

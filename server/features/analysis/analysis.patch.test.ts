@@ -15,21 +15,23 @@ afterAll(() => {
   fs.rmSync(shop.dir, { recursive: true, force: true });
 });
 
-const held = createAnalysisService({ db: shop.database.db, now: () => new Date(0) });
 const [r1, r2] = shop.resinIds as [number, number];
-const views = [{}, { speciesId: [shop.speciesId] }, { thicknessMinMm: 25 }];
+const views = [{}, { speciesId: [shop.speciesId] }, { thicknessMinMm: 25 }, { from: '2020-01-03' }];
+const service = () => createAnalysisService({ db: shop.database.db, now: () => new Date(0) });
+// One held service per view, so each keeps its set from one write to the next (a service holds 3 sets).
+const held = views.map(service);
 
-function answers(service: ReturnType<typeof createAnalysisService>) {
-  return views.flatMap((filters) => [
-    service.overview(filters, 'measured'),
-    service.overview(filters, 'handbook'),
-    service.compare(filters, { resinId: r1 }, { resinId: r2 }, 'wpgPct'),
-    service.compare(filters, { resinId: r1, speciesId: shop.speciesId }, { speciesId: shop.speciesId, role: 'control' }, 'hardness'),
-    service.coupons(filters, 1, 1000),
-  ]);
+function answers(s: ReturnType<typeof createAnalysisService>, filters: (typeof views)[number]) {
+  return [
+    s.overview(filters, 'measured'),
+    s.overview(filters, 'handbook'),
+    s.compare(filters, { resinId: r1 }, { resinId: r2 }, 'wpgPct'),
+    s.compare(filters, { resinId: r1, speciesId: shop.speciesId }, { speciesId: shop.speciesId, role: 'control' }, 'hardness'),
+    s.coupons(filters, 1, 1000),
+  ];
 }
 
-const expectSameAsFresh = () => expect(answers(held)).toEqual(answers(createAnalysisService({ db: shop.database.db, now: () => new Date(0) })));
+const expectSameAsFresh = () => views.forEach((filters, i) => expect(answers(held[i]!, filters)).toEqual(answers(service(), filters)));
 const treated = (k: number) =>
   sqlite.prepare("select coupon_id from coupon_results where role = 'treated' order by coupon_id limit 1 offset ?").pluck().get(k) as number;
 
@@ -60,6 +62,13 @@ describe('held coupons patched after writes', () => {
       .prepare(`insert into coupon_results (coupon_id, tag, source_board, ${cols.join(', ')}) values (?, 'NEW-1', 'B-new', ${cols.map(() => '?').join(', ')})`)
       .run(id, ...cols.map((c) => last[c]));
     sqlite.prepare('delete from coupon_results where coupon_id = ?').run(treated(9));
+    expectSameAsFresh();
+  });
+
+  it('after a run’s cure date and code change (its coupons’ treated date and run code follow: they are read again)', () => {
+    const run = sqlite.prepare('select run_id from coupon_results where coupon_id = ?').pluck().get(treated(2)) as number;
+    sqlite.prepare("update run_stages set started_at = '2019-06-01T08:00:00.000Z' where run_id = ? and stage = 'cure'").run(run);
+    sqlite.prepare("update runs set code = 'GR-moved' where id = ?").run(run);
     expectSameAsFresh();
   });
 

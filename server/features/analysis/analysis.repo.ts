@@ -336,6 +336,13 @@ export function loadHistory(db: Db, pairs: { speciesId: number; resinId: number 
   }).filter((c) => c.runId !== runId && wanted.has(`${c.speciesId}|${c.resinId}`));
 }
 
+/** The coupons now in the given runs (ids of their results rows). */
+export function couponIdsOfRuns(db: Db, runIds: readonly number[]): number[] {
+  return prepare(sqliteOf(db), 'select coupon_id from coupon_results where run_id in (select value from json_each(?))')
+    .pluck()
+    .all(JSON.stringify(runIds)) as number[];
+}
+
 export function runExists(db: Db, id: number): boolean {
   return db.select({ id: runs.id }).from(runs).where(eq(runs.id, id)).get() !== undefined;
 }

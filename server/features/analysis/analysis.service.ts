@@ -27,7 +27,17 @@ import type {
 } from '../../../shared/schemas/analysis';
 import { evidenceViewSchema } from '../../../shared/schemas/analysis';
 import { createDataVersion, keyOf, Lru } from './analysis.cache';
-import { findEvidence, insertEvidence, listEvidence, loadAnalysisCoupons, loadHistory, runExists, wpgValues, type EvidenceRow } from './analysis.repo';
+import {
+  couponIdsOfRuns,
+  findEvidence,
+  insertEvidence,
+  listEvidence,
+  loadAnalysisCoupons,
+  loadHistory,
+  runExists,
+  wpgValues,
+  type EvidenceRow,
+} from './analysis.repo';
 
 /**
  * Spread of WPG within one species × resin assumed when the shop has fewer than 3 coupons of it:
@@ -56,6 +66,8 @@ interface HeldSet {
 const CACHED_ROW_SETS = 3;
 /** Past this many results rows written since a held set was read, it is read afresh rather than patched. */
 const PATCH_LIMIT = 5000;
+/** Rows of the change log kept (a set older than these is read afresh); a few hundred kB of temp table. */
+const LOG_KEPT = 4 * PATCH_LIMIT;
 const CACHED_ANSWERS = 32;
 
 /**
@@ -103,23 +115,26 @@ export function createAnalysisService(deps: { db: Db; now: () => Date }) {
     const patch = hit ? patched(hit, filters, groups) : null;
     const set: HeldSet = patch ? { version: v, ...patch } : { version: v, rows: loadAnalysisCoupons(db, filters, groups), cols: null };
     rowSets.set(key, set);
-    let oldest = v;
-    for (const s of rowSets.values()) if (Number(s.version.split(':')[0]) < Number(oldest.split(':')[0])) oldest = s.version;
-    version.prune(oldest);
+    version.prune(LOG_KEPT);
     return set;
   }
 
   /**
    * The held rows with the coupons written since re-read, or null when a patch would not be exact: a
    * control changed (every treated coupon of its trial and species has its ASE against the controls), or
-   * the filters have a date range (a treated coupon decides whether its trial's controls are in), or the
-   * log cannot tell which coupons changed (another table, another connection, too many rows).
+   * the filters have a date range (a treated coupon or a run's dates decide whether a trial's controls are
+   * in), or the log cannot tell which coupons changed (species or resins, another connection, too many rows).
    */
   function patched(hit: HeldSet, filters: AnalysisFilters, groups?: readonly GroupSpec[]): { rows: AnalysisCoupon[]; cols: CouponColumns | null } | null {
     if (filters.from !== undefined || filters.to !== undefined) return null;
-    const changed = version.changedCoupons(hit.version, PATCH_LIMIT);
+    const changed = version.changedSince(hit.version, PATCH_LIMIT);
     if (changed === null) return null;
-    const ids = [...new Set(changed)].sort((x, y) => x - y);
+    // A run or its stages changed: its coupons' run code and treated date follow it, so they are read again.
+    const runIds = new Set(changed.runIds);
+    const ofRuns = runIds.size > 0 ? couponIdsOfRuns(db, [...runIds]) : [];
+    if (runIds.size > 0) for (const c of hit.rows) if (c.runId !== null && runIds.has(c.runId)) ofRuns.push(c.id);
+    const ids = [...new Set([...changed.couponIds, ...ofRuns])].sort((x, y) => x - y);
+    if (ids.length > PATCH_LIMIT) return null;
     const fresh = loadAnalysisCoupons(db, filters, groups, ids);
     if (fresh.some((c) => c.role === 'control')) return null;
     const gone = new Set(ids);
