@@ -3,7 +3,7 @@ import { drizzle } from 'drizzle-orm/better-sqlite3';
 import { openWorkerConnection, schema } from '../../db/client';
 import { AppError } from '../../http/errors';
 import { createMeasurements } from '../../measurements/measurements';
-import { writeCommit, type CommitJob } from './commit';
+import { unpackJob, writeCommit, type PackedCommitJob } from './commit';
 
 /**
  * The worker thread that writes an import's commit (decision 0017): its own connection to the same WAL
@@ -12,7 +12,7 @@ import { writeCommit, type CommitJob } from './commit';
  */
 export interface CommitWorkerInput {
   file: string;
-  job: CommitJob;
+  job: PackedCommitJob;
   /** The main thread's clock minus this thread's (tests move the app's clock). */
   nowOffsetMs: number;
 }
@@ -26,7 +26,7 @@ let out: CommitWorkerOutput;
 try {
   const db = drizzle(sqlite, { schema });
   const now = () => new Date(Date.now() + input.nowOffsetMs);
-  out = { ok: writeCommit(db, createMeasurements({ now }), input.job, now) };
+  out = { ok: writeCommit(db, createMeasurements({ now }), unpackJob(input.job), now) };
 } catch (err) {
   const e = err as Error & { code?: unknown };
   out = {

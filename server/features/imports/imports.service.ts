@@ -29,7 +29,7 @@ import { toSafeCsv } from '../../../shared/imports/csv-safety';
 import { shapeKey } from '../../../shared/imports/template';
 import { decode, readHead, streamRows } from './file-reader';
 import {
-  allCouponKeys,
+  couponKeysAfter,
   allPresets,
   committedWithSha,
   countFileUses,
@@ -53,13 +53,15 @@ import {
   type ImportRow,
 } from './imports.repo';
 import { createReceiver } from './upload';
-import { blockedMessage, entryOf, MAX_PROBLEMS, previewRowsOf, refusal, type Analysis, type Collected, type CommitJob } from './commit';
+import { blockedMessage, entryOf, MAX_PROBLEMS, packJob, previewRowsOf, refusal, type Analysis, type Collected, type CommitJob } from './commit';
 import type { CommitWorkerInput, CommitWorkerOutput } from './commit-worker';
 
 /** Unknown tags for which near matches are searched (each search walks every tag). */
 const MAX_SUGGESTION_SEARCHES = 500;
 /** Readings judged by the measurements module per step; the event loop gets a turn between steps. */
 const JUDGE_CHUNK = 5_000;
+/** Coupon tags read per step when matching a file's tags. */
+const KEYS_PAGE = 10_000;
 /** How long a preview's collected readings are kept for its commit (the file cannot change; coupons can). */
 const COLLECTED_TTL_MS = 15 * 60 * 1000;
 
@@ -261,10 +263,17 @@ export function createImportsService(deps: FeatureDeps) {
     const byUpper = new Map<string, CouponKey | null>();
     let sequence: CouponKey[] = [];
     if (mapping.target.mode === 'tag') {
-      for (const k of allCouponKeys(db)) {
-        byTag.set(k.tag, k);
-        const u = k.tag.toUpperCase();
-        byUpper.set(u, byUpper.has(u) ? null : k);
+      // Page by page with a turn of the event loop between: 100,000 tags at once held it ~0.3 s.
+      for (let after = 0; ;) {
+        const page = couponKeysAfter(db, after, KEYS_PAGE);
+        for (const k of page) {
+          byTag.set(k.tag, k);
+          const u = k.tag.toUpperCase();
+          byUpper.set(u, byUpper.has(u) ? null : k);
+        }
+        if (page.length < KEYS_PAGE) break;
+        after = (page[page.length - 1] as CouponKey).id;
+        await yieldToLoop();
       }
     } else {
       const run = findRun(db, mapping.target.runId);
@@ -487,7 +496,7 @@ export function createImportsService(deps: FeatureDeps) {
     const workerData: CommitWorkerInput & { entry: string } = {
       entry: new URL('./commit-worker.ts', import.meta.url).href,
       file: deps.database.sqlite.name,
-      job,
+      job: packJob(job),
       nowOffsetMs: deps.now().getTime() - Date.now(),
     };
     return new Promise((resolve, reject) => {
