@@ -16,9 +16,10 @@ afterAll(() => {
 });
 
 const [r1, r2] = shop.resinIds as [number, number];
-const views = [{}, { speciesId: [shop.speciesId] }, { thicknessMinMm: 25 }, { from: '2020-01-03' }];
+const views = [{}, { speciesId: [shop.speciesId] }, { thicknessMinMm: 25 }, { from: '2020-01-03' }, { resinId: [r1] }];
 const service = () => createAnalysisService({ db: shop.database.db, now: () => new Date(0) });
 // One held service per view, so each keeps its set from one write to the next (a service holds 3 sets).
+// The resin view holds no control at all: a control's change must still refresh it.
 const held = views.map(service);
 
 function answers(s: ReturnType<typeof createAnalysisService>, filters: (typeof views)[number]) {

@@ -128,7 +128,9 @@ export function createAnalysisService(deps: { db: Db; now: () => Date }) {
   function patched(hit: HeldSet, filters: AnalysisFilters, groups?: readonly GroupSpec[]): { rows: AnalysisCoupon[]; cols: CouponColumns | null } | null {
     if (filters.from !== undefined || filters.to !== undefined) return null;
     const changed = version.changedSince(hit.version, PATCH_LIMIT);
-    if (changed === null) return null;
+    // A control (in or out of these filters: a resin filter leaves every control out) carries the ASE and
+    // WRE of the treated coupons of its trial and species: read afresh.
+    if (changed === null || changed.controls) return null;
     // A run or its stages changed: its coupons' run code and treated date follow it, so they are read again.
     const runIds = new Set(changed.runIds);
     const ofRuns = runIds.size > 0 ? couponIdsOfRuns(db, [...runIds]) : [];
@@ -136,7 +138,6 @@ export function createAnalysisService(deps: { db: Db; now: () => Date }) {
     const ids = [...new Set([...changed.couponIds, ...ofRuns])].sort((x, y) => x - y);
     if (ids.length > PATCH_LIMIT) return null;
     const fresh = loadAnalysisCoupons(db, filters, groups, ids);
-    if (fresh.some((c) => c.role === 'control')) return null;
     const gone = new Set(ids);
     const rows: AnalysisCoupon[] = [];
     // Positions where a coupon was replaced by its new row; null once a coupon came in or went out.
@@ -144,7 +145,6 @@ export function createAnalysisService(deps: { db: Db; now: () => Date }) {
     let j = 0;
     for (const c of hit.rows) {
       if (gone.has(c.id)) {
-        if (c.role === 'control') return null;
         const next = fresh[j];
         if (next && next.id === c.id) {
           replacedAt?.push(rows.length);
