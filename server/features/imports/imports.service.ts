@@ -60,6 +60,10 @@ import type { CommitWorkerInput, CommitWorkerOutput } from './commit-worker';
 const MAX_SUGGESTION_SEARCHES = 500;
 /** Readings judged by the measurements module per step; the event loop gets a turn between steps. */
 const JUDGE_CHUNK = 5_000;
+/** Files from this size on get a commit worker started during their preview (below it, starting one costs more than it saves). */
+const WARM_WORKER_BYTES = 256 * 1024;
+/** How long a worker started ahead waits for its commit before it is ended (it holds tens of MB). */
+const WARM_WORKER_MS = 60_000;
 /** Coupon tags read per step when matching a file's tags. */
 const KEYS_PAGE = 10_000;
 /** How long a preview's collected readings are kept for its commit (the file cannot change; coupons can). */
@@ -478,6 +482,8 @@ export function createImportsService(deps: FeatureDeps) {
         await work(progress);
       } catch (err) {
         keptCache.delete(id);
+        warm.get(id)?.dispose();
+        warm.delete(id);
         const message = err instanceof AppError ? err.message : 'Something went wrong while processing the file; nothing was imported';
         if (!(err instanceof AppError)) deps.logger.error({ err, importId: id }, 'import job failed');
         updateImport(db, id, { status: 'failed', error: message });
@@ -488,41 +494,79 @@ export function createImportsService(deps: FeatureDeps) {
   }
 
   /**
-   * Writes the commit in a worker thread on its own connection (decision 0017): the transaction of
-   * 100,000 readings costs seconds of CPU, which would otherwise hold this thread, and with it every
-   * other request. Resolves with the outcome; rejects with the worker's error (an AppError kept as one).
+   * Starts a commit worker thread (decision 0017): the transaction of 100,000 readings costs seconds of
+   * CPU, which would otherwise hold this thread, and with it every other request. Loading the worker's
+   * modules takes most of a second, so a big file's preview starts one for the commit that usually follows.
+   * `run` posts the job and resolves with the outcome, or rejects with the worker's error (an AppError
+   * kept as one); an unused worker is ended by `dispose`, or after WARM_WORKER_MS.
    */
-  function writeInWorker(job: CommitJob): Promise<'committed' | 'blocked'> {
-    const workerData: CommitWorkerInput & { entry: string } = {
-      entry: new URL('./commit-worker.ts', import.meta.url).href,
-      file: deps.database.sqlite.name,
-      job: packJob(job),
-      nowOffsetMs: deps.now().getTime() - Date.now(),
-    };
-    return new Promise((resolve, reject) => {
-      const worker = new Worker(new URL('./worker-boot.mjs', import.meta.url), { workerData });
-      let answered = false;
-      worker.once('message', (out: CommitWorkerOutput) => {
-        answered = true;
-        if ('ok' in out) return resolve(out.ok);
-        const e = out.error;
-        if (e.app) return reject(new AppError(e.app.code, e.message, e.app.fieldErrors));
-        reject(Object.assign(new Error(e.message), { code: e.sqliteCode ?? undefined, stack: e.stack }));
-      });
-      worker.once('error', (err) => {
-        answered = true;
-        reject(err);
-      });
-      worker.once('exit', (code) => {
-        if (!answered) reject(new Error(`The commit's worker stopped (exit code ${code}) before it answered`));
-      });
+  function bootWorker() {
+    const worker = new Worker(new URL('./worker-boot.mjs', import.meta.url), {
+      workerData: { entry: new URL('./commit-worker.ts', import.meta.url).href },
     });
+    let waiting: { resolve: (v: 'committed' | 'blocked') => void; reject: (e: unknown) => void } | null = null;
+    let broken: Error | null = null;
+    const idle = setTimeout(() => void worker.terminate(), WARM_WORKER_MS);
+    idle.unref();
+    // An idle worker must not keep the process alive (a test's end, a shutdown).
+    worker.unref();
+    worker.on('message', (out: CommitWorkerOutput | 'ready') => {
+      if (out === 'ready' || !waiting) return;
+      const w = waiting;
+      waiting = null;
+      if ('ok' in out) return w.resolve(out.ok);
+      const e = out.error;
+      if (e.app) return w.reject(new AppError(e.app.code, e.message, e.app.fieldErrors));
+      w.reject(Object.assign(new Error(e.message), { code: e.sqliteCode ?? undefined, stack: e.stack }));
+    });
+    worker.once('error', (err) => {
+      broken = err;
+      waiting?.reject(err);
+      waiting = null;
+    });
+    worker.once('exit', (code) => {
+      broken ??= new Error(`The commit's worker stopped (exit code ${code}) before it answered`);
+      waiting?.reject(broken);
+      waiting = null;
+    });
+    return {
+      /** False once it ended (idle too long, or failed to start): the commit then starts another. */
+      usable: () => broken === null,
+      run(job: CommitJob): Promise<'committed' | 'blocked'> {
+        clearTimeout(idle);
+        const input: CommitWorkerInput = { file: deps.database.sqlite.name, job: packJob(job), nowOffsetMs: deps.now().getTime() - Date.now() };
+        return new Promise((resolve, reject) => {
+          waiting = { resolve, reject };
+          worker.postMessage(input);
+        });
+      },
+      dispose: () => {
+        clearTimeout(idle);
+        void worker.terminate();
+      },
+    };
+  }
+  type CommitWorker = ReturnType<typeof bootWorker>;
+  /** The worker started ahead for an import's commit: one at a time, like the kept preview. */
+  const warm = new Map<number, CommitWorker>();
+  function warmUp(id: number) {
+    for (const w of warm.values()) w.dispose();
+    warm.clear();
+    warm.set(id, bootWorker());
+  }
+  function takeWorker(id: number): CommitWorker {
+    const w = warm.get(id);
+    warm.delete(id);
+    if (w?.usable()) return w;
+    w?.dispose();
+    return bootWorker();
   }
 
   /** Starts the preview job; the client polls the import until its status leaves `previewing`. */
   function preview(id: number, mapping: ImportMapping): ImportDetail {
     const r = requireImport(id);
     beginJob(r, 'previewing', mapping);
+    if (r.bytes >= WARM_WORKER_BYTES) warmUp(id);
     runJob(id, async (progress) => {
       const collected = await collect(r, mapping, progress);
       const a = await judge(mapping, collected, (f) => progress(0.8 + f * 0.15));
@@ -569,7 +613,7 @@ export function createImportsService(deps: FeatureDeps) {
       }
       const problems = kept?.problems ?? (await finishProblems(r, mapping, a.problems));
       progress(0.9);
-      await writeInWorker({
+      await takeWorker(id).run({
         importId: id,
         actor: { id: actor.id },
         mapping,

@@ -214,6 +214,22 @@ describe('imports: upload, detect, preview, commit, undo', () => {
     expect(currentOf(s.h, s.ids['FX-01']!).find((x) => x.stage === 'wet-test')!.massG).toBeCloseTo(0.4355 * 28.349523125, 9);
   });
 
+  it('commits a big file through the worker started during its preview', async () => {
+    const sp = s.h.database.db.select().from(species).limit(1).get()!;
+    for (const tag of ['WW-01', 'WW-02']) expect((await s.tech.post('/api/coupons').send({ tag, speciesId: sp.id, role: 'treated' })).status).toBe(201);
+    // 40,000 rows (over 256 KB, so the preview starts the commit's worker), each coupon weighed again and again.
+    const lines = ['tag,mass', ...Array.from({ length: 40_000 }, (_, i) => `WW-0${(i % 2) + 1},${(10 + i / 100_000).toFixed(5)}`)];
+    const d = (await upload(s.tech, 'big-repeats.csv', Buffer.from(`${lines.join('\r\n')}\r\n`))).body as ImportDetail;
+    expect(d.bytes).toBeGreaterThan(256 * 1024);
+    const { done } = await previewed(s.tech, d);
+    expect(done.counts).toMatchObject({ rows: 40_000, accepted: 2, skipped: 39_998, problems: 0 });
+    const c = await committed(s.tech, d);
+    expect(c.status, c.error ?? '').toBe('committed');
+    const written = s.h.database.db.select().from(weighings).where(eq(weighings.importId, d.id)).all();
+    // The later reading of each coupon is kept: rows 40,000 and 40,001 of the file (the header is row 1).
+    expect(written.map((w) => w.massG).sort()).toEqual([10.39998, 10.39999]);
+  });
+
   it('keeps serving while another connection writes: reads answer, writes are told to try again, a commit waits its turn', async () => {
     const d = (await upload(s.tech, 'two-date-columns-day-first.csv')).body as ImportDetail;
     await previewed(s.tech, d, { stage: 'soaked' });
