@@ -39,7 +39,15 @@ export interface RouteOptions<R extends AccessRule, S extends Schemas> {
   status?: number;
 }
 
-/** A handler returns the JSON body, or undefined after answering through `res` itself. */
+/**
+ * An answer already serialised (a remembered list page or Bench): sent as it is, so a page read many times
+ * between two writes is stringified once rather than on every request.
+ */
+export class JsonText {
+  constructor(readonly text: string) {}
+}
+
+/** A handler returns the JSON body (or a JsonText), or undefined after answering through `res` itself. */
 type Handler<R extends AccessRule, S extends Schemas> = (ctx: RouteContext<S, UserFor<R>>) => unknown;
 
 export interface DeclaredRoute {
@@ -89,6 +97,11 @@ export function secureRouter() {
         const result = await handler(ctx);
         if (res.headersSent) return;
         if (result === undefined) res.status(options.status ?? 204).end();
+        else if (result instanceof JsonText)
+          res
+            .status(options.status ?? 200)
+            .type('json')
+            .send(result.text);
         else res.status(options.status ?? 200).json(result);
       };
       router[method](path, accessMiddleware(options.access), run);

@@ -4,10 +4,11 @@ import type { SQLiteColumn } from 'drizzle-orm/sqlite-core';
 import type { Db } from '../../db/client';
 import { coupons, photos, weighings } from '../../db/schema/coupons';
 import { couponResults } from '../../db/schema/results';
-import { resinLots, resins, species } from '../../db/schema/reference';
+import { resinLots, resins } from '../../db/schema/reference';
 import { runReadings, runStages, runs } from '../../db/schema/runs';
 import type { ShopSettings } from '../../../shared/schemas/admin';
 import { readShopSettings } from '../../db/shop-settings';
+import { once, prepared } from '../../db/prepared';
 import { toPhotoOut } from '../../db/photo-out';
 import { WEIGHING_STAGES, type WeighingStage } from '../../../shared/constants/records';
 import type { PhotoOut } from '../../../shared/schemas/runs';
@@ -29,9 +30,17 @@ export function findRunByCode(db: Db, code: string): RunRow | undefined {
   return db.select().from(runs).where(eq(runs.code, code)).get();
 }
 
+/** The stages of these runs: one statement prepared once, the ids bound as one JSON array. */
 export function stagesOf(db: Db, runIds: number[]): StageRow[] {
   if (runIds.length === 0) return [];
-  return db.select().from(runStages).where(inArray(runStages.runId, runIds)).all();
+  const q = once(db, 'runs.stagesOf', () =>
+    db
+      .select()
+      .from(runStages)
+      .where(sql`${runStages.runId} in (select value from json_each(${sql.placeholder('ids')}))`)
+      .prepare(),
+  );
+  return q.all({ ids: JSON.stringify(runIds) });
 }
 
 export function readingsOf(db: Db, runId: number): ReadingRow[] {
@@ -55,12 +64,15 @@ export function findLot(db: Db, lotId: number): LotWithResin | undefined {
 
 export function lotsByIds(db: Db, ids: number[]): Map<number, LotWithResin> {
   if (ids.length === 0) return new Map();
-  const rows = db
-    .select({ lot: resinLots, resin: resins })
-    .from(resinLots)
-    .innerJoin(resins, eq(resinLots.resinId, resins.id))
-    .where(inArray(resinLots.id, ids))
-    .all();
+  const q = once(db, 'runs.lotsByIds', () =>
+    db
+      .select({ lot: resinLots, resin: resins })
+      .from(resinLots)
+      .innerJoin(resins, eq(resinLots.resinId, resins.id))
+      .where(sql`${resinLots.id} in (select value from json_each(${sql.placeholder('ids')}))`)
+      .prepare(),
+  );
+  const rows = q.all({ ids: JSON.stringify([...new Set(ids)]) });
   return new Map(rows.map((r) => [r.lot.id, r]));
 }
 
@@ -80,50 +92,41 @@ export interface RunCouponInfo {
 /** `col in (ids)` with the ids bound as one JSON array, so a long list never runs out of SQL variables. */
 export const inIds = (col: SQL | SQLiteColumn, ids: readonly number[]) => sql`${col} in (select value from json_each(${JSON.stringify(ids)}))`;
 
+// Plain SQL, prepared once: a page of 50 runs of 500 coupons is 25,000 rows and 50,000 drying checks,
+// and mapping them through drizzle cost five times running the queries.
+const COUPONS_OF_RUNS = `select r.coupon_id as id, r.tag, r.role, r.run_id as runId, r.species_id as speciesId,
+    s.common_name as speciesName, r.dry_mass_g as dry, r.soaked_mass_g as soaked, r.cured_mass_g as cured,
+    r.wet_test_mass_g as wetTest, r.drying_check_count as dryingCheckCount, r.dry_thickness_mm as thicknessMm
+  from coupon_results r join species s on s.id = r.species_id
+  where r.run_id in (select value from json_each(?))
+  order by r.tag`;
+const DRYING_CHECKS_OF_RUNS = `select w.coupon_id as couponId, w.measured_at as at, w.mass_g as massG
+  from weighings w join coupon_results r on r.coupon_id = w.coupon_id
+  where r.run_id in (select value from json_each(?)) and r.drying_check_count > 0
+    and w.stage = 'drying-check' and w.superseded_by is null and w.deleted_at is null
+  order by w.measured_at, w.id`;
+
+/** A coupon's row of COUPONS_OF_RUNS. */
+type CouponOfRunRow = Omit<RunCouponInfo, 'stagesWeighed' | 'dryingChecks'> & {
+  dry: number | null;
+  soaked: number | null;
+  cured: number | null;
+  wetTest: number | null;
+  dryingCheckCount: number;
+};
+
 /**
  * What the run checks and the run page need about each coupon of these runs, from the results table
  * (one row per coupon) plus the current drying checks of the coupons that have any. Grouped with Maps.
  */
 export function couponsOfRuns(db: Db, runIds: number[]): RunCouponInfo[] {
   if (runIds.length === 0) return [];
-  const rows = db
-    .select({
-      id: couponResults.couponId,
-      tag: couponResults.tag,
-      role: couponResults.role,
-      runId: couponResults.runId,
-      speciesId: couponResults.speciesId,
-      speciesName: species.commonName,
-      dry: couponResults.dryMassG,
-      soaked: couponResults.soakedMassG,
-      cured: couponResults.curedMassG,
-      wetTest: couponResults.wetTestMassG,
-      dryingCheckCount: couponResults.dryingCheckCount,
-      thicknessMm: couponResults.dryThicknessMm,
-    })
-    .from(couponResults)
-    .innerJoin(species, eq(couponResults.speciesId, species.id))
-    .where(inIds(couponResults.runId, runIds))
-    .orderBy(asc(couponResults.tag))
-    .all();
+  const ids = JSON.stringify(runIds);
+  const rows = prepared(db, COUPONS_OF_RUNS).all(ids) as CouponOfRunRow[];
   if (rows.length === 0) return [];
   const checksByCoupon = new Map<number, { at: string; massG: number }[]>();
   if (rows.some((r) => r.dryingCheckCount > 0)) {
-    const ws = db
-      .select({ couponId: weighings.couponId, at: weighings.measuredAt, massG: weighings.massG })
-      .from(weighings)
-      .innerJoin(couponResults, eq(couponResults.couponId, weighings.couponId))
-      .where(
-        and(
-          inIds(couponResults.runId, runIds),
-          sql`${couponResults.dryingCheckCount} > 0`,
-          eq(weighings.stage, 'drying-check'),
-          isNull(weighings.supersededBy),
-          isNull(weighings.deletedAt),
-        ),
-      )
-      .orderBy(asc(weighings.measuredAt), asc(weighings.id))
-      .all();
+    const ws = prepared(db, DRYING_CHECKS_OF_RUNS).all(ids) as { couponId: number; at: string; massG: number }[];
     for (const w of ws) {
       const list = checksByCoupon.get(w.couponId);
       if (list) list.push({ at: w.at, massG: w.massG });

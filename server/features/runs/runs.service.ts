@@ -360,34 +360,47 @@ export function createRunsService(deps: FeatureDeps) {
   }
 
   // The rule checks' counts per run, remembered until the next audited write (every change to a run,
-  // a coupon, a reading, a lot or the settings writes one) or the next minute (time-based rules), so a
-  // list read does not walk every coupon and drying check of the page's runs each time.
-  let countsMemo = { auditId: -1, minute: -1, byRun: new Map<number, RunSummary['checkCounts']>() };
+  // a coupon, a reading, a lot or the settings writes one). The clock enters the checks only through the
+  // lot's age before the vacuum starts (shared/runs/checks.ts, lot-shelf-life), so a run without a vacuum
+  // stage is also recounted each minute. The coupons' part (tags, dry weighings, drying series,
+  // thickness: 25,000 coupons for a page of 50 full runs) is remembered apart, until the next write.
+  let countsMemo = { auditId: -1, byRun: new Map<number, { counts: RunSummary['checkCounts']; minute: number | null }>() };
+  let couponsMemo = { auditId: -1, byRun: new Map<number, RunCouponInfo[]>() };
+
+  function couponInfoOf(runIds: number[], auditId: number): Map<number, RunCouponInfo[]> {
+    if (couponsMemo.auditId !== auditId || couponsMemo.byRun.size > 1000) couponsMemo = { auditId, byRun: new Map() };
+    const memo = couponsMemo.byRun;
+    const missing = runIds.filter((id) => !memo.has(id));
+    if (missing.length) {
+      for (const id of missing) memo.set(id, []);
+      for (const c of couponsOfRuns(db, missing)) (memo.get(c.runId) as RunCouponInfo[]).push(c);
+    }
+    return memo;
+  }
 
   function checkCountsOf(rows: RunRow[], stagesByRun: Map<number, StageRow[]>, lots: Map<number, LotWithResin>, now: Date) {
     const auditId = lastAuditId(db);
     const minute = Math.floor(now.getTime() / 60_000);
-    if (countsMemo.auditId !== auditId || countsMemo.minute !== minute) countsMemo = { auditId, minute, byRun: new Map() };
+    if (countsMemo.auditId !== auditId || countsMemo.byRun.size > 1000) countsMemo = { auditId, byRun: new Map() };
     const memo = countsMemo.byRun;
-    const missing = rows.filter((r) => !memo.has(r.id));
+    const missing = rows.filter((r) => {
+      const hit = memo.get(r.id);
+      return !hit || (hit.minute !== null && hit.minute !== minute);
+    });
     if (missing.length) {
-      const byRun = new Map<number, RunCouponInfo[]>();
-      for (const c of couponsOfRuns(
-        db,
+      const byRun = couponInfoOf(
         missing.map((r) => r.id),
-      )) {
-        const list = byRun.get(c.runId);
-        if (list) list.push(c);
-        else byRun.set(c.runId, [c]);
-      }
+        auditId,
+      );
       for (const run of missing) {
         const lot = run.resinLotId === null ? undefined : lots.get(run.resinLotId);
+        const stages = stagesByRun.get(run.id) ?? [];
         const counts = { ok: 0, warn: 0, fail: 0, pending: 0 };
-        for (const c of checksFor(run, stagesByRun.get(run.id) ?? [], lot, byRun.get(run.id) ?? [], now)) counts[c.status]++;
-        memo.set(run.id, counts);
+        for (const c of checksFor(run, stages, lot, byRun.get(run.id) ?? [], now)) counts[c.status]++;
+        memo.set(run.id, { counts, minute: stages.some((st) => st.stage === 'vacuum') ? null : minute });
       }
     }
-    return memo;
+    return new Map([...memo].map(([id, m]) => [id, m.counts]));
   }
 
   // Coupons per run of a page, remembered until the next write (a grouped count over up to 500 × page rows).
