@@ -198,9 +198,7 @@ export function couponsWaitingOfRuns(
 }
 
 /** The highest audit entry id: every write of the records adds one, so it changes whenever they do. */
-export function lastAuditId(db: Db): number {
-  return db.get<{ id: number | null }>(sql`select max(id) as id from audit_log`)?.id ?? 0;
-}
+export { lastAuditId } from '../../db/audit-memo';
 
 export function findCouponsByIds(db: Db, ids: number[]) {
   if (ids.length === 0) return [];
