@@ -483,3 +483,8 @@ export function insertCoupon(db: Db, values: CouponInsert) {
 export function updateCouponRow(db: Db, id: number, values: Partial<CouponInsert>) {
   return db.update(coupons).set(values).where(eq(coupons.id, id)).returning().get();
 }
+
+/** A new photo row (of a coupon or a run), as stored. */
+export function insertPhoto(db: Db, values: typeof photos.$inferInsert): PhotoRow {
+  return db.insert(photos).values(values).returning().get();
+}

@@ -1,11 +1,9 @@
-import { and, eq, gte, isNull, or } from 'drizzle-orm';
 import type { FeatureDeps } from '../../deps';
 import { createAuditMemo, lastAuditId } from '../../db/audit-memo';
-import { runStages, runs } from '../../db/schema/runs';
 import { DomainError, reachedConstantMass } from '../../../shared/domain/index';
 import { BENCH_COUPONS_SHOWN, type BenchItem, type BenchQuery, type BenchResponse } from '../../../shared/schemas/runs';
 import { dueItems } from '../../../shared/runs/timers';
-import { couponsOfRuns, couponsWaitingOfRuns, getShopSettings, stagesOf, type StageRow } from './runs.repo';
+import { benchCandidateRuns, couponsOfRuns, couponsWaitingOfRuns, getShopSettings, stagesOf, type StageRow } from './runs.repo';
 import { toStageTimes } from './runs.service';
 
 const HOUR = 3_600_000;
@@ -74,12 +72,7 @@ export function createBenchService(deps: FeatureDeps) {
     const cutoff = new Date(t - FINISHED_RUN_HORIZON_DAYS * 24 * HOUR).toISOString();
 
     // Runs whose cure has not ended, or ended recently enough that a cured weighing may still be owed.
-    const candidates = db
-      .select({ id: runs.id, code: runs.code, cureEnd: runStages.endedAt })
-      .from(runs)
-      .leftJoin(runStages, and(eq(runStages.runId, runs.id), eq(runStages.stage, 'cure')))
-      .where(or(isNull(runStages.endedAt), gte(runStages.endedAt, cutoff)))
-      .all();
+    const candidates = benchCandidateRuns(db, cutoff);
     const ids = candidates.map((r) => r.id);
     const stagesByRun = new Map<number, StageRow[]>();
     for (const st of stagesOf(db, ids)) {

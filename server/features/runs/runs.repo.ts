@@ -1,4 +1,4 @@
-import { and, asc, count, desc, eq, inArray, isNull, like, or, sql, type SQL } from 'drizzle-orm';
+import { and, asc, count, desc, eq, exists, gte, inArray, isNotNull, isNull, like, not, or, sql, type SQL } from 'drizzle-orm';
 import type { Option, OptionsQuery } from '../../../shared/schemas/options';
 import type { SQLiteColumn } from 'drizzle-orm/sqlite-core';
 import type { Db } from '../../db/client';
@@ -10,8 +10,8 @@ import type { ShopSettings } from '../../../shared/schemas/admin';
 import { readShopSettings } from '../../db/shop-settings';
 import { once, prepared } from '../../db/prepared';
 import { toPhotoOut } from '../../db/photo-out';
-import { WEIGHING_STAGES, type WeighingStage } from '../../../shared/constants/records';
-import type { PhotoOut } from '../../../shared/schemas/runs';
+import { RUN_STAGES, WEIGHING_STAGES, type RunStage, type WeighingStage } from '../../../shared/constants/records';
+import type { PhotoOut, RunExportQuery } from '../../../shared/schemas/runs';
 
 export type RunRow = typeof runs.$inferSelect;
 export type StageRow = typeof runStages.$inferSelect;
@@ -264,4 +264,59 @@ export function setCouponRun(db: Db, couponId: number, runId: number | null): vo
 
 export function insertStageRow(db: Db, values: typeof runStages.$inferInsert): StageRow {
   return db.insert(runStages).values(values).returning().get();
+}
+
+const RUN_SORTS = { id: runs.id, code: runs.code, chamber: runs.chamber, createdAt: runs.createdAt } as const;
+const likeEscaped = (col: SQLiteColumn, q: string) => sql`${col} like ${`%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`} escape '\\'`;
+
+/** The run list's WHERE: status, latest stage, lot and search (shared by the page, its count and the CSV export). */
+function runListWhere(db: Db, q: RunExportQuery) {
+  const stageExists = (stages: readonly RunStage[], ended?: boolean) =>
+    exists(
+      db
+        .select({ one: runStages.id })
+        .from(runStages)
+        .where(and(eq(runStages.runId, runs.id), inArray(runStages.stage, [...stages]), ended ? isNotNull(runStages.endedAt) : undefined)),
+    );
+  const cureEnded = stageExists(['cure'], true);
+  const later = q.stage ? RUN_STAGES.slice(RUN_STAGES.indexOf(q.stage) + 1) : [];
+  const filters = [
+    q.resinLotId === undefined ? undefined : eq(runs.resinLotId, q.resinLotId),
+    q.status === 'planned' ? not(stageExists(RUN_STAGES)) : undefined,
+    q.status === 'in-progress' ? and(stageExists(RUN_STAGES), not(cureEnded)) : undefined,
+    q.status === 'finished' ? cureEnded : undefined,
+    q.status === 'open' ? not(cureEnded) : undefined,
+    q.stage ? and(stageExists([q.stage]), later.length ? not(stageExists(later)) : undefined) : undefined,
+    q.q ? or(likeEscaped(runs.code, q.q), likeEscaped(runs.chamber, q.q)) : undefined,
+  ].filter((f) => f !== undefined);
+  return filters.length ? and(...filters) : undefined;
+}
+
+/** A page of the run list (newest first unless sorted otherwise; ties by id). */
+export function listRunRows(db: Db, q: RunExportQuery, limit: number, offset: number): RunRow[] {
+  const key = (q.sort ?? '-id').replace(/^-/, '') as keyof typeof RUN_SORTS;
+  const direction = q.sort === undefined || q.sort.startsWith('-') ? desc : asc;
+  return db
+    .select()
+    .from(runs)
+    .where(runListWhere(db, q))
+    .orderBy(direction(RUN_SORTS[key] ?? runs.id), desc(runs.id))
+    .limit(limit)
+    .offset(offset)
+    .all();
+}
+
+/** How many runs the list's filters match. */
+export function countRuns(db: Db, q: RunExportQuery): number {
+  return db.select({ n: count() }).from(runs).where(runListWhere(db, q)).get()?.n ?? 0;
+}
+
+/** Runs whose cure has not ended, or ended after `cutoff` (a cured weighing may still be owed): Bench's candidates. */
+export function benchCandidateRuns(db: Db, cutoff: string): { id: number; code: string; cureEnd: string | null }[] {
+  return db
+    .select({ id: runs.id, code: runs.code, cureEnd: runStages.endedAt })
+    .from(runs)
+    .leftJoin(runStages, and(eq(runStages.runId, runs.id), eq(runStages.stage, 'cure')))
+    .where(or(isNull(runStages.endedAt), gte(runStages.endedAt, cutoff)))
+    .all();
 }

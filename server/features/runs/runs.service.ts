@@ -1,11 +1,8 @@
-import { and, asc, count, desc, eq, exists, inArray, isNotNull, not, or, sql } from 'drizzle-orm';
-import type { SQLiteColumn } from 'drizzle-orm/sqlite-core';
 import type { FeatureDeps } from '../../deps';
 import { createAuditMemo } from '../../db/audit-memo';
 import type { Db } from '../../db/client';
 import { writeAudit } from '../../db/audit';
 import { refreshResults, refreshResultsOfRun } from '../../measurements/results';
-import { runStages, runs } from '../../db/schema/runs';
 import { Conflict, NotFound, Unprocessable, ValidationFailed } from '../../http/errors';
 import { DomainError, WEATHER_ALLOWANCE, chamberPressure, standardPressureAtAltitude } from '../../../shared/domain/index';
 import { convertPressure, type UnitChoice } from '../../../shared/units';
@@ -29,6 +26,8 @@ import { dueItems } from '../../../shared/runs/timers';
 import { insertReadingRow, updateReadingRow, updateStageRow } from './stage-corrections.repo';
 import {
   couponCountsOfRuns,
+  countRuns,
+  listRunRows,
   countRunCodesStartingWith,
   couponsOfRuns,
   lastAuditId,
@@ -53,10 +52,8 @@ import {
   type StageRow,
 } from './runs.repo';
 
-const SORTS = { id: runs.id, code: runs.code, chamber: runs.chamber, createdAt: runs.createdAt } as const;
 /** Rows per query while a CSV export is written. */
 const EXPORT_PAGE = 200;
-const likeEscaped = (col: SQLiteColumn, q: string) => sql`${col} like ${`%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`} escape '\\'`;
 
 export function toStageTimes(s: StageRow): StageTimes & { ovenSetC: number | null; ovenMeasuredC: number | null } {
   return { stage: s.stage, startedAt: s.startedAt, endedAt: s.endedAt, plannedMinutes: s.plannedMinutes, ovenSetC: s.ovenSetC, ovenMeasuredC: s.ovenMeasuredC };
@@ -330,35 +327,6 @@ export function createRunsService(deps: FeatureDeps) {
     );
   }
 
-  /** The list's WHERE: status, latest stage, lot and search (shared by the page and the CSV export). */
-  function listWhere(q: RunExportQuery) {
-    const stageExists = (stages: readonly RunStage[], ended?: boolean) =>
-      exists(
-        db
-          .select({ one: runStages.id })
-          .from(runStages)
-          .where(and(eq(runStages.runId, runs.id), inArray(runStages.stage, [...stages]), ended ? isNotNull(runStages.endedAt) : undefined)),
-      );
-    const cureEnded = stageExists(['cure'], true);
-    const later = q.stage ? RUN_STAGES.slice(RUN_STAGES.indexOf(q.stage) + 1) : [];
-    const filters = [
-      q.resinLotId === undefined ? undefined : eq(runs.resinLotId, q.resinLotId),
-      q.status === 'planned' ? not(stageExists(RUN_STAGES)) : undefined,
-      q.status === 'in-progress' ? and(stageExists(RUN_STAGES), not(cureEnded)) : undefined,
-      q.status === 'finished' ? cureEnded : undefined,
-      q.status === 'open' ? not(cureEnded) : undefined,
-      q.stage ? and(stageExists([q.stage]), later.length ? not(stageExists(later)) : undefined) : undefined,
-      q.q ? or(likeEscaped(runs.code, q.q), likeEscaped(runs.chamber, q.q)) : undefined,
-    ].filter((f) => f !== undefined);
-    return filters.length ? and(...filters) : undefined;
-  }
-
-  function listOrder(sort: string | undefined) {
-    const key = (sort ?? '-id').replace(/^-/, '') as keyof typeof SORTS;
-    const direction = sort === undefined || sort.startsWith('-') ? desc : asc;
-    return [direction(SORTS[key] ?? runs.id), desc(runs.id)];
-  }
-
   // The rule checks' counts per run, remembered until the next audited write (every change to a run,
   // a coupon, a reading, a lot or the settings writes one). The clock enters the checks only through the
   // lot's age before the vacuum starts (shared/runs/checks.ts, lot-shelf-life), so a run without a vacuum
@@ -445,17 +413,8 @@ export function createRunsService(deps: FeatureDeps) {
   }
 
   function list(q: RunListQuery): { items: RunSummary[]; page: number; pageSize: number; total: number } {
-    const where = listWhere(q);
-    const rows = db
-      .select()
-      .from(runs)
-      .where(where)
-      .orderBy(...listOrder(q.sort))
-      .limit(q.pageSize)
-      .offset((q.page - 1) * q.pageSize)
-      .all();
-    const total = db.select({ n: count() }).from(runs).where(where).get()?.n ?? 0;
-    return { items: summaries(rows), page: q.page, pageSize: q.pageSize, total };
+    const rows = listRunRows(db, q, q.pageSize, (q.page - 1) * q.pageSize);
+    return { items: summaries(rows), page: q.page, pageSize: q.pageSize, total: countRuns(db, q) };
   }
 
   /** Every run the list's filters match, a page at a time, as CSV rows after a header. */
@@ -475,17 +434,8 @@ export function createRunsService(deps: FeatureDeps) {
       'checks_pending',
       'created_at',
     ];
-    const where = listWhere(q);
-    const order = listOrder(q.sort);
     for (let offset = 0; ; offset += EXPORT_PAGE) {
-      const rows = db
-        .select()
-        .from(runs)
-        .where(where)
-        .orderBy(...order)
-        .limit(EXPORT_PAGE)
-        .offset(offset)
-        .all();
+      const rows = listRunRows(db, q, EXPORT_PAGE, offset);
       for (const r of summaries(rows)) {
         yield [
           r.code,
