@@ -143,9 +143,11 @@ function pagePlan(a: CouponPageArgs, bind: Bind = inline) {
   let after: SQL | undefined;
   if (a.after) {
     const [v, id] = a.after;
+    // The leading `>=` (or `<=`) bound lets SQLite seek the sort's index: with bound values it does not
+    // see through the OR alone and scanned the whole index (page 1,000 by cursor: 4.7 ms against 0.02 ms).
     after = s.desc
-      ? sql`(${s.expr} < ${bind('afterValue', v)} or (${s.expr} = ${bind('afterValue', v)} and ${coupons.id} > ${bind('afterId', id)}))`
-      : sql`(${s.expr} > ${bind('afterValue', v)} or (${s.expr} = ${bind('afterValue', v)} and ${coupons.id} > ${bind('afterId', id)}))`;
+      ? sql`(${s.expr} <= ${bind('afterValue', v)} and (${s.expr} < ${bind('afterValue', v)} or (${s.expr} = ${bind('afterValue', v)} and ${coupons.id} > ${bind('afterId', id)})))`
+      : sql`(${s.expr} >= ${bind('afterValue', v)} and (${s.expr} > ${bind('afterValue', v)} or (${s.expr} = ${bind('afterValue', v)} and ${coupons.id} > ${bind('afterId', id)})))`;
   }
   return {
     where,
