@@ -1,5 +1,6 @@
 import type { FeatureDeps } from '../../deps';
-import { createAuditMemo, lastAuditId } from '../../db/audit-memo';
+import { createAuditMemo } from '../../db/audit-memo';
+import { createRunMemo } from './run-memo';
 import { DomainError, reachedConstantMass } from '../../../shared/domain/index';
 import { BENCH_COUPONS_SHOWN, type BenchItem, type BenchQuery, type BenchResponse } from '../../../shared/schemas/runs';
 import { dueItems } from '../../../shared/runs/timers';
@@ -33,17 +34,13 @@ export function createBenchService(deps: FeatureDeps) {
   }
 
   // Per run still drying, its coupons not yet at constant mass with the time of their last drying check.
-  // That depends only on the readings and the shop's drying rule, both written with an audit entry, so it
-  // is kept until the next write: the minute's rebuild of Bench then only compares times (it read and
-  // tested every coupon of every drying run each minute, 150+ ms at 100k coupons).
-  let dryingMemo = { auditId: -1, rule: '', byRun: new Map<number, NotDry[]>() };
+  // That depends only on the run's readings and the shop's drying rule, so it is kept until a write
+  // touches the run (createRunMemo) or the rule changes: the minute's rebuild of Bench then only compares
+  // times (it read and tested every coupon of every drying run each minute, 150+ ms at 100k coupons).
+  const dryingMemo = createRunMemo<NotDry[]>(db);
 
   function notYetDry(runIds: number[], rule: { minIntervalHours: number; maxChangePct: number }): Map<number, NotDry[]> {
-    const auditId = lastAuditId(db);
-    const ruleKey = JSON.stringify(rule);
-    if (dryingMemo.auditId !== auditId || dryingMemo.rule !== ruleKey || dryingMemo.byRun.size > 1000)
-      dryingMemo = { auditId, rule: ruleKey, byRun: new Map() };
-    const memo = dryingMemo.byRun;
+    const memo = dryingMemo.sync(JSON.stringify(rule));
     const missing = runIds.filter((id) => !memo.has(id));
     for (const id of missing) memo.set(id, []);
     for (const c of couponsOfRuns(db, missing)) {

@@ -197,8 +197,6 @@ export function couponsWaitingOfRuns(
   return out;
 }
 
-/** The highest audit entry id: every write of the records adds one, so it changes whenever they do. */
-export { lastAuditId } from '../../db/audit-memo';
 
 export function findCouponsByIds(db: Db, ids: number[]) {
   if (ids.length === 0) return [];
@@ -319,4 +317,46 @@ export function benchCandidateRuns(db: Db, cutoff: string): { id: number; code: 
     .leftJoin(runStages, and(eq(runStages.runId, runs.id), eq(runStages.stage, 'cure')))
     .where(or(isNull(runStages.endedAt), gte(runStages.endedAt, cutoff)))
     .all();
+}
+
+/** More audit entries than this since the last look: every run is taken as changed. */
+const TOUCHED_SCAN_LIMIT = 500;
+// What a run's remembered check data depends on: its coupons (their run, tag, readings) and the run itself.
+const TOUCHED_BY_ENTRY = `select a.entity, a.entity_id as entityId,
+    json_extract(a.before, '$.runId') as beforeRun, json_extract(a.after, '$.runId') as afterRun,
+    case a.entity
+      when 'coupon' then (select run_id from coupons where id = a.entity_id)
+      when 'weighing' then (select c.run_id from weighings w join coupons c on c.id = w.coupon_id where w.id = a.entity_id)
+      when 'check' then (select c.run_id from checks k join coupons c on c.id = k.coupon_id where k.id = a.entity_id)
+      when 'run' then a.entity_id
+      when 'run_stage' then (select run_id from run_stages where id = a.entity_id)
+    end as runId
+  from audit_log a where a.id > ? order by a.id limit ${TOUCHED_SCAN_LIMIT + 1}`;
+/** Entries the query above places on a run. */
+const PLACED = new Set(['coupon', 'weighing', 'check', 'run', 'run_stage']);
+/** Entries that change nothing a run's checks read. */
+const UNRELATED = new Set(['photo', 'finding', 'user', 'database']);
+
+/**
+ * The runs whose coupons or stages may have changed since audit entry `sinceId`, read from the audit log
+ * (every write of the records writes an entry, decision 0018): a coupon, weighing or check names its
+ * coupon's run (and a coupon moved between runs both runs), a run itself. Anything else (an import, a
+ * lot, a species, the settings) or too many entries: 'all'.
+ */
+export function runsTouchedSince(db: Db, sinceId: number): Set<number> | 'all' {
+  const rows = prepared(db, TOUCHED_BY_ENTRY).all(sinceId) as {
+    entity: string;
+    entityId: string | null;
+    beforeRun: number | null;
+    afterRun: number | null;
+    runId: number | string | null;
+  }[];
+  if (rows.length > TOUCHED_SCAN_LIMIT) return 'all';
+  const out = new Set<number>();
+  for (const r of rows) {
+    if (UNRELATED.has(r.entity)) continue;
+    if (!PLACED.has(r.entity)) return 'all';
+    for (const id of [r.runId, r.beforeRun, r.afterRun]) if (id !== null && id !== undefined) out.add(Number(id));
+  }
+  return out;
 }

@@ -1,5 +1,6 @@
 import type { FeatureDeps } from '../../deps';
 import { createAuditMemo } from '../../db/audit-memo';
+import { createRunMemo } from './run-memo';
 import type { Db } from '../../db/client';
 import { writeAudit } from '../../db/audit';
 import { refreshResults, refreshResultsOfRun } from '../../measurements/results';
@@ -30,7 +31,6 @@ import {
   listRunRows,
   countRunCodesStartingWith,
   couponsOfRuns,
-  lastAuditId,
   couponsWithTreatmentWeighings,
   findCouponsByIds,
   findLot,
@@ -142,8 +142,16 @@ export function keepRecorded(existing: StageRow, merged: Pick<StageRow, keyof ty
 export function createRunsService(deps: FeatureDeps) {
   const { db } = deps.database;
 
-  function checksFor(run: RunRow, stages: StageRow[], lot: LotWithResin | undefined, couponInfo: RunCouponInfo[], now: Date, units?: UnitChoice): RuleCheck[] {
-    const s = getShopSettings(db);
+  /** settings: read once by a caller that checks many runs (the list), else here. */
+  function checksFor(
+    run: RunRow,
+    stages: StageRow[],
+    lot: LotWithResin | undefined,
+    couponInfo: RunCouponInfo[],
+    now: Date,
+    units?: UnitChoice,
+    s = getShopSettings(db),
+  ): RuleCheck[] {
     return runChecks({
       stages: stages.map(toStageTimes),
       resin: lot ? { name: lot.resin.name, cureMinC: lot.resin.cureMinC, cureMaxC: lot.resin.cureMaxC, shelfLifeDays: lot.resin.shelfLifeDays } : null,
@@ -327,17 +335,16 @@ export function createRunsService(deps: FeatureDeps) {
     );
   }
 
-  // The rule checks' counts per run, remembered until the next audited write (every change to a run,
-  // a coupon, a reading, a lot or the settings writes one). The clock enters the checks only through the
-  // lot's age before the vacuum starts (shared/runs/checks.ts, lot-shelf-life), so a run without a vacuum
-  // stage is also recounted each minute. The coupons' part (tags, dry weighings, drying series,
-  // thickness: 25,000 coupons for a page of 50 full runs) is remembered apart, until the next write.
-  let countsMemo = { auditId: -1, byRun: new Map<number, { counts: RunSummary['checkCounts']; minute: number | null }>() };
-  let couponsMemo = { auditId: -1, byRun: new Map<number, RunCouponInfo[]>() };
+  // The rule checks' counts per run, remembered until a write touches that run (createRunMemo: its
+  // coupons, their readings, its stages; a lot or the settings empty it). The clock enters the checks only
+  // through the lot's age before the vacuum starts (shared/runs/checks.ts, lot-shelf-life), so a run
+  // without a vacuum stage is also recounted each minute. The coupons' part (tags, dry weighings, drying
+  // series, thickness: 25,000 coupons for a page of 50 full runs) is remembered apart, the same way.
+  const countsMemo = createRunMemo<{ counts: RunSummary['checkCounts']; minute: number | null }>(db);
+  const couponsMemo = createRunMemo<RunCouponInfo[]>(db);
 
-  function couponInfoOf(runIds: number[], auditId: number): Map<number, RunCouponInfo[]> {
-    if (couponsMemo.auditId !== auditId || couponsMemo.byRun.size > 1000) couponsMemo = { auditId, byRun: new Map() };
-    const memo = couponsMemo.byRun;
+  function couponInfoOf(runIds: number[]): Map<number, RunCouponInfo[]> {
+    const memo = couponsMemo.sync();
     const missing = runIds.filter((id) => !memo.has(id));
     if (missing.length) {
       for (const id of missing) memo.set(id, []);
@@ -347,28 +354,25 @@ export function createRunsService(deps: FeatureDeps) {
   }
 
   function checkCountsOf(rows: RunRow[], stagesByRun: Map<number, StageRow[]>, lots: Map<number, LotWithResin>, now: Date) {
-    const auditId = lastAuditId(db);
     const minute = Math.floor(now.getTime() / 60_000);
-    if (countsMemo.auditId !== auditId || countsMemo.byRun.size > 1000) countsMemo = { auditId, byRun: new Map() };
-    const memo = countsMemo.byRun;
+    // A lot's dates and the shop's drying rule enter the counts too: their writes empty the memo (runsTouchedSince).
+    const memo = countsMemo.sync();
     const missing = rows.filter((r) => {
       const hit = memo.get(r.id);
       return !hit || (hit.minute !== null && hit.minute !== minute);
     });
     if (missing.length) {
-      const byRun = couponInfoOf(
-        missing.map((r) => r.id),
-        auditId,
-      );
+      const byRun = couponInfoOf(missing.map((r) => r.id));
+      const settings = getShopSettings(db);
       for (const run of missing) {
         const lot = run.resinLotId === null ? undefined : lots.get(run.resinLotId);
         const stages = stagesByRun.get(run.id) ?? [];
         const counts = { ok: 0, warn: 0, fail: 0, pending: 0 };
-        for (const c of checksFor(run, stages, lot, byRun.get(run.id) ?? [], now)) counts[c.status]++;
+        for (const c of checksFor(run, stages, lot, byRun.get(run.id) ?? [], now, undefined, settings)) counts[c.status]++;
         memo.set(run.id, { counts, minute: stages.some((st) => st.stage === 'vacuum') ? null : minute });
       }
     }
-    return new Map([...memo].map(([id, m]) => [id, m.counts]));
+    return new Map(rows.map((r) => [r.id, (memo.get(r.id) as { counts: RunSummary['checkCounts'] }).counts]));
   }
 
   // Coupons per run of a page, remembered until the next write (a grouped count over up to 500 × page rows).
