@@ -1,3 +1,5 @@
+import crypto from 'node:crypto';
+import zlib from 'node:zlib';
 import { Router, type NextFunction, type Request, type Response } from 'express';
 import type { z } from 'zod';
 import { roleAtLeast, type Role } from '../../shared/constants/roles';
@@ -44,7 +46,29 @@ export interface RouteOptions<R extends AccessRule, S extends Schemas> {
  * between two writes is stringified once rather than on every request.
  */
 export class JsonText {
+  private zipped: Buffer | undefined;
+  private tag: string | undefined;
   constructor(readonly text: string) {}
+  /** Its gzip (level 1, as the API's compression), made once: a remembered answer is sent many times. */
+  get gzipped(): Buffer {
+    return (this.zipped ??= zlib.gzipSync(this.text, { level: 1 }));
+  }
+  /** A weak ETag of the text, made once (Express would hash the body on every send). */
+  get etag(): string {
+    return (this.tag ??= `W/"${crypto.createHash('sha1').update(this.text).digest('base64url')}"`);
+  }
+}
+
+/** Sends a JsonText, gzipped from its own copy when the client takes gzip and it is worth it (over 1 kB, as `compression`). */
+function sendJsonText(req: Request, res: Response, status: number, body: JsonText): void {
+  res.status(status).type('json');
+  res.setHeader('ETag', body.etag);
+  res.vary('Accept-Encoding');
+  if (body.text.length >= 1024 && req.acceptsEncodings('gzip') === 'gzip') {
+    // compression() leaves an answer that already names its encoding alone.
+    res.setHeader('Content-Encoding', 'gzip');
+    res.send(body.gzipped);
+  } else res.send(body.text);
 }
 
 /** A handler returns the JSON body (or a JsonText), or undefined after answering through `res` itself. */
@@ -97,11 +121,7 @@ export function secureRouter() {
         const result = await handler(ctx);
         if (res.headersSent) return;
         if (result === undefined) res.status(options.status ?? 204).end();
-        else if (result instanceof JsonText)
-          res
-            .status(options.status ?? 200)
-            .type('json')
-            .send(result.text);
+        else if (result instanceof JsonText) sendJsonText(req, res, options.status ?? 200, result);
         else res.status(options.status ?? 200).json(result);
       };
       router[method](path, accessMiddleware(options.access), run);
