@@ -209,7 +209,7 @@ const md = [
   '# Server benchmark at 100,000 coupons',
   '',
   `Run ${new Date().toISOString()} on ${os.cpus().length} × ${os.cpus()[0]?.model ?? 'CPU'}, Node ${process.version}.`,
-  `Machine load before the load test (\`uptime\`): \`${load}\`. The machine is shared with other engineers' work, so`,
+  `Machine load as the load test ended (\`uptime\`): \`${load}\`. The machine is shared with other engineers' work, so`,
   'req/s figures move with their load; compare rows of the same run, not runs of different days.',
   '',
   'Produced by `npm run bench:server` (bench/generate.ts, bench/run.ts, bench/serve.ts).',
