@@ -152,7 +152,7 @@ export function createApp(deps: AppDeps) {
   // Health is a write, not just an answer: a read-only or full database must not look healthy.
   health.get('/health', { access: 'public' }, ({ res }) => {
     const database = probeDatabase(deps.database, feature.now());
-    if (database === 'writable') return { ok: true, database };
+    if (database === 'writable' || database === 'busy') return { ok: true, database };
     res.status(503).json({ ok: false, database });
     return undefined;
   });

@@ -6,7 +6,11 @@ import { settings } from './db/schema/admin';
 import { users } from './db/schema/auth';
 import type { Role } from '../shared/constants/roles';
 import { DEMO_RESINS, seedReferenceDemo, seedReferenceSpecies } from './features/reference/reference.seed';
-import { seedTrialsDemo } from './features/trials/trials.seed';
+import { DEMO_TRIAL_CODE, demoTrialCoupons, seedTrialsDemo } from './features/trials/trials.seed';
+import { createAnalysisService } from './features/analysis/analysis.service';
+import { seedFindingsDemo } from './features/findings/findings.seed';
+import { trials } from './db/schema/trials';
+import { resins } from './db/schema/reference';
 import { seedRunsDemo } from './features/runs/runs.seed';
 import { rebuildResults, resultsIncomplete } from './measurements/results';
 
@@ -80,6 +84,68 @@ export function seedDemo(database: Database_, options: { bcryptCost?: number; no
     for (const seed of demoSeeders) seed(ctx);
     // The seeders write coupons and readings directly; their results rows are computed once here.
     rebuildResults(tx);
+    // A saved view and a finding read the results, so they come last.
+    seedEvidenceDemo(ctx, database.db);
   });
   return true;
+}
+
+/**
+ * The demo's evidence: a saved view of the main trial comparing the two demo resins on WPG, and a finding
+ * that quotes its numbers, submitted for review. The words are written from the numbers the view froze,
+ * so the finding never claims what the (generated) demo data do not show.
+ */
+function seedEvidenceDemo(ctx: DemoContext, connection: Db): void {
+  const { tx, userIds, now } = ctx;
+  const trial = tx.select({ id: trials.id, title: trials.title }).from(trials).where(eq(trials.code, DEMO_TRIAL_CODE)).get();
+  const coupons = demoTrialCoupons(tx);
+  const resinIds = [...new Set(coupons.flatMap((c) => (c.resinId === null ? [] : [c.resinId])))];
+  const speciesIds = [...new Set(coupons.map((c) => c.speciesId))];
+  if (!trial || resinIds.length !== 2) return;
+  const [clearId, dyedId] = resinIds as [number, number];
+  const names = new Map(
+    tx
+      .select({ id: resins.id, name: resins.name })
+      .from(resins)
+      .all()
+      .map((r) => [r.id, r.name]),
+  );
+  const tech = tx.select({ id: users.id, name: users.name }).from(users).where(eq(users.id, userIds.technician)).get()!;
+  // The analysis keeps its data version with triggers on the connection itself (a transaction handle has
+  // none); statements through the connection still run inside the open demo transaction.
+  const analysis = createAnalysisService({ db: connection, now: () => now });
+  // Saving a view reads only the author's id and name.
+  const saved = analysis.saveEvidence({ ...tech, email: '', role: 'technician' } as Parameters<typeof analysis.saveEvidence>[0], {
+    title: `${trial.title}: WPG by resin`,
+    note: 'Demo saved view: the demo trial with both resins compared on weight percent gain.',
+    view: {
+      filters: { trialId: [trial.id] },
+      sgBasis: 'measured',
+      compare: {
+        a: { resinId: clearId, label: names.get(clearId) ?? 'clear' },
+        b: { resinId: dyedId, label: names.get(dyedId) ?? 'dyed' },
+        metric: 'wpgPct',
+      },
+    },
+  });
+  const compare = saved.evidence.snapshot.numbers.compare;
+  if (!compare) return;
+  const bodyMd = [
+    `Demo finding, written from invented demo data for trying the review.`,
+    ``,
+    `**What the trial compared.** The clear and the dyed blend under the same vacuum, soak and cure, on the three species of ${DEMO_TRIAL_CODE}.`,
+    ``,
+    `**What it showed.** ${compare.sentence}`,
+    ...(compare.warnings.length ? ['', `**How sure.** ${compare.warnings.join(' ')}`] : []),
+    ``,
+    `The saved view below holds the numbers and the plot as they were when this was written.`,
+  ].join('\n');
+  seedFindingsDemo(ctx, {
+    title: `Dyed and clear blend: weight gain in ${DEMO_TRIAL_CODE}`,
+    bodyMd,
+    trialIds: [trial.id],
+    speciesIds,
+    resinIds: [clearId, dyedId],
+    savedViewId: saved.evidence.id,
+  });
 }

@@ -53,33 +53,83 @@ export class DatabaseInUse extends Error {
 }
 
 /**
- * Opens a SQLite file in exclusive locking mode, creating it owner-only (0600) in an owner-only
- * folder (0700) when it is new. Exclusive mode holds the file lock for as long as the connection is
- * open, so a second server, a restore or a seed on the same file is refused at once instead of failing
- * writes later; the operating system drops the lock when the process dies, even on kill -9.
- * (In WAL mode an exclusive connection keeps the WAL index in its own memory: no -shm file.)
+ * Takes the one-process-per-DATA_DIR lock: a small SQLite file beside the database (`<file>-lock`), opened
+ * in exclusive locking mode and written once, so this connection holds the operating system's file lock
+ * until it closes; the system drops it when the process dies, even on kill -9, so no stale lock is left to
+ * clean up. A second server, a restore or a seed on the same file is refused at once (DatabaseInUse).
+ * The lock lives in its own file, not on the database, so that a worker thread of the same process can open
+ * a second connection to the database (an import's commit runs there, off the event loop: decision 0017).
+ */
+function takeProcessLock(file: string): Database.Database {
+  const lockFile = `${file}-lock`;
+  if (!fs.existsSync(lockFile)) fs.writeFileSync(lockFile, '', { mode: 0o600 });
+  const lock = new Database(lockFile, { timeout: 0 });
+  try {
+    lock.pragma('locking_mode = EXCLUSIVE');
+    lock.pragma('journal_mode = OFF');
+    // An exclusive write takes the lock; exclusive locking mode keeps it after the commit.
+    lock.exec('BEGIN EXCLUSIVE; COMMIT');
+  } catch (err) {
+    lock.close();
+    if ((err as { code?: string }).code === 'SQLITE_BUSY') throw new DatabaseInUse(file);
+    throw err;
+  }
+  return lock;
+}
+
+/** The pragmas of every connection to the database: WAL, foreign keys on (off by default in SQLite), a safe sync. */
+function configure(sqlite: Database.Database, busyTimeoutMs: number) {
+  sqlite.pragma('journal_mode = WAL');
+  sqlite.pragma('foreign_keys = ON');
+  sqlite.pragma(`busy_timeout = ${busyTimeoutMs}`);
+  sqlite.pragma('synchronous = NORMAL');
+}
+
+/**
+ * Opens a SQLite file for this process, creating it owner-only (0600) in an owner-only folder (0700)
+ * when it is new, after taking the process lock (above): a second process on the same file stops here.
+ *
+ * Its busy timeout is 0: the only other connection is an import's commit in a worker thread of this
+ * process, which holds the write lock for seconds; waiting for it would block the event loop (SQLite
+ * sleeps in the calling thread), so a write arriving then fails at once with SQLITE_BUSY, which the
+ * error middleware answers as 503 "try again in a moment". Reads never wait in WAL mode.
  */
 export function openSqlite(file: string): Database.Database {
   if (file !== ':memory:') {
     fs.mkdirSync(path.dirname(file), { recursive: true, mode: 0o700 });
-    // SQLite gives the -wal file the main file's permissions, so creating it 0600 covers both.
+    // SQLite gives the -wal and -shm files the main file's permissions, so creating it 0600 covers them.
     if (!fs.existsSync(file)) fs.writeFileSync(file, '', { mode: 0o600, flag: 'wx' });
     else fs.chmodSync(file, 0o600);
   }
-  const sqlite = new Database(file, { timeout: 0 });
+  const lock = file === ':memory:' ? null : takeProcessLock(file);
+  let sqlite: Database.Database;
   try {
-    sqlite.pragma('locking_mode = EXCLUSIVE');
-    sqlite.pragma('journal_mode = WAL');
-    // A write takes the lock now rather than at the first request.
-    sqlite.exec('BEGIN IMMEDIATE; COMMIT');
+    sqlite = new Database(file, { timeout: 0 });
+    configure(sqlite, 0);
   } catch (err) {
-    sqlite.close();
-    if ((err as { code?: string }).code === 'SQLITE_BUSY') throw new DatabaseInUse(file);
+    lock?.close();
     throw err;
   }
-  sqlite.pragma('foreign_keys = ON');
-  sqlite.pragma('busy_timeout = 5000');
-  sqlite.pragma('synchronous = NORMAL');
+  if (lock) {
+    // The lock goes with the connection: whoever closes the database (server, restore, tests) frees it.
+    const close = sqlite.close.bind(sqlite);
+    sqlite.close = () => {
+      close();
+      lock.close();
+      return sqlite;
+    };
+  }
+  return sqlite;
+}
+
+/**
+ * A second connection to a database this process already holds (openSqlite above), for a worker thread:
+ * it takes no process lock, and waits up to `busyTimeoutMs` for the main thread's short transactions
+ * (a worker's wait blocks only the worker).
+ */
+export function openWorkerConnection(file: string, busyTimeoutMs = 30_000): Database.Database {
+  const sqlite = new Database(file, { timeout: busyTimeoutMs, fileMustExist: true });
+  configure(sqlite, busyTimeoutMs);
   return sqlite;
 }
 
@@ -105,8 +155,7 @@ export function applyMigrations(db: Db, sqlite: Database.Database): void {
 
 /**
  * Opens (creating if needed) the SQLite file and applies the committed migrations.
- * WAL lets readers proceed during a write; the busy timeout rides out short lock waits instead of
- * failing with SQLITE_BUSY; foreign keys are off by default in SQLite and must be switched on per connection.
+ * WAL lets readers proceed during a write (an import's commit in a worker thread).
  */
 export function openDatabase(file: string): Database_ {
   const sqlite = openSqlite(file);

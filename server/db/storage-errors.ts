@@ -18,3 +18,16 @@ function problemOf(code: unknown): 'full' | 'read-only' | null {
   if (code.startsWith('SQLITE_READONLY') || code === 'EROFS' || code === 'EACCES' || code === 'EPERM') return 'read-only';
   return null;
 }
+
+/**
+ * True when SQLite refused because another connection holds the write lock: only an import's commit,
+ * written by a worker thread of this process for a few seconds (decision 0017). The main connection does
+ * not wait for it (that would block the event loop), so the request is answered "try again in a moment".
+ */
+export function databaseBusy(err: unknown): boolean {
+  for (let e = err, depth = 0; e && depth < 5; e = (e as { cause?: unknown }).cause, depth++) {
+    const code = (e as { code?: unknown }).code;
+    if (typeof code === 'string' && code.startsWith('SQLITE_BUSY')) return true;
+  }
+  return false;
+}

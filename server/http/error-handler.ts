@@ -2,7 +2,7 @@ import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { STATUS_OF, type ErrorCode } from '../../shared/constants/errors';
 import type { ErrorEnvelope } from '../../shared/schemas/common';
 import { DomainError } from '../../shared/domain/errors';
-import { storageProblem } from '../db/storage-errors';
+import { databaseBusy, storageProblem } from '../db/storage-errors';
 import { AppError } from './errors';
 import type { AuthedRequest } from './types';
 
@@ -49,6 +49,14 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   const code = (err as { code?: string }).code;
   if (code === 'LIMIT_FILE_SIZE') {
     res.status(413).json(envelope('payload_too_large', 'The uploaded file is too large', requestId, { file: ['File too large'] }));
+    return;
+  }
+  if (databaseBusy(err)) {
+    req.log?.warn({ err }, 'database busy');
+    res
+      .status(STATUS_OF.storage_unavailable)
+      .set('Retry-After', '3')
+      .json(envelope('storage_unavailable', 'A large import is being written to the database, so nothing was saved. Try again in a moment.', requestId));
     return;
   }
   // A full or read-only disk is not a bug: say so plainly, with the status that names it (507, 503).

@@ -1,5 +1,6 @@
 import type Database from 'better-sqlite3';
 import session from 'express-session';
+import { databaseBusy } from '../db/storage-errors';
 
 /**
  * express-session store on the app's own SQLite file (the `sessions` table). We write our own small
@@ -71,7 +72,11 @@ export class SqliteSessionStore extends session.Store {
       this.stmts.touch.run(expiry, sid, expiry - TOUCH_SLACK_MS);
       cb?.();
     } catch (err) {
-      cb?.(err);
+      // Every signed-in request touches its session. While an import's commit holds the write lock
+      // (a worker thread, a few seconds) the touch is skipped rather than failing a read: the session
+      // keeps its earlier expiry, which the next request extends.
+      if (databaseBusy(err)) cb?.();
+      else cb?.(err);
     }
   }
 

@@ -78,6 +78,36 @@ describe('measurements module: bulk path', () => {
     expect(db.select().from(couponResults).orderBy(asc(couponResults.couponId)).all()).toEqual(incremental);
   });
 
+  it("writes one audit entry for an import's readings when asked, with counts and the ids it wrote", () => {
+    const db = h.database.db;
+    const ids = newCoupons(3);
+    const auditBefore = db.select({ n: count() }).from(auditLog).get()!.n;
+    const out = db.transaction((tx) =>
+      m.bulkAdd(
+        tx,
+        actor,
+        'import:11',
+        ids.map((couponId, i) => ({ couponId, weighings: [{ stage: 'dry' as const, massG: 10 + i, measuredAt: at(0) }] })),
+        { audit: 'per-source' },
+      ),
+    );
+    expect(out.couponIds).toEqual(ids);
+    expect(db.select({ n: count() }).from(auditLog).get()!.n - auditBefore).toBe(1);
+    const entry = db.select().from(auditLog).orderBy(asc(auditLog.id)).all().at(-1)!;
+    const written = db.select().from(weighings).where(eq(weighings.importId, 11)).orderBy(asc(weighings.id)).all();
+    expect(entry).toMatchObject({ action: 'add-readings', entity: 'import', entityId: '11', actorId: actor.id });
+    expect(entry.after).toEqual({
+      source: 'import:11',
+      coupons: 3,
+      weighings: 3,
+      checks: 0,
+      stages: { dry: 3 },
+      weighingIds: { first: written[0]!.id, last: written[2]!.id },
+      checkIds: null,
+    });
+    expect(db.select().from(couponResults).where(eq(couponResults.couponId, ids[2]!)).get()).toMatchObject({ dryMassG: 12 });
+  });
+
   it('applies the same rules as a single write, within the bulk too, and writes nothing when any reading is refused', () => {
     const db = h.database.db;
     const [a, b] = newCoupons(2);

@@ -1,5 +1,6 @@
 import { getTableColumns, sql } from 'drizzle-orm';
 import type { Db } from '../db/client';
+import { getTableConfig } from 'drizzle-orm/sqlite-core';
 import { couponResults, type CouponResultValues } from '../db/schema/results';
 import type { CheckKind, CheckStage, CouponRole, HardnessScale, WeighingStage } from '../../shared/constants/records';
 import { checkVolumeCm3, couponMetrics, type CheckReading, type WeighingReading } from '../../shared/coupons/metrics';
@@ -178,19 +179,41 @@ const UPSERT_SQL = `insert into coupon_results (${COLUMNS.map((c) => c.name).joi
     .map((c) => `${c.name} = excluded.${c.name}`)
     .join(', ')}`;
 
+// The lean path: SQLite decides which indexes an UPDATE rewrites from the columns its SET names, not from
+// whether their values change, so the upsert above rewrites all six indexes of every row it updates. A new
+// reading changes readings and metrics, never the keys the indexes are on: this UPDATE sets only the
+// unindexed columns, and only when the stored indexed keys are still the same (`is` matches nulls);
+// when it changes no row (a new coupon, or one whose run, species, lot… moved) the upsert runs.
+const INDEXED = new Set(getTableConfig(couponResults).indexes.flatMap((i) => i.config.columns.map((c) => (c as { name: string }).name)));
+const KEY_COLUMNS = COLUMNS.filter((c) => INDEXED.has(c.name));
+const VALUE_COLUMNS = COLUMNS.filter((c) => c.key !== 'couponId' && !INDEXED.has(c.name));
+const UPDATE_SQL = `update coupon_results set ${VALUE_COLUMNS.map((c) => `${c.name} = ?`).join(', ')}
+  where coupon_id = ? and ${KEY_COLUMNS.map((c) => `${c.name} is ?`).join(' and ')}`;
+
+const column = (rec: Record<string, unknown>, key: string) => {
+  const x = rec[key];
+  return key === 'hardness' || key === 'problems' ? JSON.stringify(x) : (x ?? null);
+};
+
 function bindable(v: CouponResultValues): unknown[] {
   const rec = v as unknown as Record<string, unknown>;
-  return COLUMNS.map((c) => {
-    const x = rec[c.key];
-    return c.key === 'hardness' || c.key === 'problems' ? JSON.stringify(x) : (x ?? null);
-  });
+  return COLUMNS.map((c) => column(rec, c.key));
 }
 
-function writeRows(tx: Db, keys: RawKeys[], ws: Map<number, RawWeighing[]>, cs: Map<number, RawCheck[]>): number {
+function updateBindable(v: CouponResultValues): unknown[] {
+  const rec = v as unknown as Record<string, unknown>;
+  const out: unknown[] = VALUE_COLUMNS.map((c) => column(rec, c.key));
+  out.push(v.couponId);
+  for (const c of KEY_COLUMNS) out.push(column(rec, c.key));
+  return out;
+}
+
+function writeRows(tx: Db, keys: RawKeys[], ws: Map<number, RawWeighing[]>, cs: Map<number, RawCheck[]>, fresh = false): number {
   const upsert = prepared(tx, UPSERT_SQL);
+  const update = prepared(tx, UPDATE_SQL);
   for (const k of keys) {
     const values = resultValues({ ...k, role: k.role as CouponRole }, (ws.get(k.couponId) ?? []).map(toWeighing), (cs.get(k.couponId) ?? []).map(toCheck));
-    upsert.run(bindable(values));
+    if (fresh || update.run(updateBindable(values)).changes === 0) upsert.run(bindable(values));
   }
   return keys.length;
 }
@@ -242,7 +265,7 @@ export function rebuildResults(tx: Db): number {
   const keys = c.prepare(`${KEYS_SQL} order by c.id`).all() as RawKeys[];
   const ws = c.prepare(`${WEIGHINGS_SQL} where w.superseded_by is null and w.deleted_at is null order by w.measured_at, w.id`).all() as RawWeighing[];
   const cs = c.prepare(`${CHECKS_SQL} where k.superseded_by is null and k.deleted_at is null order by k.measured_at, k.id`).all() as RawCheck[];
-  return writeRows(tx, keys, groupBy(ws), groupBy(cs));
+  return writeRows(tx, keys, groupBy(ws), groupBy(cs), true);
 }
 
 /** True when some coupon has no results row (a database from before the table, or a restored backup). */

@@ -2,7 +2,7 @@ import { DomainError, welchTest } from '../domain/index';
 import type { WelchResult } from '../domain/index';
 import type { AnalysisCoupon, CompareMetric, CompareResult, GroupSpec } from '../schemas/analysis';
 import { COMPARE_METRIC_LABELS } from '../schemas/analysis';
-import { boardCounts } from './groups';
+import { columnsOf, SCALE_CODES, type CouponColumns } from './columns';
 import { fmt, fmtP, statsOf } from './stats';
 
 /** Below this many coupons (or boards) per group, a comparison is flagged as too small to say much. */
@@ -42,26 +42,96 @@ interface Valued {
   value: number;
 }
 
-function values(list: readonly AnalysisCoupon[], metric: CompareMetric, scale: string | null): Valued[] {
-  const out: Valued[] = [];
-  for (const c of list) {
-    const v = metric === 'hardness' ? (c.hardnessScale === scale ? c.hardnessValue : null) : c[metric];
-    if (v !== null && Number.isFinite(v)) out.push({ coupon: c, value: v });
+/** Means per source board; a coupon with no board named is its own unit. */
+export function boardMeans(list: readonly Valued[]): number[] {
+  // Keyed by the board's name, or by the coupon's id (a number, so it never meets a board name): no string per coupon.
+  const units = new Map<string | number, { s: number; n: number }>();
+  for (const { coupon, value } of list) {
+    const k = coupon.sourceBoard ? coupon.sourceBoard : coupon.id;
+    const u = units.get(k);
+    if (u) {
+      u.s += value;
+      u.n++;
+    } else units.set(k, { s: value, n: 1 });
+  }
+  return [...units.values()].map((u) => u.s / u.n);
+}
+
+/** A group's members in column positions, with their values of the metric (positions and values side by side). */
+interface Side {
+  at: number[];
+  values: number[];
+}
+
+/** Board means over column positions: the same units, order and sums as boardMeans. */
+function boardMeansOf(cols: CouponColumns, side: Side): number[] {
+  const units = new Map<number, { s: number; n: number }>();
+  for (let i = 0; i < side.at.length; i++) {
+    const p = side.at[i] as number;
+    const b = cols.board[p] as number;
+    // Boards by their index (≥ 0); a coupon with none by −1 − its id, so the two never meet.
+    const k = b >= 0 ? b : -1 - (cols.id[p] as number);
+    const value = side.values[i] as number;
+    const u = units.get(k);
+    if (u) {
+      u.s += value;
+      u.n++;
+    } else units.set(k, { s: value, n: 1 });
+  }
+  return [...units.values()].map((u) => u.s / u.n);
+}
+
+function boardCountsOf(cols: CouponColumns, at: readonly number[]): { nBoards: number; nNoBoard: number } {
+  const boards = new Set<number>();
+  let nNoBoard = 0;
+  for (const p of at) {
+    const b = cols.board[p] as number;
+    if (b >= 0) boards.add(b);
+    else nNoBoard++;
+  }
+  return { nBoards: boards.size, nNoBoard };
+}
+
+/** Positions of the coupons that match every key the group names, read from the columns. */
+function membersOf(cols: CouponColumns, g: GroupSpec): number[] {
+  const out: number[] = [];
+  const control = g.role === undefined ? -1 : g.role === 'control' ? 1 : 0;
+  for (let i = 0; i < cols.n; i++) {
+    if (g.speciesId !== undefined && cols.speciesId[i] !== g.speciesId) continue;
+    if (g.resinId !== undefined && cols.resinId[i] !== g.resinId) continue;
+    if (g.lotId !== undefined && cols.lotId[i] !== g.lotId) continue;
+    if (g.runId !== undefined && cols.runId[i] !== g.runId) continue;
+    if (g.conditionId !== undefined && cols.conditionId[i] !== g.conditionId) continue;
+    if (control >= 0 && cols.control[i] !== control) continue;
+    out.push(i);
   }
   return out;
 }
 
-/** Means per source board; a coupon with no board named is its own unit. */
-export function boardMeans(list: readonly Valued[]): number[] {
-  const units = new Map<string, { s: number; n: number }>();
-  for (const { coupon, value } of list) {
-    const k = coupon.sourceBoard ? `b:${coupon.sourceBoard}` : `c:${coupon.id}`;
-    const u = units.get(k) ?? { s: 0, n: 0 };
-    u.s += value;
-    u.n++;
-    units.set(k, u);
+const METRIC_COLUMNS = {
+  wpgPct: 'wpgPct',
+  resinLoadingKgM3: 'resinLoadingKgM3',
+  voidFillPct: 'voidFillPct',
+  swellingPct: 'swellingPct',
+  asePct: 'asePct',
+  wrePct: 'wrePct',
+  hardness: 'hardnessValue',
+} as const satisfies Record<CompareMetric, keyof CouponColumns>;
+
+/** The members with a value of the metric (hardness: on `scale` only), and those values. */
+function sideOf(cols: CouponColumns, members: readonly number[], metric: CompareMetric, scale: number): Side {
+  const column = cols[METRIC_COLUMNS[metric]];
+  const at: number[] = [];
+  const values: number[] = [];
+  for (const p of members) {
+    if (metric === 'hardness' && cols.hardnessScale[p] !== scale) continue;
+    const v = column[p] as number;
+    if (Number.isFinite(v)) {
+      at.push(p);
+      values.push(v);
+    }
   }
-  return [...units.values()].map((u) => u.s / u.n);
+  return { at, values };
 }
 
 function tryWelch(a: number[], b: number[]): WelchResult | null {
@@ -85,36 +155,43 @@ function side(label: string, xs: readonly number[], nBoards: number): CompareRes
  * board are not independent, so then the board-mean result is the one to trust. One plain sentence
  * states the trusted result with both n; warnings say when the groups are too small to say much.
  */
-export function compareGroups(rows: readonly AnalysisCoupon[], a: GroupSpec, b: GroupSpec, metric: CompareMetric): CompareResult {
-  const membersA = rows.filter((c) => inGroup(c, a));
-  const membersB = rows.filter((c) => inGroup(c, b));
+export function compareGroups(rows: readonly AnalysisCoupon[] | CouponColumns, a: GroupSpec, b: GroupSpec, metric: CompareMetric): CompareResult {
+  const cols = 'coupons' in rows ? rows : columnsOf(rows);
+  const membersA = membersOf(cols, a);
+  const membersB = membersOf(cols, b);
   const warnings: string[] = [];
-  let scale: string | null = null;
+  let scale = 0;
   let unit = COMPARE_METRIC_LABELS[metric].unit;
   if (metric === 'hardness') {
-    const counts = new Map<string, number>();
-    for (const c of membersA) if (c.hardnessScale) counts.set(c.hardnessScale, (counts.get(c.hardnessScale) ?? 0) + 1);
-    scale = [...counts.entries()].sort((x, y) => y[1] - x[1])[0]?.[0] ?? null;
-    unit = scale ?? '';
-    if (counts.size > 1) warnings.push(`Hardness was read on more than one scale; only ${scale} readings are compared (scales are never converted).`);
+    // The scale most of group A was read on; a tie goes to the scale met first.
+    const counts = new Map<number, number>();
+    for (const p of membersA) {
+      const s = cols.hardnessScale[p] as number;
+      if (s !== 0) counts.set(s, (counts.get(s) ?? 0) + 1);
+    }
+    scale = [...counts.entries()].sort((x, y) => y[1] - x[1])[0]?.[0] ?? 0;
+    unit = SCALE_CODES[scale] ?? '';
+    if (counts.size > 1)
+      warnings.push(`Hardness was read on more than one scale; only ${SCALE_CODES[scale]} readings are compared (scales are never converted).`);
   }
-  const va = values(membersA, metric, scale);
-  const vb = values(membersB, metric, scale);
-  const labelA = groupLabel(a, membersA, 'group A');
-  const labelB = groupLabel(b, membersB, 'group B');
-  const idsB = new Set(vb.map((y) => y.coupon.id));
-  const overlap = va.filter((x) => idsB.has(x.coupon.id)).length;
+  const va = sideOf(cols, membersA, metric, scale);
+  const vb = sideOf(cols, membersB, metric, scale);
+  const labelA = groupLabel(a, membersA.length ? [cols.coupons[membersA[0] as number] as AnalysisCoupon] : [], 'group A');
+  const labelB = groupLabel(b, membersB.length ? [cols.coupons[membersB[0] as number] as AnalysisCoupon] : [], 'group B');
+  const inB = new Set(vb.at);
+  let overlap = 0;
+  for (const p of va.at) if (inB.has(p)) overlap++;
   if (overlap > 0) warnings.push(`${overlap} coupon(s) fall in both groups; pick groups that do not overlap.`);
-  const xa = va.map((v) => v.value);
-  const xb = vb.map((v) => v.value);
-  const bcA = boardCounts(va.map((v) => v.coupon));
-  const bcB = boardCounts(vb.map((v) => v.coupon));
+  const xa = va.values;
+  const xb = vb.values;
+  const bcA = boardCountsOf(cols, va.at);
+  const bcB = boardCountsOf(cols, vb.at);
   const welch = tryWelch(xa, xb);
   const repeats = bcA.nBoards + bcA.nNoBoard < xa.length || bcB.nBoards + bcB.nNoBoard < xb.length;
   let board: CompareResult['boardMeans'] = null;
   if (repeats) {
-    const ma = boardMeans(va);
-    const mb = boardMeans(vb);
+    const ma = boardMeansOf(cols, va);
+    const mb = boardMeansOf(cols, vb);
     const w = tryWelch(ma, mb);
     if (w) board = { nA: ma.length, nB: mb.length, ...w };
     else warnings.push(`Coupons share source boards, but there are too few boards (${ma.length} and ${mb.length}) for a test on board means.`);

@@ -1,15 +1,18 @@
-import { DEFAULT_CELL_WALL_DENSITY, DomainError, fitLinear, fitMultiple, maxWeightPercentGain } from '../domain/index';
+import { DEFAULT_CELL_WALL_DENSITY, DomainError, fitLinear, fitMultipleColumns, maxWeightPercentGain } from '../domain/index';
 import type { LinearFit } from '../domain/index';
 import { DEFAULT_SG_COV, SG_WARNING_SDS, sgWarningText } from '../coupons/plausibility';
 import type { AnalysisCoupon, Fit, Outlier, Overview } from '../schemas/analysis';
+import type { CouponColumns } from './columns';
 import { fitThroughOrigin, fmt, t975 } from './stats';
 
 /**
- * Points are passed as parallel arrays (the coupons, their x and their y, same positions) rather than
- * one object per point, so a hundred thousand coupons make three arrays, not a hundred thousand objects.
+ * Points are passed as parallel arrays (the coupons' positions in the columns, their x and their y) rather
+ * than one object per point, so a hundred thousand coupons make three arrays, not a hundred thousand objects.
  */
 export interface Points {
-  coupons: readonly AnalysisCoupon[];
+  cols: CouponColumns;
+  /** Position in `cols` of the point's coupon. */
+  at: readonly number[];
   x: number[];
   y: number[];
 }
@@ -101,16 +104,15 @@ export function simpleFit(model: 'density' | 'thickness', x: number[], y: number
 }
 
 /**
- * WPG on oven-dry SG and thickness together, by the core's `fitMultiple` (QR), with a plain reading at
+ * WPG on oven-dry SG and thickness together, by the core's `fitMultipleColumns` (fitMultiple's QR), with a plain reading at
  * equal thickness and at equal SG.
  */
 export function multipleFit(sgs: readonly number[], thicknesses: readonly number[], y: number[]): Fit | { note: string } {
   if (y.length < 4) return { note: `No fit on SG and thickness together: it needs at least 4 coupons, and ${y.length} have all three values.` };
   let m;
   try {
-    const rows = new Array<number[]>(y.length);
-    for (let i = 0; i < y.length; i++) rows[i] = [sgs[i] as number, thicknesses[i] as number];
-    m = fitMultiple(rows, y);
+    // Columns as they are: no array per coupon.
+    m = fitMultipleColumns([sgs, thicknesses], y);
   } catch (e) {
     if (e instanceof DomainError) {
       const why = e.code === 'rank-deficient' ? 'SG or thickness does not vary independently (e.g. every coupon has the same thickness)' : e.message;
@@ -139,8 +141,9 @@ export function multipleFit(sgs: readonly number[], thicknesses: readonly number
  * RESIDUAL_OUTLIER_Z on the WPG–SG line; and a measured SG beyond SG_WARNING_SDS species SDs from the
  * species reference (the same rule the entry grid flags with).
  */
-export function findOutliers(pts: Points, fit: SimpleFitResult | null, all: readonly AnalysisCoupon[]): Outlier[] {
+export function findOutliers(pts: Points, fit: SimpleFitResult | null): Outlier[] {
   const out: Outlier[] = [];
+  const { cols } = pts;
   if (fit) {
     const { linear, xMean, sxx } = fit;
     const n = linear.n;
@@ -151,7 +154,7 @@ export function findOutliers(pts: Points, fit: SimpleFitResult | null, all: read
       const h = 1 / n + ((x - xMean) * (x - xMean)) / sxx;
       const z = (y - expected) / (linear.residualSd * Math.sqrt(Math.max(1 - h, 1e-12)));
       if (Math.abs(z) > RESIDUAL_OUTLIER_Z) {
-        const c = pts.coupons[i] as AnalysisCoupon;
+        const c = cols.coupons[pts.at[i] as number] as AnalysisCoupon;
         out.push({
           id: c.id,
           tag: c.tag,
@@ -162,17 +165,22 @@ export function findOutliers(pts: Points, fit: SimpleFitResult | null, all: read
       }
     }
   }
-  for (const c of all) {
-    if (c.drySg === null || c.referenceSg === null) continue;
-    const cov = c.referenceSgCov ?? DEFAULT_SG_COV;
-    const z = (c.drySg - c.referenceSg) / (cov * c.referenceSg);
+  // Every coupon of the set (controls and excluded ones too) against its species' reference.
+  for (let i = 0; i < cols.n; i++) {
+    const drySg = cols.drySg[i] as number;
+    const referenceSg = cols.referenceSg[i] as number;
+    if (drySg !== drySg || referenceSg !== referenceSg) continue;
+    const given = cols.referenceSgCov[i] as number;
+    const cov = given === given ? given : DEFAULT_SG_COV;
+    const z = (drySg - referenceSg) / (cov * referenceSg);
     if (Math.abs(z) > SG_WARNING_SDS) {
+      const c = cols.coupons[i] as AnalysisCoupon;
       out.push({
         id: c.id,
         tag: c.tag,
         kind: 'sg',
         value: z,
-        reason: sgWarningText(c.drySg, { referenceSg: c.referenceSg, coefficientOfVariation: cov, z, plausible: false }),
+        reason: sgWarningText(drySg, { referenceSg, coefficientOfVariation: cov, z, plausible: false }),
       });
     }
   }
@@ -185,18 +193,37 @@ export function findOutliers(pts: Points, fit: SimpleFitResult | null, all: read
  * the origin of actual WPG on each coupon's WPG_max at the plotted SG.
  */
 export function theoreticalMax(pts: Points): Overview['theoreticalMax'] {
-  const byResin = new Map<string, { name: string; density: number; at: number[] }>();
-  for (let i = 0; i < pts.coupons.length; i++) {
-    const c = pts.coupons[i] as AnalysisCoupon;
-    const d = c.resinDensityGcm3;
-    if (d === null || c.resinName === null) continue;
-    const k = `${c.resinName}|${d}`;
-    const e = byResin.get(k);
+  // Grouped by resin name and density (two resins of one name and density draw one curve), in order of
+  // first appearance. A resin id always has the same name and density, so each id is looked up once.
+  type Entry = { name: string; density: number; at: number[] };
+  const byResin = new Map<string, Map<number, Entry>>();
+  const byId = new Map<number, Entry | null>();
+  const order: Entry[] = [];
+  const { cols } = pts;
+  for (let i = 0; i < pts.at.length; i++) {
+    const p = pts.at[i] as number;
+    const resinId = cols.resinId[p] as number;
+    let e = byId.get(resinId);
+    if (e === undefined) {
+      const c = cols.coupons[p] as AnalysisCoupon;
+      const d = c.resinDensityGcm3;
+      if (d === null || c.resinName === null) e = null;
+      else {
+        let byDensity = byResin.get(c.resinName);
+        if (!byDensity) byResin.set(c.resinName, (byDensity = new Map()));
+        e = byDensity.get(d) ?? null;
+        if (!e) {
+          e = { name: c.resinName, density: d, at: [] };
+          byDensity.set(d, e);
+          order.push(e);
+        }
+      }
+      byId.set(resinId, e);
+    }
     if (e) e.at.push(i);
-    else byResin.set(k, { name: c.resinName, density: d, at: [i] });
   }
   const out: Overview['theoreticalMax'] = [];
-  for (const { name, density, at } of byResin.values()) {
+  for (const { name, density, at } of order) {
     let lo = Infinity;
     let hi = -Infinity;
     for (const i of at) {

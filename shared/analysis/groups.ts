@@ -1,6 +1,7 @@
 import { hardnessGain } from '../domain/index';
 import type { HardnessScale } from '../constants/records';
 import type { AnalysisCoupon, GroupRow, SgBasis } from '../schemas/analysis';
+import { SCALE_CODES, type CouponColumns } from './columns';
 import { statsOf } from './stats';
 
 /** The oven-dry SG a coupon is placed at: its own (mass over volume) or its species' reference. */
@@ -32,15 +33,6 @@ export function exclusionReasons(c: AnalysisCoupon, basis: SgBasis): string[] {
 /** Group key species × resin. */
 export const groupKey = (c: Pick<AnalysisCoupon, 'speciesId' | 'resinId'>) => `${c.speciesId}|${c.resinId ?? 'none'}`;
 
-function mostCommonScale(values: readonly { hardnessScale: HardnessScale | null }[]): HardnessScale | null {
-  const counts = new Map<HardnessScale, number>();
-  for (const v of values) if (v.hardnessScale) counts.set(v.hardnessScale, (counts.get(v.hardnessScale) ?? 0) + 1);
-  let best: HardnessScale | null = null;
-  let n = 0;
-  for (const [k, c] of counts) if (c > n) [best, n] = [k, c];
-  return best;
-}
-
 /** Distinct named boards and coupons with no board named, in a list of coupons. */
 export function boardCounts(list: readonly Pick<AnalysisCoupon, 'sourceBoard'>[]): { nBoards: number; nNoBoard: number } {
   const boards = new Set<string>();
@@ -53,52 +45,76 @@ export function boardCounts(list: readonly Pick<AnalysisCoupon, 'sourceBoard'>[]
 }
 
 /**
- * The species × resin table over the included treated coupons: n (coupons, boards), mean WPG, resin
- * loading, void fill, ASE (volume basis) and WRE (mass basis, never pooled with ASE) with 95 % CIs (the core's `summarize`), and hardness gain against the
- * controls of the same species on the same scale (the core's `hardnessGain`).
+ * The species × resin table over the included treated coupons (positions in `cols`): n (coupons, boards),
+ * mean WPG, resin loading, void fill, ASE (volume basis) and WRE (mass basis, never pooled with ASE) with
+ * 95 % CIs (the core's `summarize`), and hardness gain against the controls (positions in `cols`) of the
+ * same species on the same scale (the core's `hardnessGain`). Read column by column.
  */
-export function speciesResinGroups(included: readonly AnalysisCoupon[], controls: readonly AnalysisCoupon[]): GroupRow[] {
+export function speciesResinGroups(cols: CouponColumns, included: readonly number[], controls: readonly number[]): GroupRow[] {
   // A numeric key (ids are small positive integers) spares a string per coupon; same grouping as groupKey.
-  const groups = new Map<number, AnalysisCoupon[]>();
-  for (const c of included) {
-    const k = c.speciesId * 1e7 + (c.resinId ?? 0);
+  const groups = new Map<number, number[]>();
+  for (const p of included) {
+    const resin = cols.resinId[p] as number;
+    const k = (cols.speciesId[p] as number) * 1e7 + (resin === resin ? resin : 0);
     const list = groups.get(k);
-    if (list) list.push(c);
-    else groups.set(k, [c]);
+    if (list) list.push(p);
+    else groups.set(k, [p]);
   }
   // Control hardness by species and scale, gathered once rather than filtered again for every group.
-  const controlHardness = new Map<string, number[]>();
-  for (const c of controls) {
-    if (c.hardnessValue === null || c.hardnessScale === null) continue;
-    const k = `${c.speciesId}|${c.hardnessScale}`;
+  const controlHardness = new Map<number, number[]>();
+  for (const p of controls) {
+    const scale = cols.hardnessScale[p] as number;
+    if (scale === 0) continue;
+    const k = (cols.speciesId[p] as number) * 8 + scale;
     const list = controlHardness.get(k);
-    if (list) list.push(c.hardnessValue);
-    else controlHardness.set(k, [c.hardnessValue]);
+    if (list) list.push(cols.hardnessValue[p] as number);
+    else controlHardness.set(k, [cols.hardnessValue[p] as number]);
   }
+  const push = (to: number[], v: number) => {
+    if (v === v) to.push(v);
+  };
   const rows: GroupRow[] = [];
   for (const list of groups.values()) {
-    const first = list[0] as AnalysisCoupon;
+    const first = cols.coupons[list[0] as number] as AnalysisCoupon;
     // One pass over the group for every column of the table.
     const wpg: number[] = [];
     const loading: number[] = [];
     const fill: number[] = [];
     const ase: number[] = [];
     const wre: number[] = [];
-    const hard: AnalysisCoupon[] = [];
-    for (const c of list) {
-      if (c.wpgPct !== null) wpg.push(c.wpgPct);
-      if (c.resinLoadingKgM3 !== null) loading.push(c.resinLoadingKgM3);
-      if (c.voidFillPct !== null) fill.push(c.voidFillPct);
-      if (c.asePct !== null) ase.push(c.asePct);
-      if (c.wrePct !== null) wre.push(c.wrePct);
-      if (c.hardnessValue !== null && c.hardnessScale !== null) hard.push(c);
+    const scaleCounts = [0, 0, 0, 0];
+    const boards = new Set<number>();
+    let nNoBoard = 0;
+    for (const p of list) {
+      push(wpg, cols.wpgPct[p] as number);
+      push(loading, cols.resinLoadingKgM3[p] as number);
+      push(fill, cols.voidFillPct[p] as number);
+      push(ase, cols.asePct[p] as number);
+      push(wre, cols.wrePct[p] as number);
+      const sc = cols.hardnessScale[p] as number;
+      scaleCounts[sc] = (scaleCounts[sc] as number) + 1;
+      const b = cols.board[p] as number;
+      if (b >= 0) boards.add(b);
+      else nNoBoard++;
     }
-    const scale = mostCommonScale(hard);
+    // The most common scale; a tie goes to the scale met first, as counting in coupon order did.
+    let scale = 0;
+    let most = 0;
+    const seen: number[] = [];
+    for (const p of list) {
+      const s = cols.hardnessScale[p] as number;
+      if (s === 0 || seen.includes(s)) continue;
+      seen.push(s);
+      if ((scaleCounts[s] as number) > most) [scale, most] = [s, scaleCounts[s] as number];
+      if (seen.length === 3) break;
+    }
     let gain: GroupRow['hardnessGain'] = null;
-    if (scale) {
-      const t = hard.filter((c) => c.hardnessScale === scale).map((c) => c.hardnessValue as number);
-      const ctl = controlHardness.get(`${first.speciesId}|${scale}`) ?? [];
-      if (t.length > 0 && ctl.length > 0) gain = { ratio: hardnessGain(t, ctl), scale, nTreated: t.length, nControl: ctl.length };
+    if (scale > 0) {
+      const t: number[] = [];
+      for (const p of list) if (cols.hardnessScale[p] === scale) t.push(cols.hardnessValue[p] as number);
+      const ctl = controlHardness.get((cols.speciesId[list[0] as number] as number) * 8 + scale) ?? [];
+      if (t.length > 0 && ctl.length > 0)
+        gain = { ratio: hardnessGain(t, ctl), scale: SCALE_CODES[scale] as HardnessScale, nTreated: t.length, nControl: ctl.length };
     }
     rows.push({
       speciesId: first.speciesId,
@@ -106,7 +122,8 @@ export function speciesResinGroups(included: readonly AnalysisCoupon[], controls
       resinId: first.resinId,
       resinName: first.resinName,
       nCoupons: list.length,
-      ...boardCounts(list),
+      nBoards: boards.size,
+      nNoBoard,
       wpg: statsOf(wpg),
       resinLoading: statsOf(loading),
       voidFill: statsOf(fill),

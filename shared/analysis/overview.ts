@@ -1,7 +1,8 @@
-import type { AnalysisCoupon, Overview, PlotPoint, SgBasis } from '../schemas/analysis';
-import { exclusionReasons, sgOf, speciesResinGroups } from './groups';
+import type { AnalysisCoupon, Overview, PlotPoint, PointSet, SgBasis } from '../schemas/analysis';
+import { columnsOf, SCALE_CODES, type CouponColumns } from './columns';
+import { exclusionReasons, speciesResinGroups } from './groups';
 import { findOutliers, multipleFit, simpleFit, theoreticalMax, type Points, type SimpleFitResult } from './fits';
-import { MAX_PLOT_POINTS, thinTo } from './thin';
+import { MAX_PLOT_POINTS, thinPositions } from './thin';
 
 const point = (c: AnalysisCoupon, x: number, y: number): PlotPoint => ({
   id: c.id,
@@ -12,116 +13,154 @@ const point = (c: AnalysisCoupon, x: number, y: number): PlotPoint => ({
   y,
 });
 
-/** Thinning groups: species × resin, as a number (ids are small positive integers), so no string per coupon. */
-const plotGroup = (c: AnalysisCoupon) => c.speciesId * 1e7 + (c.resinId ?? 0);
-
-/** Thin a set of points held as parallel arrays, building plot points only for those drawn. */
-function thinned(pts: Points, max: number, keep: ReadonlySet<number>, xy: (i: number) => [number, number] = (i) => [pts.x[i] as number, pts.y[i] as number]) {
-  const idx = pts.coupons.map((_c, i) => i);
-  return thinTo(
-    idx,
-    (i) => plotGroup(pts.coupons[i] as AnalysisCoupon),
-    (i) => (pts.coupons[i] as AnalysisCoupon).id,
-    (i) => point(pts.coupons[i] as AnalysisCoupon, ...xy(i)),
-    max,
-    keep,
-  );
+/**
+ * The positions of a point set to draw (null: all of them), chosen once per set of coupons: the WPG–SG
+ * plot and the residual plot show the same coupons, so they share one sample. Thinning groups are
+ * species × resin as a number (ids are small positive integers), so no string per coupon.
+ */
+function drawn(cols: CouponColumns, at: readonly number[], max: number, keep: ReadonlySet<number>): number[] | null {
+  const n = at.length;
+  if (n <= max) return null;
+  const ids = new Float64Array(n);
+  const groups = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const p = at[i] as number;
+    ids[i] = cols.id[p] as number;
+    const resin = cols.resinId[p] as number;
+    groups[i] = (cols.speciesId[p] as number) * 1e7 + (resin === resin ? resin : 0);
+  }
+  return thinPositions(ids, groups, max, keep);
 }
 
-/** A plain sample of a list for the plots without a fit (every k-th item), kept as before. */
-function every<T>(list: T[], max: number): T[] {
-  return list.length > max ? list.filter((_, i) => i % Math.ceil(list.length / max) === 0) : list;
+/** Plot points for the drawn positions only (all when `drawnAt` is null). */
+function pointSet(pts: Points, drawnAt: number[] | null, xy: (i: number) => [number, number] = (i) => [pts.x[i] as number, pts.y[i] as number]): PointSet {
+  const total = pts.at.length;
+  const toPoint = (i: number) => point(pts.cols.coupons[pts.at[i] as number] as AnalysisCoupon, ...xy(i));
+  if (drawnAt === null) return { points: pts.at.map((_p, i) => toPoint(i)), total, shown: total, method: 'all' };
+  const points = drawnAt.map(toPoint);
+  return { points, total, shown: points.length, method: 'thinned' };
+}
+
+/** A plain sample of positions for the plots without a fit (every k-th item), kept as before. */
+function every(at: number[], max: number): number[] {
+  if (at.length <= max) return at;
+  const k = Math.ceil(at.length / max);
+  const out: number[] = [];
+  for (let j = 0; j < at.length; j += k) out.push(at[j] as number);
+  return out;
 }
 
 /**
- * Everything the Compare screen shows for one set of filtered coupons, computed in one pass over the
- * results rows: who is included and who is excluded (with reasons), the species × resin table, the
- * three fits, the theoretical maximum, outliers and the plot data (thinned above `maxPoints`).
+ * Everything the Compare screen shows for one set of filtered coupons: who is included and who is
+ * excluded (with reasons), the species × resin table, the three fits, the theoretical maximum, outliers
+ * and the plot data (thinned above `maxPoints`). Takes the coupons or their columns (columns.ts).
  */
-export function buildOverview(rows: readonly AnalysisCoupon[], sgBasis: SgBasis, maxPoints = MAX_PLOT_POINTS): Overview {
-  const included: AnalysisCoupon[] = [];
-  const controls: AnalysisCoupon[] = [];
+export function buildOverview(rows: readonly AnalysisCoupon[] | CouponColumns, sgBasis: SgBasis, maxPoints = MAX_PLOT_POINTS): Overview {
+  return overviewOf('coupons' in rows ? rows : columnsOf(rows), sgBasis, maxPoints);
+}
+
+/**
+ * The overview over columns: one pass gathers the numbers each fit, test and table needs into plain
+ * number arrays and positions, the arithmetic runs over those, and an object is built only for what is
+ * shown — a drawn point, an excluded coupon, an outlier — never one per coupon.
+ */
+function overviewOf(cols: CouponColumns, sgBasis: SgBasis, maxPoints: number): Overview {
+  const { n, coupons } = cols;
+  const sgCol = sgBasis === 'measured' ? cols.drySg : cols.referenceSg;
+  const included: number[] = [];
+  const controls: number[] = [];
   const excluded: Overview['excluded'] = [];
   const sgX: number[] = [];
   const wpgY: number[] = [];
   // The subset with a thickness, for the thickness fits.
-  const thickCoupons: AnalysisCoupon[] = [];
+  const thickAt: number[] = [];
   const thickX: number[] = [];
   const thickSg: number[] = [];
   const thickY: number[] = [];
-  for (const c of rows) {
-    if (c.role === 'control') {
-      controls.push(c);
+  // Positions of the coupons with a hardness, and with a swelling, for their plots.
+  const hardAt: number[] = [];
+  const swellAt: number[] = [];
+  for (let i = 0; i < n; i++) {
+    if (cols.hardnessScale[i] !== 0) hardAt.push(i);
+    const swelling = cols.swellingPct[i] as number;
+    if (swelling === swelling) swellAt.push(i);
+    if (cols.control[i] === 1) {
+      controls.push(i);
       continue;
     }
-    const sg = sgOf(c, sgBasis);
-    if (c.wpgPct === null || sg === null) {
+    const sg = sgCol[i] as number;
+    const wpg = cols.wpgPct[i] as number;
+    if (wpg !== wpg || sg !== sg) {
+      const c = coupons[i] as AnalysisCoupon;
       excluded.push({ id: c.id, tag: c.tag, reasons: exclusionReasons(c, sgBasis) });
       continue;
     }
-    included.push(c);
+    included.push(i);
     sgX.push(sg);
-    wpgY.push(c.wpgPct);
-    if (c.thicknessMm !== null) {
-      thickCoupons.push(c);
-      thickX.push(c.thicknessMm);
+    wpgY.push(wpg);
+    const th = cols.thicknessMm[i] as number;
+    if (th === th) {
+      thickAt.push(i);
+      thickX.push(th);
       thickSg.push(sg);
-      thickY.push(c.wpgPct);
+      thickY.push(wpg);
     }
   }
-  const sgPts: Points = { coupons: included, x: sgX, y: wpgY };
-  const thickPts: Points = { coupons: thickCoupons, x: thickX, y: thickY };
+  const sgPts: Points = { cols, at: included, x: sgX, y: wpgY };
+  const thickPts: Points = { cols, at: thickAt, x: thickX, y: thickY };
 
   const fitNotes: string[] = [];
-  const noThickness = included.length - thickCoupons.length;
+  const noThickness = included.length - thickAt.length;
   if (noThickness > 0) fitNotes.push(`${noThickness} included coupon(s) have no thickness and are left out of the thickness fits.`);
   const density = simpleFit('density', sgX, wpgY);
   const thickness = simpleFit('thickness', thickX, thickY);
   const multiple = multipleFit(thickSg, thickX, thickY);
   const densityOk: SimpleFitResult | null = 'note' in density ? null : density;
   for (const f of [density, thickness, multiple]) if ('note' in f) fitNotes.push(f.note);
-  const outliers = findOutliers(sgPts, densityOk, rows);
+  const outliers = findOutliers(sgPts, densityOk);
   const keep = new Set(outliers.map((o) => o.id));
 
-  // Residuals against fitted: the same coupons as the WPG–SG plot, so the same thinning applies.
+  const sgDrawn = drawn(cols, included, maxPoints, keep);
+  // Residuals against fitted: the same coupons as the WPG–SG plot, so the same sample.
   const residuals = (() => {
     if (!densityOk) return { points: [], total: 0, shown: 0, method: 'all' as const };
     const { intercept, slope } = densityOk.linear;
-    return thinned(sgPts, maxPoints, keep, (i) => {
+    return pointSet(sgPts, sgDrawn, (i) => {
       const fitted = intercept + slope * (sgX[i] as number);
       return [fitted, (wpgY[i] as number) - fitted];
     });
   })();
-  const hardness: Overview['plots']['hardness'] = [];
-  const swelling: Overview['plots']['swelling'] = [];
-  for (const c of rows) {
-    if (c.hardnessValue !== null && c.hardnessScale !== null)
-      hardness.push({
-        id: c.id,
-        tag: c.tag,
-        species: c.speciesName,
-        resin: c.role === 'control' ? 'control' : (c.resinName ?? '—'),
-        role: c.role,
-        scale: c.hardnessScale,
-        value: c.hardnessValue,
-      });
-    if (c.swellingPct !== null)
-      swelling.push({
-        id: c.id,
-        tag: c.tag,
-        species: c.speciesName,
-        resin: c.role === 'control' ? 'control' : (c.resinName ?? '—'),
-        role: c.role,
-        swellingPct: c.swellingPct,
-        asePct: c.asePct,
-        wrePct: c.wrePct,
-      });
-  }
+  const byRole = (c: AnalysisCoupon) => (c.role === 'control' ? 'control' : (c.resinName ?? '—'));
+  const hardness: Overview['plots']['hardness'] = every(hardAt, maxPoints).map((i) => {
+    const c = coupons[i] as AnalysisCoupon;
+    return {
+      id: c.id,
+      tag: c.tag,
+      species: c.speciesName,
+      resin: byRole(c),
+      role: c.role,
+      scale: SCALE_CODES[cols.hardnessScale[i] as number] as NonNullable<AnalysisCoupon['hardnessScale']>,
+      value: cols.hardnessValue[i] as number,
+    };
+  });
+  const swelling: Overview['plots']['swelling'] = every(swellAt, maxPoints).map((i) => {
+    const c = coupons[i] as AnalysisCoupon;
+    return {
+      id: c.id,
+      tag: c.tag,
+      species: c.speciesName,
+      resin: byRole(c),
+      role: c.role,
+      swellingPct: c.swellingPct as number,
+      asePct: c.asePct,
+      wrePct: c.wrePct,
+    };
+  });
 
   return {
     sgBasis,
-    counts: { matched: rows.length, treatedIncluded: included.length, controls: controls.length, excluded: excluded.length },
-    groups: speciesResinGroups(included, controls),
+    counts: { matched: n, treatedIncluded: included.length, controls: controls.length, excluded: excluded.length },
+    groups: speciesResinGroups(cols, included, controls),
     excluded,
     densityFit: densityOk?.fit ?? null,
     thicknessFit: 'note' in thickness ? null : thickness.fit,
@@ -130,11 +169,11 @@ export function buildOverview(rows: readonly AnalysisCoupon[], sgBasis: SgBasis,
     theoreticalMax: theoreticalMax(sgPts),
     outliers,
     plots: {
-      wpgVsSg: thinned(sgPts, maxPoints, keep),
-      wpgVsThickness: thinned(thickPts, maxPoints, keep),
+      wpgVsSg: pointSet(sgPts, sgDrawn),
+      wpgVsThickness: pointSet(thickPts, drawn(cols, thickAt, maxPoints, keep)),
       residuals,
-      hardness: every(hardness, maxPoints),
-      swelling: every(swelling, maxPoints),
+      hardness,
+      swelling,
     },
   };
 }

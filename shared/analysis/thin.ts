@@ -23,30 +23,46 @@ export function thinIndices<T>(
   max = MAX_PLOT_POINTS,
   keep: ReadonlySet<number> = new Set(),
 ): number[] | null {
-  const total = items.length;
+  if (items.length <= max) return null;
+  return thinPositions(items.map(idOf), items.map(groupOf), max, keep);
+}
+
+/**
+ * The sampling of `thinIndices` over columns: `ids[i]` and `groups[i]` of the item at position i (a
+ * reader that holds columns passes them as they are, so nothing is built per item). Returns the positions
+ * drawn, or null when all `ids.length` items fit within `max`.
+ */
+export function thinPositions(
+  ids: ArrayLike<number>,
+  groups: ArrayLike<string | number>,
+  max = MAX_PLOT_POINTS,
+  keep: ReadonlySet<number> = new Set(),
+): number[] | null {
+  const total = ids.length;
   if (total <= max) return null;
-  const groups = new Map<string | number, number[]>();
+  const byGroup = new Map<string | number, number[]>();
   for (let i = 0; i < total; i++) {
-    const k = groupOf(items[i] as T);
-    const g = groups.get(k);
+    const k = groups[i] as string | number;
+    const g = byGroup.get(k);
     if (g) g.push(i);
-    else groups.set(k, [i]);
+    else byGroup.set(k, [i]);
   }
   const chosen: number[] = [];
   const budget = Math.max(0, max - keep.size);
-  for (const g of groups.values()) {
+  const checkKeep = keep.size > 0;
+  for (const g of byGroup.values()) {
     // Items usually arrive in id order already; sort only when they do not.
     let sorted = true;
-    for (let j = 1; j < g.length && sorted; j++) if (idOf(items[g[j] as number] as T) < idOf(items[g[j - 1] as number] as T)) sorted = false;
-    if (!sorted) g.sort((a, b) => idOf(items[a] as T) - idOf(items[b] as T));
+    for (let j = 1; j < g.length && sorted; j++) if ((ids[g[j] as number] as number) < (ids[g[j - 1] as number] as number)) sorted = false;
+    if (!sorted) g.sort((a, b) => (ids[a] as number) - (ids[b] as number));
     const quota = Math.max(1, Math.round((budget * g.length) / total));
     const step = g.length / quota;
     for (let j = 0; j < quota; j++) {
       const i = g[Math.floor(j * step)] as number;
-      if (!keep.has(idOf(items[i] as T))) chosen.push(i);
+      if (!checkKeep || !keep.has(ids[i] as number)) chosen.push(i);
     }
   }
-  if (keep.size > 0) for (let i = 0; i < total; i++) if (keep.has(idOf(items[i] as T))) chosen.push(i);
+  if (checkKeep) for (let i = 0; i < total; i++) if (keep.has(ids[i] as number)) chosen.push(i);
   return chosen;
 }
 

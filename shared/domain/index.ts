@@ -37,7 +37,7 @@ export type { ConstantMassCriteria, ConstantMassResult, MassReading } from './dr
 export { HEDGES_G_NOTE, summarize, welchTest } from './statistics';
 export { NO_SPREAD_RELATIVE, hasSpread } from './spread';
 export type { Summary, WelchResult } from './statistics';
-export { fitLinear, fitMultiple } from './regression';
+export { fitLinear, fitMultiple, fitMultipleColumns } from './regression';
 export type { LinearFit, MultipleFit } from './regression';
 export {
   CURE_TEMPERATURE_RANGE_C,

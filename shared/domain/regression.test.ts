@@ -2,7 +2,7 @@ import MultivariateLinearRegression from 'ml-regression-multivariate-linear';
 import { linearRegression } from 'simple-statistics';
 import { describe, expect, it } from 'vitest';
 import { readNistData, readReferenceCsv } from '../../tests/reference/read-reference';
-import { fitLinear, fitMultiple } from './index';
+import { fitLinear, fitMultiple, fitMultipleColumns } from './index';
 
 /** NIST's log relative error: the number of correct significant digits. */
 const lre = (computed: number, certified: number) => (computed === certified ? Infinity : -Math.log10(Math.abs(computed - certified) / Math.abs(certified)));
@@ -79,6 +79,12 @@ describe('fitMultiple on NIST StRD Longley (certified values; at least 7 signifi
   ];
   it.each(table)('%s: %d vs certified %d, LRE ≥ 7 (NIST StRD Longley)', (_q, computed, cert) => {
     expect(lre(computed, cert)).toBeGreaterThanOrEqual(7);
+  });
+
+  it('gives exactly the same numbers when the predictors come as columns (fitMultipleColumns)', () => {
+    const columns = (rows[0] as number[]).map((_v, j) => rows.map((r) => r[j] as number));
+    expect(fitMultipleColumns(columns, y)).toEqual(fit);
+    expect(fitMultipleColumns([Float64Array.from(columns[0] as number[]), ...columns.slice(1)], y)).toEqual(fit);
   });
 
   it('counts 16 observations and 7 coefficients', () => {

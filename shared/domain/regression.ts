@@ -110,8 +110,7 @@ export function fitMultiple(rows: readonly (readonly number[])[], y: readonly nu
   if (y.length !== n) throw new DomainError('length-mismatch', 'y', `y has ${y.length} values but rows has ${n}`);
 
   // Pack the predictors column-major (validating as we go), then y as column p.
-  const cols = p + 1;
-  const a = new Float64Array(n * cols);
+  const a = new Float64Array(n * (p + 1));
   for (let i = 0; i < n; i++) {
     const row = rows[i];
     if (!Array.isArray(row) || row.length !== p) {
@@ -120,7 +119,35 @@ export function fitMultiple(rows: readonly (readonly number[])[], y: readonly nu
     for (let j = 0; j < p; j++) a[j * n + i] = requireFinite(row[j] as number, 'rows', i);
     a[p * n + i] = y[i] as number;
   }
+  return fitPacked(a, n, p);
+}
 
+/**
+ * fitMultiple with the predictors given as columns (one array per predictor, each as long as y), the
+ * shape a column-wise reader already holds: no array per row is built. Same arithmetic, same answer.
+ */
+export function fitMultipleColumns(columns: readonly ArrayLike<number>[], y: readonly number[]): MultipleFit {
+  const p = columns.length;
+  if (p === 0) throw new DomainError('too-few-points', 'rows', 'each row needs at least one predictor');
+  requireFiniteArray(y, 'y', 0);
+  const n = y.length;
+  if (n === 0) throw new DomainError('too-few-points', 'rows', 'rows must hold at least one row');
+  if (n < p + 2) {
+    throw new DomainError('too-few-points', 'rows', `${p} predictors need at least ${p + 2} rows, got ${n}`);
+  }
+  const a = new Float64Array(n * (p + 1));
+  for (let j = 0; j < p; j++) {
+    const column = columns[j] as ArrayLike<number>;
+    if (column.length !== n) throw new DomainError('length-mismatch', 'rows', `predictor ${j + 1} has ${column.length} values but y has ${n}`);
+    for (let i = 0; i < n; i++) a[j * n + i] = requireFinite(column[i] as number, 'rows', i);
+  }
+  a.set(y, p * n);
+  return fitPacked(a, n, p);
+}
+
+/** The QR fit of fitMultiple over the packed column-major design `a` (n rows, p predictors, then y). */
+function fitPacked(a: Float64Array, n: number, p: number): MultipleFit {
+  const cols = p + 1;
   // Centre every column on its compensated mean; keep Σx² of each raw column as its size.
   const means = new Float64Array(cols);
   const rawNorms = new Float64Array(cols);

@@ -51,7 +51,8 @@ import { wikiIndexSchema, wikiListSchema, wikiPageResponseSchema } from './wiki'
 // contract from its feature's file, so a screen's bundle does not carry every other screen's schemas.
 
 /** `GET /api/health`: 200 when the database takes a write; 503 with the same shape when it does not. */
-export const healthResponseSchema = z.object({ ok: z.boolean(), database: z.enum(['writable', 'read-only', 'full', 'failing']) });
+/** `busy`: an import's commit holds the write lock for a few seconds; the server and its database are well. */
+export const healthResponseSchema = z.object({ ok: z.boolean(), database: z.enum(['writable', 'busy', 'read-only', 'full', 'failing']) });
 
 // ───────── the registry ─────────
 

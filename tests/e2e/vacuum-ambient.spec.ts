@@ -68,5 +68,37 @@ test.describe('the ambient pressure of a vacuum: altitude in the shop settings, 
       await expect(newest).toContainText('shop barometer: 102.50 kPa');
       await expect(newest).not.toContainText('oven');
     });
+
+    test('a run’s altitude changed after readings: the form asks why, the readings are recomputed and the history keeps the reason', async ({ page }) => {
+      const res = await page.request.post('/api/runs', { headers: WRITE_HEADERS, data: { chamber: `Moved pot ${Date.now()}`, altitudeM: 0 } });
+      expect(res.status(), await res.text()).toBe(201);
+      const runId: number = (await res.json()).run.id;
+      const at = new Date(Date.now() - 2 * 3_600_000).toISOString();
+      const stage = await page.request.post(`/api/runs/${runId}/stages`, {
+        headers: WRITE_HEADERS,
+        data: { stage: 'vacuum', startedAt: at, readings: [{ at, gaugeValue: 90, gaugeUnit: 'kPa' }] },
+      });
+      expect(stage.status(), await stage.text()).toBe(200);
+
+      await page.goto(`/runs/${runId}`);
+      await expect(page.getByRole('heading', { level: 1 })).toContainText(/^Run /);
+      // At sea level (ISO 2533: 101.325 kPa) a 90 kPa gauge reading is 11.33 kPa absolute.
+      await expect(page.getByRole('cell', { name: '11.33 kPa' })).toBeVisible();
+      await page.getByRole('button', { name: 'Change details…' }).click();
+      const form = page.getByRole('form', { name: "Change the run's details" });
+      await form.getByLabel('Shop altitude for this run (m)').fill('1000');
+      await form.getByRole('button', { name: 'Save the details' }).click();
+      // The server refuses without a reason, and says so on the reason box; nothing changed.
+      await expect(form.getByText(/A new altitude moves the absolute pressure of 1 recorded gauge reading; say why/)).toBeVisible();
+      await form.getByLabel('Why the details change').fill('The run was in the upstairs shop, not at the coast');
+      await form.getByRole('button', { name: 'Save the details' }).click();
+
+      await expect(page.getByRole('status').filter({ hasText: "The run's details are saved." })).toBeVisible();
+      // ISO 2533 / US Standard Atmosphere 1976: 89.88 kPa at 1,000 m, below the 90 kPa reading: taken as 0 absolute.
+      await expect(page.getByText(/Gauge readings at 1,?000 m, against the standard atmosphere there, 89\.88 kPa/)).toBeVisible();
+      await expect(page.getByRole('cell', { name: '0.00 kPa' })).toBeVisible();
+      const history = page.getByRole('region', { name: /History, newest first/ });
+      await expect(history.getByText('Reason: “The run was in the upstairs shop, not at the coast”').first()).toBeVisible();
+    });
   });
 });

@@ -11,7 +11,10 @@ afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
 /** A file with a table of each source name (their columns do not matter to the version). */
 function open(file: string) {
   const db = new Database(file);
-  for (const t of ANALYSIS_SOURCE_TABLES) db.exec(`create table if not exists ${t} (id integer primary key, v real)`);
+  for (const t of ANALYSIS_SOURCE_TABLES)
+    db.exec(
+      `create table if not exists ${t} (${t === 'coupon_results' ? 'coupon_id integer primary key, role text' : 'id integer primary key'}, v real${t === 'run_stages' ? ', run_id integer' : ''})`,
+    );
   return db;
 }
 
@@ -21,10 +24,10 @@ describe('the data version an analysis answer is cached under', () => {
     const version = createDataVersion(db);
     const v0 = version();
     expect(version()).toBe(v0);
-    db.prepare('insert into coupon_results (id, v) values (1, 10)').run();
+    db.prepare('insert into coupon_results (coupon_id, v) values (1, 10)').run();
     const v1 = version();
     expect(v1).not.toBe(v0);
-    db.prepare('update coupon_results set v = 11 where id = 1').run();
+    db.prepare('update coupon_results set v = 11 where coupon_id = 1').run();
     const v2 = version();
     expect(v2).not.toBe(v1);
     db.prepare('insert into run_stages (id, v) values (1, 1)').run();
@@ -63,12 +66,47 @@ describe('the data version an analysis answer is cached under', () => {
     expect(v1).not.toBe(v0);
     writer.close();
     // A migration that rebuilds a table drops its triggers; the next version check puts them back.
-    reader.exec('drop table coupon_results; create table coupon_results (id integer primary key, v real)');
+    reader.exec('drop table coupon_results; create table coupon_results (coupon_id integer primary key, role text, v real)');
     const v2 = version();
     expect(v2).not.toBe(v1);
     reader.prepare('insert into coupon_results (v) values (3)').run();
     expect(version()).not.toBe(v2);
     reader.close();
+  });
+});
+
+describe('the coupons written since a version', () => {
+  it('names the results rows and runs written through this connection, and gives up when it cannot tell', () => {
+    const file = path.join(dir, 'four.db');
+    const db = open(file);
+    const version = createDataVersion(db);
+    db.prepare('insert into coupon_results (coupon_id, v) values (1, 1), (2, 2), (3, 3)').run();
+    const v0 = version();
+    expect(version.changedSince(v0, 10)).toEqual({ couponIds: [], runIds: [], controls: false });
+    db.prepare('update coupon_results set v = 20 where coupon_id = 2').run();
+    db.prepare('delete from coupon_results where coupon_id = 3').run();
+    db.prepare('insert into coupon_results (coupon_id, v) values (4, 4)').run();
+    db.prepare('insert into run_stages (id, v, run_id) values (1, 1, 7)').run();
+    const changed = version.changedSince(v0, 10);
+    expect(new Set(changed?.couponIds)).toEqual(new Set([2, 3, 4]));
+    expect(changed?.runIds).toEqual([7]); // a run's stage: its coupons are read again
+    expect(version.changedSince(v0, 2)).toBeNull(); // more than the limit
+    const v1 = version();
+    version.prune(1);
+    expect(version()).toBe(v1); // pruning keeps the generation
+    expect(version.changedSince(v0, 10)).toBeNull(); // the rows after v0 are gone: cannot tell
+    expect(version.changedSince(v1, 10)).toEqual({ couponIds: [], runIds: [], controls: false });
+    db.prepare("update coupon_results set role = 'control' where coupon_id = 1").run();
+    expect(version.changedSince(v1, 10)?.controls).toBe(true); // a control is involved, whatever filters a reader has
+    const vBefore = version();
+    db.prepare('insert into resins (id, v) values (1, 1)').run(); // another source table: not a coupon row
+    expect(version.changedSince(vBefore, 10)).toBeNull();
+    const v2 = version();
+    const writer = new Database(file);
+    writer.prepare('update coupon_results set v = 5 where coupon_id = 1').run();
+    writer.close();
+    expect(version.changedSince(v2, 10)).toBeNull(); // another connection: the log cannot see it
+    db.close();
   });
 });
 

@@ -6,15 +6,16 @@ import type Database from 'better-sqlite3';
  */
 export const ANALYSIS_SOURCE_TABLES = ['coupon_results', 'species', 'resins', 'runs', 'run_stages'] as const;
 
-const OPS = ['insert', 'update', 'delete'] as const;
-
 /**
- * A version of the data the analysis reads, cheap enough to check on every request (three one-row reads):
+ * A version of the data the analysis reads, cheap enough to check on every request (three one-row reads),
+ * and the coupons written since an earlier version:
  *
- * - writes through this connection are counted by TEMP triggers on the source tables (one counter row in
- *   the connection's temp database; the triggers live with the connection, so no migration and nothing
- *   stored in the file). The counter update is part of the writer's transaction, so a rollback takes it
- *   back together with the write it counted;
+ * - writes through this connection are logged by TEMP triggers on the source tables: one row per row
+ *   written in a TEMP log (`analysis_changes`), the coupon's id for a results row, the run's id negated
+ *   for a run or its stages, NULL for species and resins. The log's last rowid is the generation. The triggers live with the connection, so no
+ *   migration and nothing stored in the file. The log row is part of the writer's transaction, so a
+ *   rollback takes it back together with the write it counted. Appending one row costs a bulk write what
+ *   the counter it replaced did (one temp-table write per row);
  * - writes by another connection (another process on a copy, the rebuild command) change SQLite's
  *   `data_version`;
  * - a schema change (a table rebuilt by a migration would drop its triggers) changes `schema_version`,
@@ -23,34 +24,101 @@ const OPS = ['insert', 'update', 'delete'] as const;
  * Any change gives a new version string, so an answer cached under an old one is never served again.
  * Counting every row written is conservative (a write that leaves the answer equal still refreshes it).
  */
-export function createDataVersion(sqlite: Database.Database): () => string {
+export interface DataVersion {
+  (): string;
+  /**
+   * What was written through this connection since `since` (a string this function returned): the ids of
+   * the results rows and of the runs (a run or its stages), in no order, possibly repeated, and whether a
+   * control was among the results rows (before or after the write, whatever the reader's filters); null when that
+   * cannot be told from the log: another connection wrote, the schema changed, species or resins were
+   * written, or more than `limit` rows were.
+   */
+  changedSince(since: string, limit: number): { couponIds: number[]; runIds: number[]; controls: boolean } | null;
+  /**
+   * Keeps the log to its last `keep` rows. The log belongs to the connection, which may serve several
+   * readers, so it is cut by length, never by what one reader has seen; a reader whose version is older
+   * than the rows kept is told "cannot tell" (null) and reads afresh.
+   */
+  prune(keep: number): void;
+}
+
+export function createDataVersion(sqlite: Database.Database): DataVersion {
   let installedAt = -1;
   const install = () => {
-    const sql = ['CREATE TEMP TABLE IF NOT EXISTS analysis_generation (n INTEGER NOT NULL)'];
-    for (const table of ANALYSIS_SOURCE_TABLES)
-      for (const op of OPS)
+    const sql = ['CREATE TEMP TABLE IF NOT EXISTS analysis_changes (coupon_id INTEGER, control INTEGER)'];
+    // What a row of each table logs: a results row its coupon's id, a run or a run's stage the run's id
+    // negated (its coupons' run code and treated date follow it), species and resins NULL.
+    // A results row also logs whether a control is involved (before or after the write): other coupons'
+    // ASE and WRE rest on the controls of their trial and species.
+    const logged: Record<(typeof ANALYSIS_SOURCE_TABLES)[number], (op: 'insert' | 'update' | 'delete') => string> = {
+      coupon_results: (op) =>
+        op === 'insert'
+          ? "NEW.coupon_id, NEW.role = 'control'"
+          : op === 'delete'
+            ? "OLD.coupon_id, OLD.role = 'control'"
+            : "NEW.coupon_id, OLD.role = 'control' OR NEW.role = 'control'",
+      runs: (op) => `-${op === 'delete' ? 'OLD' : 'NEW'}.id, 0`,
+      run_stages: (op) => `-${op === 'delete' ? 'OLD' : 'NEW'}.run_id, 0`,
+      species: () => 'NULL, 0',
+      resins: () => 'NULL, 0',
+    };
+    for (const table of ANALYSIS_SOURCE_TABLES) {
+      for (const op of ['insert', 'update', 'delete'] as const)
         sql.push(
-          `CREATE TEMP TRIGGER IF NOT EXISTS analysis_generation_${table}_${op} AFTER ${op.toUpperCase()} ON main.${table} ` +
-            'BEGIN UPDATE analysis_generation SET n = n + 1; END',
+          `CREATE TEMP TRIGGER IF NOT EXISTS analysis_changes_${table}_${op} AFTER ${op.toUpperCase()} ON main.${table} ` +
+            `BEGIN INSERT INTO analysis_changes (coupon_id, control) VALUES (${logged[table](op)}); END`,
         );
+    }
+    // A results row that changes its coupon (never done today) leaves its old id changed too.
+    sql.push(
+      'CREATE TEMP TRIGGER IF NOT EXISTS analysis_changes_coupon_results_moved AFTER UPDATE OF coupon_id ON main.coupon_results ' +
+        "WHEN OLD.coupon_id IS NOT NEW.coupon_id BEGIN INSERT INTO analysis_changes (coupon_id, control) VALUES (OLD.coupon_id, OLD.role = 'control'); END",
+    );
     sqlite.exec(sql.join(';\n'));
-    sqlite.exec('INSERT INTO analysis_generation (n) SELECT 0 WHERE NOT EXISTS (SELECT 1 FROM analysis_generation)');
+    // A first row, so the generation is never empty; NULL: "not a coupon row", so nothing before it is patchable.
+    sqlite.exec('INSERT INTO analysis_changes (rowid, coupon_id, control) SELECT 1, NULL, 0 WHERE NOT EXISTS (SELECT 1 FROM analysis_changes)');
     installedAt = (sqlite.prepare('SELECT schema_version FROM pragma_schema_version').pluck().get() as number) ?? 0;
   };
   install();
   const read = sqlite
     .prepare(
-      'SELECT (SELECT n FROM temp.analysis_generation), (SELECT data_version FROM pragma_data_version), (SELECT schema_version FROM pragma_schema_version)',
+      'SELECT (SELECT max(rowid) FROM temp.analysis_changes), (SELECT data_version FROM pragma_data_version), (SELECT schema_version FROM pragma_schema_version)',
     )
     .raw(true);
-  return () => {
+  const since = sqlite.prepare('SELECT coupon_id, control FROM temp.analysis_changes WHERE rowid > ? LIMIT ?').raw(true);
+  const first = sqlite.prepare('SELECT min(rowid) FROM temp.analysis_changes').pluck();
+  const forget = sqlite.prepare('DELETE FROM temp.analysis_changes WHERE rowid <= (SELECT max(rowid) FROM temp.analysis_changes) - ?');
+  const version = (() => {
     let row = read.get() as [number, number, number];
     if (row[2] !== installedAt) {
       install();
       row = read.get() as [number, number, number];
     }
     return row.join(':');
+  }) as DataVersion;
+  version.changedSince = (before: string, limit: number) => {
+    const [gen, data, schema] = before.split(':');
+    const [, dataNow, schemaNow] = version().split(':');
+    if (data !== dataNow || schema !== schemaNow) return null;
+    // Rows after `gen` were cut away by prune: what changed can no longer be told.
+    if (Number(gen) < (first.get() as number) - 1) return null;
+    const rows = since.all(Number(gen), limit + 1) as [number | null, number | null][];
+    if (rows.length > limit) return null;
+    const couponIds: number[] = [];
+    const runIds: number[] = [];
+    let controls = false;
+    for (const [id, control] of rows) {
+      if (id === null) return null;
+      if (id < 0) runIds.push(-id);
+      else couponIds.push(id);
+      if (control) controls = true;
+    }
+    return { couponIds, runIds, controls };
   };
+  version.prune = (keep: number) => {
+    forget.run(Math.max(1, keep));
+  };
+  return version;
 }
 
 /** A small least-recently-used map: a hit moves the entry to the back, the front is dropped when full. */

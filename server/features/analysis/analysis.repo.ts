@@ -123,9 +123,18 @@ function groupWhere(g: GroupSpec, params: (string | number)[]): string {
  * The filters as a parameterised WHERE clause; id lists are bound as one JSON array each. With `groups`,
  * only coupons in one of them are read (a comparison looks at nothing else).
  */
-function rawWhere(f: AnalysisFilters, dates: Map<number, string>, groups?: readonly GroupSpec[]): { clause: string; params: (string | number)[] } {
+function rawWhere(
+  f: AnalysisFilters,
+  dates: Map<number, string>,
+  groups?: readonly GroupSpec[],
+  onlyIds?: readonly number[],
+): { clause: string; params: (string | number)[] } {
   const w: string[] = [];
   const params: (string | number)[] = [];
+  if (onlyIds) {
+    w.push('cr.coupon_id in (select value from json_each(?))');
+    params.push(JSON.stringify(onlyIds));
+  }
   if (groups && groups.length > 0) w.push(`(${groups.map((g) => groupWhere(g, params)).join(' or ')})`);
   const list = (col: string, ids: number[] | undefined) => {
     if (!ids) return;
@@ -210,15 +219,15 @@ function prepare(sqlite: Database.Database, sqlText: string): Database.Statement
 
 /**
  * The results rows matching the filters, as the analysis sees them, in coupon id order: one statement
- * over coupon_results, read column by column; with `groups`,
- * only the coupons in one of the groups. ASE is taken
+ * over coupon_results, read column by column; with `groups`, only the coupons in one of the groups; with
+ * `onlyIds`, only those coupons (to bring a held set up to date after a few writes). ASE is taken
  * against the controls of the same trial and species whatever the filters (a role filter must not remove
  * the controls a treated coupon is judged against).
  */
-export function loadAnalysisCoupons(db: Db, f: AnalysisFilters, groups?: readonly GroupSpec[]): AnalysisCoupon[] {
+export function loadAnalysisCoupons(db: Db, f: AnalysisFilters, groups?: readonly GroupSpec[], onlyIds?: readonly number[]): AnalysisCoupon[] {
   const sqlite = sqliteOf(db);
   const dates = runDates(sqlite);
-  const { clause: where, params } = rawWhere(f, dates, groups);
+  const { clause: where, params } = rawWhere(f, dates, groups, onlyIds);
   const inner = COLUMNS.map((c, i) => `${c} as c${i}`).join(', ');
   const outer = COLUMNS.map((_c, i) => `json_group_array(c${i})`).join(', ');
   // The ordered subquery is not flattened into an aggregate, so the arrays come out in coupon id order.
@@ -325,6 +334,13 @@ export function loadHistory(db: Db, pairs: { speciesId: number; resinId: number 
     resinId: [...new Set(pairs.map((p) => p.resinId))],
     role: 'treated',
   }).filter((c) => c.runId !== runId && wanted.has(`${c.speciesId}|${c.resinId}`));
+}
+
+/** The coupons now in the given runs (ids of their results rows). */
+export function couponIdsOfRuns(db: Db, runIds: readonly number[]): number[] {
+  return prepare(sqliteOf(db), 'select coupon_id from coupon_results where run_id in (select value from json_each(?))')
+    .pluck()
+    .all(JSON.stringify(runIds)) as number[];
 }
 
 export function runExists(db: Db, id: number): boolean {

@@ -5,6 +5,7 @@ import { DomainError } from '../../../shared/domain/errors';
 import { twoSampleSampleSize } from '../../../shared/domain/power';
 import { compareGroups } from '../../../shared/analysis/compare';
 import { expectedForRun } from '../../../shared/analysis/expected';
+import { columnsOf, withChanged, type CouponColumns } from '../../../shared/analysis/columns';
 import { buildOverview } from '../../../shared/analysis/overview';
 import { statsOf } from '../../../shared/analysis/stats';
 import type { User } from '../../../shared/schemas/auth';
@@ -26,7 +27,17 @@ import type {
 } from '../../../shared/schemas/analysis';
 import { evidenceViewSchema } from '../../../shared/schemas/analysis';
 import { createDataVersion, keyOf, Lru } from './analysis.cache';
-import { findEvidence, insertEvidence, listEvidence, loadAnalysisCoupons, loadHistory, runExists, wpgValues, type EvidenceRow } from './analysis.repo';
+import {
+  couponIdsOfRuns,
+  findEvidence,
+  insertEvidence,
+  listEvidence,
+  loadAnalysisCoupons,
+  loadHistory,
+  runExists,
+  wpgValues,
+  type EvidenceRow,
+} from './analysis.repo';
 
 /**
  * Spread of WPG within one species × resin assumed when the shop has fewer than 3 coupons of it:
@@ -44,8 +55,19 @@ export function fingerprintOf(value: unknown): string {
   return crypto.createHash('sha256').update(canonical).digest('hex');
 }
 
+/** A filtered set of coupons held for a data version, with its columns once something asked for them. */
+interface HeldSet {
+  version: string;
+  rows: AnalysisCoupon[];
+  cols: CouponColumns | null;
+}
+
 /** How many filtered coupon lists and how many computed answers are kept (a coupon list of 100k is tens of MB). */
 const CACHED_ROW_SETS = 3;
+/** Past this many results rows written since a held set was read, it is read afresh rather than patched. */
+const PATCH_LIMIT = 5000;
+/** Rows of the change log kept (a set older than these is read afresh); a few hundred kB of temp table. */
+const LOG_KEPT = 4 * PATCH_LIMIT;
 const CACHED_ANSWERS = 32;
 
 /**
@@ -57,7 +79,7 @@ const CACHED_ANSWERS = 32;
 export function createAnalysisService(deps: { db: Db; now: () => Date }) {
   const { db } = deps;
   const version = createDataVersion((db as Db & { $client: Parameters<typeof createDataVersion>[0] }).$client);
-  const rowSets = new Lru<{ version: string; rows: AnalysisCoupon[] }>(CACHED_ROW_SETS);
+  const rowSets = new Lru<HeldSet>(CACHED_ROW_SETS);
   const answers = new Lru<{ version: string; value: unknown }>(CACHED_ANSWERS);
 
   /**
@@ -66,21 +88,83 @@ export function createAnalysisService(deps: { db: Db; now: () => Date }) {
    * are read.
    */
   function rowsOf(filters: AnalysisFilters, groups?: readonly GroupSpec[]): AnalysisCoupon[] {
+    return setOf(filters, groups).rows;
+  }
+
+  /** rowsOf as columns (built once per held set and version). */
+  function columnsFor(filters: AnalysisFilters, groups?: readonly GroupSpec[]): CouponColumns {
+    const set = setOf(filters, groups);
+    return (set.cols ??= columnsOf(set.rows));
+  }
+
+  function setOf(filters: AnalysisFilters, groups?: readonly GroupSpec[]): HeldSet {
     const v = version();
-    const k = keyOf(filters);
-    const hit = rowSets.get(k);
-    if (hit && hit.version === v) return hit.rows;
-    if (groups) {
-      const gk = keyOf({ filters, groups });
-      const ghit = rowSets.get(gk);
-      if (ghit && ghit.version === v) return ghit.rows;
-      const rows = loadAnalysisCoupons(db, filters, groups);
-      rowSets.set(gk, { version: v, rows });
-      return rows;
+    // The full filtered set, when one is held (even from an older version: a patch is cheap).
+    if (!groups || rowSets.get(keyOf(filters))) return held(keyOf(filters), v, filters);
+    return held(keyOf({ filters, groups }), v, filters, groups);
+  }
+
+  /**
+   * A held set of coupons brought up to version `v`: as it is when nothing changed; patched when only a
+   * few results rows were written through this connection since it was read (those coupons are read again
+   * with the same filters and put in place, the rest are kept); read afresh otherwise.
+   */
+  function held(key: string, v: string, filters: AnalysisFilters, groups?: readonly GroupSpec[]): HeldSet {
+    const hit = rowSets.get(key);
+    if (hit && hit.version === v) return hit;
+    const patch = hit ? patched(hit, filters, groups) : null;
+    const set: HeldSet = patch ? { version: v, ...patch } : { version: v, rows: loadAnalysisCoupons(db, filters, groups), cols: null };
+    rowSets.set(key, set);
+    version.prune(LOG_KEPT);
+    return set;
+  }
+
+  /**
+   * The held rows with the coupons written since re-read, or null when a patch would not be exact: a
+   * control changed (every treated coupon of its trial and species has its ASE against the controls), or
+   * the filters have a date range (a treated coupon or a run's dates decide whether a trial's controls are
+   * in), or the log cannot tell which coupons changed (species or resins, another connection, too many rows).
+   */
+  function patched(hit: HeldSet, filters: AnalysisFilters, groups?: readonly GroupSpec[]): { rows: AnalysisCoupon[]; cols: CouponColumns | null } | null {
+    if (filters.from !== undefined || filters.to !== undefined) return null;
+    const changed = version.changedSince(hit.version, PATCH_LIMIT);
+    // A control (in or out of these filters: a resin filter leaves every control out) carries the ASE and
+    // WRE of the treated coupons of its trial and species: read afresh.
+    if (changed === null || changed.controls) return null;
+    // A run or its stages changed: its coupons' run code and treated date follow it, so they are read again.
+    const runIds = new Set(changed.runIds);
+    const ofRuns = runIds.size > 0 ? couponIdsOfRuns(db, [...runIds]) : [];
+    if (runIds.size > 0) for (const c of hit.rows) if (c.runId !== null && runIds.has(c.runId)) ofRuns.push(c.id);
+    const ids = [...new Set([...changed.couponIds, ...ofRuns])].sort((x, y) => x - y);
+    if (ids.length > PATCH_LIMIT) return null;
+    const fresh = loadAnalysisCoupons(db, filters, groups, ids);
+    const gone = new Set(ids);
+    const rows: AnalysisCoupon[] = [];
+    // Positions where a coupon was replaced by its new row; null once a coupon came in or went out.
+    let replacedAt: number[] | null = [];
+    let j = 0;
+    for (const c of hit.rows) {
+      if (gone.has(c.id)) {
+        const next = fresh[j];
+        if (next && next.id === c.id) {
+          replacedAt?.push(rows.length);
+          rows.push(next);
+          j++;
+        } else replacedAt = null;
+        continue;
+      }
+      while (j < fresh.length && (fresh[j] as AnalysisCoupon).id < c.id) {
+        replacedAt = null;
+        rows.push(fresh[j++] as AnalysisCoupon);
+      }
+      rows.push(c);
     }
-    const rows = loadAnalysisCoupons(db, filters);
-    rowSets.set(k, { version: v, rows });
-    return rows;
+    if (j < fresh.length) replacedAt = null;
+    while (j < fresh.length) rows.push(fresh[j++] as AnalysisCoupon);
+    // The same coupons in the same places: the held columns are rewritten at those places only.
+    const cols = replacedAt && hit.cols ? withChanged(hit.cols, rows, replacedAt) : null;
+    if (cols) hit.cols = null; // its arrays now belong to the new set
+    return { rows, cols };
   }
 
   /** An answer computed once per question and data version. */
@@ -95,11 +179,11 @@ export function createAnalysisService(deps: { db: Db; now: () => Date }) {
   }
 
   function overview(filters: AnalysisFilters, sgBasis: SgBasis): Overview {
-    return cached({ q: 'overview', filters, sgBasis }, () => buildOverview(rowsOf(filters), sgBasis));
+    return cached({ q: 'overview', filters, sgBasis }, () => buildOverview(columnsFor(filters), sgBasis));
   }
 
   function compare(filters: AnalysisFilters, a: GroupSpec, b: GroupSpec, metric: CompareMetric): CompareResult {
-    return cached({ q: 'compare', filters, a, b, metric }, () => compareGroups(rowsOf(filters, [a, b]), a, b, metric));
+    return cached({ q: 'compare', filters, a, b, metric }, () => compareGroups(columnsFor(filters, [a, b]), a, b, metric));
   }
 
   function fit(filters: AnalysisFilters, sgBasis: SgBasis, model: FitModel) {

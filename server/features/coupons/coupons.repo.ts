@@ -443,13 +443,16 @@ export function findPhoto(db: Db, id: number): PhotoRow | undefined {
 }
 
 /** Audit entries about a coupon, its readings and its photos, oldest first, with the actor's name and e-mail at the time. */
-export function auditFor(db: Db, couponId: number, weighingIds: number[], checkIds: number[], photoIds: number[]) {
+export function auditFor(db: Db, couponId: number, weighingIds: number[], checkIds: number[], photoIds: number[], importIds: number[] = []) {
   const of = (entity: string, ids: number[]) => (ids.length ? and(eq(auditLog.entity, entity), inArray(auditLog.entityId, ids.map(String))) : undefined);
   const conds = [
     and(eq(auditLog.entity, 'coupon'), eq(auditLog.entityId, String(couponId))),
     of('weighing', weighingIds),
     of('check', checkIds),
     of('photo', photoIds),
+    // An import audits itself once (its rows carry the import's id), so a coupon's history shows the
+    // commit and undo of each import that gave it readings.
+    importIds.length ? and(of('import', importIds), inArray(auditLog.action, ['commit', 'undo'])) : undefined,
   ].filter((c): c is SQL => c !== undefined);
   return db
     .select({

@@ -541,6 +541,7 @@ export function createCouponsService(deps: FeatureDeps) {
       ws.map((w) => w.id),
       cs.map((c) => c.id),
       ps.map((p) => p.id),
+      [...new Set([...ws.map((w) => w.importId), ...cs.map((c) => c.importId)].filter((i): i is number => i !== null))],
     );
     return {
       couponId: id,

@@ -7,6 +7,7 @@ import { resins, species } from '../../db/schema/reference';
 import { trials } from '../../db/schema/trials';
 import { wikiPages, wikiPageTags } from '../../db/schema/wiki';
 import type { FindingListQuery } from '../../../shared/schemas/findings';
+import type { FindingState, ThreadEntryKind } from '../../../shared/constants/findings';
 
 export type FindingRow = typeof findings.$inferSelect;
 export type RevisionRow = typeof findingRevisions.$inferSelect;
@@ -222,4 +223,46 @@ export function countRefusedSignatures(db: Db, signerId: number, since: string):
       .where(and(eq(auditLog.action, 'signature-refused'), eq(auditLog.actorId, signerId), gte(auditLog.createdAt, since)))
       .get()?.n ?? 0
   );
+}
+
+// ---- writes shared by the service and the demo seeder (each runs inside the caller's transaction) ----
+
+/** A new finding, version 1 of its own series, with its first revision. Returns its id. */
+export function insertFinding(
+  tx: Db,
+  input: { title: string; bodyMd: string; trialIds: number[]; speciesIds: number[]; resinIds: number[] },
+  userId: number,
+  now: string,
+): number {
+  const content = { title: input.title, bodyMd: input.bodyMd, trialIds: input.trialIds, speciesIds: input.speciesIds, resinIds: input.resinIds };
+  const row = tx
+    .insert(findings)
+    .values({ seriesId: 0, version: 1, ...content, savedAt: now, createdBy: userId })
+    .returning({ id: findings.id })
+    .get();
+  tx.update(findings).set({ seriesId: row.id }).where(eq(findings.id, row.id)).run();
+  tx.insert(findingRevisions)
+    .values({ findingId: row.id, revision: 1, ...content, savedAt: now, createdBy: userId })
+    .run();
+  return row.id;
+}
+
+/** A copy of a saved view's snapshot (and its drawn plot) as the finding's next piece of evidence. Returns its position. */
+export function insertEvidenceCopy(tx: Db, findingId: number, view: SavedViewCopy, svg: string | null, userId: number, now: string): number {
+  const position = nextEvidencePosition(tx, findingId);
+  tx.insert(findingEvidence)
+    .values({ findingId, position, savedViewId: view.id, title: view.title, kind: 'saved-view', snapshot: view.snapshot, svg, createdBy: userId })
+    .run();
+  tx.update(findings).set({ savedAt: now }).where(eq(findings.id, findingId)).run();
+  return position;
+}
+
+export function insertThreadEntry(tx: Db, findingId: number, kind: ThreadEntryKind, bodyMd: string, userId: number): void {
+  tx.insert(findingComments).values({ findingId, kind, bodyMd, createdBy: userId }).run();
+}
+
+/** The finding goes to review: its state, when, and the thread entry that says so. */
+export function markSubmitted(tx: Db, findingId: number, state: FindingState, userId: number, now: string): void {
+  tx.update(findings).set({ state, submittedAt: now }).where(eq(findings.id, findingId)).run();
+  insertThreadEntry(tx, findingId, 'submitted', 'Submitted for review.', userId);
 }

@@ -3,12 +3,12 @@ import { eq, sql } from 'drizzle-orm';
 import type { FeatureDeps } from '../../deps';
 import type { Db } from '../../db/client';
 import { writeAudit } from '../../db/audit';
-import { findingComments, findingEvidence, findingRevisions, findings, signatures } from '../../db/schema/findings';
+import { findingEvidence, findingRevisions, findings, signatures } from '../../db/schema/findings';
 import { wikiPages, wikiPageTags } from '../../db/schema/wiki';
 import { AppError, Conflict, Forbidden, NotFound, ValidationFailed } from '../../http/errors';
 import { markdownToText, renderMarkdown } from '../../markdown/render';
 import type { User } from '../../../shared/schemas/auth';
-import { CANONICAL_FORM, SIGNATURE_ALGORITHM, SIGNATURE_MEANING_LABELS, type FindingAction, type ThreadEntryKind } from '../../../shared/constants/findings';
+import { CANONICAL_FORM, SIGNATURE_ALGORITHM, SIGNATURE_MEANING_LABELS, type FindingAction } from '../../../shared/constants/findings';
 import { allowedActions, decide, type ReviewSubject } from '../../../shared/findings/review';
 import type {
   ApproveFindingInput,
@@ -185,9 +185,7 @@ export function createFindingsService(deps: FeatureDeps, signingLimit: { windowM
     return repo.emailsOf(db, [...ids]);
   }
 
-  function addThread(tx: Db, findingId: number, kind: ThreadEntryKind, bodyMd: string, userId: number) {
-    tx.insert(findingComments).values({ findingId, kind, bodyMd, createdBy: userId }).run();
-  }
+  const addThread = repo.insertThreadEntry;
 
   // ---- content ----
 
@@ -225,37 +223,9 @@ export function createFindingsService(deps: FeatureDeps, signingLimit: { windowM
     checkRefs(input);
     const now = iso();
     const id = db.transaction((tx) => {
-      const row = tx
-        .insert(findings)
-        .values({
-          seriesId: 0,
-          version: 1,
-          title: input.title,
-          bodyMd: input.bodyMd,
-          trialIds: input.trialIds,
-          speciesIds: input.speciesIds,
-          resinIds: input.resinIds,
-          savedAt: now,
-          createdBy: user.id,
-        })
-        .returning({ id: findings.id })
-        .get();
-      tx.update(findings).set({ seriesId: row.id }).where(eq(findings.id, row.id)).run();
-      tx.insert(findingRevisions)
-        .values({
-          findingId: row.id,
-          revision: 1,
-          title: input.title,
-          bodyMd: input.bodyMd,
-          trialIds: input.trialIds,
-          speciesIds: input.speciesIds,
-          resinIds: input.resinIds,
-          savedAt: now,
-          createdBy: user.id,
-        })
-        .run();
-      writeAudit(tx, { actorId: user.id, action: 'finding-created', entity: 'finding', entityId: row.id, after: { title: input.title } });
-      return row.id;
+      const findingId = repo.insertFinding(tx, input, user.id, now);
+      writeAudit(tx, { actorId: user.id, action: 'finding-created', entity: 'finding', entityId: findingId, after: { title: input.title } });
+      return findingId;
     });
     return get(id, user);
   }
@@ -367,11 +337,7 @@ export function createFindingsService(deps: FeatureDeps, signingLimit: { windowM
     if (!view) throw new ValidationFailed('That saved view does not exist', { savedViewId: ['No saved view with this id'] });
     const svg = plotSvgFromSnapshot(view.snapshot);
     db.transaction((tx) => {
-      const position = repo.nextEvidencePosition(tx, id);
-      tx.insert(findingEvidence)
-        .values({ findingId: id, position, savedViewId, title: view.title, kind: 'saved-view', snapshot: view.snapshot, svg, createdBy: user.id })
-        .run();
-      tx.update(findings).set({ savedAt: iso() }).where(eq(findings.id, id)).run();
+      const position = repo.insertEvidenceCopy(tx, id, view, svg, user.id, iso());
       writeAudit(tx, { actorId: user.id, action: 'evidence-attached', entity: 'finding', entityId: id, after: { savedViewId, position } });
     });
     return get(id, user);
@@ -404,8 +370,7 @@ export function createFindingsService(deps: FeatureDeps, signingLimit: { windowM
       throw new ValidationFailed('Write a title and a body before submitting', { bodyMd: ['Write what the trial showed'] });
     const now = iso();
     db.transaction((tx) => {
-      tx.update(findings).set({ state: next, submittedAt: now }).where(eq(findings.id, id)).run();
-      addThread(tx, id, 'submitted', 'Submitted for review.', user.id);
+      repo.markSubmitted(tx, id, next, user.id, now);
       writeAudit(tx, { actorId: user.id, action: 'finding-submitted', entity: 'finding', entityId: id });
     });
     const cannot = new Set([row.createdBy, ...repo.editorIds(db, id)]);

@@ -51,6 +51,31 @@ afterAll(async () => {
   await h.close();
 });
 
+describe('the demo finding', () => {
+  it('waits in review, by the demo technician, with the saved view as frozen evidence and the comparison in its words', async () => {
+    const list = await as.reviewer.get('/api/findings?state=in-review&sort=savedAt');
+    expect(list.status).toBe(200);
+    const demo = (list.body.items as { id: number; title: string }[]).find((f) => f.title.startsWith('Dyed and clear blend'));
+    expect(demo).toBeDefined();
+    const res = await as.reviewer.get(`/api/findings/${demo!.id}`);
+    const f = res.body.finding as {
+      state: string;
+      bodyMd: string;
+      author: { name: string };
+      evidence: { title: string; snapshot: Record<string, unknown> }[];
+      actions: string[];
+    };
+    expect(f.state).toBe('in-review');
+    expect(f.author.name).toMatch(/^Teo Brackett/);
+    expect(f.evidence).toHaveLength(1);
+    // The body quotes the sentence the saved view froze, so it claims nothing the demo numbers do not show.
+    const frozen = f.evidence[0]!.snapshot as { numbers: { compare: { sentence: string } } };
+    expect(f.bodyMd).toContain(frozen.numbers.compare.sentence);
+    // The reviewer did not write it, so may approve or return it.
+    expect(f.actions).toEqual(expect.arrayContaining(['approve', 'return', 'comment']));
+  });
+});
+
 describe('findings: who may do what', () => {
   it('answers 401 without a session and 403 to a viewer writing', async () => {
     const anon = h.agent();

@@ -1,39 +1,27 @@
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import { monitorEventLoopDelay } from 'node:perf_hooks';
+import { fileURLToPath } from 'node:url';
+import { monitorEventLoopDelay, performance as perf } from 'node:perf_hooks';
 import Papa from 'papaparse';
 import { afterAll, bench, describe } from 'vitest';
 import { openDatabase, type Database_ } from '../../db/client';
-import { species } from '../../db/schema/reference';
 import { startHarness } from '../../testing/harness';
 import { rebuildResults } from '../../measurements/results';
+import { addCoupons as addCouponsOf, describeServerFigures, measureServerAlone, scaleFile, type ServerFigures } from '../../../bench/imports-server';
 
 // The import of a generated 100,000-row scale file, end to end through the API (upload → detect →
 // preview → commit), against the floor: a bare papaparse parse of the same text plus better-sqlite3
 // prepared inserts of the same rows (tag → coupon id through a Map) in one transaction, foreign keys on.
-// Both run once, in this process; the ratio, the peak RSS and the event loop's longest stall are printed.
-// Figures and what they mean: bench/imports-results.md.
+// Both run once, in this process; the ratio, the main thread's longest stall and busy share are printed.
+// Then the same import by a server alone, in a child process (its RSS, CPU, and /api/health answer times
+// seen from outside: bench/imports-server.ts). The figures are written to bench/imports-latest.txt with
+// the load average; what they mean: bench/imports-results.md.
 
 const N = 100_000;
-const tag = (i: number) => `BX-${String(i).padStart(6, '0')}`;
-const text = [
-  'tag,mass,unit,date,time',
-  ...Array.from(
-    { length: N },
-    (_, i) =>
-      `${tag(i)},${(10 + (i % 997) / 100).toFixed(3)},g,2026-03-02,${String(8 + (Math.floor(i / 3600) % 12)).padStart(2, '0')}:${String(Math.floor(i / 60) % 60).padStart(2, '0')}:${String(i % 60).padStart(2, '0')}`,
-  ),
-].join('\r\n');
+const text = scaleFile(N);
 const bytes = Buffer.from(`${text}\r\n`);
-
-function addCoupons(d: Database_) {
-  const sp = d.db.select({ id: species.id }).from(species).limit(1).get()!.id;
-  const ins = d.sqlite.prepare("insert into coupons (tag, species_id, role) values (?, ?, 'treated')");
-  d.sqlite.transaction(() => {
-    for (let i = 0; i < N; i++) ins.run(tag(i), sp);
-  })();
-}
+const addCoupons = (d: Database_) => addCouponsOf(d, N);
 
 const h = await startHarness();
 addCoupons(h.database);
@@ -123,13 +111,26 @@ describe(`import of ${N.toLocaleString('en')} readings`, () => {
         cpu0 = process.cpuUsage();
         return (u.user + u.system) / 1000;
       };
+      // The main thread's longest stall and busy share per phase (the commit's transaction runs in a worker
+      // thread, whose CPU process.cpuUsage counts but which does not hold this thread's event loop).
+      let elu0 = perf.eventLoopUtilization();
+      const phase = (name: string) => {
+        times[`${name}Stall`] = loop.max / 1e6;
+        loop.reset();
+        const e = perf.eventLoopUtilization(elu0);
+        elu0 = perf.eventLoopUtilization();
+        times[`${name}Elu`] = e.utilization;
+      };
+      phase('upload');
       await tech.post(`/api/imports/${d.id}/preview`).send({ mapping }).expect(202);
       const p = await settle(d.id);
       times.preview = performance.now() - t0 - times.upload;
       times.previewCpu = cpuSince();
+      phase('preview');
       await tech.post(`/api/imports/${d.id}/commit`).send({ mapping }).expect(202);
       const c = await settle(d.id);
       times.commitCpu = cpuSince();
+      phase('commit');
       times.total = performance.now() - t0;
       loop.disable();
       health.on = false;
@@ -139,24 +140,45 @@ describe(`import of ${N.toLocaleString('en')} readings`, () => {
     },
     once,
   );
+
+  bench(
+    'server alone: a child process driven over HTTP (RSS, CPU, health answers)',
+    async () => {
+      server = await measureServerAlone(N);
+    },
+    once,
+  );
 });
+
+let server: ServerFigures | null = null;
 
 afterAll(async () => {
   const mb = (b: number) => `${(b / 1024 / 1024).toFixed(0)} MB`;
+  const pct = (x: number | undefined) => `${((x ?? NaN) * 100).toFixed(0)} %`;
   const floor = times.floor ?? NaN;
   const total = times.total ?? NaN;
-  console.log(
-    [
-      `import of ${N} rows (${mb(bytes.length)} file):`,
-      `  floor (parse + prepared inserts, one transaction): ${floor.toFixed(0)} ms`,
-      `  end to end: ${total.toFixed(0)} ms (upload+detect ${times.upload?.toFixed(0)} ms, preview ${times.preview?.toFixed(0)} ms, commit ${(total - (times.upload ?? 0) - (times.preview ?? 0)).toFixed(0)} ms)`,
-      `  CPU time of this process: preview ${times.previewCpu?.toFixed(0)} ms, commit ${times.commitCpu?.toFixed(0)} ms`,
-      `  ratio end to end / floor: ${(total / floor).toFixed(2)}`,
-      `  RSS of this process (server and client together): ${mb(rss.before)} before the import, ${mb(rss.peak)} at its highest during it (+${mb(rss.peak - rss.before)}); high-water mark ${mb(rss.maxBefore)} before the import (setup and floor), ${mb(process.resourceUsage().maxRSS * 1024)} after it`,
-      `  longest event-loop stall during the import: ${(loop.max / 1e6).toFixed(0)} ms`,
-      `  /api/health during the import: ${health.answers} answers, slowest ${health.slowest.toFixed(0)} ms`,
-    ].join('\n'),
-  );
+  const summary = [
+    `import of ${N} rows (${mb(bytes.length)} file):`,
+    `  floor (parse + prepared inserts, one transaction): ${floor.toFixed(0)} ms`,
+    `  end to end: ${total.toFixed(0)} ms (upload+detect ${times.upload?.toFixed(0)} ms, preview ${times.preview?.toFixed(0)} ms, commit ${(total - (times.upload ?? 0) - (times.preview ?? 0)).toFixed(0)} ms)`,
+    `  CPU time of this process: preview ${times.previewCpu?.toFixed(0)} ms, commit ${times.commitCpu?.toFixed(0)} ms`,
+    `  ratio end to end / floor: ${(total / floor).toFixed(2)}`,
+    `  RSS of this process (server and client together): ${mb(rss.before)} before the import, ${mb(rss.peak)} at its highest during it (+${mb(rss.peak - rss.before)}); high-water mark ${mb(rss.maxBefore)} before the import (setup and floor), ${mb(process.resourceUsage().maxRSS * 1024)} after it`,
+    `  longest event-loop stall of the main thread: upload ${times.uploadStall?.toFixed(0)} ms, preview ${times.previewStall?.toFixed(0)} ms, commit ${times.commitStall?.toFixed(0)} ms`,
+    `  main thread busy (event-loop utilisation): preview ${pct(times.previewElu)}, commit ${pct(times.commitElu)}`,
+    `  /api/health during the import: ${health.answers} answers, slowest ${health.slowest.toFixed(0)} ms`,
+  ].join('\n');
+  console.log(summary);
+  const load = os.loadavg().map((x) => x.toFixed(2));
+  const report = [
+    `Written by server/features/imports/imports.bench.ts on ${new Date().toISOString()}, load average ${load.join(', ')} (${os.cpus().length} cores)`,
+    '',
+    summary,
+    server ? describeServerFigures(server) : 'server alone: not measured',
+    '',
+  ].join('\n');
+  console.log(server ? describeServerFigures(server) : '');
+  fs.writeFileSync(path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../../../bench/imports-latest.txt'), report);
   floorDb.close();
   fs.rmSync(floorDir, { recursive: true, force: true });
   await h.close();

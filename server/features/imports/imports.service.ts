@@ -1,22 +1,21 @@
 import fs from 'node:fs';
 import path from 'node:path';
+import { Worker } from 'node:worker_threads';
 import type { Request, Response } from 'express';
 import type { FeatureDeps } from '../../deps';
 import { writeAudit } from '../../db/audit';
 import { AppError, Conflict, NotFound, Unprocessable } from '../../http/errors';
-import { createMeasurements, type MeasurementEntry, type ReadingProblem } from '../../measurements/measurements';
+import { createMeasurements, type ReadingProblem } from '../../measurements/measurements';
 import type { User } from '../../../shared/schemas/auth';
 import type { ImportProblemCode, ImportRowOutcome, ImportStatus } from '../../../shared/constants/imports';
 import type {
   CommitImportInput,
   CreatePresetInput,
   ImportColumn,
-  ImportCounts,
   ImportDetail,
   ImportFormat,
   ImportList,
   ImportMapping,
-  ImportPreviewRow,
   ImportProblem,
   ImportProblems,
   ImportSummary,
@@ -30,12 +29,11 @@ import { toSafeCsv } from '../../../shared/imports/csv-safety';
 import { shapeKey } from '../../../shared/imports/template';
 import { decode, readHead, streamRows } from './file-reader';
 import {
-  allCouponKeys,
+  couponKeysAfter,
   allPresets,
   committedWithSha,
   countFileUses,
   couponKeysByIds,
-  currentWeighingAt,
   currentWeighingIdsOfImport,
   findImport,
   findPresetByName,
@@ -55,61 +53,25 @@ import {
   type ImportRow,
 } from './imports.repo';
 import { createReceiver } from './upload';
+import { blockedMessage, entryOf, MAX_PROBLEMS, packJob, previewRowsOf, refusal, type Analysis, type Collected, type CommitJob } from './commit';
+import type { CommitWorkerInput, CommitWorkerOutput } from './commit-worker';
 
-/** Rows of the preview shown as they will be stored. */
-const PREVIEW_ROWS = 20;
 /** Unknown tags for which near matches are searched (each search walks every tag). */
 const MAX_SUGGESTION_SEARCHES = 500;
-/**
- * Problem entries kept and stored per import (the counts stay exact beyond it): a file where every
- * one of 100,000 rows is wrong is explained by its first rows, not by 100,000 stored explanations.
- */
-const MAX_PROBLEMS = 5_000;
 /** Readings judged by the measurements module per step; the event loop gets a turn between steps. */
 const JUDGE_CHUNK = 5_000;
+/** Files from this size on get a commit worker started during their preview (below it, starting one costs more than it saves). */
+const WARM_WORKER_BYTES = 256 * 1024;
+/** How long a worker started ahead waits for its commit before it is ended (it holds tens of MB). */
+const WARM_WORKER_MS = 60_000;
+/** Coupon tags read per step when matching a file's tags. */
+const KEYS_PAGE = 10_000;
 /** How long a preview's collected readings are kept for its commit (the file cannot change; coupons can). */
 const COLLECTED_TTL_MS = 15 * 60 * 1000;
 
 const yieldToLoop = () => new Promise<void>((resolve) => setImmediate(resolve));
 
-/**
- * The readings a file gives, column by column rather than one object per row (100,000 rows stay a few
- * MB): candidate i is file row `row[i]` for `coupon[i]`. Rows the rules still have to judge.
- */
-interface Collected {
-  dataRows: number;
-  massColumn: string;
-  /** The explained rows found while reading (up to MAX_PROBLEMS entries). */
-  problems: ImportProblem[];
-  /** Exact counts of rows explained while reading, by outcome. */
-  skippedRows: number;
-  problemRows: number;
-  row: number[];
-  coupon: CouponKey[];
-  massG: number[];
-  measuredAt: string[];
-  /** Row of a later reading of the same coupon and stage that replaces this one, else 0. */
-  replacedBy: number[];
-}
-
-/** The judgement of the collected rows: indexes into Collected, problems and exact counts. */
-interface Analysis {
-  counts: ImportCounts;
-  problems: ImportProblem[];
-  accepted: number[];
-  corrections: number[];
-  previewRows: ImportPreviewRow[];
-}
-
 const clipCells = (cells: string[]) => cells.slice(0, 30).map((c) => (c.length > 200 ? `${c.slice(0, 200)}…` : c));
-
-/** What the measurements module refused, as one of the import's problem classes. */
-function classify(p: ReadingProblem): ImportProblemCode {
-  if (p.code === 'conflict') return 'existing-reading';
-  if (p.field === 'stage') return 'control-at-resin-stage';
-  if (p.field === 'massG') return 'impossible-mass';
-  return 'impossible-mass';
-}
 
 export function createImportsService(deps: FeatureDeps) {
   const { db } = deps.database;
@@ -305,10 +267,17 @@ export function createImportsService(deps: FeatureDeps) {
     const byUpper = new Map<string, CouponKey | null>();
     let sequence: CouponKey[] = [];
     if (mapping.target.mode === 'tag') {
-      for (const k of allCouponKeys(db)) {
-        byTag.set(k.tag, k);
-        const u = k.tag.toUpperCase();
-        byUpper.set(u, byUpper.has(u) ? null : k);
+      // Page by page with a turn of the event loop between: 100,000 tags at once held it ~0.3 s.
+      for (let after = 0; ;) {
+        const page = couponKeysAfter(db, after, KEYS_PAGE);
+        for (const k of page) {
+          byTag.set(k.tag, k);
+          const u = k.tag.toUpperCase();
+          byUpper.set(u, byUpper.has(u) ? null : k);
+        }
+        if (page.length < KEYS_PAGE) break;
+        after = (page[page.length - 1] as CouponKey).id;
+        await yieldToLoop();
       }
     } else {
       const run = findRun(db, mapping.target.runId);
@@ -442,38 +411,6 @@ export function createImportsService(deps: FeatureDeps) {
   }
 
   /**
-   * Sorts one refusal of the measurements module into the analysis: a coupon that already has the
-   * reading becomes a correction (when the user chose to correct) or a skipped row; anything else a problem.
-   */
-  function refusal(a: Analysis, mapping: ImportMapping, massColumn: string, c: Collected, i: number, p: ReadingProblem) {
-    const code = classify(p);
-    const problem = (outcome: ImportRowOutcome, column: string | null, message: string) => {
-      if (outcome === 'skipped') a.counts.skipped++;
-      else a.counts.problems++;
-      if (a.problems.length < MAX_PROBLEMS) a.problems.push({ row: c.row[i] as number, column, code, outcome, message, suggestions: [], cells: [] });
-    };
-    if (code === 'existing-reading') {
-      if (mapping.existing === 'correct') {
-        a.corrections.push(i);
-        a.counts.corrections++;
-        return;
-      }
-      problem(
-        'skipped',
-        null,
-        `${p.message.replace(/; correct that one.*$/, '')}; it is left as it is (choose to correct existing readings, with a reason, to replace it)`,
-      );
-      return;
-    }
-    problem('problem', code === 'impossible-mass' ? massColumn : null, p.message);
-  }
-
-  const entryOf = (mapping: ImportMapping, c: Collected, i: number): MeasurementEntry => ({
-    couponId: (c.coupon[i] as CouponKey).id,
-    weighings: [{ stage: mapping.stage, massG: c.massG[i] as number, measuredAt: c.measuredAt[i] as string }],
-  });
-
-  /**
    * Asks the measurements module about every collected reading, JUDGE_CHUNK at a time with a turn of
    * the event loop between (reads only: the rules are judged again, all at once, inside the commit's
    * transaction). Each coupon appears once after the duplicates are dropped (drying checks, which may
@@ -517,7 +454,7 @@ export function createImportsService(deps: FeatureDeps) {
       for (const p of refused) if (!refusedAt.has(p.entry)) refusedAt.set(p.entry, p);
       part.forEach((i, j) => {
         const p = refusedAt.get(j);
-        if (p) refusal(a, mapping, c.massColumn, c, i, p);
+        if (p) refusal(a, mapping, c, i, p);
         else a.accepted.push(i);
       });
       onProgress(Math.min(1, (from + part.length) / live.length));
@@ -526,22 +463,6 @@ export function createImportsService(deps: FeatureDeps) {
     a.counts.accepted = a.accepted.length;
     a.previewRows = previewRowsOf(mapping, c, a);
     return a;
-  }
-
-  function previewRowsOf(mapping: ImportMapping, c: Collected, a: Analysis): ImportPreviewRow[] {
-    const corrections = new Set(a.corrections);
-    return [...a.accepted.slice(0, PREVIEW_ROWS), ...a.corrections.slice(0, PREVIEW_ROWS)]
-      .sort((x, y) => x - y)
-      .slice(0, PREVIEW_ROWS)
-      .map((i) => ({
-        row: c.row[i] as number,
-        couponId: (c.coupon[i] as CouponKey).id,
-        tag: (c.coupon[i] as CouponKey).tag,
-        stage: mapping.stage,
-        massG: c.massG[i] as number,
-        measuredAt: c.measuredAt[i] as string,
-        correction: corrections.has(i),
-      }));
   }
 
   function beginJob(r: ImportRow, status: ImportStatus, mapping: ImportMapping) {
@@ -561,6 +482,8 @@ export function createImportsService(deps: FeatureDeps) {
         await work(progress);
       } catch (err) {
         keptCache.delete(id);
+        warm.get(id)?.dispose();
+        warm.delete(id);
         const message = err instanceof AppError ? err.message : 'Something went wrong while processing the file; nothing was imported';
         if (!(err instanceof AppError)) deps.logger.error({ err, importId: id }, 'import job failed');
         updateImport(db, id, { status: 'failed', error: message });
@@ -570,10 +493,80 @@ export function createImportsService(deps: FeatureDeps) {
     })();
   }
 
+  /**
+   * Starts a commit worker thread (decision 0017): the transaction of 100,000 readings costs seconds of
+   * CPU, which would otherwise hold this thread, and with it every other request. Loading the worker's
+   * modules takes most of a second, so a big file's preview starts one for the commit that usually follows.
+   * `run` posts the job and resolves with the outcome, or rejects with the worker's error (an AppError
+   * kept as one); an unused worker is ended by `dispose`, or after WARM_WORKER_MS.
+   */
+  function bootWorker() {
+    const worker = new Worker(new URL('./worker-boot.mjs', import.meta.url), {
+      workerData: { entry: new URL('./commit-worker.ts', import.meta.url).href },
+    });
+    let waiting: { resolve: (v: 'committed' | 'blocked') => void; reject: (e: unknown) => void } | null = null;
+    let broken: Error | null = null;
+    const idle = setTimeout(() => void worker.terminate(), WARM_WORKER_MS);
+    idle.unref();
+    // An idle worker must not keep the process alive (a test's end, a shutdown).
+    worker.unref();
+    worker.on('message', (out: CommitWorkerOutput | 'ready') => {
+      if (out === 'ready' || !waiting) return;
+      const w = waiting;
+      waiting = null;
+      if ('ok' in out) return w.resolve(out.ok);
+      const e = out.error;
+      if (e.app) return w.reject(new AppError(e.app.code, e.message, e.app.fieldErrors));
+      w.reject(Object.assign(new Error(e.message), { code: e.sqliteCode ?? undefined, stack: e.stack }));
+    });
+    worker.once('error', (err) => {
+      broken = err;
+      waiting?.reject(err);
+      waiting = null;
+    });
+    worker.once('exit', (code) => {
+      broken ??= new Error(`The commit's worker stopped (exit code ${code}) before it answered`);
+      waiting?.reject(broken);
+      waiting = null;
+    });
+    return {
+      /** False once it ended (idle too long, or failed to start): the commit then starts another. */
+      usable: () => broken === null,
+      run(job: CommitJob): Promise<'committed' | 'blocked'> {
+        clearTimeout(idle);
+        const input: CommitWorkerInput = { file: deps.database.sqlite.name, job: packJob(job), nowOffsetMs: deps.now().getTime() - Date.now() };
+        return new Promise((resolve, reject) => {
+          waiting = { resolve, reject };
+          worker.postMessage(input);
+        });
+      },
+      dispose: () => {
+        clearTimeout(idle);
+        void worker.terminate();
+      },
+    };
+  }
+  type CommitWorker = ReturnType<typeof bootWorker>;
+  /** The worker started ahead for an import's commit: one at a time, like the kept preview. */
+  const warm = new Map<number, CommitWorker>();
+  function warmUp(id: number) {
+    for (const w of warm.values()) w.dispose();
+    warm.clear();
+    warm.set(id, bootWorker());
+  }
+  function takeWorker(id: number): CommitWorker {
+    const w = warm.get(id);
+    warm.delete(id);
+    if (w?.usable()) return w;
+    w?.dispose();
+    return bootWorker();
+  }
+
   /** Starts the preview job; the client polls the import until its status leaves `previewing`. */
   function preview(id: number, mapping: ImportMapping): ImportDetail {
     const r = requireImport(id);
     beginJob(r, 'previewing', mapping);
+    if (r.bytes >= WARM_WORKER_BYTES) warmUp(id);
     runJob(id, async (progress) => {
       const collected = await collect(r, mapping, progress);
       const a = await judge(mapping, collected, (f) => progress(0.8 + f * 0.15));
@@ -589,10 +582,11 @@ export function createImportsService(deps: FeatureDeps) {
 
   /**
    * Starts the commit job. The readings are collected and judged in chunks while other requests are served
-   * (or taken from the preview with the same mapping, if it was the last one and is recent); then ONE synchronous
-   * transaction writes every accepted reading through the measurements module's bulk path, which judges
-   * them again on exactly the state it writes to (someone may have weighed a coupon meanwhile), or, when
-   * the user chose all-or-nothing and a problem remains, writes nothing at all.
+   * (or taken from the preview with the same mapping, if it was the last one and is recent); then ONE
+   * transaction, written by a worker thread (`writeCommit`), writes every accepted reading through the
+   * measurements module's bulk path, which judges them again on exactly the state it writes to (someone may
+   * have weighed a coupon meanwhile), or, when the user chose all-or-nothing and a problem remains, writes
+   * nothing at all.
    */
   function commit(actor: User, id: number, input: CommitImportInput): ImportDetail {
     const r = requireImport(id);
@@ -603,12 +597,12 @@ export function createImportsService(deps: FeatureDeps) {
       throw new Conflict(msg, { again: [msg] });
     }
     const mapping = input.mapping;
-    const kept = takeKept(id, mapping);
+    // The job first: if its write is refused (another write holds the database), the preview stays kept.
     beginJob(r, 'committing', mapping);
+    const kept = takeKept(id, mapping);
     runJob(id, async (progress) => {
       const collected = kept?.collected ?? (await collect(r, mapping, progress));
       const a = kept?.analysis ?? (await judge(mapping, collected, (f) => progress(0.8 + f * 0.1)));
-      const blockedMessage = (n: number) => `${n} rows still have problems, so nothing was imported (you chose nothing until every problem is fixed)`;
       if (input.choice === 'all-or-nothing' && a.counts.problems > 0) {
         const problems = kept?.problems ?? (await finishProblems(r, mapping, a.problems));
         db.transaction((tx) => {
@@ -618,77 +612,17 @@ export function createImportsService(deps: FeatureDeps) {
         return;
       }
       const problems = kept?.problems ?? (await finishProblems(r, mapping, a.problems));
-      const source = `import:${id}` as const;
-      let blocked = false;
-      try {
-        db.transaction((tx) => {
-          if (a.accepted.length) {
-            const accepted = a.accepted;
-            a.accepted = [];
-            const out = measurements.bulkAdd(
-              tx,
-              actor,
-              source,
-              accepted.map((i) => entryOf(mapping, collected, i)),
-              { skipRefused: true },
-            );
-            // Refused now though accepted a moment ago: the coupon changed meanwhile.
-            const lateAt = new Map<number, ReadingProblem>();
-            const before = a.problems.length;
-            for (const p of out.refused) if (!lateAt.has(p.entry)) lateAt.set(p.entry, p);
-            accepted.forEach((i, j) => {
-              const p = lateAt.get(j);
-              if (p) refusal(a, mapping, collected.massColumn, collected, i, p);
-              else a.accepted.push(i);
-            });
-            if (a.problems.length > before) {
-              problems.push(...a.problems.slice(before));
-              problems.sort((x, y) => x.row - y.row);
-            }
-            a.counts.accepted = a.accepted.length;
-            if (input.choice === 'all-or-nothing' && a.counts.problems > 0) {
-              blocked = true;
-              throw new Conflict(blockedMessage(a.counts.problems));
-            }
-          }
-          const corrections: { oldId: number; newId: number }[] = [];
-          for (const i of a.corrections) {
-            const current = currentWeighingAt(tx, (collected.coupon[i] as CouponKey).id, mapping.stage);
-            if (!current) continue;
-            const reason = `${mapping.correctionReason ?? 'Corrected by an import'} (import ${id}, row ${collected.row[i]})`;
-            const out = measurements.correctWeighing(tx, actor, current.id, {
-              massG: collected.massG[i] as number,
-              measuredAt: collected.measuredAt[i] as string,
-              reason,
-            });
-            corrections.push({ oldId: current.id, newId: out.row.id });
-          }
-          a.previewRows = previewRowsOf(mapping, collected, a);
-          replaceProblems(tx, id, problems);
-          updateImport(tx, id, {
-            status: 'committed',
-            counts: a.counts,
-            previewRows: a.previewRows,
-            corrections,
-            committedAt: deps.now().toISOString(),
-            committedBy: actor.id,
-            error: null,
-          });
-          writeAudit(tx, {
-            actorId: actor.id,
-            action: 'commit',
-            entity: 'import',
-            entityId: id,
-            after: { stage: mapping.stage, counts: a.counts, choice: input.choice },
-          });
-        });
-      } catch (err) {
-        if (!blocked) throw err;
-        db.transaction((tx) => {
-          replaceProblems(tx, id, problems);
-          updateImport(tx, id, { status: 'previewed', counts: a.counts, previewRows: a.previewRows, error: blockedMessage(a.counts.problems) });
-        });
-      }
+      progress(0.9);
+      await takeWorker(id).run({
+        importId: id,
+        actor: { id: actor.id },
+        mapping,
+        choice: input.choice,
+        file: { originalName: r.originalName, sha256: r.sha256 },
+        collected,
+        analysis: a,
+        problems,
+      });
     });
     return detail(id);
   }

@@ -5,6 +5,7 @@ import { fileURLToPath } from 'node:url';
 import { and, eq, isNull } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startHarness, type Harness } from '../../testing/harness';
+import { openWorkerConnection } from '../../db/client';
 import { auditLog } from '../../db/schema/admin';
 import { coupons, weighings } from '../../db/schema/coupons';
 import { species } from '../../db/schema/reference';
@@ -143,6 +144,38 @@ describe('imports: upload, detect, preview, commit, undo', () => {
     const coupon = (await s.tech.get(`/api/coupons/${s.ids['FX-02']}`)).body.coupon;
     expect(coupon.weighings.map((x: { massG: number; importId: number }) => [x.massG, x.importId])).toEqual([[11.902, d.id]]);
 
+    // One audit entry for the rows (counts, stage, the ids it wrote) and one for the commit (file, hash),
+    // not one per coupon; the coupon's history shows the commit beside the weighing that names the import.
+    const importAudit = s.h.database.db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entity, 'import'), eq(auditLog.entityId, String(d.id))))
+      .all();
+    expect(importAudit.map((e) => e.action)).toEqual(['upload', 'add-readings', 'commit']);
+    const ids = s.h.database.db
+      .select({ id: weighings.id })
+      .from(weighings)
+      .where(eq(weighings.importId, d.id))
+      .all()
+      .map((x) => x.id);
+    expect(importAudit[1]!.after).toMatchObject({
+      coupons: 3,
+      weighings: 3,
+      checks: 0,
+      stages: { dry: 3 },
+      weighingIds: { first: Math.min(...ids), last: Math.max(...ids) },
+    });
+    expect(importAudit[2]!.after).toMatchObject({ sha256: d.sha256, file: d.originalName, stage: 'dry' });
+    expect(
+      s.h.database.db
+        .select()
+        .from(auditLog)
+        .where(and(eq(auditLog.action, 'add-readings'), eq(auditLog.entity, 'coupon')))
+        .all(),
+    ).toEqual([]);
+    const history = (await s.viewer.get(`/api/coupons/${s.ids['FX-01']}/history`)).body;
+    expect(history.audit.map((e: { action: string; entity: string }) => `${e.action}:${e.entity}`)).toContain('commit:import');
+
     const list = (await s.viewer.get('/api/imports')).body;
     expect(list.items.find((i: { id: number }) => i.id === d.id)).toMatchObject({ status: 'committed', stage: 'dry', createdByName: expect.any(String) });
 
@@ -179,6 +212,54 @@ describe('imports: upload, detect, preview, commit, undo', () => {
     expect(currentOf(s.h, s.ids['FX-01']!).filter((x) => x.stage === 'wet-test')).toHaveLength(1);
     // 1 oz = 28.349523125 g (NIST SP 811 App. B): 0.4355 oz.
     expect(currentOf(s.h, s.ids['FX-01']!).find((x) => x.stage === 'wet-test')!.massG).toBeCloseTo(0.4355 * 28.349523125, 9);
+  });
+
+  it('commits a big file through the worker started during its preview', async () => {
+    const sp = s.h.database.db.select().from(species).limit(1).get()!;
+    for (const tag of ['WW-01', 'WW-02']) expect((await s.tech.post('/api/coupons').send({ tag, speciesId: sp.id, role: 'treated' })).status).toBe(201);
+    // 40,000 rows (over 256 KB, so the preview starts the commit's worker), each coupon weighed again and again.
+    const lines = ['tag,mass', ...Array.from({ length: 40_000 }, (_, i) => `WW-0${(i % 2) + 1},${(10 + i / 100_000).toFixed(5)}`)];
+    const d = (await upload(s.tech, 'big-repeats.csv', Buffer.from(`${lines.join('\r\n')}\r\n`))).body as ImportDetail;
+    expect(d.bytes).toBeGreaterThan(256 * 1024);
+    const { done } = await previewed(s.tech, d);
+    expect(done.counts).toMatchObject({ rows: 40_000, accepted: 2, skipped: 39_998, problems: 0 });
+    const c = await committed(s.tech, d);
+    expect(c.status, c.error ?? '').toBe('committed');
+    const written = s.h.database.db.select().from(weighings).where(eq(weighings.importId, d.id)).all();
+    // The later reading of each coupon is kept: rows 40,000 and 40,001 of the file (the header is row 1).
+    expect(written.map((w) => w.massG).sort()).toEqual([10.39998, 10.39999]);
+  });
+
+  it('keeps serving while another connection writes: reads answer, writes are told to try again, a commit waits its turn', async () => {
+    const d = (await upload(s.tech, 'two-date-columns-day-first.csv')).body as ImportDetail;
+    await previewed(s.tech, d, { stage: 'soaked' });
+    const mapping = mappingFor(d, { stage: 'soaked' });
+    // A second connection holding the write lock, as the commit's worker thread does while it writes.
+    const other = openWorkerConnection(s.h.database.sqlite.name);
+    try {
+      other.exec('BEGIN IMMEDIATE');
+      expect((await s.tech.get(`/api/coupons/${s.ids['FX-04']}`)).status).toBe(200);
+      const write = await s.tech.post(`/api/coupons/${s.ids['FX-04']}/weighings`).send({ stage: 'dry', massG: 12.5, measuredAt: '2026-03-01T08:00:00.000Z' });
+      expect(write.status).toBe(503);
+      expect(write.headers['retry-after']).toBe('3');
+      expect(write.body.error.message).toMatch(/import is being written.*Try again in a moment/);
+      expect((await s.tech.post(`/api/imports/${d.id}/commit`).send({ mapping })).status).toBe(503);
+      other.exec('COMMIT');
+
+      // The commit's worker starts, finds the lock taken (the other connection took it again while the
+      // worker was starting, or waits for the worker to finish), waits its turn instead of failing.
+      expect((await s.tech.post(`/api/imports/${d.id}/commit`).send({ mapping })).status).toBe(202);
+      other.exec('BEGIN IMMEDIATE');
+      await new Promise((r) => setTimeout(r, 300));
+      other.exec('COMMIT');
+    } finally {
+      if (other.inTransaction) other.exec('ROLLBACK');
+      other.close();
+    }
+    expect((await settle(s.tech, d.id)).status).toBe('committed');
+    expect(
+      (await s.tech.post(`/api/coupons/${s.ids['FX-04']}/weighings`).send({ stage: 'dry', massG: 12.5, measuredAt: '2026-03-01T08:00:00.000Z' })).status,
+    ).toBe(201);
   });
 });
 

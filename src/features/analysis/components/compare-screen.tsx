@@ -285,10 +285,15 @@ function Results({ o, filters, sgBasis }: { o: Overview; filters: AnalysisFilter
         />
       )}
 
-      <MultipleReadout fit={multipleFit} notes={o.fitNotes} />
-
-      <GroupTable groups={o.groups} />
-      <TwoGroupCompare key={JSON.stringify(filters)} groups={o.groups} filters={filters} onResult={setCompareView} />
+      <BelowFold size={360}>
+        <MultipleReadout fit={multipleFit} notes={o.fitNotes} />
+      </BelowFold>
+      <BelowFold size={Math.min(2400, 160 + 36 * o.groups.length)}>
+        <GroupTable groups={o.groups} />
+      </BelowFold>
+      <BelowFold size={500}>
+        <TwoGroupCompare key={JSON.stringify(filters)} groups={o.groups} filters={filters} onResult={setCompareView} />
+      </BelowFold>
 
       {o.plots.hardness.length > 0 && (
         <PlotFigure
@@ -318,11 +323,25 @@ function Results({ o, filters, sgBasis }: { o: Overview; filters: AnalysisFilter
         />
       )}
 
-      <Outliers o={o} />
-      <Excluded o={o} />
+      <BelowFold size={Math.min(2400, 80 + 24 * o.outliers.length)}>
+        <Outliers o={o} />
+      </BelowFold>
+      <BelowFold size={Math.min(4800, 80 + 24 * Math.min(o.excluded.length, 201))}>
+        <Excluded o={o} />
+      </BelowFold>
       <SaveView filters={filters} sgBasis={sgBasis} compare={compareView} />
     </>
   );
+}
+
+/**
+ * A part of the page below the first plot: the browser skips its layout and painting until it comes near
+ * the window (CSS content-visibility: auto; its text stays in the page for find-in-page and assistive
+ * technology), so the first screen is laid out without the long table and lists under it. `size` is the
+ * height it is assumed to take until then.
+ */
+function BelowFold({ size, children }: { size: number; children: ReactNode }) {
+  return <div style={{ contentVisibility: 'auto', containIntrinsicSize: `auto ${size}px` }}>{children}</div>;
 }
 
 const sign = (v: number, d: number) => (v < 0 ? `−${Math.abs(v).toFixed(d)}` : v.toFixed(d));

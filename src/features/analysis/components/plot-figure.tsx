@@ -1,4 +1,4 @@
-import { useEffect, useId, useRef } from 'react';
+import { useCallback, useEffect, useId, useRef, useState, type RefObject } from 'react';
 
 /**
  * Colour-blind-safe palette for species: the eight colours of Okabe & Ito, "Color Universal Design"
@@ -78,8 +78,64 @@ function downloadPng(text: string, name: string): void {
 }
 
 /**
+ * True once the element has come within a short distance of the viewport (and from then on). Where the
+ * browser has no IntersectionObserver (jsdom), at once.
+ */
+function useNearViewport(ref: RefObject<Element | null>): boolean {
+  const [near, setNear] = useState(() => typeof IntersectionObserver === 'undefined');
+  useEffect(() => {
+    const el = ref.current;
+    if (near || !el) return;
+    const io = new IntersectionObserver(
+      (entries) => {
+        if (entries.some((e) => e.isIntersecting)) {
+          setNear(true);
+          io.disconnect();
+        }
+      },
+      { rootMargin: '0px 0px 200px 0px' },
+    );
+    io.observe(el);
+    return () => io.disconnect();
+  }, [ref, near]);
+  return near;
+}
+
+/**
+ * Plots are drawn one at a time, each in a task of its own, so the browser paints the first before it
+ * builds the next and a page of five plots never holds the screen for the sum of them.
+ */
+const queue: (() => void)[] = [];
+let draining = false;
+function drawSoon(task: () => void): () => void {
+  queue.push(task);
+  if (!draining) {
+    draining = true;
+    const next = () => {
+      const t = queue.shift();
+      if (!t) {
+        draining = false;
+        return;
+      }
+      t();
+      setTimeout(next, 0);
+    };
+    setTimeout(next, 0);
+  }
+  return () => {
+    const i = queue.indexOf(task);
+    if (i >= 0) queue.splice(i, 1);
+  };
+}
+
+/**
  * One plot: built by `build` (an Observable Plot element), made accessible, with a caption that states
  * the result in words, SVG and PNG downloads, and a click on a point that reports the point's datum.
+ *
+ * Drawing is the costly part of the Compare screen (thousands of SVG elements per plot to build, lay out
+ * and paint), so a plot is built only when it comes near the viewport, one plot per task (see drawSoon);
+ * until then its place holds the caption, which states the result in words anyway. A download builds
+ * the plot at once if it has not been drawn yet.
  */
 export function PlotFigure({
   title,
@@ -100,25 +156,41 @@ export function PlotFigure({
   const chart = useRef<Element | null>(null);
   const captionId = useId();
   const headingId = useId();
+  const near = useNearViewport(holder);
+  const [drawnBuild, setDrawnBuild] = useState<(() => Element) | null>(null);
+  const drawnTitle = useRef<string | null>(null);
 
-  useEffect(() => {
+  /** Builds the chart now (unless this build and title are the ones shown) and puts it in place; returns it. */
+  const draw = useCallback(() => {
+    if (chart.current && chart.current.isConnected && drawnBuild === build && drawnTitle.current === title) return chart.current;
     const el = build();
     makeAccessible(el, title, captionId);
-    const onClick = () => {
-      const v = (el as Element & { value?: unknown }).value;
-      if (v !== undefined && v !== null && onPick) onPick(v);
-    };
-    el.addEventListener('click', onClick);
     holder.current?.replaceChildren(el);
     chart.current = el;
-    return () => {
-      el.removeEventListener('click', onClick);
-      el.remove();
+    drawnTitle.current = title;
+    setDrawnBuild(() => build);
+    return el;
+  }, [build, title, captionId, drawnBuild]);
+
+  useEffect(() => {
+    if (!near) return;
+    return drawSoon(() => draw());
+  }, [near, draw]);
+
+  // Clicks are read from the holder, so the listener outlives each rebuilt chart.
+  useEffect(() => {
+    const box = holder.current;
+    if (!box || !onPick) return;
+    const onClick = () => {
+      const v = (chart.current as (Element & { value?: unknown }) | null)?.value;
+      if (v !== undefined && v !== null) onPick(v);
     };
-  }, [build, title, captionId, onPick]);
+    box.addEventListener('click', onClick);
+    return () => box.removeEventListener('click', onClick);
+  }, [onPick]);
 
   const save = (kind: 'svg' | 'png') => {
-    const text = chart.current ? svgText(chart.current) : null;
+    const text = svgText(draw());
     if (!text) return;
     if (kind === 'svg') download(new Blob([text], { type: 'image/svg+xml' }), `${fileName}.svg`);
     else downloadPng(text, `${fileName}.png`);
@@ -139,7 +211,7 @@ export function PlotFigure({
           </button>
         </div>
       </div>
-      <div ref={holder} className="overflow-x-auto" />
+      <div ref={holder} className="overflow-x-auto" style={drawnBuild === build ? undefined : { minHeight: 320 }} />
       <figcaption id={captionId} className="mt-2 text-sm text-ink-soft">
         {caption}
       </figcaption>

@@ -20,6 +20,8 @@ const ACTION_WORDS: Record<string, string> = {
   update: 'changed',
   'assign-run': 'put in a run',
   'remove-from-run': 'taken out of a run',
+  commit: 'imported',
+  undo: 'undid',
 };
 
 function record(v: unknown): Record<string, unknown> | null {
@@ -67,12 +69,21 @@ function Entry({ e }: { e: AuditEntry }) {
   const stage = record(e.after)?.stage ?? record(e.before)?.stage;
   const kind = e.entity === 'check' ? (record(e.after)?.kind ?? record(e.before)?.kind) : null;
   const what = e.entity === 'check' && typeof kind === 'string' ? `${kind} check` : e.entity;
+  const file = record(e.after)?.file;
+  // An import is audited once for all its coupons; its own rows are in the weighings above.
+  const subject =
+    e.entity === 'import'
+      ? e.action === 'undo'
+        ? `import ${e.entityId}`
+        : `readings from a file (import ${e.entityId}${typeof file === 'string' ? `, ${file}` : ''})`
+      : e.entity === 'coupon'
+        ? 'the coupon'
+        : `a ${typeof stage === 'string' ? `${stage} ` : ''}${what}`;
   return (
     <li className="py-2 text-sm">
       <p>
         <time dateTime={e.createdAt}>{when(e.createdAt)}</time> · {e.actorName ?? 'someone'}
-        {e.actorEmail ? ` (${e.actorEmail})` : ''} {ACTION_WORDS[e.action] ?? e.action}{' '}
-        {e.entity === 'coupon' ? 'the coupon' : `a ${typeof stage === 'string' ? `${stage} ` : ''}${what}`}
+        {e.actorEmail ? ` (${e.actorEmail})` : ''} {ACTION_WORDS[e.action] ?? e.action} {subject}
       </p>
       {(before || after) && (
         <p className="text-ink-soft">

@@ -33,6 +33,7 @@ import { gridEntryWarnings, rowEntryWarnings, type ConditionTag } from './grid-a
 import { columnIndexOf, ENTRY_COLUMNS, isLocked, savable, showStored, storedValue, type Drafts, type EntryColumn, type RowModel } from './grid-model';
 import { GridStore, type RowState } from './grid-store';
 import { parseClipboard, pasteSummary, planPaste } from './paste-plan';
+import { BalancePanel, type BalanceOutcome } from './balance-panel';
 import { dropSaved, mergeRefusals, nothingSavedText, prepareSave, refusalsFrom, refusedText, savedText } from './save-plan';
 
 // Column widths are fixed (table-layout: fixed), so rows scrolled into view never shift the columns, and the
@@ -418,6 +419,33 @@ export function EntryGrid({
     [store],
   );
 
+  // A settled reading from a balance on a serial port: typed into the selected mass cell (in the user's mass
+  // unit, as if keyed in), then the cell below is selected, so a column is weighed coupon after coupon.
+  const takeBalanceMass = useCallback(
+    (grams: number, printed: string): BalanceOutcome => {
+      const { r, c } = store.active();
+      const coupon = store.coupons[r];
+      const col = ENTRY_COLUMNS[c];
+      if (!coupon || !col) return { text: `${printed}: not written; select a mass cell first.`, bad: true };
+      if (col.quantity !== 'mass') return { text: `${printed}: not written; the selected cell is ${col.label.toLowerCase()}, select a mass cell.`, bad: true };
+      const locked = isLocked(coupon, col);
+      if (locked)
+        return {
+          text: `${printed}: not written; ${coupon.tag} ${locked === 'control' ? `is a control, with no ${col.label.toLowerCase()}` : `already has its ${col.label.toLowerCase()} saved (correct it on the coupon's page)`}.`,
+          bad: true,
+        };
+      const shown = String(Number(units.toDisplay(grams, 'mass').toPrecision(7)));
+      store.setDraft(coupon.id, col.id, shown);
+      const last = r >= store.coupons.length - 1;
+      if (!last) focusCell(r + 1, c);
+      return {
+        text: `${printed} → ${coupon.tag}, ${col.label.toLowerCase()}: ${shown} ${units.label('mass')}${last ? ' (the last coupon of the grid)' : ''}. Not saved yet.`,
+        bad: false,
+      };
+    },
+    [store, units, focusCell],
+  );
+
   const doSave = async () => {
     if (!canEdit || save.isPending) return;
     const sent = store.drafts();
@@ -507,6 +535,7 @@ export function EntryGrid({
           {status?.text}
         </p>
       </div>
+      {canEdit && <BalancePanel onMass={takeBalanceMass} />}
       <ProblemList store={store} onGo={focusCell} />
       <WarningList store={store} runs={runs} onGo={focusCell} />
       <p id="grid-help" className="mb-2 text-xs text-ink-faint">

@@ -22,9 +22,11 @@ interface FormValues {
   cureMax?: number;
   shelfLifeDays?: number;
   notes?: string | null;
+  /** Editing only: why, which the server requires when the change moves measured coupons' results. */
+  reason?: string;
 }
 
-const FIELDS = ['name', 'kind', 'liquidDensityGcm3', 'curedDensityGcm3', 'cureMin', 'cureMax', 'shelfLifeDays', 'notes'] as const;
+const FIELDS = ['name', 'kind', 'liquidDensityGcm3', 'curedDensityGcm3', 'cureMin', 'cureMax', 'shelfLifeDays', 'notes', 'reason'] as const;
 const RENAMED = { cureMinC: 'cureMin', cureMaxC: 'cureMax' };
 
 export function ResinForm({ resin, onDone, onCancel }: { resin: Resin | null; onDone: (name: string) => void; onCancel: () => void }) {
@@ -41,7 +43,8 @@ export function ResinForm({ resin, onDone, onCancel }: { resin: Resin | null; on
   const densityBox = (gcm3: number) => toBox(gcm3 * 1000, 'density', units) ?? undefined;
   const resolver = convertingResolver<FormValues, typeof createResinSchema>(
     createResinSchema,
-    ({ cureMin, cureMax, liquidDensityGcm3, curedDensityGcm3, ...rest }) => ({
+    // The reason is not a field of the resin: the create contract refuses it, and the update takes it beside the fields.
+    ({ cureMin, cureMax, liquidDensityGcm3, curedDensityGcm3, reason: _reason, ...rest }) => ({
       ...rest,
       liquidDensityGcm3: toGcm3(liquidDensityGcm3),
       curedDensityGcm3: toGcm3(curedDensityGcm3),
@@ -72,7 +75,8 @@ export function ResinForm({ resin, onDone, onCancel }: { resin: Resin | null; on
 
   const onSubmit = form.handleSubmit(async (values) => {
     try {
-      if (resin) await update.mutateAsync({ id: resin.id, ...values });
+      const reason = form.getValues('reason')?.trim();
+      if (resin) await update.mutateAsync({ id: resin.id, ...values, ...(reason ? { reason } : {}) });
       else await create.mutateAsync(values);
       onDone(values.name);
     } catch (err) {
@@ -110,6 +114,14 @@ export function ResinForm({ resin, onDone, onCancel }: { resin: Resin | null; on
           />
         </div>
         <TextAreaField label="Notes" registration={form.register('notes', textOrNull)} error={errors.notes?.message} />
+        {resin && (
+          <Field
+            label="Why it changes"
+            registration={form.register('reason')}
+            error={errors.reason?.message}
+            hint="Needed when the change moves measured coupons' results (a new cured density moves their void fill); kept on each such coupon's history."
+          />
+        )}
         <div className="flex gap-2">
           <button type="submit" className="btn-primary" disabled={form.formState.isSubmitting}>
             {resin ? 'Save the changes' : 'Add the resin'}

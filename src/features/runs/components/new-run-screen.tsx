@@ -20,6 +20,7 @@ import { trialCouponsQuery, trialListQuery } from '../../../lib/queries/records'
 import { useUnits } from '../../../lib/use-units';
 import { useCreateRun } from '../api/use-create-run';
 import { paths } from '../../../config/paths';
+import { LotSelect } from './lot-select';
 
 // A refused coupon (taken by another run meanwhile) has no box of its own; its message shows above the form.
 const FIELDS = ['code', 'chamber', 'resinLotId', 'altitude', 'notes'] as const;
@@ -32,15 +33,6 @@ interface NewRunValues {
   /** In the user's altitude unit. */
   altitude: number | null;
   notes: string;
-}
-
-/** The plain words on a lot's age, beside the pick: past its shelf life, close to it, or not active. */
-export function lotWarning(lot: Pick<ResinLot, 'expired' | 'expiringSoon' | 'expiresOn' | 'ageDays' | 'shelfLifeDays' | 'status'>): string | null {
-  if (lot.expired)
-    return `Warning: this lot is past its ${lot.shelfLifeDays}-day shelf life (${lot.ageDays} days old, expired ${lot.expiresOn}). Resin past its shelf life may not cure fully.`;
-  if (lot.expiringSoon) return `Warning: this lot reaches its ${lot.shelfLifeDays}-day shelf life on ${lot.expiresOn} (${lot.ageDays} days old).`;
-  if (lot.status !== 'active') return `Warning: this lot is marked ${lot.status}.`;
-  return null;
 }
 
 /** A picked coupon as the warnings need it: the coupon answer keeps its condition and its planned resin. */
@@ -91,7 +83,6 @@ export function NewRunScreen() {
   const altitude = form.watch('altitude');
   const lotId = Number(form.watch('resinLotId')) || null;
   const lot = lots.data?.items.find((l) => l.id === lotId);
-  const warning = lot ? lotWarning(lot) : null;
   const pickedList = useMemo(() => [...picked.values()], [picked]);
   const contradictions = useMemo(() => newRunWarnings(lot, pickedList), [lot, pickedList]);
   const gate = useGoOnAnyway(contradictions);
@@ -132,44 +123,14 @@ export function NewRunScreen() {
             hint="Left empty, the next code of the year is given."
           />
         </div>
-        <div className="mb-4">
-          <label htmlFor="run-lot" className="field-label">
-            Resin lot
-          </label>
-          <select
-            id="run-lot"
-            className="field-input"
-            aria-invalid={errors.resinLotId ? true : undefined}
-            aria-describedby={[warning ? 'run-lot-warning' : '', errors.resinLotId ? 'run-lot-error' : ''].filter(Boolean).join(' ') || undefined}
-            {...form.register('resinLotId')}
-            disabled={lots.isPending}
-          >
-            <option value="">No lot yet</option>
-            {lots.data?.items.map((l) => (
-              <option key={l.id} value={l.id}>
-                {l.code} · {l.resinName} · activated {l.activatedAt.slice(0, 10)}
-                {l.expired ? ' (past shelf life)' : l.expiringSoon ? ' (expires soon)' : ''}
-                {l.status !== 'active' ? ` (${l.status})` : ''}
-              </option>
-            ))}
-          </select>
-          {lots.isError && <ErrorNote error={lots.error} />}
-          {warning && (
-            <p id="run-lot-warning" className="mt-1 rounded border border-amber-ink px-2 py-1 text-sm text-amber-ink">
-              {warning}
-            </p>
-          )}
-          {lot && lot.speciesThroughLot.length > 0 && (
-            <p className="mt-1 text-xs text-ink-soft">
-              Species already through this lot: {lot.speciesThroughLot.join(', ')}. Dark, tannin-rich woods can stain a lot that later serves pale woods.
-            </p>
-          )}
-          {errors.resinLotId && (
-            <p id="run-lot-error" role="alert" className="mt-1 text-sm text-margin">
-              {errors.resinLotId.message}
-            </p>
-          )}
-        </div>
+        <LotSelect
+          id="run-lot"
+          lots={lots}
+          registration={form.register('resinLotId')}
+          pickedId={lotId}
+          error={errors.resinLotId?.message}
+          emptyLabel="No lot yet"
+        />
         <NumberField
           form={form}
           name="altitude"

@@ -20,6 +20,7 @@ import { CautionNote } from './caution-note';
 import { RuleChecks } from './rule-checks';
 import { CorrectStageForm } from './correct-stage-form';
 import { RunHistoryPanel } from './run-history';
+import { RunDetailsForm } from './run-details-form';
 import { gaugeNote, StageForm } from './stage-form';
 import { DueTime, dateTime, formatSpan } from './time-text';
 import { paths } from '../../../config/paths';
@@ -257,6 +258,9 @@ export function RunScreen() {
   const now = useNow();
   const focus = search.get('stage');
   const focusStage = RUN_STAGES.find((s) => s === focus) ?? null;
+  const { can } = useRole();
+  const [editing, setEditing] = useState(false);
+  const [detailsNotice, setDetailsNotice] = useState<string | null>(null);
 
   const loadedId = run.data?.id;
   useEffect(() => {
@@ -292,6 +296,18 @@ export function RunScreen() {
       title={`Run ${r.code}`}
       actions={
         <>
+          {can('technician') && !editing && (
+            <button
+              type="button"
+              className="btn-quiet"
+              onClick={() => {
+                setDetailsNotice(null);
+                setEditing(true);
+              }}
+            >
+              Change details…
+            </button>
+          )}
           <Link to={paths.compare.href({ runId: r.id })} className="btn-quiet no-underline">
             Results in Compare
           </Link>
@@ -301,6 +317,19 @@ export function RunScreen() {
         </>
       }
     >
+      <p role="status" className="mb-2 text-sm text-moss">
+        {detailsNotice}
+      </p>
+      {editing && (
+        <RunDetailsForm
+          run={r}
+          onDone={(message) => {
+            setEditing(false);
+            setDetailsNotice(message);
+          }}
+          onCancel={() => setEditing(false)}
+        />
+      )}
       <dl className="mb-6 grid gap-x-6 gap-y-1 text-sm sm:grid-cols-[auto_1fr_auto_1fr]">
         <dt className="text-ink-soft">Chamber</dt>
         <dd>{r.chamber}</dd>

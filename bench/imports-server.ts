@@ -1,0 +1,240 @@
+import { spawn } from 'node:child_process';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { openDatabase, type Database_ } from '../server/db/client';
+import { species } from '../server/db/schema/reference';
+import { rebuildResults } from '../server/measurements/results';
+import { DEMO_PASSWORD, seedDemo } from '../server/seed';
+import { CSRF_HEADER, CSRF_VALUE } from '../shared/constants/errors';
+
+// The import of a generated scale file by a server ALONE: the app started as `npm start` starts it, in a
+// child process on a temp DATA_DIR holding N coupons, driven over HTTP from this process. Its resident
+// memory and CPU are read from /proc (Linux), so neither the test client nor the file in this process is
+// counted; /api/health is asked every 50 ms from here, so its answer times show what another user waits.
+// Run alone: `npx tsx bench/imports-server.ts` (also run by server/features/imports/imports.bench.ts).
+
+export const tagOf = (i: number) => `BX-${String(i).padStart(6, '0')}`;
+
+/** A scale file of n readings (tag, mass, unit, date, time), one per coupon, CRLF as a PC's software writes it. */
+export function scaleFile(n: number): string {
+  return [
+    'tag,mass,unit,date,time',
+    ...Array.from(
+      { length: n },
+      (_, i) =>
+        `${tagOf(i)},${(10 + (i % 997) / 100).toFixed(3)},g,2026-03-02,${String(8 + (Math.floor(i / 3600) % 12)).padStart(2, '0')}:${String(Math.floor(i / 60) % 60).padStart(2, '0')}:${String(i % 60).padStart(2, '0')}`,
+    ),
+  ].join('\r\n');
+}
+
+/** n treated coupons of the first species, tagged as scaleFile tags them, in one transaction. */
+export function addCoupons(d: Database_, n: number) {
+  const sp = d.db.select({ id: species.id }).from(species).limit(1).get()!.id;
+  const ins = d.sqlite.prepare("insert into coupons (tag, species_id, role) values (?, ?, 'treated')");
+  d.sqlite.transaction(() => {
+    for (let i = 0; i < n; i++) ins.run(tagOf(i), sp);
+  })();
+}
+
+export interface ServerFigures {
+  rows: number;
+  /** Resident memory of the server process: idle after start, highest during the import, the kernel's high-water mark. */
+  rssIdleMb: number;
+  rssPeakMb: number;
+  rssHighWaterMb: number;
+  /** The highest resident memory seen in each phase. */
+  rssPeakByPhaseMb: Record<'upload' | 'preview' | 'commit', number>;
+  /** Wall time and the server's CPU time (all its threads) per phase. */
+  ms: { upload: number; preview: number; commit: number; total: number };
+  cpuMs: { upload: number; preview: number; commit: number };
+  /** The CPU time of the main thread alone (the one that answers requests): the commit's transaction is in a worker thread. */
+  mainCpuMs: { upload: number; preview: number; commit: number };
+  /** /api/health asked every 50 ms from this process, per phase: answers, the slowest, how many said `busy`. */
+  health: Record<'upload' | 'preview' | 'commit', { answers: number; slowestMs: number; busy: number }>;
+}
+
+const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
+
+function procStatus(pid: number): { rss: number; hwm: number } {
+  const s = fs.readFileSync(`/proc/${pid}/status`, 'utf8');
+  const kb = (k: string) => Number(new RegExp(`${k}:\\s+(\\d+) kB`).exec(s)?.[1] ?? NaN) * 1024;
+  return { rss: kb('VmRSS'), hwm: kb('VmHWM') };
+}
+
+/** utime + stime of the process (all threads), or of its main thread with `mainOnly`, in ms. */
+function procCpuMs(pid: number, mainOnly = false): number {
+  const stat = fs.readFileSync(mainOnly ? `/proc/${pid}/task/${pid}/stat` : `/proc/${pid}/stat`, 'utf8');
+  const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
+  return ((Number(fields[11]) + Number(fields[12])) * 1000) / 100; // clock ticks, 100 per second on Linux
+}
+
+export async function measureServerAlone(n = 100_000, port = Number(process.env.BENCH_PORT ?? 3800)): Promise<ServerFigures> {
+  const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'lumenbook-import-server-'));
+  const db = openDatabase(path.join(dataDir, 'lumenbook.db'));
+  seedDemo(db, { bcryptCost: 4 });
+  addCoupons(db, n);
+  db.db.transaction((tx) => rebuildResults(tx));
+  db.close();
+  const bytes = Buffer.from(`${scaleFile(n)}\r\n`);
+
+  const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
+    cwd: root,
+    env: { ...process.env, NODE_ENV: 'development', DATA_DIR: dataDir, PORT: String(port), HOST: '127.0.0.1', DEMO_DATA: 'true', LOG_LEVEL: 'warn' },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  const pid = child.pid!;
+  try {
+    await new Promise<void>((resolve, reject) => {
+      let out = '';
+      child.stdout!.on('data', (d: Buffer) => {
+        out += d.toString();
+        if (out.includes('Lumenbook is serving')) resolve();
+      });
+      child.stderr!.on('data', (d: Buffer) => (out += d.toString()));
+      child.once('exit', (code) => reject(new Error(`the server exited with ${code}: ${out}`)));
+    });
+    const base = `http://127.0.0.1:${port}`;
+    const login = await fetch(`${base}/api/auth/login`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json', [CSRF_HEADER]: CSRF_VALUE },
+      body: JSON.stringify({ email: 'tech@demo.test', password: DEMO_PASSWORD }),
+    });
+    if (login.status !== 200) throw new Error(`sign-in failed: ${login.status}`);
+    const cookie = login.headers
+      .getSetCookie()
+      .map((c) => c.split(';')[0])
+      .join('; ');
+    const headers = { cookie, [CSRF_HEADER]: CSRF_VALUE };
+    const json = async (res: Response) => {
+      const body = (await res.json()) as Record<string, unknown>;
+      if (res.status >= 400) throw new Error(`${res.status}: ${JSON.stringify(body)}`);
+      return body;
+    };
+    const settle = async (id: number) => {
+      for (;;) {
+        const b = await json(await fetch(`${base}/api/imports/${id}`, { headers }));
+        if (b.status !== 'previewing' && b.status !== 'committing') return b;
+        await new Promise((r) => setTimeout(r, 50));
+      }
+    };
+
+    // Idle after start (the 100k coupons' tags are not loaded until an import needs them).
+    await new Promise((r) => setTimeout(r, 500));
+    const idle = procStatus(pid).rss;
+    let peak = idle;
+    let phase: 'upload' | 'preview' | 'commit' = 'upload';
+    const health = {
+      upload: { answers: 0, slowestMs: 0, busy: 0 },
+      preview: { answers: 0, slowestMs: 0, busy: 0 },
+      commit: { answers: 0, slowestMs: 0, busy: 0 },
+    };
+    let on = true;
+    const byPhase = { upload: 0, preview: 0, commit: 0 };
+    const sampler = setInterval(() => {
+      const rss = procStatus(pid).rss;
+      peak = Math.max(peak, rss);
+      byPhase[phase] = Math.max(byPhase[phase], rss);
+    }, 20);
+    const poller = (async () => {
+      while (on) {
+        const t0 = performance.now();
+        const res = await fetch(`${base}/api/health`);
+        const body = (await res.json()) as { database: string };
+        const h = health[phase];
+        h.answers++;
+        h.slowestMs = Math.max(h.slowestMs, performance.now() - t0);
+        if (body.database === 'busy') h.busy++;
+        await new Promise((r) => setTimeout(r, 50));
+      }
+    })();
+
+    const ms = { upload: 0, preview: 0, commit: 0, total: 0 };
+    const cpuMs = { upload: 0, preview: 0, commit: 0 };
+    const mainCpuMs = { upload: 0, preview: 0, commit: 0 };
+    let cpu0 = procCpuMs(pid);
+    let main0 = procCpuMs(pid, true);
+    let t0 = performance.now();
+    const start = t0;
+    const lap = (name: 'upload' | 'preview' | 'commit') => {
+      const t = performance.now();
+      ms[name] = t - t0;
+      t0 = t;
+      const c = procCpuMs(pid);
+      cpuMs[name] = c - cpu0;
+      cpu0 = c;
+      const m = procCpuMs(pid, true);
+      mainCpuMs[name] = m - main0;
+      main0 = m;
+    };
+    const form = new FormData();
+    form.append('file', new Blob([bytes], { type: 'text/csv' }), 'bench-server.csv');
+    const d = await json(await fetch(`${base}/api/imports`, { method: 'POST', headers, body: form }));
+    const s = (d.detected as { suggested: Record<string, number | null> }).suggested;
+    const mapping = {
+      format: { encoding: 'utf-8', delimiter: ',', hasHeader: true, decimal: '.', dateOrder: 'ymd' },
+      target: { mode: 'tag', tagColumn: s.tagColumn },
+      massColumn: s.massColumn,
+      unitColumn: s.unitColumn,
+      dateColumn: s.dateColumn,
+      timeColumn: s.timeColumn,
+      stage: 'dry',
+    };
+    lap('upload');
+    phase = 'preview';
+    const post = (url: string, body: unknown) =>
+      fetch(`${base}${url}`, { method: 'POST', headers: { ...headers, 'content-type': 'application/json' }, body: JSON.stringify(body) }).then(json);
+    await post(`/api/imports/${d.id}/preview`, { mapping });
+    await settle(d.id as number);
+    lap('preview');
+    phase = 'commit';
+    await post(`/api/imports/${d.id}/commit`, { mapping });
+    const c = await settle(d.id as number);
+    lap('commit');
+    ms.total = performance.now() - start;
+    on = false;
+    await poller;
+    clearInterval(sampler);
+    const counts = c.counts as { accepted: number };
+    if (c.status !== 'committed' || counts.accepted !== n) throw new Error(`commit ended ${String(c.status)}: ${String(c.error)} ${JSON.stringify(c.counts)}`);
+    const mb = (b: number) => Math.round(b / 1024 / 1024);
+    return {
+      rows: n,
+      rssIdleMb: mb(idle),
+      rssPeakMb: mb(peak),
+      rssHighWaterMb: mb(procStatus(pid).hwm),
+      rssPeakByPhaseMb: { upload: mb(byPhase.upload), preview: mb(byPhase.preview), commit: mb(byPhase.commit) },
+      ms,
+      cpuMs,
+      mainCpuMs,
+      health,
+    };
+  } finally {
+    if (child.exitCode === null) {
+      const exited = new Promise((r) => child.once('exit', r));
+      child.kill('SIGTERM');
+      await exited;
+    }
+    fs.rmSync(dataDir, { recursive: true, force: true });
+  }
+}
+
+export function describeServerFigures(f: ServerFigures): string {
+  const r = (x: number) => x.toFixed(0);
+  const h = (p: keyof ServerFigures['health']) =>
+    `${p} ${f.health[p].answers} answers, slowest ${r(f.health[p].slowestMs)} ms${f.health[p].busy ? ` (${f.health[p].busy} said busy)` : ''}`;
+  return [
+    `server alone (a child process, ${f.rows} readings over HTTP):`,
+    `  wall: upload+detect ${r(f.ms.upload)} ms, preview ${r(f.ms.preview)} ms, commit ${r(f.ms.commit)} ms, total ${r(f.ms.total)} ms`,
+    `  server CPU (all threads): upload+detect ${r(f.cpuMs.upload)} ms, preview ${r(f.cpuMs.preview)} ms, commit ${r(f.cpuMs.commit)} ms`,
+    `  server CPU of its main thread: upload+detect ${r(f.mainCpuMs.upload)} ms, preview ${r(f.mainCpuMs.preview)} ms, commit ${r(f.mainCpuMs.commit)} ms (the rest of the commit is its worker thread)`,
+    `  RSS: ${f.rssIdleMb} MB idle after start, ${f.rssPeakMb} MB at its highest during the import (upload ${f.rssPeakByPhaseMb.upload}, preview ${f.rssPeakByPhaseMb.preview}, commit ${f.rssPeakByPhaseMb.commit} MB), high-water mark ${f.rssHighWaterMb} MB`,
+    `  /api/health every 50 ms from another process: ${h('upload')}; ${h('preview')}; ${h('commit')}`,
+  ].join('\n');
+}
+
+if (process.argv[1] && path.resolve(process.argv[1]) === fileURLToPath(import.meta.url)) {
+  const n = Number(process.argv[2] ?? 100_000);
+  console.log(describeServerFigures(await measureServerAlone(n)));
+}
