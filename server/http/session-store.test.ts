@@ -8,7 +8,8 @@ const open = () => {
   sqlite.exec('CREATE TABLE sessions (sid TEXT PRIMARY KEY, sess TEXT NOT NULL, user_id INTEGER, expires_at INTEGER NOT NULL)');
   return { sqlite, store: new SqliteSessionStore(sqlite) };
 };
-const stored = (sqlite: Database.Database, sid: string) => (sqlite.prepare('SELECT expires_at AS at FROM sessions WHERE sid = ?').get(sid) as { at: number }).at;
+const stored = (sqlite: Database.Database, sid: string) =>
+  (sqlite.prepare('SELECT expires_at AS at FROM sessions WHERE sid = ?').get(sid) as { at: number }).at;
 const withExpiry = (ms: number) => ({ cookie: { expires: new Date(ms), originalMaxAge: null } }) as never;
 
 describe('session store touch', () => {

@@ -197,7 +197,6 @@ export function couponsWaitingOfRuns(
   return out;
 }
 
-
 export function findCouponsByIds(db: Db, ids: number[]) {
   if (ids.length === 0) return [];
   return db.select({ id: coupons.id, tag: coupons.tag, role: coupons.role, runId: coupons.runId }).from(coupons).where(inArray(coupons.id, ids)).all();
