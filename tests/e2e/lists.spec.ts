@@ -16,7 +16,16 @@ async function columnNumbers(table: Locator, index: number): Promise<number[]> {
 }
 
 test('the coupon list walks forward by the cursor of each page and back by number', async ({ page }) => {
-  await page.goto('/coupons');
+  // 55 coupons of our own, so their search shows two pages of 50 whatever else the demo holds.
+  const species = await (await page.request.get('/api/species/options?limit=1')).json();
+  for (let i = 1; i <= 55; i++) {
+    const made = await page.request.post('/api/coupons', {
+      headers: { 'x-lumenbook-csrf': '1' },
+      data: { tag: `PGW-${String(i).padStart(3, '0')}`, speciesId: species.items[0].id, role: 'control' },
+    });
+    expect([201, 409]).toContain(made.status());
+  }
+  await page.goto('/coupons?q=PGW-');
   await expect(page.getByRole('heading', { level: 1, name: 'Coupons' })).toBeVisible();
   const table = page.getByRole('table', { name: 'Coupons matching the filters' });
   const pager = page.getByRole('navigation', { name: 'Pages of coupons' });
