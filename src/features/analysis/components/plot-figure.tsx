@@ -158,14 +158,16 @@ export function PlotFigure({
   const headingId = useId();
   const near = useNearViewport(holder);
   const [drawnBuild, setDrawnBuild] = useState<(() => Element) | null>(null);
+  const drawnTitle = useRef<string | null>(null);
 
-  /** Builds the chart now (if this build is not the one shown) and puts it in place; returns it. */
+  /** Builds the chart now (unless this build and title are the ones shown) and puts it in place; returns it. */
   const draw = useCallback(() => {
-    if (chart.current && chart.current.isConnected && drawnBuild === build) return chart.current;
+    if (chart.current && chart.current.isConnected && drawnBuild === build && drawnTitle.current === title) return chart.current;
     const el = build();
     makeAccessible(el, title, captionId);
     holder.current?.replaceChildren(el);
     chart.current = el;
+    drawnTitle.current = title;
     setDrawnBuild(() => build);
     return el;
   }, [build, title, captionId, drawnBuild]);
