@@ -1,6 +1,13 @@
+import { createRequire } from 'node:module';
 import * as Plot from '@observablehq/plot';
-import { JSDOM } from 'jsdom';
+import type { JSDOM as JsdomClass } from 'jsdom';
 import { sanitizeSvg } from '../../markdown/render';
+
+// jsdom is loaded on the first plot drawn, not at start: it adds ~95 MB to the server's resident memory,
+// and most processes never freeze a finding's plot. `require` keeps this function synchronous.
+const require = createRequire(import.meta.url);
+let jsdom: typeof JsdomClass | null = null;
+const JSDOM = () => (jsdom ??= (require('jsdom') as { JSDOM: typeof JsdomClass }).JSDOM);
 
 interface Point {
   x: number;
@@ -24,7 +31,7 @@ export function plotSvgFromSnapshot(snapshot: Record<string, unknown>): string |
   const plot = snapshot.plot as { spec?: { x?: { label?: string }; y?: { label?: string }; caption?: string }; data?: { points?: unknown[] } } | undefined;
   const points = (plot?.data?.points ?? []).filter(isPoint);
   if (points.length === 0) return null;
-  const { window } = new JSDOM('<!doctype html><html><body></body></html>');
+  const { window } = new (JSDOM())('<!doctype html><html><body></body></html>');
   const figure = Plot.plot({
     document: window.document,
     width: 640,

@@ -264,7 +264,18 @@ export function createImportsService(deps: FeatureDeps) {
    */
   async function collect(r: ImportRow, mapping: ImportMapping, onProgress: (f: number) => void): Promise<Collected> {
     const byTag = new Map<string, CouponKey>();
-    const byUpper = new Map<string, CouponKey | null>();
+    // Tags in any case, built at the first tag that does not match exactly (most files match exactly).
+    let byUpper: Map<string, CouponKey | null> | null = null;
+    const upper = () => {
+      if (!byUpper) {
+        byUpper = new Map();
+        for (const k of byTag.values()) {
+          const u = k.tag.toUpperCase();
+          byUpper.set(u, byUpper.has(u) ? null : k);
+        }
+      }
+      return byUpper;
+    };
     let sequence: CouponKey[] = [];
     if (mapping.target.mode === 'tag') {
       // Page by page with a turn of the event loop between: 100,000 tags at once held it ~0.3 s.
@@ -272,8 +283,6 @@ export function createImportsService(deps: FeatureDeps) {
         const page = couponKeysAfter(db, after, KEYS_PAGE);
         for (const k of page) {
           byTag.set(k.tag, k);
-          const u = k.tag.toUpperCase();
-          byUpper.set(u, byUpper.has(u) ? null : k);
         }
         if (page.length < KEYS_PAGE) break;
         after = (page[page.length - 1] as CouponKey).id;
@@ -333,7 +342,7 @@ export function createImportsService(deps: FeatureDeps) {
         const rowProblems: (RowProblem & { suggestions?: string[] })[] = read.problems;
         let coupon: CouponKey | null | undefined;
         if (mapping.target.mode === 'tag' && read.tag) {
-          coupon = byTag.get(read.tag) ?? byUpper.get(read.tag.toUpperCase());
+          coupon = byTag.get(read.tag) ?? upper().get(read.tag.toUpperCase());
           if (!coupon) {
             let sg = suggestionCache.get(read.tag);
             if (!sg) {
@@ -537,7 +546,11 @@ export function createImportsService(deps: FeatureDeps) {
         const input: CommitWorkerInput = { file: deps.database.sqlite.name, job: packJob(job), nowOffsetMs: deps.now().getTime() - Date.now() };
         return new Promise((resolve, reject) => {
           waiting = { resolve, reject };
-          worker.postMessage(input);
+          const c = input.job.collected;
+          const a = input.job.analysis;
+          // The typed arrays move to the worker rather than being copied.
+          const buffers = [c.row, c.couponId, c.role, c.massG, a.accepted, a.corrections].map((t) => t.buffer as ArrayBuffer);
+          worker.postMessage(input, buffers);
         });
       },
       dispose: () => {
@@ -581,6 +594,35 @@ export function createImportsService(deps: FeatureDeps) {
   }
 
   /**
+   * What the commit's worker writes: the preview's readings and judgement when kept, else the file read and
+   * judged again. Null when all-or-nothing was chosen and problems remain (the import goes back to `previewed`).
+   */
+  async function commitJob(actor: User, r: ImportRow, input: CommitImportInput, kept: Kept | null, progress: (f: number) => void): Promise<CommitJob | null> {
+    const { mapping } = input;
+    const id = r.id;
+    const collected = kept?.collected ?? (await collect(r, mapping, progress));
+    const a = kept?.analysis ?? (await judge(mapping, collected, (f) => progress(0.8 + f * 0.1)));
+    const problems = kept?.problems ?? (await finishProblems(r, mapping, a.problems));
+    if (input.choice === 'all-or-nothing' && a.counts.problems > 0) {
+      db.transaction((tx) => {
+        replaceProblems(tx, id, problems);
+        updateImport(tx, id, { status: 'previewed', counts: a.counts, previewRows: a.previewRows, error: blockedMessage(a.counts.problems) });
+      });
+      return null;
+    }
+    return {
+      importId: id,
+      actor: { id: actor.id },
+      mapping,
+      choice: input.choice,
+      file: { originalName: r.originalName, sha256: r.sha256 },
+      collected,
+      analysis: a,
+      problems,
+    };
+  }
+
+  /**
    * Starts the commit job. The readings are collected and judged in chunks while other requests are served
    * (or taken from the preview with the same mapping, if it was the last one and is recent); then ONE
    * transaction, written by a worker thread (`writeCommit`), writes every accepted reading through the
@@ -599,30 +641,16 @@ export function createImportsService(deps: FeatureDeps) {
     const mapping = input.mapping;
     // The job first: if its write is refused (another write holds the database), the preview stays kept.
     beginJob(r, 'committing', mapping);
-    const kept = takeKept(id, mapping);
+    let kept = takeKept(id, mapping);
     runJob(id, async (progress) => {
-      const collected = kept?.collected ?? (await collect(r, mapping, progress));
-      const a = kept?.analysis ?? (await judge(mapping, collected, (f) => progress(0.8 + f * 0.1)));
-      if (input.choice === 'all-or-nothing' && a.counts.problems > 0) {
-        const problems = kept?.problems ?? (await finishProblems(r, mapping, a.problems));
-        db.transaction((tx) => {
-          replaceProblems(tx, id, problems);
-          updateImport(tx, id, { status: 'previewed', counts: a.counts, previewRows: a.previewRows, error: blockedMessage(a.counts.problems) });
-        });
-        return;
-      }
-      const problems = kept?.problems ?? (await finishProblems(r, mapping, a.problems));
+      let job: CommitJob | null = await commitJob(actor, r, input, kept, progress);
+      kept = null;
+      if (!job) return;
       progress(0.9);
-      await takeWorker(id).run({
-        importId: id,
-        actor: { id: actor.id },
-        mapping,
-        choice: input.choice,
-        file: { originalName: r.originalName, sha256: r.sha256 },
-        collected,
-        analysis: a,
-        problems,
-      });
+      const outcome = takeWorker(id).run(job);
+      // Posted: the worker has its own copy. Dropping ours lets this thread's heap shrink while the worker writes.
+      job = null;
+      await outcome;
     });
     return detail(id);
   }
