@@ -8,12 +8,14 @@ export const SCALE_CODES: readonly (HardnessScale | null)[] = [null, 'shore-d', 
  * A set of coupons held column by column: one typed array per number the arithmetic reads, NaN where
  * the coupon has none, position i the same coupon in every column and in `coupons`. The tables, fits,
  * tests and plot samples loop over these arrays, which sit side by side in memory, instead of visiting a
- * hundred thousand objects; `coupons[i]` is read only for what is shown (a drawn point, an excluded
- * coupon, an outlier, a group's names).
+ * hundred thousand objects; `coupon(i)` is asked only for what is shown (a drawn point, an excluded
+ * coupon, an outlier, a group's names), so a set read straight into columns (the server's) makes an
+ * object only for those.
  */
 export interface CouponColumns {
   readonly n: number;
-  readonly coupons: readonly AnalysisCoupon[];
+  /** The coupon at position i as an object (made on demand by a set read into columns). */
+  coupon(i: number): AnalysisCoupon;
   readonly id: Float64Array;
   readonly speciesId: Float64Array;
   /** NaN: no resin. */
@@ -23,11 +25,8 @@ export interface CouponColumns {
   readonly conditionId: Float64Array;
   /** 1 for a control, 0 for a treated coupon. */
   readonly control: Uint8Array;
-  /** Index into `boards`, −1 when no board is named. */
+  /** A number per named board (equal names, equal numbers), negative when no board is named. */
   readonly board: Int32Array;
-  readonly boards: readonly string[];
-  /** Board name → index in `boards`. */
-  readonly boardIndex: ReadonlyMap<string, number>;
   readonly thicknessMm: Float64Array;
   readonly drySg: Float64Array;
   readonly referenceSg: Float64Array;
@@ -45,50 +44,18 @@ export interface CouponColumns {
 
 const nan = (v: number | null): number => (v === null ? Number.NaN : v);
 
-type Writable<T> = { -readonly [K in keyof T]: T[K] };
-
-/** Writes coupon c into position i of every column (boards named for the first time are added). */
-function put(cols: Writable<CouponColumns> & { boards: string[]; boardIndex: Map<string, number> }, i: number, c: AnalysisCoupon): void {
-  cols.id[i] = c.id;
-  cols.speciesId[i] = c.speciesId;
-  cols.resinId[i] = nan(c.resinId);
-  cols.lotId[i] = nan(c.lotId);
-  cols.runId[i] = nan(c.runId);
-  cols.conditionId[i] = nan(c.conditionId);
-  cols.control[i] = c.role === 'control' ? 1 : 0;
-  // An empty name counts as no board, as everywhere else ("coupon.sourceBoard ? … : …").
-  if (c.sourceBoard) {
-    let b = cols.boardIndex.get(c.sourceBoard);
-    if (b === undefined) {
-      b = cols.boards.length;
-      cols.boards.push(c.sourceBoard);
-      cols.boardIndex.set(c.sourceBoard, b);
-    }
-    cols.board[i] = b;
-  } else cols.board[i] = -1;
-  cols.thicknessMm[i] = nan(c.thicknessMm);
-  cols.drySg[i] = nan(c.drySg);
-  cols.referenceSg[i] = nan(c.referenceSg);
-  cols.referenceSgCov[i] = nan(c.referenceSgCov);
-  cols.wpgPct[i] = nan(c.wpgPct);
-  cols.resinLoadingKgM3[i] = nan(c.resinLoadingKgM3);
-  cols.voidFillPct[i] = nan(c.voidFillPct);
-  cols.swellingPct[i] = nan(c.swellingPct);
-  cols.asePct[i] = nan(c.asePct);
-  cols.wrePct[i] = nan(c.wrePct);
-  // A value without a scale (or a scale without a value) is no hardness, as the overview has always read it.
-  const scale = c.hardnessValue === null ? 0 : SCALE_CODES.indexOf(c.hardnessScale);
-  cols.hardnessScale[i] = scale > 0 ? scale : 0;
-  cols.hardnessValue[i] = scale > 0 ? (c.hardnessValue as number) : Number.NaN;
+/** Whether a set of coupons is given as columns (else it is a list of coupons). */
+export function isColumns(rows: readonly AnalysisCoupon[] | CouponColumns): rows is CouponColumns {
+  return !Array.isArray(rows);
 }
 
-/** The columns of a list of coupons (one pass; the list is kept as `coupons`). */
+/** The columns of a list of coupons (one pass; `coupon(i)` is the list's own object). */
 export function columnsOf(coupons: readonly AnalysisCoupon[]): CouponColumns {
   const n = coupons.length;
   const f = () => new Float64Array(n);
   const cols = {
     n,
-    coupons,
+    coupon: (i: number) => coupons[i] as AnalysisCoupon,
     id: f(),
     speciesId: f(),
     resinId: f(),
@@ -97,8 +64,6 @@ export function columnsOf(coupons: readonly AnalysisCoupon[]): CouponColumns {
     conditionId: f(),
     control: new Uint8Array(n),
     board: new Int32Array(n),
-    boards: [] as string[],
-    boardIndex: new Map<string, number>(),
     thicknessMm: f(),
     drySg: f(),
     referenceSg: f(),
@@ -112,19 +77,36 @@ export function columnsOf(coupons: readonly AnalysisCoupon[]): CouponColumns {
     hardnessValue: f(),
     hardnessScale: new Uint8Array(n),
   };
-  for (let i = 0; i < n; i++) put(cols, i, coupons[i] as AnalysisCoupon);
-  return cols;
-}
-
-/**
- * The columns of `coupons`, a list that differs from `old.coupons` only at the positions `changed` (same
- * length, same coupon at every other position): the columns are taken over and those positions written
- * again, so a few corrected coupons cost a few writes, not a pass over every coupon. `old` must not be
- * used afterwards (its arrays now hold the new values).
- */
-export function withChanged(old: CouponColumns, coupons: readonly AnalysisCoupon[], changed: readonly number[]): CouponColumns {
-  if (coupons.length !== old.n) throw new Error('withChanged: the lists differ in length');
-  const cols = { ...old, coupons, boards: old.boards as string[], boardIndex: old.boardIndex as Map<string, number> };
-  for (const i of changed) put(cols, i, coupons[i] as AnalysisCoupon);
+  const boards = new Map<string, number>();
+  for (let i = 0; i < n; i++) {
+    const c = coupons[i] as AnalysisCoupon;
+    cols.id[i] = c.id;
+    cols.speciesId[i] = c.speciesId;
+    cols.resinId[i] = nan(c.resinId);
+    cols.lotId[i] = nan(c.lotId);
+    cols.runId[i] = nan(c.runId);
+    cols.conditionId[i] = nan(c.conditionId);
+    cols.control[i] = c.role === 'control' ? 1 : 0;
+    // An empty name counts as no board, as everywhere else ("coupon.sourceBoard ? … : …").
+    if (c.sourceBoard) {
+      let b = boards.get(c.sourceBoard);
+      if (b === undefined) boards.set(c.sourceBoard, (b = boards.size));
+      cols.board[i] = b;
+    } else cols.board[i] = -1;
+    cols.thicknessMm[i] = nan(c.thicknessMm);
+    cols.drySg[i] = nan(c.drySg);
+    cols.referenceSg[i] = nan(c.referenceSg);
+    cols.referenceSgCov[i] = nan(c.referenceSgCov);
+    cols.wpgPct[i] = nan(c.wpgPct);
+    cols.resinLoadingKgM3[i] = nan(c.resinLoadingKgM3);
+    cols.voidFillPct[i] = nan(c.voidFillPct);
+    cols.swellingPct[i] = nan(c.swellingPct);
+    cols.asePct[i] = nan(c.asePct);
+    cols.wrePct[i] = nan(c.wrePct);
+    // A value without a scale (or a scale without a value) is no hardness, as the overview has always read it.
+    const scale = c.hardnessValue === null ? 0 : SCALE_CODES.indexOf(c.hardnessScale);
+    cols.hardnessScale[i] = scale > 0 ? scale : 0;
+    cols.hardnessValue[i] = scale > 0 ? (c.hardnessValue as number) : Number.NaN;
+  }
   return cols;
 }

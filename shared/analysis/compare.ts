@@ -2,7 +2,7 @@ import { DomainError, welchTest } from '../domain/index';
 import type { WelchResult } from '../domain/index';
 import type { AnalysisCoupon, CompareMetric, CompareResult, GroupSpec } from '../schemas/analysis';
 import { COMPARE_METRIC_LABELS } from '../schemas/analysis';
-import { columnsOf, SCALE_CODES, type CouponColumns } from './columns';
+import { columnsOf, isColumns, SCALE_CODES, type CouponColumns } from './columns';
 import { fmt, fmtP, statsOf } from './stats';
 
 /** Below this many coupons (or boards) per group, a comparison is flagged as too small to say much. */
@@ -156,7 +156,7 @@ function side(label: string, xs: readonly number[], nBoards: number): CompareRes
  * states the trusted result with both n; warnings say when the groups are too small to say much.
  */
 export function compareGroups(rows: readonly AnalysisCoupon[] | CouponColumns, a: GroupSpec, b: GroupSpec, metric: CompareMetric): CompareResult {
-  const cols = 'coupons' in rows ? rows : columnsOf(rows);
+  const cols = isColumns(rows) ? rows : columnsOf(rows);
   const membersA = membersOf(cols, a);
   const membersB = membersOf(cols, b);
   const warnings: string[] = [];
@@ -176,8 +176,8 @@ export function compareGroups(rows: readonly AnalysisCoupon[] | CouponColumns, a
   }
   const va = sideOf(cols, membersA, metric, scale);
   const vb = sideOf(cols, membersB, metric, scale);
-  const labelA = groupLabel(a, membersA.length ? [cols.coupons[membersA[0] as number] as AnalysisCoupon] : [], 'group A');
-  const labelB = groupLabel(b, membersB.length ? [cols.coupons[membersB[0] as number] as AnalysisCoupon] : [], 'group B');
+  const labelA = groupLabel(a, membersA.length ? [cols.coupon(membersA[0] as number)] : [], 'group A');
+  const labelB = groupLabel(b, membersB.length ? [cols.coupon(membersB[0] as number)] : [], 'group B');
   const inB = new Set(vb.at);
   let overlap = 0;
   for (const p of va.at) if (inB.has(p)) overlap++;

@@ -1,7 +1,7 @@
 import { DEFAULT_CELL_WALL_DENSITY, DomainError, fitLinear, fitMultipleColumns, maxWeightPercentGain } from '../domain/index';
 import type { LinearFit } from '../domain/index';
 import { DEFAULT_SG_COV, SG_WARNING_SDS, sgWarningText } from '../coupons/plausibility';
-import type { AnalysisCoupon, Fit, Outlier, Overview } from '../schemas/analysis';
+import type { Fit, Outlier, Overview } from '../schemas/analysis';
 import type { CouponColumns } from './columns';
 import { fitThroughOrigin, fmt, t975 } from './stats';
 
@@ -154,7 +154,7 @@ export function findOutliers(pts: Points, fit: SimpleFitResult | null): Outlier[
       const h = 1 / n + ((x - xMean) * (x - xMean)) / sxx;
       const z = (y - expected) / (linear.residualSd * Math.sqrt(Math.max(1 - h, 1e-12)));
       if (Math.abs(z) > RESIDUAL_OUTLIER_Z) {
-        const c = cols.coupons[pts.at[i] as number] as AnalysisCoupon;
+        const c = cols.coupon(pts.at[i] as number);
         out.push({
           id: c.id,
           tag: c.tag,
@@ -174,7 +174,7 @@ export function findOutliers(pts: Points, fit: SimpleFitResult | null): Outlier[
     const cov = given === given ? given : DEFAULT_SG_COV;
     const z = (drySg - referenceSg) / (cov * referenceSg);
     if (Math.abs(z) > SG_WARNING_SDS) {
-      const c = cols.coupons[i] as AnalysisCoupon;
+      const c = cols.coupon(i);
       out.push({
         id: c.id,
         tag: c.tag,
@@ -205,7 +205,7 @@ export function theoreticalMax(pts: Points): Overview['theoreticalMax'] {
     const resinId = cols.resinId[p] as number;
     let e = byId.get(resinId);
     if (e === undefined) {
-      const c = cols.coupons[p] as AnalysisCoupon;
+      const c = cols.coupon(p);
       const d = c.resinDensityGcm3;
       if (d === null || c.resinName === null) e = null;
       else {

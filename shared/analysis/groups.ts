@@ -75,7 +75,7 @@ export function speciesResinGroups(cols: CouponColumns, included: readonly numbe
   };
   const rows: GroupRow[] = [];
   for (const list of groups.values()) {
-    const first = cols.coupons[list[0] as number] as AnalysisCoupon;
+    const first = cols.coupon(list[0] as number);
     // One pass over the group for every column of the table.
     const wpg: number[] = [];
     const loading: number[] = [];

@@ -1,5 +1,5 @@
 import type { AnalysisCoupon, Overview, PlotPoint, PointSet, SgBasis } from '../schemas/analysis';
-import { columnsOf, SCALE_CODES, type CouponColumns } from './columns';
+import { columnsOf, isColumns, SCALE_CODES, type CouponColumns } from './columns';
 import { exclusionReasons, speciesResinGroups } from './groups';
 import { findOutliers, multipleFit, simpleFit, theoreticalMax, type Points, type SimpleFitResult } from './fits';
 import { MAX_PLOT_POINTS, thinPositions } from './thin';
@@ -35,7 +35,7 @@ function drawn(cols: CouponColumns, at: readonly number[], max: number, keep: Re
 /** Plot points for the drawn positions only (all when `drawnAt` is null). */
 function pointSet(pts: Points, drawnAt: number[] | null, xy: (i: number) => [number, number] = (i) => [pts.x[i] as number, pts.y[i] as number]): PointSet {
   const total = pts.at.length;
-  const toPoint = (i: number) => point(pts.cols.coupons[pts.at[i] as number] as AnalysisCoupon, ...xy(i));
+  const toPoint = (i: number) => point(pts.cols.coupon(pts.at[i] as number), ...xy(i));
   if (drawnAt === null) return { points: pts.at.map((_p, i) => toPoint(i)), total, shown: total, method: 'all' };
   const points = drawnAt.map(toPoint);
   return { points, total, shown: points.length, method: 'thinned' };
@@ -56,7 +56,7 @@ function every(at: number[], max: number): number[] {
  * and the plot data (thinned above `maxPoints`). Takes the coupons or their columns (columns.ts).
  */
 export function buildOverview(rows: readonly AnalysisCoupon[] | CouponColumns, sgBasis: SgBasis, maxPoints = MAX_PLOT_POINTS): Overview {
-  return overviewOf('coupons' in rows ? rows : columnsOf(rows), sgBasis, maxPoints);
+  return overviewOf(isColumns(rows) ? rows : columnsOf(rows), sgBasis, maxPoints);
 }
 
 /**
@@ -65,7 +65,7 @@ export function buildOverview(rows: readonly AnalysisCoupon[] | CouponColumns, s
  * shown — a drawn point, an excluded coupon, an outlier — never one per coupon.
  */
 function overviewOf(cols: CouponColumns, sgBasis: SgBasis, maxPoints: number): Overview {
-  const { n, coupons } = cols;
+  const { n } = cols;
   const sgCol = sgBasis === 'measured' ? cols.drySg : cols.referenceSg;
   const included: number[] = [];
   const controls: number[] = [];
@@ -91,7 +91,7 @@ function overviewOf(cols: CouponColumns, sgBasis: SgBasis, maxPoints: number): O
     const sg = sgCol[i] as number;
     const wpg = cols.wpgPct[i] as number;
     if (wpg !== wpg || sg !== sg) {
-      const c = coupons[i] as AnalysisCoupon;
+      const c = cols.coupon(i);
       excluded.push({ id: c.id, tag: c.tag, reasons: exclusionReasons(c, sgBasis) });
       continue;
     }
@@ -132,7 +132,7 @@ function overviewOf(cols: CouponColumns, sgBasis: SgBasis, maxPoints: number): O
   })();
   const byRole = (c: AnalysisCoupon) => (c.role === 'control' ? 'control' : (c.resinName ?? '—'));
   const hardness: Overview['plots']['hardness'] = every(hardAt, maxPoints).map((i) => {
-    const c = coupons[i] as AnalysisCoupon;
+    const c = cols.coupon(i);
     return {
       id: c.id,
       tag: c.tag,
@@ -144,7 +144,7 @@ function overviewOf(cols: CouponColumns, sgBasis: SgBasis, maxPoints: number): O
     };
   });
   const swelling: Overview['plots']['swelling'] = every(swellAt, maxPoints).map((i) => {
-    const c = coupons[i] as AnalysisCoupon;
+    const c = cols.coupon(i);
     return {
       id: c.id,
       tag: c.tag,

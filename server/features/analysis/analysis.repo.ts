@@ -9,6 +9,7 @@ import { runs } from '../../db/schema/runs';
 import type { HardnessScale } from '../../../shared/constants/records';
 import { antiSwell } from '../../../shared/coupons/metrics';
 import { referenceOvenDrySg } from '../../../shared/coupons/plausibility';
+import type { CouponColumns } from '../../../shared/analysis/columns';
 import type { AnalysisCoupon, AnalysisFilters, GroupSpec } from '../../../shared/schemas/analysis';
 
 const cr = couponResults;
@@ -49,38 +50,71 @@ const HARDNESS_SCALE = `case when cr.role = 'treated'
               when cr.hardness_cured_janka_n is not null then 2 when cr.hardness_cured_brinell_hb is not null then 3 end end`;
 
 /**
- * Columns read per coupon, in this order. Each comes back as ONE JSON array over all matching rows
+ * Columns read per coupon, by name. Each comes back as ONE JSON array over all matching rows
  * (json_group_array), so better-sqlite3 hands over a few long strings instead of a hundred thousand row
  * arrays, and JSON.parse turns them into plain arrays in native code. SQLite writes reals with 17
- * significant digits, so every double round-trips exactly. Names (species, resin, run code) are joined in
+ * significant digits, so every double round-trips exactly. A number column that may be null is sent
+ * as its values with 0 for null (an array of numbers only, which V8 keeps unboxed, so no heap object per
+ * value) and, beside it, the coupon ids where it is null. Names (species, resin, run code) are joined in
  * JavaScript from small maps, not per row in SQL.
  */
-const COLUMNS = [
-  'cr.coupon_id',
-  'cr.tag',
-  'cr.trial_id',
-  'cr.condition_id',
-  'cr.run_id',
-  'cr.species_id',
-  'cr.resin_id',
-  'cr.resin_lot_id',
-  "cr.role = 'control'",
-  'cr.source_board',
-  'cr.thickness_mm',
-  'cr.dry_mass_g',
-  'cr.cured_mass_g',
-  'cr.dry_sg',
-  'cr.wpg_pct',
-  'cr.resin_loading_kg_m3',
-  'cr.void_fill_pct',
-  'cr.max_wpg_pct',
-  'cr.swelling_pct',
-  "case cr.swelling_basis when 'volume' then 1 when 'mass' then 2 end",
-  HARDNESS_VALUE,
-  HARDNESS_SCALE,
+const NUMBERS = {
+  id: 'cr.coupon_id',
+  speciesId: 'cr.species_id',
+  control: "cr.role = 'control'",
+  swellingBasis: "case cr.swelling_basis when 'volume' then 1 when 'mass' then 2 else 0 end",
+  hardnessScale: `coalesce(${HARDNESS_SCALE}, 0)`,
+} as const;
+const NULLABLE = {
+  trialId: 'cr.trial_id',
+  conditionId: 'cr.condition_id',
+  runId: 'cr.run_id',
+  resinId: 'cr.resin_id',
+  lotId: 'cr.resin_lot_id',
+  thicknessMm: 'cr.thickness_mm',
+  dryMassG: 'cr.dry_mass_g',
+  curedMassG: 'cr.cured_mass_g',
+  drySg: 'cr.dry_sg',
+  wpgPct: 'cr.wpg_pct',
+  resinLoadingKgM3: 'cr.resin_loading_kg_m3',
+  voidFillPct: 'cr.void_fill_pct',
+  maxWpgPct: 'cr.max_wpg_pct',
+  swellingPct: 'cr.swelling_pct',
+  hardnessValue: HARDNESS_VALUE,
+} as const;
+const STRINGS = {
+  tag: 'cr.tag',
+  sourceBoard: 'cr.source_board',
   // The blank reasons are read only where there are some.
-  'case when cr.problem_count > 0 then cr.problems end',
-] as const;
+  problems: 'case when cr.problem_count > 0 then cr.problems end',
+} as const;
+type NumberName = keyof typeof NUMBERS;
+type NullableName = keyof typeof NULLABLE;
+type StringName = keyof typeof STRINGS;
+
+/** The read statement's SELECT over the filtered, ordered rows, and the order of its results. */
+function readSql(where: string): { sql: string; order: string[] } {
+  const inner: string[] = [];
+  const outer: string[] = [];
+  const order: string[] = [];
+  for (const [name, expr] of Object.entries(NUMBERS)) {
+    inner.push(`${expr} as ${name}`);
+    outer.push(`json_group_array(${name})`);
+    order.push(name);
+  }
+  for (const [name, expr] of Object.entries(NULLABLE)) {
+    inner.push(`${expr} as ${name}`);
+    outer.push(`json_group_array(coalesce(${name}, 0))`, `json_group_array(id) filter (where ${name} is null)`);
+    order.push(name, `${name}:null`);
+  }
+  for (const [name, expr] of Object.entries(STRINGS)) {
+    inner.push(`${expr} as ${name}`);
+    outer.push(`json_group_array(${name})`);
+    order.push(name);
+  }
+  // The ordered subquery is not flattened into an aggregate, so the arrays come out in coupon id order.
+  return { sql: `select ${outer.join(', ')} from (select ${inner.join(', ')} from coupon_results cr ${where} order by cr.coupon_id)`, order };
+}
 
 /**
  * When each run treated its coupons (YYYY-MM-DD, UTC): the day its cure began, or its soak when no cure
@@ -171,33 +205,6 @@ function rawWhere(
   return { clause: w.length ? `where ${w.join(' and ')}` : '', params };
 }
 
-type Col<T> = (T | null)[];
-type Columns = [
-  number[],
-  string[],
-  Col<number>,
-  Col<number>,
-  Col<number>,
-  number[],
-  Col<number>,
-  Col<number>,
-  number[],
-  Col<string>,
-  Col<number>,
-  Col<number>,
-  Col<number>,
-  Col<number>,
-  Col<number>,
-  Col<number>,
-  Col<number>,
-  Col<number>,
-  Col<number>,
-  Col<number>,
-  Col<number>,
-  Col<number>,
-  Col<string>,
-];
-
 function sqliteOf(db: Db): Database.Database {
   // The Drizzle handle made by openDatabase carries its better-sqlite3 connection.
   return (db as Db & { $client: Database.Database }).$client;
@@ -218,27 +225,159 @@ function prepare(sqlite: Database.Database, sqlText: string): Database.Statement
 }
 
 /**
- * The results rows matching the filters, as the analysis sees them, in coupon id order: one statement
- * over coupon_results, read column by column; with `groups`, only the coupons in one of the groups; with
- * `onlyIds`, only those coupons (to bring a held set up to date after a few writes). ASE is taken
- * against the controls of the same trial and species whatever the filters (a role filter must not remove
- * the controls a treated coupon is judged against).
+ * A set of coupons read into columns (shared/analysis/columns.ts), with what else an object of it holds:
+ * tags and blank reasons per coupon, and names by id (species, resins, runs and their dates, current at
+ * the read). `coupon(i)` makes the object the analysis sees; nothing else makes one per coupon.
  */
-export function loadAnalysisCoupons(db: Db, f: AnalysisFilters, groups?: readonly GroupSpec[], onlyIds?: readonly number[]): AnalysisCoupon[] {
+export interface CouponTable extends CouponColumns {
+  readonly trialId: Float64Array;
+  readonly dryMassG: Float64Array;
+  readonly curedMassG: Float64Array;
+  readonly maxWpgPct: Float64Array;
+  /** Index into `boards`; −1 when none is named, −2 for an empty name (no board, as columnsOf counts it). */
+  readonly board: Int32Array;
+  readonly boards: readonly string[];
+  readonly tag: readonly string[];
+  /** The results row's list of blank metrics as stored (JSON), null where it has none. */
+  readonly problems: readonly (string | null)[];
+  readonly names: TableNames;
+}
+
+/** Names and reference values by id, read with a set (small tables, one entry per species, resin, run). */
+interface TableNames {
+  species: Map<number, SpeciesInfo>;
+  resins: Map<number, { name: string; density: number | null }>;
+  runCodes: Map<number, string>;
+  dates: Map<number, string>;
+}
+
+/** The numeric columns of a CouponTable (one Float64Array each, NaN for null), in one list for merging. */
+const FLOAT_COLUMNS = [
+  'id',
+  'trialId',
+  'conditionId',
+  'runId',
+  'speciesId',
+  'resinId',
+  'lotId',
+  'thicknessMm',
+  'dryMassG',
+  'curedMassG',
+  'drySg',
+  'referenceSg',
+  'referenceSgCov',
+  'wpgPct',
+  'resinLoadingKgM3',
+  'voidFillPct',
+  'maxWpgPct',
+  'swellingPct',
+  'asePct',
+  'wrePct',
+  'hardnessValue',
+] as const satisfies readonly (keyof CouponTable)[];
+
+type TableData = { -readonly [K in (typeof FLOAT_COLUMNS)[number]]: Float64Array } & {
+  n: number;
+  control: Uint8Array;
+  hardnessScale: Uint8Array;
+  board: Int32Array;
+  boards: string[];
+  tag: string[];
+  problems: (string | null)[];
+  names: TableNames;
+};
+
+const orNull = (v: number): number | null => (v === v ? v : null);
+
+/** The table with its `coupon(i)`: the same object, key for key, the analysis has always been given. */
+function tableOf(t: TableData): CouponTable {
+  const { species: sp, resins, runCodes, dates } = t.names;
+  const coupon = (i: number): AnalysisCoupon => {
+    const speciesId = t.speciesId[i] as number;
+    const s = sp.get(speciesId);
+    const resinId = orNull(t.resinId[i] as number);
+    const r = resinId === null ? undefined : resins.get(resinId);
+    const runId = orNull(t.runId[i] as number);
+    const b = t.board[i] as number;
+    const blankReasons: Record<string, string> = {};
+    const p = t.problems[i];
+    if (p !== null && p !== undefined) for (const x of JSON.parse(p) as { metric: string; message: string }[]) blankReasons[x.metric] ??= x.message;
+    return {
+      id: t.id[i] as number,
+      tag: t.tag[i] as string,
+      trialId: orNull(t.trialId[i] as number),
+      conditionId: orNull(t.conditionId[i] as number),
+      runId,
+      runCode: runId === null ? null : (runCodes.get(runId) ?? null),
+      speciesId,
+      speciesName: s?.name ?? `species ${speciesId}`,
+      speciesOrigin: s?.origin ?? 'handbook',
+      resinId,
+      resinName: r?.name ?? null,
+      resinDensityGcm3: r?.density ?? null,
+      lotId: orNull(t.lotId[i] as number),
+      role: t.control[i] === 1 ? 'control' : 'treated',
+      sourceBoard: b >= 0 ? (t.boards[b] as string) : b === -2 ? '' : null,
+      thicknessMm: orNull(t.thicknessMm[i] as number),
+      dryMassG: orNull(t.dryMassG[i] as number),
+      curedMassG: orNull(t.curedMassG[i] as number),
+      drySg: orNull(t.drySg[i] as number),
+      referenceSg: s?.referenceSg ?? null,
+      referenceSgCov: s?.cov ?? null,
+      wpgPct: orNull(t.wpgPct[i] as number),
+      resinLoadingKgM3: orNull(t.resinLoadingKgM3[i] as number),
+      voidFillPct: orNull(t.voidFillPct[i] as number),
+      maxWpgPct: orNull(t.maxWpgPct[i] as number),
+      swellingPct: orNull(t.swellingPct[i] as number),
+      asePct: orNull(t.asePct[i] as number),
+      wrePct: orNull(t.wrePct[i] as number),
+      hardnessValue: orNull(t.hardnessValue[i] as number),
+      hardnessScale: SCALES[t.hardnessScale[i] as number] ?? null,
+      treatedOn: runId === null ? null : (dates.get(runId) ?? null),
+      blankReasons,
+    };
+  };
+  return { ...t, coupon };
+}
+
+/**
+ * The results rows matching the filters, as the analysis sees them, in coupon id order, as columns: one
+ * statement over coupon_results, read column by column into typed arrays; with `groups`, only the coupons
+ * in one of the groups; with `onlyIds`, only those coupons (to bring a held set up to date after a few
+ * writes). ASE is taken against the controls of the same trial and species whatever the filters (a role
+ * filter must not remove the controls a treated coupon is judged against).
+ */
+export function loadCouponTable(db: Db, f: AnalysisFilters, groups?: readonly GroupSpec[], onlyIds?: readonly number[]): CouponTable {
   const sqlite = sqliteOf(db);
   const dates = runDates(sqlite);
   const { clause: where, params } = rawWhere(f, dates, groups, onlyIds);
-  const inner = COLUMNS.map((c, i) => `${c} as c${i}`).join(', ');
-  const outer = COLUMNS.map((_c, i) => `json_group_array(c${i})`).join(', ');
-  // The ordered subquery is not flattened into an aggregate, so the arrays come out in coupon id order.
-  const row = prepare(sqlite, `select ${outer} from (select ${inner} from coupon_results cr ${where} order by cr.coupon_id)`)
-    .raw(true)
-    .get(...params) as string[];
-  const col = row.map((json) => JSON.parse(json) as unknown[]) as Columns;
-  const [ids, tags, trial, condition, run, speciesIds, resin, lot, isControl, board, thick, dry, cured, sg, wpg, loading, fill, maxWpg] = col;
-  const [swelling, basis, hValue, hScale, problems] = [col[18], col[19], col[20], col[21], col[22]];
+  const { sql, order } = readSql(where);
+  const parsed = new Map<string, unknown[]>();
+  (
+    prepare(sqlite, sql)
+      .raw(true)
+      .get(...params) as string[]
+  ).forEach((json, i) => parsed.set(order[i] as string, JSON.parse(json) as unknown[]));
+  const numbers = (name: NumberName) => parsed.get(name) as number[];
+  const strings = (name: StringName) => parsed.get(name) as (string | null)[];
+  const ids = numbers('id');
   const n = ids.length;
   for (let i = 1; i < n; i++) if ((ids[i] as number) <= (ids[i - 1] as number)) throw new Error('analysis load: rows out of coupon id order');
+  /** A nullable column as a Float64Array, NaN at the coupons listed as null (both lists are in id order). */
+  const floats = (name: NullableName): Float64Array => {
+    const a = Float64Array.from(parsed.get(name) as number[]);
+    const nulls = parsed.get(`${name}:null`) as number[];
+    let p = 0;
+    for (const id of nulls) {
+      while (ids[p] !== id) p++;
+      a[p] = Number.NaN;
+    }
+    return a;
+  };
+  const trial = floats('trialId');
+  const swelling = floats('swellingPct');
+  const isControl = numbers('control');
+  const speciesIds = numbers('speciesId');
 
   const sp = speciesInfo(db);
   const resins = new Map<number, { name: string; density: number | null }>();
@@ -249,7 +388,7 @@ export function loadAnalysisCoupons(db: Db, f: AnalysisFilters, groups?: readonl
 
   // ASE needs the controls of each trial and species that has treated coupons with a swelling.
   const trialIds = new Set<number>();
-  for (let i = 0; i < n; i++) if (isControl[i] === 0 && trial[i] !== null && swelling[i] !== null) trialIds.add(trial[i] as number);
+  for (let i = 0; i < n; i++) if (isControl[i] === 0 && trial[i] === trial[i] && swelling[i] === swelling[i]) trialIds.add(trial[i] as number);
   const controls = new Map<string, { swellingPct: number | null; swellingBasis: 'volume' | 'mass' | null }[]>();
   if (trialIds.size > 0) {
     const ctl = prepare(
@@ -265,64 +404,159 @@ export function loadAnalysisCoupons(db: Db, f: AnalysisFilters, groups?: readonl
     }
   }
 
-  const out: AnalysisCoupon[] = new Array<AnalysisCoupon>(n);
+  const hValue = floats('hardnessValue');
+  const hScale = numbers('hardnessScale');
+  const basis = numbers('swellingBasis');
+  const board = strings('sourceBoard');
+  const t: TableData = {
+    n,
+    id: Float64Array.from(ids),
+    trialId: trial,
+    conditionId: floats('conditionId'),
+    runId: floats('runId'),
+    speciesId: Float64Array.from(speciesIds),
+    resinId: floats('resinId'),
+    lotId: floats('lotId'),
+    control: new Uint8Array(n),
+    board: new Int32Array(n),
+    boards: [],
+    thicknessMm: floats('thicknessMm'),
+    dryMassG: floats('dryMassG'),
+    curedMassG: floats('curedMassG'),
+    drySg: floats('drySg'),
+    referenceSg: new Float64Array(n),
+    referenceSgCov: new Float64Array(n),
+    wpgPct: floats('wpgPct'),
+    resinLoadingKgM3: floats('resinLoadingKgM3'),
+    voidFillPct: floats('voidFillPct'),
+    maxWpgPct: floats('maxWpgPct'),
+    swellingPct: swelling,
+    asePct: new Float64Array(n).fill(Number.NaN),
+    wrePct: new Float64Array(n).fill(Number.NaN),
+    hardnessValue: hValue,
+    hardnessScale: new Uint8Array(n),
+    tag: strings('tag') as string[],
+    problems: strings('problems'),
+    names: { species: sp, resins, runCodes, dates },
+  };
+  const boardIndex = new Map<string, number>();
   for (let i = 0; i < n; i++) {
     const speciesId = speciesIds[i] as number;
     const s = sp.get(speciesId);
-    const resinId = resin[i] as number | null;
-    const r = resinId === null ? undefined : resins.get(resinId);
-    const runId = run[i] as number | null;
-    const role = isControl[i] === 1 ? 'control' : 'treated';
-    const trialId = trial[i] as number | null;
-    const swellingPct = swelling[i] as number | null;
+    t.referenceSg[i] = s?.referenceSg ?? Number.NaN;
+    t.referenceSgCov[i] = s?.cov ?? Number.NaN;
+    const control = isControl[i] === 1;
+    t.control[i] = control ? 1 : 0;
+    const name = board[i];
+    if (name) {
+      let b = boardIndex.get(name);
+      if (b === undefined) {
+        boardIndex.set(name, (b = t.boards.length));
+        t.boards.push(name);
+      }
+      t.board[i] = b;
+    } else t.board[i] = name === '' ? -2 : -1;
+    // A value without a scale is no hardness (the load query gives both or neither).
+    const scale = hScale[i] as number;
+    const value = hValue[i] as number;
+    t.hardnessScale[i] = value === value ? scale : 0;
+    if (scale === 0) hValue[i] = Number.NaN;
     // The efficiency against the controls is an ASE on dimensions and a WRE on mass (shared/coupons/metrics).
-    let asePct: number | null = null;
-    let wrePct: number | null = null;
-    if (role === 'treated' && trialId !== null && swellingPct !== null) {
+    const trialId = trial[i] as number;
+    const swellingPct = swelling[i] as number;
+    if (!control && trialId === trialId && swellingPct === swellingPct) {
       const swellingBasis = basis[i] === 1 ? 'volume' : basis[i] === 2 ? 'mass' : null;
       const a = antiSwell({ swellingPct, swellingBasis }, controls.get(`${trialId}|${speciesId}`) ?? []);
-      if (a?.measure === 'wre') wrePct = a.asePct;
-      else if (a) asePct = a.asePct;
+      if (a?.measure === 'wre') t.wrePct[i] = a.asePct;
+      else if (a) t.asePct[i] = a.asePct;
     }
-    const blankReasons: Record<string, string> = {};
-    const p = problems[i];
-    if (p !== null && p !== undefined) for (const x of JSON.parse(p) as { metric: string; message: string }[]) blankReasons[x.metric] ??= x.message;
-    out[i] = {
-      id: ids[i] as number,
-      tag: tags[i] as string,
-      trialId,
-      conditionId: condition[i] as number | null,
-      runId,
-      runCode: runId === null ? null : (runCodes.get(runId) ?? null),
-      speciesId,
-      speciesName: s?.name ?? `species ${speciesId}`,
-      speciesOrigin: s?.origin ?? 'handbook',
-      resinId,
-      resinName: r?.name ?? null,
-      resinDensityGcm3: r?.density ?? null,
-      lotId: lot[i] as number | null,
-      role,
-      sourceBoard: board[i] as string | null,
-      thicknessMm: thick[i] as number | null,
-      dryMassG: dry[i] as number | null,
-      curedMassG: cured[i] as number | null,
-      drySg: sg[i] as number | null,
-      referenceSg: s?.referenceSg ?? null,
-      referenceSgCov: s?.cov ?? null,
-      wpgPct: wpg[i] as number | null,
-      resinLoadingKgM3: loading[i] as number | null,
-      voidFillPct: fill[i] as number | null,
-      maxWpgPct: maxWpg[i] as number | null,
-      swellingPct,
-      asePct,
-      wrePct,
-      hardnessValue: hValue[i] as number | null,
-      hardnessScale: SCALES[(hScale[i] as number | null) ?? 0] ?? null,
-      treatedOn: runId === null ? null : (dates.get(runId) ?? null),
-      blankReasons,
-    };
   }
-  return out;
+  return tableOf(t);
+}
+
+/** The coupons of loadCouponTable as objects (for the few callers that want them all). */
+export function loadAnalysisCoupons(db: Db, f: AnalysisFilters, groups?: readonly GroupSpec[], onlyIds?: readonly number[]): AnalysisCoupon[] {
+  const t = loadCouponTable(db, f, groups, onlyIds);
+  return Array.from({ length: t.n }, (_x, i) => t.coupon(i));
+}
+
+/**
+ * A held table brought up to date with `fresh`, the rows just read again for the coupon ids `ids` (sorted):
+ * a coupon of `ids` is taken from `fresh`, or dropped when it is not there (it left the filters or was
+ * deleted); every other coupon is kept. Names are the fresh read's (current). When the coupons are the
+ * same ones in the same places, `old`'s arrays are rewritten at those places only and taken over (`old`
+ * must not be used afterwards); otherwise the columns are gathered anew.
+ */
+export function mergeTables(old: CouponTable, fresh: CouponTable, ids: readonly number[]): CouponTable {
+  const gone = new Set(ids);
+  // Where each row of the result comes from: p ≥ 0 the old row p, p < 0 the fresh row −1 − p.
+  const from: number[] = [];
+  let inPlace = true;
+  let j = 0;
+  for (let p = 0; p < old.n; p++) {
+    const id = old.id[p] as number;
+    while (j < fresh.n && (fresh.id[j] as number) < id) {
+      inPlace = false;
+      from.push(-1 - j++);
+    }
+    if (!gone.has(id)) from.push(p);
+    else if (j < fresh.n && fresh.id[j] === id) from.push(-1 - j++);
+    else inPlace = false;
+  }
+  if (j < fresh.n) inPlace = false;
+  while (j < fresh.n) from.push(-1 - j++);
+
+  // Fresh boards in the old numbering (names met for the first time are added).
+  const boards = [...old.boards];
+  const boardIndex = new Map(boards.map((b, i) => [b, i]));
+  const boardOf = (b: number): number => {
+    if (b < 0) return b;
+    const name = fresh.boards[b] as string;
+    let k = boardIndex.get(name);
+    if (k === undefined) {
+      boardIndex.set(name, (k = boards.length));
+      boards.push(name);
+    }
+    return k;
+  };
+  if (inPlace) {
+    const t = { ...old, boards, tag: old.tag as string[], problems: old.problems as (string | null)[], names: fresh.names } as TableData;
+    for (let p = 0; p < from.length; p++) {
+      const f = from[p] as number;
+      if (f >= 0) continue;
+      const q = -1 - f;
+      for (const k of FLOAT_COLUMNS) t[k][p] = fresh[k][q] as number;
+      t.control[p] = fresh.control[q] as number;
+      t.hardnessScale[p] = fresh.hardnessScale[q] as number;
+      t.board[p] = boardOf(fresh.board[q] as number);
+      t.tag[p] = fresh.tag[q] as string;
+      t.problems[p] = fresh.problems[q] ?? null;
+    }
+    return tableOf(t);
+  }
+  const m = from.length;
+  const gather = <A extends Float64Array | Uint8Array | Int32Array>(a: A, b: A, make: (n: number) => A, map?: (v: number) => number): A => {
+    const out = make(m);
+    for (let p = 0; p < m; p++) {
+      const f = from[p] as number;
+      out[p] = f >= 0 ? (a[f] as number) : map ? map(b[-1 - f] as number) : (b[-1 - f] as number);
+    }
+    return out;
+  };
+  const f64 = (k: number) => new Float64Array(k);
+  const u8 = (k: number) => new Uint8Array(k);
+  const t = {
+    n: m,
+    control: gather(old.control, fresh.control, u8),
+    hardnessScale: gather(old.hardnessScale, fresh.hardnessScale, u8),
+    board: gather(old.board, fresh.board, (k) => new Int32Array(k), boardOf),
+    boards,
+    tag: from.map((f) => (f >= 0 ? old.tag[f] : fresh.tag[-1 - f]) as string),
+    problems: from.map((f) => (f >= 0 ? old.problems[f] : fresh.problems[-1 - f]) ?? null),
+    names: fresh.names,
+  } as TableData;
+  for (const k of FLOAT_COLUMNS) t[k] = gather(old[k], fresh[k], f64);
+  return tableOf(t);
 }
 
 /** Treated coupons of the given species × resin pairs from runs other than `runId` (the shop's history). */

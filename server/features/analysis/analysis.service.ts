@@ -5,7 +5,6 @@ import { DomainError } from '../../../shared/domain/errors';
 import { twoSampleSampleSize } from '../../../shared/domain/power';
 import { compareGroups } from '../../../shared/analysis/compare';
 import { expectedForRun } from '../../../shared/analysis/expected';
-import { columnsOf, withChanged, type CouponColumns } from '../../../shared/analysis/columns';
 import { buildOverview } from '../../../shared/analysis/overview';
 import { statsOf } from '../../../shared/analysis/stats';
 import type { User } from '../../../shared/schemas/auth';
@@ -33,10 +32,12 @@ import {
   findEvidence,
   insertEvidence,
   listEvidence,
-  loadAnalysisCoupons,
+  loadCouponTable,
   loadHistory,
+  mergeTables,
   runExists,
   wpgValues,
+  type CouponTable,
   type EvidenceRow,
 } from './analysis.repo';
 
@@ -56,11 +57,10 @@ export function fingerprintOf(value: unknown): string {
   return crypto.createHash('sha256').update(canonical).digest('hex');
 }
 
-/** A filtered set of coupons held for a data version, with its columns once something asked for them. */
+/** A filtered set of coupons held for a data version, as columns. */
 interface HeldSet {
   version: string;
-  rows: AnalysisCoupon[];
-  cols: CouponColumns | null;
+  table: CouponTable;
 }
 
 /** How many filtered coupon lists and how many computed answers are kept (a coupon list of 100k is tens of MB). */
@@ -84,25 +84,22 @@ export function createAnalysisService(deps: { db: Db; now: () => Date }) {
   const answers = new Lru<{ version: string; value: unknown }>(CACHED_ANSWERS);
 
   /**
-   * The coupons matching the filters, read once per data version. With `groups` (a comparison), the
-   * coupons of the full filters are used when they are already in hand, else only the groups' coupons
-   * are read.
+   * The coupons matching the filters, read once per data version, as columns. With `groups` (a
+   * comparison), the coupons of the full filters are used when they are already in hand, else only the
+   * groups' coupons are read.
    */
-  function rowsOf(filters: AnalysisFilters, groups?: readonly GroupSpec[]): AnalysisCoupon[] {
-    return setOf(filters, groups).rows;
-  }
-
-  /** rowsOf as columns (built once per held set and version). */
-  function columnsFor(filters: AnalysisFilters, groups?: readonly GroupSpec[]): CouponColumns {
-    const set = setOf(filters, groups);
-    return (set.cols ??= columnsOf(set.rows));
-  }
-
-  function setOf(filters: AnalysisFilters, groups?: readonly GroupSpec[]): HeldSet {
+  function columnsFor(filters: AnalysisFilters, groups?: readonly GroupSpec[]): CouponTable {
     const v = version();
     // The full filtered set, when one is held (even from an older version: a patch is cheap).
-    if (!groups || rowSets.get(keyOf(filters))) return held(keyOf(filters), v, filters);
-    return held(keyOf({ filters, groups }), v, filters, groups);
+    if (!groups || rowSets.get(keyOf(filters))) return held(keyOf(filters), v, filters).table;
+    return held(keyOf({ filters, groups }), v, filters, groups).table;
+  }
+
+  /** Coupons of a set as objects, from position `from` up to `to` (all by default). */
+  function objectsOf(t: CouponTable, from = 0, to = Infinity): AnalysisCoupon[] {
+    const out: AnalysisCoupon[] = [];
+    for (let i = Math.max(0, from); i < Math.min(t.n, to); i++) out.push(t.coupon(i));
+    return out;
   }
 
   /**
@@ -113,60 +110,36 @@ export function createAnalysisService(deps: { db: Db; now: () => Date }) {
   function held(key: string, v: string, filters: AnalysisFilters, groups?: readonly GroupSpec[]): HeldSet {
     const hit = rowSets.get(key);
     if (hit && hit.version === v) return hit;
-    const patch = hit ? patched(hit, filters, groups) : null;
-    const set: HeldSet = patch ? { version: v, ...patch } : { version: v, rows: loadAnalysisCoupons(db, filters, groups), cols: null };
+    const table = (hit && patched(hit, filters, groups)) ?? loadCouponTable(db, filters, groups);
+    const set: HeldSet = { version: v, table };
     rowSets.set(key, set);
     version.prune(LOG_KEPT);
     return set;
   }
 
   /**
-   * The held rows with the coupons written since re-read (and those whose numbers rest on them: a run's
-   * coupons, a control's treated coupons), or null when a patch would not be exact: the filters have a date range (a treated coupon or a run's dates decide whether a trial's controls are
-   * in), or the log cannot tell which coupons changed (species or resins, another connection, too many rows).
+   * The held coupons with those written since read again (and those whose numbers rest on them: a run's
+   * coupons, a control's treated coupons), or null when a patch would not be exact: the filters have a
+   * date range (a treated coupon or a run's dates decide whether a trial's controls are in), or the log
+   * cannot tell which coupons changed (species or resins, another connection, too many rows).
    */
-  function patched(hit: HeldSet, filters: AnalysisFilters, groups?: readonly GroupSpec[]): { rows: AnalysisCoupon[]; cols: CouponColumns | null } | null {
+  function patched(hit: HeldSet, filters: AnalysisFilters, groups?: readonly GroupSpec[]): CouponTable | null {
     if (filters.from !== undefined || filters.to !== undefined) return null;
     const changed = version.changedSince(hit.version, PATCH_LIMIT);
     if (changed === null) return null;
+    const old = hit.table;
     // A run or its stages changed: its coupons' run code and treated date follow it, so they are read again.
     const runIds = new Set(changed.runIds);
     const ofRuns = runIds.size > 0 ? couponIdsOfRuns(db, [...runIds]) : [];
-    if (runIds.size > 0) for (const c of hit.rows) if (c.runId !== null && runIds.has(c.runId)) ofRuns.push(c.id);
+    if (runIds.size > 0) for (let i = 0; i < old.n; i++) if (runIds.has(old.runId[i] as number)) ofRuns.push(old.id[i] as number);
     // A control changed (in or out of these filters: a resin filter leaves every control out): the treated
     // coupons of its trial and species have their ASE and WRE against it, so they are read again too.
     // Hardness gain is worked out from the controls' columns when the table is made; nothing else rests on one.
     const ofControls = changed.controlPairs.length > 0 ? treatedOfTrialSpecies(db, changed.controlPairs) : [];
     const ids = [...new Set([...changed.couponIds, ...ofRuns, ...ofControls])].sort((x, y) => x - y);
     if (ids.length > PATCH_LIMIT) return null;
-    const fresh = loadAnalysisCoupons(db, filters, groups, ids);
-    const gone = new Set(ids);
-    const rows: AnalysisCoupon[] = [];
-    // Positions where a coupon was replaced by its new row; null once a coupon came in or went out.
-    let replacedAt: number[] | null = [];
-    let j = 0;
-    for (const c of hit.rows) {
-      if (gone.has(c.id)) {
-        const next = fresh[j];
-        if (next && next.id === c.id) {
-          replacedAt?.push(rows.length);
-          rows.push(next);
-          j++;
-        } else replacedAt = null;
-        continue;
-      }
-      while (j < fresh.length && (fresh[j] as AnalysisCoupon).id < c.id) {
-        replacedAt = null;
-        rows.push(fresh[j++] as AnalysisCoupon);
-      }
-      rows.push(c);
-    }
-    if (j < fresh.length) replacedAt = null;
-    while (j < fresh.length) rows.push(fresh[j++] as AnalysisCoupon);
-    // The same coupons in the same places: the held columns are rewritten at those places only.
-    const cols = replacedAt && hit.cols ? withChanged(hit.cols, rows, replacedAt) : null;
-    if (cols) hit.cols = null; // its arrays now belong to the new set
-    return { rows, cols };
+    // The old table's arrays may be rewritten in place: the caller puts the result in the set's place.
+    return mergeTables(old, loadCouponTable(db, filters, groups, ids), ids);
   }
 
   /** An answer computed once per question and data version. */
@@ -202,15 +175,15 @@ export function createAnalysisService(deps: { db: Db; now: () => Date }) {
   }
 
   function coupons(filters: AnalysisFilters, page: number, pageSize: number) {
-    const all = rowsOf(filters);
+    const t = columnsFor(filters);
     const o = overview(filters, 'measured');
-    return { items: all.slice((page - 1) * pageSize, page * pageSize), page, pageSize, total: all.length, excluded: o.excluded };
+    return { items: objectsOf(t, (page - 1) * pageSize, page * pageSize), page, pageSize, total: t.n, excluded: o.excluded };
   }
 
   function runExpected(runId: number): RunExpected {
     if (!runExists(db, runId)) throw new NotFound('Run not found');
     return cached({ q: 'expected', runId }, () => {
-      const inRun = rowsOf({ runId: [runId] });
+      const inRun = objectsOf(columnsFor({ runId: [runId] }));
       const pairs = new Map<string, { speciesId: number; resinId: number }>();
       for (const c of inRun) if (c.resinId !== null) pairs.set(`${c.speciesId}|${c.resinId}`, { speciesId: c.speciesId, resinId: c.resinId });
       return expectedForRun(runId, inRun, loadHistory(db, [...pairs.values()], runId));
