@@ -92,6 +92,21 @@ describe('the coupon list', () => {
     expect((await viewer.get('/api/coupons?after=not-a-cursor')).status).toBe(400);
   });
 
+  it('gives the same pages by number (offset) as by walking the cursors, for every sort and with a results filter', async () => {
+    for (const query of ['sort=tag', 'sort=-tag', 'sort=createdAt', 'sort=drySg', 'sort=-wpgPct', 'sort=tag&waitingFor=cured-weighing']) {
+      const walked: string[][] = [];
+      let res = await viewer.get(`/api/coupons?q=LQ-&${query}&pageSize=2`);
+      walked.push(tags(res));
+      while (res.body.nextCursor) {
+        res = await viewer.get(`/api/coupons?q=LQ-&${query}&pageSize=2&after=${res.body.nextCursor}`);
+        if (res.body.items.length) walked.push(tags(res));
+      }
+      const numbered: string[][] = [];
+      for (let page = 1; page <= walked.length; page++) numbered.push(tags(await viewer.get(`/api/coupons?q=LQ-&${query}&pageSize=2&page=${page}`)));
+      expect(numbered, query).toEqual(walked);
+    }
+  });
+
   it('exports the filtered list as CSV, formula-looking text neutralised', async () => {
     const res = await viewer.get('/api/coupons/export.csv?q=LQ-&sort=tag');
     expect(res.status).toBe(200);
@@ -137,6 +152,17 @@ describe('the run list', () => {
     expect(codes(await viewer.get('/api/runs?q=LQR-&stage=vacuum'))).toEqual(['LQR-C']);
     expect(codes(await viewer.get('/api/runs?q=LQR-&status=planned'))).toEqual(['LQR-A']);
     expect((await viewer.get('/api/runs?sort=notes')).status).toBe(400);
+  });
+
+  it('answers a remembered page until the next write, then the new records', async () => {
+    expect(codes(await viewer.get('/api/runs?q=LQM-'))).toEqual([]);
+    expect(codes(await viewer.get('/api/runs?q=LQM-'))).toEqual([]);
+    const added = await tech.post('/api/runs').send({ code: 'LQM-1', chamber: 'Pot east' });
+    expect(added.status, JSON.stringify(added.body)).toBe(201);
+    expect(codes(await viewer.get('/api/runs?q=LQM-'))).toEqual(['LQM-1']);
+    const started = await tech.post(`/api/runs/${added.body.run.id}/stages`).send({ stage: 'drying', startedAt: at(1) });
+    expect(started.status, JSON.stringify(started.body)).toBe(200);
+    expect((await viewer.get('/api/runs?q=LQM-')).body.items[0].progress.current).toBe('drying');
   });
 
   it('exports the runs as CSV, neutralising a chamber that starts like a formula', async () => {

@@ -1,3 +1,5 @@
+import crypto from 'node:crypto';
+import zlib from 'node:zlib';
 import { Router, type NextFunction, type Request, type Response } from 'express';
 import type { z } from 'zod';
 import { roleAtLeast, type Role } from '../../shared/constants/roles';
@@ -39,7 +41,37 @@ export interface RouteOptions<R extends AccessRule, S extends Schemas> {
   status?: number;
 }
 
-/** A handler returns the JSON body, or undefined after answering through `res` itself. */
+/**
+ * An answer already serialised (a remembered list page or Bench): sent as it is, so a page read many times
+ * between two writes is stringified once rather than on every request.
+ */
+export class JsonText {
+  private zipped: Buffer | undefined;
+  private tag: string | undefined;
+  constructor(readonly text: string) {}
+  /** Its gzip (level 1, as the API's compression), made once: a remembered answer is sent many times. */
+  get gzipped(): Buffer {
+    return (this.zipped ??= zlib.gzipSync(this.text, { level: 1 }));
+  }
+  /** A weak ETag of the text, made once (Express would hash the body on every send). */
+  get etag(): string {
+    return (this.tag ??= `W/"${crypto.createHash('sha1').update(this.text).digest('base64url')}"`);
+  }
+}
+
+/** Sends a JsonText, gzipped from its own copy when the client takes gzip and it is worth it (over 1 kB, as `compression`). */
+function sendJsonText(req: Request, res: Response, status: number, body: JsonText): void {
+  res.status(status).type('json');
+  res.setHeader('ETag', body.etag);
+  res.vary('Accept-Encoding');
+  if (body.text.length >= 1024 && req.acceptsEncodings('gzip') === 'gzip') {
+    // compression() leaves an answer that already names its encoding alone.
+    res.setHeader('Content-Encoding', 'gzip');
+    res.send(body.gzipped);
+  } else res.send(body.text);
+}
+
+/** A handler returns the JSON body (or a JsonText), or undefined after answering through `res` itself. */
 type Handler<R extends AccessRule, S extends Schemas> = (ctx: RouteContext<S, UserFor<R>>) => unknown;
 
 export interface DeclaredRoute {
@@ -89,6 +121,7 @@ export function secureRouter() {
         const result = await handler(ctx);
         if (res.headersSent) return;
         if (result === undefined) res.status(options.status ?? 204).end();
+        else if (result instanceof JsonText) sendJsonText(req, res, options.status ?? 200, result);
         else res.status(options.status ?? 200).json(result);
       };
       router[method](path, accessMiddleware(options.access), run);

@@ -8,6 +8,9 @@ import { databaseBusy } from '../db/storage-errors';
  * interval timer running, which keeps test processes alive (docs/decisions/0002-sessions-in-sqlite.md).
  * Our pruning timer is unref'd and stopped by close().
  */
+/** How far behind the session's new expiry the stored one may be before a touch writes it. */
+export const TOUCH_SLACK_MS = 60 * 60 * 1000;
+
 export class SqliteSessionStore extends session.Store {
   private readonly stmts;
   private readonly timer: NodeJS.Timeout;
@@ -24,7 +27,8 @@ export class SqliteSessionStore extends session.Store {
         `INSERT INTO sessions (sid, sess, user_id, expires_at) VALUES (?, ?, ?, ?)
          ON CONFLICT(sid) DO UPDATE SET sess = excluded.sess, user_id = excluded.user_id, expires_at = excluded.expires_at`,
       ),
-      touch: sqlite.prepare('UPDATE sessions SET expires_at = ? WHERE sid = ?'),
+      // Only when the expiry moved by more than TOUCH_SLACK_MS: see touch().
+      touch: sqlite.prepare('UPDATE sessions SET expires_at = ? WHERE sid = ? AND expires_at < ?'),
       destroy: sqlite.prepare('DELETE FROM sessions WHERE sid = ?'),
       prune: sqlite.prepare('DELETE FROM sessions WHERE expires_at <= ?'),
       destroyUser: sqlite.prepare('DELETE FROM sessions WHERE user_id = ?'),
@@ -56,9 +60,16 @@ export class SqliteSessionStore extends session.Store {
     }
   }
 
+  /**
+   * express-session touches the session on every answered request. Writing the new expiry each time made
+   * every read a database write (a WAL commit, and a checkpoint every few hundred requests, which showed as
+   * event-loop stalls under load). The stored expiry is moved only when it is more than TOUCH_SLACK_MS
+   * behind, so a 7-day session ends at most that much earlier than the cookie says.
+   */
   override touch(sid: string, sess: session.SessionData, cb?: (err?: unknown) => void): void {
     try {
-      this.stmts.touch.run(this.expiry(sess), sid);
+      const expiry = this.expiry(sess);
+      this.stmts.touch.run(expiry, sid, expiry - TOUCH_SLACK_MS);
       cb?.();
     } catch (err) {
       // Every signed-in request touches its session. While an import's commit holds the write lock

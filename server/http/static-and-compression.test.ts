@@ -56,4 +56,18 @@ describe('the built client in production', () => {
     const asset = await h.agent().get(`/assets/${ASSET}`).set('accept-encoding', 'gzip');
     expect(asset.headers['content-encoding']).toBe('gzip');
   });
+
+  it('sends a remembered list answer gzipped or plain as asked, with an ETag that answers 304 when nothing changed', async () => {
+    const viewer = await h.signIn('viewer@demo.test');
+    const zipped = await viewer.get('/api/coupons?pageSize=50').set('accept-encoding', 'gzip');
+    expect(zipped.status).toBe(200);
+    expect(zipped.headers['content-encoding']).toBe('gzip');
+    expect(zipped.headers.vary).toMatch(/Accept-Encoding/i);
+    const plain = await viewer.get('/api/coupons?pageSize=50').set('accept-encoding', 'identity');
+    expect(plain.headers['content-encoding']).toBeUndefined();
+    expect(plain.body).toEqual(zipped.body);
+    expect(plain.headers.etag).toBe(zipped.headers.etag);
+    const again = await viewer.get('/api/coupons?pageSize=50').set('if-none-match', zipped.headers.etag as string);
+    expect(again.status).toBe(304);
+  });
 });

@@ -142,34 +142,9 @@ interface RawCheck extends Omit<StoredCheck, 'kind' | 'stage' | 'hardnessScale'>
   hardnessScale: string | null;
 }
 
-/** better-sqlite3 underneath drizzle: the same connection, so these statements run inside the caller's transaction. */
-export function client(tx: Db) {
-  return (
-    (tx as unknown as { $client?: import('better-sqlite3').Database }).$client ??
-    (tx as unknown as { session: { client: import('better-sqlite3').Database } }).session.client
-  );
-}
-
-const statements = new WeakMap<import('better-sqlite3').Database, Map<string, import('better-sqlite3').Statement>>();
-
-/**
- * A prepared statement, prepared once per connection: preparing the results upsert (51 columns) cost
- * more than running it, and a single reading's write runs several of these.
- */
-export function prepared(tx: Db, text: string): import('better-sqlite3').Statement {
-  const c = client(tx);
-  let map = statements.get(c);
-  if (!map) {
-    map = new Map();
-    statements.set(c, map);
-  }
-  let st = map.get(text);
-  if (!st) {
-    st = c.prepare(text);
-    map.set(text, st);
-  }
-  return st;
-}
+// Prepared once per connection (server/db/prepared.ts); re-exported for the module's callers.
+export { client, prepared } from '../db/prepared';
+import { client, prepared } from '../db/prepared';
 
 function groupBy<T extends { couponId: number }>(rows: T[]): Map<number, T[]> {
   const out = new Map<number, T[]>();

@@ -50,6 +50,14 @@ const PROBES: Probe[] = [
     rule: 'no-restricted-imports',
   },
   importing('a trials service reads a table itself', 'server/features/trials', 'server/db/schema/trials', 'trials', 'no-restricted-imports'),
+  importing('a coupons service reads a table itself', 'server/features/coupons', 'server/db/schema/coupons', 'photos', 'no-restricted-imports'),
+  {
+    name: 'a runs service builds a query itself',
+    file: `server/features/runs/zz-lint-probe-${tag}-drizzle.ts`,
+    code: "import { sql } from 'drizzle-orm';\nexport const x = sql;\n",
+    rule: 'no-restricted-imports',
+  },
+  importing('a runs service calls its repo', 'server/features/runs', 'server/features/runs/runs.repo', 'countRuns', null),
   importing('an auth service calls its repo', 'server/features/auth', 'server/features/auth/auth.repo', 'toUser', null),
   {
     name: 'shared uses no Node APIs',

@@ -13,7 +13,7 @@ function open(file: string) {
   const db = new Database(file);
   for (const t of ANALYSIS_SOURCE_TABLES)
     db.exec(
-      `create table if not exists ${t} (${t === 'coupon_results' ? 'coupon_id integer primary key, role text' : 'id integer primary key'}, v real${t === 'run_stages' ? ', run_id integer' : ''})`,
+      `create table if not exists ${t} (${t === 'coupon_results' ? 'coupon_id integer primary key, role text, trial_id integer, species_id integer' : 'id integer primary key'}, v real${t === 'run_stages' ? ', run_id integer' : ''})`,
     );
   return db;
 }
@@ -66,7 +66,9 @@ describe('the data version an analysis answer is cached under', () => {
     expect(v1).not.toBe(v0);
     writer.close();
     // A migration that rebuilds a table drops its triggers; the next version check puts them back.
-    reader.exec('drop table coupon_results; create table coupon_results (coupon_id integer primary key, role text, v real)');
+    reader.exec(
+      'drop table coupon_results; create table coupon_results (coupon_id integer primary key, role text, trial_id integer, species_id integer, v real)',
+    );
     const v2 = version();
     expect(v2).not.toBe(v1);
     reader.prepare('insert into coupon_results (v) values (3)').run();
@@ -82,7 +84,7 @@ describe('the coupons written since a version', () => {
     const version = createDataVersion(db);
     db.prepare('insert into coupon_results (coupon_id, v) values (1, 1), (2, 2), (3, 3)').run();
     const v0 = version();
-    expect(version.changedSince(v0, 10)).toEqual({ couponIds: [], runIds: [], controls: false });
+    expect(version.changedSince(v0, 10)).toEqual({ couponIds: [], runIds: [], controlPairs: [] });
     db.prepare('update coupon_results set v = 20 where coupon_id = 2').run();
     db.prepare('delete from coupon_results where coupon_id = 3').run();
     db.prepare('insert into coupon_results (coupon_id, v) values (4, 4)').run();
@@ -95,9 +97,12 @@ describe('the coupons written since a version', () => {
     version.prune(1);
     expect(version()).toBe(v1); // pruning keeps the generation
     expect(version.changedSince(v0, 10)).toBeNull(); // the rows after v0 are gone: cannot tell
-    expect(version.changedSince(v1, 10)).toEqual({ couponIds: [], runIds: [], controls: false });
-    db.prepare("update coupon_results set role = 'control' where coupon_id = 1").run();
-    expect(version.changedSince(v1, 10)?.controls).toBe(true); // a control is involved, whatever filters a reader has
+    expect(version.changedSince(v1, 10)).toEqual({ couponIds: [], runIds: [], controlPairs: [] });
+    db.prepare("update coupon_results set role = 'control', trial_id = 5, species_id = 9 where coupon_id = 1").run();
+    expect(version.changedSince(v1, 10)?.controlPairs).toEqual([{ trialId: 5, speciesId: 9 }]); // whatever filters a reader has
+    db.prepare("update coupon_results set role = 'treated', trial_id = 6 where coupon_id = 1").run();
+    // It stopped being a control: its former trial's treated coupons lose it as their reference.
+    expect(version.changedSince(v1, 10)?.controlPairs).toEqual([{ trialId: 5, speciesId: 9 }]);
     const vBefore = version();
     db.prepare('insert into resins (id, v) values (1, 1)').run(); // another source table: not a coupon row
     expect(version.changedSince(vBefore, 10)).toBeNull();

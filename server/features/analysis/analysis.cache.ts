@@ -28,12 +28,13 @@ export interface DataVersion {
   (): string;
   /**
    * What was written through this connection since `since` (a string this function returned): the ids of
-   * the results rows and of the runs (a run or its stages), in no order, possibly repeated, and whether a
-   * control was among the results rows (before or after the write, whatever the reader's filters); null when that
+   * the results rows and of the runs (a run or its stages), in no order, possibly repeated, and the trial ×
+   * species of every control among the results rows (before and after the write, whatever the reader's
+   * filters: the treated coupons there have their ASE and WRE against it); null when that
    * cannot be told from the log: another connection wrote, the schema changed, species or resins were
    * written, or more than `limit` rows were.
    */
-  changedSince(since: string, limit: number): { couponIds: number[]; runIds: number[]; controls: boolean } | null;
+  changedSince(since: string, limit: number): { couponIds: number[]; runIds: number[]; controlPairs: { trialId: number; speciesId: number }[] } | null;
   /**
    * Keeps the log to its last `keep` rows. The log belongs to the connection, which may serve several
    * readers, so it is cut by length, never by what one reader has seen; a reader whose version is older
@@ -45,34 +46,37 @@ export interface DataVersion {
 export function createDataVersion(sqlite: Database.Database): DataVersion {
   let installedAt = -1;
   const install = () => {
-    const sql = ['CREATE TEMP TABLE IF NOT EXISTS analysis_changes (coupon_id INTEGER, control INTEGER)'];
+    const sql = ['CREATE TEMP TABLE IF NOT EXISTS analysis_changes (coupon_id INTEGER, control INTEGER, trial_id INTEGER, species_id INTEGER)'];
     // What a row of each table logs: a results row its coupon's id, a run or a run's stage the run's id
     // negated (its coupons' run code and treated date follow it), species and resins NULL.
-    // A results row also logs whether a control is involved (before or after the write): other coupons'
-    // ASE and WRE rest on the controls of their trial and species.
+    // A results row also logs whether it is a control, with its trial and species (other coupons' ASE and
+    // WRE rest on the controls of their trial and species); a control that stops being one, or moves,
+    // logs its former trial and species as well (below).
     const logged: Record<(typeof ANALYSIS_SOURCE_TABLES)[number], (op: 'insert' | 'update' | 'delete') => string> = {
       coupon_results: (op) =>
-        op === 'insert'
-          ? "NEW.coupon_id, NEW.role = 'control'"
-          : op === 'delete'
-            ? "OLD.coupon_id, OLD.role = 'control'"
-            : "NEW.coupon_id, OLD.role = 'control' OR NEW.role = 'control'",
-      runs: (op) => `-${op === 'delete' ? 'OLD' : 'NEW'}.id, 0`,
-      run_stages: (op) => `-${op === 'delete' ? 'OLD' : 'NEW'}.run_id, 0`,
-      species: () => 'NULL, 0',
-      resins: () => 'NULL, 0',
+        op === 'delete'
+          ? "OLD.coupon_id, OLD.role = 'control', OLD.trial_id, OLD.species_id"
+          : "NEW.coupon_id, NEW.role = 'control', NEW.trial_id, NEW.species_id",
+      runs: (op) => `-${op === 'delete' ? 'OLD' : 'NEW'}.id, 0, NULL, NULL`,
+      run_stages: (op) => `-${op === 'delete' ? 'OLD' : 'NEW'}.run_id, 0, NULL, NULL`,
+      species: () => 'NULL, 0, NULL, NULL',
+      resins: () => 'NULL, 0, NULL, NULL',
     };
     for (const table of ANALYSIS_SOURCE_TABLES) {
       for (const op of ['insert', 'update', 'delete'] as const)
         sql.push(
           `CREATE TEMP TRIGGER IF NOT EXISTS analysis_changes_${table}_${op} AFTER ${op.toUpperCase()} ON main.${table} ` +
-            `BEGIN INSERT INTO analysis_changes (coupon_id, control) VALUES (${logged[table](op)}); END`,
+            `BEGIN INSERT INTO analysis_changes (coupon_id, control, trial_id, species_id) VALUES (${logged[table](op)}); END`,
         );
     }
     // A results row that changes its coupon (never done today) leaves its old id changed too.
     sql.push(
       'CREATE TEMP TRIGGER IF NOT EXISTS analysis_changes_coupon_results_moved AFTER UPDATE OF coupon_id ON main.coupon_results ' +
-        "WHEN OLD.coupon_id IS NOT NEW.coupon_id BEGIN INSERT INTO analysis_changes (coupon_id, control) VALUES (OLD.coupon_id, OLD.role = 'control'); END",
+        'WHEN OLD.coupon_id IS NOT NEW.coupon_id BEGIN INSERT INTO analysis_changes (coupon_id, control, trial_id, species_id) ' +
+        "VALUES (OLD.coupon_id, OLD.role = 'control', OLD.trial_id, OLD.species_id); END",
+      'CREATE TEMP TRIGGER IF NOT EXISTS analysis_changes_coupon_results_control_was AFTER UPDATE ON main.coupon_results ' +
+        "WHEN OLD.role = 'control' AND (NEW.role IS NOT 'control' OR OLD.trial_id IS NOT NEW.trial_id OR OLD.species_id IS NOT NEW.species_id) " +
+        'BEGIN INSERT INTO analysis_changes (coupon_id, control, trial_id, species_id) VALUES (OLD.coupon_id, 1, OLD.trial_id, OLD.species_id); END',
     );
     sqlite.exec(sql.join(';\n'));
     // A first row, so the generation is never empty; NULL: "not a coupon row", so nothing before it is patchable.
@@ -85,7 +89,7 @@ export function createDataVersion(sqlite: Database.Database): DataVersion {
       'SELECT (SELECT max(rowid) FROM temp.analysis_changes), (SELECT data_version FROM pragma_data_version), (SELECT schema_version FROM pragma_schema_version)',
     )
     .raw(true);
-  const since = sqlite.prepare('SELECT coupon_id, control FROM temp.analysis_changes WHERE rowid > ? LIMIT ?').raw(true);
+  const since = sqlite.prepare('SELECT coupon_id, control, trial_id, species_id FROM temp.analysis_changes WHERE rowid > ? LIMIT ?').raw(true);
   const first = sqlite.prepare('SELECT min(rowid) FROM temp.analysis_changes').pluck();
   const forget = sqlite.prepare('DELETE FROM temp.analysis_changes WHERE rowid <= (SELECT max(rowid) FROM temp.analysis_changes) - ?');
   const version = (() => {
@@ -102,18 +106,19 @@ export function createDataVersion(sqlite: Database.Database): DataVersion {
     if (data !== dataNow || schema !== schemaNow) return null;
     // Rows after `gen` were cut away by prune: what changed can no longer be told.
     if (Number(gen) < (first.get() as number) - 1) return null;
-    const rows = since.all(Number(gen), limit + 1) as [number | null, number | null][];
+    const rows = since.all(Number(gen), limit + 1) as [number | null, number | null, number | null, number | null][];
     if (rows.length > limit) return null;
     const couponIds: number[] = [];
     const runIds: number[] = [];
-    let controls = false;
-    for (const [id, control] of rows) {
+    const pairs = new Map<string, { trialId: number; speciesId: number }>();
+    for (const [id, control, trialId, speciesId] of rows) {
       if (id === null) return null;
       if (id < 0) runIds.push(-id);
       else couponIds.push(id);
-      if (control) controls = true;
+      // A control in no trial is no treated coupon's reference.
+      if (control && trialId !== null && speciesId !== null) pairs.set(`${trialId}|${speciesId}`, { trialId, speciesId });
     }
-    return { couponIds, runIds, controls };
+    return { couponIds, runIds, controlPairs: [...pairs.values()] };
   };
   version.prune = (keep: number) => {
     forget.run(Math.max(1, keep));

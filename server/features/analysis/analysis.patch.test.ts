@@ -1,5 +1,9 @@
 import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
+import { openDatabase } from '../../db/client';
+import { seedDemo } from '../../seed';
 import { createAnalysisService } from './analysis.service';
 import { generatedShop } from './generated-shop';
 
@@ -73,7 +77,7 @@ describe('held coupons patched after writes', () => {
     expectSameAsFresh();
   });
 
-  it('after a control changes (other coupons’ hardness gain and ASE depend on it: read afresh)', () => {
+  it('after a control changes (hardness gain is worked out from it anew)', () => {
     sqlite
       .prepare("update coupon_results set hardness_dry_shore_d = 40 where coupon_id = (select min(coupon_id) from coupon_results where role = 'control')")
       .run();
@@ -83,5 +87,50 @@ describe('held coupons patched after writes', () => {
   it('after a write to a reference table (names may change: read afresh)', () => {
     sqlite.prepare('update resins set name = name || ?  where id = ?').run(' (renamed)', r1);
     expectSameAsFresh();
+  });
+});
+
+describe('held coupons patched after a control changes (the demo shop: trials, controls, ASE and WRE)', () => {
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'lumenbook-patch-'));
+  const demo = openDatabase(path.join(dir, 'demo.db'));
+  seedDemo(demo);
+  afterAll(() => {
+    demo.close();
+    fs.rmSync(dir, { recursive: true, force: true });
+  });
+  const q = demo.sqlite;
+  const control = q
+    .prepare(
+      "select coupon_id as id, trial_id as trialId from coupon_results where role = 'control' and trial_id is not null and swelling_pct is not null limit 1",
+    )
+    .get() as { id: number; trialId: number };
+  const resin = q
+    .prepare("select resin_id from coupon_results where trial_id = ? and role = 'treated' and resin_id is not null limit 1")
+    .pluck()
+    .get(control.trialId) as number;
+  // A resin view holds no control at all, a treated-only view neither: a control's change must still reach them.
+  const demoViews = [{}, { resinId: [resin] }, { role: 'treated' as const }, { trialId: [control.trialId] }];
+  const fresh = () => createAnalysisService({ db: demo.db, now: () => new Date(0) });
+  const keep = demoViews.map(fresh);
+  const same = () =>
+    demoViews.forEach((filters, i) => {
+      const a = keep[i]!;
+      const b = fresh();
+      expect([a.overview(filters, 'measured'), a.coupons(filters, 1, 1000)]).toEqual([b.overview(filters, 'measured'), b.coupons(filters, 1, 1000)]);
+    });
+
+  it('start equal, with ASE or WRE on the screen', () => {
+    same();
+    expect(keep[0]!.coupons({}, 1, 1000).items.some((c) => c.asePct !== null || c.wrePct !== null)).toBe(true);
+  });
+
+  it('after a control’s swelling is corrected (its trial’s treated coupons have a new ASE)', () => {
+    q.prepare('update coupon_results set swelling_pct = swelling_pct * 3 + 5 where coupon_id = ?').run(control.id);
+    same();
+  });
+
+  it('after a control becomes a treated coupon (it is no longer their reference)', () => {
+    q.prepare("update coupon_results set role = 'treated' where coupon_id = ?").run(control.id);
+    same();
   });
 });

@@ -343,6 +343,18 @@ export function couponIdsOfRuns(db: Db, runIds: readonly number[]): number[] {
     .all(JSON.stringify(runIds)) as number[];
 }
 
+/** The treated coupons of the given trial × species pairs (their ASE and WRE rest on those controls). */
+export function treatedOfTrialSpecies(db: Db, pairs: readonly { trialId: number; speciesId: number }[]): number[] {
+  return prepare(
+    sqliteOf(db),
+    `select cr.coupon_id from json_each(?) p join coupon_results cr
+       on cr.trial_id = json_extract(p.value, '$.trialId') and cr.species_id = json_extract(p.value, '$.speciesId')
+     where cr.role = 'treated'`,
+  )
+    .pluck()
+    .all(JSON.stringify(pairs)) as number[];
+}
+
 export function runExists(db: Db, id: number): boolean {
   return db.select({ id: runs.id }).from(runs).where(eq(runs.id, id)).get() !== undefined;
 }

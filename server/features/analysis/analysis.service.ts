@@ -29,6 +29,7 @@ import { evidenceViewSchema } from '../../../shared/schemas/analysis';
 import { createDataVersion, keyOf, Lru } from './analysis.cache';
 import {
   couponIdsOfRuns,
+  treatedOfTrialSpecies,
   findEvidence,
   insertEvidence,
   listEvidence,
@@ -120,22 +121,23 @@ export function createAnalysisService(deps: { db: Db; now: () => Date }) {
   }
 
   /**
-   * The held rows with the coupons written since re-read, or null when a patch would not be exact: a
-   * control changed (every treated coupon of its trial and species has its ASE against the controls), or
-   * the filters have a date range (a treated coupon or a run's dates decide whether a trial's controls are
+   * The held rows with the coupons written since re-read (and those whose numbers rest on them: a run's
+   * coupons, a control's treated coupons), or null when a patch would not be exact: the filters have a date range (a treated coupon or a run's dates decide whether a trial's controls are
    * in), or the log cannot tell which coupons changed (species or resins, another connection, too many rows).
    */
   function patched(hit: HeldSet, filters: AnalysisFilters, groups?: readonly GroupSpec[]): { rows: AnalysisCoupon[]; cols: CouponColumns | null } | null {
     if (filters.from !== undefined || filters.to !== undefined) return null;
     const changed = version.changedSince(hit.version, PATCH_LIMIT);
-    // A control (in or out of these filters: a resin filter leaves every control out) carries the ASE and
-    // WRE of the treated coupons of its trial and species: read afresh.
-    if (changed === null || changed.controls) return null;
+    if (changed === null) return null;
     // A run or its stages changed: its coupons' run code and treated date follow it, so they are read again.
     const runIds = new Set(changed.runIds);
     const ofRuns = runIds.size > 0 ? couponIdsOfRuns(db, [...runIds]) : [];
     if (runIds.size > 0) for (const c of hit.rows) if (c.runId !== null && runIds.has(c.runId)) ofRuns.push(c.id);
-    const ids = [...new Set([...changed.couponIds, ...ofRuns])].sort((x, y) => x - y);
+    // A control changed (in or out of these filters: a resin filter leaves every control out): the treated
+    // coupons of its trial and species have their ASE and WRE against it, so they are read again too.
+    // Hardness gain is worked out from the controls' columns when the table is made; nothing else rests on one.
+    const ofControls = changed.controlPairs.length > 0 ? treatedOfTrialSpecies(db, changed.controlPairs) : [];
+    const ids = [...new Set([...changed.couponIds, ...ofRuns, ...ofControls])].sort((x, y) => x - y);
     if (ids.length > PATCH_LIMIT) return null;
     const fresh = loadAnalysisCoupons(db, filters, groups, ids);
     const gone = new Set(ids);

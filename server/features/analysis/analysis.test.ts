@@ -267,8 +267,14 @@ describe('saved views are evidence', () => {
 describe('cached answers', () => {
   it('serves a repeated view unchanged, and a new answer as soon as a results row is written', async () => {
     const url = `/api/analysis/overview?trialId=${trialId}`;
-    const first = (await as.viewer.get(url)).body;
-    expect((await as.viewer.get(url)).body).toEqual(first);
+    const firstRes = await as.viewer.get(url);
+    const first = firstRes.body;
+    const again = await as.viewer.get(url);
+    expect(again.body).toEqual(first);
+    // The same answer is sent from the same text: one ETag, and a 304 for a browser that holds it.
+    const etag = firstRes.headers.etag as string;
+    expect(again.headers.etag).toBe(etag);
+    expect((await as.viewer.get(url).set('If-None-Match', etag)).status).toBe(304);
     const row = treatedRows()[0]!;
     const group = (o: { groups: { speciesId: number; resinId: number | null; wpg: { mean: number } | null }[] }) =>
       o.groups.find((g) => g.speciesId === row.speciesId && g.resinId === row.resinId)!;
@@ -279,8 +285,10 @@ describe('cached answers', () => {
         .set({ wpgPct: row.wpgPct! + 30 })
         .where(eq(couponResults.couponId, row.couponId))
         .run();
-      const after = (await as.viewer.get(url)).body;
+      const afterRes = await as.viewer.get(url);
+      const after = afterRes.body;
       expect(group(after).wpg!.mean).toBeGreaterThan(group(first).wpg!.mean);
+      expect(afterRes.headers.etag).not.toBe(etag);
       const compared = await as.viewer
         .post('/api/analysis/compare')
         .send({ filters: { trialId: [trialId] }, a: { resinId: row.resinId! }, b: { role: 'control' }, metric: 'wpgPct' });

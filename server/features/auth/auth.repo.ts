@@ -1,5 +1,6 @@
 import { and, asc, count, desc, eq, gt, isNull, lte, sql } from 'drizzle-orm';
 import type { Db } from '../../db/client';
+import { once } from '../../db/prepared';
 import { authTokens, loginFailures, users, AUTH_TOKEN_KINDS, LOGIN_FAILURE_SCOPES } from '../../db/schema/auth';
 import type { User } from '../../../shared/schemas/auth';
 import { unitPrefs } from '../../../shared/units';
@@ -23,8 +24,15 @@ export function findUserByEmail(db: Db, email: string): UserRow | undefined {
   return db.select().from(users).where(eq(users.email, email)).get();
 }
 
+/** Read on every signed-in request (who is asking): prepared once per database. */
 export function findUserById(db: Db, id: number): UserRow | undefined {
-  return db.select().from(users).where(eq(users.id, id)).get();
+  return once(db, 'auth.findUserById', () =>
+    db
+      .select()
+      .from(users)
+      .where(eq(users.id, sql.placeholder('id')))
+      .prepare(),
+  ).get({ id });
 }
 
 export function insertToken(db: Db, values: { userId: number; kind: TokenKind; tokenHash: string; expiresAt: string; createdBy: number | null }) {

@@ -16,6 +16,7 @@ import {
 import { sendCsv } from '../../http/csv-export';
 import { createCouponsService } from './coupons.service';
 import { createPhotoService } from './photos.service';
+import { createAnswerMemo } from '../../http/answer-memo';
 
 /** Coupons, their weighings and checks (with corrections, deletions and history), and photos. */
 export function couponsRoutes(deps: FeatureDeps) {
@@ -24,7 +25,12 @@ export function couponsRoutes(deps: FeatureDeps) {
   const r = secureRouter();
   const id = { params: idParamsSchema };
 
-  r.get('/coupons', { access: 'viewer', schemas: { query: couponListQuerySchema } }, ({ query }) => service.list(query));
+  // A page of the list is remembered as its JSON text until the next write (decision 0018): the first page
+  // of a filter or sort is read by everyone who opens it; a page after a write costs its query again.
+  const remembered = createAnswerMemo(deps.database.db, { max: 200 });
+  r.get('/coupons', { access: 'viewer', schemas: { query: couponListQuerySchema } }, ({ query }) =>
+    remembered(`coupons|${JSON.stringify(query)}`, deps.now(), () => service.list(query)),
+  );
   // The same page with each coupon's full answer (readings, warnings, ASE): the entry grid and the run's checks need them.
   // Declared before /coupons/:id so "full" is never taken for an id.
   r.get('/coupons/full', { access: 'viewer', schemas: { query: couponListQuerySchema } }, ({ query }) => service.listFull(query));

@@ -260,7 +260,7 @@ export function createCouponsService(deps: FeatureDeps) {
 
   /** A page of the list as light rows: keys and the figures the list shows, one query plus the count. */
   function list(q: CouponListQuery): CouponRowList {
-    const rows = listCouponRows(db, pageArgs(q));
+    const { rows, total } = listCouponRows(db, pageArgs(q));
     const items: CouponListRow[] = rows.map((r) => ({
       id: r.id,
       tag: r.tag,
@@ -293,7 +293,7 @@ export function createCouponsService(deps: FeatureDeps) {
       problemCount: r.problemCount,
       firstProblem: r.firstProblem,
     }));
-    return { items, page: q.page, pageSize: q.pageSize, total: countCoupons(db, q), nextCursor: nextCursorOf(rows, q.pageSize) };
+    return { items, page: q.page, pageSize: q.pageSize, total, nextCursor: nextCursorOf(rows, q.pageSize) };
   }
 
   /** The same page with the full answers (readings, warnings, ASE), for the entry grid. */

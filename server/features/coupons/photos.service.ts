@@ -6,14 +6,13 @@ import multer from 'multer';
 import sharp from 'sharp';
 import type { FeatureDeps } from '../../deps';
 import { writeAudit } from '../../db/audit';
-import { photos } from '../../db/schema/coupons';
 import { NotFound, PayloadTooLarge, Unprocessable, ValidationFailed } from '../../http/errors';
 import type { AuthedRequest } from '../../http/types';
 import { zodFieldErrors } from '../../http/zod-errors';
 import type { User } from '../../../shared/schemas/auth';
 import { photoFieldsSchema, type PhotoOut } from '../../../shared/schemas/runs';
 import { toPhotoOut } from '../../db/photo-out';
-import { findCoupon, findPhoto, findRunRow } from './coupons.repo';
+import { findCoupon, findPhoto, findRunRow, insertPhoto } from './coupons.repo';
 
 export const MAX_PHOTO_BYTES = 8 * 1024 * 1024;
 
@@ -88,23 +87,19 @@ export function createPhotoService(deps: FeatureDeps) {
       // Owner-only; on a failed write (a full disk) the partly written file is removed below.
       await fs.promises.writeFile(full, reencoded, { flag: 'wx', mode: 0o600 });
       const row = db.transaction((tx) => {
-        const r = tx
-          .insert(photos)
-          .values({
-            couponId: 'couponId' in owner ? owner.couponId : null,
-            runId: 'runId' in owner ? owner.runId : null,
-            kind: fields.data.kind,
-            fileName,
-            // Control characters (a NUL…) have no business in a name shown on screen.
-            originalName: file.originalname.replace(/[\u0000-\u001f\u007f]/g, '').slice(0, 200),
-            mimeType: type.mime,
-            bytes: reencoded.length,
-            sha256: crypto.createHash('sha256').update(reencoded).digest('hex'),
-            caption: fields.data.caption ?? null,
-            createdBy: actor.id,
-          })
-          .returning()
-          .get();
+        const r = insertPhoto(tx, {
+          couponId: 'couponId' in owner ? owner.couponId : null,
+          runId: 'runId' in owner ? owner.runId : null,
+          kind: fields.data.kind,
+          fileName,
+          // Control characters (a NUL…) have no business in a name shown on screen.
+          originalName: file.originalname.replace(/[\u0000-\u001f\u007f]/g, '').slice(0, 200),
+          mimeType: type.mime,
+          bytes: reencoded.length,
+          sha256: crypto.createHash('sha256').update(reencoded).digest('hex'),
+          caption: fields.data.caption ?? null,
+          createdBy: actor.id,
+        });
         writeAudit(tx, { actorId: actor.id, action: 'create', entity: 'photo', entityId: r.id, after: r });
         return r;
       });

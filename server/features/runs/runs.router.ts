@@ -8,16 +8,21 @@ import { runOptions } from './runs.repo';
 import { correctStageSchema, runStageParamsSchema } from '../../../shared/schemas/runs';
 import { createStageCorrections } from './stage-corrections';
 import { createBenchService } from './bench.service';
+import { createAnswerMemo } from '../../http/answer-memo';
 import { createRunsService } from './runs.service';
 
 /** Runs (chamber cycles), their stages and gauge readings, rule checks, and the bench's to-do list. */
 export function runsRoutes(deps: FeatureDeps) {
   const service = createRunsService(deps);
   const bench = createBenchService(deps);
+  // The run list and Bench are polled; their answers depend on the clock (due times, lot age) as well.
+  const remembered = createAnswerMemo(deps.database.db, { perMinute: true, max: 200 });
   const corrections = createStageCorrections(deps);
   const r = secureRouter();
 
-  r.get('/runs', { access: 'viewer', schemas: { query: runListQuerySchema } }, ({ query }) => service.list(query));
+  r.get('/runs', { access: 'viewer', schemas: { query: runListQuerySchema } }, ({ query }) =>
+    remembered(`runs|${JSON.stringify(query)}`, deps.now(), () => service.list(query)),
+  );
   // Declared before /runs/:id so "export.csv" and "options" are never taken for an id.
   r.get('/runs/export.csv', { access: 'viewer', schemas: { query: runExportQuerySchema } }, ({ query, res }) =>
     sendCsv(res, 'runs.csv', service.exportRows(query)),
@@ -42,6 +47,8 @@ export function runsRoutes(deps: FeatureDeps) {
   );
   r.get('/runs/:id/history', { access: 'viewer', schemas: { params: idParamsSchema } }, ({ params }) => corrections.history(params.id));
   r.get('/runs/:id/checks', { access: 'viewer', schemas: { params: idParamsSchema } }, ({ user, params }) => service.checks(params.id, user.units));
-  r.get('/bench', { access: 'viewer', schemas: { query: benchQuerySchema } }, ({ query }) => bench.bench(query));
+  r.get('/bench', { access: 'viewer', schemas: { query: benchQuerySchema } }, ({ query }) =>
+    remembered(`bench|${JSON.stringify(query)}`, deps.now(), () => bench.bench(query)),
+  );
   return r;
 }

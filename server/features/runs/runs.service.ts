@@ -1,11 +1,9 @@
-import { and, asc, count, desc, eq, exists, inArray, isNotNull, not, or, sql } from 'drizzle-orm';
-import type { SQLiteColumn } from 'drizzle-orm/sqlite-core';
 import type { FeatureDeps } from '../../deps';
 import { createAuditMemo } from '../../db/audit-memo';
+import { createRunMemo } from './run-memo';
 import type { Db } from '../../db/client';
 import { writeAudit } from '../../db/audit';
 import { refreshResults, refreshResultsOfRun } from '../../measurements/results';
-import { runStages, runs } from '../../db/schema/runs';
 import { Conflict, NotFound, Unprocessable, ValidationFailed } from '../../http/errors';
 import { DomainError, WEATHER_ALLOWANCE, chamberPressure, standardPressureAtAltitude } from '../../../shared/domain/index';
 import { convertPressure, type UnitChoice } from '../../../shared/units';
@@ -29,9 +27,10 @@ import { dueItems } from '../../../shared/runs/timers';
 import { insertReadingRow, updateReadingRow, updateStageRow } from './stage-corrections.repo';
 import {
   couponCountsOfRuns,
+  countRuns,
+  listRunRows,
   countRunCodesStartingWith,
   couponsOfRuns,
-  lastAuditId,
   couponsWithTreatmentWeighings,
   findCouponsByIds,
   findLot,
@@ -53,10 +52,8 @@ import {
   type StageRow,
 } from './runs.repo';
 
-const SORTS = { id: runs.id, code: runs.code, chamber: runs.chamber, createdAt: runs.createdAt } as const;
 /** Rows per query while a CSV export is written. */
 const EXPORT_PAGE = 200;
-const likeEscaped = (col: SQLiteColumn, q: string) => sql`${col} like ${`%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`} escape '\\'`;
 
 export function toStageTimes(s: StageRow): StageTimes & { ovenSetC: number | null; ovenMeasuredC: number | null } {
   return { stage: s.stage, startedAt: s.startedAt, endedAt: s.endedAt, plannedMinutes: s.plannedMinutes, ovenSetC: s.ovenSetC, ovenMeasuredC: s.ovenMeasuredC };
@@ -145,8 +142,16 @@ export function keepRecorded(existing: StageRow, merged: Pick<StageRow, keyof ty
 export function createRunsService(deps: FeatureDeps) {
   const { db } = deps.database;
 
-  function checksFor(run: RunRow, stages: StageRow[], lot: LotWithResin | undefined, couponInfo: RunCouponInfo[], now: Date, units?: UnitChoice): RuleCheck[] {
-    const s = getShopSettings(db);
+  /** settings: read once by a caller that checks many runs (the list), else here. */
+  function checksFor(
+    run: RunRow,
+    stages: StageRow[],
+    lot: LotWithResin | undefined,
+    couponInfo: RunCouponInfo[],
+    now: Date,
+    units?: UnitChoice,
+    s = getShopSettings(db),
+  ): RuleCheck[] {
     return runChecks({
       stages: stages.map(toStageTimes),
       resin: lot ? { name: lot.resin.name, cureMinC: lot.resin.cureMinC, cureMaxC: lot.resin.cureMaxC, shelfLifeDays: lot.resin.shelfLifeDays } : null,
@@ -330,64 +335,44 @@ export function createRunsService(deps: FeatureDeps) {
     );
   }
 
-  /** The list's WHERE: status, latest stage, lot and search (shared by the page and the CSV export). */
-  function listWhere(q: RunExportQuery) {
-    const stageExists = (stages: readonly RunStage[], ended?: boolean) =>
-      exists(
-        db
-          .select({ one: runStages.id })
-          .from(runStages)
-          .where(and(eq(runStages.runId, runs.id), inArray(runStages.stage, [...stages]), ended ? isNotNull(runStages.endedAt) : undefined)),
-      );
-    const cureEnded = stageExists(['cure'], true);
-    const later = q.stage ? RUN_STAGES.slice(RUN_STAGES.indexOf(q.stage) + 1) : [];
-    const filters = [
-      q.resinLotId === undefined ? undefined : eq(runs.resinLotId, q.resinLotId),
-      q.status === 'planned' ? not(stageExists(RUN_STAGES)) : undefined,
-      q.status === 'in-progress' ? and(stageExists(RUN_STAGES), not(cureEnded)) : undefined,
-      q.status === 'finished' ? cureEnded : undefined,
-      q.status === 'open' ? not(cureEnded) : undefined,
-      q.stage ? and(stageExists([q.stage]), later.length ? not(stageExists(later)) : undefined) : undefined,
-      q.q ? or(likeEscaped(runs.code, q.q), likeEscaped(runs.chamber, q.q)) : undefined,
-    ].filter((f) => f !== undefined);
-    return filters.length ? and(...filters) : undefined;
-  }
+  // The rule checks' counts per run, remembered until a write touches that run (createRunMemo: its
+  // coupons, their readings, its stages; a lot or the settings empty it). The clock enters the checks only
+  // through the lot's age before the vacuum starts (shared/runs/checks.ts, lot-shelf-life), so a run
+  // without a vacuum stage is also recounted each minute. The coupons' part (tags, dry weighings, drying
+  // series, thickness: 25,000 coupons for a page of 50 full runs) is remembered apart, the same way.
+  const countsMemo = createRunMemo<{ counts: RunSummary['checkCounts']; minute: number | null }>(db);
+  const couponsMemo = createRunMemo<RunCouponInfo[]>(db);
 
-  function listOrder(sort: string | undefined) {
-    const key = (sort ?? '-id').replace(/^-/, '') as keyof typeof SORTS;
-    const direction = sort === undefined || sort.startsWith('-') ? desc : asc;
-    return [direction(SORTS[key] ?? runs.id), desc(runs.id)];
-  }
-
-  // The rule checks' counts per run, remembered until the next audited write (every change to a run,
-  // a coupon, a reading, a lot or the settings writes one) or the next minute (time-based rules), so a
-  // list read does not walk every coupon and drying check of the page's runs each time.
-  let countsMemo = { auditId: -1, minute: -1, byRun: new Map<number, RunSummary['checkCounts']>() };
-
-  function checkCountsOf(rows: RunRow[], stagesByRun: Map<number, StageRow[]>, lots: Map<number, LotWithResin>, now: Date) {
-    const auditId = lastAuditId(db);
-    const minute = Math.floor(now.getTime() / 60_000);
-    if (countsMemo.auditId !== auditId || countsMemo.minute !== minute) countsMemo = { auditId, minute, byRun: new Map() };
-    const memo = countsMemo.byRun;
-    const missing = rows.filter((r) => !memo.has(r.id));
+  function couponInfoOf(runIds: number[]): Map<number, RunCouponInfo[]> {
+    const memo = couponsMemo.sync();
+    const missing = runIds.filter((id) => !memo.has(id));
     if (missing.length) {
-      const byRun = new Map<number, RunCouponInfo[]>();
-      for (const c of couponsOfRuns(
-        db,
-        missing.map((r) => r.id),
-      )) {
-        const list = byRun.get(c.runId);
-        if (list) list.push(c);
-        else byRun.set(c.runId, [c]);
-      }
-      for (const run of missing) {
-        const lot = run.resinLotId === null ? undefined : lots.get(run.resinLotId);
-        const counts = { ok: 0, warn: 0, fail: 0, pending: 0 };
-        for (const c of checksFor(run, stagesByRun.get(run.id) ?? [], lot, byRun.get(run.id) ?? [], now)) counts[c.status]++;
-        memo.set(run.id, counts);
-      }
+      for (const id of missing) memo.set(id, []);
+      for (const c of couponsOfRuns(db, missing)) (memo.get(c.runId) as RunCouponInfo[]).push(c);
     }
     return memo;
+  }
+
+  function checkCountsOf(rows: RunRow[], stagesByRun: Map<number, StageRow[]>, lots: Map<number, LotWithResin>, now: Date) {
+    const minute = Math.floor(now.getTime() / 60_000);
+    // A lot's dates and the shop's drying rule enter the counts too: their writes empty the memo (runsTouchedSince).
+    const memo = countsMemo.sync();
+    const missing = rows.filter((r) => {
+      const hit = memo.get(r.id);
+      return !hit || (hit.minute !== null && hit.minute !== minute);
+    });
+    if (missing.length) {
+      const byRun = couponInfoOf(missing.map((r) => r.id));
+      const settings = getShopSettings(db);
+      for (const run of missing) {
+        const lot = run.resinLotId === null ? undefined : lots.get(run.resinLotId);
+        const stages = stagesByRun.get(run.id) ?? [];
+        const counts = { ok: 0, warn: 0, fail: 0, pending: 0 };
+        for (const c of checksFor(run, stages, lot, byRun.get(run.id) ?? [], now, undefined, settings)) counts[c.status]++;
+        memo.set(run.id, { counts, minute: stages.some((st) => st.stage === 'vacuum') ? null : minute });
+      }
+    }
+    return new Map(rows.map((r) => [r.id, (memo.get(r.id) as { counts: RunSummary['checkCounts'] }).counts]));
   }
 
   // Coupons per run of a page, remembered until the next write (a grouped count over up to 500 × page rows).
@@ -432,17 +417,8 @@ export function createRunsService(deps: FeatureDeps) {
   }
 
   function list(q: RunListQuery): { items: RunSummary[]; page: number; pageSize: number; total: number } {
-    const where = listWhere(q);
-    const rows = db
-      .select()
-      .from(runs)
-      .where(where)
-      .orderBy(...listOrder(q.sort))
-      .limit(q.pageSize)
-      .offset((q.page - 1) * q.pageSize)
-      .all();
-    const total = db.select({ n: count() }).from(runs).where(where).get()?.n ?? 0;
-    return { items: summaries(rows), page: q.page, pageSize: q.pageSize, total };
+    const rows = listRunRows(db, q, q.pageSize, (q.page - 1) * q.pageSize);
+    return { items: summaries(rows), page: q.page, pageSize: q.pageSize, total: countRuns(db, q) };
   }
 
   /** Every run the list's filters match, a page at a time, as CSV rows after a header. */
@@ -462,17 +438,8 @@ export function createRunsService(deps: FeatureDeps) {
       'checks_pending',
       'created_at',
     ];
-    const where = listWhere(q);
-    const order = listOrder(q.sort);
     for (let offset = 0; ; offset += EXPORT_PAGE) {
-      const rows = db
-        .select()
-        .from(runs)
-        .where(where)
-        .orderBy(...order)
-        .limit(EXPORT_PAGE)
-        .offset(offset)
-        .all();
+      const rows = listRunRows(db, q, EXPORT_PAGE, offset);
       for (const r of summaries(rows)) {
         yield [
           r.code,

@@ -580,6 +580,45 @@ describe('listing runs', () => {
   });
 });
 
+describe("the list's check counts, remembered per run", () => {
+  /** What the run list says, and what the run's own checks add up to: they must agree after every write. */
+  async function counts(runId: number) {
+    const code = (await as.viewer.get(`/api/runs/${runId}`)).body.run.code;
+    const listed = (await as.viewer.get(`/api/runs?q=${code}`)).body.items.find((r: { id: number }) => r.id === runId).checkCounts;
+    const tally = { ok: 0, warn: 0, fail: 0, pending: 0 };
+    for (const c of (await as.viewer.get(`/api/runs/${runId}/checks`)).body.checks as { status: keyof typeof tally }[]) tally[c.status]++;
+    return { listed, tally };
+  }
+  async function agree(...runIds: number[]) {
+    for (const id of runIds) {
+      const { listed, tally } = await counts(id);
+      expect(listed, `run ${id}`).toEqual(tally);
+    }
+  }
+
+  it('follows weighings, corrections, stages and coupons moved between runs', async () => {
+    const a1 = await makeCoupon();
+    const b1 = await makeCoupon();
+    const runA = await makeRun({ couponIds: [a1] });
+    const runB = await makeRun({ couponIds: [b1] });
+    await agree(runA, runB);
+    await stage(runA, { stage: 'vacuum', startedAt: hoursFromNow(-1) });
+    await agree(runA, runB);
+    const w = await as.technician.post(`/api/coupons/${b1}/weighings`).send({ stage: 'drying-check', massG: 50, measuredAt: hoursFromNow(-8) });
+    expect(w.status, JSON.stringify(w.body)).toBe(201);
+    await as.technician.post(`/api/coupons/${b1}/weighings`).send({ stage: 'drying-check', massG: 49.99, measuredAt: hoursFromNow(-3) });
+    await as.technician.post(`/api/coupons/${b1}/weighings`).send({ stage: 'dry', massG: 49.99, measuredAt: hoursFromNow(-2) });
+    await agree(runA, runB);
+    const corrected = await as.technician.patch(`/api/weighings/${w.body.weighing.id}`).send({ massG: 52, reason: 'misread' });
+    expect(corrected.status, JSON.stringify(corrected.body)).toBe(200);
+    await agree(runA, runB);
+    expect((await as.technician.patch(`/api/runs/${runB}`).send({ addCouponIds: [a1] })).status).toBe(409);
+    expect((await as.technician.patch(`/api/runs/${runA}`).send({ removeCouponIds: [a1] })).status).toBe(200);
+    expect((await as.technician.patch(`/api/runs/${runB}`).send({ addCouponIds: [a1] })).status).toBe(200);
+    await agree(runA, runB);
+  });
+});
+
 describe('the demo', () => {
   it('writes runs in different stages with gauge readings in inHg and weighings, the same every time', async () => {
     const db = h.database.db;

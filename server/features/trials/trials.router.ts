@@ -6,12 +6,17 @@ import { optionsQuerySchema } from '../../../shared/schemas/options';
 import { sendCsv } from '../../http/csv-export';
 import { trialOptions } from './trials.repo';
 import { createTrialsService } from './trials.service';
+import { createAnswerMemo } from '../../http/answer-memo';
 
 export function trialsRoutes(deps: FeatureDeps) {
   const service = createTrialsService({ db: deps.database.db, now: deps.now, appUrl: deps.config.appUrl });
+  // The trial list is read far more often than the records change (its progress counts read the results table).
+  const remembered = createAnswerMemo(deps.database.db, { max: 200 });
   const r = secureRouter();
 
-  r.get('/trials', { access: 'viewer', schemas: { query: trialListQuerySchema } }, ({ query }) => service.listTrials(query));
+  r.get('/trials', { access: 'viewer', schemas: { query: trialListQuerySchema } }, ({ query }) =>
+    remembered(`trials|${JSON.stringify(query)}`, deps.now(), () => service.listTrials(query)),
+  );
   // Declared before /trials/:id so "export.csv" and "options" are never taken for an id.
   r.get('/trials/export.csv', { access: 'viewer', schemas: { query: trialExportQuerySchema } }, ({ query, res }) =>
     sendCsv(res, 'trials.csv', service.exportRows(query)),

@@ -282,7 +282,19 @@ function CouponList({
   onSort: (sort: string) => void;
 }) {
   const units = useUnits();
-  const list = useQuery(couponListQuery({ ...filters, page, pageSize: PAGE_SIZE }));
+  // "Next page" follows the cursor the server gave with this page (keyset), so a page far down a shop's
+  // 100,000 coupons costs what the first one does; a page reached by its number alone (a link, or
+  // "Previous" before the pages walked) is read by offset. The cursors belong to one filter and sort.
+  const scope = JSON.stringify(filters);
+  const [cursors, setCursors] = useState<{ scope: string; at: Record<number, string> }>({ scope, at: {} });
+  const known = cursors.scope === scope ? cursors.at : {};
+  const after = known[page];
+  const list = useQuery(couponListQuery({ ...filters, page, pageSize: PAGE_SIZE, ...(after ? { after } : {}) }));
+  const goTo = (p: number) => {
+    const next = list.data?.nextCursor;
+    if (p === page + 1 && next) setCursors({ scope, at: { ...known, [p]: next } });
+    onPage(p);
+  };
   const sort = filters.sort ?? 'tag';
   const header = (label: string, field: CouponSort, className?: string) => (
     <SortHeader label={label} field={field} sort={sort} onSort={onSort} className={className} />
@@ -344,7 +356,7 @@ function CouponList({
               </tbody>
             </table>
           </div>
-          <Pager page={page} pageSize={list.data.pageSize} total={list.data.total} onPage={onPage} what="coupons" />
+          <Pager page={page} pageSize={list.data.pageSize} total={list.data.total} onPage={goTo} what="coupons" />
         </>
       )}
     </>
