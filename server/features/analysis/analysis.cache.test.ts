@@ -84,7 +84,7 @@ describe('the coupons written since a version', () => {
     const version = createDataVersion(db);
     db.prepare('insert into coupon_results (coupon_id, v) values (1, 1), (2, 2), (3, 3)').run();
     const v0 = version();
-    expect(version.changedSince(v0, 10)).toEqual({ couponIds: [], runIds: [], controlPairs: [] });
+    expect(version.changedSince(v0, 10)).toEqual({ couponIds: [], runIds: [], controlPairs: [], names: false });
     db.prepare('update coupon_results set v = 20 where coupon_id = 2').run();
     db.prepare('delete from coupon_results where coupon_id = 3').run();
     db.prepare('insert into coupon_results (coupon_id, v) values (4, 4)').run();
@@ -97,15 +97,15 @@ describe('the coupons written since a version', () => {
     version.prune(1);
     expect(version()).toBe(v1); // pruning keeps the generation
     expect(version.changedSince(v0, 10)).toBeNull(); // the rows after v0 are gone: cannot tell
-    expect(version.changedSince(v1, 10)).toEqual({ couponIds: [], runIds: [], controlPairs: [] });
+    expect(version.changedSince(v1, 10)).toEqual({ couponIds: [], runIds: [], controlPairs: [], names: false });
     db.prepare("update coupon_results set role = 'control', trial_id = 5, species_id = 9 where coupon_id = 1").run();
     expect(version.changedSince(v1, 10)?.controlPairs).toEqual([{ trialId: 5, speciesId: 9 }]); // whatever filters a reader has
     db.prepare("update coupon_results set role = 'treated', trial_id = 6 where coupon_id = 1").run();
     // It stopped being a control: its former trial's treated coupons lose it as their reference.
     expect(version.changedSince(v1, 10)?.controlPairs).toEqual([{ trialId: 5, speciesId: 9 }]);
     const vBefore = version();
-    db.prepare('insert into resins (id, v) values (1, 1)').run(); // another source table: not a coupon row
-    expect(version.changedSince(vBefore, 10)).toBeNull();
+    db.prepare('insert into resins (id, v) values (1, 1)').run(); // a reference table: names may change, no coupon row did
+    expect(version.changedSince(vBefore, 10)).toEqual({ couponIds: [], runIds: [], controlPairs: [], names: true });
     const v2 = version();
     const writer = new Database(file);
     writer.prepare('update coupon_results set v = 5 where coupon_id = 1').run();

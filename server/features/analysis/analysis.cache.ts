@@ -30,11 +30,14 @@ export interface DataVersion {
    * What was written through this connection since `since` (a string this function returned): the ids of
    * the results rows and of the runs (a run or its stages), in no order, possibly repeated, and the trial ×
    * species of every control among the results rows (before and after the write, whatever the reader's
-   * filters: the treated coupons there have their ASE and WRE against it); null when that
-   * cannot be told from the log: another connection wrote, the schema changed, species or resins were
-   * written, or more than `limit` rows were.
+   * filters: the treated coupons there have their ASE and WRE against it), and whether species or resins
+   * were written (`names`); null when that cannot be told from the log: another connection wrote, the
+   * schema changed, or more than `limit` rows were.
    */
-  changedSince(since: string, limit: number): { couponIds: number[]; runIds: number[]; controlPairs: { trialId: number; speciesId: number }[] } | null;
+  changedSince(
+    since: string,
+    limit: number,
+  ): { couponIds: number[]; runIds: number[]; controlPairs: { trialId: number; speciesId: number }[]; names: boolean } | null;
   /**
    * Keeps the log to its last `keep` rows. The log belongs to the connection, which may serve several
    * readers, so it is cut by length, never by what one reader has seen; a reader whose version is older
@@ -48,7 +51,8 @@ export function createDataVersion(sqlite: Database.Database): DataVersion {
   const install = () => {
     const sql = ['CREATE TEMP TABLE IF NOT EXISTS analysis_changes (coupon_id INTEGER, control INTEGER, trial_id INTEGER, species_id INTEGER)'];
     // What a row of each table logs: a results row its coupon's id, a run or a run's stage the run's id
-    // negated (its coupons' run code and treated date follow it), species and resins NULL.
+    // negated (its coupons' run code and treated date follow it), species and resins NULL with control 2
+    // (names and reference values: a held set keeps its rows and takes the new names).
     // A results row also logs whether it is a control, with its trial and species (other coupons' ASE and
     // WRE rest on the controls of their trial and species); a control that stops being one, or moves,
     // logs its former trial and species as well (below).
@@ -59,8 +63,8 @@ export function createDataVersion(sqlite: Database.Database): DataVersion {
           : "NEW.coupon_id, NEW.role = 'control', NEW.trial_id, NEW.species_id",
       runs: (op) => `-${op === 'delete' ? 'OLD' : 'NEW'}.id, 0, NULL, NULL`,
       run_stages: (op) => `-${op === 'delete' ? 'OLD' : 'NEW'}.run_id, 0, NULL, NULL`,
-      species: () => 'NULL, 0, NULL, NULL',
-      resins: () => 'NULL, 0, NULL, NULL',
+      species: () => 'NULL, 2, NULL, NULL',
+      resins: () => 'NULL, 2, NULL, NULL',
     };
     for (const table of ANALYSIS_SOURCE_TABLES) {
       for (const op of ['insert', 'update', 'delete'] as const)
@@ -111,14 +115,19 @@ export function createDataVersion(sqlite: Database.Database): DataVersion {
     const couponIds: number[] = [];
     const runIds: number[] = [];
     const pairs = new Map<string, { trialId: number; speciesId: number }>();
+    let names = false;
     for (const [id, control, trialId, speciesId] of rows) {
+      if (id === null && control === 2) {
+        names = true;
+        continue;
+      }
       if (id === null) return null;
       if (id < 0) runIds.push(-id);
       else couponIds.push(id);
       // A control in no trial is no treated coupon's reference.
       if (control && trialId !== null && speciesId !== null) pairs.set(`${trialId}|${speciesId}`, { trialId, speciesId });
     }
-    return { couponIds, runIds, controlPairs: [...pairs.values()] };
+    return { couponIds, runIds, controlPairs: [...pairs.values()], names };
   };
   version.prune = (keep: number) => {
     forget.run(Math.max(1, keep));

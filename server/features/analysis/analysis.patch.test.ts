@@ -20,7 +20,7 @@ afterAll(() => {
 });
 
 const [r1, r2] = shop.resinIds as [number, number];
-const views = [{}, { speciesId: [shop.speciesId] }, { thicknessMinMm: 25 }, { from: '2020-01-03' }, { resinId: [r1] }];
+const views = [{}, { speciesId: [shop.speciesId] }, { thicknessMinMm: 25 }, { from: '2020-01-03' }, { resinId: [r1] }, { speciesOrigin: 'handbook' as const }];
 const service = () => createAnalysisService({ db: shop.database.db, now: () => new Date(0) });
 // One held service per view, so each keeps its set from one write to the next (a service holds 3 sets).
 // The resin view holds no control at all: a control's change must still refresh it.
@@ -84,8 +84,13 @@ describe('held coupons patched after writes', () => {
     expectSameAsFresh();
   });
 
-  it('after a write to a reference table (names may change: read afresh)', () => {
-    sqlite.prepare('update resins set name = name || ?  where id = ?').run(' (renamed)', r1);
+  it('after a write to a reference table (the rows are kept, names and reference values taken anew)', () => {
+    sqlite.prepare('update resins set name = name || ?, cured_density_g_cm3 = 1.3 where id = ?').run(' (renamed)', r1);
+    expectSameAsFresh();
+    sqlite.prepare('update species set common_name = common_name || ?, basic_sg = basic_sg * 1.05 where id = ?').run(' (renamed)', shop.speciesId);
+    expectSameAsFresh();
+    // A species changes origin: it leaves the origin filter's set.
+    sqlite.prepare("update species set origin = 'shop-measured' where id = ?").run(shop.speciesId);
     expectSameAsFresh();
   });
 });

@@ -483,7 +483,8 @@ export function loadAnalysisCoupons(db: Db, f: AnalysisFilters, groups?: readonl
 /**
  * A held table brought up to date with `fresh`, the rows just read again for the coupon ids `ids` (sorted):
  * a coupon of `ids` is taken from `fresh`, or dropped when it is not there (it left the filters or was
- * deleted); every other coupon is kept. Names are the fresh read's (current). When the coupons are the
+ * deleted); every other coupon is kept. Names and the species' reference values are the fresh read's
+ * (current), so a write to species or resins needs no row read again. When the coupons are the
  * same ones in the same places, `old`'s arrays are rewritten at those places only and taken over (`old`
  * must not be used afterwards); otherwise the columns are gathered anew.
  */
@@ -532,7 +533,7 @@ export function mergeTables(old: CouponTable, fresh: CouponTable, ids: readonly 
       t.tag[p] = fresh.tag[q] as string;
       t.problems[p] = fresh.problems[q] ?? null;
     }
-    return tableOf(t);
+    return tableOf(withReference(t));
   }
   const m = from.length;
   const gather = <A extends Float64Array | Uint8Array | Int32Array>(a: A, b: A, make: (n: number) => A, map?: (v: number) => number): A => {
@@ -556,7 +557,18 @@ export function mergeTables(old: CouponTable, fresh: CouponTable, ids: readonly 
     names: fresh.names,
   } as TableData;
   for (const k of FLOAT_COLUMNS) t[k] = gather(old[k], fresh[k], f64);
-  return tableOf(t);
+  return tableOf(withReference(t));
+}
+
+/** The species' reference SG and its spread written again for every coupon, from the table's (current) names. */
+function withReference(t: TableData): TableData {
+  const sp = t.names.species;
+  for (let i = 0; i < t.n; i++) {
+    const s = sp.get(t.speciesId[i] as number);
+    t.referenceSg[i] = s?.referenceSg ?? Number.NaN;
+    t.referenceSgCov[i] = s?.cov ?? Number.NaN;
+  }
+  return t;
 }
 
 /** Treated coupons of the given species × resin pairs from runs other than `runId` (the shop's history). */

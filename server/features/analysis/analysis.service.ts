@@ -121,12 +121,16 @@ export function createAnalysisService(deps: { db: Db; now: () => Date }) {
    * The held coupons with those written since read again (and those whose numbers rest on them: a run's
    * coupons, a control's treated coupons), or null when a patch would not be exact: the filters have a
    * date range (a treated coupon or a run's dates decide whether a trial's controls are in), or the log
-   * cannot tell which coupons changed (species or resins, another connection, too many rows).
+   * cannot tell which coupons changed (another connection, too many rows). After species or resins are
+   * written, the rows are kept and the names and reference values taken anew.
    */
   function patched(hit: HeldSet, filters: AnalysisFilters, groups?: readonly GroupSpec[]): CouponTable | null {
     if (filters.from !== undefined || filters.to !== undefined) return null;
     const changed = version.changedSince(hit.version, PATCH_LIMIT);
     if (changed === null) return null;
+    // Species or resins written: names and reference values are read with the patch (mergeTables takes
+    // them), but a species' origin decides which coupons an origin filter holds, so that set is read afresh.
+    if (changed.names && filters.speciesOrigin !== undefined) return null;
     const old = hit.table;
     // A run or its stages changed: its coupons' run code and treated date follow it, so they are read again.
     const runIds = new Set(changed.runIds);
