@@ -65,12 +65,15 @@ const NUMBERS = {
   swellingBasis: "case cr.swelling_basis when 'volume' then 1 when 'mass' then 2 else 0 end",
   hardnessScale: `coalesce(${HARDNESS_SCALE}, 0)`,
 } as const;
-const NULLABLE = {
+/** Ids that may be null: an array of small integers and nulls is kept unboxed too, so they come as they are. */
+const IDS = {
   trialId: 'cr.trial_id',
   conditionId: 'cr.condition_id',
   runId: 'cr.run_id',
   resinId: 'cr.resin_id',
   lotId: 'cr.resin_lot_id',
+} as const;
+const NULLABLE = {
   thicknessMm: 'cr.thickness_mm',
   dryMassG: 'cr.dry_mass_g',
   curedMassG: 'cr.cured_mass_g',
@@ -90,6 +93,7 @@ const STRINGS = {
 } as const;
 type NumberName = keyof typeof NUMBERS;
 type NullableName = keyof typeof NULLABLE;
+type IdName = keyof typeof IDS;
 type StringName = keyof typeof STRINGS;
 
 /** The read statement's SELECT over the filtered, ordered rows, and the order of its results. */
@@ -97,7 +101,7 @@ function readSql(where: string): { sql: string; order: string[] } {
   const inner: string[] = [];
   const outer: string[] = [];
   const order: string[] = [];
-  for (const [name, expr] of Object.entries(NUMBERS)) {
+  for (const [name, expr] of Object.entries({ ...NUMBERS, ...IDS })) {
     inner.push(`${expr} as ${name}`);
     outer.push(`json_group_array(${name})`);
     order.push(name);
@@ -374,7 +378,17 @@ export function loadCouponTable(db: Db, f: AnalysisFilters, groups?: readonly Gr
     }
     return a;
   };
-  const trial = floats('trialId');
+  /** A nullable id column as a Float64Array, NaN for null. */
+  const idColumn = (name: IdName): Float64Array => {
+    const from = parsed.get(name) as (number | null)[];
+    const a = new Float64Array(n);
+    for (let i = 0; i < n; i++) {
+      const v = from[i];
+      a[i] = v === null || v === undefined ? Number.NaN : v;
+    }
+    return a;
+  };
+  const trial = idColumn('trialId');
   const swelling = floats('swellingPct');
   const isControl = numbers('control');
   const speciesIds = numbers('speciesId');
@@ -412,11 +426,11 @@ export function loadCouponTable(db: Db, f: AnalysisFilters, groups?: readonly Gr
     n,
     id: Float64Array.from(ids),
     trialId: trial,
-    conditionId: floats('conditionId'),
-    runId: floats('runId'),
+    conditionId: idColumn('conditionId'),
+    runId: idColumn('runId'),
     speciesId: Float64Array.from(speciesIds),
-    resinId: floats('resinId'),
-    lotId: floats('lotId'),
+    resinId: idColumn('resinId'),
+    lotId: idColumn('lotId'),
     control: new Uint8Array(n),
     board: new Int32Array(n),
     boards: [],
