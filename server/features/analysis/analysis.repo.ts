@@ -245,6 +245,8 @@ export interface CouponTable extends CouponColumns {
   /** The results row's list of blank metrics as stored (JSON), null where it has none. */
   readonly problems: readonly (string | null)[];
   readonly names: TableNames;
+  /** The objects made so far, by position (the plot points and tables of one set ask for the same ones). */
+  readonly made: Map<number, AnalysisCoupon>;
 }
 
 /** Names and reference values by id, read with a set (small tables, one entry per species, resin, run). */
@@ -293,10 +295,18 @@ type TableData = { -readonly [K in (typeof FLOAT_COLUMNS)[number]]: Float64Array
 
 const orNull = (v: number): number | null => (v === v ? v : null);
 
-/** The table with its `coupon(i)`: the same object, key for key, the analysis has always been given. */
-function tableOf(t: TableData): CouponTable {
+/**
+ * The table with its `coupon(i)`: the same object, key for key, the analysis has always been given, made
+ * once per position (`made`, kept from an earlier table when its positions and names still hold).
+ */
+function tableOf(t: TableData, made = new Map<number, AnalysisCoupon>()): CouponTable {
   const { species: sp, resins, runCodes, dates } = t.names;
   const coupon = (i: number): AnalysisCoupon => {
+    let c = made.get(i);
+    if (!c) made.set(i, (c = make(i)));
+    return c;
+  };
+  const make = (i: number): AnalysisCoupon => {
     const speciesId = t.speciesId[i] as number;
     const s = sp.get(speciesId);
     const resinId = orNull(t.resinId[i] as number);
@@ -341,7 +351,7 @@ function tableOf(t: TableData): CouponTable {
       blankReasons,
     };
   };
-  return { ...t, coupon };
+  return { ...t, coupon, made };
 }
 
 /**
@@ -502,7 +512,7 @@ export function loadAnalysisCoupons(db: Db, f: AnalysisFilters, groups?: readonl
  * same ones in the same places, `old`'s arrays are rewritten at those places only and taken over (`old`
  * must not be used afterwards); otherwise the columns are gathered anew.
  */
-export function mergeTables(old: CouponTable, fresh: CouponTable, ids: readonly number[]): CouponTable {
+export function mergeTables(old: CouponTable, fresh: CouponTable, ids: readonly number[], namesChanged: boolean): CouponTable {
   const gone = new Set(ids);
   // Where each row of the result comes from: p ≥ 0 the old row p, p < 0 the fresh row −1 − p.
   const from: number[] = [];
@@ -546,8 +556,10 @@ export function mergeTables(old: CouponTable, fresh: CouponTable, ids: readonly 
       t.board[p] = boardOf(fresh.board[q] as number);
       t.tag[p] = fresh.tag[q] as string;
       t.problems[p] = fresh.problems[q] ?? null;
+      old.made.delete(p);
     }
-    return tableOf(withReference(t));
+    // The objects already made stay good where their row was kept, unless the names changed.
+    return tableOf(withReference(t), namesChanged ? undefined : old.made);
   }
   const m = from.length;
   const gather = <A extends Float64Array | Uint8Array | Int32Array>(a: A, b: A, make: (n: number) => A, map?: (v: number) => number): A => {

@@ -143,7 +143,7 @@ export function createAnalysisService(deps: { db: Db; now: () => Date }) {
     const ids = [...new Set([...changed.couponIds, ...ofRuns, ...ofControls])].sort((x, y) => x - y);
     if (ids.length > PATCH_LIMIT) return null;
     // The old table's arrays may be rewritten in place: the caller puts the result in the set's place.
-    return mergeTables(old, loadCouponTable(db, filters, groups, ids), ids);
+    return mergeTables(old, loadCouponTable(db, filters, groups, ids), ids, changed.names);
   }
 
   /** An answer computed once per question and data version. */
