@@ -75,21 +75,16 @@ const IDS = {
 } as const;
 const NULLABLE = {
   thicknessMm: 'cr.thickness_mm',
-  dryMassG: 'cr.dry_mass_g',
-  curedMassG: 'cr.cured_mass_g',
   drySg: 'cr.dry_sg',
   wpgPct: 'cr.wpg_pct',
   resinLoadingKgM3: 'cr.resin_loading_kg_m3',
   voidFillPct: 'cr.void_fill_pct',
-  maxWpgPct: 'cr.max_wpg_pct',
   swellingPct: 'cr.swelling_pct',
   hardnessValue: HARDNESS_VALUE,
 } as const;
 const STRINGS = {
   tag: 'cr.tag',
   sourceBoard: 'cr.source_board',
-  // The blank reasons are read only where there are some.
-  problems: 'case when cr.problem_count > 0 then cr.problems end',
 } as const;
 type NumberName = keyof typeof NUMBERS;
 type NullableName = keyof typeof NULLABLE;
@@ -235,15 +230,10 @@ function prepare(sqlite: Database.Database, sqlText: string): Database.Statement
  */
 export interface CouponTable extends CouponColumns {
   readonly trialId: Float64Array;
-  readonly dryMassG: Float64Array;
-  readonly curedMassG: Float64Array;
-  readonly maxWpgPct: Float64Array;
   /** Index into `boards`; −1 when none is named, −2 for an empty name (no board, as columnsOf counts it). */
   readonly board: Int32Array;
   readonly boards: readonly string[];
   readonly tag: readonly string[];
-  /** The results row's list of blank metrics as stored (JSON), null where it has none. */
-  readonly problems: readonly (string | null)[];
   readonly names: TableNames;
   /** The objects made so far, by position (the plot points and tables of one set ask for the same ones). */
   readonly made: Map<number, AnalysisCoupon>;
@@ -255,7 +245,12 @@ interface TableNames {
   resins: Map<number, { name: string; density: number | null }>;
   runCodes: Map<number, string>;
   dates: Map<number, string>;
+  /** A coupon's masses, maximum WPG and blank metrics, read when its object is made (see tableOf). */
+  details: (id: number) => Details;
 }
+
+/** What only a coupon's object shows: dry and cured mass, maximum WPG, blank metrics (JSON as stored, null when none). */
+type Details = [number | null, number | null, number | null, string | null];
 
 /** The numeric columns of a CouponTable (one Float64Array each, NaN for null), in one list for merging. */
 const FLOAT_COLUMNS = [
@@ -267,15 +262,12 @@ const FLOAT_COLUMNS = [
   'resinId',
   'lotId',
   'thicknessMm',
-  'dryMassG',
-  'curedMassG',
   'drySg',
   'referenceSg',
   'referenceSgCov',
   'wpgPct',
   'resinLoadingKgM3',
   'voidFillPct',
-  'maxWpgPct',
   'swellingPct',
   'asePct',
   'wrePct',
@@ -289,7 +281,6 @@ type TableData = { -readonly [K in (typeof FLOAT_COLUMNS)[number]]: Float64Array
   board: Int32Array;
   boards: string[];
   tag: string[];
-  problems: (string | null)[];
   names: TableNames;
 };
 
@@ -300,7 +291,7 @@ const orNull = (v: number): number | null => (v === v ? v : null);
  * once per position (`made`, kept from an earlier table when its positions and names still hold).
  */
 function tableOf(t: TableData, made = new Map<number, AnalysisCoupon>()): CouponTable {
-  const { species: sp, resins, runCodes, dates } = t.names;
+  const { species: sp, resins, runCodes, dates, details } = t.names;
   const coupon = (i: number): AnalysisCoupon => {
     let c = made.get(i);
     if (!c) made.set(i, (c = make(i)));
@@ -313,11 +304,12 @@ function tableOf(t: TableData, made = new Map<number, AnalysisCoupon>()): Coupon
     const r = resinId === null ? undefined : resins.get(resinId);
     const runId = orNull(t.runId[i] as number);
     const b = t.board[i] as number;
+    const id = t.id[i] as number;
+    const [dryMassG, curedMassG, maxWpgPct, p] = details(id);
     const blankReasons: Record<string, string> = {};
-    const p = t.problems[i];
     if (p !== null && p !== undefined) for (const x of JSON.parse(p) as { metric: string; message: string }[]) blankReasons[x.metric] ??= x.message;
     return {
-      id: t.id[i] as number,
+      id,
       tag: t.tag[i] as string,
       trialId: orNull(t.trialId[i] as number),
       conditionId: orNull(t.conditionId[i] as number),
@@ -333,15 +325,15 @@ function tableOf(t: TableData, made = new Map<number, AnalysisCoupon>()): Coupon
       role: t.control[i] === 1 ? 'control' : 'treated',
       sourceBoard: b >= 0 ? (t.boards[b] as string) : b === -2 ? '' : null,
       thicknessMm: orNull(t.thicknessMm[i] as number),
-      dryMassG: orNull(t.dryMassG[i] as number),
-      curedMassG: orNull(t.curedMassG[i] as number),
+      dryMassG,
+      curedMassG,
       drySg: orNull(t.drySg[i] as number),
       referenceSg: s?.referenceSg ?? null,
       referenceSgCov: s?.cov ?? null,
       wpgPct: orNull(t.wpgPct[i] as number),
       resinLoadingKgM3: orNull(t.resinLoadingKgM3[i] as number),
       voidFillPct: orNull(t.voidFillPct[i] as number),
-      maxWpgPct: orNull(t.maxWpgPct[i] as number),
+      maxWpgPct,
       swellingPct: orNull(t.swellingPct[i] as number),
       asePct: orNull(t.asePct[i] as number),
       wrePct: orNull(t.wrePct[i] as number),
@@ -352,6 +344,20 @@ function tableOf(t: TableData, made = new Map<number, AnalysisCoupon>()): Coupon
     };
   };
   return { ...t, coupon, made };
+}
+
+/**
+ * A coupon's details, read by id when its object is made. Objects are made only while the set is current
+ * (right after the version check, in the same synchronous request), so the row read is the one the set's
+ * numbers came from; a coupon gone meanwhile (another connection) shows no details, and that write gives
+ * a new version, so the answer is computed again on the next request.
+ */
+function detailsOf(sqlite: Database.Database): (id: number) => Details {
+  const st = prepare(
+    sqlite,
+    'select dry_mass_g, cured_mass_g, max_wpg_pct, case when problem_count > 0 then problems end from coupon_results where coupon_id = ?',
+  ).raw(true);
+  return (id) => (st.get(id) as Details | undefined) ?? [null, null, null, null];
 }
 
 /**
@@ -445,23 +451,19 @@ export function loadCouponTable(db: Db, f: AnalysisFilters, groups?: readonly Gr
     board: new Int32Array(n),
     boards: [],
     thicknessMm: floats('thicknessMm'),
-    dryMassG: floats('dryMassG'),
-    curedMassG: floats('curedMassG'),
     drySg: floats('drySg'),
     referenceSg: new Float64Array(n),
     referenceSgCov: new Float64Array(n),
     wpgPct: floats('wpgPct'),
     resinLoadingKgM3: floats('resinLoadingKgM3'),
     voidFillPct: floats('voidFillPct'),
-    maxWpgPct: floats('maxWpgPct'),
     swellingPct: swelling,
     asePct: new Float64Array(n).fill(Number.NaN),
     wrePct: new Float64Array(n).fill(Number.NaN),
     hardnessValue: hValue,
     hardnessScale: new Uint8Array(n),
     tag: strings('tag') as string[],
-    problems: strings('problems'),
-    names: { species: sp, resins, runCodes, dates },
+    names: { species: sp, resins, runCodes, dates, details: detailsOf(sqlite) },
   };
   const boardIndex = new Map<string, number>();
   for (let i = 0; i < n; i++) {
@@ -545,7 +547,7 @@ export function mergeTables(old: CouponTable, fresh: CouponTable, ids: readonly 
     return k;
   };
   if (inPlace) {
-    const t = { ...old, boards, tag: old.tag as string[], problems: old.problems as (string | null)[], names: fresh.names } as TableData;
+    const t = { ...old, boards, tag: old.tag as string[], names: fresh.names } as TableData;
     for (let p = 0; p < from.length; p++) {
       const f = from[p] as number;
       if (f >= 0) continue;
@@ -555,7 +557,6 @@ export function mergeTables(old: CouponTable, fresh: CouponTable, ids: readonly 
       t.hardnessScale[p] = fresh.hardnessScale[q] as number;
       t.board[p] = boardOf(fresh.board[q] as number);
       t.tag[p] = fresh.tag[q] as string;
-      t.problems[p] = fresh.problems[q] ?? null;
       old.made.delete(p);
     }
     // The objects already made stay good where their row was kept, unless the names changed.
@@ -579,7 +580,6 @@ export function mergeTables(old: CouponTable, fresh: CouponTable, ids: readonly 
     board: gather(old.board, fresh.board, (k) => new Int32Array(k), boardOf),
     boards,
     tag: from.map((f) => (f >= 0 ? old.tag[f] : fresh.tag[-1 - f]) as string),
-    problems: from.map((f) => (f >= 0 ? old.problems[f] : fresh.problems[-1 - f]) ?? null),
     names: fresh.names,
   } as TableData;
   for (const k of FLOAT_COLUMNS) t[k] = gather(old[k], fresh[k], f64);
