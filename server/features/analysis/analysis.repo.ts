@@ -83,7 +83,6 @@ const NULLABLE = {
   hardnessValue: HARDNESS_VALUE,
 } as const;
 const STRINGS = {
-  tag: 'cr.tag',
   sourceBoard: 'cr.source_board',
 } as const;
 type NumberName = keyof typeof NUMBERS;
@@ -224,16 +223,16 @@ function prepare(sqlite: Database.Database, sqlText: string): Database.Statement
 }
 
 /**
- * A set of coupons read into columns (shared/analysis/columns.ts), with what else an object of it holds:
- * tags and blank reasons per coupon, and names by id (species, resins, runs and their dates, current at
- * the read). `coupon(i)` makes the object the analysis sees; nothing else makes one per coupon.
+ * A set of coupons read into columns (shared/analysis/columns.ts), with the names by id an object of it
+ * shows (species, resins, runs and their dates, current at the read). `coupon(i)` makes the object the
+ * analysis sees, reading the few things only an object shows (tag, masses, maximum WPG, blank reasons)
+ * for that coupon then; objects are made only for what is shown, never one per coupon.
  */
 export interface CouponTable extends CouponColumns {
   readonly trialId: Float64Array;
   /** Index into `boards`; −1 when none is named, −2 for an empty name (no board, as columnsOf counts it). */
   readonly board: Int32Array;
   readonly boards: readonly string[];
-  readonly tag: readonly string[];
   readonly names: TableNames;
   /** The objects made so far, by position (the plot points and tables of one set ask for the same ones). */
   readonly made: Map<number, AnalysisCoupon>;
@@ -245,12 +244,12 @@ interface TableNames {
   resins: Map<number, { name: string; density: number | null }>;
   runCodes: Map<number, string>;
   dates: Map<number, string>;
-  /** A coupon's masses, maximum WPG and blank metrics, read when its object is made (see tableOf). */
+  /** A coupon's tag, masses, maximum WPG and blank metrics, read when its object is made (see tableOf). */
   details: (id: number) => Details;
 }
 
-/** What only a coupon's object shows: dry and cured mass, maximum WPG, blank metrics (JSON as stored, null when none). */
-type Details = [number | null, number | null, number | null, string | null];
+/** What only a coupon's object shows: its tag, dry and cured mass, maximum WPG, blank metrics (JSON as stored, null when none). */
+type Details = [string, number | null, number | null, number | null, string | null];
 
 /** The numeric columns of a CouponTable (one Float64Array each, NaN for null), in one list for merging. */
 const FLOAT_COLUMNS = [
@@ -280,7 +279,6 @@ type TableData = { -readonly [K in (typeof FLOAT_COLUMNS)[number]]: Float64Array
   hardnessScale: Uint8Array;
   board: Int32Array;
   boards: string[];
-  tag: string[];
   names: TableNames;
 };
 
@@ -305,12 +303,12 @@ function tableOf(t: TableData, made = new Map<number, AnalysisCoupon>()): Coupon
     const runId = orNull(t.runId[i] as number);
     const b = t.board[i] as number;
     const id = t.id[i] as number;
-    const [dryMassG, curedMassG, maxWpgPct, p] = details(id);
+    const [tag, dryMassG, curedMassG, maxWpgPct, p] = details(id);
     const blankReasons: Record<string, string> = {};
     if (p !== null && p !== undefined) for (const x of JSON.parse(p) as { metric: string; message: string }[]) blankReasons[x.metric] ??= x.message;
     return {
       id,
-      tag: t.tag[i] as string,
+      tag,
       trialId: orNull(t.trialId[i] as number),
       conditionId: orNull(t.conditionId[i] as number),
       runId,
@@ -355,9 +353,9 @@ function tableOf(t: TableData, made = new Map<number, AnalysisCoupon>()): Coupon
 function detailsOf(sqlite: Database.Database): (id: number) => Details {
   const st = prepare(
     sqlite,
-    'select dry_mass_g, cured_mass_g, max_wpg_pct, case when problem_count > 0 then problems end from coupon_results where coupon_id = ?',
+    'select tag, dry_mass_g, cured_mass_g, max_wpg_pct, case when problem_count > 0 then problems end from coupon_results where coupon_id = ?',
   ).raw(true);
-  return (id) => (st.get(id) as Details | undefined) ?? [null, null, null, null];
+  return (id) => (st.get(id) as Details | undefined) ?? ['', null, null, null, null];
 }
 
 /**
@@ -462,7 +460,6 @@ export function loadCouponTable(db: Db, f: AnalysisFilters, groups?: readonly Gr
     wrePct: new Float64Array(n).fill(Number.NaN),
     hardnessValue: hValue,
     hardnessScale: new Uint8Array(n),
-    tag: strings('tag') as string[],
     names: { species: sp, resins, runCodes, dates, details: detailsOf(sqlite) },
   };
   const boardIndex = new Map<string, number>();
@@ -547,7 +544,7 @@ export function mergeTables(old: CouponTable, fresh: CouponTable, ids: readonly 
     return k;
   };
   if (inPlace) {
-    const t = { ...old, boards, tag: old.tag as string[], names: fresh.names } as TableData;
+    const t = { ...old, boards, names: fresh.names } as TableData;
     for (let p = 0; p < from.length; p++) {
       const f = from[p] as number;
       if (f >= 0) continue;
@@ -556,7 +553,6 @@ export function mergeTables(old: CouponTable, fresh: CouponTable, ids: readonly 
       t.control[p] = fresh.control[q] as number;
       t.hardnessScale[p] = fresh.hardnessScale[q] as number;
       t.board[p] = boardOf(fresh.board[q] as number);
-      t.tag[p] = fresh.tag[q] as string;
       old.made.delete(p);
     }
     // The objects already made stay good where their row was kept, unless the names changed.
@@ -579,7 +575,6 @@ export function mergeTables(old: CouponTable, fresh: CouponTable, ids: readonly 
     hardnessScale: gather(old.hardnessScale, fresh.hardnessScale, u8),
     board: gather(old.board, fresh.board, (k) => new Int32Array(k), boardOf),
     boards,
-    tag: from.map((f) => (f >= 0 ? old.tag[f] : fresh.tag[-1 - f]) as string),
     names: fresh.names,
   } as TableData;
   for (const k of FLOAT_COLUMNS) t[k] = gather(old[k], fresh[k], f64);
