@@ -175,6 +175,30 @@ describe('measurements module: bulk path', () => {
     expect(db.select().from(couponResults).where(eq(couponResults.couponId, a!)).get()).toMatchObject({ dryMassG: 10 });
   });
 
+  it('writes without judging again when the change counter has not moved since the judgement, and judges again when it has', () => {
+    const db = h.database.db;
+    const [a, b] = newCoupons(2);
+    const dry = (couponId: number, massG: number) => ({ couponId, weighings: [{ stage: 'dry' as const, massG, measuredAt: at(0) }] });
+    const judgedAt = m.changeCounter(db);
+    expect(db.transaction((tx) => m.checkBulk(tx, [dry(a!, 10)]))).toEqual([]);
+    const first = db.transaction((tx) => m.bulkAdd(tx, actor, 'import:11', [dry(a!, 10)], { skipRefused: true, audit: 'per-source', judgedAt }));
+    expect(first).toMatchObject({ judgedAgain: false, refused: [], written: { weighings: 1, checks: 0 } });
+    // That write moved the counter: the same judgement no longer vouches for b, whose dry mass a write now gives.
+    expect(db.transaction((tx) => m.checkBulk(tx, [dry(b!, 9)]))).toEqual([]);
+    db.transaction((tx) => m.addWeighing(tx, actor, 'entry', b!, { stage: 'dry', massG: 9.5, measuredAt: at(1) }));
+    const second = db.transaction((tx) => m.bulkAdd(tx, actor, 'import:11', [dry(b!, 9)], { skipRefused: true, audit: 'per-source', judgedAt }));
+    expect(second.judgedAgain).toBe(true);
+    expect(second.refused.map((p) => [p.entry, p.field, p.code])).toEqual([[0, 'stage', 'conflict']]);
+    expect(
+      db
+        .select()
+        .from(weighings)
+        .where(eq(weighings.couponId, b!))
+        .all()
+        .map((w) => w.massG),
+    ).toEqual([9.5]);
+  });
+
   it('soft-deletes many readings at once: kept with deleted_at, one audit entry per coupon, results rewritten', () => {
     const db = h.database.db;
     const ids = newCoupons(2);

@@ -2,6 +2,7 @@ import { getTableColumns } from 'drizzle-orm';
 import type { Db } from '../db/client';
 import { checks, weighings } from '../db/schema/coupons';
 import { writeAudit } from '../db/audit';
+import { lastAuditId } from '../db/audit-memo';
 import { AppError, Conflict, NotFound, Unprocessable, ValidationFailed } from '../http/errors';
 import type { MeasurementSource, WeighingStage } from '../../shared/constants/records';
 import type { CheckInput, CorrectCheckInput, CorrectWeighingInput, WeighingInput } from '../../shared/schemas/coupons';
@@ -331,6 +332,14 @@ export function createMeasurements(deps: { now: () => Date }) {
     return writeRows(tx, actor, source, entries, batchPrefix);
   }
 
+  /**
+   * The records' change counter (the highest audit id): read it BEFORE `checkBulk` and hand it to
+   * `bulkAdd` as `judgedAt`, which then skips judging again when nothing changed in between.
+   */
+  function changeCounter(tx: Db): number {
+    return lastAuditId(tx);
+  }
+
   /** Problems a bulk write would refuse, without writing anything (an import's preview). */
   function checkBulk(tx: Db, entries: readonly MeasurementEntry[]): ReadingProblem[] {
     return validate(
@@ -355,19 +364,31 @@ export function createMeasurements(deps: { now: () => Date }) {
    * its source, import id, creator and time, so who added what and when stays answerable from the rows
    * (and the coupon's history shows the import's entries); at 100,000 coupons the per-coupon entries
    * were a third of the commit's writing time for no information the rows lack.
+   *
+   * `judgedAt`: the change counter (`changeCounter`) read before `checkBulk` accepted EVERY one of these
+   * entries. When the counter still has that value inside this transaction, no record changed since that
+   * judgement (every write of the records adds an audit entry in its own transaction, from any
+   * connection, and audit ids are never reused), so the same rules on the same state would answer the
+   * same: the entries are written without judging them again (`judgedAgain: false`). Otherwise they are
+   * judged as always. The caller must pass only entries that judgement accepted.
    */
   function bulkAdd(
     tx: Db,
     actor: Actor,
     source: MeasurementSource,
     entries: readonly MeasurementEntry[],
-    options: { reason?: string; skipRefused?: boolean; audit?: 'per-coupon' | 'per-source' } = {},
+    options: { reason?: string; skipRefused?: boolean; audit?: 'per-coupon' | 'per-source'; judgedAt?: number } = {},
   ) {
-    const states = loadStates(
-      tx,
-      entries.map((e) => e.couponId),
-    );
-    const refused = validate(entries, states);
+    const judgedAgain = options.judgedAt === undefined || lastAuditId(tx) !== options.judgedAt;
+    const refused = judgedAgain
+      ? validate(
+          entries,
+          loadStates(
+            tx,
+            entries.map((e) => e.couponId),
+          ),
+        )
+      : [];
     if (refused.length && !options.skipRefused) throw combinedError(errorsOf(refused, batchPrefix));
     const skip = new Set<string>();
     for (const p of refused) skip.add(p.list === null ? `${p.entry}` : `${p.entry}|${p.list}|${p.index}`);
@@ -426,7 +447,7 @@ export function createMeasurements(deps: { now: () => Date }) {
     }
     const couponIds = perSource ? [...touched] : [...perCoupon.keys()];
     refreshResults(tx, couponIds);
-    return { written: { weighings: nw, checks: nc }, couponIds, refused };
+    return { written: { weighings: nw, checks: nc }, couponIds, refused, judgedAgain };
   }
 
   /**
@@ -549,7 +570,7 @@ export function createMeasurements(deps: { now: () => Date }) {
     return { old: { ...old, deletedAt } };
   }
 
-  return { addWeighing, addCheck, batch, checkBulk, bulkAdd, bulkDelete, correctWeighing, correctCheck, deleteWeighing, deleteCheck };
+  return { addWeighing, addCheck, batch, changeCounter, checkBulk, bulkAdd, bulkDelete, correctWeighing, correctCheck, deleteWeighing, deleteCheck };
 }
 
 export type Measurements = ReturnType<typeof createMeasurements>;

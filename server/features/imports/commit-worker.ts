@@ -3,7 +3,7 @@ import { drizzle } from 'drizzle-orm/better-sqlite3';
 import { openWorkerConnection, schema } from '../../db/client';
 import { AppError } from '../../http/errors';
 import { createMeasurements } from '../../measurements/measurements';
-import { unpackJob, writeCommit, type PackedCommitJob } from './commit';
+import { unpackJob, writeCommit, type CommitOutcome, type PackedCommitJob } from './commit';
 
 /**
  * The worker thread that writes an import's commit (decision 0017): started ahead of the commit (loading
@@ -19,7 +19,7 @@ export interface CommitWorkerInput {
   nowOffsetMs: number;
 }
 export type CommitWorkerOutput =
-  | { ok: 'committed' | 'blocked' }
+  | { ok: CommitOutcome }
   | { error: { message: string; app: { code: AppError['code']; fieldErrors?: AppError['fieldErrors'] } | null; sqliteCode: string | null; stack?: string } };
 
 function run(input: CommitWorkerInput): CommitWorkerOutput {

@@ -42,6 +42,11 @@ export interface Analysis {
   accepted: number[];
   corrections: number[];
   previewRows: ImportPreviewRow[];
+  /**
+   * The records' change counter read before the judgement began (`measurements.changeCounter`): the
+   * commit writes the accepted rows without judging them again when it still reads the same value.
+   */
+  judgedAt: number;
 }
 
 /** What the measurements module refused, as one of the import's problem classes. */
@@ -113,18 +118,26 @@ export interface CommitJob {
   problems: ImportProblem[];
 }
 
+/** How a commit ended, and whether its readings were judged again (null: it had none to write). */
+export interface CommitOutcome {
+  status: 'committed' | 'blocked';
+  judgedAgain: boolean | null;
+}
+
 /**
  * The commit itself, in ONE transaction taken with the write lock at its start (`immediate`, so it
  * waits for a short write of the main thread instead of failing on a stale snapshot): every accepted
  * reading goes through the measurements module's bulk path, which judges them again on exactly the state
- * it writes to (someone may have weighed a coupon since the preview), then the corrections, the problems
- * and the import row. Under all-or-nothing, a reading refused now rolls everything back and the import
- * goes back to `previewed`, saying why. Runs in a worker thread (commit-worker.ts) on its own connection.
+ * it writes to (someone may have weighed a coupon since the preview) unless the records' change counter
+ * shows nothing changed since the preview judged them; then the corrections, the problems and the import
+ * row. Under all-or-nothing, a reading refused now rolls everything back and the import goes back to
+ * `previewed`, saying why. Runs in a worker thread (commit-worker.ts) on its own connection.
  */
-export function writeCommit(db: Db, measurements: Measurements, job: CommitJob, now: () => Date): 'committed' | 'blocked' {
+export function writeCommit(db: Db, measurements: Measurements, job: CommitJob, now: () => Date): CommitOutcome {
   const { importId: id, actor, mapping, collected, analysis: a, problems } = job;
   const source = `import:${id}` as const;
   let blocked = false;
+  let judgedAgain: boolean | null = null;
   try {
     db.transaction(
       (tx) => {
@@ -136,8 +149,10 @@ export function writeCommit(db: Db, measurements: Measurements, job: CommitJob, 
             actor,
             source,
             accepted.map((i) => entryOf(mapping, collected, i)),
-            { skipRefused: true, audit: 'per-source' },
+            // Read first in this transaction: the corrections below add audit entries.
+            { skipRefused: true, audit: 'per-source', judgedAt: a.judgedAt },
           );
+          judgedAgain = out.judgedAgain;
           // Refused now though accepted a moment ago: the coupon changed meanwhile.
           const lateAt = new Map<number, ReadingProblem>();
           const before = a.problems.length;
@@ -197,14 +212,14 @@ export function writeCommit(db: Db, measurements: Measurements, job: CommitJob, 
       },
       { behavior: 'immediate' },
     );
-    return 'committed';
+    return { status: 'committed', judgedAgain };
   } catch (err) {
     if (!blocked || !(err instanceof AppError)) throw err;
     db.transaction((tx) => {
       replaceProblems(tx, id, problems);
       updateImport(tx, id, { status: 'previewed', counts: a.counts, previewRows: a.previewRows, error: blockedMessage(a.counts.problems) });
     });
-    return 'blocked';
+    return { status: 'blocked', judgedAgain };
   }
 }
 

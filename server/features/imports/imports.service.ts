@@ -53,7 +53,18 @@ import {
   type ImportRow,
 } from './imports.repo';
 import { createReceiver } from './upload';
-import { blockedMessage, entryOf, MAX_PROBLEMS, packJob, previewRowsOf, refusal, type Analysis, type Collected, type CommitJob } from './commit';
+import {
+  blockedMessage,
+  entryOf,
+  MAX_PROBLEMS,
+  packJob,
+  previewRowsOf,
+  refusal,
+  type Analysis,
+  type Collected,
+  type CommitJob,
+  type CommitOutcome,
+} from './commit';
 import type { CommitWorkerInput, CommitWorkerOutput } from './commit-worker';
 
 /** Unknown tags for which near matches are searched (each search walks every tag). */
@@ -432,6 +443,8 @@ export function createImportsService(deps: FeatureDeps) {
       accepted: [],
       corrections: [],
       previewRows: [],
+      // Before the first chunk: a write committed after it (between chunks, or before the commit) moves it.
+      judgedAt: measurements.changeCounter(db),
     };
     const live: number[] = [];
     for (let i = 0; i < c.row.length; i++) {
@@ -513,7 +526,7 @@ export function createImportsService(deps: FeatureDeps) {
     const worker = new Worker(new URL('./worker-boot.mjs', import.meta.url), {
       workerData: { entry: new URL('./commit-worker.ts', import.meta.url).href },
     });
-    let waiting: { resolve: (v: 'committed' | 'blocked') => void; reject: (e: unknown) => void } | null = null;
+    let waiting: { resolve: (v: CommitOutcome) => void; reject: (e: unknown) => void } | null = null;
     let broken: Error | null = null;
     const idle = setTimeout(() => void worker.terminate(), WARM_WORKER_MS);
     idle.unref();
@@ -541,7 +554,7 @@ export function createImportsService(deps: FeatureDeps) {
     return {
       /** False once it ended (idle too long, or failed to start): the commit then starts another. */
       usable: () => broken === null,
-      run(job: CommitJob): Promise<'committed' | 'blocked'> {
+      run(job: CommitJob): Promise<CommitOutcome> {
         clearTimeout(idle);
         const input: CommitWorkerInput = { file: deps.database.sqlite.name, job: packJob(job), nowOffsetMs: deps.now().getTime() - Date.now() };
         return new Promise((resolve, reject) => {
@@ -650,7 +663,8 @@ export function createImportsService(deps: FeatureDeps) {
       const outcome = takeWorker(id).run(job);
       // Posted: the worker has its own copy. Dropping ours lets this thread's heap shrink while the worker writes.
       job = null;
-      await outcome;
+      const out = await outcome;
+      deps.logger.info({ importId: id, status: out.status, judgedAgain: out.judgedAgain }, 'import commit written');
     });
     return detail(id);
   }

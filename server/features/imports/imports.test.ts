@@ -3,9 +3,11 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { and, eq, isNull } from 'drizzle-orm';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startHarness, type Harness } from '../../testing/harness';
-import { openWorkerConnection } from '../../db/client';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
+import { startHarness, type Harness, type HarnessOptions } from '../../testing/harness';
+import { drizzle } from 'drizzle-orm/better-sqlite3';
+import { openWorkerConnection, schema } from '../../db/client';
+import { createMeasurements } from '../../measurements/measurements';
 import { auditLog } from '../../db/schema/admin';
 import { coupons, weighings } from '../../db/schema/coupons';
 import { species } from '../../db/schema/reference';
@@ -17,8 +19,8 @@ const FIXTURES = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../
 const fixture = (name: string) => fs.readFileSync(path.join(FIXTURES, name));
 
 /** A fresh shop (the demo data) with treated coupons FX-01…FX-06 and a control FX-C1, as the fixtures expect. */
-async function shop() {
-  const h = await startHarness();
+async function shop(options: HarnessOptions = {}) {
+  const h = await startHarness(options);
   const tech = await h.signIn('tech@demo.test');
   const viewer = await h.signIn('viewer@demo.test');
   const sp = h.database.db
@@ -83,6 +85,16 @@ async function committed(agent: Agent, d: ImportDetail, over: Partial<ImportMapp
   const res = await agent.post(`/api/imports/${d.id}/commit`).send({ mapping: mappingFor(d, over), ...extra });
   expect(res.status, JSON.stringify(res.body)).toBe(202);
   return settle(agent, d.id);
+}
+
+/** Whether the commit of this import judged its readings again, from the app's log (written once the worker answered). */
+async function judgedAgainIn(lines: string[], id: number): Promise<boolean | null> {
+  const entry = () =>
+    lines
+      .map((l) => JSON.parse(l) as { msg: string; importId?: number; judgedAgain?: boolean | null })
+      .find((l) => l.msg === 'import commit written' && l.importId === id);
+  await vi.waitFor(() => expect(entry()).toBeDefined(), { timeout: 30_000, interval: 20 });
+  return entry()!.judgedAgain ?? null;
 }
 
 const currentOf = (h: Harness, couponId: number) =>
@@ -265,8 +277,9 @@ describe('imports: upload, detect, preview, commit, undo', () => {
 
 describe('imports: every problem class explained by row and column', () => {
   let s: Awaited<ReturnType<typeof shop>>;
+  const logLines: string[] = [];
   beforeAll(async () => {
-    s = await shop();
+    s = await shop({ logLines });
     // FX-01 has a dry mass above what the file says it weighed soaked: impossible.
     expect(
       (await s.tech.post(`/api/coupons/${s.ids['FX-01']}/weighings`).send({ stage: 'dry', massG: 12.5, measuredAt: '2026-03-01T08:00:00.000Z' })).status,
@@ -316,6 +329,49 @@ describe('imports: every problem class explained by row and column', () => {
     expect(currentOf(s.h, ids[1]!).map((w) => [w.massG, w.importId])).toEqual([[11.25, d.id]]);
     const problems = (await s.tech.get(`/api/imports/${d.id}/problems`)).body.items as ImportProblem[];
     expect(problems.map((p) => [p.row, p.code, p.outcome])).toEqual([[2, 'existing-reading', 'skipped']]);
+    expect(await judgedAgainIn(logLines, d.id)).toBe(true);
+  });
+
+  it("writes the preview's accepted rows without judging them again when nothing was written since", async () => {
+    const sp = s.h.database.db.select().from(species).limit(1).get()!;
+    const ids: number[] = [];
+    for (const tag of ['UC-01', 'UC-02']) ids.push((await s.tech.post('/api/coupons').send({ tag, speciesId: sp.id, role: 'treated' })).body.coupon.id);
+    const d = (await upload(s.tech, 'unchanged.csv', Buffer.from('tag,mass\r\nUC-01,10.5\r\nUC-02,11.25\r\n'))).body as ImportDetail;
+    const { done } = await previewed(s.tech, d, { stage: 'dry' });
+    expect(done.counts).toMatchObject({ rows: 2, accepted: 2, skipped: 0, problems: 0 });
+    const c = await committed(s.tech, d, { stage: 'dry' });
+    expect(c.status, c.error ?? '').toBe('committed');
+    expect(c.counts).toMatchObject({ rows: 2, accepted: 2, skipped: 0, problems: 0 });
+    expect(await judgedAgainIn(logLines, d.id)).toBe(false);
+    expect(ids.map((id) => currentOf(s.h, id).map((w) => [w.massG, w.importId]))).toEqual([[[10.5, d.id]], [[11.25, d.id]]]);
+  });
+
+  it('judges again when another connection wrote between the preview and the commit, and reports the new problem', async () => {
+    const sp = s.h.database.db.select().from(species).limit(1).get()!;
+    const ids: number[] = [];
+    for (const tag of ['OC-01', 'OC-02']) ids.push((await s.tech.post('/api/coupons').send({ tag, speciesId: sp.id, role: 'treated' })).body.coupon.id);
+    // OC-02 already weighs 20 g dry, so a soaked reading of 21 g is possible at the preview.
+    await s.tech.post(`/api/coupons/${ids[1]}/weighings`).send({ stage: 'dry', massG: 20, measuredAt: '2026-03-02T08:00:00.000Z' }).expect(201);
+    const d = (await upload(s.tech, 'other.csv', Buffer.from('tag,mass\r\nOC-01,10.5\r\nOC-02,21\r\n'))).body as ImportDetail;
+    const { done } = await previewed(s.tech, d, { stage: 'soaked' });
+    expect(done.counts).toMatchObject({ rows: 2, accepted: 2, problems: 0 });
+    // A second connection (as the commit's worker uses) corrects OC-02's dry mass above 21 g meanwhile.
+    const other = openWorkerConnection(s.h.database.sqlite.name);
+    try {
+      const dryId = currentOf(s.h, ids[1]!)[0]!.id;
+      const odb = drizzle(other, { schema });
+      const actor = { id: (await s.tech.get('/api/auth/me')).body.user.id as number };
+      odb.transaction((tx) => createMeasurements({ now: () => new Date() }).correctWeighing(tx, actor, dryId, { massG: 22, reason: 'misread' }));
+    } finally {
+      other.close();
+    }
+    const c = await committed(s.tech, d, { stage: 'soaked' });
+    expect(c.status, c.error ?? '').toBe('committed');
+    expect(c.counts).toMatchObject({ rows: 2, accepted: 1, problems: 1 });
+    expect(await judgedAgainIn(logLines, d.id)).toBe(true);
+    const problems = (await s.tech.get(`/api/imports/${d.id}/problems`)).body.items as ImportProblem[];
+    expect(problems.map((p) => [p.row, p.code, p.column, p.outcome])).toEqual([[3, 'impossible-mass', 'mass', 'problem']]);
+    expect(currentOf(s.h, ids[1]!).map((w) => [w.stage, w.massG])).toEqual([['dry', 22]]);
   });
 
   it('writes nothing under all-or-nothing while problems remain, and says why', async () => {
