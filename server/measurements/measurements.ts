@@ -446,7 +446,8 @@ export function createMeasurements(deps: { now: () => Date }) {
       for (const [couponId, after] of perCoupon) audit(couponId, null, { source, ...after }, options.reason ?? null);
     }
     const couponIds = perSource ? [...touched] : [...perCoupon.keys()];
-    refreshResults(tx, couponIds);
+    // An import's weighings leave the columns computed from checks as they are.
+    refreshResults(tx, couponIds, { weighingsOnly: nc === 0 });
     return { written: { weighings: nw, checks: nc }, couponIds, refused, judgedAgain };
   }
 
@@ -488,7 +489,7 @@ export function createMeasurements(deps: { now: () => Date }) {
       audit(couponId, before, after, reason);
     }
     const couponIds = [...perCoupon.keys()];
-    refreshResults(tx, couponIds);
+    refreshResults(tx, couponIds, { weighingsOnly: !ids.checks?.length });
     return { deleted: { weighings: ids.weighings?.length ?? 0, checks: ids.checks?.length ?? 0 }, couponIds, deletedAt };
   }
 

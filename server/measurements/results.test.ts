@@ -6,6 +6,8 @@ import { checks, coupons, weighings } from '../db/schema/coupons';
 import { resinLots, species } from '../db/schema/reference';
 import { runs } from '../db/schema/runs';
 import { couponResults } from '../db/schema/results';
+import { users } from '../db/schema/auth';
+import { createMeasurements } from './measurements';
 import { rebuildResults } from './results';
 import { WEIGHING_STAGES, CHECK_STAGES, HARDNESS_SCALES } from '../../shared/constants/records';
 
@@ -25,7 +27,10 @@ const snapshot = () => h.database.db.select().from(couponResults).orderBy(asc(co
 const at = (n: number) => new Date(Date.UTC(2026, 3, 1) + (n % 500) * 3_600_000).toISOString();
 const pick = <T>(list: readonly T[], n: number): T | undefined => (list.length ? list[n % list.length] : undefined);
 
-/** One random change, through the HTTP API as the client sends it, so every write path is exercised. */
+// The bulk path an import's commit and undo use, called as the commit's worker calls it.
+const m = createMeasurements({ now: () => new Date() });
+
+/** One random change, through the HTTP API as the client sends it, so every write path is exercised (and the bulk path directly). */
 const op = fc.oneof(
   fc.record({
     kind: fc.constant('weigh' as const),
@@ -58,6 +63,16 @@ const op = fc.oneof(
     massG: fc.double({ min: 1, max: 60, noNaN: true }),
     t: fc.nat(),
   }),
+  fc.record({
+    kind: fc.constant('bulk' as const),
+    cs: fc.array(fc.record({ c: fc.nat(), stage: fc.constantFrom(...WEIGHING_STAGES), massG: fc.double({ min: 1, max: 60, noNaN: true }) }), {
+      minLength: 1,
+      maxLength: 4,
+    }),
+    t: fc.nat(),
+    judged: fc.boolean(),
+  }),
+  fc.record({ kind: fc.constant('bulk-delete' as const), ns: fc.array(fc.nat(), { minLength: 1, maxLength: 3 }) }),
   fc.record({ kind: fc.constant('correct-weighing' as const), n: fc.nat(), massG: fc.double({ min: 1, max: 60, noNaN: true }) }),
   fc.record({ kind: fc.constant('correct-check' as const), n: fc.nat(), th: fc.double({ min: 5, max: 40, noNaN: true }) }),
   fc.record({ kind: fc.constant('delete-weighing' as const), n: fc.nat() }),
@@ -108,6 +123,28 @@ async function apply(o: Op, ids: { coupons: number[]; runs: number[]; lots: numb
         entries: o.cs.map((c, i) => ({ couponId: pick(ids.coupons, c)!, weighings: [{ stage: 'drying-check', massG: o.massG + i, measuredAt: at(o.t + i) }] })),
       });
       break;
+    case 'bulk': {
+      // As an import's commit writes: refused readings skipped, one audit entry on the import, and half the
+      // time vouched for by a judgement at the current change counter (so written without judging again).
+      const entries = o.cs.map((x, i) => ({ couponId: pick(ids.coupons, x.c)!, weighings: [{ stage: x.stage, massG: x.massG, measuredAt: at(o.t + i) }] }));
+      const actor = { id: db.select({ id: users.id }).from(users).where(eq(users.email, 'tech@demo.test')).get()!.id };
+      db.transaction((tx) => {
+        const judgedAt = m.changeCounter(tx);
+        const accepted = new Set(entries.map((_, i) => i));
+        for (const p of m.checkBulk(tx, entries)) accepted.delete(p.entry);
+        const mine = o.judged ? entries.filter((_, i) => accepted.has(i)) : entries;
+        m.bulkAdd(tx, actor, 'import:1', mine, { skipRefused: true, audit: 'per-source', ...(o.judged ? { judgedAt } : {}) });
+      });
+      return 201;
+    }
+    case 'bulk-delete': {
+      const live = liveW();
+      const chosen = [...new Set(o.ns.map((n) => pick(live, n)?.id).filter((id): id is number => id !== undefined))];
+      if (!chosen.length) return 0;
+      const actor = { id: db.select({ id: users.id }).from(users).where(eq(users.email, 'tech@demo.test')).get()!.id };
+      db.transaction((tx) => m.bulkDelete(tx, actor, { weighings: chosen }, 'import undone'));
+      return 200;
+    }
     case 'correct-weighing': {
       const w = pick(liveW(), o.n);
       if (!w) return 0;

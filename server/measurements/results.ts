@@ -2,7 +2,7 @@ import { getTableColumns, sql } from 'drizzle-orm';
 import type { Db } from '../db/client';
 import { getTableConfig } from 'drizzle-orm/sqlite-core';
 import { couponResults, type CouponResultValues } from '../db/schema/results';
-import type { CheckKind, CheckStage, CouponRole, HardnessScale, WeighingStage } from '../../shared/constants/records';
+import type { CheckStage, CouponRole, HardnessScale } from '../../shared/constants/records';
 import { checkVolumeCm3, couponMetrics, type CheckReading, type WeighingReading } from '../../shared/coupons/metrics';
 
 /** What a results row is keyed by: the coupon and where it sits (trial, run, lot, resin). */
@@ -33,23 +33,33 @@ const HARDNESS_COLUMN: Record<CheckStage, Record<HardnessScale, keyof CouponResu
   'wet-test': { 'shore-d': 'hardnessWetTestShoreD', 'janka-n': 'hardnessWetTestJankaN', 'brinell-hb': 'hardnessWetTestBrinellHb' },
 };
 
-function latest<T extends { measuredAt: string }>(rows: readonly T[]): T | undefined {
-  let best: T | undefined;
-  for (const r of rows) if (!best || Date.parse(r.measuredAt) >= Date.parse(best.measuredAt)) best = r;
-  return best;
-}
-
 /**
  * The results row of one coupon from its keys and current readings (in measured_at, id order), through
  * couponMetrics: the same function the client's grid runs, so the stored numbers cannot disagree with it.
+ * The drying checks, the dry dimensions and the meter reading are picked in one pass each (no filtered
+ * copies): the first drying check is the earliest (the first of equal times), the others the latest (the
+ * last of equal times), as a stable sort and `latest` of shared/coupons/metrics.ts pick them.
  */
 export function resultValues(k: ResultKeys, ws: readonly WeighingReading[], cs: readonly CheckReading[]): CouponResultValues {
   const m = couponMetrics({ role: k.role, weighings: ws, checks: cs, resin: k.curedDensityGcm3 === null ? null : { curedDensityGcm3: k.curedDensityGcm3 } });
-  const drying = ws.filter((w) => w.stage === 'drying-check');
-  const firstDrying = [...drying].sort((a, b) => Date.parse(a.measuredAt) - Date.parse(b.measuredAt))[0];
-  const lastDrying = latest(drying);
-  const dryDim = latest(cs.filter((c) => c.kind === 'dimension' && c.stage === 'dry' && checkVolumeCm3(c) !== null));
-  const meter = latest(cs.filter((c) => c.kind === 'moisture' && c.stage === 'dry' && c.moisturePct != null));
+  let dryingCount = 0;
+  let firstDrying: WeighingReading | undefined;
+  let lastDrying: WeighingReading | undefined;
+  for (const w of ws) {
+    if (w.stage !== 'drying-check') continue;
+    dryingCount++;
+    const t = Date.parse(w.measuredAt);
+    if (!firstDrying || t < Date.parse(firstDrying.measuredAt)) firstDrying = w;
+    if (!lastDrying || t >= Date.parse(lastDrying.measuredAt)) lastDrying = w;
+  }
+  let dryDim: CheckReading | undefined;
+  let meter: CheckReading | undefined;
+  for (const c of cs) {
+    if (c.stage !== 'dry') continue;
+    if (c.kind === 'dimension') {
+      if (checkVolumeCm3(c) !== null && (!dryDim || Date.parse(c.measuredAt) >= Date.parse(dryDim.measuredAt))) dryDim = c;
+    } else if (c.kind === 'moisture' && c.moisturePct != null && (!meter || Date.parse(c.measuredAt) >= Date.parse(meter.measuredAt))) meter = c;
+  }
   const row: CouponResultValues = {
     couponId: k.couponId,
     tag: k.tag,
@@ -65,7 +75,7 @@ export function resultValues(k: ResultKeys, ws: readonly WeighingReading[], cs: 
     soakedMassG: m.soakedMassG,
     curedMassG: m.curedMassG,
     wetTestMassG: m.wetTestMassG,
-    dryingCheckCount: drying.length,
+    dryingCheckCount: dryingCount,
     firstDryingCheckMassG: firstDrying?.massG ?? null,
     lastDryingCheckMassG: lastDrying?.massG ?? null,
     lastDryingCheckAt: lastDrying?.measuredAt ?? null,
@@ -156,20 +166,6 @@ function groupBy<T extends { couponId: number }>(rows: T[]): Map<number, T[]> {
   return out;
 }
 
-const toWeighing = (w: RawWeighing): WeighingReading => ({ stage: w.stage as WeighingStage, massG: w.massG, measuredAt: w.measuredAt });
-const toCheck = (c: RawCheck): CheckReading => ({
-  kind: c.kind as CheckKind,
-  stage: c.stage as CheckStage,
-  measuredAt: c.measuredAt,
-  lengthMm: c.lengthMm,
-  widthMm: c.widthMm,
-  thicknessMm: c.thicknessMm,
-  volumeCm3: c.volumeCm3,
-  hardnessValue: c.hardnessValue,
-  hardnessScale: c.hardnessScale as HardnessScale | null,
-  moisturePct: c.moisturePct,
-});
-
 const COLUMNS = Object.entries(getTableColumns(couponResults)).map(([key, col]) => ({ key, name: col.name }));
 // An upsert, not `insert or replace`: replace deletes the row and inserts it again, touching all seven
 // indexes twice; an update touches only the indexes whose columns changed (none, for new readings).
@@ -190,30 +186,70 @@ const VALUE_COLUMNS = COLUMNS.filter((c) => c.key !== 'couponId' && !INDEXED.has
 const UPDATE_SQL = `update coupon_results set ${VALUE_COLUMNS.map((c) => `${c.name} = ?`).join(', ')}
   where coupon_id = ? and ${KEY_COLUMNS.map((c) => `${c.name} is ?`).join(' and ')}`;
 
-const column = (rec: Record<string, unknown>, key: string) => {
-  const x = rec[key];
-  return key === 'hardness' || key === 'problems' ? JSON.stringify(x) : (x ?? null);
-};
+/**
+ * Columns computed from a coupon's checks alone (dimensions, volumes, the meter reading, hardness; see
+ * resultValues and couponMetrics): a write of weighings only cannot move them, so its refresh leaves them
+ * as stored. Every other value column can move with a weighing (masses, drying checks, moisture from the
+ * first drying check, every mass-based metric, the problems).
+ */
+const CHECKS_ONLY = new Set<string>([
+  'dryLengthMm',
+  'dryWidthMm',
+  'dryThicknessMm',
+  'dryVolumeCm3',
+  'curedVolumeCm3',
+  'wetTestVolumeCm3',
+  'dryMoisturePct',
+  'thicknessMm',
+  'bulkingPct',
+  'hardness',
+  ...Object.values(HARDNESS_COLUMN).flatMap((byScale) => Object.values(byScale)),
+]);
+const WEIGHING_COLUMNS = VALUE_COLUMNS.filter((c) => !CHECKS_ONLY.has(c.key));
+const UPDATE_WEIGHINGS_SQL = `update coupon_results set ${WEIGHING_COLUMNS.map((c) => `${c.name} = ?`).join(', ')}
+  where coupon_id = ? and ${KEY_COLUMNS.map((c) => `${c.name} is ?`).join(' and ')}`;
 
-function bindable(v: CouponResultValues): unknown[] {
-  const rec = v as unknown as Record<string, unknown>;
-  return COLUMNS.map((c) => column(rec, c.key));
-}
+/** How each bound column is read from a computed row: its key, and whether it is stored as JSON text. */
+type Binder = { key: string; json: boolean }[];
+const binder = (cols: { key: string }[]): Binder => cols.map((c) => ({ key: c.key, json: c.key === 'hardness' || c.key === 'problems' }));
+const ALL_BINDER = binder(COLUMNS);
+const KEY_BINDER = binder(KEY_COLUMNS);
+const VALUE_BINDER = binder(VALUE_COLUMNS);
+const WEIGHING_BINDER = binder(WEIGHING_COLUMNS);
 
-function updateBindable(v: CouponResultValues): unknown[] {
-  const rec = v as unknown as Record<string, unknown>;
-  const out: unknown[] = VALUE_COLUMNS.map((c) => column(rec, c.key));
-  out.push(v.couponId);
-  for (const c of KEY_COLUMNS) out.push(column(rec, c.key));
+function bindInto(out: unknown[], rec: Record<string, unknown>, cols: Binder) {
+  for (const c of cols) {
+    const x = rec[c.key];
+    out.push(c.json ? JSON.stringify(x) : (x ?? null));
+  }
   return out;
 }
 
-function writeRows(tx: Db, keys: RawKeys[], ws: Map<number, RawWeighing[]>, cs: Map<number, RawCheck[]>, fresh = false): number {
+const bindable = (v: CouponResultValues): unknown[] => bindInto([], v as unknown as Record<string, unknown>, ALL_BINDER);
+
+/** The lean UPDATE's parameters: the value columns it sets, the coupon id, then the indexed keys it must still match. */
+function updateBindable(v: CouponResultValues, values: Binder): unknown[] {
+  const rec = v as unknown as Record<string, unknown>;
+  const out = bindInto([], rec, values);
+  out.push(v.couponId);
+  return bindInto(out, rec, KEY_BINDER);
+}
+
+const NONE: readonly never[] = [];
+
+function writeRows(tx: Db, keys: RawKeys[], ws: Map<number, RawWeighing[]>, cs: Map<number, RawCheck[]>, fresh = false, weighingsOnly = false): number {
   const upsert = prepared(tx, UPSERT_SQL);
-  const update = prepared(tx, UPDATE_SQL);
+  const update = prepared(tx, weighingsOnly ? UPDATE_WEIGHINGS_SQL : UPDATE_SQL);
+  const values = weighingsOnly ? WEIGHING_BINDER : VALUE_BINDER;
   for (const k of keys) {
-    const values = resultValues({ ...k, role: k.role as CouponRole }, (ws.get(k.couponId) ?? []).map(toWeighing), (cs.get(k.couponId) ?? []).map(toCheck));
-    if (fresh || update.run(updateBindable(values)).changes === 0) upsert.run(bindable(values));
+    // The raw rows are passed as they are (their stage, kind and scale strings are the stored enums); the
+    // extra couponId field is not read.
+    const row = resultValues(
+      k as unknown as ResultKeys,
+      (ws.get(k.couponId) ?? NONE) as unknown as readonly WeighingReading[],
+      (cs.get(k.couponId) ?? NONE) as unknown as readonly CheckReading[],
+    );
+    if (fresh || update.run(updateBindable(row, values)).changes === 0) upsert.run(bindable(row));
   }
   return keys.length;
 }
@@ -222,22 +258,28 @@ function writeRows(tx: Db, keys: RawKeys[], ws: Map<number, RawWeighing[]>, cs: 
  * Recomputes the results rows of these coupons from their current readings and keys. Call it inside
  * the transaction of the change (every write of server/measurements does; a feature that moves a
  * coupon between runs, changes its species or role, or creates coupons calls it for those coupons).
+ *
+ * `weighingsOnly`: the change since these rows were last written added or removed weighings and nothing
+ * else, so the columns computed from checks alone are left as stored (the table is always current, so
+ * they already hold what a full refresh would write); a row whose indexed keys moved, or a missing row,
+ * is still written in full.
  */
-export function refreshResults(tx: Db, couponIds: readonly number[]): number {
+export function refreshResults(tx: Db, couponIds: readonly number[], options: { weighingsOnly?: boolean } = {}): number {
   if (couponIds.length === 0) return 0;
   const unique = couponIds.length === 1 ? couponIds : [...new Set(couponIds)];
-  if (unique.length <= REFRESH_CHUNK) return refreshSome(tx, unique);
+  const only = options.weighingsOnly === true;
+  if (unique.length <= REFRESH_CHUNK) return refreshSome(tx, unique, only);
   // An import's 100,000 coupons in slices (same transaction, same rows): their readings, keys and computed
   // rows are never all in memory at once.
   let n = 0;
-  for (let from = 0; from < unique.length; from += REFRESH_CHUNK) n += refreshSome(tx, unique.slice(from, from + REFRESH_CHUNK));
+  for (let from = 0; from < unique.length; from += REFRESH_CHUNK) n += refreshSome(tx, unique.slice(from, from + REFRESH_CHUNK), only);
   return n;
 }
 
 /** Coupons whose results are recomputed per slice of a large refresh. */
 const REFRESH_CHUNK = 10_000;
 
-function refreshSome(tx: Db, unique: readonly number[]): number {
+function refreshSome(tx: Db, unique: readonly number[], weighingsOnly: boolean): number {
   const ids = JSON.stringify(unique);
   const keys = prepared(tx, `${KEYS_SQL} where c.id in ${IDS}`).all(ids) as RawKeys[];
   const ws = prepared(tx, `${WEIGHINGS_SQL} where w.coupon_id in ${IDS} and w.superseded_by is null and w.deleted_at is null order by w.measured_at, w.id`).all(
@@ -246,7 +288,7 @@ function refreshSome(tx: Db, unique: readonly number[]): number {
   const cs = prepared(tx, `${CHECKS_SQL} where k.coupon_id in ${IDS} and k.superseded_by is null and k.deleted_at is null order by k.measured_at, k.id`).all(
     ids,
   ) as RawCheck[];
-  return writeRows(tx, keys, groupBy(ws), groupBy(cs));
+  return writeRows(tx, keys, groupBy(ws), groupBy(cs), false, weighingsOnly);
 }
 
 /** Refreshes every coupon of a run (its lot, and so its resin, changed). */
