@@ -96,3 +96,17 @@ export function FormError({ message }: { message?: string }) {
     </p>
   );
 }
+
+/** A form's submit button (quiet while it is sending) and its Cancel, the same in every form. */
+export function FormActions({ submitLabel, busy, onCancel }: { submitLabel: ReactNode; busy: boolean; onCancel: () => void }) {
+  return (
+    <div className="flex gap-2">
+      <button type="submit" className="btn-primary" disabled={busy}>
+        {submitLabel}
+      </button>
+      <button type="button" className="btn-quiet" onClick={onCancel}>
+        Cancel
+      </button>
+    </div>
+  );
+}

@@ -19,7 +19,7 @@ import {
   type CouponDetail,
   type WeighingOut,
 } from '../../../../shared/schemas/coupons';
-import { Field, FormError, SelectField } from '../../../components/ui/field';
+import { Field, FormError, SelectField, FormActions } from '../../../components/ui/field';
 import { NumberField } from '../../../components/ui/number-field';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { fromLocalInput, toLocalInput } from '../../../lib/format/dates';
@@ -495,14 +495,7 @@ export function CorrectWeighingForm({ weighing, onDone }: { weighing: WeighingOu
           hint="Kept in the history beside the old value."
         />
       </div>
-      <div className="flex gap-2">
-        <button type="submit" className="btn-primary" disabled={form.formState.isSubmitting}>
-          Save the correction
-        </button>
-        <button type="button" className="btn-quiet" onClick={onDone}>
-          Cancel
-        </button>
-      </div>
+      <FormActions submitLabel="Save the correction" busy={form.formState.isSubmitting} onCancel={onDone} />
     </form>
   );
 }
@@ -595,14 +588,7 @@ export function CorrectCheckForm({ check, onDone }: { check: CheckOut; onDone: (
           />
         </div>
       </div>
-      <div className="flex gap-2">
-        <button type="submit" className="btn-primary" disabled={form.formState.isSubmitting}>
-          Save the correction
-        </button>
-        <button type="button" className="btn-quiet" onClick={onDone}>
-          Cancel
-        </button>
-      </div>
+      <FormActions submitLabel="Save the correction" busy={form.formState.isSubmitting} onCancel={onDone} />
     </form>
   );
 }

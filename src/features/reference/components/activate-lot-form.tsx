@@ -3,7 +3,7 @@ import { useEffect, useRef } from 'react';
 import { useForm } from 'react-hook-form';
 import { createResinLotSchema, type CreateResinLotInput } from '../../../../shared/schemas/reference';
 import { NumberField } from '../../../components/ui/number-field';
-import { Field, FormError, SelectField, TextAreaField } from '../../../components/ui/field';
+import { Field, FormError, SelectField, TextAreaField, FormActions } from '../../../components/ui/field';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { useUnits } from '../../../lib/use-units';
 import { resinListQuery } from '../../../lib/queries/reference';
@@ -99,14 +99,7 @@ export function ActivateLotForm({ onDone, onCancel }: { onDone: (code: string) =
           <Field label="Dye" registration={form.register('dyeNotes', textOrNull)} error={errors.dyeNotes?.message} hint="Leave empty for a clear lot" />
         </div>
         <TextAreaField label="Notes" registration={form.register('notes', textOrNull)} error={errors.notes?.message} />
-        <div className="flex gap-2">
-          <button type="submit" className="btn-primary" disabled={form.formState.isSubmitting}>
-            Record the lot
-          </button>
-          <button type="button" className="btn-quiet" onClick={onCancel}>
-            Cancel
-          </button>
-        </div>
+        <FormActions submitLabel="Record the lot" busy={form.formState.isSubmitting} onCancel={onCancel} />
       </form>
     </section>
   );

@@ -3,7 +3,7 @@ import { useForm } from 'react-hook-form';
 import { LOT_STATUSES, type LotStatus } from '../../../../shared/constants/records';
 import { updateResinLotSchema, type ResinLot, type UpdateResinLotInput } from '../../../../shared/schemas/reference';
 import { NumberField } from '../../../components/ui/number-field';
-import { Field, FormError, SelectField } from '../../../components/ui/field';
+import { Field, FormError, SelectField, FormActions } from '../../../components/ui/field';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { useUpdateLot } from '../api/use-update-lot';
 import { convertingResolver } from '../../../lib/forms/resolver';
@@ -122,14 +122,7 @@ export function LotChangeForm({
           error={errors.reason?.message}
           hint='e.g. "drained back after the maple run"'
         />
-        <div className="flex gap-2">
-          <button type="submit" className="btn-primary" disabled={form.formState.isSubmitting}>
-            Save the change
-          </button>
-          <button type="button" className="btn-quiet" onClick={onCancel}>
-            Cancel
-          </button>
-        </div>
+        <FormActions submitLabel="Save the change" busy={form.formState.isSubmitting} onCancel={onCancel} />
       </form>
     </section>
   );

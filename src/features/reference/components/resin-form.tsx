@@ -2,7 +2,7 @@ import { useEffect, useRef } from 'react';
 import { useForm } from 'react-hook-form';
 import { createResinSchema, DEFAULT_CURE_WINDOW_C, type CreateResinInput, type Resin } from '../../../../shared/schemas/reference';
 import { NumberField } from '../../../components/ui/number-field';
-import { Field, FormError, TextAreaField } from '../../../components/ui/field';
+import { Field, FormError, TextAreaField, FormActions } from '../../../components/ui/field';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { useUnits } from '../../../lib/use-units';
 import { useCreateResin } from '../api/use-create-resin';
@@ -122,14 +122,7 @@ export function ResinForm({ resin, onDone, onCancel }: { resin: Resin | null; on
             hint="Needed when the change moves measured coupons' results (a new cured density moves their void fill); kept on each such coupon's history."
           />
         )}
-        <div className="flex gap-2">
-          <button type="submit" className="btn-primary" disabled={form.formState.isSubmitting}>
-            {resin ? 'Save the changes' : 'Add the resin'}
-          </button>
-          <button type="button" className="btn-quiet" onClick={onCancel}>
-            Cancel
-          </button>
-        </div>
+        <FormActions submitLabel={resin ? 'Save the changes' : 'Add the resin'} busy={form.formState.isSubmitting} onCancel={onCancel} />
       </form>
     </section>
   );

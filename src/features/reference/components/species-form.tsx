@@ -4,7 +4,7 @@ import type { z } from 'zod';
 import { SPECIES_ORIGINS } from '../../../../shared/constants/records';
 import { createSpeciesSchema, type CreateSpeciesInput, type Species } from '../../../../shared/schemas/reference';
 import { NumberField } from '../../../components/ui/number-field';
-import { Field, FormError, TextAreaField } from '../../../components/ui/field';
+import { Field, FormError, TextAreaField, FormActions } from '../../../components/ui/field';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { useCreateSpecies } from '../api/use-create-species';
 import { useUpdateSpecies } from '../api/use-update-species';
@@ -148,14 +148,7 @@ export function SpeciesForm({ species, onDone, onCancel }: { species: Species | 
           }
         />
         <TextAreaField label="Notes" registration={form.register('notes', textOrNull)} error={errors.notes?.message} />
-        <div className="flex gap-2">
-          <button type="submit" className="btn-primary" disabled={form.formState.isSubmitting}>
-            {species ? 'Save the changes' : 'Add the species'}
-          </button>
-          <button type="button" className="btn-quiet" onClick={onCancel}>
-            Cancel
-          </button>
-        </div>
+        <FormActions submitLabel={species ? 'Save the changes' : 'Add the species'} busy={form.formState.isSubmitting} onCancel={onCancel} />
       </form>
     </section>
   );

@@ -3,7 +3,7 @@ import { useFieldArray, useForm } from 'react-hook-form';
 import { GAUGE_UNITS, type GaugeUnit } from '../../../../shared/constants/records';
 import { correctStageSchema, type CorrectStageInput, type RunDetail, type RunStageOut } from '../../../../shared/schemas/runs';
 import { STAGE_LABELS } from '../../../../shared/runs/stages';
-import { FormError } from '../../../components/ui/field';
+import { FormError, FormActions } from '../../../components/ui/field';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { useUnits } from '../../../lib/use-units';
 import { useCorrectStage } from '../api/use-correct-stage';
@@ -302,14 +302,7 @@ export function CorrectStageForm({
         <textarea id={`${idp}-notes`} className="field-input" rows={2} {...form.register('notes')} />
       </div>
       {field('reason', 'Why the record changes (kept with the correction)', 'text')}
-      <div className="flex gap-2">
-        <button type="submit" className="btn-primary" disabled={form.formState.isSubmitting}>
-          Save the correction
-        </button>
-        <button type="button" className="btn-quiet" onClick={onCancel}>
-          Cancel
-        </button>
-      </div>
+      <FormActions submitLabel="Save the correction" busy={form.formState.isSubmitting} onCancel={onCancel} />
     </form>
   );
 }

@@ -3,7 +3,7 @@ import { useEffect, useMemo, useRef } from 'react';
 import { useForm } from 'react-hook-form';
 import { updateRunSchema, type RunDetail, type UpdateRunInput } from '../../../../shared/schemas/runs';
 import { AltitudeQuestion } from '../../../components/ui/altitude-question';
-import { Field, FormError } from '../../../components/ui/field';
+import { Field, FormError, FormActions } from '../../../components/ui/field';
 import { NumberField } from '../../../components/ui/number-field';
 import { applyServerErrors } from '../../../lib/form-errors';
 import { renameFields } from '../../../lib/form-values';
@@ -145,14 +145,7 @@ export function RunDetailsForm({ run, onDone, onCancel }: { run: RunDetail; onDo
           error={errors.reason?.message}
           hint="Needed when recorded results move (a new altitude moves the gauge readings' absolute pressures); kept on the run's history."
         />
-        <div className="flex gap-2">
-          <button type="submit" className="btn-primary" disabled={form.formState.isSubmitting}>
-            Save the details
-          </button>
-          <button type="button" className="btn-quiet" onClick={onCancel}>
-            Cancel
-          </button>
-        </div>
+        <FormActions submitLabel="Save the details" busy={form.formState.isSubmitting} onCancel={onCancel} />
       </form>
     </section>
   );

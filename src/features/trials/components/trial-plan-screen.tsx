@@ -5,7 +5,7 @@ import { useNavigate, useParams } from 'react-router-dom';
 import type { Resin, Species } from '../../../../shared/schemas/reference';
 import type { CreateTrialInput } from '../../../../shared/schemas/trials';
 import { planningWarnings } from '../../../../shared/trials/planning';
-import { Field, FormError, TextAreaField } from '../../../components/ui/field';
+import { Field, FormError, TextAreaField, FormActions } from '../../../components/ui/field';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
 import { ApiError } from '../../../lib/api-client';
 import { applyServerErrors } from '../../../lib/form-errors';
@@ -415,14 +415,7 @@ function PlanForm({ species, resins, initial, save, cancelTo }: PlanFormProps) {
 
       <PlanningWarnings warnings={warnings} heading="Before you save: what this plan may not be able to answer" />
 
-      <div className="flex gap-2">
-        <button type="submit" className="btn-primary" disabled={form.formState.isSubmitting}>
-          Save the plan
-        </button>
-        <button type="button" className="btn-quiet" onClick={() => navigate(cancelTo)}>
-          Cancel
-        </button>
-      </div>
+      <FormActions submitLabel="Save the plan" busy={form.formState.isSubmitting} onCancel={() => navigate(cancelTo)} />
     </form>
   );
 }
