@@ -79,11 +79,16 @@ export async function measureServerAlone(n = 100_000, port = Number(process.env.
   db.close();
   const bytes = Buffer.from(`${scaleFile(n)}\r\n`);
 
-  const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
-    cwd: root,
-    env: { ...process.env, NODE_ENV: 'development', DATA_DIR: dataDir, PORT: String(port), HOST: '127.0.0.1', DEMO_DATA: 'true', LOG_LEVEL: 'warn' },
-    stdio: ['ignore', 'pipe', 'pipe'],
-  });
+  const child = spawn(
+    process.execPath,
+    // BENCH_CPU_PROF=<folder>: the server writes a CPU profile per thread there (open in Chrome's DevTools).
+    [...(process.env.BENCH_CPU_PROF ? ['--cpu-prof', `--cpu-prof-dir=${process.env.BENCH_CPU_PROF}`] : []), '--import', 'tsx', 'server/index.ts'],
+    {
+      cwd: root,
+      env: { ...process.env, NODE_ENV: 'development', DATA_DIR: dataDir, PORT: String(port), HOST: '127.0.0.1', DEMO_DATA: 'true', LOG_LEVEL: 'warn' },
+      stdio: ['ignore', 'pipe', 'pipe'],
+    },
+  );
   const pid = child.pid!;
   let stop = () => {};
   try {
