@@ -1,0 +1,45 @@
+// The server's production build: its TypeScript bundled into one ES module, dist/server/index.mjs, which
+// `npm start` runs with plain node. Why not tsx, as `npm run dev` does: tsx's loader keeps a thread with a
+// V8 heap of its own and every module's transformed source and source map, about 50 MB of the idle
+// server's resident memory (docs/decisions/0019-server-bundle-for-production.md, bench/server-memory.ts).
+//
+//   npm run build:server          (also part of `npm run build`)
+//
+// Packages stay in node_modules (imported as they are); our code (server/ and shared/) is bundled. esbuild
+// is the one tsx itself runs on, so it transforms exactly as development does. Paths the server needs at run
+// time (the client build, the migrations) are found from the project's folder (server/paths.ts), not from
+// the file's place, so they hold from the bundle too.
+import fs from 'node:fs';
+import path from 'node:path';
+import { build, type BuildOptions } from 'esbuild';
+
+const root = path.resolve(import.meta.dirname, '..');
+const out = path.join(root, 'dist/server');
+
+const common: BuildOptions = {
+  absWorkingDir: root,
+  bundle: true,
+  platform: 'node',
+  target: 'node20',
+  format: 'esm',
+  packages: 'external',
+  // Written beside the bundle for whoever debugs (`node --enable-source-maps dist/server/index.mjs`); not
+  // loaded by default, since Node would then hold it in memory.
+  sourcemap: 'linked',
+  logLevel: 'warning',
+};
+
+fs.rmSync(out, { recursive: true, force: true });
+await build({ ...common, entryPoints: ['server/index.ts'], outfile: path.join(out, 'index.mjs') });
+
+// The import's commit worker thread (decision 0017) is started from a file beside the module that starts
+// it (`./worker-boot.mjs`, which loads `./commit-worker.ts` through tsx). From the bundle, both are looked
+// for beside index.mjs: the worker is bundled too, and its boot file here loads that bundle directly.
+const worker = 'server/features/imports/commit-worker.ts';
+if (fs.existsSync(path.join(root, worker))) {
+  await build({ ...common, entryPoints: [worker], outfile: path.join(out, 'commit-worker.mjs') });
+  fs.writeFileSync(
+    path.join(out, 'worker-boot.mjs'),
+    '// Written by scripts/build-server.ts: the commit worker of the bundled server, already JavaScript.\n' + "await import('./commit-worker.mjs');\n",
+  );
+}
