@@ -32,6 +32,10 @@ const common: BuildOptions = {
 fs.rmSync(out, { recursive: true, force: true });
 await build({ ...common, entryPoints: ['server/index.ts'], outfile: path.join(out, 'index.mjs') });
 
+// The demo's first seed runs in a worker thread (server/demo-seed.ts), which the bundle starts from
+// `./seed-worker.mjs` beside it.
+await build({ ...common, entryPoints: ['server/db/seed-worker.ts'], outfile: path.join(out, 'seed-worker.mjs') });
+
 // The import's commit worker thread (decision 0017) is started from a file beside the module that starts
 // it (`./worker-boot.mjs`, which loads `./commit-worker.ts` through tsx). From the bundle, both are looked
 // for beside index.mjs: the worker is bundled too, and its boot file here loads that bundle directly.
