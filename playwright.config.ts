@@ -38,7 +38,8 @@ export default defineConfig({
     },
   },
   webServer: {
-    command: `rm -rf "${dataDir}" && npm run build && node --import tsx server/index.ts`,
+    // As `npm start` serves: the client build and the server's bundle (dist/server/index.mjs), plain node.
+    command: `rm -rf "${dataDir}" && npm run build && node dist/server/index.mjs`,
     url: `http://localhost:${PORT}/api/health`,
     timeout: 180_000,
     reuseExistingServer: false,

@@ -1,4 +1,4 @@
-import { spawn } from 'node:child_process';
+import { execFileSync, spawn } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
@@ -9,7 +9,8 @@ import { rebuildResults } from '../server/measurements/results';
 import { DEMO_PASSWORD, seedDemo } from '../server/seed';
 import { CSRF_HEADER, CSRF_VALUE } from '../shared/constants/errors';
 
-// The import of a generated scale file by a server ALONE: the app started as `npm start` starts it, in a
+// The import of a generated scale file by a server ALONE: the app started as `npm start` starts it (its
+// bundle, dist/server/index.mjs; BENCH_SERVER=tsx: the sources through tsx), in a
 // child process on a temp DATA_DIR holding N coupons, driven over HTTP from this process. Its resident
 // memory and CPU are read from /proc (Linux), so neither the test client nor the file in this process is
 // counted; /api/health is asked every 50 ms from here, so its answer times show what another user waits.
@@ -70,6 +71,16 @@ function procCpuMs(pid: number, mainOnly = false): number {
   return ((Number(fields[11]) + Number(fields[12])) * 1000) / 100; // clock ticks, 100 per second on Linux
 }
 
+/**
+ * How the child starts the server: as `npm start` does, from its bundle (built here first, a second or so), or
+ * with BENCH_SERVER=tsx from the TypeScript sources through tsx, as `npm run dev` does.
+ */
+function serverEntry(): string[] {
+  if (process.env.BENCH_SERVER === 'tsx') return ['--import', 'tsx', 'server/index.ts'];
+  execFileSync('npm', ['run', '--silent', 'build:server'], { cwd: root, stdio: 'inherit' });
+  return ['dist/server/index.mjs'];
+}
+
 export async function measureServerAlone(n = 100_000, port = Number(process.env.BENCH_PORT ?? 3800)): Promise<ServerFigures> {
   const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'lumenbook-import-server-'));
   const db = openDatabase(path.join(dataDir, 'lumenbook.db'));
@@ -82,7 +93,7 @@ export async function measureServerAlone(n = 100_000, port = Number(process.env.
   const child = spawn(
     process.execPath,
     // BENCH_CPU_PROF=<folder>: the server writes a CPU profile per thread there (open in Chrome's DevTools).
-    [...(process.env.BENCH_CPU_PROF ? ['--cpu-prof', `--cpu-prof-dir=${process.env.BENCH_CPU_PROF}`] : []), '--import', 'tsx', 'server/index.ts'],
+    [...(process.env.BENCH_CPU_PROF ? ['--cpu-prof', `--cpu-prof-dir=${process.env.BENCH_CPU_PROF}`] : []), ...serverEntry()],
     {
       cwd: root,
       env: { ...process.env, NODE_ENV: 'development', DATA_DIR: dataDir, PORT: String(port), HOST: '127.0.0.1', DEMO_DATA: 'true', LOG_LEVEL: 'warn' },

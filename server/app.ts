@@ -1,7 +1,6 @@
 import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
-import { fileURLToPath } from 'node:url';
 import express, { type NextFunction, type Request, type Response } from 'express';
 import session from 'express-session';
 import compression from 'compression';
@@ -14,6 +13,7 @@ import { Forbidden } from './http/errors';
 import { apiNotFound, errorHandler } from './http/error-handler';
 import { secureRouter, type DeclaredRoute, type SecureRouter } from './http/routes';
 import { SqliteSessionStore } from './http/session-store';
+import { CLIENT_DIR } from './paths';
 import type { AuthedRequest } from './http/types';
 import { authRoutes, SESSION_COOKIE } from './features/auth/auth.router';
 import { findUserById, toUser } from './features/auth/auth.repo';
@@ -27,8 +27,6 @@ import { wikiRoutes } from './features/wiki/wiki.router';
 import { analysisRoutes } from './features/analysis/analysis.router';
 import { importsRoutes } from './features/imports/imports.router';
 
-const here = path.dirname(fileURLToPath(import.meta.url));
-const CLIENT_DIR = path.resolve(here, '../dist/client');
 const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
 const REQUEST_ID = /^[A-Za-z0-9._-]{1,64}$/;
 /** Body limit of the grid's batch save (POST /api/coupons/measurements); every other JSON body: 100 kB. */

@@ -5,6 +5,7 @@ import { pino } from 'pino';
 import { createApp } from './app';
 import { DatabaseInUse, openDatabase } from './db/client';
 import { prepareDataDir } from './db/data-dir';
+import { seedFreshDemoApart } from './demo-seed';
 import { DEMO_PASSWORD, DEMO_USERS, ensureResults, seedDemo, seedReference } from './seed';
 import { loadConfig } from './env';
 import { createMailer } from './mail/mailer';
@@ -25,9 +26,12 @@ async function main() {
   prepareDataDir(config.dataDir);
   config.sessionSecret = sessionSecret(config.dataDir, config.sessionSecret);
 
+  const file = path.join(config.dataDir, 'lumenbook.db');
+  // A fresh DATA_DIR's demo is written in a worker thread, so what the seed loads goes with it.
+  const seededApart = config.demoData && (await seedFreshDemoApart(file));
   // Exclusive: a second server on the same DATA_DIR stops here with a plain message (DatabaseInUse).
-  const database = openDatabase(path.join(config.dataDir, 'lumenbook.db'));
-  const seeded = config.demoData ? seedDemo(database) : (seedReference(database), false);
+  const database = openDatabase(file);
+  const seeded = config.demoData ? seedDemo(database) || seededApart : (seedReference(database), false);
   if (ensureResults(database)) logger.info('coupon results computed from the readings');
   const mailer = await createMailer(config, database.db, logger);
   const lumenbook = createApp({

@@ -1,6 +1,5 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import { fileURLToPath } from 'node:url';
 import Database from 'better-sqlite3';
 import { drizzle, type BetterSQLite3Database } from 'drizzle-orm/better-sqlite3';
 import { migrate } from 'drizzle-orm/better-sqlite3/migrator';
@@ -11,6 +10,7 @@ import * as trialsSchema from './schema/trials';
 import * as runsSchema from './schema/runs';
 import * as couponsSchema from './schema/coupons';
 import { storageProblem } from './storage-errors';
+import { MIGRATIONS_FOLDER } from '../paths';
 import * as resultsSchema from './schema/results';
 import * as analysisSchema from './schema/analysis';
 import * as importsSchema from './schema/imports';
@@ -38,8 +38,7 @@ export interface Database_ {
   close(): void;
 }
 
-const here = path.dirname(fileURLToPath(import.meta.url));
-export const MIGRATIONS_FOLDER = path.resolve(here, '../../drizzle');
+export { MIGRATIONS_FOLDER };
 
 /** Another process (a running server, a restore, a seed) holds the database. */
 export class DatabaseInUse extends Error {

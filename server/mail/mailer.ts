@@ -1,5 +1,4 @@
 import crypto from 'node:crypto';
-import { simpleParser } from 'mailparser';
 import nodemailer, { type Transporter } from 'nodemailer';
 import { SMTPServer } from 'smtp-server';
 import type { Logger } from 'pino';
@@ -58,7 +57,10 @@ export async function createMailer(config: Pick<Config, 'smtp' | 'mailFrom'>, db
         callback(new Error('Authentication refused: this server takes mail from Lumenbook only'));
       },
       onData(stream, _session, callback) {
-        simpleParser(stream)
+        // mailparser (with its HTML and charset libraries) is loaded with the first message, not at start:
+        // it is the heaviest module the server would otherwise hold from start (bench/server-memory.ts).
+        import('mailparser')
+          .then(({ simpleParser }) => simpleParser(stream))
           .then((parsed) => {
             const to = Array.isArray(parsed.to) ? parsed.to.map((a) => a.text).join(', ') : (parsed.to?.text ?? '');
             db.insert(outbox)

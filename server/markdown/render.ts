@@ -1,5 +1,6 @@
-import MarkdownIt from 'markdown-it';
-import sanitizeHtml from 'sanitize-html';
+import { createRequire } from 'node:module';
+import type MarkdownIt from 'markdown-it';
+import type sanitizeHtml from 'sanitize-html';
 
 /**
  * Markdown for findings, comments and wiki pages, rendered on the server so there is one renderer and
@@ -11,8 +12,21 @@ import sanitizeHtml from 'sanitize-html';
  * Every link gets rel="noopener noreferrer". Images are not kept: the page must not load anything from
  * elsewhere (and the content security policy would block it anyway); the alt text stays.
  */
-const md = new MarkdownIt({ html: false, linkify: true, typographer: false, breaks: false });
-md.disable(['image']);
+// Both libraries are loaded on the first page rendered, not at start: with their dependencies (entities,
+// htmlparser2, postcss…) they hold several MB of a server that may render nothing for hours
+// (bench/server-memory.ts). `require` keeps these functions synchronous; they run inside transactions.
+const require = createRequire(import.meta.url);
+let markdownIt: InstanceType<typeof MarkdownIt> | null = null;
+let sanitizer: typeof sanitizeHtml | null = null;
+const md = (): InstanceType<typeof MarkdownIt> => {
+  if (!markdownIt) {
+    const MarkdownItClass = require('markdown-it') as typeof MarkdownIt;
+    markdownIt = new MarkdownItClass({ html: false, linkify: true, typographer: false, breaks: false });
+    markdownIt.disable(['image']);
+  }
+  return markdownIt;
+};
+const sanitize = (dirty: string, options: sanitizeHtml.IOptions): string => (sanitizer ??= require('sanitize-html') as typeof sanitizeHtml)(dirty, options);
 
 const ALLOWED_TAGS = [
   'p',
@@ -59,12 +73,12 @@ const SANITIZE: sanitizeHtml.IOptions = {
 
 /** Markdown → sanitised HTML. */
 export function renderMarkdown(source: string): string {
-  return sanitizeHtml(md.render(source), SANITIZE);
+  return sanitize(md().render(source), SANITIZE);
 }
 
 /** Plain text of the Markdown (for search and e-mail excerpts): rendered, then every tag dropped. */
 export function markdownToText(source: string): string {
-  return sanitizeHtml(md.render(source), { allowedTags: [], allowedAttributes: {} })
+  return sanitize(md().render(source), { allowedTags: [], allowedAttributes: {} })
     .replace(/&amp;/g, '&')
     .replace(/&lt;/g, '<')
     .replace(/&gt;/g, '>')
@@ -146,7 +160,7 @@ const SVG_ATTRS = [
  * but it is also written into export archives, so it is cleaned here too.
  */
 export function sanitizeSvg(svg: string): string {
-  return sanitizeHtml(svg, {
+  return sanitize(svg, {
     allowedTags: SVG_TAGS,
     allowedAttributes: { '*': SVG_ATTRS },
     allowedSchemes: [],

@@ -26,4 +26,8 @@ describe('mass units to grams', () => {
     expect(readMassUnit('gr')).toBeNull();
     expect(readMassUnit('mg')).toBeNull();
   });
+
+  it('knows no unit by the names every object has', () => {
+    for (const name of ['constructor', 'toString', '__proto__', 'hasOwnProperty', 'valueOf']) expect(readMassUnit(name)).toBeNull();
+  });
 });

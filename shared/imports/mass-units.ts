@@ -54,8 +54,11 @@ const ALIASES: Record<string, ImportMassUnit> = {
 
 /** A unit as printed (any case, surrounding spaces, a trailing dot) → its code, or null if unknown. */
 export function readMassUnit(text: string): ImportMassUnit | null {
+  // Most files print the unit as its code ("g"): looked up as it is, before trimming and lower-casing.
+  if (Object.hasOwn(ALIASES, text)) return ALIASES[text] as ImportMassUnit;
   const key = text.trim().replace(/\.$/, '').toLowerCase();
-  return key in ALIASES ? (ALIASES[key] as ImportMassUnit) : null;
+  // Own keys only: "constructor" or "toString" is no unit.
+  return Object.hasOwn(ALIASES, key) ? (ALIASES[key] as ImportMassUnit) : null;
 }
 
 /** A mass in `unit` → grams. */

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { parseDecimal, parseReading, readStabilityFlag } from './reading';
+import { parseDecimal, parseReading, parseReadingGeneral, readStabilityFlag, type DecimalMark } from './reading';
 
 describe('parseReading', () => {
   it.each([
@@ -65,5 +65,33 @@ describe('parseReading', () => {
     expect(parseDecimal('1 234,5', ',')).toBe(1234.5);
     expect(parseDecimal('.5', '.')).toBe(0.5);
     expect(parseDecimal(',5', ',')).toBe(0.5);
+  });
+});
+
+describe('parseReading fast path', () => {
+  // The fast path reads plain numbers straight from their characters; every answer must be the general path's.
+  // prettier-ignore
+  const tricky = [
+    '12.345', '0', '-0', '+0', '007', '12.', '.5', ',5', '5,', '-12.345', '+12.345', '--1', '+-1', '-', '+', '', ' ', '1.2.3',
+    '1,2,3', '12,345', '1,234.5', '1.234,5', '1 234', "1'234", '12.345 ', ' 12.345', '12.345g', '12.345 g', '1e5', '0x10',
+    'Infinity', 'NaN', '١٢', '１２', '12\u00a0', '9'.repeat(400), `${'9'.repeat(400)}.5`, '0.000000000000000000001',
+    '123456789012345678901234567890', 'E1', 'OL', '-OL-', '12.345?', '12,345 g', '- 5', '+ 5', '5-', '5+', '.', ',', '-.5', '-,5',
+  ];
+  it.each(['.', ','] as const)('gives the general answer on tricky inputs (decimal %s)', (decimal) => {
+    for (const text of tricky) expect(parseReading(text, decimal), text).toEqual(parseReadingGeneral(text, decimal));
+  });
+
+  it('gives the general answer on random strings of digits, signs, marks and spaces', () => {
+    // A fixed linear congruential sequence (Numerical Recipes' constants): the same strings on every run.
+    let seed = 12345;
+    const next = () => (seed = (seed * 1664525 + 1013904223) >>> 0) / 2 ** 32;
+    const alphabet = '0123456789012345678901234567.,+- g';
+    for (let k = 0; k < 20_000; k++) {
+      const len = 1 + Math.floor(next() * 9);
+      let text = '';
+      for (let i = 0; i < len; i++) text += alphabet[Math.floor(next() * alphabet.length)];
+      const decimal: DecimalMark = next() < 0.5 ? '.' : ',';
+      expect(parseReading(text, decimal), JSON.stringify(text)).toEqual(parseReadingGeneral(text, decimal));
+    }
   });
 });

@@ -1,6 +1,6 @@
 import type { ImportProblemCode } from '../constants/imports';
 import type { ImportMapping } from '../schemas/imports';
-import { parseWallTime, wallTimeToIso } from './dates';
+import { readingInstant } from './dates';
 import { readMassUnit, toGrams, type ImportMassUnit } from './mass-units';
 import { parseReading, readStabilityFlag } from './reading';
 
@@ -90,28 +90,28 @@ export function readRow(cells: string[], mapping: ImportMapping, ctx: RowContext
   if (mapping.dateColumn !== null) {
     const d = cell(cells, mapping.dateColumn);
     const t = mapping.timeColumn === null ? null : cell(cells, mapping.timeColumn);
-    const w = d ? parseWallTime(d, t, mapping.format.dateOrder) : null;
-    if (!w) {
+    const iso = d ? readingInstant(d, t, mapping.format.dateOrder, mapping.utcOffsetMinutes) : null;
+    if (iso === null) {
       const col = nameOf(ctx, mapping.dateColumn);
       const what = d
         ? `"${d.slice(0, 30)}${t ? ` ${t.slice(0, 20)}` : ''}" is not a date and time that can be read ${ORDER_WORDS[mapping.format.dateOrder]}`
         : 'No date in this row';
       problems.push({ code: 'bad-date', column: col, message: what });
       measuredAt = null;
-    } else measuredAt = wallTimeToIso(w, mapping.utcOffsetMinutes);
+    } else measuredAt = iso;
   } else if (mapping.timeColumn !== null) {
     // A time without a date: the day of the upload.
     const t = cell(cells, mapping.timeColumn);
     const day = ctx.fallbackIso.slice(0, 10);
-    const w = t ? parseWallTime(day, t, 'ymd') : null;
-    if (!w) {
+    const iso = t ? readingInstant(day, t, 'ymd', mapping.utcOffsetMinutes) : null;
+    if (iso === null) {
       problems.push({
         code: 'bad-date',
         column: nameOf(ctx, mapping.timeColumn),
         message: t ? `"${t.slice(0, 20)}" is not a time of day` : 'No time in this row',
       });
       measuredAt = null;
-    } else measuredAt = wallTimeToIso(w, mapping.utcOffsetMinutes);
+    } else measuredAt = iso;
   }
   return { tag, massG, measuredAt, stable, problems };
 }

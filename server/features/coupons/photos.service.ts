@@ -3,7 +3,6 @@ import fs from 'node:fs';
 import path from 'node:path';
 import type { Response } from 'express';
 import multer from 'multer';
-import sharp from 'sharp';
 import type { FeatureDeps } from '../../deps';
 import { writeAudit } from '../../db/audit';
 import { NotFound, PayloadTooLarge, Unprocessable, ValidationFailed } from '../../http/errors';
@@ -139,6 +138,9 @@ export function createPhotoService(deps: FeatureDeps) {
  * decode or is not of the type its signature claims.
  */
 async function reencode(input: Buffer, type: ImageType): Promise<Buffer | null> {
+  // sharp (and libvips, a shared library of its own) is loaded with the first photo, not at start: it adds
+  // several MB to the resident memory of a server that may never receive one (bench/server-memory.ts).
+  const { default: sharp } = await import('sharp');
   try {
     const image = sharp(input, { failOn: 'error', limitInputPixels: 60_000_000 });
     const meta = await image.metadata();

@@ -1,13 +1,17 @@
 import { createRequire } from 'node:module';
-import * as Plot from '@observablehq/plot';
+import type * as PlotModule from '@observablehq/plot';
 import type { JSDOM as JsdomClass } from 'jsdom';
 import { sanitizeSvg } from '../../markdown/render';
 
-// jsdom is loaded on the first plot drawn, not at start: it adds ~95 MB to the server's resident memory,
-// and most processes never freeze a finding's plot. `require` keeps this function synchronous.
+// jsdom and Plot are loaded on the first plot drawn, not at start: jsdom adds ~95 MB to the server's resident
+// memory, Plot and its d3 modules several MB more (bench/server-memory.ts), and most processes never freeze a
+// finding's plot. `require` keeps this function synchronous (it runs in the demo seed's transaction); Plot is
+// an ES module, which Node (20.19 and later) loads through require too.
 const require = createRequire(import.meta.url);
 let jsdom: typeof JsdomClass | null = null;
 const JSDOM = () => (jsdom ??= (require('jsdom') as { JSDOM: typeof JsdomClass }).JSDOM);
+let plotModule: typeof PlotModule | null = null;
+const Plot = () => (plotModule ??= require('@observablehq/plot') as typeof PlotModule);
 
 interface Point {
   x: number;
@@ -32,7 +36,8 @@ export function plotSvgFromSnapshot(snapshot: Record<string, unknown>): string |
   const points = (plot?.data?.points ?? []).filter(isPoint);
   if (points.length === 0) return null;
   const { window } = new (JSDOM())('<!doctype html><html><body></body></html>');
-  const figure = Plot.plot({
+  const { plot: draw, dot } = Plot();
+  const figure = draw({
     document: window.document,
     width: 640,
     height: 400,
@@ -43,7 +48,7 @@ export function plotSvgFromSnapshot(snapshot: Record<string, unknown>): string |
     y: { label: plot?.spec?.y?.label ?? 'y' },
     color: { legend: false },
     symbol: { legend: false },
-    marks: [Plot.dot(points, { x: 'x', y: 'y', stroke: 'species', symbol: 'resin', r: 4 })],
+    marks: [dot(points, { x: 'x', y: 'y', stroke: 'species', symbol: 'resin', r: 4 })],
   });
   const svg = figure.tagName.toLowerCase() === 'svg' ? figure : figure.querySelector('svg');
   if (!svg) return null;

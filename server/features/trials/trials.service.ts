@@ -1,4 +1,3 @@
-import QRCode from 'qrcode';
 import type { Db } from '../../db/client';
 import { writeAudit } from '../../db/audit';
 import { refreshResults } from '../../measurements/results';
@@ -372,6 +371,8 @@ export function createTrialsService(deps: TrialsServiceDeps) {
     const rows = repo.labelRows(db, id);
     const address = labelAddress(readShopSettings(db).labelBaseUrl, deps.appUrl);
     const base = address.url;
+    // Loaded with the first labels printed, not at start (bench/server-memory.ts).
+    const { default: QRCode } = await import('qrcode');
     const out = [];
     for (const r of rows) {
       const url = `${base}/coupons/${r.id}`;
