@@ -22,7 +22,7 @@ import { addCoupons, scaleFile } from './imports-server';
 // Ways to start the server: `bundle` (what `npm start` runs: dist/server/index.mjs, built first by
 // `npm run build:server`) and `tsx` (the TypeScript sources through tsx's loader, as `npm run dev` runs them).
 // Default: both, so their difference is measured in the same run. MEM_SNAPSHOT_DIR=<folder> also writes a heap
-// snapshot there at each reading (<way>-1: idle, -2: after the reads, -3: after the preview). Writes bench/server-memory-results.md.
+// snapshot there at each reading (<way>-1: idle, -2: at rest, -3: after the reads, -4: after the preview). Writes bench/server-memory-results.md.
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const RESULTS = path.join(root, 'bench/server-memory-results.md');
@@ -32,6 +32,8 @@ const WAYS: Record<string, string[]> = {
   tsx: ['--import', 'tsx', 'server/index.ts'],
 };
 
+/** When the idle server is read a second time: past V8's memory reducer. */
+const REST_MS = 25_000;
 const mb = (bytes: number) => (bytes / 1024 / 1024).toFixed(1);
 
 interface Sample {
@@ -161,9 +163,12 @@ async function measure(way: string, base: string, n: number, port: number): Prom
   try {
     child = await start(way, dataDir, port, probeFile, snapshotDir ? path.resolve(snapshotDir, way) : undefined);
     const pid = child.pid!;
-    // Idle: two seconds after it said it serves, nobody asking.
+    // Idle: two seconds after it said it serves, nobody asking; and at rest, once V8's memory reducer has run
+    // (it shrinks the young generation some 10–20 s after the last collection when nothing is allocated).
     await new Promise((r) => setTimeout(r, 2000));
-    lines.push(...describe('idle after start', await sample(pid, probeFile)));
+    lines.push(...describe('idle, 2 s after start', await sample(pid, probeFile)));
+    await new Promise((r) => setTimeout(r, REST_MS - 2000));
+    lines.push(...describe(`at rest, ${REST_MS / 1000} s after start`, await sample(pid, probeFile)));
 
     const base = `http://127.0.0.1:${port}`;
     const login = await fetch(`${base}/api/auth/login`, {
@@ -273,7 +278,7 @@ if (process.argv[1] && path.resolve(process.argv[1]) === fileURLToPath(import.me
     'Before decision 0019 (every library loaded at start; same bench, 2026-12-02, load average ~2 on 2 shared cores): tsx idle 211.5 MB',
     '(V8 heap 88 MB reserved, 46 used), after the reads 311.5 MB, highest during the preview 483.9 MB; bundle idle 157.7 MB. First start',
     'on an empty DATA_DIR (the demo seeded in the server itself, jsdom and Plot held from then on): bundle idle 184 MB.',
-    'A heap snapshot (MEM_SNAPSHOT_DIR) inflates every figure read after it.',
+    'A heap snapshot (MEM_SNAPSHOT_DIR) inflates every figure read after it (-1: idle, -2: at rest, -3: after the reads, -4: after the preview).',
     '',
   ];
   try {
