@@ -50,7 +50,7 @@ export interface ServerFigures {
   /** Wall time and the server's CPU time (all its threads) per phase. */
   ms: { upload: number; preview: number; commit: number; total: number };
   cpuMs: { upload: number; preview: number; commit: number };
-  /** The CPU time of the main thread alone (the one that answers requests): the commit's transaction is in a worker thread. */
+  /** The CPU time of the main thread alone (the one that answers requests; other threads: libuv's pool, V8's helpers). */
   mainCpuMs: { upload: number; preview: number; commit: number };
   /** /api/health asked every 50 ms from this process, per phase: answers, the slowest, how many said `busy`. */
   health: Record<'upload' | 'preview' | 'commit', { answers: number; slowestMs: number; busy: number; failed: number }>;
@@ -255,7 +255,7 @@ export function describeServerFigures(f: ServerFigures): string {
     `server alone (a child process, ${f.rows} readings over HTTP):`,
     `  wall: upload+detect ${r(f.ms.upload)} ms, preview ${r(f.ms.preview)} ms, commit ${r(f.ms.commit)} ms, total ${r(f.ms.total)} ms`,
     `  server CPU (all threads): upload+detect ${r(f.cpuMs.upload)} ms, preview ${r(f.cpuMs.preview)} ms, commit ${r(f.cpuMs.commit)} ms`,
-    `  server CPU of its main thread: upload+detect ${r(f.mainCpuMs.upload)} ms, preview ${r(f.mainCpuMs.preview)} ms, commit ${r(f.mainCpuMs.commit)} ms (the rest of the commit is its worker thread)`,
+    `  server CPU of its main thread: upload+detect ${r(f.mainCpuMs.upload)} ms, preview ${r(f.mainCpuMs.preview)} ms, commit ${r(f.mainCpuMs.commit)} ms`,
     `  RSS: ${f.rssIdleMb} MB idle after start, ${f.rssPeakMb} MB at its highest during the import (upload ${f.rssPeakByPhaseMb.upload}, preview ${f.rssPeakByPhaseMb.preview}, commit ${f.rssPeakByPhaseMb.commit} MB), high-water mark ${f.rssHighWaterMb} MB`,
     `  /api/health every 50 ms from another process: ${h('upload')}; ${h('preview')}; ${h('commit')}`,
   ].join('\n');

@@ -35,15 +35,3 @@ await build({ ...common, entryPoints: ['server/index.ts'], outfile: path.join(ou
 // The demo's first seed runs in a worker thread (server/demo-seed.ts), which the bundle starts from
 // `./seed-worker.mjs` beside it.
 await build({ ...common, entryPoints: ['server/db/seed-worker.ts'], outfile: path.join(out, 'seed-worker.mjs') });
-
-// The import's commit worker thread (decision 0017) is started from a file beside the module that starts
-// it (`./worker-boot.mjs`, which loads `./commit-worker.ts` through tsx). From the bundle, both are looked
-// for beside index.mjs: the worker is bundled too, and its boot file here loads that bundle directly.
-const worker = 'server/features/imports/commit-worker.ts';
-if (fs.existsSync(path.join(root, worker))) {
-  await build({ ...common, entryPoints: [worker], outfile: path.join(out, 'commit-worker.mjs') });
-  fs.writeFileSync(
-    path.join(out, 'worker-boot.mjs'),
-    '// Written by scripts/build-server.ts: the commit worker of the bundled server, already JavaScript.\n' + "await import('./commit-worker.mjs');\n",
-  );
-}

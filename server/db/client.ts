@@ -56,8 +56,8 @@ export class DatabaseInUse extends Error {
  * in exclusive locking mode and written once, so this connection holds the operating system's file lock
  * until it closes; the system drops it when the process dies, even on kill -9, so no stale lock is left to
  * clean up. A second server, a restore or a seed on the same file is refused at once (DatabaseInUse).
- * The lock lives in its own file, not on the database, so that a worker thread of the same process can open
- * a second connection to the database (an import's commit runs there, off the event loop: decision 0017).
+ * The lock lives in its own file, not on the database, so that the same process can open a second
+ * connection to the database (an import's commit holds its transaction there: decision 0017).
  */
 function takeProcessLock(file: string): Database.Database {
   const lockFile = `${file}-lock`;
@@ -88,10 +88,10 @@ function configure(sqlite: Database.Database, busyTimeoutMs: number) {
  * Opens a SQLite file for this process, creating it owner-only (0600) in an owner-only folder (0700)
  * when it is new, after taking the process lock (above): a second process on the same file stops here.
  *
- * Its busy timeout is 0: the only other connection is an import's commit in a worker thread of this
- * process, which holds the write lock for seconds; waiting for it would block the event loop (SQLite
- * sleeps in the calling thread), so a write arriving then fails at once with SQLITE_BUSY, which the
- * error middleware answers as 503 "try again in a moment". Reads never wait in WAL mode.
+ * Its busy timeout is 0: the only other connection is an import's commit on a second connection of this
+ * process, which holds the write lock for seconds across turns of the event loop; waiting for it would
+ * block the event loop (SQLite sleeps in the calling thread), so a write arriving then fails at once with
+ * SQLITE_BUSY, which the error middleware answers as 503 "try again in a moment". Reads never wait in WAL mode.
  */
 export function openSqlite(file: string): Database.Database {
   if (file !== ':memory:') {
@@ -122,13 +122,14 @@ export function openSqlite(file: string): Database.Database {
 }
 
 /**
- * A second connection to a database this process already holds (openSqlite above), for a worker thread:
- * it takes no process lock, and waits up to `busyTimeoutMs` for the main thread's short transactions
- * (a worker's wait blocks only the worker).
+ * A second connection to a database this process already holds (openSqlite above), for an import's commit,
+ * whose transaction stays open across turns of the event loop (decision 0017): it takes no process lock,
+ * and like the app's connection it never waits for a lock (a wait sleeps the thread, and with it every
+ * request); its caller retries instead.
  */
-export function openWorkerConnection(file: string, busyTimeoutMs = 30_000): Database.Database {
-  const sqlite = new Database(file, { timeout: busyTimeoutMs, fileMustExist: true });
-  configure(sqlite, busyTimeoutMs);
+export function openSecondConnection(file: string): Database.Database {
+  const sqlite = new Database(file, { timeout: 0, fileMustExist: true });
+  configure(sqlite, 0);
   return sqlite;
 }
 
@@ -154,7 +155,7 @@ export function applyMigrations(db: Db, sqlite: Database.Database): void {
 
 /**
  * Opens (creating if needed) the SQLite file and applies the committed migrations.
- * WAL lets readers proceed during a write (an import's commit in a worker thread).
+ * WAL lets readers proceed during a write (an import's commit on a second connection).
  */
 export function openDatabase(file: string): Database_ {
   const sqlite = openSqlite(file);

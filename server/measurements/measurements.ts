@@ -19,7 +19,8 @@ import {
   type CheckRow,
   type WeighingRow,
 } from './readings.repo';
-import { prepared, refreshResults } from './results';
+import { prepared, preparedRaw, refreshResults, refreshResultsInSteps } from './results';
+import { runSteps, type Steps } from './steps';
 
 const INSERT_WEIGHING = 'insert into weighings (coupon_id, stage, mass_g, measured_at, import_id, source, created_by) values (?, ?, ?, ?, ?, ?, ?)';
 const INSERT_CHECK =
@@ -31,6 +32,21 @@ const returning = (table: typeof weighings | typeof checks) =>
     .join(', ')}`;
 const INSERT_WEIGHING_RETURNING = INSERT_WEIGHING + returning(weighings);
 const INSERT_CHECK_RETURNING = INSERT_CHECK + returning(checks);
+
+/** See `bulkAdd`. `slice`: entries written per step of `bulkAddInSteps` (all at once by default). */
+export interface BulkAddOptions {
+  reason?: string;
+  skipRefused?: boolean;
+  audit?: 'per-coupon' | 'per-source';
+  judgedAt?: number;
+  slice?: number;
+}
+export interface BulkAddResult {
+  written: { weighings: number; checks: number };
+  couponIds: number[];
+  refused: ReadingProblem[];
+  judgedAgain: boolean;
+}
 
 /** Who is writing: only the id is stored (created_by, audit actor). */
 export interface Actor {
@@ -62,6 +78,7 @@ const CHECK_FIELDS = {
 } as const;
 
 const SINGLE_STAGES: readonly WeighingStage[] = ['dry', 'soaked', 'cured', 'wet-test'];
+const NO_READINGS: readonly never[] = [];
 
 export function importIdOf(source: MeasurementSource): number | null {
   return source.startsWith('import:') ? Number(source.slice('import:'.length)) : null;
@@ -156,26 +173,39 @@ interface CouponState {
 }
 
 /** The stored state the rules need, for every coupon of the entries, in three queries binding one JSON array. */
-function loadStates(tx: Db, couponIds: number[]): Map<number, CouponState> {
+function loadStates(tx: Db, couponIds: number[], into = new Map<number, CouponState>()): Map<number, CouponState> {
   const ids = JSON.stringify(couponIds.length === 1 ? couponIds : [...new Set(couponIds)]);
-  const states = new Map<number, CouponState>();
-  for (const r of prepared(tx, 'select id, tag, role from coupons where id in (select value from json_each(?))').all(ids) as {
-    id: number;
-    tag: string;
-    role: 'treated' | 'control';
-  }[]) {
-    states.set(r.id, { tag: r.tag, role: r.role, weighings: [], dimensionStages: new Set() });
+  const states = into;
+  // Rows as arrays (preparedRaw): an import asks about 100,000 coupons, and naming every column of every
+  // row cost more than the queries.
+  for (const r of preparedRaw(tx, 'select id, tag, role from coupons where id in (select value from json_each(?))').all(ids) as [
+    number,
+    string,
+    'treated' | 'control',
+  ][]) {
+    states.set(r[0], { tag: r[1], role: r[2], weighings: [], dimensionStages: new Set() });
   }
-  const ws = prepared(
+  const ws = preparedRaw(
     tx,
-    'select coupon_id as couponId, stage, mass_g as massG, measured_at as measuredAt from weighings where coupon_id in (select value from json_each(?)) and superseded_by is null and deleted_at is null order by measured_at, id',
-  ).all(ids) as (WeighingReading & { couponId: number })[];
-  for (const w of ws) states.get(w.couponId)?.weighings.push({ stage: w.stage, massG: w.massG, measuredAt: w.measuredAt });
-  const dims = prepared(
+    'select coupon_id, stage, mass_g, measured_at from weighings where coupon_id in (select value from json_each(?)) and superseded_by is null and deleted_at is null order by measured_at, id',
+  ).all(ids) as [number, WeighingStage, number, string][];
+  for (const w of ws) states.get(w[0])?.weighings.push({ stage: w[1], massG: w[2], measuredAt: w[3] });
+  const dims = preparedRaw(
     tx,
-    "select coupon_id as couponId, stage from checks where coupon_id in (select value from json_each(?)) and kind = 'dimension' and superseded_by is null and deleted_at is null",
-  ).all(ids) as { couponId: number; stage: string }[];
-  for (const d of dims) states.get(d.couponId)?.dimensionStages.add(d.stage);
+    "select coupon_id, stage from checks where coupon_id in (select value from json_each(?)) and kind = 'dimension' and superseded_by is null and deleted_at is null",
+  ).all(ids) as [number, string][];
+  for (const d of dims) states.get(d[0])?.dimensionStages.add(d[1]);
+  return states;
+}
+
+/** loadStates for many coupons, a slice per step (each slice's queries bind one JSON array of its ids). */
+function* loadStatesInSteps(tx: Db, couponIds: number[], slice: number): Steps<Map<number, CouponState>> {
+  const unique = [...new Set(couponIds)];
+  const states = new Map<number, CouponState>();
+  for (let from = 0; from < unique.length; from += slice) {
+    loadStates(tx, unique.slice(from, from + slice), states);
+    if (from + slice < unique.length) yield (from + slice) / unique.length;
+  }
   return states;
 }
 
@@ -372,23 +402,34 @@ export function createMeasurements(deps: { now: () => Date }) {
    * same: the entries are written without judging them again (`judgedAgain: false`). Otherwise they are
    * judged as always. The caller must pass only entries that judgement accepted.
    */
-  function bulkAdd(
+  function bulkAdd(tx: Db, actor: Actor, source: MeasurementSource, entries: readonly MeasurementEntry[], options: BulkAddOptions = {}): BulkAddResult {
+    return runSteps(bulkAddInSteps(tx, actor, source, entries, options));
+  }
+
+  /**
+   * `bulkAdd` a slice at a time: an import's commit holds its transaction open on a connection of its own
+   * and gives the event loop a turn between slices (decision 0017); yields the share done (0–1). The
+   * caller must not let anything else write on that connection until the steps end.
+   */
+  function* bulkAddInSteps(
     tx: Db,
     actor: Actor,
     source: MeasurementSource,
     entries: readonly MeasurementEntry[],
-    options: { reason?: string; skipRefused?: boolean; audit?: 'per-coupon' | 'per-source'; judgedAt?: number } = {},
-  ) {
+    options: BulkAddOptions = {},
+  ): Steps<BulkAddResult> {
+    const slice = options.slice ?? Number.MAX_SAFE_INTEGER;
     const judgedAgain = options.judgedAt === undefined || lastAuditId(tx) !== options.judgedAt;
-    const refused = judgedAgain
-      ? validate(
-          entries,
-          loadStates(
-            tx,
-            entries.map((e) => e.couponId),
-          ),
-        )
-      : [];
+    let refused: ReadingProblem[] = [];
+    if (judgedAgain) {
+      const states = yield* loadStatesInSteps(
+        tx,
+        entries.map((e) => e.couponId),
+        slice,
+      );
+      refused = validate(entries, states);
+      yield 0.2;
+    }
     if (refused.length && !options.skipRefused) throw combinedError(errorsOf(refused, batchPrefix));
     const skip = new Set<string>();
     for (const p of refused) skip.add(p.list === null ? `${p.entry}` : `${p.entry}|${p.list}|${p.index}`);
@@ -399,40 +440,47 @@ export function createMeasurements(deps: { now: () => Date }) {
     const perCoupon = new Map<number, { weighings: unknown[]; checks: unknown[] }>();
     const touched = new Set<number>();
     const ranges = { weighings: [Infinity, -Infinity], checks: [Infinity, -Infinity] };
-    const stages: Record<string, number> = {};
+    const stages: Partial<Record<WeighingStage, number>> = {};
     let nw = 0;
     let nc = 0;
-    entries.forEach((e, i) => {
-      if (skip.size && skip.has(`${i}`)) return;
-      let mine: { weighings: unknown[]; checks: unknown[] } | undefined;
-      const mineOf = () => {
-        mine ??= perCoupon.get(e.couponId);
-        if (!mine) {
-          mine = { weighings: [], checks: [] };
-          perCoupon.set(e.couponId, mine);
-        }
-        return mine;
-      };
-      (e.weighings ?? []).forEach((w, j) => {
-        if (skip.size && skip.has(`${i}|weighings|${j}`)) return;
+    const mineOf = (couponId: number) => {
+      let mine = perCoupon.get(couponId);
+      if (!mine) {
+        mine = { weighings: [], checks: [] };
+        perCoupon.set(couponId, mine);
+      }
+      return mine;
+    };
+    // Plain loops, no closure per entry: at 100,000 entries the closures (and the name each one is given
+    // when the server runs through tsx) cost more than the loop's own work.
+    for (let i = 0; i < entries.length; i++) {
+      const e = entries[i] as MeasurementEntry;
+      if (skip.size && skip.has(`${i}`)) continue;
+      const ws = e.weighings ?? NO_READINGS;
+      for (let j = 0; j < ws.length; j++) {
+        if (skip.size && skip.has(`${i}|weighings|${j}`)) continue;
+        const w = ws[j] as WeighingInput;
         const id = Number(insW.run(e.couponId, w.stage, w.massG, w.measuredAt, importId, source, actor.id).lastInsertRowid);
+        stages[w.stage] = (stages[w.stage] ?? 0) + 1;
         if (perSource) {
           touched.add(e.couponId);
           stretch(ranges.weighings, id);
-          stages[w.stage] = (stages[w.stage] ?? 0) + 1;
-        } else mineOf().weighings.push({ id, stage: w.stage, massG: w.massG, measuredAt: w.measuredAt });
+        } else mineOf(e.couponId).weighings.push({ id, stage: w.stage, massG: w.massG, measuredAt: w.measuredAt });
         nw++;
-      });
-      (e.checks ?? []).forEach((k, j) => {
-        if (skip.size && skip.has(`${i}|checks|${j}`)) return;
-        const id = insC.run(...checkParams(e.couponId, k, source, actor.id)).lastInsertRowid;
+      }
+      const cs = e.checks ?? NO_READINGS;
+      for (let j = 0; j < cs.length; j++) {
+        if (skip.size && skip.has(`${i}|checks|${j}`)) continue;
+        const k = cs[j] as CheckInput;
+        const id = Number(insC.run(...checkParams(e.couponId, k, source, actor.id)).lastInsertRowid);
         if (perSource) {
           touched.add(e.couponId);
-          stretch(ranges.checks, Number(id));
-        } else mineOf().checks.push({ id: Number(id), ...k });
+          stretch(ranges.checks, id);
+        } else mineOf(e.couponId).checks.push({ id, ...k });
         nc++;
-      });
-    });
+      }
+      if ((i + 1) % slice === 0 && i + 1 < entries.length) yield 0.2 + (0.3 * (i + 1)) / entries.length;
+    }
     if (perSource) {
       const span = (r: number[]) => (r[0] === Infinity ? null : { first: r[0], last: r[1] });
       auditWriter(tx, actor, 'add-readings', 'import')(
@@ -446,8 +494,10 @@ export function createMeasurements(deps: { now: () => Date }) {
       for (const [couponId, after] of perCoupon) audit(couponId, null, { source, ...after }, options.reason ?? null);
     }
     const couponIds = perSource ? [...touched] : [...perCoupon.keys()];
-    // An import's weighings leave the columns computed from checks as they are.
-    refreshResults(tx, couponIds, { weighingsOnly: nc === 0 });
+    yield 0.5;
+    // Weighings alone leave the columns computed from checks, and the masses of other stages, as they are.
+    const refresh = refreshResultsInSteps(tx, couponIds, nc === 0 ? { weighingStages: Object.keys(stages) as WeighingStage[] } : {}, Math.min(slice, 10_000));
+    for (let r = refresh.next(); !r.done; r = refresh.next()) yield 0.5 + 0.5 * r.value;
     return { written: { weighings: nw, checks: nc }, couponIds, refused, judgedAgain };
   }
 
@@ -489,7 +539,9 @@ export function createMeasurements(deps: { now: () => Date }) {
       audit(couponId, before, after, reason);
     }
     const couponIds = [...perCoupon.keys()];
-    refreshResults(tx, couponIds, { weighingsOnly: !ids.checks?.length });
+    const stages = new Set<WeighingStage>();
+    for (const w of perCoupon.values()) for (const r of w.weighings) stages.add((r as { stage: WeighingStage }).stage);
+    refreshResults(tx, couponIds, ids.checks?.length ? {} : { weighingStages: [...stages] });
     return { deleted: { weighings: ids.weighings?.length ?? 0, checks: ids.checks?.length ?? 0 }, couponIds, deletedAt };
   }
 
@@ -571,7 +623,20 @@ export function createMeasurements(deps: { now: () => Date }) {
     return { old: { ...old, deletedAt } };
   }
 
-  return { addWeighing, addCheck, batch, changeCounter, checkBulk, bulkAdd, bulkDelete, correctWeighing, correctCheck, deleteWeighing, deleteCheck };
+  return {
+    addWeighing,
+    addCheck,
+    batch,
+    changeCounter,
+    checkBulk,
+    bulkAdd,
+    bulkAddInSteps,
+    bulkDelete,
+    correctWeighing,
+    correctCheck,
+    deleteWeighing,
+    deleteCheck,
+  };
 }
 
 export type Measurements = ReturnType<typeof createMeasurements>;

@@ -1,8 +1,10 @@
 import { getTableColumns, sql } from 'drizzle-orm';
+import type Database from 'better-sqlite3';
 import type { Db } from '../db/client';
 import { getTableConfig } from 'drizzle-orm/sqlite-core';
 import { couponResults, type CouponResultValues } from '../db/schema/results';
-import type { CheckStage, CouponRole, HardnessScale } from '../../shared/constants/records';
+import { WEIGHING_STAGES, type CheckStage, type CouponRole, type HardnessScale, type WeighingStage } from '../../shared/constants/records';
+import { runSteps, type Steps } from './steps';
 import { checkVolumeCm3, couponMetrics, type CheckReading, type WeighingReading } from '../../shared/coupons/metrics';
 
 /** What a results row is keyed by: the coupon and where it sits (trial, run, lot, resin). */
@@ -137,34 +139,63 @@ const CHECKS_SQL = `
   from checks k`;
 const IDS = `(select value from json_each(?))`;
 
-interface RawKeys extends Omit<ResultKeys, 'role'> {
-  role: string;
-}
-interface RawWeighing {
-  couponId: number;
-  stage: string;
-  massG: number;
-  measuredAt: string;
-}
-interface RawCheck extends Omit<StoredCheck, 'kind' | 'stage' | 'hardnessScale'> {
-  kind: string;
-  stage: string;
-  hardnessScale: string | null;
-}
+// The reads answer rows as arrays (preparedRaw), in the column order of the SQL above; each row becomes a
+// JS object of one fixed shape here, which costs far less than better-sqlite3 naming every column.
+type KeysRow = [number, string, number | null, number | null, number | null, number, string, string | null, number | null, number | null, number | null];
+type WeighingRow = [number, string, number, string];
+type CheckRow = [number, string, string, string, number | null, number | null, number | null, number | null, number | null, string | null, number | null];
 
-// Prepared once per connection (server/db/prepared.ts); re-exported for the module's callers.
-export { client, prepared } from '../db/prepared';
-import { client, prepared } from '../db/prepared';
+const keysOf = (r: KeysRow): ResultKeys => ({
+  couponId: r[0],
+  tag: r[1],
+  trialId: r[2],
+  conditionId: r[3],
+  runId: r[4],
+  speciesId: r[5],
+  role: r[6] as CouponRole,
+  sourceBoard: r[7],
+  resinId: r[8],
+  resinLotId: r[9],
+  curedDensityGcm3: r[10],
+});
 
-function groupBy<T extends { couponId: number }>(rows: T[]): Map<number, T[]> {
-  const out = new Map<number, T[]>();
+/** Current weighings by coupon, each list in measured_at, id order (the order of the rows read). */
+function weighingsByCoupon(rows: WeighingRow[]): Map<number, WeighingReading[]> {
+  const out = new Map<number, WeighingReading[]>();
   for (const r of rows) {
-    const list = out.get(r.couponId);
-    if (list) list.push(r);
-    else out.set(r.couponId, [r]);
+    const w: WeighingReading = { stage: r[1] as WeighingReading['stage'], massG: r[2], measuredAt: r[3] };
+    const list = out.get(r[0]);
+    if (list) list.push(w);
+    else out.set(r[0], [w]);
   }
   return out;
 }
+
+function checksByCoupon(rows: CheckRow[]): Map<number, CheckReading[]> {
+  const out = new Map<number, CheckReading[]>();
+  for (const r of rows) {
+    const c = {
+      kind: r[1],
+      stage: r[2],
+      measuredAt: r[3],
+      lengthMm: r[4],
+      widthMm: r[5],
+      thicknessMm: r[6],
+      volumeCm3: r[7],
+      hardnessValue: r[8],
+      hardnessScale: r[9],
+      moisturePct: r[10],
+    } as CheckReading;
+    const list = out.get(r[0]);
+    if (list) list.push(c);
+    else out.set(r[0], [c]);
+  }
+  return out;
+}
+
+// Prepared once per connection (server/db/prepared.ts); re-exported for the module's callers.
+export { client, prepared, preparedRaw } from '../db/prepared';
+import { client, prepared, preparedRaw } from '../db/prepared';
 
 const COLUMNS = Object.entries(getTableColumns(couponResults)).map(([key, col]) => ({ key, name: col.name }));
 // An upsert, not `insert or replace`: replace deletes the row and inserts it again, touching all seven
@@ -205,9 +236,40 @@ const CHECKS_ONLY = new Set<string>([
   'hardness',
   ...Object.values(HARDNESS_COLUMN).flatMap((byScale) => Object.values(byScale)),
 ]);
-const WEIGHING_COLUMNS = VALUE_COLUMNS.filter((c) => !CHECKS_ONLY.has(c.key));
-const UPDATE_WEIGHINGS_SQL = `update coupon_results set ${WEIGHING_COLUMNS.map((c) => `${c.name} = ?`).join(', ')}
-  where coupon_id = ? and ${KEY_COLUMNS.map((c) => `${c.name} is ?`).join(' and ')}`;
+/**
+ * The stored mass columns of each weighing stage. Three of them decide whether a row sits in a partial
+ * index (coupons still waiting for their dry, soaked or cured weighing, migration 0012), and SQLite
+ * rewrites a partial index's entry whenever an UPDATE sets a column of its WHERE clause, changed or not: a
+ * dry import that also set the (unchanged) soaked and cured masses rewrote two index entries per coupon,
+ * more than half of its results write. So a weighings-only refresh sets the mass columns of the stages
+ * written and leaves the others as stored (they cannot have moved).
+ */
+const STAGE_COLUMNS: Record<WeighingStage, readonly (keyof CouponResultValues)[]> = {
+  dry: ['dryMassG'],
+  soaked: ['soakedMassG'],
+  cured: ['curedMassG'],
+  'wet-test': ['wetTestMassG'],
+  'drying-check': ['dryingCheckCount', 'firstDryingCheckMassG', 'lastDryingCheckMassG', 'lastDryingCheckAt'],
+};
+const ANY_STAGE_COLUMN = new Set<string>(Object.values(STAGE_COLUMNS).flat());
+
+/** The columns a weighings-only refresh of these stages may set, built once per set of stages. */
+const weighingColumnSets = new Map<string, { key: string; name: string; json: boolean }[]>();
+function weighingColumns(stages: readonly WeighingStage[]) {
+  const key = WEIGHING_STAGES.filter((s) => stages.includes(s)).join(',');
+  let cols = weighingColumnSets.get(key);
+  if (!cols) {
+    const mine = new Set<string>(stages.flatMap((s) => STAGE_COLUMNS[s]));
+    cols = VALUE_COLUMNS.filter((c) => !CHECKS_ONLY.has(c.key) && (!ANY_STAGE_COLUMN.has(c.key) || mine.has(c.key))).map((c) => ({
+      ...c,
+      json: c.key === 'hardness' || c.key === 'problems',
+    }));
+    // refreshAfterWeighings marks the moved columns as bits of one 32-bit integer.
+    if (cols.length > 31) throw new Error(`A weighings-only refresh may set ${cols.length} columns; at most 31 fit its bit mask`);
+    weighingColumnSets.set(key, cols);
+  }
+  return cols;
+}
 
 /** How each bound column is read from a computed row: its key, and whether it is stored as JSON text. */
 type Binder = { key: string; json: boolean }[];
@@ -215,7 +277,6 @@ const binder = (cols: { key: string }[]): Binder => cols.map((c) => ({ key: c.ke
 const ALL_BINDER = binder(COLUMNS);
 const KEY_BINDER = binder(KEY_COLUMNS);
 const VALUE_BINDER = binder(VALUE_COLUMNS);
-const WEIGHING_BINDER = binder(WEIGHING_COLUMNS);
 
 function bindInto(out: unknown[], rec: Record<string, unknown>, cols: Binder) {
   for (const c of cols) {
@@ -237,58 +298,151 @@ function updateBindable(v: CouponResultValues, values: Binder): unknown[] {
 
 const NONE: readonly never[] = [];
 
-function writeRows(tx: Db, keys: RawKeys[], ws: Map<number, RawWeighing[]>, cs: Map<number, RawCheck[]>, fresh = false, weighingsOnly = false): number {
+function writeRows(tx: Db, keys: KeysRow[], ws: Map<number, WeighingReading[]>, cs: Map<number, CheckReading[]>, fresh = false): number {
   const upsert = prepared(tx, UPSERT_SQL);
-  const update = prepared(tx, weighingsOnly ? UPDATE_WEIGHINGS_SQL : UPDATE_SQL);
-  const values = weighingsOnly ? WEIGHING_BINDER : VALUE_BINDER;
-  for (const k of keys) {
-    // The raw rows are passed as they are (their stage, kind and scale strings are the stored enums); the
-    // extra couponId field is not read.
-    const row = resultValues(
-      k as unknown as ResultKeys,
-      (ws.get(k.couponId) ?? NONE) as unknown as readonly WeighingReading[],
-      (cs.get(k.couponId) ?? NONE) as unknown as readonly CheckReading[],
-    );
+  const update = prepared(tx, UPDATE_SQL);
+  const values = VALUE_BINDER;
+  for (const r of keys) {
+    const row = resultValues(keysOf(r), ws.get(r[0]) ?? NONE, cs.get(r[0]) ?? NONE);
     if (fresh || update.run(updateBindable(row, values)).changes === 0) upsert.run(bindable(row));
   }
   return keys.length;
 }
 
 /**
+ * What changed since these rows were last written, when the caller knows it. `weighingStages`: weighings
+ * of these stages were added or removed and nothing else, so the columns computed from checks alone and
+ * the masses of other stages are left as stored (the table is always current, so they already hold what
+ * a full refresh would write); a row whose indexed keys moved, or a missing row, is still written in full.
+ */
+export interface RefreshOptions {
+  weighingStages?: readonly WeighingStage[];
+}
+
+/**
  * Recomputes the results rows of these coupons from their current readings and keys. Call it inside
  * the transaction of the change (every write of server/measurements does; a feature that moves a
  * coupon between runs, changes its species or role, or creates coupons calls it for those coupons).
- *
- * `weighingsOnly`: the change since these rows were last written added or removed weighings and nothing
- * else, so the columns computed from checks alone are left as stored (the table is always current, so
- * they already hold what a full refresh would write); a row whose indexed keys moved, or a missing row,
- * is still written in full.
  */
-export function refreshResults(tx: Db, couponIds: readonly number[], options: { weighingsOnly?: boolean } = {}): number {
+export function refreshResults(tx: Db, couponIds: readonly number[], options: RefreshOptions = {}): number {
+  return runSteps(refreshResultsInSteps(tx, couponIds, options));
+}
+
+/**
+ * The same, a slice of `slice` coupons per step (an import's 100,000 coupons: their readings, keys and
+ * computed rows are never all in memory at once, and the caller may give the event loop a turn between
+ * slices). Yields the share done.
+ */
+export function* refreshResultsInSteps(tx: Db, couponIds: readonly number[], options: RefreshOptions = {}, slice = REFRESH_CHUNK): Steps<number> {
   if (couponIds.length === 0) return 0;
   const unique = couponIds.length === 1 ? couponIds : [...new Set(couponIds)];
-  const only = options.weighingsOnly === true;
-  if (unique.length <= REFRESH_CHUNK) return refreshSome(tx, unique, only);
-  // An import's 100,000 coupons in slices (same transaction, same rows): their readings, keys and computed
-  // rows are never all in memory at once.
+  const stages = options.weighingStages ?? null;
   let n = 0;
-  for (let from = 0; from < unique.length; from += REFRESH_CHUNK) n += refreshSome(tx, unique.slice(from, from + REFRESH_CHUNK), only);
+  for (let from = 0; from < unique.length; from += slice) {
+    n += refreshSome(tx, from === 0 && unique.length <= slice ? unique : unique.slice(from, from + slice), stages);
+    if (from + slice < unique.length) yield (from + slice) / unique.length;
+  }
   return n;
 }
 
 /** Coupons whose results are recomputed per slice of a large refresh. */
 const REFRESH_CHUNK = 10_000;
 
-function refreshSome(tx: Db, unique: readonly number[], weighingsOnly: boolean): number {
+function refreshSome(tx: Db, unique: readonly number[], weighingStages: readonly WeighingStage[] | null): number {
+  if (weighingStages) return refreshAfterWeighings(tx, unique, weighingStages);
   const ids = JSON.stringify(unique);
-  const keys = prepared(tx, `${KEYS_SQL} where c.id in ${IDS}`).all(ids) as RawKeys[];
-  const ws = prepared(tx, `${WEIGHINGS_SQL} where w.coupon_id in ${IDS} and w.superseded_by is null and w.deleted_at is null order by w.measured_at, w.id`).all(
+  const keys = preparedRaw(tx, `${KEYS_SQL} where c.id in ${IDS}`).all(ids) as KeysRow[];
+  const { ws, cs } = readingsOf(tx, ids);
+  return writeRows(tx, keys, ws, cs);
+}
+
+/** The current weighings and checks of these coupons (ids as one JSON array), grouped by coupon. */
+function readingsOf(tx: Db, ids: string) {
+  const ws = preparedRaw(
+    tx,
+    `${WEIGHINGS_SQL} where w.coupon_id in ${IDS} and w.superseded_by is null and w.deleted_at is null order by w.measured_at, w.id`,
+  ).all(ids) as WeighingRow[];
+  const cs = preparedRaw(tx, `${CHECKS_SQL} where k.coupon_id in ${IDS} and k.superseded_by is null and k.deleted_at is null order by k.measured_at, k.id`).all(
     ids,
-  ) as RawWeighing[];
-  const cs = prepared(tx, `${CHECKS_SQL} where k.coupon_id in ${IDS} and k.superseded_by is null and k.deleted_at is null order by k.measured_at, k.id`).all(
-    ids,
-  ) as RawCheck[];
-  return writeRows(tx, keys, groupBy(ws), groupBy(cs), false, weighingsOnly);
+  ) as CheckRow[];
+  return { ws: weighingsByCoupon(ws), cs: checksByCoupon(cs) };
+}
+
+/** The indexed keys of a stored results row, in KeysRow order less the resin's cured density. */
+const STORED_KEYS = ['couponId', 'tag', 'trialId', 'conditionId', 'runId', 'speciesId', 'role', 'sourceBoard', 'resinId', 'resinLotId'] as const;
+const nameOf = (key: string) => (COLUMNS.find((c) => c.key === key) as { name: string }).name;
+
+/** An UPDATE of exactly these columns of one row, prepared once per connection and set of columns. */
+function updateOf(tx: Db, cols: readonly { name: string }[]) {
+  return prepared(tx, `update coupon_results set ${cols.map((c) => `${c.name} = ?`).join(', ')} where coupon_id = ?`);
+}
+
+/**
+ * The refresh after weighings of these stages were added or removed, and nothing else. The keys come from
+ * the stored results rows themselves (a reading changes none of them, and every change of a coupon's keys
+ * refreshes its row in the same transaction), with the columns this refresh may set; each coupon's row is
+ * computed from its readings, and only the columns whose value moved are written: a coupon's first dry
+ * weighing moves one or two of them, and SQLite's cost grows with every column bound and set. A coupon
+ * without a stored row gets the full path.
+ */
+function refreshAfterWeighings(tx: Db, unique: readonly number[], stages: readonly WeighingStage[]): number {
+  const cols = weighingColumns(stages);
+  const ids = JSON.stringify(unique);
+  const stored = preparedRaw(
+    tx,
+    `select ${[...STORED_KEYS.map(nameOf), ...cols.map((c) => c.name)].join(', ')} from coupon_results where coupon_id in ${IDS}`,
+  ).all(ids) as unknown[][];
+  let missing: number[] = [];
+  if (stored.length < unique.length) {
+    const have = new Set(stored.map((r) => r[0] as number));
+    missing = unique.filter((id) => !have.has(id));
+  }
+  const density = new Map((preparedRaw(tx, 'select id, cured_density_g_cm3 from resins').all() as [number, number][]).map(([id, d]) => [id, d] as const));
+  const { ws, cs } = readingsOf(tx, ids);
+  const first = STORED_KEYS.length;
+  // One UPDATE per set of moved columns (a bit each; at most 31 columns), prepared once per connection.
+  const updates = new Map<number, Database.Statement>();
+  const bound: unknown[] = [];
+  for (const r of stored) {
+    const keys: ResultKeys = {
+      couponId: r[0] as number,
+      tag: r[1] as string,
+      trialId: r[2] as number | null,
+      conditionId: r[3] as number | null,
+      runId: r[4] as number | null,
+      speciesId: r[5] as number,
+      role: r[6] as CouponRole,
+      sourceBoard: r[7] as string | null,
+      resinId: r[8] as number | null,
+      resinLotId: r[9] as number | null,
+      curedDensityGcm3: r[8] === null ? null : (density.get(r[8] as number) ?? null),
+    };
+    const row = resultValues(keys, ws.get(keys.couponId) ?? NONE, cs.get(keys.couponId) ?? NONE) as unknown as Record<string, unknown>;
+    let mask = 0;
+    bound.length = 0;
+    for (let i = 0; i < cols.length; i++) {
+      const c = cols[i] as (typeof cols)[number];
+      const x = row[c.key];
+      const v = c.json ? JSON.stringify(x) : (x ?? null);
+      if (v !== r[first + i]) {
+        mask |= 1 << i;
+        bound.push(v);
+      }
+    }
+    if (mask === 0) continue;
+    bound.push(keys.couponId);
+    let st = updates.get(mask);
+    if (!st) {
+      st = updateOf(
+        tx,
+        cols.filter((_, i) => mask & (1 << i)),
+      );
+      updates.set(mask, st);
+    }
+    st.run(bound);
+  }
+  if (missing.length) refreshSome(tx, missing, null);
+  return unique.length;
 }
 
 /** Refreshes every coupon of a run (its lot, and so its resin, changed). */
@@ -304,10 +458,10 @@ export function refreshResultsOfRun(tx: Db, runId: number): number {
 export function rebuildResults(tx: Db): number {
   const c = client(tx);
   c.prepare('delete from coupon_results').run();
-  const keys = c.prepare(`${KEYS_SQL} order by c.id`).all() as RawKeys[];
-  const ws = c.prepare(`${WEIGHINGS_SQL} where w.superseded_by is null and w.deleted_at is null order by w.measured_at, w.id`).all() as RawWeighing[];
-  const cs = c.prepare(`${CHECKS_SQL} where k.superseded_by is null and k.deleted_at is null order by k.measured_at, k.id`).all() as RawCheck[];
-  return writeRows(tx, keys, groupBy(ws), groupBy(cs), true);
+  const keys = preparedRaw(tx, `${KEYS_SQL} order by c.id`).all() as KeysRow[];
+  const ws = preparedRaw(tx, `${WEIGHINGS_SQL} where w.superseded_by is null and w.deleted_at is null order by w.measured_at, w.id`).all() as WeighingRow[];
+  const cs = preparedRaw(tx, `${CHECKS_SQL} where k.superseded_by is null and k.deleted_at is null order by k.measured_at, k.id`).all() as CheckRow[];
+  return writeRows(tx, keys, weighingsByCoupon(ws), checksByCoupon(cs), true);
 }
 
 /** True when some coupon has no results row (a database from before the table, or a restored backup). */

@@ -1,7 +1,9 @@
-import type { Db } from '../../db/client';
+import { drizzle } from 'drizzle-orm/better-sqlite3';
+import { openSecondConnection, schema, type Db } from '../../db/client';
 import { writeAudit } from '../../db/audit';
-import { AppError, Conflict } from '../../http/errors';
+import { databaseBusy } from '../../db/storage-errors';
 import type { MeasurementEntry, Measurements, ReadingProblem } from '../../measurements/measurements';
+import type { Steps } from '../../measurements/steps';
 import type { ImportProblemCode, ImportRowOutcome } from '../../../shared/constants/imports';
 import type { CommitImportInput, ImportCounts, ImportMapping, ImportPreviewRow, ImportProblem } from '../../../shared/schemas/imports';
 import { currentWeighingAt, replaceProblems, updateImport, type CouponKey } from './imports.repo';
@@ -16,8 +18,7 @@ export const MAX_PROBLEMS = 5_000;
 
 /**
  * The readings a file gives, column by column rather than one object per row (100,000 rows stay a few
- * MB): candidate i is file row `row[i]` for `coupon[i]`. Rows the rules still have to judge. Plain data,
- * so the commit's worker thread receives it as it is.
+ * MB): candidate i is file row `row[i]` for `coupon[i]`. Rows the rules still have to judge. Plain data.
  */
 export interface Collected {
   dataRows: number;
@@ -106,7 +107,7 @@ export function previewRowsOf(mapping: ImportMapping, c: Collected, a: Analysis)
 
 export const blockedMessage = (n: number) => `${n} rows still have problems, so nothing was imported (you chose nothing until every problem is fixed)`;
 
-/** Everything the commit's transaction works from: plain data, posted to the worker thread that writes it. */
+/** Everything the commit's transaction works from. */
 export interface CommitJob {
   importId: number;
   actor: { id: number };
@@ -124,171 +125,150 @@ export interface CommitOutcome {
   judgedAgain: boolean | null;
 }
 
+/** Readings written per step of the commit, between which the event loop gets a turn (~10–30 ms each). */
+const COMMIT_SLICE = 2_000;
+/** How long a commit waits for the write lock held by another connection before it gives up. */
+const LOCK_WAIT_MS = 30_000;
+
+/** Thrown inside the transaction when all-or-nothing was chosen and a reading is refused now. */
+class Blocked extends Error {}
+
 /**
- * The commit itself, in ONE transaction taken with the write lock at its start (`immediate`, so it
- * waits for a short write of the main thread instead of failing on a stale snapshot): every accepted
- * reading goes through the measurements module's bulk path, which judges them again on exactly the state
- * it writes to (someone may have weighed a coupon since the preview) unless the records' change counter
- * shows nothing changed since the preview judged them; then the corrections, the problems and the import
- * row. Under all-or-nothing, a reading refused now rolls everything back and the import goes back to
- * `previewed`, saying why. Runs in a worker thread (commit-worker.ts) on its own connection.
+ * The commit's transaction, step by step: every accepted reading goes through the measurements module's
+ * bulk path, which judges them again on exactly the state it writes to (someone may have weighed a
+ * coupon since the preview) unless the records' change counter shows nothing changed since the preview
+ * judged them; then the corrections, the problems and the import row. Under all-or-nothing, a reading
+ * refused now throws Blocked. Yields the share done.
  */
-export function writeCommit(db: Db, measurements: Measurements, job: CommitJob, now: () => Date): CommitOutcome {
+function* commitSteps(db: Db, measurements: Measurements, job: CommitJob, now: () => Date): Steps<boolean | null> {
   const { importId: id, actor, mapping, collected, analysis: a, problems } = job;
   const source = `import:${id}` as const;
-  let blocked = false;
   let judgedAgain: boolean | null = null;
-  try {
-    db.transaction(
-      (tx) => {
-        if (a.accepted.length) {
-          const accepted = a.accepted;
-          a.accepted = [];
-          const out = measurements.bulkAdd(
-            tx,
-            actor,
-            source,
-            accepted.map((i) => entryOf(mapping, collected, i)),
-            // Read first in this transaction: the corrections below add audit entries.
-            { skipRefused: true, audit: 'per-source', judgedAt: a.judgedAt },
-          );
-          judgedAgain = out.judgedAgain;
-          // Refused now though accepted a moment ago: the coupon changed meanwhile.
-          const lateAt = new Map<number, ReadingProblem>();
-          const before = a.problems.length;
-          for (const p of out.refused) if (!lateAt.has(p.entry)) lateAt.set(p.entry, p);
-          accepted.forEach((i, j) => {
-            const p = lateAt.get(j);
-            if (p) refusal(a, mapping, collected, i, p);
-            else a.accepted.push(i);
-          });
-          if (a.problems.length > before) {
-            problems.push(...a.problems.slice(before));
-            problems.sort((x, y) => x.row - y.row);
-          }
-          a.counts.accepted = a.accepted.length;
-          if (job.choice === 'all-or-nothing' && a.counts.problems > 0) {
-            blocked = true;
-            throw new Conflict(blockedMessage(a.counts.problems));
-          }
-        }
-        const corrections: { oldId: number; newId: number }[] = [];
-        for (const i of a.corrections) {
-          const current = currentWeighingAt(tx, (collected.coupon[i] as CouponKey).id, mapping.stage);
-          if (!current) continue;
-          const reason = `${mapping.correctionReason ?? 'Corrected by an import'} (import ${id}, row ${collected.row[i]})`;
-          const out = measurements.correctWeighing(tx, actor, current.id, {
-            massG: collected.massG[i] as number,
-            measuredAt: collected.measuredAt[i] as string,
-            reason,
-          });
-          corrections.push({ oldId: current.id, newId: out.row.id });
-        }
-        a.previewRows = previewRowsOf(mapping, collected, a);
-        replaceProblems(tx, id, problems);
-        updateImport(tx, id, {
-          status: 'committed',
-          counts: a.counts,
-          previewRows: a.previewRows,
-          corrections,
-          committedAt: now().toISOString(),
-          committedBy: actor.id,
-          error: null,
-        });
-        writeAudit(tx, {
-          actorId: actor.id,
-          action: 'commit',
-          entity: 'import',
-          entityId: id,
-          after: {
-            stage: mapping.stage,
-            counts: a.counts,
-            choice: job.choice,
-            file: job.file.originalName,
-            sha256: job.file.sha256,
-            corrections: corrections.length,
-          },
-        });
-      },
-      { behavior: 'immediate' },
+  if (a.accepted.length) {
+    const accepted = a.accepted;
+    a.accepted = [];
+    const out = yield* measurements.bulkAddInSteps(
+      db,
+      actor,
+      source,
+      accepted.map((i) => entryOf(mapping, collected, i)),
+      // Read first in this transaction: the corrections below add audit entries.
+      { skipRefused: true, audit: 'per-source', judgedAt: a.judgedAt, slice: COMMIT_SLICE },
     );
-    return { status: 'committed', judgedAgain };
-  } catch (err) {
-    if (!blocked || !(err instanceof AppError)) throw err;
-    db.transaction((tx) => {
-      replaceProblems(tx, id, problems);
-      updateImport(tx, id, { status: 'previewed', counts: a.counts, previewRows: a.previewRows, error: blockedMessage(a.counts.problems) });
+    judgedAgain = out.judgedAgain;
+    // Refused now though accepted a moment ago: the coupon changed meanwhile.
+    const lateAt = new Map<number, ReadingProblem>();
+    const before = a.problems.length;
+    for (const p of out.refused) if (!lateAt.has(p.entry)) lateAt.set(p.entry, p);
+    accepted.forEach((i, j) => {
+      const p = lateAt.get(j);
+      if (p) refusal(a, mapping, collected, i, p);
+      else a.accepted.push(i);
     });
-    return { status: 'blocked', judgedAgain };
+    if (a.problems.length > before) {
+      problems.push(...a.problems.slice(before));
+      problems.sort((x, y) => x.row - y.row);
+    }
+    a.counts.accepted = a.accepted.length;
+    if (job.choice === 'all-or-nothing' && a.counts.problems > 0) throw new Blocked();
   }
+  const corrections: { oldId: number; newId: number }[] = [];
+  for (const i of a.corrections) {
+    const current = currentWeighingAt(db, (collected.coupon[i] as CouponKey).id, mapping.stage);
+    if (!current) continue;
+    const reason = `${mapping.correctionReason ?? 'Corrected by an import'} (import ${id}, row ${collected.row[i]})`;
+    const out = measurements.correctWeighing(db, actor, current.id, {
+      massG: collected.massG[i] as number,
+      measuredAt: collected.measuredAt[i] as string,
+      reason,
+    });
+    corrections.push({ oldId: current.id, newId: out.row.id });
+    if (corrections.length % COMMIT_SLICE === 0) yield 1;
+  }
+  a.previewRows = previewRowsOf(mapping, collected, a);
+  replaceProblems(db, id, problems);
+  updateImport(db, id, {
+    status: 'committed',
+    counts: a.counts,
+    previewRows: a.previewRows,
+    corrections,
+    committedAt: now().toISOString(),
+    committedBy: actor.id,
+    error: null,
+  });
+  writeAudit(db, {
+    actorId: actor.id,
+    action: 'commit',
+    entity: 'import',
+    entityId: id,
+    after: {
+      stage: mapping.stage,
+      counts: a.counts,
+      choice: job.choice,
+      file: job.file.originalName,
+      sha256: job.file.sha256,
+      corrections: corrections.length,
+    },
+  });
+  return judgedAgain;
 }
+
+const turn = () => new Promise<void>((resolve) => setImmediate(resolve));
+const pause = (ms: number) => new Promise<void>((resolve) => setTimeout(resolve, ms));
 
 /**
- * The job as posted to the worker: the per-reading columns as typed arrays and JSON text rather than
- * 100,000 objects and 200,000 strings, because posting copies the data on the main thread (a structured
- * clone of the plain job held it ~0.1 s; this one takes a few ms plus two JSON.stringify calls).
+ * Writes the commit in ONE transaction on a connection of its own (decision 0017), held open across turns
+ * of the event loop: the steps above run a slice at a time, and between slices this thread answers other
+ * requests. Readers on the app's connection see the data before the commit until it ends (WAL); a write
+ * arriving meanwhile finds the write lock taken and is told to try again in a moment (503), because the
+ * app's connection never waits for a lock (a wait would sleep this thread). The lock is taken at the start
+ * (`BEGIN IMMEDIATE`); while another connection holds it, the commit waits its turn without sleeping the
+ * thread. On any error the transaction is rolled back: all accepted rows or none. Under all-or-nothing with
+ * a reading refused now, nothing is written and the import goes back to `previewed`, saying why.
  */
-export interface PackedCommitJob extends Omit<CommitJob, 'collected' | 'analysis'> {
-  collected: Omit<Collected, 'row' | 'coupon' | 'massG' | 'measuredAt' | 'replacedBy'> & {
-    row: Int32Array;
-    couponId: Float64Array;
-    role: Uint8Array;
-    tags: string;
-    massG: Float64Array;
-    measuredAt: string;
-  };
-  analysis: Omit<Analysis, 'accepted' | 'corrections'> & { accepted: Int32Array; corrections: Int32Array };
-}
-
-export function packJob(job: CommitJob): PackedCommitJob {
-  const c = job.collected;
-  const n = c.row.length;
-  const couponId = new Float64Array(n);
-  const role = new Uint8Array(n);
-  const tags = new Array<string>(n);
-  for (let i = 0; i < n; i++) {
-    const k = c.coupon[i] as CouponKey;
-    couponId[i] = k.id;
-    role[i] = k.role === 'control' ? 1 : 0;
-    tags[i] = k.tag;
+export async function writeCommit(
+  file: string,
+  measurements: Measurements,
+  job: CommitJob,
+  now: () => Date,
+  onProgress: (f: number) => void = () => {},
+): Promise<CommitOutcome> {
+  const sqlite = openSecondConnection(file);
+  try {
+    const db = drizzle(sqlite, { schema });
+    for (const until = Date.now() + LOCK_WAIT_MS; ;) {
+      try {
+        sqlite.exec('BEGIN IMMEDIATE');
+        break;
+      } catch (err) {
+        if (!databaseBusy(err) || Date.now() > until) throw err;
+        await pause(50);
+      }
+    }
+    let judgedAgain: boolean | null = null;
+    try {
+      const steps = commitSteps(db, measurements, job, now);
+      for (let r = steps.next(); ; r = steps.next()) {
+        if (r.done) {
+          judgedAgain = r.value;
+          break;
+        }
+        onProgress(r.value);
+        await turn();
+      }
+      sqlite.exec('COMMIT');
+    } catch (err) {
+      if (sqlite.inTransaction) sqlite.exec('ROLLBACK');
+      if (!(err instanceof Blocked)) throw err;
+      const { importId: id, analysis: a, problems } = job;
+      db.transaction((tx) => {
+        replaceProblems(tx, id, problems);
+        updateImport(tx, id, { status: 'previewed', counts: a.counts, previewRows: a.previewRows, error: blockedMessage(a.counts.problems) });
+      });
+      return { status: 'blocked', judgedAgain };
+    }
+    return { status: 'committed', judgedAgain };
+  } finally {
+    sqlite.close();
   }
-  return {
-    ...job,
-    collected: {
-      dataRows: c.dataRows,
-      massColumn: c.massColumn,
-      problems: c.problems,
-      skippedRows: c.skippedRows,
-      problemRows: c.problemRows,
-      row: Int32Array.from(c.row),
-      couponId,
-      role,
-      tags: JSON.stringify(tags),
-      massG: Float64Array.from(c.massG),
-      measuredAt: JSON.stringify(c.measuredAt),
-    },
-    analysis: { ...job.analysis, accepted: Int32Array.from(job.analysis.accepted), corrections: Int32Array.from(job.analysis.corrections) },
-  };
-}
-
-export function unpackJob(p: PackedCommitJob): CommitJob {
-  const c = p.collected;
-  const tags = JSON.parse(c.tags) as string[];
-  const coupon: CouponKey[] = Array.from(c.couponId, (id, i) => ({ id, tag: tags[i] as string, role: c.role[i] === 1 ? 'control' : 'treated' }));
-  return {
-    ...p,
-    collected: {
-      dataRows: c.dataRows,
-      massColumn: c.massColumn,
-      problems: c.problems,
-      skippedRows: c.skippedRows,
-      problemRows: c.problemRows,
-      row: Array.from(c.row),
-      coupon,
-      massG: Array.from(c.massG),
-      measuredAt: JSON.parse(c.measuredAt) as string[],
-      replacedBy: [],
-    },
-    analysis: { ...p.analysis, accepted: Array.from(p.analysis.accepted), corrections: Array.from(p.analysis.corrections) },
-  };
 }

@@ -111,8 +111,8 @@ describe(`import of ${N.toLocaleString('en')} readings`, () => {
         cpu0 = process.cpuUsage();
         return (u.user + u.system) / 1000;
       };
-      // The main thread's longest stall and busy share per phase (the commit's transaction runs in a worker
-      // thread, whose CPU process.cpuUsage counts but which does not hold this thread's event loop).
+      // The main thread's longest stall and busy share per phase (the commit's transaction runs here a slice
+      // at a time, so the busy share is high while the stalls stay short).
       let elu0 = perf.eventLoopUtilization();
       const phase = (name: string) => {
         times[`${name}Stall`] = loop.max / 1e6;

@@ -1,6 +1,5 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import { Worker } from 'node:worker_threads';
 import type { Request, Response } from 'express';
 import type { FeatureDeps } from '../../deps';
 import { writeAudit } from '../../db/audit';
@@ -49,26 +48,10 @@ import {
 } from './imports.repo';
 import { createReceiver } from './upload';
 import { collectReadings, finishProblems as finishProblemsOf } from './collect';
-import {
-  blockedMessage,
-  entryOf,
-  MAX_PROBLEMS,
-  packJob,
-  previewRowsOf,
-  refusal,
-  type Analysis,
-  type Collected,
-  type CommitJob,
-  type CommitOutcome,
-} from './commit';
-import type { CommitWorkerInput, CommitWorkerOutput } from './commit-worker';
+import { blockedMessage, entryOf, MAX_PROBLEMS, previewRowsOf, refusal, writeCommit, type Analysis, type Collected, type CommitJob } from './commit';
 
 /** Readings judged by the measurements module per step; the event loop gets a turn between steps. */
 const JUDGE_CHUNK = 5_000;
-/** Files from this size on get a commit worker started during their preview (below it, starting one costs more than it saves). */
-const WARM_WORKER_BYTES = 256 * 1024;
-/** How long a worker started ahead waits for its commit before it is ended (it holds tens of MB). */
-const WARM_WORKER_MS = 60_000;
 /** How long a preview's collected readings are kept for its commit (the file cannot change; coupons can). */
 const COLLECTED_TTL_MS = 15 * 60 * 1000;
 
@@ -344,8 +327,6 @@ export function createImportsService(deps: FeatureDeps) {
         await work(progress);
       } catch (err) {
         keptCache.delete(id);
-        warm.get(id)?.dispose();
-        warm.delete(id);
         const message = err instanceof AppError ? err.message : 'Something went wrong while processing the file; nothing was imported';
         if (!(err instanceof AppError)) deps.logger.error({ err, importId: id }, 'import job failed');
         updateImport(db, id, { status: 'failed', error: message });
@@ -355,84 +336,10 @@ export function createImportsService(deps: FeatureDeps) {
     })();
   }
 
-  /**
-   * Starts a commit worker thread (decision 0017): the transaction of 100,000 readings costs seconds of
-   * CPU, which would otherwise hold this thread, and with it every other request. Loading the worker's
-   * modules takes most of a second, so a big file's preview starts one for the commit that usually follows.
-   * `run` posts the job and resolves with the outcome, or rejects with the worker's error (an AppError
-   * kept as one); an unused worker is ended by `dispose`, or after WARM_WORKER_MS.
-   */
-  function bootWorker() {
-    const worker = new Worker(new URL('./worker-boot.mjs', import.meta.url), {
-      workerData: { entry: new URL('./commit-worker.ts', import.meta.url).href },
-    });
-    let waiting: { resolve: (v: CommitOutcome) => void; reject: (e: unknown) => void } | null = null;
-    let broken: Error | null = null;
-    const idle = setTimeout(() => void worker.terminate(), WARM_WORKER_MS);
-    idle.unref();
-    // An idle worker must not keep the process alive (a test's end, a shutdown).
-    worker.unref();
-    worker.on('message', (out: CommitWorkerOutput | 'ready') => {
-      if (out === 'ready' || !waiting) return;
-      const w = waiting;
-      waiting = null;
-      if ('ok' in out) return w.resolve(out.ok);
-      const e = out.error;
-      if (e.app) return w.reject(new AppError(e.app.code, e.message, e.app.fieldErrors));
-      w.reject(Object.assign(new Error(e.message), { code: e.sqliteCode ?? undefined, stack: e.stack }));
-    });
-    worker.once('error', (err) => {
-      broken = err;
-      waiting?.reject(err);
-      waiting = null;
-    });
-    worker.once('exit', (code) => {
-      broken ??= new Error(`The commit's worker stopped (exit code ${code}) before it answered`);
-      waiting?.reject(broken);
-      waiting = null;
-    });
-    return {
-      /** False once it ended (idle too long, or failed to start): the commit then starts another. */
-      usable: () => broken === null,
-      run(job: CommitJob): Promise<CommitOutcome> {
-        clearTimeout(idle);
-        const input: CommitWorkerInput = { file: deps.database.sqlite.name, job: packJob(job), nowOffsetMs: deps.now().getTime() - Date.now() };
-        return new Promise((resolve, reject) => {
-          waiting = { resolve, reject };
-          const c = input.job.collected;
-          const a = input.job.analysis;
-          // The typed arrays move to the worker rather than being copied.
-          const buffers = [c.row, c.couponId, c.role, c.massG, a.accepted, a.corrections].map((t) => t.buffer as ArrayBuffer);
-          worker.postMessage(input, buffers);
-        });
-      },
-      dispose: () => {
-        clearTimeout(idle);
-        void worker.terminate();
-      },
-    };
-  }
-  type CommitWorker = ReturnType<typeof bootWorker>;
-  /** The worker started ahead for an import's commit: one at a time, like the kept preview. */
-  const warm = new Map<number, CommitWorker>();
-  function warmUp(id: number) {
-    for (const w of warm.values()) w.dispose();
-    warm.clear();
-    warm.set(id, bootWorker());
-  }
-  function takeWorker(id: number): CommitWorker {
-    const w = warm.get(id);
-    warm.delete(id);
-    if (w?.usable()) return w;
-    w?.dispose();
-    return bootWorker();
-  }
-
   /** Starts the preview job; the client polls the import until its status leaves `previewing`. */
   function preview(id: number, mapping: ImportMapping): ImportDetail {
     const r = requireImport(id);
     beginJob(r, 'previewing', mapping);
-    if (r.bytes >= WARM_WORKER_BYTES) warmUp(id);
     runJob(id, async (progress) => {
       const collected = await collect(r, mapping, progress);
       const a = await judge(mapping, collected, (f) => progress(0.8 + f * 0.15));
@@ -447,7 +354,7 @@ export function createImportsService(deps: FeatureDeps) {
   }
 
   /**
-   * What the commit's worker writes: the preview's readings and judgement when kept, else the file read and
+   * What the commit writes: the preview's readings and judgement when kept, else the file read and
    * judged again. Null when all-or-nothing was chosen and problems remain (the import goes back to `previewed`).
    */
   async function commitJob(actor: User, r: ImportRow, input: CommitImportInput, kept: Kept | null, progress: (f: number) => void): Promise<CommitJob | null> {
@@ -478,9 +385,10 @@ export function createImportsService(deps: FeatureDeps) {
   /**
    * Starts the commit job. The readings are collected and judged in chunks while other requests are served
    * (or taken from the preview with the same mapping, if it was the last one and is recent); then ONE
-   * transaction, written by a worker thread (`writeCommit`), writes every accepted reading through the
-   * measurements module's bulk path, which judges them again on exactly the state it writes to (someone may
-   * have weighed a coupon meanwhile), or, when the user chose all-or-nothing and a problem remains, writes
+   * transaction on a second connection (`writeCommit`, decision 0017), held open across turns of the event
+   * loop, writes every accepted reading through the measurements module's bulk path, which judges them
+   * again on exactly the state it writes to when anything changed since the preview (someone may have
+   * weighed a coupon meanwhile), or, when the user chose all-or-nothing and a problem remains, writes
    * nothing at all.
    */
   function commit(actor: User, id: number, input: CommitImportInput): ImportDetail {
@@ -496,14 +404,12 @@ export function createImportsService(deps: FeatureDeps) {
     beginJob(r, 'committing', mapping);
     let kept = takeKept(id, mapping);
     runJob(id, async (progress) => {
-      let job: CommitJob | null = await commitJob(actor, r, input, kept, progress);
+      // Reading and judging the file again (no kept preview) is about half the work; the write the rest.
+      const share = kept ? 0 : 0.5;
+      const job: CommitJob | null = await commitJob(actor, r, input, kept, (f) => progress(f * share));
       kept = null;
       if (!job) return;
-      progress(0.9);
-      const outcome = takeWorker(id).run(job);
-      // Posted: the worker has its own copy. Dropping ours lets this thread's heap shrink while the worker writes.
-      job = null;
-      const out = await outcome;
+      const out = await writeCommit(deps.database.sqlite.name, measurements, job, deps.now, (f) => progress(share + f * (1 - share)));
       deps.logger.info({ importId: id, status: out.status, judgedAgain: out.judgedAgain }, 'import commit written');
     });
     return detail(id);

@@ -6,8 +6,9 @@ import { and, eq, isNull } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { startHarness, type Harness, type HarnessOptions } from '../../testing/harness';
 import { drizzle } from 'drizzle-orm/better-sqlite3';
-import { openWorkerConnection, schema } from '../../db/client';
+import { openSecondConnection, schema } from '../../db/client';
 import { createMeasurements } from '../../measurements/measurements';
+import { refreshResults } from '../../measurements/results';
 import { auditLog } from '../../db/schema/admin';
 import { coupons, weighings } from '../../db/schema/coupons';
 import { species } from '../../db/schema/reference';
@@ -87,7 +88,7 @@ async function committed(agent: Agent, d: ImportDetail, over: Partial<ImportMapp
   return settle(agent, d.id);
 }
 
-/** Whether the commit of this import judged its readings again, from the app's log (written once the worker answered). */
+/** Whether the commit of this import judged its readings again, from the app's log (written once the commit ended). */
 async function judgedAgainIn(lines: string[], id: number): Promise<boolean | null> {
   const entry = () =>
     lines
@@ -226,10 +227,10 @@ describe('imports: upload, detect, preview, commit, undo', () => {
     expect(currentOf(s.h, s.ids['FX-01']!).find((x) => x.stage === 'wet-test')!.massG).toBeCloseTo(0.4355 * 28.349523125, 9);
   });
 
-  it('commits a big file through the worker started during its preview', async () => {
+  it('commits a big file a slice at a time, in one transaction', async () => {
     const sp = s.h.database.db.select().from(species).limit(1).get()!;
     for (const tag of ['WW-01', 'WW-02']) expect((await s.tech.post('/api/coupons').send({ tag, speciesId: sp.id, role: 'treated' })).status).toBe(201);
-    // 40,000 rows (over 256 KB, so the preview starts the commit's worker), each coupon weighed again and again.
+    // 40,000 rows, each coupon weighed again and again.
     const lines = ['tag,mass', ...Array.from({ length: 40_000 }, (_, i) => `WW-0${(i % 2) + 1},${(10 + i / 100_000).toFixed(5)}`)];
     const d = (await upload(s.tech, 'big-repeats.csv', Buffer.from(`${lines.join('\r\n')}\r\n`))).body as ImportDetail;
     expect(d.bytes).toBeGreaterThan(256 * 1024);
@@ -246,8 +247,8 @@ describe('imports: upload, detect, preview, commit, undo', () => {
     const d = (await upload(s.tech, 'two-date-columns-day-first.csv')).body as ImportDetail;
     await previewed(s.tech, d, { stage: 'soaked' });
     const mapping = mappingFor(d, { stage: 'soaked' });
-    // A second connection holding the write lock, as the commit's worker thread does while it writes.
-    const other = openWorkerConnection(s.h.database.sqlite.name);
+    // A second connection holding the write lock, as an import's commit does while it writes.
+    const other = openSecondConnection(s.h.database.sqlite.name);
     try {
       other.exec('BEGIN IMMEDIATE');
       expect((await s.tech.get(`/api/coupons/${s.ids['FX-04']}`)).status).toBe(200);
@@ -258,12 +259,22 @@ describe('imports: upload, detect, preview, commit, undo', () => {
       expect((await s.tech.post(`/api/imports/${d.id}/commit`).send({ mapping })).status).toBe(503);
       other.exec('COMMIT');
 
-      // The commit's worker starts, finds the lock taken (the other connection took it again while the
-      // worker was starting, or waits for the worker to finish), waits its turn instead of failing.
+      // The commit starts; the other connection takes the lock again at once. Whichever gets it first, the
+      // other waits its turn: the commit retries without sleeping the thread, and this connection (whose
+      // busy timeout is 0) finds it taken while the commit writes. (A file this small is usually written
+      // before the answer arrives; then the lock is simply free.)
       expect((await s.tech.post(`/api/imports/${d.id}/commit`).send({ mapping })).status).toBe(202);
-      other.exec('BEGIN IMMEDIATE');
-      await new Promise((r) => setTimeout(r, 300));
-      other.exec('COMMIT');
+      let held = false;
+      try {
+        other.exec('BEGIN IMMEDIATE');
+        held = true;
+      } catch (e) {
+        expect((e as { code?: string }).code).toMatch(/^SQLITE_BUSY/);
+      }
+      if (held) {
+        await new Promise((r) => setTimeout(r, 300));
+        other.exec('COMMIT');
+      }
     } finally {
       if (other.inTransaction) other.exec('ROLLBACK');
       other.close();
@@ -355,8 +366,8 @@ describe('imports: every problem class explained by row and column', () => {
     const d = (await upload(s.tech, 'other.csv', Buffer.from('tag,mass\r\nOC-01,10.5\r\nOC-02,21\r\n'))).body as ImportDetail;
     const { done } = await previewed(s.tech, d, { stage: 'soaked' });
     expect(done.counts).toMatchObject({ rows: 2, accepted: 2, problems: 0 });
-    // A second connection (as the commit's worker uses) corrects OC-02's dry mass above 21 g meanwhile.
-    const other = openWorkerConnection(s.h.database.sqlite.name);
+    // A second connection (as an import's commit uses) corrects OC-02's dry mass above 21 g meanwhile.
+    const other = openSecondConnection(s.h.database.sqlite.name);
     try {
       const dryId = currentOf(s.h, ids[1]!)[0]!.id;
       const odb = drizzle(other, { schema });
@@ -508,6 +519,55 @@ describe('imports: files refused with a clear answer, nothing left behind', () =
     expect(currentOf(s.h, s.ids['FX-01']!)).toEqual([]);
     const again = await committed(s.tech, d);
     expect(again.status).toBe('committed');
+  });
+
+  it('leaves nothing when the database fails after several slices of a big commit, and keeps answering meanwhile', async () => {
+    // 6,000 new coupons through the app's own path for many at once (their results rows included).
+    const sp = s.h.database.db.select().from(species).limit(1).get()!;
+    const tags = Array.from({ length: 6_000 }, (_, i) => `SL-${String(i).padStart(4, '0')}`);
+    const ins = s.h.database.sqlite.prepare("insert into coupons (tag, species_id, role) values (?, ?, 'treated')");
+    s.h.database.db.transaction((tx) =>
+      refreshResults(
+        tx,
+        tags.map((t) => Number(ins.run(t, sp.id).lastInsertRowid)),
+      ),
+    );
+    const lines = ['tag,mass', ...tags.map((t, i) => `${t},${(12 + i / 10_000).toFixed(4)}`)];
+    const d = (await upload(s.tech, 'slices.csv', Buffer.from(`${lines.join('\n')}\n`))).body as ImportDetail;
+    const { done } = await previewed(s.tech, d);
+    expect(done.counts).toMatchObject({ rows: 6_000, accepted: 6_000, problems: 0 });
+    // The last row's insert fails inside SQLite, after two slices of 2,000 were written and the event loop had turns.
+    s.h.database.sqlite.exec("create trigger fail_late before insert on weighings when new.mass_g = 12.5999 begin select raise(abort, 'disk trouble'); end");
+    const healthDuring: number[] = [];
+    try {
+      const started = await s.tech.post(`/api/imports/${d.id}/commit`).send({ mapping: mappingFor(d) });
+      expect(started.status).toBe(202);
+      for (;;) {
+        const r = await s.tech.get(`/api/imports/${d.id}`);
+        healthDuring.push((await s.tech.get('/api/health')).status);
+        if (r.body.status !== 'committing') {
+          expect(r.body.status).toBe('failed');
+          expect(r.body.error).toMatch(/nothing was imported/);
+          break;
+        }
+      }
+    } finally {
+      s.h.database.sqlite.exec('drop trigger fail_late');
+    }
+    expect(healthDuring.every((x) => x === 200)).toBe(true);
+    expect(s.h.database.db.select().from(weighings).where(eq(weighings.importId, d.id)).all()).toEqual([]);
+    const stored = s.h.database.sqlite.prepare("select count(*) as n from coupon_results where tag like 'SL-%' and dry_mass_g is not null").get() as {
+      n: number;
+    };
+    expect(stored.n).toBe(0);
+    // The same file again commits whole: 6,000 weighings and their results rows.
+    const again = await committed(s.tech, d);
+    expect(again.status, again.error ?? '').toBe('committed');
+    expect(s.h.database.db.select().from(weighings).where(eq(weighings.importId, d.id)).all()).toHaveLength(6_000);
+    const after = s.h.database.sqlite.prepare("select count(*) as n from coupon_results where tag like 'SL-%' and dry_mass_g is not null").get() as {
+      n: number;
+    };
+    expect(after.n).toBe(6_000);
   });
 });
 
