@@ -12,7 +12,9 @@ import { addCoupons, scaleFile } from './imports-server';
 // The reading half of an import's preview, alone and repeatable: the generated scale file of
 // bench/imports-server.ts read through the mapping (collectReadings: stream, decode, parse, read each row,
 // match its tag) against a database of as many coupons, in this process, without HTTP or the judgement.
-// CPU time by process.cpuUsage() (holds better than wall time on a shared machine), median of RUNS runs.
+// CPU time by process.cpuUsage() (holds better than wall time on a shared machine), median of RUNS runs, with
+// no forced garbage collection between them (a forced full collection shrinks the young generation, and the
+// next run then pays for more, smaller collections than a server would).
 // Run: `npx tsx bench/import-collect.ts [rows]` (with `node --expose-gc --import tsx` it also reports the
 // heap the collected readings hold). Writes bench/import-collect-latest.txt.
 
@@ -46,7 +48,6 @@ export async function measureCollect(n: number): Promise<string> {
       const cpu: number[] = [];
       const wall: number[] = [];
       for (let i = 0; i < RUNS; i++) {
-        gc?.();
         const t0 = performance.now();
         const c0 = process.cpuUsage();
         await work();

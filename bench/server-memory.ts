@@ -1,4 +1,4 @@
-import { execFileSync, spawn } from 'node:child_process';
+import { execFileSync, spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
@@ -11,7 +11,8 @@ import { addCoupons, scaleFile } from './imports-server';
 
 // The server's resident memory, started as `npm start` starts it, in a child process on a temp DATA_DIR
 // holding the demo and N coupons (100,000 by default): idle after start, after a round of the screens' reads,
-// and at its highest during the upload and the preview of an N-row scale file. Beside each figure, what it
+// and at its highest during the upload and the preview of an N-row scale file; then its first start on an
+// empty DATA_DIR (the demo written). Beside each figure, what it
 // is made of: the kernel's split (/proc/<pid>/status and smaps: anonymous memory, malloc's heap, the node
 // binary and the shared libraries mapped) and V8's (process.memoryUsage and the heap spaces, read by
 // bench/memory-probe.mjs inside the server on SIGUSR2).
@@ -21,7 +22,7 @@ import { addCoupons, scaleFile } from './imports-server';
 // Ways to start the server: `bundle` (what `npm start` runs: dist/server/index.mjs, built first by
 // `npm run build:server`) and `tsx` (the TypeScript sources through tsx's loader, as `npm run dev` runs them).
 // Default: both, so their difference is measured in the same run. MEM_SNAPSHOT_DIR=<folder> also writes a heap
-// snapshot there at each reading (<way>-1: idle, -2: after the reads, -3: after the preview). Writes bench/server-memory-results.md.
+// snapshot there at each reading (<way>-1: idle, -2: at rest, -3: after the reads, -4: after the preview). Writes bench/server-memory-results.md.
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const RESULTS = path.join(root, 'bench/server-memory-results.md');
@@ -31,6 +32,8 @@ const WAYS: Record<string, string[]> = {
   tsx: ['--import', 'tsx', 'server/index.ts'],
 };
 
+/** When the idle server is read a second time: past V8's memory reducer. */
+const REST_MS = 25_000;
 const mb = (bytes: number) => (bytes / 1024 / 1024).toFixed(1);
 
 interface Sample {
@@ -95,11 +98,8 @@ function prepare(n: number): string {
   return dir;
 }
 
-async function measure(way: string, base: string, n: number, port: number): Promise<string[]> {
-  const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), `lumenbook-memory-${way}-`));
-  fs.cpSync(base, dataDir, { recursive: true });
-  const probeFile = path.join(dataDir, 'probe.json');
-  const snapshotDir = process.env.MEM_SNAPSHOT_DIR;
+/** Starts the server one way on dataDir, resolving once it says it serves. */
+async function start(way: string, dataDir: string, port: number, probeFile: string, snapshot?: string): Promise<ChildProcess> {
   const child = spawn(process.execPath, ['--import', PROBE, ...WAYS[way]!], {
     cwd: root,
     env: {
@@ -111,25 +111,64 @@ async function measure(way: string, base: string, n: number, port: number): Prom
       DEMO_DATA: 'true',
       LOG_LEVEL: 'warn',
       MEM_PROBE_OUT: probeFile,
-      ...(snapshotDir ? { MEM_PROBE_SNAPSHOT: path.resolve(snapshotDir, way) } : {}),
+      ...(snapshot ? { MEM_PROBE_SNAPSHOT: snapshot } : {}),
     },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
-  const pid = child.pid!;
-  const lines = [`${way} (node ${WAYS[way]!.join(' ')}):`];
-  try {
-    await new Promise<void>((resolve, reject) => {
-      let out = '';
-      child.stdout!.on('data', (d: Buffer) => {
-        out += d.toString();
-        if (out.includes('Lumenbook is serving')) resolve();
-      });
-      child.stderr!.on('data', (d: Buffer) => (out += d.toString()));
-      child.once('exit', (code) => reject(new Error(`the server exited with ${code}: ${out}`)));
+  await new Promise<void>((resolve, reject) => {
+    let out = '';
+    child.stdout!.on('data', (d: Buffer) => {
+      out += d.toString();
+      if (out.includes('Lumenbook is serving')) resolve();
     });
-    // Idle: two seconds after it said it serves, nobody asking.
+    child.stderr!.on('data', (d: Buffer) => (out += d.toString()));
+    child.once('exit', (code) => reject(new Error(`the server exited with ${code}: ${out}`)));
+  });
+  return child;
+}
+
+async function stop(child: ChildProcess): Promise<void> {
+  if (child.exitCode !== null) return;
+  const exited = new Promise((r) => child.once('exit', r));
+  child.kill('SIGTERM');
+  await exited;
+}
+
+/** A first start on an empty DATA_DIR: the demo is written (in a worker thread) before the server serves. */
+async function firstStart(way: string, port: number): Promise<string[]> {
+  const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), `lumenbook-memory-first-${way}-`));
+  const probeFile = path.join(dataDir, 'probe.json');
+  try {
+    const child = await start(way, dataDir, port, probeFile);
+    try {
+      await new Promise((r) => setTimeout(r, 2000));
+      const s = await sample(child.pid!, probeFile);
+      const hwm = Number(/VmHWM:\s+(\d+)/.exec(fs.readFileSync(`/proc/${child.pid!}/status`, 'utf8'))![1]) * 1024;
+      return [`${way}, first start on an empty DATA_DIR (the demo written):`, ...describe('idle after start', s), `  high-water mark: ${mb(hwm)} MB`];
+    } finally {
+      await stop(child);
+    }
+  } finally {
+    fs.rmSync(dataDir, { recursive: true, force: true });
+  }
+}
+
+async function measure(way: string, base: string, n: number, port: number): Promise<string[]> {
+  const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), `lumenbook-memory-${way}-`));
+  fs.cpSync(base, dataDir, { recursive: true });
+  const probeFile = path.join(dataDir, 'probe.json');
+  const snapshotDir = process.env.MEM_SNAPSHOT_DIR;
+  const lines = [`${way} (node ${WAYS[way]!.join(' ')}), the demo and ${n} coupons:`];
+  let child: ChildProcess | null = null;
+  try {
+    child = await start(way, dataDir, port, probeFile, snapshotDir ? path.resolve(snapshotDir, way) : undefined);
+    const pid = child.pid!;
+    // Idle: two seconds after it said it serves, nobody asking; and at rest, once V8's memory reducer has run
+    // (it shrinks the young generation some 10–20 s after the last collection when nothing is allocated).
     await new Promise((r) => setTimeout(r, 2000));
-    lines.push(...describe('idle after start', await sample(pid, probeFile)));
+    lines.push(...describe('idle, 2 s after start', await sample(pid, probeFile)));
+    await new Promise((r) => setTimeout(r, REST_MS - 2000));
+    lines.push(...describe(`at rest, ${REST_MS / 1000} s after start`, await sample(pid, probeFile)));
 
     const base = `http://127.0.0.1:${port}`;
     const login = await fetch(`${base}/api/auth/login`, {
@@ -217,11 +256,7 @@ async function measure(way: string, base: string, n: number, port: number): Prom
     lines.push(...describe('two seconds after the preview', await sample(pid, probeFile)));
     lines.push(`  high-water mark: ${mb(Number(/VmHWM:\s+(\d+)/.exec(fs.readFileSync(`/proc/${pid}/status`, 'utf8'))![1]) * 1024)} MB`);
   } finally {
-    if (child.exitCode === null) {
-      const exited = new Promise((r) => child.once('exit', r));
-      child.kill('SIGTERM');
-      await exited;
-    }
+    if (child) await stop(child);
     fs.rmSync(dataDir, { recursive: true, force: true });
   }
   return lines;
@@ -240,10 +275,20 @@ if (process.argv[1] && path.resolve(process.argv[1]) === fileURLToPath(import.me
       .map((l) => l.toFixed(2))
       .join(', ')} (${os.cpus().length} cores, shared)`,
     '',
+    'Before decision 0019 (every library loaded at start; same bench, 2026-12-02, load average ~2 on 2 shared cores): tsx idle 211.5 MB',
+    '(V8 heap 88 MB reserved, 46 used), after the reads 311.5 MB, highest during the preview 483.9 MB; bundle idle 157.7 MB. First start',
+    'on an empty DATA_DIR (the demo seeded in the server itself, jsdom and Plot held from then on): bundle idle 184 MB.',
+    'A heap snapshot (MEM_SNAPSHOT_DIR) inflates every figure read after it (-1: idle, -2: at rest, -3: after the reads, -4: after the preview).',
+    '',
   ];
   try {
     for (const way of ways) {
       const got = await measure(way, base, n, port);
+      console.log(got.join('\n'));
+      lines.push(...got, '');
+    }
+    for (const way of ways) {
+      const got = await firstStart(way, port);
       console.log(got.join('\n'));
       lines.push(...got, '');
     }

@@ -95,8 +95,11 @@ export function decode(bytes: Uint8Array, encoding: ImportFormat['encoding']): s
   return iconv.decode(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength), encoding, { stripBOM: true });
 }
 
-/** Bytes read from the file per step of streamRows: about 6,000 rows of a scale's log. */
-const CHUNK_BYTES = 256 * 1024;
+/**
+ * Bytes read from the file per step of streamRows: about 1,500 rows of a scale's log. 64 KB measured a little
+ * cheaper than 256 KB or 1 MB (fewer parsed rows alive at each young-generation collection).
+ */
+const CHUNK_BYTES = 64 * 1024;
 
 /**
  * Streams a stored file through decoding, the line guard and papaparse, handing each non-empty record
