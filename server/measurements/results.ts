@@ -1,5 +1,4 @@
 import { getTableColumns, sql } from 'drizzle-orm';
-import type Database from 'better-sqlite3';
 import type { Db } from '../db/client';
 import { getTableConfig } from 'drizzle-orm/sqlite-core';
 import { couponResults, type CouponResultValues } from '../db/schema/results';
@@ -131,7 +130,7 @@ const KEYS_SQL = `
   left join resin_lots rl on rl.id = r.resin_lot_id
   left join trial_conditions tc on tc.id = c.condition_id
   left join resins rs on rs.id = coalesce(rl.resin_id, tc.resin_id)`;
-const WEIGHINGS_SQL = `select w.coupon_id as couponId, w.stage, w.mass_g as massG, w.measured_at as measuredAt from weighings w`;
+const WEIGHINGS_SQL = `select w.coupon_id as couponId, w.stage, w.mass_g as massG, w.measured_at as measuredAt, w.id from weighings w`;
 const CHECKS_SQL = `
   select k.coupon_id as couponId, k.kind, k.stage, k.measured_at as measuredAt, k.length_mm as lengthMm, k.width_mm as widthMm,
          k.thickness_mm as thicknessMm, k.volume_cm3 as volumeCm3, k.hardness_value as hardnessValue, k.hardness_scale as hardnessScale,
@@ -142,7 +141,7 @@ const IDS = `(select value from json_each(?))`;
 // The reads answer rows as arrays (preparedRaw), in the column order of the SQL above; each row becomes a
 // JS object of one fixed shape here, which costs far less than better-sqlite3 naming every column.
 type KeysRow = [number, string, number | null, number | null, number | null, number, string, string | null, number | null, number | null, number | null];
-type WeighingRow = [number, string, number, string];
+type WeighingRow = [number, string, number, string, number];
 type CheckRow = [number, string, string, string, number | null, number | null, number | null, number | null, number | null, string | null, number | null];
 
 const keysOf = (r: KeysRow): ResultKeys => ({
@@ -317,6 +316,11 @@ function writeRows(tx: Db, keys: KeysRow[], ws: Map<number, WeighingReading[]>, 
  */
 export interface RefreshOptions {
   weighingStages?: readonly WeighingStage[];
+  /**
+   * With weighingStages: the change only ADDED weighings, and every current weighing with an id from this
+   * one on is one of them (ids only grow), so what the rows held can be computed rather than read.
+   */
+  newWeighingsFrom?: number;
 }
 
 /**
@@ -337,9 +341,10 @@ export function* refreshResultsInSteps(tx: Db, couponIds: readonly number[], opt
   if (couponIds.length === 0) return 0;
   const unique = couponIds.length === 1 ? couponIds : [...new Set(couponIds)];
   const stages = options.weighingStages ?? null;
+  const newFrom = options.newWeighingsFrom ?? null;
   let n = 0;
   for (let from = 0; from < unique.length; from += slice) {
-    n += refreshSome(tx, from === 0 && unique.length <= slice ? unique : unique.slice(from, from + slice), stages);
+    n += refreshSome(tx, from === 0 && unique.length <= slice ? unique : unique.slice(from, from + slice), stages, newFrom);
     if (from + slice < unique.length) yield (from + slice) / unique.length;
   }
   return n;
@@ -348,49 +353,79 @@ export function* refreshResultsInSteps(tx: Db, couponIds: readonly number[], opt
 /** Coupons whose results are recomputed per slice of a large refresh. */
 const REFRESH_CHUNK = 10_000;
 
-function refreshSome(tx: Db, unique: readonly number[], weighingStages: readonly WeighingStage[] | null): number {
-  if (weighingStages) return refreshAfterWeighings(tx, unique, weighingStages);
+function refreshSome(tx: Db, unique: readonly number[], weighingStages: readonly WeighingStage[] | null, newFrom: number | null = null): number {
+  if (weighingStages) return refreshAfterWeighings(tx, unique, weighingStages, newFrom);
   const ids = JSON.stringify(unique);
   const keys = preparedRaw(tx, `${KEYS_SQL} where c.id in ${IDS}`).all(ids) as KeysRow[];
   const { ws, cs } = readingsOf(tx, ids);
   return writeRows(tx, keys, ws, cs);
 }
 
-/** The current weighings and checks of these coupons (ids as one JSON array), grouped by coupon. */
-function readingsOf(tx: Db, ids: string) {
-  const ws = preparedRaw(
+/**
+ * The current weighings and checks of these coupons (ids as one JSON array), grouped by coupon; with
+ * `newFrom`, also each coupon's weighings as they were before the write that added the ids from it on.
+ */
+function readingsOf(tx: Db, ids: string, newFrom: number | null = null) {
+  const rows = preparedRaw(
     tx,
     `${WEIGHINGS_SQL} where w.coupon_id in ${IDS} and w.superseded_by is null and w.deleted_at is null order by w.measured_at, w.id`,
   ).all(ids) as WeighingRow[];
   const cs = preparedRaw(tx, `${CHECKS_SQL} where k.coupon_id in ${IDS} and k.superseded_by is null and k.deleted_at is null order by k.measured_at, k.id`).all(
     ids,
   ) as CheckRow[];
-  return { ws: weighingsByCoupon(ws), cs: checksByCoupon(cs) };
+  const ws = weighingsByCoupon(rows);
+  let before: Map<number, WeighingReading[]> | null = null;
+  if (newFrom !== null) {
+    // Rows keep their measured_at, id order, so each coupon's earlier list keeps it too.
+    before = new Map();
+    for (const r of rows) {
+      if (r[4] >= newFrom) continue;
+      const w: WeighingReading = { stage: r[1] as WeighingReading['stage'], massG: r[2], measuredAt: r[3] };
+      const list = before.get(r[0]);
+      if (list) list.push(w);
+      else before.set(r[0], [w]);
+    }
+  }
+  return { ws, cs: checksByCoupon(cs), before };
 }
 
 /** The indexed keys of a stored results row, in KeysRow order less the resin's cured density. */
 const STORED_KEYS = ['couponId', 'tag', 'trialId', 'conditionId', 'runId', 'speciesId', 'role', 'sourceBoard', 'resinId', 'resinLotId'] as const;
 const nameOf = (key: string) => (COLUMNS.find((c) => c.key === key) as { name: string }).name;
 
-/** An UPDATE of exactly these columns of one row, prepared once per connection and set of columns. */
-function updateOf(tx: Db, cols: readonly { name: string }[]) {
-  return prepared(tx, `update coupon_results set ${cols.map((c) => `${c.name} = ?`).join(', ')} where coupon_id = ?`);
+/** Rows updated per statement by a weighings-only refresh. */
+const UPDATE_ROWS = 50;
+
+/**
+ * An UPDATE of exactly these columns of `rows` rows, prepared once per connection, set of columns and row
+ * count: its parameters are each row's coupon id then its values, row after row (`update … from (values …)`:
+ * one statement per row cost twice as much at 100,000 rows).
+ */
+function updateOf(tx: Db, cols: readonly { name: string }[], rows: number) {
+  const set = cols.map((c, i) => `${c.name} = v.column${i + 2}`).join(', ');
+  const row = `(${Array(cols.length + 1)
+    .fill('?')
+    .join(', ')})`;
+  return prepared(tx, `update coupon_results set ${set} from (values ${Array(rows).fill(row).join(', ')}) as v where coupon_results.coupon_id = v.column1`);
 }
 
 /**
  * The refresh after weighings of these stages were added or removed, and nothing else. The keys come from
  * the stored results rows themselves (a reading changes none of them, and every change of a coupon's keys
- * refreshes its row in the same transaction), with the columns this refresh may set; each coupon's row is
- * computed from its readings, and only the columns whose value moved are written: a coupon's first dry
- * weighing moves one or two of them, and SQLite's cost grows with every column bound and set. A coupon
- * without a stored row gets the full path.
+ * refreshes its row in the same transaction); each coupon's row is computed from its readings, and only
+ * the columns whose value moved are written: a coupon's first dry weighing moves one or two of them, and
+ * SQLite's cost grows with every column bound and set. What a column held is read from the stored row, or,
+ * when the write only added weighings (ids from `newFrom` on), computed from the readings without them,
+ * which is what the row holds (the table is always current) and costs less than reading 30 columns of
+ * 100,000 rows. A coupon without a stored row gets the full path.
  */
-function refreshAfterWeighings(tx: Db, unique: readonly number[], stages: readonly WeighingStage[]): number {
+function refreshAfterWeighings(tx: Db, unique: readonly number[], stages: readonly WeighingStage[], newFrom: number | null): number {
   const cols = weighingColumns(stages);
   const ids = JSON.stringify(unique);
+  const readStored = newFrom === null;
   const stored = preparedRaw(
     tx,
-    `select ${[...STORED_KEYS.map(nameOf), ...cols.map((c) => c.name)].join(', ')} from coupon_results where coupon_id in ${IDS}`,
+    `select ${[...STORED_KEYS.map(nameOf), ...(readStored ? cols.map((c) => c.name) : [])].join(', ')} from coupon_results where coupon_id in ${IDS}`,
   ).all(ids) as unknown[][];
   let missing: number[] = [];
   if (stored.length < unique.length) {
@@ -398,11 +433,26 @@ function refreshAfterWeighings(tx: Db, unique: readonly number[], stages: readon
     missing = unique.filter((id) => !have.has(id));
   }
   const density = new Map((preparedRaw(tx, 'select id, cured_density_g_cm3 from resins').all() as [number, number][]).map(([id, d]) => [id, d] as const));
-  const { ws, cs } = readingsOf(tx, ids);
+  const { ws, cs, before } = readingsOf(tx, ids, newFrom);
   const first = STORED_KEYS.length;
-  // One UPDATE per set of moved columns (a bit each; at most 31 columns), prepared once per connection.
-  const updates = new Map<number, Database.Statement>();
-  const bound: unknown[] = [];
+  // The rows to write, grouped by the set of columns that moved (a bit each; at most 31 columns): each
+  // group's parameters are the coupon id then the moved values, row after row.
+  const groups = new Map<number, unknown[]>();
+  const moved: unknown[] = [];
+  // Full groups in one statement; what is left of a group row by row, so each set of columns has two
+  // statements prepared, not one per row count.
+  const write = (mask: number, params: unknown[]) => {
+    const cols = weighingCols.filter((_, i) => mask & (1 << i));
+    const width = cols.length + 1;
+    if (params.length === UPDATE_ROWS * width) return void updateOf(tx, cols, UPDATE_ROWS).run(params);
+    const one = updateOf(tx, cols, 1);
+    for (let at = 0; at < params.length; at += width) one.run(params.slice(at, at + width));
+  };
+  const weighingCols = cols;
+  const valueOf = (row: Record<string, unknown>, c: (typeof cols)[number]) => {
+    const x = row[c.key];
+    return c.json ? JSON.stringify(x) : (x ?? null);
+  };
   for (const r of stored) {
     const keys: ResultKeys = {
       couponId: r[0] as number,
@@ -417,30 +467,32 @@ function refreshAfterWeighings(tx: Db, unique: readonly number[], stages: readon
       resinLotId: r[9] as number | null,
       curedDensityGcm3: r[8] === null ? null : (density.get(r[8] as number) ?? null),
     };
-    const row = resultValues(keys, ws.get(keys.couponId) ?? NONE, cs.get(keys.couponId) ?? NONE) as unknown as Record<string, unknown>;
+    const checks = cs.get(keys.couponId) ?? NONE;
+    const row = resultValues(keys, ws.get(keys.couponId) ?? NONE, checks) as unknown as Record<string, unknown>;
+    const was = before ? (resultValues(keys, before.get(keys.couponId) ?? NONE, checks) as unknown as Record<string, unknown>) : null;
     let mask = 0;
-    bound.length = 0;
+    moved.length = 0;
     for (let i = 0; i < cols.length; i++) {
       const c = cols[i] as (typeof cols)[number];
-      const x = row[c.key];
-      const v = c.json ? JSON.stringify(x) : (x ?? null);
-      if (v !== r[first + i]) {
+      const v = valueOf(row, c);
+      if (v !== (was ? valueOf(was, c) : r[first + i])) {
         mask |= 1 << i;
-        bound.push(v);
+        moved.push(v);
       }
     }
     if (mask === 0) continue;
-    bound.push(keys.couponId);
-    let st = updates.get(mask);
-    if (!st) {
-      st = updateOf(
-        tx,
-        cols.filter((_, i) => mask & (1 << i)),
-      );
-      updates.set(mask, st);
+    let params = groups.get(mask);
+    if (!params) {
+      params = [];
+      groups.set(mask, params);
     }
-    st.run(bound);
+    params.push(keys.couponId, ...moved);
+    if (params.length === UPDATE_ROWS * (moved.length + 1)) {
+      write(mask, params);
+      params.length = 0;
+    }
   }
+  for (const [mask, params] of groups) if (params.length) write(mask, params);
   if (missing.length) refreshSome(tx, missing, null);
   return unique.length;
 }

@@ -563,7 +563,18 @@ describe('imports: files refused with a clear answer, nothing left behind', () =
     // The same file again commits whole: 6,000 weighings and their results rows.
     const again = await committed(s.tech, d);
     expect(again.status, again.error ?? '').toBe('committed');
-    expect(s.h.database.db.select().from(weighings).where(eq(weighings.importId, d.id)).all()).toHaveLength(6_000);
+    const written = s.h.database.db.select({ id: weighings.id }).from(weighings).where(eq(weighings.importId, d.id)).all();
+    expect(written).toHaveLength(6_000);
+    // Written 50 rows per INSERT: the audit's id range is exactly the rows written.
+    const ids = written.map((w) => w.id).sort((a, b) => a - b);
+    const added = s.h.database.db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entity, 'import'), eq(auditLog.entityId, String(d.id)), eq(auditLog.action, 'add-readings')))
+      .all();
+    expect(added).toHaveLength(1);
+    expect((added[0]!.after as { weighingIds: unknown }).weighingIds).toEqual({ first: ids[0], last: ids[5_999] });
+    expect(ids[5_999]! - ids[0]! + 1).toBe(6_000);
     const after = s.h.database.sqlite.prepare("select count(*) as n from coupon_results where tag like 'SL-%' and dry_mass_g is not null").get() as {
       n: number;
     };
