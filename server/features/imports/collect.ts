@@ -15,7 +15,14 @@ const KEYS_PAGE = 10_000;
 
 const yieldToLoop = () => new Promise<void>((resolve) => setImmediate(resolve));
 
-export const clipCells = (cells: string[]) => cells.slice(0, 30).map((c) => (c.length > 200 ? `${c.slice(0, 200)}…` : c));
+/**
+ * A copy of a piece of the file's text that keeps nothing else alive: V8 cuts cells out of a parsed chunk as
+ * slices holding on to the whole chunk, and the problems are kept with the preview for its commit (up to
+ * MAX_PROBLEMS of them, spread over a big file, kept all of its text).
+ */
+export const detach = (s: string) => JSON.parse(JSON.stringify(s)) as string;
+
+export const clipCells = (cells: string[]) => cells.slice(0, 30).map((c) => detach(c.length > 200 ? `${c.slice(0, 200)}…` : c));
 
 /**
  * Reads every row of the file through the mapping (streaming) and collects, column by column, what
@@ -116,7 +123,7 @@ export async function collectReadings(
     outcome: ImportRowOutcome,
     suggestions: string[] = [],
   ) => {
-    if (c.problems.length < MAX_PROBLEMS) c.problems.push({ row, column, code, outcome, message, suggestions, cells: clipCells(cells) });
+    if (c.problems.length < MAX_PROBLEMS) c.problems.push({ row, column, code, outcome, message: detach(message), suggestions, cells: clipCells(cells) });
   };
   const countRow = (outcome: ImportRowOutcome) => (outcome === 'skipped' ? c.skippedRows++ : c.problemRows++);
 
@@ -126,7 +133,7 @@ export async function collectReadings(
     (cells, row) => {
       if (!seenHeader) {
         seenHeader = true;
-        ctx.columnNames = cells.map((cl, i) => cl.trim() || `Column ${i + 1}`);
+        ctx.columnNames = cells.map((cl, i) => detach(cl.trim()) || `Column ${i + 1}`);
         return;
       }
       c.dataRows++;

@@ -118,6 +118,20 @@ describe('streamRows', () => {
     expect(progress.at(-1)).toBe(1);
   });
 
+  it.each([
+    ['an empty file', ''],
+    ['a byte-order mark alone', '\ufeff'],
+    ['one line without a line end', 'BX-1,12.3'],
+    ['rows without a last line end', 'tag,mass\r\nBX-1,12.3\r\n\r\nBX-2,"4\r\n5"'],
+    ['a quoted field left open', 'tag,mass\nBX-1,"12.3\nBX-2,4'],
+  ])('reads %s as papaparse reads the whole text', async (_name, t) => {
+    const file = path.join(dir, 'edge.csv');
+    fs.writeFileSync(file, t);
+    const got: { row: number; cells: string[] }[] = [];
+    await streamRows(file, { encoding: 'utf-8', delimiter: ',' }, (cells, row) => got.push({ row, cells }));
+    expect(got).toEqual(whole(t.replace(/^\ufeff/, ''), ','));
+  });
+
   it('stops at a line of 10 MB, naming it, and at what the row callback throws', async () => {
     const file = path.join(dir, 'long.csv');
     fs.writeFileSync(file, `tag,mass\r\nBX-1,12.3\r\n${'9'.repeat(10 * 1024 * 1024)}\r\n`);
