@@ -448,6 +448,8 @@ export function createMeasurements(deps: { now: () => Date }) {
     let nw = 0;
     let nc = 0;
     let firstId = Number.MAX_SAFE_INTEGER;
+    /** The weighings written, per coupon in the order written: the results refresh need not read them back. */
+    const addedByCoupon = new Map<number, WeighingReading[]>();
     const mineOf = (couponId: number) => {
       let mine = perCoupon.get(couponId);
       if (!mine) {
@@ -481,6 +483,9 @@ export function createMeasurements(deps: { now: () => Date }) {
         const w = ws[j] as WeighingInput;
         stages[w.stage] = (stages[w.stage] ?? 0) + 1;
         nw++;
+        const mine = addedByCoupon.get(e.couponId);
+        if (mine) mine.push(w);
+        else addedByCoupon.set(e.couponId, [w]);
         if (perSource) {
           touched.add(e.couponId);
           pending.push(e.couponId, w.stage, w.massG, w.measuredAt, importId, source, actor.id);
@@ -526,7 +531,7 @@ export function createMeasurements(deps: { now: () => Date }) {
     const refresh = refreshResultsInSteps(
       tx,
       couponIds,
-      nc === 0 ? { weighingStages: Object.keys(stages) as WeighingStage[], newWeighingsFrom: firstId } : {},
+      nc === 0 ? { weighingStages: Object.keys(stages) as WeighingStage[], added: { from: firstId, byCoupon: addedByCoupon } } : {},
       Math.min(slice, 10_000),
     );
     for (let r = refresh.next(); !r.done; r = refresh.next()) yield 0.5 + 0.5 * r.value;

@@ -281,7 +281,20 @@ describe('coupon_results', () => {
         db.transaction((tx) => rebuildResults(tx));
         expect(snapshot()).toEqual(incremental);
       }),
-      { numRuns: 30, seed: 20260401 },
+      {
+        numRuns: 30,
+        seed: 20260401,
+        // A drying check written in bulk at the same time as an earlier one: the earlier stays the first (id order).
+        examples: [
+          [
+            [
+              { kind: 'weigh', c: 0, stage: 'drying-check', massG: 30, t: 7 },
+              { kind: 'bulk', cs: [{ c: 0, stage: 'drying-check', massG: 20 }], t: 7, judged: true },
+              { kind: 'weigh', c: 0, stage: 'dry', massG: 10, t: 9 },
+            ],
+          ],
+        ],
+      },
     );
     // The sequences must actually change things, not only be refused.
     expect(accepted).toBeGreaterThan(50);

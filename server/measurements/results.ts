@@ -317,10 +317,15 @@ function writeRows(tx: Db, keys: KeysRow[], ws: Map<number, WeighingReading[]>, 
 export interface RefreshOptions {
   weighingStages?: readonly WeighingStage[];
   /**
-   * With weighingStages: the change only ADDED weighings, and every current weighing with an id from this
-   * one on is one of them (ids only grow), so what the rows held can be computed rather than read.
+   * With weighingStages: the change only ADDED these weighings, whose ids are `from` on (ids only grow), each
+   * coupon's in the order written. The refresh then reads only the weighings before them, and computes what
+   * the rows held rather than reading it.
    */
-  newWeighingsFrom?: number;
+  added?: AddedWeighings;
+}
+export interface AddedWeighings {
+  from: number;
+  byCoupon: ReadonlyMap<number, readonly WeighingReading[]>;
 }
 
 /**
@@ -341,10 +346,10 @@ export function* refreshResultsInSteps(tx: Db, couponIds: readonly number[], opt
   if (couponIds.length === 0) return 0;
   const unique = couponIds.length === 1 ? couponIds : [...new Set(couponIds)];
   const stages = options.weighingStages ?? null;
-  const newFrom = options.newWeighingsFrom ?? null;
+  const added = options.added ?? null;
   let n = 0;
   for (let from = 0; from < unique.length; from += slice) {
-    n += refreshSome(tx, from === 0 && unique.length <= slice ? unique : unique.slice(from, from + slice), stages, newFrom);
+    n += refreshSome(tx, from === 0 && unique.length <= slice ? unique : unique.slice(from, from + slice), stages, added);
     if (from + slice < unique.length) yield (from + slice) / unique.length;
   }
   return n;
@@ -353,44 +358,44 @@ export function* refreshResultsInSteps(tx: Db, couponIds: readonly number[], opt
 /** Coupons whose results are recomputed per slice of a large refresh. */
 const REFRESH_CHUNK = 10_000;
 
-function refreshSome(tx: Db, unique: readonly number[], weighingStages: readonly WeighingStage[] | null, newFrom: number | null = null): number {
-  if (weighingStages) return refreshAfterWeighings(tx, unique, weighingStages, newFrom);
+function refreshSome(tx: Db, unique: readonly number[], weighingStages: readonly WeighingStage[] | null, added: AddedWeighings | null = null): number {
+  if (weighingStages) return refreshAfterWeighings(tx, unique, weighingStages, added);
   const ids = JSON.stringify(unique);
   const keys = preparedRaw(tx, `${KEYS_SQL} where c.id in ${IDS}`).all(ids) as KeysRow[];
   const { ws, cs } = readingsOf(tx, ids);
   return writeRows(tx, keys, ws, cs);
 }
 
-/**
- * The current weighings and checks of these coupons (ids as one JSON array), grouped by coupon; with
- * `newFrom`, also each coupon's weighings as they were before the write that added the ids from it on.
- */
-function readingsOf(tx: Db, ids: string, newFrom: number | null = null) {
-  const rows = preparedRaw(
+/** The current weighings and checks of these coupons (ids as one JSON array), grouped by coupon. */
+function readingsOf(tx: Db, ids: string) {
+  const ws = preparedRaw(
     tx,
     `${WEIGHINGS_SQL} where w.coupon_id in ${IDS} and w.superseded_by is null and w.deleted_at is null order by w.measured_at, w.id`,
   ).all(ids) as WeighingRow[];
-  const cs = preparedRaw(tx, `${CHECKS_SQL} where k.coupon_id in ${IDS} and k.superseded_by is null and k.deleted_at is null order by k.measured_at, k.id`).all(
-    ids,
-  ) as CheckRow[];
-  const ws = weighingsByCoupon(rows);
-  let before: Map<number, WeighingReading[]> | null = null;
-  if (newFrom !== null) {
-    // Rows keep their measured_at, id order, so each coupon's earlier list keeps it too.
-    before = new Map();
-    for (const r of rows) {
-      if (r[4] >= newFrom) continue;
-      const w: WeighingReading = { stage: r[1] as WeighingReading['stage'], massG: r[2], measuredAt: r[3] };
-      const list = before.get(r[0]);
-      if (list) list.push(w);
-      else before.set(r[0], [w]);
-    }
-  }
-  return { ws, cs: checksByCoupon(cs), before };
+  return { ws: weighingsByCoupon(ws), cs: checksOf(tx, ids) };
 }
 
-/** The indexed keys of a stored results row, in KeysRow order less the resin's cured density. */
-const STORED_KEYS = ['couponId', 'tag', 'trialId', 'conditionId', 'runId', 'speciesId', 'role', 'sourceBoard', 'resinId', 'resinLotId'] as const;
+function checksOf(tx: Db, ids: string) {
+  return checksByCoupon(
+    preparedRaw(tx, `${CHECKS_SQL} where k.coupon_id in ${IDS} and k.superseded_by is null and k.deleted_at is null order by k.measured_at, k.id`).all(
+      ids,
+    ) as CheckRow[],
+  );
+}
+
+/** A coupon's weighings before a write and the ones it added, in measured_at, id order (the added ids are the larger). */
+function withAdded(before: readonly WeighingReading[], added: readonly WeighingReading[]): readonly WeighingReading[] {
+  const all = before.length === 0 ? added : added.length === 0 ? before : [...before, ...added];
+  // Array sort is stable: equal times keep the earlier id first, as the SQL order does.
+  return all.length < 2 ? all : [...all].sort((a, b) => (a.measuredAt < b.measuredAt ? -1 : a.measuredAt > b.measuredAt ? 1 : 0));
+}
+
+/**
+ * What a weighings-only refresh reads of a stored row besides the columns it may set: the keys the values
+ * depend on (the role, and the resin for its cured density). The other keys only name the row, and an
+ * UPDATE of the value columns leaves them as stored.
+ */
+const STORED_KEYS = ['couponId', 'role', 'resinId'] as const;
 const nameOf = (key: string) => (COLUMNS.find((c) => c.key === key) as { name: string }).name;
 
 /** Rows updated per statement by a weighings-only refresh. */
@@ -419,10 +424,10 @@ function updateOf(tx: Db, cols: readonly { name: string }[], rows: number) {
  * which is what the row holds (the table is always current) and costs less than reading 30 columns of
  * 100,000 rows. A coupon without a stored row gets the full path.
  */
-function refreshAfterWeighings(tx: Db, unique: readonly number[], stages: readonly WeighingStage[], newFrom: number | null): number {
+function refreshAfterWeighings(tx: Db, unique: readonly number[], stages: readonly WeighingStage[], added: AddedWeighings | null): number {
   const cols = weighingColumns(stages);
   const ids = JSON.stringify(unique);
-  const readStored = newFrom === null;
+  const readStored = added === null;
   const stored = preparedRaw(
     tx,
     `select ${[...STORED_KEYS.map(nameOf), ...(readStored ? cols.map((c) => c.name) : [])].join(', ')} from coupon_results where coupon_id in ${IDS}`,
@@ -433,7 +438,18 @@ function refreshAfterWeighings(tx: Db, unique: readonly number[], stages: readon
     missing = unique.filter((id) => !have.has(id));
   }
   const density = new Map((preparedRaw(tx, 'select id, cured_density_g_cm3 from resins').all() as [number, number][]).map(([id, d]) => [id, d] as const));
-  const { ws, cs, before } = readingsOf(tx, ids, newFrom);
+  // After an import of first weighings, the weighings before it are none: only those are read.
+  const ws = added
+    ? weighingsByCoupon(
+        preparedRaw(
+          tx,
+          `${WEIGHINGS_SQL} where w.coupon_id in ${IDS} and w.id < ? and w.superseded_by is null and w.deleted_at is null order by w.measured_at, w.id`,
+        ).all(ids, added.from) as WeighingRow[],
+      )
+    : readingsOf(tx, ids).ws;
+  const cs = checksOf(tx, ids);
+  // What a row with no readings holds depends on its role and resin alone: computed once per pair.
+  const empty = new Map<string, Record<string, unknown>>();
   const first = STORED_KEYS.length;
   // The rows to write, grouped by the set of columns that moved (a bit each; at most 31 columns): each
   // group's parameters are the coupon id then the moved values, row after row.
@@ -454,22 +470,35 @@ function refreshAfterWeighings(tx: Db, unique: readonly number[], stages: readon
     return c.json ? JSON.stringify(x) : (x ?? null);
   };
   for (const r of stored) {
+    // The naming keys are not read (see STORED_KEYS): the columns set here do not come from them.
     const keys: ResultKeys = {
       couponId: r[0] as number,
-      tag: r[1] as string,
-      trialId: r[2] as number | null,
-      conditionId: r[3] as number | null,
-      runId: r[4] as number | null,
-      speciesId: r[5] as number,
-      role: r[6] as CouponRole,
-      sourceBoard: r[7] as string | null,
-      resinId: r[8] as number | null,
-      resinLotId: r[9] as number | null,
-      curedDensityGcm3: r[8] === null ? null : (density.get(r[8] as number) ?? null),
+      tag: '',
+      trialId: null,
+      conditionId: null,
+      runId: null,
+      speciesId: 0,
+      role: r[1] as CouponRole,
+      sourceBoard: null,
+      resinId: r[2] as number | null,
+      resinLotId: null,
+      curedDensityGcm3: r[2] === null ? null : (density.get(r[2] as number) ?? null),
     };
     const checks = cs.get(keys.couponId) ?? NONE;
-    const row = resultValues(keys, ws.get(keys.couponId) ?? NONE, checks) as unknown as Record<string, unknown>;
-    const was = before ? (resultValues(keys, before.get(keys.couponId) ?? NONE, checks) as unknown as Record<string, unknown>) : null;
+    const earlier = ws.get(keys.couponId) ?? NONE;
+    const row = resultValues(keys, added ? withAdded(earlier, added.byCoupon.get(keys.couponId) ?? NONE) : earlier, checks) as unknown as Record<
+      string,
+      unknown
+    >;
+    let was: Record<string, unknown> | null = null;
+    if (added && earlier.length === 0 && checks.length === 0) {
+      const k = `${keys.role}|${keys.curedDensityGcm3}`;
+      was = empty.get(k) ?? null;
+      if (!was) {
+        was = resultValues(keys, NONE, NONE) as unknown as Record<string, unknown>;
+        empty.set(k, was);
+      }
+    } else if (added) was = resultValues(keys, earlier, checks) as unknown as Record<string, unknown>;
     let mask = 0;
     moved.length = 0;
     for (let i = 0; i < cols.length; i++) {
