@@ -106,10 +106,18 @@ export function tagSearch(known: readonly string[]): (tag: string, limit?: numbe
   return (tag, limit = 3) => {
     const t = tag.trim().toUpperCase();
     const bound = Math.max(2, Math.floor(t.length / 3));
+    // Which characters the tag has (a bit per character code modulo 32: a clear bit means surely absent).
+    let has = 0;
+    for (let k = 0; k < t.length; k++) has |= 1 << (t.charCodeAt(k) & 31);
     const scored: { tag: string; d: number }[] = [];
     for (let i = 0; i < upper.length; i++) {
       const u = upper[i] as string;
       if (Math.abs(u.length - t.length) > bound) continue;
+      // Each character of u that the tag lacks takes an edit of its own (inserted or substituted): more of
+      // them than the bound, and the distance is too (a cheap, exact filter before the dynamic programme).
+      let lacking = 0;
+      for (let k = 0; k < u.length && lacking <= bound; k++) if ((has & (1 << (u.charCodeAt(k) & 31))) === 0) lacking++;
+      if (lacking > bound) continue;
       const d = editDistanceWithin(t, u, bound);
       if (d <= bound) scored.push({ tag: known[i] as string, d });
     }
