@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { importMappingSchema, type ImportMappingInput } from '../schemas/imports';
-import { editDistance, nearestTags } from './levenshtein';
+import { editDistance, editDistanceWithin, nearestTags, tagSearch } from './levenshtein';
 import { readRow } from './rows';
 import { shapeKey, templateCsv } from './template';
 import { splitRows } from './format';
@@ -77,6 +77,37 @@ describe('nearest tags', () => {
     // OAK-01 and OAK-10 are one edit away (tie broken by tag), OAK-02 two.
     expect(nearestTags('oak-1', known)).toEqual(['OAK-01', 'OAK-10', 'OAK-02']);
     expect(nearestTags('ZZZ-99', known)).toEqual([]);
+    expect(tagSearch(known)('oak-1')).toEqual(['OAK-01', 'OAK-10', 'OAK-02']);
+  });
+
+  // A fixed linear congruential sequence (Numerical Recipes' constants): the same strings on every run.
+  let seed = 8;
+  const next = () => (seed = (seed * 1664525 + 1013904223) >>> 0) / 2 ** 32;
+  const word = (alphabet: string, max: number) => {
+    let w = '';
+    for (let i = Math.floor(next() * (max + 1)); i > 0; i--) w += alphabet[Math.floor(next() * alphabet.length)];
+    return w;
+  };
+
+  it('bounds the edit distance with the answers of the full one', () => {
+    const wrong: string[] = [];
+    for (let k = 0; k < 20_000; k++) {
+      const a = word('ab-1', 12);
+      const b = next() < 0.5 ? word('ab-1', 12) : a.slice(0, Math.floor(next() * a.length)) + word('ab1', 3) + a.slice(Math.floor(next() * a.length));
+      const bound = Math.floor(next() * 6);
+      const full = editDistance(a, b);
+      if (editDistanceWithin(a, b, bound) !== (full <= bound ? full : bound + 1)) wrong.push(`${a} ${b} ${bound}`);
+    }
+    expect(wrong).toEqual([]);
+  });
+
+  it('searches a list of tags as nearestTags does', () => {
+    const known = Array.from({ length: 400 }, () => `${word('ABox', 3)}-${word('0123456789', 4)}`);
+    const search = tagSearch(known);
+    for (let k = 0; k < 300; k++) {
+      const tag = next() < 0.5 ? (known[Math.floor(next() * known.length)] as string).toLowerCase().replace(/.$/, 'x') : word('abOX-0123', 10);
+      expect(search(tag), tag).toEqual(nearestTags(tag, known));
+    }
   });
 });
 

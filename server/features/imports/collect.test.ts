@@ -97,6 +97,20 @@ describe('collectReadings', () => {
     }
   });
 
+  it('explains every row of an unknown tag with the nearest known tags, found once the file is read', async () => {
+    const c = await collect([
+      'BX-0O1,12,2026-03-02,08:00:00',
+      'BX-002,12,2026-03-02,08:00:01',
+      'BX-0O1,13,2026-03-02,08:00:02',
+      'QQQQQQQQ,1,2026-03-02,08:00:03',
+    ]);
+    expect(c.problems.map((p) => [p.row, p.code, p.message, p.suggestions])).toEqual([
+      [2, 'unknown-tag', 'No coupon is tagged "BX-0O1"; did you mean BX-001, BX-011, BX-021?', ['BX-001', 'BX-011', 'BX-021']],
+      [4, 'unknown-tag', 'No coupon is tagged "BX-0O1"; did you mean BX-001, BX-011, BX-021?', ['BX-001', 'BX-011', 'BX-021']],
+      [5, 'unknown-tag', 'No coupon is tagged "QQQQQQQQ"', []],
+    ]);
+  });
+
   it('gives a sequence its coupons in the weighing order, a coupon listed twice being one coupon', async () => {
     const runId = Number(d.sqlite.prepare("insert into runs (code, chamber, altitude_m) values ('R-1', 'A', 0)").run().lastInsertRowid);
     const seq = [ids['BX-003']!, ids['BX-001']!, ids['BX-003']!];

@@ -2,7 +2,7 @@ import type { Db } from '../../db/client';
 import { Unprocessable } from '../../http/errors';
 import type { ImportProblemCode, ImportRowOutcome } from '../../../shared/constants/imports';
 import type { ImportMapping, ImportProblem } from '../../../shared/schemas/imports';
-import { nearestTags } from '../../../shared/imports/levenshtein';
+import { tagSearch } from '../../../shared/imports/levenshtein';
 import { readRow, type RowProblem } from '../../../shared/imports/rows';
 import { streamRows } from './file-reader';
 import { couponKeysAfter, couponKeysByIds, findRun, type CouponKey, type ImportRow } from './imports.repo';
@@ -109,8 +109,14 @@ export async function collectReadings(
   };
   // Per coupon (by its index above): the last candidate read for it, -1 for none yet.
   const lastOf = new Int32Array(coupons).fill(-1);
-  const suggestionCache = new Map<string, string[]>();
-  let tagList: string[] | null = null;
+  // Unknown tags: the first MAX_SUGGESTION_SEARCHES distinct ones, each with its stored problems, which get the
+  // nearest known tags once the file is read, searched with turns of the event loop between (one search over
+  // 100,000 tags takes 10–50 ms, and a file mapped on the wrong column has thousands of unknown tags).
+  const unknownTags = new Map<string, ImportProblem[]>();
+  const unknownMessage = (tag: string, sg: string[]) => {
+    const text = tag.length > 40 ? `${tag.slice(0, 40)}…` : tag;
+    return `No coupon is tagged "${text}"${sg.length ? `; did you mean ${sg.join(', ')}?` : ''}`;
+  };
   let next = 0;
   let seenHeader = !mapping.format.hasHeader;
   const columnName = (i: number) => ctx.columnNames[i] ?? `Column ${i + 1}`;
@@ -123,7 +129,10 @@ export async function collectReadings(
     outcome: ImportRowOutcome,
     suggestions: string[] = [],
   ) => {
-    if (c.problems.length < MAX_PROBLEMS) c.problems.push({ row, column, code, outcome, message: detach(message), suggestions, cells: clipCells(cells) });
+    if (c.problems.length >= MAX_PROBLEMS) return null;
+    const p: ImportProblem = { row, column, code, outcome, message: detach(message), suggestions, cells: clipCells(cells) };
+    c.problems.push(p);
+    return p;
   };
   const countRow = (outcome: ImportRowOutcome) => (outcome === 'skipped' ? c.skippedRows++ : c.problemRows++);
 
@@ -140,24 +149,24 @@ export async function collectReadings(
       const read = readRow(cells, mapping, ctx);
       const rowProblems: (RowProblem & { suggestions?: string[] })[] = read.problems;
       let at = -1;
+      let waiting: ImportProblem[] | undefined;
       if (mapping.target.mode === 'tag' && read.tag) {
         at = find(read.tag);
         if (at < 0) {
-          let sg = suggestionCache.get(read.tag);
-          if (!sg) {
-            sg = suggestionCache.size < MAX_SUGGESTION_SEARCHES ? nearestTags(read.tag, (tagList ??= keys.map((k) => k.tag))) : [];
-            suggestionCache.set(read.tag, sg);
-          }
-          const text = read.tag.length > 40 ? `${read.tag.slice(0, 40)}…` : read.tag;
-          const message = `No coupon is tagged "${text}"${sg.length ? `; did you mean ${sg.join(', ')}?` : ''}`;
-          rowProblems.unshift({ code: 'unknown-tag', column: columnName(mapping.target.tagColumn), message, suggestions: sg });
+          waiting = unknownTags.get(read.tag);
+          if (!waiting && unknownTags.size < MAX_SUGGESTION_SEARCHES) unknownTags.set(read.tag, (waiting = []));
+          const message = unknownMessage(read.tag, []);
+          rowProblems.unshift({ code: 'unknown-tag', column: columnName(mapping.target.tagColumn), message, suggestions: [] });
         } else expected = at + 1;
       }
       if (rowProblems.length) {
         // An unsettled reading is left out, not wrong: the balance usually prints the settled one next.
         const outcome = rowProblems.every((p) => p.code === 'unstable') ? 'skipped' : 'problem';
         countRow(outcome);
-        for (const p of rowProblems) add(row, cells, p.code, p.column, p.message, outcome, p.suggestions);
+        for (const p of rowProblems) {
+          const stored = add(row, cells, p.code, p.column, p.message, outcome, p.suggestions);
+          if (stored && waiting && p.code === 'unknown-tag') waiting.push(stored);
+        }
         return;
       }
       let k: CouponKey;
@@ -185,6 +194,24 @@ export async function collectReadings(
     (f) => onProgress(f * 0.8),
   );
   c.massColumn = columnName(mapping.massColumn);
+  // Only tags with a stored problem are searched: the others' suggestions would be shown nowhere.
+  const searched = [...unknownTags].filter(([, problems]) => problems.length > 0);
+  if (searched.length) {
+    const nearest = tagSearch(keys.map((k) => k.tag));
+    let since = performance.now();
+    for (const [tag, problems] of searched) {
+      const sg = nearest(tag);
+      const message = detach(unknownMessage(tag, sg));
+      for (const p of problems) {
+        p.message = message;
+        p.suggestions = sg;
+      }
+      if (performance.now() - since > 10) {
+        await yieldToLoop();
+        since = performance.now();
+      }
+    }
+  }
   if (mapping.target.mode === 'sequence' && next < sequence.length) {
     const left = sequence.slice(next).map((k) => k.tag);
     const msg = `${left.length} coupon${left.length === 1 ? '' : 's'} of the weighing order got no reading: ${left.slice(0, 10).join(', ')}${left.length > 10 ? ', …' : ''}`;
