@@ -169,6 +169,12 @@ function camel(row: object): Record<string, unknown> {
   return Object.fromEntries(Object.entries(row).map(([k, v]) => [k.replace(/_([a-z0-9])/g, (_, c: string) => c.toUpperCase()), v]));
 }
 
+/** What the rules need of a coupon besides its readings. */
+export interface KnownCoupon {
+  tag: string;
+  role: 'treated' | 'control';
+}
+
 interface CouponState {
   tag: string;
   role: 'treated' | 'control';
@@ -177,17 +183,26 @@ interface CouponState {
 }
 
 /** The stored state the rules need, for every coupon of the entries, in three queries binding one JSON array. */
-function loadStates(tx: Db, couponIds: number[], into = new Map<number, CouponState>()): Map<number, CouponState> {
-  const ids = JSON.stringify(couponIds.length === 1 ? couponIds : [...new Set(couponIds)]);
+function loadStates(tx: Db, couponIds: number[], into = new Map<number, CouponState>(), known?: ReadonlyMap<number, KnownCoupon>): Map<number, CouponState> {
+  const unique = couponIds.length === 1 ? couponIds : [...new Set(couponIds)];
+  const ids = JSON.stringify(unique);
   const states = into;
+  let unknown = unique;
+  if (known) {
+    unknown = [];
+    for (const id of unique) {
+      const k = known.get(id);
+      if (k) states.set(id, { tag: k.tag, role: k.role, weighings: [], dimensionStages: new Set() });
+      else unknown.push(id);
+    }
+  }
   // Rows as arrays (preparedRaw): an import asks about 100,000 coupons, and naming every column of every
   // row cost more than the queries.
-  for (const r of preparedRaw(tx, 'select id, tag, role from coupons where id in (select value from json_each(?))').all(ids) as [
-    number,
-    string,
-    'treated' | 'control',
-  ][]) {
-    states.set(r[0], { tag: r[1], role: r[2], weighings: [], dimensionStages: new Set() });
+  if (unknown.length) {
+    const rows = preparedRaw(tx, 'select id, tag, role from coupons where id in (select value from json_each(?))').all(
+      unknown === unique ? ids : JSON.stringify(unknown),
+    ) as [number, string, 'treated' | 'control'][];
+    for (const r of rows) states.set(r[0], { tag: r[1], role: r[2], weighings: [], dimensionStages: new Set() });
   }
   const ws = preparedRaw(
     tx,
@@ -375,12 +390,19 @@ export function createMeasurements(deps: { now: () => Date }) {
   }
 
   /** Problems a bulk write would refuse, without writing anything (an import's preview). */
-  function checkBulk(tx: Db, entries: readonly MeasurementEntry[]): ReadingProblem[] {
+  /**
+   * `known`: the tag and role of coupons the caller has just read (an import matched its file's tags to
+   * them), so they are not read again. The caller must have read the change counter (`changeCounter`)
+   * BEFORE reading them, so that a coupon changed since shows in the counter when the write comes.
+   */
+  function checkBulk(tx: Db, entries: readonly MeasurementEntry[], known?: ReadonlyMap<number, KnownCoupon>): ReadingProblem[] {
     return validate(
       entries,
       loadStates(
         tx,
         entries.map((e) => e.couponId),
+        undefined,
+        known,
       ),
     );
   }

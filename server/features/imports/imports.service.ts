@@ -259,15 +259,14 @@ export function createImportsService(deps: FeatureDeps) {
    * transaction). Each coupon appears once after the duplicates are dropped (drying checks, which may
    * repeat, have no rule between them), so judging in chunks answers what judging all at once would.
    */
-  async function judge(mapping: ImportMapping, c: Collected, onProgress: (f: number) => void): Promise<Analysis> {
+  async function judge(mapping: ImportMapping, c: Collected, judgedAt: number, onProgress: (f: number) => void): Promise<Analysis> {
     const a: Analysis = {
       counts: { rows: c.dataRows, accepted: 0, corrections: 0, skipped: c.skippedRows, problems: c.problemRows },
       problems: [...c.problems],
       accepted: [],
       corrections: [],
       previewRows: [],
-      // Before the first chunk: a write committed after it (between chunks, or before the commit) moves it.
-      judgedAt: measurements.changeCounter(db),
+      judgedAt,
     };
     const live: number[] = [];
     for (let i = 0; i < c.row.length; i++) {
@@ -291,9 +290,12 @@ export function createImportsService(deps: FeatureDeps) {
     }
     for (let from = 0; from < live.length; from += JUDGE_CHUNK) {
       const part = live.slice(from, from + JUDGE_CHUNK);
+      const known = new Map<number, CouponKey>();
+      for (const i of part) known.set((c.coupon[i] as CouponKey).id, c.coupon[i] as CouponKey);
       const refused = measurements.checkBulk(
         db,
         part.map((i) => entryOf(mapping, c, i)),
+        known,
       );
       const refusedAt = new Map<number, ReadingProblem>();
       for (const p of refused) if (!refusedAt.has(p.entry)) refusedAt.set(p.entry, p);
@@ -341,8 +343,11 @@ export function createImportsService(deps: FeatureDeps) {
     const r = requireImport(id);
     beginJob(r, 'previewing', mapping);
     runJob(id, async (progress) => {
+      // Read before the coupons' tags and roles are (collect), which the judgement then trusts: a write
+      // committed after it (while the file is read, between chunks, or before the commit) moves it.
+      const judgedAt = measurements.changeCounter(db);
       const collected = await collect(r, mapping, progress);
-      const a = await judge(mapping, collected, (f) => progress(0.8 + f * 0.15));
+      const a = await judge(mapping, collected, judgedAt, (f) => progress(0.8 + f * 0.15));
       const problems = await finishProblems(r, mapping, a.problems);
       db.transaction((tx) => {
         replaceProblems(tx, id, problems);
@@ -360,8 +365,9 @@ export function createImportsService(deps: FeatureDeps) {
   async function commitJob(actor: User, r: ImportRow, input: CommitImportInput, kept: Kept | null, progress: (f: number) => void): Promise<CommitJob | null> {
     const { mapping } = input;
     const id = r.id;
+    const judgedAt = measurements.changeCounter(db);
     const collected = kept?.collected ?? (await collect(r, mapping, progress));
-    const a = kept?.analysis ?? (await judge(mapping, collected, (f) => progress(0.8 + f * 0.1)));
+    const a = kept?.analysis ?? (await judge(mapping, collected, judgedAt, (f) => progress(0.8 + f * 0.1)));
     const problems = kept?.problems ?? (await finishProblems(r, mapping, a.problems));
     if (input.choice === 'all-or-nothing' && a.counts.problems > 0) {
       db.transaction((tx) => {
