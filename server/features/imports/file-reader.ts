@@ -100,6 +100,11 @@ export function decode(bytes: Uint8Array, encoding: ImportFormat['encoding']): s
  * cheaper than 256 KB or 1 MB (fewer parsed rows alive at each young-generation collection).
  */
 const CHUNK_BYTES = 64 * 1024;
+/**
+ * The first step is longer: papaparse guesses the line ending (LF, CRLF or CR) from the first chunk it gets,
+ * and this keeps the guess made on the same 256 KB as when the file came through a 256 KB read stream.
+ */
+const FIRST_CHUNK_BYTES = 256 * 1024;
 
 /**
  * Streams a stored file through decoding, the line guard and papaparse, handing each non-empty record
@@ -125,9 +130,9 @@ export async function streamRows(
     const fh = await fs.promises.open(file, 'r');
     try {
       let read = 0;
-      for (;;) {
-        const buf = Buffer.allocUnsafe(CHUNK_BYTES);
-        const { bytesRead } = await fh.read(buf, 0, CHUNK_BYTES, null);
+      for (let step = FIRST_CHUNK_BYTES; ; step = CHUNK_BYTES) {
+        const buf = Buffer.allocUnsafe(step);
+        const { bytesRead } = await fh.read(buf, 0, step, null);
         if (bytesRead === 0) break;
         read += bytesRead;
         const s = decoder.write(buf.subarray(0, bytesRead));
