@@ -567,40 +567,65 @@ export function createMeasurements(deps: { now: () => Date }) {
    * rewritten in one pass. Call it inside one transaction.
    */
   function bulkDelete(tx: Db, actor: Actor, ids: { weighings?: readonly number[]; checks?: readonly number[] }, reason: string) {
+    return runSteps(bulkDeleteInSteps(tx, actor, ids, reason));
+  }
+
+  /**
+   * The same, `slice` ids per step of the UPDATE, `slice` coupons per step of the audit entries and of the
+   * results refresh (an import's undo of 100,000 weighings, written in a transaction held open across turns
+   * of the event loop: decision 0017). Yields the share done: the deletion is the first half, the audit
+   * and the refresh the second.
+   */
+  function* bulkDeleteInSteps(
+    tx: Db,
+    actor: Actor,
+    ids: { weighings?: readonly number[]; checks?: readonly number[] },
+    reason: string,
+    slice = Number.POSITIVE_INFINITY,
+  ): Steps<{ deleted: { weighings: number; checks: number }; couponIds: number[]; deletedAt: string }> {
     const deletedAt = deps.now().toISOString();
     const perCoupon = new Map<number, { weighings: unknown[]; checks: unknown[] }>();
     const lists = [
       ['weighings', ids.weighings ?? [], 'Weighing', 'select * from weighings where id in (select value from json_each(?))'],
       ['checks', ids.checks ?? [], 'Check', 'select * from checks where id in (select value from json_each(?))'],
     ] as const;
-    for (const [table, list, what, select] of lists) {
-      if (!list.length) continue;
-      const json = JSON.stringify(list);
-      const rows = prepared(tx, select).all(json) as { id: number; coupon_id: number; superseded_by: number | null; deleted_at: string | null }[];
-      const byId = new Map(rows.map((r) => [r.id, r]));
-      for (const id of list) {
-        const r = byId.get(id);
-        requireCurrent(r && { supersededBy: r.superseded_by, deletedAt: r.deleted_at }, what);
-      }
-      prepared(tx, `update ${table} set deleted_at = ? where id in (select value from json_each(?))`).run(deletedAt, json);
-      for (const r of rows) {
-        let mine = perCoupon.get(r.coupon_id);
-        if (!mine) {
-          mine = { weighings: [], checks: [] };
-          perCoupon.set(r.coupon_id, mine);
+    const total = (ids.weighings?.length ?? 0) + (ids.checks?.length ?? 0);
+    let done = 0;
+    for (const [table, all, what, select] of lists) {
+      for (let from = 0; from < all.length; from += slice) {
+        const list = from === 0 && all.length <= slice ? all : all.slice(from, from + slice);
+        const json = JSON.stringify(list);
+        const rows = prepared(tx, select).all(json) as { id: number; coupon_id: number; superseded_by: number | null; deleted_at: string | null }[];
+        const byId = new Map(rows.map((r) => [r.id, r]));
+        for (const id of list) {
+          const r = byId.get(id);
+          requireCurrent(r && { supersededBy: r.superseded_by, deletedAt: r.deleted_at }, what);
         }
-        mine[table].push(camel(r));
+        prepared(tx, `update ${table} set deleted_at = ? where id in (select value from json_each(?))`).run(deletedAt, json);
+        for (const r of rows) {
+          let mine = perCoupon.get(r.coupon_id);
+          if (!mine) {
+            mine = { weighings: [], checks: [] };
+            perCoupon.set(r.coupon_id, mine);
+          }
+          mine[table].push(camel(r));
+        }
+        done += list.length;
+        if (done < total) yield (done / total) * 0.5;
       }
     }
     const audit = auditWriter(tx, actor, 'delete-readings');
+    let n = 0;
     for (const [couponId, before] of perCoupon) {
       const after = { deletedAt, weighings: before.weighings.map((r) => (r as { id: number }).id), checks: before.checks.map((r) => (r as { id: number }).id) };
       audit(couponId, before, after, reason);
+      if (++n % slice === 0) yield 0.5 + (n / perCoupon.size) * 0.25;
     }
     const couponIds = [...perCoupon.keys()];
     const stages = new Set<WeighingStage>();
     for (const w of perCoupon.values()) for (const r of w.weighings) stages.add((r as { stage: WeighingStage }).stage);
-    refreshResults(tx, couponIds, ids.checks?.length ? {} : { weighingStages: [...stages] });
+    const refresh = refreshResultsInSteps(tx, couponIds, ids.checks?.length ? {} : { weighingStages: [...stages] }, Math.min(slice, 10_000));
+    for (let r = refresh.next(); !r.done; r = refresh.next()) yield 0.75 + r.value * 0.25;
     return { deleted: { weighings: ids.weighings?.length ?? 0, checks: ids.checks?.length ?? 0 }, couponIds, deletedAt };
   }
 
@@ -691,6 +716,7 @@ export function createMeasurements(deps: { now: () => Date }) {
     bulkAdd,
     bulkAddInSteps,
     bulkDelete,
+    bulkDeleteInSteps,
     correctWeighing,
     correctCheck,
     deleteWeighing,

@@ -2,9 +2,10 @@
 
 /**
  * An import's life: uploaded and detected → previewing (a job) → previewed → committing (a job) →
- * committed → undone. `failed` keeps the reason of a job that stopped.
+ * committed → undoing (a job) → undone. `failed` keeps the reason of a job that stopped; an undo that stops
+ * leaves the import committed, with its reason.
  */
-export const IMPORT_STATUSES = ['uploaded', 'previewing', 'previewed', 'committing', 'committed', 'undone', 'failed'] as const;
+export const IMPORT_STATUSES = ['uploaded', 'previewing', 'previewed', 'committing', 'committed', 'undoing', 'undone', 'failed'] as const;
 export type ImportStatus = (typeof IMPORT_STATUSES)[number];
 
 /** What became of one row of the file. */

@@ -1,7 +1,6 @@
-import { drizzle } from 'drizzle-orm/better-sqlite3';
-import { openSecondConnection, schema, type Db } from '../../db/client';
+import type { Db } from '../../db/client';
 import { writeAudit } from '../../db/audit';
-import { databaseBusy } from '../../db/storage-errors';
+import { writeInSteps } from '../../db/write-in-steps';
 import type { MeasurementEntry, Measurements, ReadingProblem } from '../../measurements/measurements';
 import type { Steps } from '../../measurements/steps';
 import type { ImportProblemCode, ImportRowOutcome } from '../../../shared/constants/imports';
@@ -127,11 +126,13 @@ export interface CommitOutcome {
 
 /** Readings written per step of the commit, between which the event loop gets a turn (~10–30 ms each). */
 const COMMIT_SLICE = 2_000;
-/** How long a commit waits for the write lock held by another connection before it gives up. */
-const LOCK_WAIT_MS = 30_000;
 
 /** Thrown inside the transaction when all-or-nothing was chosen and a reading is refused now. */
-class Blocked extends Error {}
+class Blocked extends Error {
+  constructor(readonly judgedAgain: boolean | null) {
+    super('Blocked');
+  }
+}
 
 /**
  * The commit's transaction, step by step: every accepted reading goes through the measurements module's
@@ -170,7 +171,7 @@ function* commitSteps(db: Db, measurements: Measurements, job: CommitJob, now: (
       problems.sort((x, y) => x.row - y.row);
     }
     a.counts.accepted = a.accepted.length;
-    if (job.choice === 'all-or-nothing' && a.counts.problems > 0) throw new Blocked();
+    if (job.choice === 'all-or-nothing' && a.counts.problems > 0) throw new Blocked(judgedAgain);
   }
   const corrections: { oldId: number; newId: number }[] = [];
   for (const i of a.corrections) {
@@ -213,62 +214,33 @@ function* commitSteps(db: Db, measurements: Measurements, job: CommitJob, now: (
   return judgedAgain;
 }
 
-const turn = () => new Promise<void>((resolve) => setImmediate(resolve));
-const pause = (ms: number) => new Promise<void>((resolve) => setTimeout(resolve, ms));
-
 /**
- * Writes the commit in ONE transaction on a connection of its own (decision 0017), held open across turns
- * of the event loop: the steps above run a slice at a time, and between slices this thread answers other
- * requests. Readers on the app's connection see the data before the commit until it ends (WAL); a write
- * arriving meanwhile finds the write lock taken and is told to try again in a moment (503), because the
- * app's connection never waits for a lock (a wait would sleep this thread). The lock is taken at the start
- * (`BEGIN IMMEDIATE`); while another connection holds it, the commit waits its turn without sleeping the
- * thread. On any error the transaction is rolled back: all accepted rows or none. Under all-or-nothing with
- * a reading refused now, nothing is written and the import goes back to `previewed`, saying why.
+ * Writes the commit through `writeInSteps` (decision 0017): one transaction on a second connection, a
+ * slice at a time with the event loop free between slices; on any error it is rolled back, all accepted
+ * rows or none. Under all-or-nothing with a reading refused now, nothing is written and the import goes
+ * back to `previewed`, saying why.
  */
-export async function writeCommit(
+export function writeCommit(
   file: string,
   measurements: Measurements,
   job: CommitJob,
   now: () => Date,
   onProgress: (f: number) => void = () => {},
 ): Promise<CommitOutcome> {
-  const sqlite = openSecondConnection(file);
-  try {
-    const db = drizzle(sqlite, { schema });
-    for (const until = Date.now() + LOCK_WAIT_MS; ;) {
-      try {
-        sqlite.exec('BEGIN IMMEDIATE');
-        break;
-      } catch (err) {
-        if (!databaseBusy(err) || Date.now() > until) throw err;
-        await pause(50);
-      }
-    }
-    let judgedAgain: boolean | null = null;
-    try {
-      const steps = commitSteps(db, measurements, job, now);
-      for (let r = steps.next(); ; r = steps.next()) {
-        if (r.done) {
-          judgedAgain = r.value;
-          break;
-        }
-        onProgress(r.value);
-        await turn();
-      }
-      sqlite.exec('COMMIT');
-    } catch (err) {
-      if (sqlite.inTransaction) sqlite.exec('ROLLBACK');
-      if (!(err instanceof Blocked)) throw err;
+  return writeInSteps<CommitOutcome>(
+    file,
+    function* (db) {
+      return { status: 'committed', judgedAgain: yield* commitSteps(db, measurements, job, now) };
+    },
+    onProgress,
+    (db, err) => {
+      if (!(err instanceof Blocked)) return null;
       const { importId: id, analysis: a, problems } = job;
       db.transaction((tx) => {
         replaceProblems(tx, id, problems);
         updateImport(tx, id, { status: 'previewed', counts: a.counts, previewRows: a.previewRows, error: blockedMessage(a.counts.problems) });
       });
-      return { status: 'blocked', judgedAgain };
-    }
-    return { status: 'committed', judgedAgain };
-  } finally {
-    sqlite.close();
-  }
+      return { value: { status: 'blocked', judgedAgain: err.judgedAgain } };
+    },
+  );
 }

@@ -86,7 +86,7 @@ export function committedWithSha(db: Db, sha256: string, exceptId: number) {
   return db
     .select({ id: imports.id, createdAt: imports.createdAt, status: imports.status })
     .from(imports)
-    .where(and(eq(imports.sha256, sha256), ne(imports.id, exceptId), inArray(imports.status, ['committed', 'committing'])))
+    .where(and(eq(imports.sha256, sha256), ne(imports.id, exceptId), inArray(imports.status, ['committed', 'committing', 'undoing'] satisfies ImportStatus[])))
     .orderBy(asc(imports.id))
     .all();
 }
@@ -121,7 +121,15 @@ export function importWithNames(db: Db, id: number) {
     .get();
 }
 
+/**
+ * Jobs the server stopped in the middle of (a restart, a crash): their transaction never committed, so a
+ * preview or commit failed, and an undo left the import as it was, committed.
+ */
 export function markStaleJobsFailed(db: Db): void {
+  db.update(imports)
+    .set({ status: 'committed', error: 'The server stopped while this import was being undone; nothing was changed, undo it again' })
+    .where(eq(imports.status, 'undoing' satisfies ImportStatus))
+    .run();
   db.update(imports)
     .set({ status: 'failed', error: 'The server stopped while this import was being processed; preview it again' })
     .where(inArray(imports.status, ['previewing', 'committing'] satisfies ImportStatus[]))

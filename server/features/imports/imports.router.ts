@@ -50,7 +50,7 @@ export function importsRoutes(deps: FeatureDeps) {
   r.post('/imports/:id/commit', { access: 'technician', status: 202, schemas: { ...id, body: commitImportSchema } }, ({ user, params, body }) =>
     service.commit(user, params.id, body),
   );
-  r.post('/imports/:id/undo', { access: 'technician', schemas: { ...id, body: undoImportSchema } }, ({ user, params, body }) =>
+  r.post('/imports/:id/undo', { access: 'technician', status: 202, schemas: { ...id, body: undoImportSchema } }, ({ user, params, body }) =>
     service.undo(user, params.id, body.reason),
   );
   return r;

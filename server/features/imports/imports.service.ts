@@ -29,10 +29,8 @@ import {
   allPresets,
   committedWithSha,
   countFileUses,
-  currentWeighingIdsOfImport,
   findImport,
   findPresetByName,
-  findWeighingState,
   importWithNames,
   insertImport,
   insertPreset,
@@ -48,6 +46,7 @@ import {
 } from './imports.repo';
 import { createReceiver } from './upload';
 import { collectReadings, finishProblems as finishProblemsOf } from './collect';
+import { writeUndo } from './undo';
 import { blockedMessage, entryOf, MAX_PROBLEMS, previewRowsOf, refusal, writeCommit, type Analysis, type Collected, type CommitJob } from './commit';
 
 /** Readings judged by the measurements module per step; the event loop gets a turn between steps. */
@@ -313,13 +312,21 @@ export function createImportsService(deps: FeatureDeps) {
   }
 
   function beginJob(r: ImportRow, status: ImportStatus, mapping: ImportMapping) {
-    if (r.status === 'previewing' || r.status === 'committing') throw new Conflict('This import is being processed; wait for it to finish');
+    if (r.status === 'previewing' || r.status === 'committing' || r.status === 'undoing')
+      throw new Conflict('This import is being processed; wait for it to finish');
     if (r.status === 'committed' || r.status === 'undone') throw new Conflict(`This import was already ${r.status}; upload the file again to import it anew`);
     updateImport(db, r.id, { status, mapping, stage: mapping.stage, error: null });
     jobs.set(r.id, { progress: 0 });
   }
 
-  function runJob(id: number, work: (progress: (fraction: number) => void) => Promise<void>): void {
+  /** A job's failure: the status it leaves the import in, and what it says when the cause is not the user's. */
+  const PROCESSING_FAILED = { status: 'failed', message: 'Something went wrong while processing the file; nothing was imported' } as const;
+
+  function runJob(
+    id: number,
+    work: (progress: (fraction: number) => void) => Promise<void>,
+    failure: { status: ImportStatus; message: string } = PROCESSING_FAILED,
+  ): void {
     const progress = (f: number) => {
       const j = jobs.get(id);
       if (j) j.progress = Math.min(1, Math.max(j.progress, f));
@@ -329,9 +336,9 @@ export function createImportsService(deps: FeatureDeps) {
         await work(progress);
       } catch (err) {
         keptCache.delete(id);
-        const message = err instanceof AppError ? err.message : 'Something went wrong while processing the file; nothing was imported';
+        const message = err instanceof AppError ? err.message : failure.message;
         if (!(err instanceof AppError)) deps.logger.error({ err, importId: id }, 'import job failed');
-        updateImport(db, id, { status: 'failed', error: message });
+        updateImport(db, id, { status: failure.status, error: message });
       } finally {
         jobs.delete(id);
       }
@@ -422,29 +429,27 @@ export function createImportsService(deps: FeatureDeps) {
   }
 
   /**
-   * Undoes a committed import: its current weighings are soft-deleted through the measurements module
-   * in one set-based step (kept, never removed; one audit entry per coupon) and the readings it
-   * corrected get their earlier values back as new corrections; the audit log names who, when and why.
+   * Starts the undo job of a committed import (the client polls it until its status leaves `undoing`): its
+   * current weighings are soft-deleted through the measurements module (kept, never removed; one audit
+   * entry per coupon) and the readings it corrected get their earlier values back as new corrections; the
+   * audit log names who, when and why. Written as the commit is (`writeUndo`, decision 0017): one
+   * transaction on a second connection, a slice at a time while other requests are served. On a failure
+   * nothing is changed and the import is `committed` again, saying why.
    */
   function undo(actor: User, id: number, reason: string): ImportDetail {
-    db.transaction((tx) => {
-      const r = findImport(tx, id);
-      if (!r) throw new NotFound('Import');
-      if (r.status !== 'committed') throw new Conflict(r.status === 'undone' ? 'This import was already undone' : 'Only a committed import can be undone');
-      const why = `Import ${id} undone: ${reason}`;
-      const ids = currentWeighingIdsOfImport(tx, id);
-      if (ids.length) measurements.bulkDelete(tx, actor, { weighings: ids }, why);
-      for (const c of r.corrections ?? []) {
-        const now = findWeighingState(tx, c.newId);
-        const old = findWeighingState(tx, c.oldId);
-        if (now && old && now.supersededBy === null && now.deletedAt === null) {
-          measurements.correctWeighing(tx, actor, c.newId, { massG: old.massG, measuredAt: old.measuredAt, reason: why });
-        }
-      }
-      const undoneAt = deps.now().toISOString();
-      updateImport(tx, id, { status: 'undone', undoneAt, undoneBy: actor.id, undoReason: reason });
-      writeAudit(tx, { actorId: actor.id, action: 'undo', entity: 'import', entityId: id, before: { status: r.status }, after: { status: 'undone' }, reason });
-    });
+    const r = requireImport(id);
+    if (r.status === 'undoing') throw new Conflict('This import is being undone; wait for it to finish');
+    if (r.status !== 'committed') throw new Conflict(r.status === 'undone' ? 'This import was already undone' : 'Only a committed import can be undone');
+    updateImport(db, id, { status: 'undoing', error: null });
+    jobs.set(id, { progress: 0 });
+    runJob(
+      id,
+      async (progress) => {
+        await writeUndo(deps.database.sqlite.name, measurements, { importId: id, actor: { id: actor.id }, reason }, deps.now, progress);
+        deps.logger.info({ importId: id }, 'import undo written');
+      },
+      { status: 'committed', message: 'Something went wrong while undoing this import; nothing was changed' },
+    );
     return detail(id);
   }
 

@@ -8,6 +8,7 @@ import { startHarness, type Harness, type HarnessOptions } from '../../testing/h
 import { drizzle } from 'drizzle-orm/better-sqlite3';
 import { openSecondConnection, schema } from '../../db/client';
 import { createMeasurements } from '../../measurements/measurements';
+import { markStaleJobsFailed } from './imports.repo';
 import { refreshResults } from '../../measurements/results';
 import { auditLog } from '../../db/schema/admin';
 import { coupons, weighings } from '../../db/schema/coupons';
@@ -47,7 +48,7 @@ async function settle(agent: Agent, id: number): Promise<ImportDetail> {
   for (;;) {
     const res = await agent.get(`/api/imports/${id}`);
     expect(res.status).toBe(200);
-    if (res.body.status !== 'previewing' && res.body.status !== 'committing') return res.body;
+    if (res.body.status !== 'previewing' && res.body.status !== 'committing' && res.body.status !== 'undoing') return res.body;
     await new Promise((r) => setTimeout(r, 20));
   }
 }
@@ -193,8 +194,9 @@ describe('imports: upload, detect, preview, commit, undo', () => {
     expect(list.items.find((i: { id: number }) => i.id === d.id)).toMatchObject({ status: 'committed', stage: 'dry', createdByName: expect.any(String) });
 
     expect((await s.tech.post(`/api/imports/${d.id}/undo`).send({})).status).toBe(400);
-    const u = await s.tech.post(`/api/imports/${d.id}/undo`).send({ reason: 'wrong stage picked' });
-    expect(u.status, JSON.stringify(u.body)).toBe(200);
+    const started = await s.tech.post(`/api/imports/${d.id}/undo`).send({ reason: 'wrong stage picked' });
+    expect(started.status, JSON.stringify(started.body)).toBe(202);
+    const u = { body: await settle(s.tech, d.id) };
     expect(u.body).toMatchObject({ status: 'undone', undoReason: 'wrong stage picked', undoneByName: expect.any(String) });
     expect(currentOf(s.h, s.ids['FX-01']!)).toEqual([]);
     // Superseded, never deleted: the rows stay, marked, and the audit says who and why.
@@ -403,7 +405,8 @@ describe('imports: every problem class explained by row and column', () => {
     expect(c.status, c.error ?? '').toBe('committed');
     expect(c.counts).toMatchObject({ accepted: 2, corrections: 1 });
     expect(currentOf(s.h, s.ids['FX-01']!).map((w) => w.massG)).toEqual([12.345]);
-    await s.tech.post(`/api/imports/${d.id}/undo`).send({ reason: 'wrong file' }).expect(200);
+    await s.tech.post(`/api/imports/${d.id}/undo`).send({ reason: 'wrong file' }).expect(202);
+    expect((await settle(s.tech, d.id)).status).toBe('undone');
     expect(currentOf(s.h, s.ids['FX-01']!).map((w) => w.massG)).toEqual([12.5]);
     expect(currentOf(s.h, s.ids['FX-02']!)).toEqual([]);
   });
@@ -579,6 +582,108 @@ describe('imports: files refused with a clear answer, nothing left behind', () =
       n: number;
     };
     expect(after.n).toBe(6_000);
+  });
+});
+
+describe('imports: undo of a big import, a slice at a time', () => {
+  let s: Awaited<ReturnType<typeof shop>>;
+  beforeAll(async () => {
+    s = await shop();
+  });
+  afterAll(async () => {
+    await s.h.close();
+  });
+
+  const stored = () =>
+    (s.h.database.sqlite.prepare("select count(*) as n from coupon_results where tag like 'UN-%' and dry_mass_g is not null").get() as { n: number }).n;
+
+  it('leaves every weighing current when the database fails in the middle of an undo, then undoes whole while serving', async () => {
+    const sp = s.h.database.db.select().from(species).limit(1).get()!;
+    const tags = Array.from({ length: 5_000 }, (_, i) => `UN-${String(i).padStart(4, '0')}`);
+    const ins = s.h.database.sqlite.prepare("insert into coupons (tag, species_id, role) values (?, ?, 'treated')");
+    s.h.database.db.transaction((tx) =>
+      refreshResults(
+        tx,
+        tags.map((t) => Number(ins.run(t, sp.id).lastInsertRowid)),
+      ),
+    );
+    const lines = ['tag,mass', ...tags.map((t, i) => `${t},${(12 + i / 10_000).toFixed(4)}`)];
+    const d = (await upload(s.tech, 'undo-slices.csv', Buffer.from(`${lines.join('\n')}\n`))).body as ImportDetail;
+    expect((await committed(s.tech, d)).status).toBe('committed');
+    const written = s.h.database.db.select({ id: weighings.id }).from(weighings).where(eq(weighings.importId, d.id)).all();
+    expect(written).toHaveLength(5_000);
+    const last = Math.max(...written.map((w) => w.id));
+    const current = () =>
+      s.h.database.db
+        .select({ id: weighings.id })
+        .from(weighings)
+        .where(and(eq(weighings.importId, d.id), isNull(weighings.deletedAt)))
+        .all().length;
+    const deletions = () =>
+      s.h.database.db
+        .select()
+        .from(auditLog)
+        .where(and(eq(auditLog.action, 'delete-readings'), eq(auditLog.entity, 'coupon')))
+        .all().length;
+    expect(stored()).toBe(5_000);
+
+    // A real failure inside SQLite on the soft-delete of the last weighing, after two slices of 2,000 were written.
+    s.h.database.sqlite.exec(
+      `create trigger fail_mid_undo before update of deleted_at on weighings when new.id = ${last} begin select raise(abort, 'disk trouble'); end`,
+    );
+    const healthDuring: number[] = [];
+    try {
+      expect((await s.tech.post(`/api/imports/${d.id}/undo`).send({ reason: 'wrong balance' })).status).toBe(202);
+      for (;;) {
+        const r = await s.tech.get(`/api/imports/${d.id}`);
+        healthDuring.push((await s.tech.get('/api/health')).status);
+        if (r.body.status !== 'undoing') {
+          expect(r.body.status).toBe('committed');
+          expect(r.body.error).toMatch(/nothing was changed/);
+          break;
+        }
+      }
+    } finally {
+      s.h.database.sqlite.exec('drop trigger fail_mid_undo');
+    }
+    expect(healthDuring.every((x) => x === 200)).toBe(true);
+    expect(current()).toBe(5_000);
+    expect(stored()).toBe(5_000);
+    expect(deletions()).toBe(0);
+
+    // Again, whole: reads and health answer meanwhile; a write that arrives while the undo's transaction is
+    // open (the import reads `undoing` before and after it) is told to try again in a moment.
+    const sp2 = s.h.database.db.select().from(species).limit(1).get()!;
+    const during: { before: string; after: string; write: number; health: number }[] = [];
+    expect((await s.tech.post(`/api/imports/${d.id}/undo`).send({ reason: 'wrong balance' })).status).toBe(202);
+    for (;;) {
+      const before = (await s.tech.get(`/api/imports/${d.id}`)).body.status as string;
+      if (before !== 'undoing') {
+        expect(before).toBe('undone');
+        break;
+      }
+      const write = (await s.tech.post('/api/coupons').send({ tag: `UW-${during.length}`, speciesId: sp2.id, role: 'treated' })).status;
+      const health = (await s.tech.get('/api/health')).status;
+      const after = (await s.tech.get(`/api/imports/${d.id}`)).body.status as string;
+      during.push({ before, after, write, health });
+    }
+    expect(during.every((x) => x.health === 200)).toBe(true);
+    for (const x of during) if (x.after === 'undoing') expect(x.write).toBe(503);
+    expect(current()).toBe(0);
+    expect(stored()).toBe(0);
+    expect(deletions()).toBe(5_000);
+    const undone = (await s.tech.get(`/api/imports/${d.id}`)).body as ImportDetail;
+    expect(undone).toMatchObject({ status: 'undone', undoReason: 'wrong balance', error: null });
+  });
+
+  it('puts an import the server stopped undoing back to committed, not failed', async () => {
+    const d = (await upload(s.tech, 'comma-header.csv')).body as ImportDetail;
+    expect((await committed(s.tech, d)).status).toBe('committed');
+    s.h.database.sqlite.prepare("update imports set status = 'undoing' where id = ?").run(d.id);
+    markStaleJobsFailed(s.h.database.db);
+    const r = (await s.tech.get(`/api/imports/${d.id}`)).body as ImportDetail;
+    expect(r.status).toBe('committed');
+    expect(r.error).toMatch(/stopped while this import was being undone/);
   });
 });
 

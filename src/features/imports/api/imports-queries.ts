@@ -11,7 +11,7 @@ export const importKeys = {
 };
 
 /** A job is running on the server: the import is polled until it is not. */
-export const isBusy = (d: Pick<ImportDetail, 'status'> | undefined) => d?.status === 'previewing' || d?.status === 'committing';
+export const isBusy = (d: Pick<ImportDetail, 'status'> | undefined) => d?.status === 'previewing' || d?.status === 'committing' || d?.status === 'undoing';
 
 /** The history, newest first. */
 export const importListQuery = (page = 1) =>
@@ -21,7 +21,7 @@ export const importListQuery = (page = 1) =>
     placeholderData: keepPreviousData,
   });
 
-/** One import; polled twice a second while its preview or commit runs. */
+/** One import; polled twice a second while its preview, commit or undo runs. */
 export const importQuery = (id: number) =>
   queryOptions({
     queryKey: importKeys.detail(id),

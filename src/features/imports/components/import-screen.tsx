@@ -183,7 +183,9 @@ export function ImportScreen() {
   if (q.isPending) return <Page title="Import">{<Loading />}</Page>;
   if (q.isError) return <Page title="Import">{<ErrorNote error={q.error} />}</Page>;
   const d = q.data;
-  const editable = can('technician') && (d.status === 'uploaded' || d.status === 'previewed' || d.status === 'failed' || isBusy(d));
+  // An undo's job runs on a committed import: there is no mapping left to edit.
+  const editable = can('technician') && (d.status === 'uploaded' || d.status === 'previewed' || d.status === 'failed' || (isBusy(d) && d.status !== 'undoing'));
+  const busyLabel = d.status === 'committing' ? 'Importing' : d.status === 'undoing' ? 'Undoing' : 'Checking every row';
   return (
     <Page
       title={`Import: ${d.originalName}`}
@@ -206,8 +208,8 @@ export function ImportScreen() {
           .
         </p>
       )}
-      {isBusy(d) && <ProgressBar label={d.status === 'committing' ? 'Importing' : 'Checking every row'} value={d.progress} />}
-      {d.status === 'failed' && d.error && <ErrorNote error={new Error(d.error)} />}
+      {isBusy(d) && <ProgressBar label={busyLabel} value={d.progress} />}
+      {(d.status === 'failed' || d.status === 'committed') && d.error && <ErrorNote error={new Error(d.error)} />}
       {editable && <MappingForm key={d.mapping ? 'mapped' : 'fresh'} d={d} />}
       {!isBusy(d) && <Preview d={d} />}
       {d.status === 'committed' && can('technician') && <UndoForm d={d} />}

@@ -17,6 +17,7 @@ export const STATUS_LABELS: Record<ImportStatus, string> = {
   previewed: 'Previewed',
   committing: 'Importing…',
   committed: 'Imported',
+  undoing: 'Undoing…',
   undone: 'Undone',
   failed: 'Stopped with an error',
 };

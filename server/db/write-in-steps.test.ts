@@ -1,0 +1,81 @@
+import { sql } from 'drizzle-orm';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { startHarness, type Harness } from '../testing/harness';
+import { species } from './schema/reference';
+import { writeInSteps } from './write-in-steps';
+
+describe('writeInSteps: one transaction on a second connection, the event loop free between steps', () => {
+  let h: Harness;
+  let tech: Awaited<ReturnType<Harness['signIn']>>;
+  beforeAll(async () => {
+    h = await startHarness();
+    tech = await h.signIn('tech@demo.test');
+  });
+  afterAll(async () => {
+    await h.close();
+  });
+
+  const count = () => (h.database.sqlite.prepare("select count(*) as n from audit_log where action = 'step-test'").get() as { n: number }).n;
+  const insert = "insert into audit_log (action, entity, entity_id) values ('step-test', 'test', '1')";
+
+  it('answers reads and health between steps, tells writes to try again, and commits everything at the end', async () => {
+    const sp = h.database.db.select().from(species).limit(1).get()!;
+    let released = false;
+    let turns = 0;
+    const progress: number[] = [];
+    const written = writeInSteps(
+      h.database.sqlite.name,
+      function* (db) {
+        db.run(sql.raw(insert));
+        // Holds the transaction open, a turn of the event loop at a time, until the test has been answered.
+        while (!released) {
+          turns++;
+          yield 0.5;
+        }
+        db.run(sql.raw(insert));
+        return 'done';
+      },
+      (f) => progress.push(f),
+    );
+    expect((await tech.get('/api/health')).status).toBe(200);
+    expect((await tech.get('/api/coupons?pageSize=1')).status).toBe(200);
+    const write = await tech.post('/api/coupons').send({ tag: 'STEP-1', speciesId: sp.id, role: 'treated' });
+    expect(write.status).toBe(503);
+    // Readers see the data before the transaction until it commits.
+    expect(count()).toBe(0);
+    released = true;
+    expect(await written).toBe('done');
+    expect(turns).toBeGreaterThan(1);
+    expect(progress.every((f) => f === 0.5)).toBe(true);
+    expect(count()).toBe(2);
+    expect((await tech.post('/api/coupons').send({ tag: 'STEP-1', speciesId: sp.id, role: 'treated' })).status).toBe(201);
+  });
+
+  it('rolls everything back on an error in a later step, and lets recover answer instead', async () => {
+    const before = count();
+    await expect(
+      writeInSteps(h.database.sqlite.name, function* (db) {
+        db.run(sql.raw(insert));
+        yield 0.5;
+        throw new Error('late failure');
+      }),
+    ).rejects.toThrow('late failure');
+    expect(count()).toBe(before);
+    const recovered = await writeInSteps(
+      h.database.sqlite.name,
+      function* (db): Generator<number, string, void> {
+        db.run(sql.raw(insert));
+        yield 0.5;
+        throw new Error('late failure');
+      },
+      () => {},
+      (db, err) => {
+        // The same connection, after the rollback: what the failure means is written on its own.
+        db.run(sql.raw(insert));
+        return { value: (err as Error).message };
+      },
+    );
+    expect(recovered).toBe('late failure');
+    expect(count()).toBe(before + 1);
+  });
+});
