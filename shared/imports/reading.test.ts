@@ -74,7 +74,8 @@ describe('parseReading fast path', () => {
   const tricky = [
     '12.345', '0', '-0', '+0', '007', '12.', '.5', ',5', '5,', '-12.345', '+12.345', '--1', '+-1', '-', '+', '', ' ', '1.2.3',
     '1,2,3', '12,345', '1,234.5', '1.234,5', '1 234', "1'234", '12.345 ', ' 12.345', '12.345g', '12.345 g', '1e5', '0x10',
-    'Infinity', 'NaN', '١٢', '１２', '12\u00a0', '9'.repeat(400), `${'9'.repeat(400)}.5`, '0.000000000000000000001',
+    '12.345 g', '+   12.345 g', '- 0.5 kg', '12.345g', '12.345  G', '0,452oz', '12.345 g ', '12.345 gr', '12.345 st', '12.345 us', '12.345 g.',
+    '12.345 constructor', '12.345 lbs', '12 ounces', '12.345 \u00a0g', '+ ', '- g', '12.345 ST', 'Infinity', 'NaN', '١٢', '１２', '12\u00a0', '9'.repeat(400), `${'9'.repeat(400)}.5`, '0.000000000000000000001',
     '123456789012345678901234567890', 'E1', 'OL', '-OL-', '12.345?', '12,345 g', '- 5', '+ 5', '5-', '5+', '.', ',', '-.5', '-,5',
   ];
   it.each(['.', ','] as const)('gives the general answer on tricky inputs (decimal %s)', (decimal) => {
@@ -85,9 +86,9 @@ describe('parseReading fast path', () => {
     // A fixed linear congruential sequence (Numerical Recipes' constants): the same strings on every run.
     let seed = 12345;
     const next = () => (seed = (seed * 1664525 + 1013904223) >>> 0) / 2 ** 32;
-    const alphabet = '0123456789012345678901234567.,+- g';
-    for (let k = 0; k < 20_000; k++) {
-      const len = 1 + Math.floor(next() * 9);
+    const alphabet = '0123456789012345678901234567.,+-   gGkoOzlbsStTuUdDw?é';
+    for (let k = 0; k < 40_000; k++) {
+      const len = 1 + Math.floor(next() * 12);
       let text = '';
       for (let i = 0; i < len; i++) text += alphabet[Math.floor(next() * alphabet.length)];
       const decimal: DecimalMark = next() < 0.5 ? '.' : ',';

@@ -59,30 +59,48 @@ const POINT_NUMBER = numberPatterns('\\.', "[, ']");
 const COMMA_NUMBER = numberPatterns(',', "[. ']");
 
 /**
- * The shape nearly every row of a scale's file has: digits, at most one decimal mark with digits after
- * it, an optional sign before — no padding, unit, flag or grouping. Read straight from the characters,
- * with exactly the answer the general path gives (reading.test.ts compares both on many inputs);
- * anything else gets undefined, and the general path.
+ * The shapes nearly every row of a scale's file has: an optional sign and spaces, digits with at most one
+ * decimal mark (digits on both sides), then optionally spaces and a unit Lumenbook knows ("12.345",
+ * "-0.5", "+   12.345 g", "0,452oz") — no flag, grouping or other padding. Read straight from the
+ * characters, with exactly the answer the general path gives (reading.test.ts compares both on many
+ * inputs); anything else gets null, and the general path.
  */
-function plainNumber(s: string, decimal: DecimalMark): number | undefined {
+function plainReading(s: string, decimal: DecimalMark): Reading | null {
   const n = s.length;
   let i = 0;
-  let c = s.charCodeAt(0);
-  if (c === 43 || c === 45) i = 1; // + -
+  const first = s.charCodeAt(0);
+  if (first === 43 || first === 45) {
+    i = 1; // + -
+    while (s.charCodeAt(i) === 32) i++;
+  }
   const start = i;
   const mark = decimal === ',' ? 44 : 46;
   let at = -1;
   for (; i < n; i++) {
-    c = s.charCodeAt(i);
+    const c = s.charCodeAt(i);
     if (c >= 48 && c <= 57) continue;
-    if (c !== mark || at >= 0) return undefined;
+    if (c !== mark || at >= 0) break;
     at = i;
   }
-  // A digit on both sides of the mark, and at least one digit.
-  if (i === start || at === start || at === n - 1) return undefined;
-  const value = Number(at >= 0 && decimal === ',' ? `${s.slice(start, at)}.${s.slice(at + 1)}` : start ? s.slice(start) : s);
-  if (!Number.isFinite(value)) return undefined;
-  return s.charCodeAt(0) === 45 ? -value : value;
+  const end = i;
+  // At least one digit, and a digit on both sides of the mark.
+  if (end === start || at === start || at === end - 1) return null;
+  let unit: ImportMassUnit | null = null;
+  if (end < n) {
+    while (s.charCodeAt(i) === 32) i++;
+    const from = i;
+    for (; i < n; i++) {
+      const c = s.charCodeAt(i) | 32; // lower case
+      if (c < 97 || c > 122) return null;
+    }
+    if (from === n) return null; // trailing spaces
+    unit = readMassUnit(s.slice(from));
+    if (!unit) return null;
+  }
+  const digits = s.slice(start, end);
+  const value = Number(at >= 0 && decimal === ',' ? digits.replace(',', '.') : digits);
+  if (!Number.isFinite(value)) return null;
+  return { ok: true, value: first === 45 ? -value : value, unit, stable: null };
 }
 
 /**
@@ -92,9 +110,7 @@ function plainNumber(s: string, decimal: DecimalMark): number | undefined {
  * The value keeps its sign; deciding that a negative mass is impossible is the caller's business.
  */
 export function parseReading(text: string, decimal: DecimalMark = '.'): Reading {
-  const plain = plainNumber(text, decimal);
-  if (plain !== undefined) return { ok: true, value: plain, unit: null, stable: null };
-  return parseReadingGeneral(text, decimal);
+  return plainReading(text, decimal) ?? parseReadingGeneral(text, decimal);
 }
 
 /** parseReading without its fast path (exported for the tests that compare the two). */
