@@ -39,6 +39,9 @@ export function addCoupons(d: Database_, n: number) {
   })();
 }
 
+/** The import's phases, then its undo. */
+type Phase = 'upload' | 'preview' | 'commit' | 'undo';
+
 export interface ServerFigures {
   rows: number;
   /** Resident memory of the server process: idle after start, highest during the import, the kernel's high-water mark. */
@@ -46,14 +49,16 @@ export interface ServerFigures {
   rssPeakMb: number;
   rssHighWaterMb: number;
   /** The highest resident memory seen in each phase. */
-  rssPeakByPhaseMb: Record<'upload' | 'preview' | 'commit', number>;
-  /** Wall time and the server's CPU time (all its threads) per phase. */
-  ms: { upload: number; preview: number; commit: number; total: number };
-  cpuMs: { upload: number; preview: number; commit: number };
+  rssPeakByPhaseMb: Record<Phase, number>;
+  /** Wall time and the server's CPU time (all its threads) per phase; `total` is the import's (upload to commit). */
+  ms: Record<Phase, number> & { total: number };
+  cpuMs: Record<Phase, number>;
   /** The CPU time of the main thread alone (the one that answers requests; other threads: libuv's pool, V8's helpers). */
-  mainCpuMs: { upload: number; preview: number; commit: number };
+  mainCpuMs: Record<Phase, number>;
   /** /api/health asked every 50 ms from this process, per phase: answers, the slowest, how many said `busy`. */
-  health: Record<'upload' | 'preview' | 'commit', { answers: number; slowestMs: number; busy: number; failed: number }>;
+  health: Record<Phase, { answers: number; slowestMs: number; busy: number; failed: number }>;
+  /** After the import, its undo (a job, as the commit): the highest resident memory seen while it ran. */
+  rssPeakUndoMb: number;
 }
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
@@ -132,7 +137,7 @@ export async function measureServerAlone(n = 100_000, port = Number(process.env.
     const settle = async (id: number) => {
       for (;;) {
         const b = await json(await fetch(`${base}/api/imports/${id}`, { headers }));
-        if (b.status !== 'previewing' && b.status !== 'committing') return b;
+        if (b.status !== 'previewing' && b.status !== 'committing' && b.status !== 'undoing') return b;
         await new Promise((r) => setTimeout(r, 50));
       }
     };
@@ -141,14 +146,15 @@ export async function measureServerAlone(n = 100_000, port = Number(process.env.
     await new Promise((r) => setTimeout(r, 500));
     const idle = procStatus(pid).rss;
     let peak = idle;
-    let phase: 'upload' | 'preview' | 'commit' = 'upload';
+    let phase: Phase = 'upload';
     const health = {
       upload: { answers: 0, slowestMs: 0, busy: 0, failed: 0 },
       preview: { answers: 0, slowestMs: 0, busy: 0, failed: 0 },
       commit: { answers: 0, slowestMs: 0, busy: 0, failed: 0 },
+      undo: { answers: 0, slowestMs: 0, busy: 0, failed: 0 },
     };
     let on = true;
-    const byPhase = { upload: 0, preview: 0, commit: 0 };
+    const byPhase = { upload: 0, preview: 0, commit: 0, undo: 0 };
     const sampler = setInterval(() => {
       const rss = procStatus(pid).rss;
       peak = Math.max(peak, rss);
@@ -176,14 +182,14 @@ export async function measureServerAlone(n = 100_000, port = Number(process.env.
       }
     })();
 
-    const ms = { upload: 0, preview: 0, commit: 0, total: 0 };
-    const cpuMs = { upload: 0, preview: 0, commit: 0 };
-    const mainCpuMs = { upload: 0, preview: 0, commit: 0 };
+    const ms = { upload: 0, preview: 0, commit: 0, undo: 0, total: 0 };
+    const cpuMs = { upload: 0, preview: 0, commit: 0, undo: 0 };
+    const mainCpuMs = { upload: 0, preview: 0, commit: 0, undo: 0 };
     let cpu0 = procCpuMs(pid);
     let main0 = procCpuMs(pid, true);
     let t0 = performance.now();
     const start = t0;
-    const lap = (name: 'upload' | 'preview' | 'commit') => {
+    const lap = (name: Phase) => {
       const t = performance.now();
       ms[name] = t - t0;
       t0 = t;
@@ -219,18 +225,27 @@ export async function measureServerAlone(n = 100_000, port = Number(process.env.
     const c = await settle(d.id as number);
     lap('commit');
     ms.total = performance.now() - start;
+    const counts = c.counts as { accepted: number };
+    if (c.status !== 'committed' || counts.accepted !== n) throw new Error(`commit ended ${String(c.status)}: ${String(c.error)} ${JSON.stringify(c.counts)}`);
+    // The import's own figures end here; the undo's are kept apart.
+    const importPeak = peak;
+    const importHighWater = procStatus(pid).hwm;
+    phase = 'undo';
+    await post(`/api/imports/${d.id}/undo`, { reason: 'benchmark' });
+    const u = await settle(d.id as number);
+    lap('undo');
     on = false;
     await poller;
     clearInterval(sampler);
-    const counts = c.counts as { accepted: number };
-    if (c.status !== 'committed' || counts.accepted !== n) throw new Error(`commit ended ${String(c.status)}: ${String(c.error)} ${JSON.stringify(c.counts)}`);
+    if (u.status !== 'undone') throw new Error(`undo ended ${String(u.status)}: ${String(u.error)}`);
     const mb = (b: number) => Math.round(b / 1024 / 1024);
     return {
       rows: n,
       rssIdleMb: mb(idle),
-      rssPeakMb: mb(peak),
-      rssHighWaterMb: mb(procStatus(pid).hwm),
-      rssPeakByPhaseMb: { upload: mb(byPhase.upload), preview: mb(byPhase.preview), commit: mb(byPhase.commit) },
+      rssPeakMb: mb(importPeak),
+      rssHighWaterMb: mb(importHighWater),
+      rssPeakUndoMb: mb(byPhase.undo),
+      rssPeakByPhaseMb: { upload: mb(byPhase.upload), preview: mb(byPhase.preview), commit: mb(byPhase.commit), undo: mb(byPhase.undo) },
       ms,
       cpuMs,
       mainCpuMs,
@@ -258,6 +273,8 @@ export function describeServerFigures(f: ServerFigures): string {
     `  server CPU of its main thread: upload+detect ${r(f.mainCpuMs.upload)} ms, preview ${r(f.mainCpuMs.preview)} ms, commit ${r(f.mainCpuMs.commit)} ms`,
     `  RSS: ${f.rssIdleMb} MB idle after start, ${f.rssPeakMb} MB at its highest during the import (upload ${f.rssPeakByPhaseMb.upload}, preview ${f.rssPeakByPhaseMb.preview}, commit ${f.rssPeakByPhaseMb.commit} MB), high-water mark ${f.rssHighWaterMb} MB`,
     `  /api/health every 50 ms from another process: ${h('upload')}; ${h('preview')}; ${h('commit')}`,
+    `  undo of the import (a job, one transaction a slice at a time): wall ${r(f.ms.undo)} ms, server CPU ${r(f.cpuMs.undo)} ms (main thread ${r(f.mainCpuMs.undo)} ms), RSS at its highest ${f.rssPeakUndoMb} MB`,
+    `  /api/health during the undo: ${h('undo')}`,
   ].join('\n');
 }
 
