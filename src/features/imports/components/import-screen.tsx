@@ -1,5 +1,5 @@
 import { useQuery } from '@tanstack/react-query';
-import { useState, type FormEvent } from 'react';
+import { useEffect, useRef, useState, type FormEvent } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import type { ImportDetail } from '../../../../shared/schemas/imports';
 import { ErrorNote, Loading, Page } from '../../../components/ui/page';
@@ -7,6 +7,7 @@ import { paths } from '../../../config/paths';
 import { idParam } from '../../../lib/routing';
 import { useRole } from '../../../lib/session';
 import { useUnits } from '../../../lib/use-units';
+import { useInvalidate } from '../../../lib/queries/invalidate';
 import { importProblemsQuery, importQuery, isBusy, PROBLEMS_PAGE } from '../api/imports-queries';
 import { useUndo } from '../api/use-import-actions';
 import { MappingForm } from './mapping-form';
@@ -179,6 +180,15 @@ export function ImportScreen() {
   const id = idParam(useParams());
   const { can } = useRole();
   const q = useQuery({ ...importQuery(id ?? 0), enabled: id !== null });
+  // A job's writes (a commit's or an undo's) become visible when it ends, not when it was asked for: the
+  // coupons, runs and results read meanwhile are read again then.
+  const invalidate = useInvalidate();
+  const busy = isBusy(q.data);
+  const wasBusy = useRef(busy);
+  useEffect(() => {
+    if (wasBusy.current && !busy) void invalidate('imports');
+    wasBusy.current = busy;
+  }, [busy, invalidate]);
   if (id === null) return <Page title="Import">{<p>There is no import at this address.</p>}</Page>;
   if (q.isPending) return <Page title="Import">{<Loading />}</Page>;
   if (q.isError) return <Page title="Import">{<ErrorNote error={q.error} />}</Page>;
