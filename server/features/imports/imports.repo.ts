@@ -157,14 +157,14 @@ export function problemsOf(db: Db, importId: number, limit: number, offset: numb
   return { items, total };
 }
 
-/** Current (not superseded, not deleted) weighings an import wrote. */
-export function currentWeighingIdsOfImport(db: Db, importId: number): number[] {
-  return db
-    .select({ id: weighings.id })
-    .from(weighings)
-    .where(and(eq(weighings.importId, importId), isNull(weighings.supersededBy), isNull(weighings.deletedAt)))
-    .all()
-    .map((r) => r.id);
+/**
+ * Current (not superseded, not deleted) weighings an import wrote, `limit` at a time in id order after
+ * `afterId` (an undo of 100,000 weighings reads them a page per step, through the import's index).
+ */
+export function currentWeighingIdsOfImportAfter(db: Db, importId: number, afterId: number, limit: number): number[] {
+  return prepared(db, 'select id from weighings where import_id = ? and id > ? and superseded_by is null and deleted_at is null order by id limit ? -- pluck')
+    .pluck(true)
+    .all(importId, afterId, limit) as number[];
 }
 
 export function findWeighingState(db: Db, id: number) {
