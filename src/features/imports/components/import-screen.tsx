@@ -206,7 +206,7 @@ export function ImportScreen() {
       }
     >
       <Facts d={d} />
-      {d.sameFile.length > 0 && d.status !== 'committed' && (
+      {d.sameFile.length > 0 && d.status !== 'committed' && d.status !== 'undoing' && (
         <p role="note" className="mb-4 rounded border border-margin/40 bg-margin/10 px-3 py-2 text-sm">
           This very file (same SHA-256) was imported before:{' '}
           {d.sameFile.map((s, i) => (
