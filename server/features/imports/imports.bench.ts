@@ -169,15 +169,19 @@ afterAll(async () => {
     `  /api/health during the import: ${health.answers} answers, slowest ${health.slowest.toFixed(0)} ms`,
   ].join('\n');
   console.log(summary);
+  // The server alone's import against the floor of this same run: the figure without the test client in the process.
+  const serverSummary = server
+    ? `${describeServerFigures(server)}\n  ratio end to end of the server alone / the floor above: ${(server.ms.total / floor).toFixed(2)}`
+    : 'server alone: not measured';
   const load = os.loadavg().map((x) => x.toFixed(2));
   const report = [
     `Written by server/features/imports/imports.bench.ts on ${new Date().toISOString()}, load average ${load.join(', ')} (${os.cpus().length} cores)`,
     '',
     summary,
-    server ? describeServerFigures(server) : 'server alone: not measured',
+    serverSummary,
     '',
   ].join('\n');
-  console.log(server ? describeServerFigures(server) : '');
+  console.log(serverSummary);
   fs.writeFileSync(path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../../../bench/imports-latest.txt'), report);
   floorDb.close();
   fs.rmSync(floorDir, { recursive: true, force: true });
