@@ -448,8 +448,9 @@ function refreshAfterWeighings(tx: Db, unique: readonly number[], stages: readon
       )
     : readingsOf(tx, ids).ws;
   const cs = checksOf(tx, ids);
-  // What a row with no readings holds depends on its role and resin alone: computed once per pair.
-  const empty = new Map<string, Record<string, unknown>>();
+  // What a row with no readings holds depends on its role and resin alone: its column values are computed
+  // once per pair (an import of first weighings compares 100,000 rows against a handful of these).
+  const empty = new Map<string, unknown[]>();
   const first = STORED_KEYS.length;
   // The rows to write, grouped by the set of columns that moved (a bit each; at most 31 columns): each
   // group's parameters are the coupon id then the moved values, row after row.
@@ -469,6 +470,7 @@ function refreshAfterWeighings(tx: Db, unique: readonly number[], stages: readon
     const x = row[c.key];
     return c.json ? JSON.stringify(x) : (x ?? null);
   };
+  const valuesOf = (row: Record<string, unknown>) => cols.map((c) => valueOf(row, c));
   for (const r of stored) {
     // The naming keys are not read (see STORED_KEYS): the columns set here do not come from them.
     const keys: ResultKeys = {
@@ -490,21 +492,27 @@ function refreshAfterWeighings(tx: Db, unique: readonly number[], stages: readon
       string,
       unknown
     >;
-    let was: Record<string, unknown> | null = null;
-    if (added && earlier.length === 0 && checks.length === 0) {
-      const k = `${keys.role}|${keys.curedDensityGcm3}`;
-      was = empty.get(k) ?? null;
-      if (!was) {
-        was = resultValues(keys, NONE, NONE) as unknown as Record<string, unknown>;
-        empty.set(k, was);
-      }
-    } else if (added) was = resultValues(keys, earlier, checks) as unknown as Record<string, unknown>;
+    // What the row holds now, column by column from `at`: as read, after its keys; or, when the write only
+    // added weighings, computed from the readings before them.
+    let was: readonly unknown[] = r;
+    let at = first;
+    if (added) {
+      at = 0;
+      if (earlier.length === 0 && checks.length === 0) {
+        const k = `${keys.role}|${keys.curedDensityGcm3}`;
+        let e = empty.get(k);
+        if (!e) {
+          e = valuesOf(resultValues(keys, NONE, NONE) as unknown as Record<string, unknown>);
+          empty.set(k, e);
+        }
+        was = e;
+      } else was = valuesOf(resultValues(keys, earlier, checks) as unknown as Record<string, unknown>);
+    }
     let mask = 0;
     moved.length = 0;
     for (let i = 0; i < cols.length; i++) {
-      const c = cols[i] as (typeof cols)[number];
-      const v = valueOf(row, c);
-      if (v !== (was ? valueOf(was, c) : r[first + i])) {
+      const v = valueOf(row, cols[i] as (typeof cols)[number]);
+      if (v !== was[at + i]) {
         mask |= 1 << i;
         moved.push(v);
       }
