@@ -32,8 +32,12 @@ const SCREENS = [
   '/imports',
 ];
 
-/** A unit written after a number or as a label in brackets ("31.9 g", "Mass (g)"), by quantity. */
-const d = String.raw`\d\s?`;
+/**
+ * A unit written after a number or as a label in brackets ("31.9 g", "1,234.5 g", "Mass (g)"), by quantity.
+ * The number must start a word: a coupon tag made from a time stamp ("E2E-MX780J7N-1") holds "7N", which
+ * is no force in newtons.
+ */
+const d = String.raw`(?<![\w.,])\d[\d.,]*\s?`;
 const METRIC: Record<string, RegExp> = {
   g: new RegExp(`${d}g\\b|\\(g\\)`),
   kg: new RegExp(`${d}kg\\b(?!/)|\\(kg\\)`),
