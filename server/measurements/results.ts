@@ -495,7 +495,7 @@ function refreshAfterWeighings(tx: Db, unique: readonly number[], stages: readon
     // What the row holds now, column by column from `at`: as read, after its keys; or, when the write only
     // added weighings, computed from the readings before them.
     let was: readonly unknown[] = r;
-    let at = first;
+    let at: number = first;
     if (added) {
       at = 0;
       if (earlier.length === 0 && checks.length === 0) {
