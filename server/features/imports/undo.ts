@@ -6,7 +6,7 @@ import type { Measurements } from '../../measurements/measurements';
 import type { Steps } from '../../measurements/steps';
 import { currentWeighingIdsOfImportAfter, findImport, findWeighingState, updateImport } from './imports.repo';
 
-/** Weighings soft-deleted (and coupons audited and refreshed) per step of an undo, as the commit's slices. */
+/** Weighings soft-deleted (and coupons refreshed) per step of an undo, as the commit's slices. */
 const UNDO_SLICE = 2_000;
 /** Weighing ids of the import read per step. */
 const ID_PAGE = 20_000;
@@ -20,9 +20,10 @@ export interface UndoJob {
 
 /**
  * The undo's transaction, step by step: the import's current weighings are soft-deleted through the
- * measurements module's bulk path (kept, never removed; one audit entry per coupon with its values before;
- * the touched results rows rewritten), the readings it corrected get their earlier values back as new
- * corrections, and the import is marked undone, audited with who and why. Yields the share done.
+ * measurements module's bulk path (kept, never removed, with their values; one `delete-readings` audit
+ * entry on the import, as its commit wrote one `add-readings` entry; the touched results rows rewritten),
+ * the readings it corrected get their earlier values back as new corrections, and the import is marked
+ * undone, audited with who and why. Yields the share done.
  */
 function* undoSteps(db: Db, measurements: Measurements, job: UndoJob, now: () => Date): Steps<void> {
   const { importId: id, actor, reason } = job;
@@ -38,7 +39,7 @@ function* undoSteps(db: Db, measurements: Measurements, job: UndoJob, now: () =>
     page = page.length < ID_PAGE ? [] : currentWeighingIdsOfImportAfter(db, id, page[page.length - 1] as number, ID_PAGE);
   }
   if (ids.length) {
-    const steps = measurements.bulkDeleteInSteps(db, actor, { weighings: ids }, why, UNDO_SLICE);
+    const steps = measurements.bulkDeleteInSteps(db, actor, { weighings: ids }, why, { slice: UNDO_SLICE, audit: { importId: id } });
     for (let s = steps.next(); !s.done; s = steps.next()) yield s.value * 0.95;
   }
   let n = 0;
