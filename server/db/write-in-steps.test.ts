@@ -1,5 +1,6 @@
+import fs from 'node:fs';
 import { sql } from 'drizzle-orm';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { startHarness, type Harness } from '../testing/harness';
 import { species } from './schema/reference';
 import { writeInSteps } from './write-in-steps';
@@ -77,5 +78,30 @@ describe('writeInSteps: one transaction on a second connection, the event loop f
     );
     expect(recovered).toBe('late failure');
     expect(count()).toBe(before + 1);
+  });
+
+  it("copies a long write's log into the database file in another thread after the commit, not at COMMIT", async () => {
+    const file = h.database.sqlite.name;
+    h.database.sqlite.pragma('wal_checkpoint(TRUNCATE)');
+    const size = () => fs.statSync(file).size;
+    const before = size();
+    // About 4 MB of new pages, past SQLite's automatic checkpoint (1,000 pages), written a slice per step.
+    await writeInSteps(file, function* (db) {
+      for (let i = 0; i < 40; i++) {
+        db.run(
+          sql.raw(
+            `with recursive n(i) as (select 1 union all select i + 1 from n where i < 50)
+             insert into audit_log (action, entity, entity_id, reason) select 'step-test', 'test', '1', printf('%.2000c', 'x') from n`,
+          ),
+        );
+        yield i / 40;
+      }
+      return null;
+    });
+    // At COMMIT the rows are in the log only (a thread takes tens of ms to start, and this line runs at once
+    // after the commit); the thread then copies them into the file.
+    expect(size()).toBeLessThan(before + 1_000_000);
+    await vi.waitFor(() => expect(size()).toBeGreaterThan(before + 3_000_000), { timeout: 60_000, interval: 100 });
+    expect(count()).toBeGreaterThanOrEqual(2_000);
   });
 });

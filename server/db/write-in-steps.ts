@@ -1,6 +1,7 @@
 import { drizzle } from 'drizzle-orm/better-sqlite3';
 import { openSecondConnection, schema, type Db } from './client';
 import { databaseBusy } from './storage-errors';
+import { checkpointApart } from './checkpoint-apart';
 import type { Steps } from '../measurements/steps';
 
 /** How long a long write waits for the write lock held by another connection before it gives up. */
@@ -30,6 +31,9 @@ export async function writeInSteps<T>(
   recover: Recover<T> = () => null,
 ): Promise<T> {
   const sqlite = openSecondConnection(file);
+  // Its log is copied into the database after the commit by another thread, not by this one at COMMIT.
+  sqlite.pragma('wal_autocheckpoint = 0');
+  let committed = false;
   try {
     const db = drizzle(sqlite, { schema });
     for (const until = Date.now() + LOCK_WAIT_MS; ;) {
@@ -46,6 +50,7 @@ export async function writeInSteps<T>(
       for (let r = run.next(); ; r = run.next()) {
         if (r.done) {
           sqlite.exec('COMMIT');
+          committed = true;
           return r.value;
         }
         onProgress(r.value);
@@ -59,5 +64,6 @@ export async function writeInSteps<T>(
     }
   } finally {
     sqlite.close();
+    if (committed) void checkpointApart(file);
   }
 }

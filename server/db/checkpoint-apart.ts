@@ -1,0 +1,38 @@
+import { createRequire } from 'node:module';
+import { Worker } from 'node:worker_threads';
+
+/**
+ * A long write (an import's commit or undo, decision 0017) leaves tens of MB of pages in the write-ahead
+ * log. Copied back into the database file by SQLite's automatic checkpoint at COMMIT, they held the event
+ * loop ~90 ms at 100,000 readings (the slowest answer other users saw during the commit). The long write's
+ * connection turns that off, and this copies them in a short-lived thread holding nothing but
+ * better-sqlite3 (a few MB, gone when it ends): a PASSIVE checkpoint, which never blocks readers or the
+ * app's writes. If it cannot run, nothing is lost: the log stays valid, and the app connection's own
+ * automatic checkpoint copies it at one of its next commits.
+ */
+const CODE = `
+const { workerData } = require('node:worker_threads');
+const Database = require(workerData.driver);
+const db = new Database(workerData.file, { fileMustExist: true, timeout: 5000 });
+try {
+  db.pragma('wal_checkpoint(PASSIVE)');
+} finally {
+  db.close();
+}
+`;
+
+const driver = createRequire(import.meta.url).resolve('better-sqlite3');
+
+/** Starts the checkpoint of this database's log in a thread of its own; settles when the thread has ended. */
+export function checkpointApart(file: string): Promise<void> {
+  return new Promise((resolve) => {
+    try {
+      const worker = new Worker(CODE, { eval: true, workerData: { file, driver } });
+      // Its failure is not the write's (see above): the thread's error is dropped, not thrown.
+      worker.once('error', () => {});
+      worker.once('exit', () => resolve());
+    } catch {
+      resolve();
+    }
+  });
+}
