@@ -428,13 +428,25 @@ function refreshAfterWeighings(tx: Db, unique: readonly number[], stages: readon
   const cols = weighingColumns(stages);
   const ids = JSON.stringify(unique);
   const readStored = added === null;
-  const stored = preparedRaw(
-    tx,
-    `select ${[...STORED_KEYS.map(nameOf), ...(readStored ? cols.map((c) => c.name) : [])].join(', ')} from coupon_results where coupon_id in ${IDS}`,
-  ).all(ids) as unknown[][];
+  // When the write only added weighings, what a row holds is computed, not read (see below), so only its
+  // role and resin are read: grouped by them, each group's coupons as one JSON array of ids (100,000 rows
+  // of three values each cost more to hand to JS than the reading itself). Otherwise row by row.
+  const rows = readStored
+    ? (preparedRaw(tx, `select ${[...STORED_KEYS.map(nameOf), ...cols.map((c) => c.name)].join(', ')} from coupon_results where coupon_id in ${IDS}`).all(
+        ids,
+      ) as unknown[][])
+    : [];
+  const classes = readStored
+    ? []
+    : (preparedRaw(
+        tx,
+        `select role, resin_id, json_group_array(coupon_id order by coupon_id) from coupon_results where coupon_id in ${IDS} group by role, resin_id`,
+      ).all(ids) as [CouponRole, number | null, string][]);
+  const groupIds = classes.map((c) => JSON.parse(c[2]) as number[]);
+  const storedCount = readStored ? rows.length : groupIds.reduce((n, g) => n + g.length, 0);
   let missing: number[] = [];
-  if (stored.length < unique.length) {
-    const have = new Set(stored.map((r) => r[0] as number));
+  if (storedCount < unique.length) {
+    const have = new Set(readStored ? rows.map((r) => r[0] as number) : groupIds.flat());
     missing = unique.filter((id) => !have.has(id));
   }
   const density = new Map((preparedRaw(tx, 'select id, cured_density_g_cm3 from resins').all() as [number, number][]).map(([id, d]) => [id, d] as const));
@@ -471,21 +483,22 @@ function refreshAfterWeighings(tx: Db, unique: readonly number[], stages: readon
     return c.json ? JSON.stringify(x) : (x ?? null);
   };
   const valuesOf = (row: Record<string, unknown>) => cols.map((c) => valueOf(row, c));
-  for (const r of stored) {
-    // The naming keys are not read (see STORED_KEYS): the columns set here do not come from them.
-    const keys: ResultKeys = {
-      couponId: r[0] as number,
-      tag: '',
-      trialId: null,
-      conditionId: null,
-      runId: null,
-      speciesId: 0,
-      role: r[1] as CouponRole,
-      sourceBoard: null,
-      resinId: r[2] as number | null,
-      resinLotId: null,
-      curedDensityGcm3: r[2] === null ? null : (density.get(r[2] as number) ?? null),
-    };
+  // The naming keys are not read (see STORED_KEYS): the columns set here do not come from them.
+  const classKeys = (role: CouponRole, resinId: number | null): ResultKeys => ({
+    couponId: 0,
+    tag: '',
+    trialId: null,
+    conditionId: null,
+    runId: null,
+    speciesId: 0,
+    role,
+    sourceBoard: null,
+    resinId,
+    resinLotId: null,
+    curedDensityGcm3: resinId === null ? null : (density.get(resinId) ?? null),
+  });
+  /** Plans one coupon's row; `r` is its stored row when read (its values from `first` on), else null. */
+  const planRow = (keys: ResultKeys, r: readonly unknown[] | null) => {
     const checks = cs.get(keys.couponId) ?? NONE;
     const earlier = ws.get(keys.couponId) ?? NONE;
     const row = resultValues(keys, added ? withAdded(earlier, added.byCoupon.get(keys.couponId) ?? NONE) : earlier, checks) as unknown as Record<
@@ -494,7 +507,7 @@ function refreshAfterWeighings(tx: Db, unique: readonly number[], stages: readon
     >;
     // What the row holds now, column by column from `at`: as read, after its keys; or, when the write only
     // added weighings, computed from the readings before them.
-    let was: readonly unknown[] = r;
+    let was: readonly unknown[] = r ?? NONE;
     let at: number = first;
     if (added) {
       at = 0;
@@ -517,7 +530,7 @@ function refreshAfterWeighings(tx: Db, unique: readonly number[], stages: readon
         moved.push(v);
       }
     }
-    if (mask === 0) continue;
+    if (mask === 0) return;
     let params = groups.get(mask);
     if (!params) {
       params = [];
@@ -528,7 +541,16 @@ function refreshAfterWeighings(tx: Db, unique: readonly number[], stages: readon
       write(mask, params);
       params.length = 0;
     }
-  }
+  };
+  for (const r of rows) planRow({ ...classKeys(r[1] as CouponRole, r[2] as number | null), couponId: r[0] as number }, r);
+  // One keys object per role and resin, its coupon id set before each row (resultValues copies it out).
+  classes.forEach(([role, resinId], g) => {
+    const keys = classKeys(role, resinId);
+    for (const id of groupIds[g] as number[]) {
+      keys.couponId = id;
+      planRow(keys, null);
+    }
+  });
   for (const [mask, params] of groups) if (params.length) write(mask, params);
   if (missing.length) refreshSome(tx, missing, null);
   return unique.length;
