@@ -1,7 +1,17 @@
 import type { ImportDetected, ImportFormat } from '../schemas/imports';
 import { inferDateOrder, type DateOrderGuess } from './dates';
 import type { EncodingGuess } from './encoding';
-import { detectDecimal, detectDelimiter, detectHeader, detectLineEnding, guessColumns, splitRows, suggestColumns, type ColumnGuess } from './format';
+import {
+  detectDecimal,
+  detectDelimiter,
+  detectHeader,
+  detectLineEnding,
+  guessColumns,
+  splitRows,
+  suggestColumns,
+  type ColumnGuess,
+  type KnownTags,
+} from './format';
 import type { ImportMassUnit } from './mass-units';
 import { parseReading } from './reading';
 
@@ -26,15 +36,11 @@ export function sampleLines(text: string, truncated: boolean): string[] {
 }
 
 /** The sample read with a given format (detected or chosen by the user). */
-export function viewSample(
-  lines: string[],
-  format: Pick<ImportFormat, 'delimiter' | 'hasHeader' | 'decimal'>,
-  knownTag?: (tag: string) => boolean,
-): SampleView {
+export function viewSample(lines: string[], format: Pick<ImportFormat, 'delimiter' | 'hasHeader' | 'decimal'>, knownTags?: KnownTags): SampleView {
   const all = splitRows(lines.join('\n'), format.delimiter);
   const header = format.hasHeader ? (all[0] ?? null) : null;
   const rows = format.hasHeader ? all.slice(1) : all;
-  return { header, columns: guessColumns(header, rows, format.decimal, knownTag), sampleRows: rows.slice(0, SAMPLE_ROWS), rows };
+  return { header, columns: guessColumns(header, rows, format.decimal, knownTags), sampleRows: rows.slice(0, SAMPLE_ROWS), rows };
 }
 
 /** The order of day and month, from the mapped date (and time) columns of the sample. */
@@ -55,14 +61,14 @@ export function detectSample(
   text: string,
   encoding: EncodingGuess,
   truncated: boolean,
-  knownTag?: (tag: string) => boolean,
+  knownTags?: KnownTags,
 ): { detected: ImportDetected; view: SampleView; lines: string[] } {
   const lines = sampleLines(text, truncated);
   const delimiter = detectDelimiter(lines);
   const firstRows = splitRows(lines.slice(0, 200).join('\n'), delimiter.delimiter);
   const decimal = detectDecimal(firstRows);
   const header = detectHeader(firstRows, decimal.decimal);
-  const view = viewSample(lines, { delimiter: delimiter.delimiter, hasHeader: header.hasHeader, decimal: decimal.decimal }, knownTag);
+  const view = viewSample(lines, { delimiter: delimiter.delimiter, hasHeader: header.hasHeader, decimal: decimal.decimal }, knownTags);
   const suggested = suggestColumns(view.columns);
   const dateOrder = dateOrderOf(view.rows, suggested.dateColumn, suggested.timeColumn, decimal.decimal === ',');
 

@@ -90,7 +90,7 @@ describe('column guesses and the first mapping', () => {
         ['OAK-1', 'other'],
       ],
       '.',
-      (t) => known.has(t),
+      (values) => new Set(values.filter((v) => known.has(v))),
     );
     expect(cols[0]?.kind).toBe('tag');
   });

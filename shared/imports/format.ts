@@ -169,10 +169,16 @@ export interface ColumnGuess {
 }
 
 /**
+ * Which of these values are coupon tags: asked once per column with all its sampled values (the server
+ * answers with one query, where a question per value cost thousands of lookups per upload).
+ */
+export type KnownTags = (values: readonly string[]) => ReadonlySet<string>;
+
+/**
  * Classifies each column from its name and sampled values. `knownTags` lets a column of coupon tags be
  * told apart from other text.
  */
-export function guessColumns(header: string[] | null, rows: string[][], decimal: DecimalMark, knownTags?: (tag: string) => boolean): ColumnGuess[] {
+export function guessColumns(header: string[] | null, rows: string[][], decimal: DecimalMark, knownTags?: KnownTags): ColumnGuess[] {
   const width = Math.max(header?.length ?? 0, ...rows.map((r) => r.length));
   const out: ColumnGuess[] = [];
   for (let i = 0; i < width; i++) {
@@ -193,7 +199,7 @@ export function guessColumns(header: string[] | null, rows: string[][], decimal:
           return r.ok && (r.unit !== null || r.stable !== null || /^[+-]|\s{2,}/.test(v));
         }),
       ],
-      ['tag', knownTags ? share((v) => knownTags(v)) : share((v) => /^[A-Za-z][A-Za-z0-9._/-]*\d[A-Za-z0-9._/-]*$/.test(v) && !readMassUnit(v))],
+      ['tag', knownTags ? shareOfKnown(values, knownTags) : share((v) => /^[A-Za-z][A-Za-z0-9._/-]*\d[A-Za-z0-9._/-]*$/.test(v) && !readMassUnit(v))],
     ];
     let kind: ColumnKind = values.length ? 'text' : 'empty';
     let best = 0;
@@ -206,6 +212,12 @@ export function guessColumns(header: string[] | null, rows: string[][], decimal:
     out.push({ index: i, name, kind, share: best, examples: values.slice(0, 3).map((v) => (v.length > 40 ? `${v.slice(0, 40)}…` : v)) });
   }
   return out;
+}
+
+function shareOfKnown(values: string[], knownTags: KnownTags): number {
+  if (values.length === 0) return 0;
+  const known = knownTags(values);
+  return values.filter((v) => known.has(v)).length / values.length;
 }
 
 const NAME_HINTS: { role: 'tag' | 'mass' | 'unit' | 'date' | 'time' | 'stability'; pattern: RegExp }[] = [

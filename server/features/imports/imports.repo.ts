@@ -47,12 +47,17 @@ export function couponKeysByIds(db: Db, ids: number[]): CouponKey[] {
 }
 
 /**
- * Whether a coupon has this tag. Detection asks it for every sampled cell of every column (thousands per
- * upload), so it is one statement prepared once per connection, not a query built each time: built
- * through drizzle, those lookups held the event loop ~0.4 s per upload.
+ * Which of these values are coupon tags. Detection asks it once per column with every sampled value (up
+ * to a few thousand), so it is one statement binding them as one JSON array, prepared once per connection:
+ * asked value by value, the lookups held the event loop ~35 ms per upload of a file of 100,000 rows.
  */
-export function tagExists(db: Db, tag: string): boolean {
-  return prepared(db, 'select 1 from coupons where tag = ?').get(tag) !== undefined;
+export function tagsAmong(db: Db, values: readonly string[]): Set<string> {
+  if (values.length === 0) return new Set();
+  return new Set(
+    prepared(db, 'select tag from coupons where tag in (select value from json_each(?))')
+      .pluck(true)
+      .all(JSON.stringify([...new Set(values)])) as string[],
+  );
 }
 
 export function findRun(db: Db, id: number) {

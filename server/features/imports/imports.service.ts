@@ -39,7 +39,7 @@ import {
   presetsForShape,
   problemsOf,
   replaceProblems,
-  tagExists,
+  tagsAmong,
   updateImport,
   type CouponKey,
   type ImportRow,
@@ -149,7 +149,7 @@ export function createImportsService(deps: FeatureDeps) {
   /** Reads the head of the stored file with a format and answers its columns and first rows. */
   async function sampleWith(file: string, format: ImportFormat): Promise<{ columns: ImportColumn[]; sampleRows: string[][] }> {
     const { head, truncated } = await readHead(file);
-    const view = viewSample(sampleLines(decode(head, format.encoding), truncated), format, (t) => tagExists(db, t));
+    const view = viewSample(sampleLines(decode(head, format.encoding), truncated), format, (values) => tagsAmong(db, values));
     return { columns: view.columns, sampleRows: view.sampleRows };
   }
 
@@ -176,7 +176,7 @@ export function createImportsService(deps: FeatureDeps) {
         const msg = `The first line is longer than ${head.length / 1024} KB. A scale writes short lines of readings; this does not look like one of its files`;
         throw new Unprocessable(msg, { file: [msg] });
       }
-      const { detected, view } = detectSample(text, enc, truncated, (t) => tagExists(db, t));
+      const { detected, view } = detectSample(text, enc, truncated, (values) => tagsAmong(db, values));
       if (text.trim() === '') throw new Unprocessable('The file holds no text', { file: ['The file holds no text'] });
       // A sample with no complete data row may hide an endless line; reading on finds it (LineTooLong).
       if (view.rows.length === 0 && truncated) await streamRows(file.path, formatOf(detected), () => undefined);
