@@ -1,3 +1,4 @@
+import type Database from 'better-sqlite3';
 import { getTableColumns } from 'drizzle-orm';
 import type { Db } from '../db/client';
 import { checks, weighings } from '../db/schema/coupons';
@@ -553,13 +554,16 @@ export function createMeasurements(deps: { now: () => Date }) {
     // statement: one statement per row cost three times as much at 100,000 rows. The rows of one INSERT get
     // consecutive ids (AUTOINCREMENT takes the largest id so far plus one, row after row), the last answered.
     const pending: unknown[] = [];
+    // The full statement is prepared once per write (an import's commit has a connection of its own); the
+    // one shorter statement at the end too.
+    let insertMany: Database.Statement | null = null;
     const flush = () => {
       const rows = pending.length / 4;
       if (rows === 0) return;
-      // The full statement is prepared once per connection and import (an import's commit has a connection of
-      // its own); the one shorter statement at the end is not kept.
-      const text = insertImported(importId as number, actor.id, rows);
-      const st = rows === INSERT_ROWS ? prepared(tx, text) : client(tx).prepare(text);
+      const st =
+        rows === INSERT_ROWS
+          ? (insertMany ??= client(tx).prepare(insertImported(importId as number, actor.id, rows)))
+          : client(tx).prepare(insertImported(importId as number, actor.id, rows));
       const last = Number(st.run(pending).lastInsertRowid);
       stretch(ranges.weighings, last - rows + 1);
       stretch(ranges.weighings, last);

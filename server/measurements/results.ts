@@ -1,3 +1,4 @@
+import type Database from 'better-sqlite3';
 import { getTableColumns, sql } from 'drizzle-orm';
 import type { Db } from '../db/client';
 import { getTableConfig } from 'drizzle-orm/sqlite-core';
@@ -470,11 +471,19 @@ function refreshAfterWeighings(tx: Db, unique: readonly number[], stages: readon
   const moved: unknown[] = [];
   // Full groups in one statement; what is left of a group row by row, so each set of columns has two
   // statements prepared, not one per row count.
+  // Each set's statements, found once per refresh (their SQL text is long: building and hashing it per
+  // statement run cost more than binding).
+  const statements = new Map<number, { width: number; many: Database.Statement; cols: typeof cols }>();
   const write = (mask: number, params: unknown[]) => {
-    const cols = weighingCols.filter((_, i) => mask & (1 << i));
-    const width = cols.length + 1;
-    if (params.length === UPDATE_ROWS * width) return void updateOf(tx, cols, UPDATE_ROWS).run(params);
-    const one = updateOf(tx, cols, 1);
+    let st = statements.get(mask);
+    if (!st) {
+      const set = weighingCols.filter((_, i) => mask & (1 << i));
+      st = { width: set.length + 1, many: updateOf(tx, set, UPDATE_ROWS), cols: set };
+      statements.set(mask, st);
+    }
+    const width = st.width;
+    if (params.length === UPDATE_ROWS * width) return void st.many.run(params);
+    const one = updateOf(tx, st.cols, 1);
     for (let at = 0; at < params.length; at += width) one.run(params.slice(at, at + width));
   };
   const weighingCols = cols;
