@@ -1,4 +1,4 @@
-import { and, asc, count, desc, eq, inArray, isNull, ne } from 'drizzle-orm';
+import { and, asc, count, desc, eq, inArray, isNull, ne, sql } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/sqlite-core';
 import type { Db } from '../../db/client';
 import { users } from '../../db/schema/auth';
@@ -7,6 +7,7 @@ import { importPresets, importProblems, imports } from '../../db/schema/imports'
 import { runs } from '../../db/schema/runs';
 import type { ImportStatus } from '../../../shared/constants/imports';
 import { prepared } from '../../measurements/results';
+import { once } from '../../db/prepared';
 import type { ImportProblem } from '../../../shared/schemas/imports';
 
 export type ImportRow = typeof imports.$inferSelect;
@@ -83,17 +84,31 @@ export function updateImport(db: Db, id: number, set: Partial<typeof imports.$in
 }
 
 export function findImport(db: Db, id: number): ImportRow | undefined {
-  return db.select().from(imports).where(eq(imports.id, id)).get();
+  return once(db, 'imports.findImport', () =>
+    db
+      .select()
+      .from(imports)
+      .where(eq(imports.id, sql.placeholder('id')))
+      .prepare(),
+  ).get({ id });
 }
 
-/** Imports of the same file that were committed and not undone. */
+/** Imports of the same file that were committed and not undone. Part of every answer the client polls: prepared once per database. */
 export function committedWithSha(db: Db, sha256: string, exceptId: number) {
-  return db
-    .select({ id: imports.id, createdAt: imports.createdAt, status: imports.status })
-    .from(imports)
-    .where(and(eq(imports.sha256, sha256), ne(imports.id, exceptId), inArray(imports.status, ['committed', 'committing', 'undoing'] satisfies ImportStatus[])))
-    .orderBy(asc(imports.id))
-    .all();
+  return once(db, 'imports.committedWithSha', () =>
+    db
+      .select({ id: imports.id, createdAt: imports.createdAt, status: imports.status })
+      .from(imports)
+      .where(
+        and(
+          eq(imports.sha256, sql.placeholder('sha256')),
+          ne(imports.id, sql.placeholder('exceptId')),
+          inArray(imports.status, ['committed', 'committing', 'undoing'] satisfies ImportStatus[]),
+        ),
+      )
+      .orderBy(asc(imports.id))
+      .prepare(),
+  ).all({ sha256, exceptId });
 }
 
 export function countFileUses(db: Db, fileName: string): number {
@@ -116,14 +131,21 @@ export function listImports(db: Db, limit: number, offset: number) {
   return { rows, total };
 }
 
+/**
+ * An import with the names of who uploaded and who undid it. Read for every answer the client polls while a
+ * job runs (twice a second per open import screen): prepared once per database, where building the query
+ * each time cost about as much as the rest of the answer.
+ */
 export function importWithNames(db: Db, id: number) {
-  return db
-    .select({ row: imports, createdByName: users.name, undoneByName: undoer.name })
-    .from(imports)
-    .leftJoin(users, eq(imports.createdBy, users.id))
-    .leftJoin(undoer, eq(imports.undoneBy, undoer.id))
-    .where(eq(imports.id, id))
-    .get();
+  return once(db, 'imports.importWithNames', () =>
+    db
+      .select({ row: imports, createdByName: users.name, undoneByName: undoer.name })
+      .from(imports)
+      .leftJoin(users, eq(imports.createdBy, users.id))
+      .leftJoin(undoer, eq(imports.undoneBy, undoer.id))
+      .where(eq(imports.id, sql.placeholder('id')))
+      .prepare(),
+  ).get({ id });
 }
 
 /**
@@ -196,8 +218,16 @@ export function currentWeighingAt(db: Db, couponId: number, stage: (typeof weigh
     .get();
 }
 
+/** Saved mappings for files of this shape, newest first. Part of every answer the client polls: prepared once per database. */
 export function presetsForShape(db: Db, shapeKey: string): PresetRow[] {
-  return db.select().from(importPresets).where(eq(importPresets.shapeKey, shapeKey)).orderBy(desc(importPresets.createdAt), desc(importPresets.id)).all();
+  return once(db, 'imports.presetsForShape', () =>
+    db
+      .select()
+      .from(importPresets)
+      .where(eq(importPresets.shapeKey, sql.placeholder('shapeKey')))
+      .orderBy(desc(importPresets.createdAt), desc(importPresets.id))
+      .prepare(),
+  ).all({ shapeKey });
 }
 
 export function allPresets(db: Db): PresetRow[] {
