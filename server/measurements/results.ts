@@ -489,7 +489,9 @@ function refreshAfterWeighings(tx: Db, unique: readonly number[], stages: readon
   const weighingCols = cols;
   const valueOf = (row: Record<string, unknown>, c: (typeof cols)[number]) => {
     const x = row[c.key];
-    return c.json ? JSON.stringify(x) : (x ?? null);
+    if (!c.json) return x ?? null;
+    // Most rows of a big write have no problems: their list is stored as '[]' without serialising it.
+    return Array.isArray(x) && x.length === 0 ? '[]' : JSON.stringify(x);
   };
   const valuesOf = (row: Record<string, unknown>) => cols.map((c) => valueOf(row, c));
   // The naming keys are not read (see STORED_KEYS): the columns set here do not come from them.
