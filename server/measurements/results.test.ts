@@ -8,7 +8,7 @@ import { runs } from '../db/schema/runs';
 import { couponResults } from '../db/schema/results';
 import { users } from '../db/schema/auth';
 import { createMeasurements } from './measurements';
-import { rebuildResults } from './results';
+import { rebuildResults, refreshResults } from './results';
 import { WEIGHING_STAGES, CHECK_STAGES, HARDNESS_SCALES } from '../../shared/constants/records';
 
 type Agent = Awaited<ReturnType<Harness['signIn']>>;
@@ -298,5 +298,65 @@ describe('coupon_results', () => {
     );
     // The sequences must actually change things, not only be refused.
     expect(accepted).toBeGreaterThan(50);
+  }, 120_000);
+
+  it('judges and refreshes a bulk write of a thousand coupons and more alike whether or not any of them has readings', () => {
+    // From 1,000 coupons on, the per-coupon reads are skipped when no coupon in the range of their ids has a
+    // current reading (mayHaveReadings): one coupon with readings in the middle of the range must still be read.
+    const db = h.database.db;
+    const actor = { id: db.select({ id: users.id }).from(users).where(eq(users.email, 'tech@demo.test')).get()!.id };
+    const sp = db.select({ id: species.id }).from(species).limit(1).get()!.id;
+    const fresh = (prefix: string, n: number) =>
+      db.transaction((tx) => {
+        const ids = Array.from(
+          { length: n },
+          (_, i) =>
+            tx
+              .insert(coupons)
+              .values({ tag: `${prefix}-${i}`, speciesId: sp, role: 'treated' })
+              .returning()
+              .get().id,
+        );
+        refreshResults(tx, ids);
+        return ids;
+      });
+    const weigh = (ids: number[], stage: 'dry' | 'soaked', massOf: (i: number) => number) =>
+      db.transaction((tx) =>
+        m.bulkAdd(
+          tx,
+          actor,
+          'import:1',
+          ids.map((couponId, i) => ({ couponId, weighings: [{ stage, massG: massOf(i), measuredAt: at(i) }] })),
+          { skipRefused: true, audit: 'per-source' },
+        ),
+      );
+    const equalsRebuild = () => {
+      const incremental = snapshot();
+      db.transaction((tx) => rebuildResults(tx));
+      expect(snapshot()).toEqual(incremental);
+    };
+
+    // None has a reading: the reads are skipped.
+    const bare = fresh('PROBE-A', 1_200);
+    expect(weigh(bare, 'dry', (i) => 10 + (i % 7)).refused).toEqual([]);
+    equalsRebuild();
+
+    // One in the middle has a dry weighing and dry dimensions, another a dry weighing that was deleted.
+    const mixed = fresh('PROBE-B', 1_200);
+    const [busy, deleted] = [mixed[600]!, mixed[700]!];
+    db.transaction((tx) => {
+      m.addWeighing(tx, actor, 'entry', busy, { stage: 'dry', massG: 12, measuredAt: at(1) });
+      m.addCheck(tx, actor, 'entry', busy, { kind: 'dimension', stage: 'dry', measuredAt: at(1), lengthMm: 100, widthMm: 25, thicknessMm: 20 });
+      const w = m.addWeighing(tx, actor, 'entry', deleted, { stage: 'dry', massG: 12, measuredAt: at(1) });
+      m.deleteWeighing(tx, actor, w.id, 'entered on the wrong coupon');
+    });
+    const out = weigh(mixed, 'dry', () => 11);
+    expect(out.refused.map((p) => mixed[p.entry])).toEqual([busy]);
+    expect(out.refused[0]?.code).toBe('conflict');
+    equalsRebuild();
+    // Every coupon now has a dry weighing: the soaked ones are read against it (one below it is refused).
+    const soaked = weigh(mixed, 'soaked', (i) => (i === 5 ? 5 : 15));
+    expect(soaked.refused.map((p) => p.entry)).toEqual([5]);
+    equalsRebuild();
   }, 120_000);
 });

@@ -376,7 +376,34 @@ function readingsOf(tx: Db, ids: string) {
   return { ws: weighingsByCoupon(ws), cs: checksOf(tx, ids) };
 }
 
-function checksOf(tx: Db, ids: string) {
+/** Coupons from which a read of many asks first whether there is anything to read (`mayHaveReadings`). */
+const PROBE_FROM = 1_000;
+
+/**
+ * False when no current reading of `table` (for weighings, with an id below `before`) belongs to a coupon
+ * whose id lies between the smallest and the largest of `ids`: one index range probe that stops at its
+ * first row. A per-coupon read of these coupons would then answer nothing, and is skipped: a big write of
+ * first readings (a run's coupons are created together, so their ids are close) saves one lookup per
+ * coupon (~35 ms per read of 100,000). True when the probe finds one, and for fewer than PROBE_FROM
+ * coupons (their read is cheap), so the read runs as always.
+ */
+export function mayHaveReadings(tx: Db, table: 'weighings' | 'checks', ids: readonly number[], before = Number.MAX_SAFE_INTEGER): boolean {
+  if (ids.length < PROBE_FROM) return true;
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (const id of ids) {
+    if (id < lo) lo = id;
+    if (id > hi) hi = id;
+  }
+  const sql =
+    table === 'weighings'
+      ? 'select 1 from weighings where coupon_id between ? and ? and id < ? and superseded_by is null and deleted_at is null limit 1'
+      : 'select 1 from checks where coupon_id between ? and ? and id < ? and superseded_by is null and deleted_at is null limit 1';
+  return prepared(tx, sql).get(lo, hi, before) !== undefined;
+}
+
+function checksOf(tx: Db, ids: string, unique?: readonly number[]) {
+  if (unique && !mayHaveReadings(tx, 'checks', unique)) return new Map<number, CheckReading[]>();
   return checksByCoupon(
     preparedRaw(tx, `${CHECKS_SQL} where k.coupon_id in ${IDS} and k.superseded_by is null and k.deleted_at is null order by k.measured_at, k.id`).all(
       ids,
@@ -453,14 +480,16 @@ function refreshAfterWeighings(tx: Db, unique: readonly number[], stages: readon
   const density = new Map((preparedRaw(tx, 'select id, cured_density_g_cm3 from resins').all() as [number, number][]).map(([id, d]) => [id, d] as const));
   // After an import of first weighings, the weighings before it are none: only those are read.
   const ws = added
-    ? weighingsByCoupon(
-        preparedRaw(
-          tx,
-          `${WEIGHINGS_SQL} where w.coupon_id in ${IDS} and w.id < ? and w.superseded_by is null and w.deleted_at is null order by w.measured_at, w.id`,
-        ).all(ids, added.from) as WeighingRow[],
-      )
+    ? mayHaveReadings(tx, 'weighings', unique, added.from)
+      ? weighingsByCoupon(
+          preparedRaw(
+            tx,
+            `${WEIGHINGS_SQL} where w.coupon_id in ${IDS} and w.id < ? and w.superseded_by is null and w.deleted_at is null order by w.measured_at, w.id`,
+          ).all(ids, added.from) as WeighingRow[],
+        )
+      : new Map<number, WeighingReading[]>()
     : readingsOf(tx, ids).ws;
-  const cs = checksOf(tx, ids);
+  const cs = checksOf(tx, ids, unique);
   // What a row with no readings holds depends on its role and resin alone: its column values are computed
   // once per pair (an import of first weighings compares 100,000 rows against a handful of these).
   const empty = new Map<string, unknown[]>();
