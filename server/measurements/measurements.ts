@@ -261,26 +261,19 @@ function loadStates(tx: Db, couponIds: number[], into = new Map<number, CouponSt
     ) as [number, string, 'treated' | 'control'][];
     for (const r of rows) states.set(r[0], stateOf(r[1], r[2]));
   }
-  // Skipped when no coupon in the range of these ids has a current reading (mayHaveReadings).
-  const ws = (
-    mayHaveReadings(tx, 'weighings', unique)
-      ? preparedRaw(
-          tx,
-          'select coupon_id, stage, mass_g, measured_at from weighings where coupon_id in (select value from json_each(?)) and superseded_by is null and deleted_at is null order by measured_at, id',
-        ).all(ids)
-      : []
+  // Each read is skipped when no coupon in the range of these ids has a current reading (mayHaveReadings).
+  const readIfAny = (table: 'weighings' | 'checks', sql: string) => (mayHaveReadings(tx, table, unique) ? preparedRaw(tx, sql).all(ids) : []);
+  const ws = readIfAny(
+    'weighings',
+    'select coupon_id, stage, mass_g, measured_at from weighings where coupon_id in (select value from json_each(?)) and superseded_by is null and deleted_at is null order by measured_at, id',
   ) as [number, WeighingStage, number, string][];
   for (const w of ws) {
     const st = states.get(w[0]);
     if (st) addWeighingTo(st, { stage: w[1], massG: w[2], measuredAt: w[3] });
   }
-  const dims = (
-    mayHaveReadings(tx, 'checks', unique)
-      ? preparedRaw(
-          tx,
-          "select coupon_id, stage from checks where coupon_id in (select value from json_each(?)) and kind = 'dimension' and superseded_by is null and deleted_at is null",
-        ).all(ids)
-      : []
+  const dims = readIfAny(
+    'checks',
+    "select coupon_id, stage from checks where coupon_id in (select value from json_each(?)) and kind = 'dimension' and superseded_by is null and deleted_at is null",
   ) as [number, string][];
   for (const d of dims) {
     const st = states.get(d[0]);
