@@ -24,7 +24,7 @@ import { mayHaveReadings, client, prepared, preparedRaw, refreshResults, refresh
 import { runSteps, type Steps } from './steps';
 
 const INSERT_WEIGHING = 'insert into weighings (coupon_id, stage, mass_g, measured_at, import_id, source, created_by) values (?, ?, ?, ?, ?, ?, ?)';
-/** Weighings inserted per statement on the bulk path (7 values each, far below SQLite's 32,766 variables). */
+/** Weighings inserted per statement on the bulk path (4 bound values each, far below SQLite's 32,766 variables). */
 const INSERT_ROWS = 50;
 /**
  * The bulk path's INSERT of `rows` weighings of one import by one person: the import, its source and the
@@ -293,6 +293,9 @@ function* loadStatesInSteps(tx: Db, couponIds: number[], slice: number): Steps<M
   return states;
 }
 
+/** Where a refused weighing sits in the entries. */
+const weighingAt = (entry: number, index: number) => ({ entry, list: 'weighings' as const, index });
+
 /**
  * The write rules of a new reading, checked in memory against the stored readings and the earlier
  * readings of the same write (so a batch behaves as if its readings were added one by one):
@@ -301,8 +304,6 @@ function* loadStatesInSteps(tx: Db, couponIds: number[], slice: number): Steps<M
  * non-positive mass, out-of-range moisture or Shore D. Answers the problems; `states` is advanced by
  * every reading that passes.
  */
-const weighingAt = (entry: number, index: number) => ({ entry, list: 'weighings' as const, index });
-
 function validate(entries: readonly MeasurementEntry[], states: Map<number, CouponState>): ReadingProblem[] {
   const problems: ReadingProblem[] = [];
   // Plain loops, no closure per entry (an import judges 100,000 of them).
@@ -556,8 +557,8 @@ export function createMeasurements(deps: { now: () => Date }) {
     // statement: one statement per row cost three times as much at 100,000 rows. The rows of one INSERT get
     // consecutive ids (AUTOINCREMENT takes the largest id so far plus one, row after row), the last answered.
     const pending: unknown[] = [];
-    // The full statement is prepared once per write (an import's commit has a connection of its own); the
-    // one shorter statement at the end too.
+    // The full statement is prepared once per write (an import's commit has a connection of its own); a
+    // shorter one, for the rows left at the end, where it is needed.
     let insertMany: Database.Statement | null = null;
     const flush = () => {
       const rows = pending.length / 4;

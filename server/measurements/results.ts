@@ -395,10 +395,8 @@ export function mayHaveReadings(tx: Db, table: 'weighings' | 'checks', ids: read
     if (id < lo) lo = id;
     if (id > hi) hi = id;
   }
-  const sql =
-    table === 'weighings'
-      ? 'select 1 from weighings where coupon_id between ? and ? and id < ? and superseded_by is null and deleted_at is null limit 1'
-      : 'select 1 from checks where coupon_id between ? and ? and id < ? and superseded_by is null and deleted_at is null limit 1';
+  // `table` is one of two names of our own, never text from a request.
+  const sql = `select 1 from ${table} where coupon_id between ? and ? and id < ? and superseded_by is null and deleted_at is null limit 1`;
   return prepared(tx, sql).get(lo, hi, before) !== undefined;
 }
 
@@ -499,9 +497,8 @@ function refreshAfterWeighings(tx: Db, unique: readonly number[], stages: readon
   const groups = new Map<number, unknown[]>();
   const moved: unknown[] = [];
   // Full groups in one statement; what is left of a group row by row, so each set of columns has two
-  // statements prepared, not one per row count.
-  // Each set's statements, found once per refresh (their SQL text is long: building and hashing it per
-  // statement run cost more than binding).
+  // statements prepared, not one per row count. The full one is found once per refresh (its SQL text is
+  // long: building and hashing it for every run cost more than binding).
   const statements = new Map<number, { width: number; many: Database.Statement; cols: typeof cols }>();
   const write = (mask: number, params: unknown[]) => {
     let st = statements.get(mask);

@@ -16,8 +16,8 @@ import { addCoupons as addCouponsOf, describeServerFigures, measureServerAlone, 
 // The floor runs BENCH_ROUNDS times (3 by default, each on a database of its own) and its median is taken;
 // the end to end runs once in this process (the ratio, the main thread's longest stall and busy share are
 // printed). Then the same import by a server alone, in a child process, BENCH_ROUNDS times with a fresh
-// server each (its RSS, CPU, and /api/health answer times seen from outside: bench/imports-server.ts); its
-// median against the floor's is the ratio that leaves the test client out. The figures are written to bench/imports-latest.txt with
+// server each, right after a floor of its own (its RSS, CPU, and /api/health answer times seen from outside:
+// bench/imports-server.ts); the median of those rounds' ratios is the one that leaves the test client out. The figures are written to bench/imports-latest.txt with
 // the load average; what they mean: bench/imports-results.md.
 
 const N = 100_000;
@@ -32,9 +32,10 @@ addCoupons(h.database);
 h.database.db.transaction((tx) => rebuildResults(tx));
 const tech = await h.signIn('tech@demo.test');
 /**
- * The floor and the server alone are measured ROUNDS times each, and their medians compared: on a shared
- * machine one run of either moves by ±20 % from one minute to the next. Each floor round has a database of
- * its own, so every round inserts into the same empty weighings table.
+ * The floor and the server alone are measured ROUNDS times each: on a shared machine one run of either
+ * moves by ±20 % from one minute to the next. Each floor round has a database of its own, so every round
+ * inserts into the same empty weighings table. `floorTimes` holds the first ROUNDS floors (the in-process
+ * ratio uses their median); the floors paired with the server rounds are kept in `pairedFloors`.
  */
 const ROUNDS = Number(process.env.BENCH_ROUNDS ?? 3);
 const floorDir = fs.mkdtempSync(path.join(os.tmpdir(), 'lumenbook-floor-'));
