@@ -3,6 +3,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { pino } from 'pino';
 import { createApp } from './app';
+import { checkpointsSettled } from './db/checkpoint-apart';
 import { DatabaseInUse, openDatabase } from './db/client';
 import { prepareDataDir } from './db/data-dir';
 import { seedFreshDemoApart } from './demo-seed';
@@ -66,10 +67,12 @@ async function main() {
     logger.info({ signal }, 'shutting down');
     server.close(() => {
       lumenbook.close();
-      void mailer.close().finally(() => {
-        database.close();
-        process.exit(0);
-      });
+      void mailer
+        .close()
+        .finally(() => database.close())
+        // A log copy still running in its thread (checkpoint-apart.ts) ends first; the 10 s timer below bounds it.
+        .then(checkpointsSettled)
+        .finally(() => process.exit(0));
     });
     server.closeAllConnections();
     setTimeout(() => process.exit(1), 10_000).unref();

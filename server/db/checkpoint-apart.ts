@@ -23,8 +23,27 @@ try {
 
 const driver = createRequire(import.meta.url).resolve('better-sqlite3');
 
+/**
+ * The threads still running. Whoever removes a data folder waits for them first: a thread that opens the
+ * database after the app's last connection closed creates its `-wal` and `-shm` files anew, so a folder
+ * removed meanwhile is not empty when its removal ends (ENOTEMPTY, seen in CI on a test's temporary folder).
+ */
+const running = new Set<Promise<void>>();
+
+/** Settles when every checkpoint thread started so far has ended. */
+export async function checkpointsSettled(): Promise<void> {
+  while (running.size > 0) await Promise.all([...running]);
+}
+
 /** Starts the checkpoint of this database's log in a thread of its own; settles when the thread has ended. */
 export function checkpointApart(file: string): Promise<void> {
+  const done = startCheckpoint(file);
+  running.add(done);
+  void done.then(() => running.delete(done));
+  return done;
+}
+
+function startCheckpoint(file: string): Promise<void> {
   return new Promise((resolve) => {
     try {
       const worker = new Worker(CODE, { eval: true, workerData: { file, driver } });

@@ -1,7 +1,8 @@
 import fs from 'node:fs';
 import { sql } from 'drizzle-orm';
-import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startHarness, type Harness } from '../testing/harness';
+import { checkpointsSettled } from './checkpoint-apart';
 import { species } from './schema/reference';
 import { writeInSteps } from './write-in-steps';
 
@@ -101,7 +102,9 @@ describe('writeInSteps: one transaction on a second connection, the event loop f
     // At COMMIT the rows are in the log only (a thread takes tens of ms to start, and this line runs at once
     // after the commit); the thread then copies them into the file.
     expect(size()).toBeLessThan(before + 1_000_000);
-    await vi.waitFor(() => expect(size()).toBeGreaterThan(before + 3_000_000), { timeout: 60_000, interval: 100 });
+    // checkpointsSettled waits for that thread: whoever removes a data folder awaits it first (harness.close).
+    await checkpointsSettled();
+    expect(size()).toBeGreaterThan(before + 3_000_000);
     expect(count()).toBeGreaterThanOrEqual(2_000);
   });
 });

@@ -6,6 +6,7 @@ import request from 'supertest';
 import { desc } from 'drizzle-orm';
 import { CSRF_HEADER, CSRF_VALUE } from '../../shared/constants/errors';
 import { createApp, type LumenbookApp } from '../app';
+import { checkpointsSettled } from '../db/checkpoint-apart';
 import { openDatabase, type Database_ } from '../db/client';
 import { outbox } from '../db/schema/admin';
 import { DEMO_PASSWORD, seedDemo } from '../seed';
@@ -116,6 +117,7 @@ export async function startHarness(options: HarnessOptions = {}): Promise<Harnes
       lumenbook.close();
       await mailer.close();
       database.close();
+      await checkpointsSettled();
       fs.rmSync(dir, { recursive: true, force: true });
     },
   };
