@@ -180,6 +180,13 @@ export const importListQuerySchema = listQuerySchema;
 export const importListSchema = listResponseSchema(importSummarySchema);
 export type ImportList = z.infer<typeof importListSchema>;
 
+/**
+ * `wait`: while a job runs (preview, commit, undo), answer when it ends or after this many ms, whichever
+ * comes first, instead of at once: a poller sees the end the moment it comes, and asks far less often.
+ */
+export const IMPORT_WAIT_MAX_MS = 10_000;
+export const importDetailQuerySchema = z.object({ wait: z.coerce.number().int().min(0).max(IMPORT_WAIT_MAX_MS).optional() });
+
 export const importProblemsQuerySchema = listQuerySchema.extend({ pageSize: z.coerce.number().int().min(1).max(500).default(100) });
 export const importProblemsSchema = listResponseSchema(importProblemSchema);
 export type ImportProblems = z.infer<typeof importProblemsSchema>;

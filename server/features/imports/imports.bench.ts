@@ -72,9 +72,9 @@ async function pollHealth() {
 
 async function settle(id: number) {
   for (;;) {
-    const res = await tech.get(`/api/imports/${id}`);
+    // As the client asks: the server holds each poll until the job ends, or 500 ms.
+    const res = await tech.get(`/api/imports/${id}?wait=500`);
     if (res.body.status !== 'previewing' && res.body.status !== 'committing') return res.body;
-    await new Promise((r) => setTimeout(r, 25));
   }
 }
 

@@ -4,6 +4,7 @@ import { idParamsSchema, listQuerySchema } from '../../../shared/schemas/common'
 import {
   commitImportSchema,
   createPresetSchema,
+  importDetailQuerySchema,
   importProblemsQuerySchema,
   previewImportSchema,
   sampleImportSchema,
@@ -30,7 +31,9 @@ export function importsRoutes(deps: FeatureDeps) {
   r.post('/imports/presets', { access: 'technician', status: 201, schemas: { body: createPresetSchema } }, ({ user, body }) =>
     service.createPreset(user, body),
   );
-  r.get('/imports/:id', { access: 'viewer', schemas: id }, ({ params }) => service.detail(params.id));
+  r.get('/imports/:id', { access: 'viewer', schemas: { ...id, query: importDetailQuerySchema } }, ({ params, query }) =>
+    service.detailAfterJob(params.id, query.wait ?? 0),
+  );
   r.get('/imports/:id/problems', { access: 'viewer', schemas: { ...id, query: importProblemsQuerySchema } }, ({ params, query }) =>
     service.problems(params.id, query),
   );

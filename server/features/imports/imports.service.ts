@@ -62,6 +62,8 @@ export function createImportsService(deps: FeatureDeps) {
   const dir = path.join(deps.config.dataDir, 'imports');
   const receive = createReceiver(dir);
   const jobs = new Map<number, { progress: number }>();
+  /** Who waits for an import's job to end (`detail` with a wait): called when it has. */
+  const waiters = new Map<number, Set<() => void>>();
   markStaleJobsFailed(db);
 
   function requireImport(id: number): ImportRow {
@@ -107,6 +109,31 @@ export function createImportsService(deps: FeatureDeps) {
       sameFile: committedWithSha(db, r.sha256, r.id),
       presets: presetsForShape(db, r.shapeKey).map((p) => ({ id: p.id, name: p.name, mapping: p.mapping })),
     };
+  }
+
+  /**
+   * The detail once the running job has ended, or after `waitMs`, whichever comes first; at once when no
+   * job runs. The job's own status write comes before its end is told, so the answer shows the outcome.
+   */
+  async function detailAfterJob(id: number, waitMs: number): Promise<ImportDetail> {
+    if (waitMs > 0 && jobs.has(id)) {
+      await new Promise<void>((resolve) => {
+        let set = waiters.get(id);
+        if (!set) {
+          set = new Set();
+          waiters.set(id, set);
+        }
+        const wake = () => {
+          clearTimeout(timer);
+          set.delete(wake);
+          resolve();
+        };
+        const timer = setTimeout(wake, waitMs);
+        timer.unref();
+        set.add(wake);
+      });
+    }
+    return detail(id);
   }
 
   function list(q: ListQuery): ImportList {
@@ -341,6 +368,8 @@ export function createImportsService(deps: FeatureDeps) {
         updateImport(db, id, { status: failure.status, error: message });
       } finally {
         jobs.delete(id);
+        for (const wake of waiters.get(id) ?? []) wake();
+        waiters.delete(id);
       }
     })();
   }
@@ -464,5 +493,5 @@ export function createImportsService(deps: FeatureDeps) {
     return { preset: { id: p.id, name: p.name, mapping: p.mapping } };
   }
 
-  return { upload, sample, detail, list, problems, problemsCsv, preview, commit, undo, presets, createPreset };
+  return { upload, sample, detail, detailAfterJob, list, problems, problemsCsv, preview, commit, undo, presets, createPreset };
 }

@@ -46,10 +46,10 @@ async function upload(agent: Agent, name: string, bytes: Buffer = fixture(name))
 /** Polls the import, as the client does, until its job has finished. */
 async function settle(agent: Agent, id: number): Promise<ImportDetail> {
   for (;;) {
-    const res = await agent.get(`/api/imports/${id}`);
+    // Held by the server until the job ends (or 2 s), as the client's poll is.
+    const res = await agent.get(`/api/imports/${id}?wait=2000`);
     expect(res.status).toBe(200);
     if (res.body.status !== 'previewing' && res.body.status !== 'committing' && res.body.status !== 'undoing') return res.body;
-    await new Promise((r) => setTimeout(r, 20));
   }
 }
 
@@ -243,6 +243,31 @@ describe('imports: upload, detect, preview, commit, undo', () => {
     const written = s.h.database.db.select().from(weighings).where(eq(weighings.importId, d.id)).all();
     // The later reading of each coupon is kept: rows 40,000 and 40,001 of the file (the header is row 1).
     expect(written.map((w) => w.massG).sort()).toEqual([10.39998, 10.39999]);
+  });
+
+  it('holds a poll of a busy import until its job ends, when asked to wait', async () => {
+    const sp = s.h.database.db.select().from(species).limit(1).get()!;
+    expect((await s.tech.post('/api/coupons').send({ tag: 'LP-01', speciesId: sp.id, role: 'treated' })).status).toBe(201);
+    const lines = ['tag,mass', ...Array.from({ length: 20_000 }, (_, i) => `LP-01,${(10 + i / 100_000).toFixed(5)}`)];
+    const d = (await upload(s.tech, 'long-poll.csv', Buffer.from(`${lines.join('\n')}\n`))).body as ImportDetail;
+    expect((await s.tech.post(`/api/imports/${d.id}/preview`).send({ mapping: mappingFor(d) })).status).toBe(202);
+    // Asked first with a wait (the cap is generous: a preview of this file ends long before on any machine),
+    // then without one. When the second still saw the preview running, the first can only have answered
+    // after it: it waited for the end.
+    const waited = s.tech.get(`/api/imports/${d.id}?wait=10000`).then((r) => r);
+    const meanwhile = await s.tech.get(`/api/imports/${d.id}`);
+    expect(['previewing', 'previewed']).toContain(meanwhile.body.status);
+    const res = await waited;
+    expect(res.status).toBe(200);
+    expect(res.body).toMatchObject({ status: 'previewed', progress: 1 });
+    expect(res.body.counts).toMatchObject({ rows: 20_000, accepted: 1 });
+    // Nothing runs now: answered as it stands.
+    expect((await s.tech.get(`/api/imports/${d.id}?wait=10000`)).body.status).toBe('previewed');
+    for (const wait of ['-1', '10001', 'soon']) {
+      const bad = await s.tech.get(`/api/imports/${d.id}?wait=${wait}`);
+      expect(bad.status).toBe(400);
+      expect(bad.body.error.fieldErrors.wait).toBeDefined();
+    }
   });
 
   it('keeps serving while another connection writes: reads answer, writes are told to try again, a commit waits its turn', async () => {
