@@ -441,6 +441,26 @@ function updateOf(tx: Db, cols: readonly { name: string }[], rows: number) {
 }
 
 /**
+ * The role and resin of these coupons' stored rows, grouped: each pair with its coupons as one JSON array of
+ * ids. When the ids are exactly every id between the smallest and the largest (an import of a run's
+ * coupons, created together: the usual case), they are asked for as that range, which reads the rows in
+ * order without first making a lookup table of the ids (~45 ms less per 100,000 coupons).
+ */
+function rolesAndResins(tx: Db, unique: readonly number[], ids: string): unknown[][] {
+  const group = 'group by role, resin_id';
+  const select = 'select role, resin_id, json_group_array(coupon_id order by coupon_id) from coupon_results';
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (const id of unique) {
+    if (id < lo) lo = id;
+    if (id > hi) hi = id;
+  }
+  // `unique` has no repeats, so as many ids as the range holds are all of them.
+  if (hi - lo + 1 === unique.length) return preparedRaw(tx, `${select} where coupon_id between ? and ? ${group}`).all(lo, hi) as unknown[][];
+  return preparedRaw(tx, `${select} where coupon_id in ${IDS} ${group}`).all(ids) as unknown[][];
+}
+
+/**
  * The refresh after weighings of these stages were added or removed, and nothing else. The keys come from
  * the stored results rows themselves (a reading changes none of them, and every change of a coupon's keys
  * refreshes its row in the same transaction); each coupon's row is computed from its readings, and only
@@ -462,12 +482,7 @@ function refreshAfterWeighings(tx: Db, unique: readonly number[], stages: readon
         ids,
       ) as unknown[][])
     : [];
-  const classes = readStored
-    ? []
-    : (preparedRaw(
-        tx,
-        `select role, resin_id, json_group_array(coupon_id order by coupon_id) from coupon_results where coupon_id in ${IDS} group by role, resin_id`,
-      ).all(ids) as [CouponRole, number | null, string][]);
+  const classes = readStored ? [] : (rolesAndResins(tx, unique, ids) as [CouponRole, number | null, string][]);
   const groupIds = classes.map((c) => JSON.parse(c[2]) as number[]);
   const storedCount = readStored ? rows.length : groupIds.reduce((n, g) => n + g.length, 0);
   let missing: number[] = [];
