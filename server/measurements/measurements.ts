@@ -588,7 +588,7 @@ export function createMeasurements(deps: { now: () => Date }) {
         if (mine) mine.push(w);
         else addedByCoupon.set(e.couponId, [w]);
         if (perSource) {
-          touched.add(e.couponId);
+          // The coupon is among addedByCoupon's keys (above), which stand for `touched` below.
           pending.push(e.couponId, w.stage, w.massG, w.measuredAt);
           if (pending.length === INSERT_ROWS * 4) flush();
           continue;
@@ -614,25 +614,32 @@ export function createMeasurements(deps: { now: () => Date }) {
       }
     }
     flush();
+    // Every coupon once, in the order it first came: those with weighings, then those with only checks.
+    let couponIds: number[];
+    if (perSource) {
+      couponIds = [...addedByCoupon.keys()];
+      for (const id of touched) if (!addedByCoupon.has(id)) couponIds.push(id);
+    } else couponIds = [...perCoupon.keys()];
     if (perSource) {
       const span = (r: number[]) => (r[0] === Infinity ? null : { first: r[0], last: r[1] });
       auditWriter(tx, actor, 'add-readings', 'import')(
         importId as number,
         null,
-        { source, coupons: touched.size, weighings: nw, checks: nc, stages, weighingIds: span(ranges.weighings), checkIds: span(ranges.checks) },
+        { source, coupons: couponIds.length, weighings: nw, checks: nc, stages, weighingIds: span(ranges.weighings), checkIds: span(ranges.checks) },
         options.reason ?? null,
       );
     } else {
       const audit = auditWriter(tx, actor, 'add-readings');
       for (const [couponId, after] of perCoupon) audit(couponId, null, { source, ...after }, options.reason ?? null);
     }
-    const couponIds = perSource ? [...touched] : [...perCoupon.keys()];
     yield 0.5;
     // Weighings alone leave the columns computed from checks, and the masses of other stages, as they are.
     const refresh = refreshResultsInSteps(
       tx,
       couponIds,
-      nc === 0 ? { weighingStages: Object.keys(stages) as WeighingStage[], added: { from: firstId, byCoupon: addedByCoupon } } : {},
+      nc === 0
+        ? { weighingStages: Object.keys(stages) as WeighingStage[], added: { from: firstId, byCoupon: addedByCoupon }, distinct: true }
+        : { distinct: true },
       Math.min(slice, 10_000),
     );
     for (let r = refresh.next(); !r.done; r = refresh.next()) yield 0.5 + 0.5 * r.value;

@@ -323,6 +323,8 @@ export interface RefreshOptions {
    * the rows held rather than reading it.
    */
   added?: AddedWeighings;
+  /** The ids have no repeats (a bulk write's coupons, each once): they are not made unique again. */
+  distinct?: boolean;
 }
 export interface AddedWeighings {
   from: number;
@@ -345,7 +347,7 @@ export function refreshResults(tx: Db, couponIds: readonly number[], options: Re
  */
 export function* refreshResultsInSteps(tx: Db, couponIds: readonly number[], options: RefreshOptions = {}, slice = REFRESH_CHUNK): Steps<number> {
   if (couponIds.length === 0) return 0;
-  const unique = couponIds.length === 1 ? couponIds : [...new Set(couponIds)];
+  const unique = couponIds.length === 1 || options.distinct ? couponIds : [...new Set(couponIds)];
   const stages = options.weighingStages ?? null;
   const added = options.added ?? null;
   let n = 0;
