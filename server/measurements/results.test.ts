@@ -8,7 +8,7 @@ import { runs } from '../db/schema/runs';
 import { couponResults } from '../db/schema/results';
 import { users } from '../db/schema/auth';
 import { createMeasurements } from './measurements';
-import { rebuildResults, refreshResults } from './results';
+import { rebuildResults, refreshResults, resultValues } from './results';
 import { WEIGHING_STAGES, CHECK_STAGES, HARDNESS_SCALES } from '../../shared/constants/records';
 
 type Agent = Awaited<ReturnType<Harness['signIn']>>;
@@ -299,6 +299,41 @@ describe('coupon_results', () => {
     // The sequences must actually change things, not only be refused.
     expect(accepted).toBeGreaterThan(50);
   }, 120_000);
+
+  it('gives a lone weighing no metric: only its own mass column moves (the lone-weighing path of a bulk refresh)', () => {
+    // Every metric needs two readings or a dimension: weight gain and uptake compare two stages, density and
+    // resin loading need a volume, moisture a meter reading or drying checks (moisture content and density as
+    // the Wood Handbook ch. 4 defines them, from memory; weight percent gain as the trade computes it, common practice).
+    const massColumn = { dry: 'dryMassG', soaked: 'soakedMassG', cured: 'curedMassG', 'wet-test': 'wetTestMassG' } as const;
+    fc.assert(
+      fc.property(
+        fc.constantFrom('treated' as const, 'control' as const),
+        fc.option(fc.double({ min: 0.5, max: 2, noNaN: true }), { nil: null }),
+        fc.constantFrom(...(Object.keys(massColumn) as (keyof typeof massColumn)[])),
+        fc.double({ min: 0.001, max: 100_000, noNaN: true }),
+        fc.integer({ min: Date.parse('2000-01-01'), max: Date.parse('2100-01-01') }),
+        (role, curedDensityGcm3, stage, massG, t) => {
+          const keys = {
+            couponId: 7,
+            tag: 'P-7',
+            trialId: null,
+            conditionId: null,
+            runId: null,
+            speciesId: 1,
+            role,
+            sourceBoard: null,
+            resinId: 1,
+            resinLotId: null,
+            curedDensityGcm3,
+          };
+          const none = resultValues(keys, [], []);
+          const one = resultValues(keys, [{ stage, massG, measuredAt: new Date(t).toISOString() }], []);
+          expect(one).toEqual({ ...none, [massColumn[stage]]: massG });
+        },
+      ),
+      { numRuns: 500 },
+    );
+  });
 
   it('judges and refreshes a bulk write of a thousand coupons and more alike whether or not any of them has readings', () => {
     // From 1,000 coupons on, the per-coupon reads are skipped when no coupon in the range of their ids has a
