@@ -1,5 +1,6 @@
 import { createRequire } from 'node:module';
 import { Worker } from 'node:worker_threads';
+import type Database from 'better-sqlite3';
 
 /**
  * A long write (an import's commit or undo, decision 0017) leaves tens of MB of pages in the write-ahead
@@ -53,5 +54,26 @@ function startCheckpoint(file: string): Promise<void> {
     } catch {
       resolve();
     }
+  });
+}
+
+/** SQLite's own automatic checkpoint (pages in the log), which the app's connection keeps (client.ts). */
+const APP_AUTOCHECKPOINT = 1_000;
+/** The checkpoint threads running per app connection: its own automatic checkpoint is off while any runs. */
+const pausedFor = new WeakMap<Database.Database, number>();
+
+/**
+ * The checkpoint of a long write's log in a thread of its own (above), with the app's connection kept from
+ * copying that log itself meanwhile: its next write (the health probe writes every few seconds, a user at
+ * any time) would otherwise run SQLite's automatic checkpoint of tens of MB on the event loop, ~80 ms, just
+ * before the thread does. Its automatic checkpoint is back on when the last such thread has ended.
+ */
+export function checkpointApartFrom(app: Database.Database): Promise<void> {
+  pausedFor.set(app, (pausedFor.get(app) ?? 0) + 1);
+  app.pragma('wal_autocheckpoint = 0');
+  return checkpointApart(app.name).finally(() => {
+    const left = (pausedFor.get(app) ?? 1) - 1;
+    pausedFor.set(app, left);
+    if (left === 0 && app.open) app.pragma(`wal_autocheckpoint = ${APP_AUTOCHECKPOINT}`);
   });
 }

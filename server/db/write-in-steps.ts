@@ -1,7 +1,8 @@
 import { drizzle } from 'drizzle-orm/better-sqlite3';
 import { openSecondConnection, schema, type Db } from './client';
 import { databaseBusy } from './storage-errors';
-import { checkpointApart } from './checkpoint-apart';
+import type Database from 'better-sqlite3';
+import { checkpointApartFrom } from './checkpoint-apart';
 import type { Steps } from '../measurements/steps';
 
 /** How long a long write waits for the write lock held by another connection before it gives up. */
@@ -22,15 +23,16 @@ export type Recover<T> = (db: Db, err: unknown) => { value: T } | null;
  * taken at the start (`BEGIN IMMEDIATE`); while another connection holds it, the work waits its turn
  * without sleeping the thread. On any error the transaction is rolled back, so everything or nothing is
  * written; `recover` may then write what the failure means on the same connection and answer a value
- * instead of the error (null: the error is thrown on).
+ * instead of the error (null: the error is thrown on). `app` is the app's connection: the write opens its own
+ * to the same file, and keeps the app's from copying the log after the commit (checkpoint-apart.ts).
  */
 export async function writeInSteps<T>(
-  file: string,
+  app: Database.Database,
   steps: (db: Db) => Steps<T>,
   onProgress: (fraction: number) => void = () => {},
   recover: Recover<T> = () => null,
 ): Promise<T> {
-  const sqlite = openSecondConnection(file);
+  const sqlite = openSecondConnection(app.name);
   // Its log is copied into the database after the commit by another thread, not by this one at COMMIT.
   sqlite.pragma('wal_autocheckpoint = 0');
   let committed = false;
@@ -64,6 +66,6 @@ export async function writeInSteps<T>(
     }
   } finally {
     sqlite.close();
-    if (committed) void checkpointApart(file);
+    if (committed) void checkpointApartFrom(app);
   }
 }

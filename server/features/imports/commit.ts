@@ -1,3 +1,4 @@
+import type Database from 'better-sqlite3';
 import type { Db } from '../../db/client';
 import { writeAudit } from '../../db/audit';
 import { writeInSteps } from '../../db/write-in-steps';
@@ -221,14 +222,14 @@ function* commitSteps(db: Db, measurements: Measurements, job: CommitJob, now: (
  * back to `previewed`, saying why.
  */
 export function writeCommit(
-  file: string,
+  app: Database.Database,
   measurements: Measurements,
   job: CommitJob,
   now: () => Date,
   onProgress: (f: number) => void = () => {},
 ): Promise<CommitOutcome> {
   return writeInSteps<CommitOutcome>(
-    file,
+    app,
     function* (db) {
       return { status: 'committed', judgedAgain: yield* commitSteps(db, measurements, job, now) };
     },

@@ -451,7 +451,7 @@ export function createImportsService(deps: FeatureDeps) {
       const job: CommitJob | null = await commitJob(actor, r, input, kept, (f) => progress(f * share));
       kept = null;
       if (!job) return;
-      const out = await writeCommit(deps.database.sqlite.name, measurements, job, deps.now, (f) => progress(share + f * (1 - share)));
+      const out = await writeCommit(deps.database.sqlite, measurements, job, deps.now, (f) => progress(share + f * (1 - share)));
       deps.logger.info({ importId: id, status: out.status, judgedAgain: out.judgedAgain }, 'import commit written');
     });
     return detail(id);
@@ -474,7 +474,7 @@ export function createImportsService(deps: FeatureDeps) {
     runJob(
       id,
       async (progress) => {
-        await writeUndo(deps.database.sqlite.name, measurements, { importId: id, actor: { id: actor.id }, reason }, deps.now, progress);
+        await writeUndo(deps.database.sqlite, measurements, { importId: id, actor: { id: actor.id }, reason }, deps.now, progress);
         deps.logger.info({ importId: id }, 'import undo written');
       },
       { status: 'committed', message: 'Something went wrong while undoing this import; nothing was changed' },

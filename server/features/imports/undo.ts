@@ -1,3 +1,4 @@
+import type Database from 'better-sqlite3';
 import type { Db } from '../../db/client';
 import { writeAudit } from '../../db/audit';
 import { writeInSteps } from '../../db/write-in-steps';
@@ -61,6 +62,12 @@ function* undoSteps(db: Db, measurements: Measurements, job: UndoJob, now: () =>
  * second connection, a slice at a time with the event loop free between slices; on any error it is rolled
  * back and nothing of the undo is kept.
  */
-export function writeUndo(file: string, measurements: Measurements, job: UndoJob, now: () => Date, onProgress: (f: number) => void = () => {}): Promise<void> {
-  return writeInSteps(file, (db) => undoSteps(db, measurements, job, now), onProgress);
+export function writeUndo(
+  app: Database.Database,
+  measurements: Measurements,
+  job: UndoJob,
+  now: () => Date,
+  onProgress: (f: number) => void = () => {},
+): Promise<void> {
+  return writeInSteps(app, (db) => undoSteps(db, measurements, job, now), onProgress);
 }
