@@ -578,6 +578,9 @@ function refreshAfterWeighings(tx: Db, unique: readonly number[], stages: readon
     }
     return at;
   };
+  let lastKeys: ResultKeys | null = null;
+  let lastStage: WeighingStage | null = null;
+  let lastCol = -1;
   /** What a row with no readings holds, per role and resin (computed once per pair). */
   const emptyOf = (keys: ResultKeys) => {
     const k = `${keys.role}|${keys.curedDensityGcm3}`;
@@ -609,7 +612,13 @@ function refreshAfterWeighings(tx: Db, unique: readonly number[], stages: readon
       const mine = added.byCoupon.get(keys.couponId) ?? NONE;
       if (mine.length === 1) {
         const w = mine[0] as WeighingReading;
-        const col = loneColumn(keys, w.stage, emptyOf(keys));
+        // The keys object is one per role and resin (below): the last answer is reused while they stay.
+        if (keys !== lastKeys || w.stage !== lastStage) {
+          lastKeys = keys;
+          lastStage = w.stage;
+          lastCol = loneColumn(keys, w.stage, emptyOf(keys));
+        }
+        const col = lastCol;
         if (col >= 0) {
           moved.length = 0;
           moved.push(w.massG);
