@@ -103,11 +103,13 @@ describe('writeInSteps: one transaction on a second connection, the event loop f
     // after the commit); the thread then copies them into the file.
     expect(size()).toBeLessThan(before + 1_000_000);
     // Nor does the app's connection copy them at its next write (SQLite's automatic checkpoint would, on this
-    // thread: the log is past 1,000 pages); the health probe is such a write.
+    // thread: the log is past 1,000 pages). Written at once, with no await before it: the thread, running
+    // beside this one, must not have had the time to copy them first.
     expect(h.database.sqlite.pragma('wal_autocheckpoint', { simple: true })).toBe(0);
-    expect((await tech.get('/api/health')).status).toBe(200);
     h.database.sqlite.exec(insert);
     expect(size()).toBeLessThan(before + 1_000_000);
+    // The health probe, also a write, answers meanwhile.
+    expect((await tech.get('/api/health')).status).toBe(200);
     // checkpointsSettled waits for that thread: whoever removes a data folder awaits it first (harness.close).
     await checkpointsSettled();
     expect(size()).toBeGreaterThan(before + 3_000_000);
